@@ -1,0 +1,109 @@
+// Builds the Express app (exported for supertest); server/index.ts starts it.
+import { existsSync } from 'node:fs';
+import { resolve } from 'node:path';
+import express, { type Request } from 'express';
+import session from 'express-session';
+import connectSessionSequelize from 'connect-session-sequelize';
+import { csrfSync } from 'csrf-sync';
+import helmet from 'helmet';
+import type { Sequelize } from 'sequelize';
+import type { Config } from './config';
+import { Session } from './db/models';
+import { apiNotFound, errorHandler } from './errors';
+import { adminRoutes } from './modules/admin/routes';
+import { createPassport } from './modules/auth/passport';
+import { authRoutes } from './modules/auth/routes';
+import { createAuthService } from './modules/auth/service';
+import { healthRoutes } from './modules/health/routes';
+
+export const SESSION_COOKIE = 'rigshelf.sid';
+
+export interface AppContext {
+  config: Config;
+  sequelize: Sequelize;
+}
+
+export function createApp({ config, sequelize }: AppContext) {
+  const app = express();
+  app.disable('x-powered-by');
+  app.set('trust proxy', config.TRUST_PROXY ? 1 : false);
+
+  app.use(
+    helmet({
+      contentSecurityPolicy: {
+        directives: {
+          // Served over plain HTTP on loopback in development: upgrading would break it.
+          upgradeInsecureRequests: config.isProduction ? [] : null,
+          imgSrc: ["'self'", 'data:', 'blob:'],
+          workerSrc: ["'self'", 'blob:'],
+        },
+      },
+    }),
+  );
+  app.use('/api/health', healthRoutes(sequelize));
+  app.use(express.json({ limit: '1mb' }));
+
+  const SequelizeStore = connectSessionSequelize(session.Store);
+  const store = new SequelizeStore({
+    db: sequelize,
+    table: Session.name,
+    checkExpirationInterval: 15 * 60_000,
+    extendDefaultFields: (defaults: { data: string; expires: Date }, data: { passport?: { user?: number } }) => ({
+      data: defaults.data,
+      expires: defaults.expires,
+      userId: data.passport?.user ?? null,
+    }),
+  });
+  app.use(
+    '/api',
+    session({
+      name: SESSION_COOKIE,
+      secret: config.SESSION_SECRET,
+      store,
+      resave: false,
+      saveUninitialized: false,
+      rolling: true,
+      cookie: {
+        httpOnly: true,
+        sameSite: 'lax',
+        secure: 'auto',
+        maxAge: config.SESSION_MAX_AGE_HOURS * 3600_000,
+      },
+    }),
+  );
+
+  const auth = createAuthService(config);
+  const passport = createPassport(auth);
+  app.use('/api', passport.initialize());
+  app.use('/api', passport.session());
+
+  const { csrfSynchronisedProtection, generateToken } = csrfSync({
+    getTokenFromRequest: (req: Request) => req.get('x-csrf-token'),
+    errorConfig: {
+      statusCode: 403,
+      code: 'csrf_invalid',
+      message: 'The form expired or came from elsewhere (missing or wrong X-CSRF-Token). Reload the page and try again.',
+    },
+  });
+  app.use('/api', csrfSynchronisedProtection);
+
+  app.use('/api/auth', authRoutes({ config, auth, passport, csrfToken: generateToken }));
+  app.use('/api/admin', adminRoutes());
+  app.use('/api', apiNotFound());
+
+  const dist = resolve(config.CLIENT_DIST);
+  if (existsSync(resolve(dist, 'index.html'))) {
+    app.use(express.static(dist, { index: false, maxAge: '1h' }));
+    app.get(/^(?!\/api\/).*/, (_req, res) => res.sendFile(resolve(dist, 'index.html')));
+  }
+
+  app.use(errorHandler({ isProduction: config.isProduction }));
+
+  return {
+    app,
+    /** Stops timers the app owns (the session store's expiry sweep). */
+    close() {
+      (store as unknown as { stopExpiringSessions(): void }).stopExpiringSessions();
+    },
+  };
+}

@@ -1,0 +1,58 @@
+// The one place that reads the server's environment. Validated at start-up: a bad value stops the
+// process with a message that names the variable.
+import { resolve } from 'node:path';
+import { z } from 'zod';
+
+const root = resolve(import.meta.dirname, '..');
+
+const flag = z
+  .enum(['0', '1', 'true', 'false', 'yes', 'no'])
+  .transform((v) => v === '1' || v === 'true' || v === 'yes');
+
+const schema = z
+  .object({
+    NODE_ENV: z.enum(['development', 'test', 'production']).default('development'),
+    HOST: z.string().default('127.0.0.1'),
+    PORT: z.coerce.number().int().min(0).max(65535).default(3000),
+    DB_HOST: z.string().default('127.0.0.1'),
+    DB_PORT: z.coerce.number().int().min(1).max(65535).default(3307),
+    DB_NAME: z.string().regex(/^[A-Za-z0-9_]+$/, 'letters, digits and _ only').default('rigshelf'),
+    DB_USER: z.string().default('rigshelf'),
+    DB_PASSWORD: z.string().min(1, 'DB_PASSWORD is required'),
+    DB_POOL_MAX: z.coerce.number().int().min(1).default(10),
+    SESSION_SECRET: z.string().min(16, 'SESSION_SECRET must be at least 16 characters'),
+    SESSION_MAX_AGE_HOURS: z.coerce.number().positive().default(24 * 14),
+    TRUST_PROXY: flag.default(false),
+    UPLOADS_DIR: z.string().default(resolve(root, 'uploads')),
+    CLIENT_DIST: z.string().default(resolve(root, 'dist')),
+    RIGSHELF_DEMO: flag.optional(),
+    LOGIN_LIMIT_PER_IP: z.coerce.number().int().positive().default(30),
+    LOGIN_LIMIT_PER_ACCOUNT: z.coerce.number().int().positive().default(8),
+    LOGIN_LIMIT_WINDOW_MIN: z.coerce.number().positive().default(15),
+    /** scrypt cost parameter N as a power of two (2^15 = 32 MiB per hash with r = 8). */
+    PASSWORD_SCRYPT_LOG_N: z.coerce.number().int().min(10).max(20).default(15),
+  })
+  .superRefine((env, ctx) => {
+    if (env.NODE_ENV === 'production' && env.SESSION_SECRET.length < 32) {
+      ctx.addIssue({ code: 'custom', path: ['SESSION_SECRET'], message: 'use at least 32 characters in production' });
+    }
+  });
+
+export type Config = Readonly<
+  z.output<typeof schema> & {
+    isProduction: boolean;
+    /** Seed the demo scenario: on by default, off in production unless RIGSHELF_DEMO=1. */
+    seedDemo: boolean;
+  }
+>;
+
+export function loadConfig(env: NodeJS.ProcessEnv = process.env): Config {
+  const parsed = schema.safeParse(env);
+  if (!parsed.success) {
+    const lines = parsed.error.issues.map((i) => `  ${i.path.join('.')}: ${i.message}`);
+    throw new Error(`Invalid configuration:\n${lines.join('\n')}`);
+  }
+  const c = parsed.data;
+  const isProduction = c.NODE_ENV === 'production';
+  return Object.freeze({ ...c, isProduction, seedDemo: c.RIGSHELF_DEMO ?? !isProduction });
+}

@@ -1,0 +1,73 @@
+// Starts Rigshelf: connect, migrate, seed (demo only), listen; closes in order on SIGINT/SIGTERM.
+import { createServer, type Server } from 'node:http';
+import { resolve } from 'node:path';
+import { createApp } from './app';
+import { loadConfig, type Config } from './config';
+import { migrate, seedDemo } from './db/migrator';
+import { createSequelize } from './db/sequelize';
+
+export interface RunningServer {
+  server: Server;
+  url: string;
+  close(): Promise<void>;
+}
+
+export async function startServer(config: Config): Promise<RunningServer> {
+  const sequelize = createSequelize(config);
+  await sequelize.authenticate();
+  const migrations = await migrate(sequelize);
+  if (migrations.length) console.log(`rigshelf: migrations applied: ${migrations.join(', ')}`);
+  if (config.seedDemo) {
+    const seeds = await seedDemo(sequelize);
+    if (seeds.length) console.log(`rigshelf: demo scenario seeded (${seeds.join(', ')})`);
+  }
+
+  const built = createApp({ config, sequelize });
+  const server = createServer(built.app);
+  await new Promise<void>((resolveListen, reject) => {
+    server.once('error', reject);
+    server.listen(config.PORT, config.HOST, () => resolveListen());
+  });
+  const address = server.address();
+  const port = typeof address === 'object' && address ? address.port : config.PORT;
+  const url = `http://${config.HOST}:${port}`;
+
+  return {
+    server,
+    url,
+    async close() {
+      await new Promise<void>((r) => {
+        server.close(() => r());
+        server.closeIdleConnections();
+      });
+      built.close();
+      await sequelize.close();
+    },
+  };
+}
+
+/** Closes the HTTP server, then the DB pool, then whatever `after` stops (MariaDB under `npm start`). */
+export function closeOnSignals(running: RunningServer, after?: () => Promise<void>) {
+  let closing = false;
+  const shutdown = async (signal: string) => {
+    if (closing) return;
+    closing = true;
+    console.log(`rigshelf: ${signal} received, shutting down`);
+    try {
+      await running.close();
+      await after?.();
+      process.exit(0);
+    } catch (err) {
+      console.error(err);
+      process.exit(1);
+    }
+  };
+  process.on('SIGINT', () => void shutdown('SIGINT'));
+  process.on('SIGTERM', () => void shutdown('SIGTERM'));
+}
+
+if (process.argv[1] && resolve(process.argv[1]) === resolve(import.meta.filename)) {
+  const running = await startServer(loadConfig());
+  console.log(`rigshelf: serving ${running.url}`);
+  closeOnSignals(running);
+}

@@ -1,0 +1,47 @@
+import { UniqueConstraintError } from 'sequelize';
+import type { RegisterInput } from '@shared/schemas/auth';
+import type { Config } from '../../config';
+import { User } from '../../db/models';
+import { AppError } from '../../errors';
+import { dummyHash, hashPassword, verifyPassword } from '../../security/password';
+
+export type SignInResult = { ok: true; user: User } | { ok: false; reason: 'credentials' | 'suspended' };
+
+export function createAuthService(config: Config) {
+  const logN = config.PASSWORD_SCRYPT_LOG_N;
+
+  return {
+    async register(input: RegisterInput): Promise<User> {
+      const passwordHash = await hashPassword(input.password, logN);
+      try {
+        return await User.create({ email: input.email, displayName: input.displayName, passwordHash, crewRole: null });
+      } catch (err) {
+        if (err instanceof UniqueConstraintError) {
+          throw new AppError(409, 'email_taken', 'An account with that e-mail address already exists. Sign in instead.', {
+            email: 'An account with that e-mail address already exists.',
+          });
+        }
+        throw err;
+      }
+    },
+
+    async checkCredentials(email: string, password: string): Promise<SignInResult> {
+      const user = await User.findOne({ where: { email: email.trim().toLowerCase() } });
+      if (!user) {
+        await verifyPassword(password, await dummyHash(logN));
+        return { ok: false, reason: 'credentials' };
+      }
+      if (!(await verifyPassword(password, user.passwordHash))) return { ok: false, reason: 'credentials' };
+      if (user.status !== 'active') return { ok: false, reason: 'suspended' };
+      return { ok: true, user };
+    },
+
+    /** The signed-in user for a session, or null when the account is gone or suspended. */
+    async activeUser(id: number): Promise<User | null> {
+      const user = await User.findByPk(id);
+      return user && user.status === 'active' ? user : null;
+    },
+  };
+}
+
+export type AuthService = ReturnType<typeof createAuthService>;

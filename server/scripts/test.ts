@@ -1,0 +1,41 @@
+// `npm test`: a private MariaDB for tests (own data directory and port, never the demo data),
+// Debian's chromium for the browser tests, a fresh client build, then the whole vitest suite.
+import { spawnSync } from 'node:child_process';
+import { existsSync } from 'node:fs';
+import { resolve } from 'node:path';
+import { ensureClientBuilt } from './build-client';
+import { localInstance, root } from './local-env';
+import { aptInstall } from './mariadb';
+
+const CHROMIUM = '/usr/bin/chromium';
+
+const { db, env } = localInstance('test');
+const wasRunning = await db.isAcceptingLogins();
+await db.start();
+await db.provision({
+  database: env.DB_NAME,
+  user: env.DB_USER,
+  password: env.DB_PASSWORD,
+  // each test file makes a database of its own under this prefix
+  extraGrants: ['rigshelf\\_t\\_%'],
+});
+if (!existsSync(CHROMIUM)) {
+  console.log('rigshelf: installing Debian chromium for the browser tests (apt-get)');
+  await aptInstall(['chromium']);
+}
+ensureClientBuilt();
+
+const args = ['run', ...process.argv.slice(2)];
+const result = spawnSync(resolve(root, 'node_modules/.bin/vitest'), args, {
+  cwd: root,
+  stdio: 'inherit',
+  env: {
+    ...process.env,
+    ...env,
+    NODE_ENV: 'test',
+    RIGSHELF_TEST_DB_DIR: db.dir,
+    CHROMIUM_PATH: CHROMIUM,
+  },
+});
+if (!wasRunning) await db.stop();
+process.exit(result.status ?? 1);

@@ -1,0 +1,46 @@
+import { z } from 'zod';
+import { ACCOUNT_STATUSES, ROLES } from '../types';
+
+const email = z
+  .string({ error: 'Enter your e-mail address.' })
+  .trim()
+  .toLowerCase()
+  .max(254, 'That e-mail address is too long.')
+  .pipe(z.email({ error: 'Enter an e-mail address like name@example.com.' }));
+
+export const PASSWORD_MIN = 10;
+
+export const registerSchema = z.object({
+  email,
+  password: z
+    .string({ error: 'Choose a password.' })
+    .min(PASSWORD_MIN, `Use at least ${PASSWORD_MIN} characters.`)
+    .max(200, 'Use at most 200 characters.'),
+  displayName: z
+    .string({ error: 'Enter the name your crew knows you by.' })
+    .trim()
+    .min(2, 'Use at least 2 characters.')
+    .max(80, 'Use at most 80 characters.'),
+});
+export type RegisterInput = z.infer<typeof registerSchema>;
+
+export const loginSchema = z.object({
+  email,
+  password: z.string({ error: 'Enter your password.' }).min(1, 'Enter your password.').max(200),
+});
+export type LoginInput = z.infer<typeof loginSchema>;
+
+export const adminUserPatchSchema = z
+  .object({
+    role: z.enum(ROLES, { error: `Role must be one of: ${ROLES.join(', ')}.` }).optional(),
+    status: z.enum(ACCOUNT_STATUSES, { error: `Status must be one of: ${ACCOUNT_STATUSES.join(', ')}.` }).optional(),
+  })
+  .strict()
+  .refine((v) => v.role !== undefined || v.status !== undefined, {
+    message: 'Send a role, a status, or both.',
+  });
+export type AdminUserPatch = z.infer<typeof adminUserPatchSchema>;
+
+export const idParamSchema = z.object({
+  id: z.coerce.number({ error: 'The id must be a number.' }).int().positive('The id must be a positive number.'),
+});

@@ -1,0 +1,74 @@
+// The one place in the client that calls fetch: JSON in and out, the CSRF token, and the API's
+// error shape turned into ApiError.
+import type { ApiErrorBody } from '@shared/types';
+
+export class ApiError extends Error {
+  constructor(
+    readonly status: number,
+    readonly code: string,
+    message: string,
+    readonly fields: Record<string, string> = {},
+  ) {
+    super(message);
+    this.name = 'ApiError';
+  }
+}
+
+export function isApiError(err: unknown): err is ApiError {
+  return err instanceof ApiError;
+}
+
+let csrfToken: string | null = null;
+
+async function fetchCsrfToken(): Promise<string> {
+  const res = await fetch('/api/auth/csrf', { credentials: 'same-origin' });
+  const body = (await res.json()) as { csrfToken: string };
+  csrfToken = body.csrfToken;
+  return csrfToken;
+}
+
+/** The session changes at sign-in and sign-out, and the CSRF token with it. */
+export function forgetCsrfToken() {
+  csrfToken = null;
+}
+
+type Method = 'GET' | 'POST' | 'PATCH' | 'PUT' | 'DELETE';
+
+async function send<T>(method: Method, path: string, body?: unknown, retried = false): Promise<T> {
+  const headers: Record<string, string> = { Accept: 'application/json' };
+  const isForm = typeof FormData !== 'undefined' && body instanceof FormData;
+  if (body !== undefined && !isForm) headers['Content-Type'] = 'application/json';
+  if (method !== 'GET') headers['X-CSRF-Token'] = csrfToken ?? (await fetchCsrfToken());
+
+  let res: Response;
+  try {
+    res = await fetch(path, {
+      method,
+      headers,
+      credentials: 'same-origin',
+      body: body === undefined ? undefined : isForm ? (body as FormData) : JSON.stringify(body),
+    });
+  } catch {
+    throw new ApiError(0, 'network', 'Rigshelf cannot be reached. Check the connection and try again.');
+  }
+
+  if (res.status === 204) return undefined as T;
+  const text = await res.text();
+  const data = text ? (JSON.parse(text) as unknown) : undefined;
+  if (res.ok) return data as T;
+
+  const error = (data as ApiErrorBody | undefined)?.error;
+  if (res.status === 403 && error?.code === 'csrf_invalid' && !retried) {
+    await fetchCsrfToken();
+    return send<T>(method, path, body, true);
+  }
+  throw new ApiError(res.status, error?.code ?? 'http_' + res.status, error?.message ?? `Request failed (${res.status}).`, error?.fields);
+}
+
+export const http = {
+  get: <T>(path: string) => send<T>('GET', path),
+  post: <T>(path: string, body?: unknown) => send<T>('POST', path, body ?? {}),
+  patch: <T>(path: string, body: unknown) => send<T>('PATCH', path, body),
+  put: <T>(path: string, body: unknown) => send<T>('PUT', path, body),
+  delete: <T>(path: string) => send<T>('DELETE', path),
+};

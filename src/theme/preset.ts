@@ -1,0 +1,71 @@
+// Rigshelf's own look: a deep "cyc green" primary, warm "gaffer amber" for cautions, and slate
+// surfaces with high contrast so screens stay readable on a cart in daylight.
+import Aura from '@primeuix/themes/aura';
+import { definePreset } from '@primeuix/themes';
+
+export const cycGreen = {
+  50: '#eef7f5',
+  100: '#d5ebe6',
+  200: '#abd5cc',
+  300: '#78b8ab',
+  400: '#4a988a',
+  500: '#2f7c6f',
+  600: '#236459',
+  700: '#1d5149',
+  800: '#19423c',
+  900: '#163733',
+  950: '#0b1f1c',
+};
+
+export const gafferAmber = {
+  50: '#fff8eb',
+  100: '#fdebc6',
+  200: '#fad58a',
+  300: '#f6bb4c',
+  400: '#f2a524',
+  500: '#dc860e',
+  600: '#b86509',
+  700: '#92490c',
+  800: '#783b11',
+  900: '#653212',
+  950: '#3a1805',
+};
+
+const slateInk = {
+  0: '#ffffff',
+  50: '#f5f7f7',
+  100: '#e9eded',
+  200: '#d3dada',
+  300: '#b1bcbc',
+  400: '#869595',
+  500: '#657575',
+  600: '#4f5d5d',
+  700: '#404b4c',
+  800: '#2c3435',
+  900: '#1c2223',
+  950: '#111516',
+};
+
+export const RigshelfPreset = definePreset(Aura, {
+  primitive: {
+    borderRadius: { none: '0', xs: '2px', sm: '3px', md: '5px', lg: '7px', xl: '10px' },
+  },
+  semantic: {
+    primary: cycGreen,
+    focusRing: { width: '3px', style: 'solid', color: gafferAmber[400], offset: '2px' },
+    formField: { paddingX: '0.85rem', paddingY: '0.7rem' },
+    colorScheme: {
+      light: {
+        surface: slateInk,
+        primary: { color: cycGreen[700], contrastColor: '#ffffff', hoverColor: cycGreen[800], activeColor: cycGreen[900] },
+        highlight: { background: cycGreen[100], focusBackground: cycGreen[200], color: cycGreen[900], focusColor: cycGreen[950] },
+        text: { color: slateInk[950], mutedColor: slateInk[600], hoverColor: slateInk[900] },
+      },
+      dark: {
+        surface: slateInk,
+        primary: { color: cycGreen[300], contrastColor: cycGreen[950], hoverColor: cycGreen[200], activeColor: cycGreen[100] },
+        highlight: { background: 'rgba(120, 184, 171, 0.18)', focusBackground: 'rgba(120, 184, 171, 0.28)', color: '#ffffff', focusColor: '#ffffff' },
+      },
+    },
+  },
+});

@@ -1,0 +1,81 @@
+// Builds the real app against this test file's own database.
+import request from 'supertest';
+import type { Sequelize } from 'sequelize';
+import { createApp } from '../../server/app';
+import { loadConfig, type Config } from '../../server/config';
+import { migrate, seedDemo } from '../../server/db/migrator';
+import { createSequelize } from '../../server/db/sequelize';
+import { User } from '../../server/db/models';
+import { hashPassword } from '../../server/security/password';
+import type { Role } from '@shared/types';
+
+export interface TestApp {
+  app: ReturnType<typeof createApp>['app'];
+  sequelize: Sequelize;
+  config: Config;
+  close(): Promise<void>;
+}
+
+export function testConfig(overrides: Record<string, string> = {}): Config {
+  return loadConfig({ ...process.env, NODE_ENV: 'test', PASSWORD_SCRYPT_LOG_N: '12', ...overrides });
+}
+
+export async function createTestApp(overrides: Record<string, string> = {}, options: { demo?: boolean } = {}): Promise<TestApp> {
+  const config = testConfig(overrides);
+  const sequelize = createSequelize(config);
+  await migrate(sequelize);
+  if (options.demo) await seedDemo(sequelize);
+  const built = createApp({ config, sequelize });
+  return {
+    app: built.app,
+    sequelize,
+    config,
+    async close() {
+      built.close();
+      await sequelize.close();
+    },
+  };
+}
+
+let counter = 0;
+export async function makeUser(role: Role = 'member', extra: Partial<{ status: 'active' | 'suspended'; password: string }> = {}) {
+  counter += 1;
+  const password = extra.password ?? 'correct horse battery';
+  const user = await User.create({
+    email: `${role}-${counter}-${Date.now()}@crew.test`,
+    displayName: `Test ${role} ${counter}`,
+    passwordHash: await hashPassword(password, 12),
+    role,
+    status: extra.status ?? 'active',
+    crewRole: null,
+  });
+  return { user, email: user.email, password };
+}
+
+/** A supertest agent that keeps cookies and sends the CSRF token on every state-changing call. */
+export async function agentFor(app: TestApp['app']) {
+  const agent = request.agent(app);
+  let token = '';
+  const refresh = async () => {
+    const res = await agent.get('/api/auth/csrf').expect(200);
+    token = res.body.csrfToken;
+    return token;
+  };
+  await refresh();
+  return {
+    agent,
+    refresh,
+    get token() {
+      return token;
+    },
+    get: (url: string) => agent.get(url),
+    post: (url: string) => agent.post(url).set('X-CSRF-Token', token),
+    patch: (url: string) => agent.patch(url).set('X-CSRF-Token', token),
+    delete: (url: string) => agent.delete(url).set('X-CSRF-Token', token),
+    async login(email: string, password: string) {
+      const res = await agent.post('/api/auth/login').set('X-CSRF-Token', token).send({ email, password });
+      if (res.status === 200) await refresh();
+      return res;
+    },
+  };
+}

@@ -1,0 +1,52 @@
+/// <reference types="vitest/config" />
+import { fileURLToPath, URL } from 'node:url';
+import vue from '@vitejs/plugin-vue';
+import { defineConfig } from 'vite';
+
+const alias = {
+  '@': fileURLToPath(new URL('./src', import.meta.url)),
+  '@shared': fileURLToPath(new URL('./shared', import.meta.url)),
+};
+
+export default defineConfig({
+  plugins: [vue()],
+  resolve: { alias },
+  server: {
+    host: '127.0.0.1',
+    port: 5173,
+    proxy: { '/api': process.env.RIGSHELF_API ?? 'http://127.0.0.1:3000' },
+  },
+  build: {
+    chunkSizeWarningLimit: 900,
+  },
+  test: {
+    projects: [
+      {
+        extends: true,
+        test: { name: 'unit', include: ['tests/unit/**/*.test.ts'], environment: 'node' },
+      },
+      {
+        extends: true,
+        test: {
+          name: 'api',
+          include: ['tests/api/**/*.test.ts'],
+          environment: 'node',
+          setupFiles: ['tests/helpers/test-database.ts'],
+          testTimeout: 30_000,
+          hookTimeout: 60_000,
+        },
+      },
+      {
+        extends: true,
+        test: {
+          name: 'e2e',
+          include: ['tests/e2e/**/*.test.ts'],
+          environment: 'node',
+          setupFiles: ['tests/helpers/test-database.ts'],
+          testTimeout: 60_000,
+          hookTimeout: 90_000,
+        },
+      },
+    ],
+  },
+});
