@@ -37,7 +37,7 @@ export class AppError extends Error {
 }
 
 export function apiNotFound(): RequestHandler {
-  return (req, _res, next) => next(AppError.notFound(`There is no API endpoint ${req.method} ${req.path}.`));
+  return (req, _res, next) => next(AppError.notFound(`There is no API endpoint ${req.method} ${req.originalUrl.split('?')[0]}.`));
 }
 
 interface HttpLikeError {

@@ -9,7 +9,8 @@ export function createSequelize(config: Config): Sequelize {
     dialect: 'mariadb',
     logging: false,
     // Fail fast while the database is down so /api/health can say so and requests get a 503.
-    dialectOptions: { connectTimeout: 3000, timezone: 'Etc/GMT0' },
+    dialectOptions: { connectTimeout: 3000 },
+    timezone: '+00:00',
     pool: { max: config.DB_POOL_MAX, min: 0, acquire: 5000, idle: 10_000 },
     define: { underscored: true },
   });

@@ -29,7 +29,7 @@ export function requireRole(role: Role): RequestHandler {
   return (req, _res, next) => {
     const user = currentUser(req);
     if (!user) return next(AppError.unauthorized());
-    if (rank[user.role as Role] < rank[role]) return next(AppError.forbidden(`Only a ${role} can do that.`));
+    if (rank[user.role as Role] < rank[role]) return next(AppError.forbidden(`Only ${role === 'admin' ? 'an admin' : 'a moderator'} can do that.`));
     next();
   };
 }

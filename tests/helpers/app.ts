@@ -5,7 +5,7 @@ import { createApp } from '../../server/app';
 import { loadConfig, type Config } from '../../server/config';
 import { migrate, seedDemo } from '../../server/db/migrator';
 import { createSequelize } from '../../server/db/sequelize';
-import { User } from '../../server/db/models';
+import { initModels, User } from '../../server/db/models';
 import { hashPassword } from '../../server/security/password';
 import type { Role } from '@shared/types';
 
@@ -20,12 +20,17 @@ export function testConfig(overrides: Record<string, string> = {}): Config {
   return loadConfig({ ...process.env, NODE_ENV: 'test', PASSWORD_SCRYPT_LOG_N: '12', ...overrides });
 }
 
+// Sequelize models are classes bound to one instance; when a second app (a "restart") closes,
+// the models go back to the app that is still open.
+const open: Sequelize[] = [];
+
 export async function createTestApp(overrides: Record<string, string> = {}, options: { demo?: boolean } = {}): Promise<TestApp> {
   const config = testConfig(overrides);
   const sequelize = createSequelize(config);
   await migrate(sequelize);
   if (options.demo) await seedDemo(sequelize);
   const built = createApp({ config, sequelize });
+  open.push(sequelize);
   return {
     app: built.app,
     sequelize,
@@ -33,6 +38,8 @@ export async function createTestApp(overrides: Record<string, string> = {}, opti
     async close() {
       built.close();
       await sequelize.close();
+      open.splice(open.indexOf(sequelize), 1);
+      if (open.length) initModels(open[open.length - 1]);
     },
   };
 }

@@ -1,0 +1,103 @@
+import request from 'supertest';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import type { Role } from '@shared/types';
+import { agentFor, createTestApp, makeUser, type TestApp } from '../helpers/app';
+
+let t: TestApp;
+beforeAll(async () => {
+  t = await createTestApp();
+});
+afterAll(async () => {
+  await t.close();
+});
+
+type Who = 'anonymous' | Role;
+
+async function as(who: Who) {
+  const a = await agentFor(t.app);
+  if (who !== 'anonymous') {
+    const { email, password } = await makeUser(who);
+    await a.login(email, password);
+  }
+  return a;
+}
+
+describe('admin routes · role matrix', () => {
+  const expected: Record<Who, number> = { anonymous: 401, member: 403, moderator: 403, admin: 200 };
+
+  for (const who of Object.keys(expected) as Who[]) {
+    it(`GET /api/admin/users as ${who} → ${expected[who]}`, async () => {
+      const a = await as(who);
+      expect((await a.get('/api/admin/users')).status).toBe(expected[who]);
+    });
+
+    it(`PATCH /api/admin/users/:id as ${who} → ${expected[who]}`, async () => {
+      const target = await makeUser();
+      const a = await as(who);
+      expect((await a.patch(`/api/admin/users/${target.user.id}`).send({ role: 'moderator' })).status).toBe(expected[who]);
+    });
+  }
+});
+
+describe('admin · changing accounts', () => {
+  it('lists accounts without password hashes', async () => {
+    const a = await as('admin');
+    const res = await a.get('/api/admin/users');
+    expect(res.body.users.length).toBeGreaterThan(0);
+    for (const u of res.body.users) expect(u).not.toHaveProperty('passwordHash');
+  });
+
+  it('promotes a member to moderator and the change shows at their next request', async () => {
+    const member = await makeUser();
+    const m = await agentFor(t.app);
+    await m.login(member.email, member.password);
+    const a = await as('admin');
+    const res = await a.patch(`/api/admin/users/${member.user.id}`).send({ role: 'moderator' });
+    expect(res.body.user.role).toBe('moderator');
+    expect((await m.get('/api/auth/me')).body.user.role).toBe('moderator');
+  });
+
+  it('refuses an unknown role with 422 naming the allowed roles', async () => {
+    const member = await makeUser();
+    const a = await as('admin');
+    const res = await a.patch(`/api/admin/users/${member.user.id}`).send({ role: 'producer' });
+    expect(res.status).toBe(422);
+    expect(res.body.error.fields.role).toMatch(/member, moderator, admin/);
+  });
+
+  it('refuses an empty change and unknown fields with 422', async () => {
+    const member = await makeUser();
+    const a = await as('admin');
+    expect((await a.patch(`/api/admin/users/${member.user.id}`).send({})).status).toBe(422);
+    expect((await a.patch(`/api/admin/users/${member.user.id}`).send({ email: 'x@y.test' })).status).toBe(422);
+  });
+
+  it('answers 404 for an account that does not exist and 422 for a bad id', async () => {
+    const a = await as('admin');
+    expect((await a.patch('/api/admin/users/999999').send({ role: 'member' })).status).toBe(404);
+    expect((await a.patch('/api/admin/users/abc').send({ role: 'member' })).status).toBe(422);
+  });
+
+  it('does not let an admin change their own role or status (no lock-out)', async () => {
+    const admin = await makeUser('admin');
+    const a = await agentFor(t.app);
+    await a.login(admin.email, admin.password);
+    const res = await a.patch(`/api/admin/users/${admin.user.id}`).send({ role: 'member' });
+    expect(res.status).toBe(409);
+    expect(res.body.error.message).toMatch(/another admin/);
+  });
+
+  it('restores a suspended account so it can sign in again', async () => {
+    const member = await makeUser('member', { status: 'suspended' });
+    const a = await as('admin');
+    await a.patch(`/api/admin/users/${member.user.id}`).send({ status: 'active' }).expect(200);
+    const m = await agentFor(t.app);
+    expect((await m.login(member.email, member.password)).status).toBe(200);
+  });
+
+  it('keeps admin routes closed to a request with a session cookie but no sign-in', async () => {
+    const res = await request(t.app).get('/api/admin/users');
+    expect(res.status).toBe(401);
+    expect(res.body.error.code).toBe('unauthorized');
+  });
+});

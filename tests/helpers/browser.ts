@@ -1,0 +1,63 @@
+// Debian's chromium driven by playwright-core, against the real server on a free loopback port.
+import { mkdirSync } from 'node:fs';
+import { join, resolve } from 'node:path';
+import { chromium, type Browser, type BrowserContext, type Page } from 'playwright-core';
+import { startServer, type RunningServer } from '../../server/index';
+import { testConfig } from './app';
+
+export const ARTIFACTS = resolve(import.meta.dirname, '../../test-results');
+
+export interface BrowserRig {
+  server: RunningServer;
+  browser: Browser;
+  context: BrowserContext;
+  page: Page;
+  close(): Promise<void>;
+  screenshot(name: string): Promise<string>;
+}
+
+export async function startBrowserRig(): Promise<BrowserRig> {
+  const server = await startServer(testConfig({ PORT: '0', RIGSHELF_DEMO: '1' }));
+  const browser = await chromium.launch({
+    executablePath: process.env.CHROMIUM_PATH ?? '/usr/bin/chromium',
+    headless: true,
+    // playwright gives every launch a fresh temporary profile
+    args: [
+      '--no-sandbox',
+      '--disable-gpu',
+      '--disable-quic',
+      '--no-first-run',
+      '--disable-background-networking',
+      '--disable-component-update',
+      '--disable-sync',
+    ],
+  });
+  const context = await browser.newContext({ baseURL: server.url, viewport: { width: 1280, height: 800 } });
+  const page = await context.newPage();
+  const problems: string[] = [];
+  page.on('pageerror', (err) => problems.push(err.message));
+  mkdirSync(ARTIFACTS, { recursive: true });
+  return {
+    server,
+    browser,
+    context,
+    page,
+    async screenshot(name) {
+      const path = join(ARTIFACTS, `${name}.png`);
+      await page.screenshot({ path, fullPage: true });
+      return path;
+    },
+    async close() {
+      await browser.close();
+      await server.close();
+      if (problems.length) throw new Error(`The page threw: ${problems.join('; ')}`);
+    },
+  };
+}
+
+export async function signInThroughForm(page: Page, email: string, password: string) {
+  await page.goto('/sign-in');
+  await page.getByLabel('E-mail').fill(email);
+  await page.locator('#password').fill(password);
+  await page.getByRole('button', { name: 'Sign in' }).click();
+}
