@@ -33,8 +33,11 @@ export type InstanceKind = 'app' | 'test';
  */
 export function localInstance(kind: InstanceKind) {
   const secrets = localSecrets();
-  const port = Number(process.env.DB_PORT ?? (kind === 'app' ? 3307 : 3308));
-  const db = new PrivateMariaDb({ dir: resolve(varDir, kind === 'app' ? 'mariadb' : 'mariadb-test'), port });
+  const defaultPort = kind === 'app' ? 3307 : 3308;
+  const port = Number(process.env.DB_PORT ?? defaultPort);
+  // another port gets its own data directory, so two instances can run side by side
+  const dirName = `${kind === 'app' ? 'mariadb' : 'mariadb-test'}${port === defaultPort ? '' : `-${port}`}`;
+  const db = new PrivateMariaDb({ dir: resolve(varDir, dirName), port });
   const env: Record<string, string> = {
     DB_HOST: '127.0.0.1',
     DB_PORT: String(port),

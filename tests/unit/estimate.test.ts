@@ -1,0 +1,228 @@
+import { describe, expect, it } from 'vitest';
+import {
+  FLOW_EFFICIENCY,
+  LAYER_OVERHEAD_S,
+  LINE_WIDTH_PER_NOZZLE,
+  estimatePrint,
+  filamentLengthM,
+  fitOnBed,
+  spoolsNeeded,
+  type PartGeometry,
+  type PrintSettings,
+  type Size3,
+} from '@shared/estimate';
+import { MM_PER_INCH, inchesToMm } from '@shared/units';
+
+const cube20: PartGeometry = { volumeMm3: 8000, areaMm2: 2400, sizeMm: [20, 20, 20] };
+const pla: PrintSettings = { material: 'PLA', nozzleMm: 0.4, layerMm: 0.2, walls: 2, topBottomLayers: 4, infillPct: 20 };
+
+describe('estimatePrint', () => {
+  it('weighs a solid 20 mm PLA cube at 9.92 g', () => {
+    // Trade reference: PLA 1.24 g/cm³ (UL Prospector, ISO 1183); 8 cm³ × 1.24 g/cm³ = 9.92 g.
+    const estimate = estimatePrint(cube20, { ...pla, infillPct: 100 });
+    expect(estimate.volumeMm3).toBeCloseTo(8000, 9);
+    expect(estimate.massG).toBeCloseTo(9.92, 9);
+  });
+
+  it('gives about 335.3 m of 1.75 mm and 126.4 m of 2.85 mm filament per kg of PLA', () => {
+    // Trade reference: L = m / (ρ·π·(d/2)²) with ρ = 1.24 g/cm³; the ~330 m spool is common practice.
+    expect(filamentLengthM(1000, 1.75, 1.24)).toBeCloseTo(335.3, 1);
+    expect(filamentLengthM(1000, 2.85, 1.24)).toBeCloseTo(126.4, 1);
+    const kilo: PartGeometry = { volumeMm3: 1_000_000 / 1.24, areaMm2: 60_000, sizeMm: [100, 100, 80.645] };
+    const estimate = estimatePrint(kilo, { ...pla, infillPct: 100 });
+    expect(estimate.massG).toBeCloseTo(1000, 6);
+    expect(estimate.lengthM['1.75']).toBeCloseTo(335.3, 1);
+    expect(estimate.lengthM['2.85']).toBeCloseTo(126.4, 1);
+  });
+
+  it('works an example by hand from the documented model', () => {
+    // Line width 0.4 × 1.125 = 0.45 mm (common practice).
+    // Walls 2400 × 2 × 0.45 = 2160 mm³; skins 400 × 4 × 0.2 × 2 = 640 mm³;
+    // infill 20 % × (8000 − 2160 − 640) = 1040 mm³; total 3840 mm³ → 3.84 cm³ × 1.24 = 4.7616 g.
+    // Time 3840 / (60 × 0.2 × 0.45 × 0.6) = 1185.19 s, plus 100 layers × 6 s = 1785.19 s = 29.753 min.
+    // Cost at the default 20 per kg: 4.7616 g → 0.095232.
+    expect(LINE_WIDTH_PER_NOZZLE).toBe(1.125);
+    expect(FLOW_EFFICIENCY).toBe(0.6);
+    expect(LAYER_OVERHEAD_S).toBe(6);
+    const estimate = estimatePrint(cube20, pla);
+    expect(estimate.volumeMm3).toBeCloseTo(3840, 9);
+    expect(estimate.massG).toBeCloseTo(4.7616, 9);
+    expect(estimate.timeMin).toBeCloseTo(1785.185185 / 60, 5);
+    expect(estimate.cost).toBeCloseTo(0.095232, 9);
+    expect(estimate.assumptions.join(' ')).toMatch(/nozzle × 1\.125 \(common practice\)/);
+    expect(estimate.assumptions.join(' ')).toMatch(/Electricity not included/);
+  });
+
+  it('adds electricity when watts and a price per kWh are given', () => {
+    // 120 W × 29.753 min = 59.506 Wh = 0.059506 kWh; × 0.30 per kWh = 0.017852.
+    const estimate = estimatePrint(cube20, { ...pla, printerWatts: 120, pricePerKwh: 0.3 });
+    expect(estimate.cost).toBeCloseTo(0.095232 + (120 * (1785.185185 / 3600)) / 1000 * 0.3, 6);
+    expect(estimate.assumptions.at(-1)).toMatch(/^Electricity: 120 W/);
+  });
+
+  it('does not charge a hollow tube a full slab of top and bottom skin', () => {
+    // Tube 20 mm outside, 16 mm inside, 100 mm tall: cross-section π(10² − 8²) = 113.097 mm².
+    const annulus = Math.PI * (100 - 64);
+    const area = 2 * Math.PI * 10 * 100 + 2 * Math.PI * 8 * 100 + 2 * annulus;
+    const tube: PartGeometry = { volumeMm3: annulus * 100, areaMm2: area, sizeMm: [20, 20, 100] };
+    const estimate = estimatePrint(tube, { ...pla, walls: 1, infillPct: 0 });
+    expect(estimate.volumeMm3).toBeCloseTo(area * 0.45 + annulus * 4 * 0.2 * 2, 6);
+  });
+
+  it('never exceeds the solid volume', () => {
+    const thinPlate: PartGeometry = { volumeMm3: 100 * 100 * 1, areaMm2: 2 * 100 * 100 + 400, sizeMm: [100, 100, 1] };
+    expect(estimatePrint(thinPlate, { ...pla, walls: 4, topBottomLayers: 5 }).volumeMm3).toBe(10_000);
+  });
+
+  const shapes: PartGeometry[] = [
+    cube20,
+    { volumeMm3: 100 * 40 * 3, areaMm2: 2 * (100 * 40 + 100 * 3 + 40 * 3), sizeMm: [100, 40, 3] },
+    { volumeMm3: 11_309.7, areaMm2: 11_535.2, sizeMm: [20, 20, 100] },
+  ];
+
+  it('never weighs less with more infill', () => {
+    for (const shape of shapes) {
+      let previous = -Infinity;
+      for (let infillPct = 0; infillPct <= 100; infillPct += 5) {
+        const { massG } = estimatePrint(shape, { ...pla, infillPct });
+        expect(massG).toBeGreaterThanOrEqual(previous);
+        previous = massG;
+      }
+    }
+  });
+
+  it('never prints slower with a bigger nozzle at equal speed and layer height', () => {
+    for (const shape of shapes) {
+      for (const infillPct of [0, 15, 40, 100]) {
+        let previous = Infinity;
+        for (const nozzleMm of [0.25, 0.3, 0.4, 0.5, 0.6, 0.8, 1.0]) {
+          const { timeMin } = estimatePrint(shape, { ...pla, infillPct, nozzleMm, layerMm: 0.2 });
+          expect(timeMin).toBeLessThanOrEqual(previous + 1e-9);
+          previous = timeMin;
+        }
+      }
+    }
+  });
+
+  it('rejects impossible settings', () => {
+    expect(() => estimatePrint(cube20, { ...pla, layerMm: 0 })).toThrow(RangeError);
+    expect(() => estimatePrint(cube20, { ...pla, infillPct: 120 })).toThrow(RangeError);
+    expect(() => estimatePrint({ ...cube20, volumeMm3: -1 }, pla)).toThrow(RangeError);
+  });
+});
+
+describe('spoolsNeeded', () => {
+  it('rounds up to whole spools', () => {
+    expect(spoolsNeeded(0)).toBe(0);
+    expect(spoolsNeeded(1)).toBe(1);
+    expect(spoolsNeeded(1000)).toBe(1);
+    expect(spoolsNeeded(1000.5)).toBe(2);
+    expect(spoolsNeeded(2500, 750)).toBe(4);
+    expect(() => spoolsNeeded(10, 0)).toThrow(RangeError);
+  });
+});
+
+/** Brute force: does a p × q rectangle fit an a × b one at some angle? Returns the best slack in mm. */
+function sweepSlack(p: number, q: number, a: number, b: number, steps = 100_000): number {
+  let best = -Infinity;
+  for (let i = 0; i <= steps; i++) {
+    const angle = (i / steps) * (Math.PI / 2);
+    const width = p * Math.cos(angle) + q * Math.sin(angle);
+    const depth = p * Math.sin(angle) + q * Math.cos(angle);
+    best = Math.max(best, Math.min(a - width, b - depth));
+  }
+  return best;
+}
+
+/** Footprint extents along bed x and y when the long side is turned angleDeg from x. */
+function extentsAt(p: number, q: number, angleDeg: number): [number, number] {
+  const angle = (angleDeg * Math.PI) / 180;
+  return [p * Math.cos(angle) + q * Math.sin(angle), p * Math.sin(angle) + q * Math.cos(angle)];
+}
+
+describe('fitOnBed', () => {
+  const bed: Size3 = [250, 210, 60];
+
+  it('fits a part that fits as modelled', () => {
+    expect(fitOnBed([240, 200, 50], bed)).toMatchObject({ fits: 'as-is', orientation: [240, 200, 50] });
+  });
+
+  it.each([
+    [200, 240, 50],
+    [240, 50, 200],
+    [50, 240, 200],
+    [200, 50, 240],
+    [50, 200, 240],
+  ] as const)('turns %d × %d × %d to 240 × 200 × 50', (...part) => {
+    const fit = fitOnBed(part, bed);
+    expect(fit.fits).toBe('rotated');
+    expect(fit.orientation).toEqual([240, 200, 50]);
+    expect(fit.message).toBe('Fits if turned to 240 × 200 × 50 mm (x × y × z).');
+  });
+
+  it('fits a part exactly the size of the bed', () => {
+    expect(fitOnBed([250, 210, 60], bed).fits).toBe('as-is');
+  });
+
+  it('lays a long part diagonally when that is the only way', () => {
+    // At 45° a 290 × 20 footprint spans (290 + 20)/√2 = 219.2 mm ≤ 220 mm.
+    expect(sweepSlack(290, 20, 220, 220)).toBeGreaterThan(0);
+    const fit = fitOnBed([290, 20, 10], [220, 220, 250]);
+    expect(fit.fits).toBe('diagonal');
+    expect(fit.orientation).toEqual([290, 20, 10]);
+    const [x, y] = extentsAt(290, 20, fit.angleDeg!);
+    expect(x).toBeLessThanOrEqual(220 + 1e-6);
+    expect(y).toBeLessThanOrEqual(220 + 1e-6);
+    expect(fit.message).toMatch(/^Fits only diagonally/);
+  });
+
+  it('stands a 300 × 20 × 10 mm part on its edge to fit it diagonally', () => {
+    // Lying flat, 300 × 20 spans 320/√2 = 226.3 mm at 45°; on its 300 × 10 edge, 310/√2 = 219.2 mm.
+    expect(sweepSlack(300, 20, 220, 220)).toBeLessThan(0);
+    expect(sweepSlack(300, 10, 220, 220)).toBeGreaterThan(0);
+    expect(fitOnBed([300, 20, 10], [220, 220, 250])).toMatchObject({ fits: 'diagonal', orientation: [300, 10, 20] });
+  });
+
+  it('refuses a 300 × 20 × 20 mm part on a 220 × 220 × 250 mm bed', () => {
+    // Every face is 300 × 20 (no angle fits, as above) and 300 mm is taller than the bed.
+    const fit = fitOnBed([300, 20, 20], [220, 220, 250]);
+    expect(fit.fits).toBe('no');
+    expect(fit.message).toMatch(/Too big for the 220 × 220 × 250 mm bed/);
+  });
+
+  it('stands a part up when it fits no other way', () => {
+    expect(fitOnBed([300, 20, 10], [220, 220, 320])).toMatchObject({ fits: 'rotated', orientation: [20, 10, 300] });
+  });
+
+  it('agrees with a brute-force angle sweep (Carver 1956, from memory) on random footprints', () => {
+    let seed = 12345;
+    const random = () => {
+      seed = (seed * 1103515245 + 12345) % 2 ** 31; // ANSI C linear congruential generator
+      return seed / 2 ** 31;
+    };
+    let diagonalCases = 0;
+    for (let trial = 0; trial < 400; trial++) {
+      const bedX = 100 + random() * 250;
+      const bedY = 100 + random() * 250;
+      const long = Math.max(bedX, bedY) * (0.9 + random() * 0.45);
+      const short = 7 + random() * 60; // taller than the bed, so the part can only lie flat
+      const slack = sweepSlack(long, short, Math.max(bedX, bedY), Math.min(bedX, bedY), 20_000);
+      if (Math.abs(slack) < 0.05) continue; // too close to call at this sweep resolution
+      const fit = fitOnBed([long, short, 5], [bedX, bedY, 6]);
+      expect(fit.fits === 'no', `${long} × ${short} on ${bedX} × ${bedY}`).toBe(slack < 0);
+      if (fit.fits === 'diagonal') {
+        diagonalCases++;
+        const [x, y] = extentsAt(long, short, fit.angleDeg!);
+        expect(x).toBeLessThanOrEqual(bedX + 1e-6);
+        expect(y).toBeLessThanOrEqual(bedY + 1e-6);
+      }
+    }
+    expect(diagonalCases).toBeGreaterThan(10);
+  });
+
+  it('reads an inch-sized part (1 in = 25.4 mm exactly, NIST SP 811)', () => {
+    expect(MM_PER_INCH).toBe(25.4);
+    const part: Size3 = [inchesToMm(9), inchesToMm(8), inchesToMm(2)]; // 228.6 × 203.2 × 50.8 mm
+    expect(fitOnBed(part, bed).fits).toBe('as-is');
+  });
+});

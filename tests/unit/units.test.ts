@@ -1,0 +1,66 @@
+import { describe, expect, it } from 'vitest';
+import { MM_PER_INCH, inchesToMm, mmToInches, parseLength } from '@shared/units';
+
+describe('inch conversion', () => {
+  it('uses 1 in = 25.4 mm exactly', () => {
+    // International yard and pound agreement, 1959; NIST SP 811 Appendix B.
+    expect(MM_PER_INCH).toBe(25.4);
+    expect(inchesToMm(1)).toBe(25.4);
+    expect(mmToInches(25.4)).toBe(1);
+  });
+
+  it('converts camera thread sizes without float noise', () => {
+    // ISO 1222 / ASME B1.1 designations: 1/4 in = 6.35 mm, 3/8 in = 9.525 mm (trade reference).
+    expect(inchesToMm(0.25)).toBe(6.35);
+    expect(inchesToMm(0.375)).toBe(9.525);
+    // 38 mm tripod-head dovetail: 1.5 in = 38.1 mm (trade reference, secondary).
+    expect(inchesToMm(1.5)).toBe(38.1);
+    expect(inchesToMm(3.5)).toBe(88.9);
+    expect(mmToInches(6.35)).toBe(0.25);
+  });
+
+  it('round-trips', () => {
+    for (const mm of [0, 0.1, 1, 15, 19, 60, 104, 300]) {
+      expect(inchesToMm(mmToInches(mm))).toBeCloseTo(mm, 12);
+    }
+  });
+});
+
+describe('parseLength', () => {
+  it.each([
+    ['15', 15],
+    ['15mm', 15],
+    ['15 mm', 15],
+    [' 15 MM ', 15],
+    ['0.4 mm', 0.4],
+    ['.5mm', 0.5],
+    ['1.5 cm', 15],
+    ['19 millimetres', 19],
+  ])('reads %j as %d mm', (text, mm) => {
+    expect(parseLength(text)).toBe(mm);
+  });
+
+  // Expected values: inches × 25.4 (exact definition, NIST SP 811 Appendix B), worked by hand.
+  it.each([
+    ['3.5in', 88.9],
+    ['3.5 in', 88.9],
+    ['3.5"', 88.9],
+    ['3.5 inches', 88.9],
+    ['1/4"', 6.35], // 25.4 / 4
+    ['1/4 inch', 6.35],
+    ['3/8"', 9.525], // 25.4 × 3 / 8
+    ['1-1/4in', 31.75], // 25.4 × 5 / 4
+    ['1 1/4 in', 31.75],
+    ['1.5″', 38.1],
+    ['0.206 in', 5.2324], // MIL-STD-1913 slot width 0.206 in (trade reference: 5.23 mm)
+  ])('reads %j as %d mm', (text, mm) => {
+    expect(parseLength(text)).toBe(mm);
+  });
+
+  it.each(['', 'mm', 'abc', '-3 mm', '1/0"', '1-1/0 in', '3.5 ft', '3,5 mm', '15 mm mm', 'quarter inch', '1e3'])(
+    'rejects %j',
+    (text) => {
+      expect(parseLength(text)).toBeNull();
+    },
+  );
+});
