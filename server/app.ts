@@ -15,6 +15,12 @@ import { createPassport } from './modules/auth/passport';
 import { authRoutes } from './modules/auth/routes';
 import { createAuthService } from './modules/auth/service';
 import { healthRoutes } from './modules/health/routes';
+import { PhotoQueue } from './modules/files/photo-queue';
+import { uploadDirs } from './modules/files/storage';
+import { multerErrors } from './modules/files/upload';
+import { partsRoutes } from './modules/parts/routes';
+import { createPartsService } from './modules/parts/service';
+import { vocabRoutes } from './modules/vocab/routes';
 
 export const SESSION_COOKIE = 'rigshelf.sid';
 
@@ -72,6 +78,10 @@ export function createApp({ config, sequelize }: AppContext) {
     }),
   );
 
+  const dirs = uploadDirs(config.UPLOADS_DIR);
+  const photos = new PhotoQueue();
+  const parts = createPartsService({ sequelize, dirs, photos });
+
   const auth = createAuthService(config);
   const passport = createPassport(auth);
   app.use('/api', passport.initialize());
@@ -89,6 +99,8 @@ export function createApp({ config, sequelize }: AppContext) {
 
   app.use('/api/auth', authRoutes({ config, auth, passport, csrfToken: generateToken }));
   app.use('/api/admin', adminRoutes());
+  app.use('/api/vocab', vocabRoutes());
+  app.use('/api/parts', partsRoutes(parts, dirs));
   app.use('/api', apiNotFound());
 
   const dist = resolve(config.CLIENT_DIST);
@@ -97,12 +109,16 @@ export function createApp({ config, sequelize }: AppContext) {
     app.get(/^(?!\/api\/).*/, (_req, res) => res.sendFile(resolve(dist, 'index.html')));
   }
 
+  app.use(multerErrors);
   app.use(errorHandler({ isProduction: config.isProduction }));
 
   return {
     app,
-    /** Stops timers the app owns (the session store's expiry sweep). */
-    close() {
+    services: { parts },
+    /** Waits for photo work in hand, then stops the worker and the session store's expiry sweep. */
+    async close() {
+      await parts.photosSettled();
+      await photos.close();
       (store as unknown as { stopExpiringSessions(): void }).stopExpiringSessions();
     },
   };

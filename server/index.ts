@@ -23,6 +23,10 @@ export async function startServer(config: Config): Promise<RunningServer> {
   }
 
   const built = createApp({ config, sequelize });
+  const recovered = await built.services.parts.recover();
+  if (recovered.removed || recovered.resumed) {
+    console.log(`rigshelf: upload sweep removed ${recovered.removed} orphaned file(s), resumed ${recovered.resumed} photo(s)`);
+  }
   const server = createServer(built.app);
   await new Promise<void>((resolveListen, reject) => {
     server.once('error', reject);
@@ -40,7 +44,7 @@ export async function startServer(config: Config): Promise<RunningServer> {
         server.close(() => r());
         server.closeIdleConnections();
       });
-      built.close();
+      await built.close();
       await sequelize.close();
     },
   };

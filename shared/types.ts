@@ -28,3 +28,60 @@ export interface HealthStatus {
   status: 'ok' | 'degraded';
   db: 'up' | 'down';
 }
+
+export const PART_STATUSES = ['draft', 'in_review', 'published', 'sent_back', 'rejected', 'retired'] as const;
+export type PartStatus = (typeof PART_STATUSES)[number];
+export type RevisionStatus = 'draft' | 'in_review' | 'published' | 'sent_back' | 'rejected' | 'superseded';
+export type FileKind = 'model' | 'photo' | 'source';
+
+export interface CameraBodyInfo {
+  slug: string;
+  maker: string;
+  model: string;
+  aliases: string[];
+}
+
+export interface LicenceRef {
+  id: string;
+  name: string;
+  url: string;
+}
+
+export interface PartFileInfo {
+  id: number;
+  kind: FileKind;
+  name: string;
+  sizeBytes: number;
+  sha256: string;
+  format: string | null;
+  /** Mesh figures of a model file (mm, mm², mm³). */
+  analysis: {
+    sizeMm: [number, number, number];
+    volumeMm3: number;
+    areaMm2: number;
+    facets: number;
+    watertight: boolean;
+    shells: number;
+    insideOut: boolean;
+    degenerateFacets: number;
+    warnings: string[];
+  } | null;
+  /** Photos: processing state and the URLs of the cleaned images once ready. */
+  processing: 'ready' | 'pending' | 'failed';
+  thumbnailUrl: string | null;
+  displayUrl: string | null;
+  downloadUrl: string;
+}
+
+export interface PartSummary {
+  id: number;
+  slug: string;
+  title: string;
+  summary: string;
+  status: PartStatus;
+  category: string;
+  author: { id: number; displayName: string };
+  thumbnailUrl: string | null;
+  sizeMm: [number, number, number] | null;
+  updatedAt: string;
+}

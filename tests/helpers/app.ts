@@ -1,5 +1,9 @@
 // Builds the real app against this test file's own database.
+import { mkdtempSync, rmSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
 import request from 'supertest';
+import { afterAll } from 'vitest';
 import type { Sequelize } from 'sequelize';
 import { createApp } from '../../server/app';
 import { loadConfig, type Config } from '../../server/config';
@@ -11,13 +15,18 @@ import type { Role } from '@shared/types';
 
 export interface TestApp {
   app: ReturnType<typeof createApp>['app'];
+  services: ReturnType<typeof createApp>['services'];
   sequelize: Sequelize;
   config: Config;
   close(): Promise<void>;
 }
 
+// Each test file keeps its uploads apart, so one file's start-up sweep never sees another's files.
+export const uploadsDir = mkdtempSync(join(tmpdir(), 'rigshelf-uploads-'));
+afterAll(() => rmSync(uploadsDir, { recursive: true, force: true }));
+
 export function testConfig(overrides: Record<string, string> = {}): Config {
-  return loadConfig({ ...process.env, NODE_ENV: 'test', PASSWORD_SCRYPT_LOG_N: '12', ...overrides });
+  return loadConfig({ ...process.env, NODE_ENV: 'test', PASSWORD_SCRYPT_LOG_N: '12', UPLOADS_DIR: uploadsDir, ...overrides });
 }
 
 // Sequelize models are classes bound to one instance; when a second app (a "restart") closes,
@@ -33,10 +42,11 @@ export async function createTestApp(overrides: Record<string, string> = {}, opti
   open.push(sequelize);
   return {
     app: built.app,
+    services: built.services,
     sequelize,
     config,
     async close() {
-      built.close();
+      await built.close();
       await sequelize.close();
       open.splice(open.indexOf(sequelize), 1);
       if (open.length) initModels(open[open.length - 1]);

@@ -1,11 +1,56 @@
 // Every model is initialised here and every association is declared here, in one place.
-import type { Sequelize } from 'sequelize';
+import { DataTypes, Model, type Sequelize } from 'sequelize';
+import { CameraBody, initCameraBody } from './camera-body';
+import { initPart, Part } from './part';
+import { initPartFile, PartFile } from './part-file';
+import { initPartRevision, PartRevision } from './part-revision';
+import { initRecipe, Recipe } from './recipe';
 import { initSession, Session } from './session';
 import { initUser, User } from './user';
 
-export { Session, User };
+export { CameraBody, Part, PartFile, PartRevision, Recipe, Session, User };
+
+/** Join rows: which camera bodies a revision fits, which files a revision shows (in order). */
+export class RevisionBody extends Model {}
+export class RevisionFile extends Model {
+  declare revisionId: number;
+  declare fileId: number;
+  declare position: number;
+}
 
 export function initModels(sequelize: Sequelize) {
   initUser(sequelize);
   initSession(sequelize);
+  initCameraBody(sequelize);
+  initPart(sequelize);
+  initPartRevision(sequelize);
+  initRecipe(sequelize);
+  initPartFile(sequelize);
+  RevisionBody.init(
+    {
+      revisionId: { type: DataTypes.INTEGER.UNSIGNED, primaryKey: true },
+      bodyId: { type: DataTypes.INTEGER.UNSIGNED, primaryKey: true },
+    },
+    { sequelize, tableName: 'revision_bodies', modelName: 'RevisionBody', timestamps: false },
+  );
+  RevisionFile.init(
+    {
+      revisionId: { type: DataTypes.INTEGER.UNSIGNED, primaryKey: true },
+      fileId: { type: DataTypes.INTEGER.UNSIGNED, primaryKey: true },
+      position: { type: DataTypes.INTEGER.UNSIGNED, allowNull: false, defaultValue: 0 },
+    },
+    { sequelize, tableName: 'revision_files', modelName: 'RevisionFile', timestamps: false },
+  );
+
+  Part.belongsTo(User, { as: 'author', foreignKey: 'authorId' });
+  Part.belongsTo(Part, { as: 'parent', foreignKey: 'parentId' });
+  Part.hasMany(Part, { as: 'adaptations', foreignKey: 'parentId' });
+  Part.belongsTo(PartRevision, { as: 'publishedRevision', foreignKey: 'publishedRevisionId', constraints: false });
+  Part.belongsTo(PartRevision, { as: 'latestRevision', foreignKey: 'latestRevisionId', constraints: false });
+  Part.hasMany(PartRevision, { as: 'revisions', foreignKey: 'partId' });
+  Part.hasMany(PartFile, { as: 'allFiles', foreignKey: 'partId' });
+  PartRevision.belongsTo(Part, { as: 'part', foreignKey: 'partId' });
+  PartRevision.hasMany(Recipe, { as: 'recipes', foreignKey: 'revisionId' });
+  PartRevision.belongsToMany(CameraBody, { as: 'bodies', through: RevisionBody, foreignKey: 'revisionId', otherKey: 'bodyId' });
+  PartRevision.belongsToMany(PartFile, { as: 'files', through: RevisionFile, foreignKey: 'revisionId', otherKey: 'fileId' });
 }

@@ -1,0 +1,116 @@
+// multer in front of every multipart route: files land in uploads/tmp under random names, limits
+// are answered with 413/422 messages, and whatever the request did not claim is removed when it ends.
+import { createHash } from 'node:crypto';
+import { createReadStream } from 'node:fs';
+import { rm } from 'node:fs/promises';
+import type { ErrorRequestHandler, Request, RequestHandler, Response } from 'express';
+import multer from 'multer';
+import { AppError } from '../../errors';
+import { displayName } from './sniff';
+import { randomStoredName } from './storage';
+import type { UploadDirs } from './storage';
+
+export const LIMITS = {
+  modelBytes: 100 * 1024 * 1024,
+  photoBytes: 15 * 1024 * 1024,
+  sourceBytes: 100 * 1024 * 1024,
+  filesPerRequest: 12,
+} as const;
+
+export const FILE_FIELDS = ['model', 'photo', 'source'] as const;
+export type FileField = (typeof FILE_FIELDS)[number];
+
+export interface UploadedFile {
+  field: FileField;
+  path: string;
+  originalName: string;
+  size: number;
+}
+
+const mb = (bytes: number) => `${Math.round(bytes / 1024 / 1024)} MB`;
+
+export function uploadMiddleware(dirs: UploadDirs): RequestHandler[] {
+  const upload = multer({
+    storage: multer.diskStorage({
+      destination: dirs.tmp,
+      filename: (_req, _file, cb) => cb(null, randomStoredName('.upload')),
+    }),
+    limits: {
+      fileSize: Math.max(LIMITS.modelBytes, LIMITS.sourceBytes),
+      files: LIMITS.filesPerRequest,
+      fields: 60,
+      fieldSize: 1024 * 1024,
+    },
+  }).fields(FILE_FIELDS.map((name) => ({ name, maxCount: LIMITS.filesPerRequest })));
+
+  // a safety net for requests that end without reaching withUploads (e.g. the client went away)
+  const cleanup: RequestHandler = (req, res, next) => {
+    res.once('close', () => void removeUploads(req));
+    next();
+  };
+  return [cleanup, upload];
+}
+
+/**
+ * Wraps a handler of a multipart route: whatever uploads it did not move into place are removed
+ * before the response goes out, success or failure.
+ */
+export function withUploads(handler: (req: Request, res: Response) => Promise<void>): RequestHandler {
+  return async (req, res) => {
+    try {
+      await handler(req, res);
+    } finally {
+      await removeUploads(req);
+    }
+  };
+}
+
+export const multerErrors: ErrorRequestHandler = (err, req, _res, next) => {
+  if (!(err instanceof multer.MulterError)) return next(err);
+  removeUploads(req).finally(() => next(translateMulterError(err)));
+};
+
+function translateMulterError(err: multer.MulterError): AppError {
+  switch (err.code) {
+    case 'LIMIT_FILE_SIZE':
+      return new AppError(413, 'file_too_large', `A file is larger than ${mb(LIMITS.modelBytes)}. Reduce it (e.g. export with fewer facets) and try again.`);
+    case 'LIMIT_FILE_COUNT':
+      return (new AppError(413, 'too_many_files', `Send at most ${LIMITS.filesPerRequest} files in one upload; add the rest afterwards.`));
+    case 'LIMIT_UNEXPECTED_FILE':
+      return (new AppError(422, 'unexpected_file', `Files go in the fields ${FILE_FIELDS.join(', ')}; "${err.field}" is not one of them.`));
+    case 'LIMIT_FIELD_VALUE':
+    case 'LIMIT_FIELD_COUNT':
+    case 'LIMIT_FIELD_KEY':
+    case 'LIMIT_PART_COUNT':
+      return new AppError(413, 'form_too_large', 'The form is too large. Shorten the description or send fewer fields.');
+    default:
+      return new AppError(422, 'upload_failed', `The upload could not be read (${err.message}). Try again.`);
+  }
+}
+
+export function uploadedFiles(req: Request): UploadedFile[] {
+  const files = (req.files ?? {}) as Record<string, Express.Multer.File[]>;
+  return FILE_FIELDS.flatMap((field) =>
+    (files[field] ?? []).map((f) => ({
+      field,
+      path: f.path,
+      // multer decodes names as latin1; browsers send UTF-8
+      originalName: displayName(Buffer.from(f.originalname, 'latin1').toString('utf8')),
+      size: f.size,
+    })),
+  );
+}
+
+async function removeUploads(req: Request) {
+  await Promise.all(uploadedFiles(req).map((f) => rm(f.path, { force: true })));
+}
+
+export function sha256File(path: string): Promise<string> {
+  return new Promise((resolve, reject) => {
+    const hash = createHash('sha256');
+    createReadStream(path)
+      .on('data', (chunk) => hash.update(chunk))
+      .on('end', () => resolve(hash.digest('hex')))
+      .on('error', reject);
+  });
+}

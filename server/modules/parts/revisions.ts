@@ -1,0 +1,109 @@
+// Writing revisions: a published revision is never edited in place. Changes to a published part go
+// into a new revision (in review) and the published one stays on the shelf until that is approved.
+import { Op, type Transaction } from 'sequelize';
+import type { PartSubmission, PartUpdate } from '@shared/schemas/part';
+import type { PartStatus } from '@shared/types';
+import { CameraBody, Part, PartRevision, Recipe, RevisionBody, RevisionFile, type User } from '../../db/models';
+import { AppError } from '../../errors';
+import { renderMarkdown } from './markdown';
+
+type RevisionFields = Omit<PartUpdate, 'bodies' | 'recipes' | 'safety' | 'description'> & {
+  description?: string;
+  safety?: PartSubmission['safety'];
+};
+
+export function revisionColumns(input: RevisionFields) {
+  return {
+    ...(input.title !== undefined && { title: input.title }),
+    ...(input.summary !== undefined && { summary: input.summary }),
+    ...(input.description !== undefined && { descriptionMd: input.description, descriptionHtml: renderMarkdown(input.description) }),
+    ...(input.category !== undefined && { category: input.category }),
+    ...(input.licence !== undefined && { licence: input.licence }),
+    ...(input.mounts !== undefined && { mounts: input.mounts }),
+    ...(input.keyDimensions !== undefined && { keyDimensions: input.keyDimensions }),
+    ...(input.testedLoadKg !== undefined && { testedLoadKg: input.testedLoadKg ?? null }),
+    ...(input.safety !== undefined && input.safety),
+  };
+}
+
+/** Resolves camera-body slugs to ids, with a field message naming any that are unknown. */
+export async function bodyIdsFor(slugs: string[], transaction?: Transaction): Promise<number[]> {
+  const unique = [...new Set(slugs)];
+  if (!unique.length) return [];
+  const bodies = await CameraBody.findAll({ where: { slug: { [Op.in]: unique } }, transaction });
+  const unknown = unique.filter((s) => !bodies.some((b) => b.slug === s));
+  if (unknown.length) {
+    throw new AppError(422, 'validation_failed', 'Some fields need another look.', {
+      bodies: `Unknown camera body: ${unknown.join(', ')}. Pick bodies from the list.`,
+    });
+  }
+  return bodies.map((b) => b.id);
+}
+
+export async function replaceBodies(revisionId: number, bodyIds: number[], transaction: Transaction) {
+  await RevisionBody.destroy({ where: { revisionId }, transaction });
+  await RevisionBody.bulkCreate(bodyIds.map((bodyId) => ({ revisionId, bodyId })), { transaction });
+}
+
+export async function replaceRecipes(revisionId: number, recipes: PartSubmission['recipes'], transaction: Transaction) {
+  await Recipe.destroy({ where: { revisionId }, transaction });
+  await Recipe.bulkCreate(
+    recipes.map((r, position) => ({
+      ...r,
+      revisionId,
+      position,
+      orientationNote: r.orientationNote ?? null,
+      printerBedMm: r.printerBedMm ?? null,
+      resultNotes: r.resultNotes ?? null,
+    })),
+    { transaction },
+  );
+}
+
+async function cloneRevision(part: Part, from: PartRevision, actor: User, transaction: Transaction): Promise<PartRevision> {
+  const max = (await PartRevision.max<number, PartRevision>('number', { where: { partId: part.id }, transaction })) ?? 0;
+  const { id: _id, createdAt: _c, updatedAt: _u, ...fields } = from.get({ plain: true }) as PartRevision;
+  const next = await PartRevision.create(
+    { ...fields, number: max + 1, status: 'in_review', createdBy: actor.id, submittedAt: new Date() },
+    { transaction },
+  );
+  const bodies = await RevisionBody.findAll({ where: { revisionId: from.id }, transaction });
+  await RevisionBody.bulkCreate(bodies.map((b) => ({ revisionId: next.id, bodyId: b.get('bodyId') })), { transaction });
+  const recipes = await Recipe.findAll({ where: { revisionId: from.id }, order: [['position', 'ASC']], transaction });
+  await Recipe.bulkCreate(
+    recipes.map((r) => {
+      const { id: _rid, ...rest } = r.get({ plain: true }) as Recipe;
+      return { ...rest, revisionId: next.id };
+    }),
+    { transaction },
+  );
+  const files = await RevisionFile.findAll({ where: { revisionId: from.id }, transaction });
+  await RevisionFile.bulkCreate(files.map((f) => ({ revisionId: next.id, fileId: f.fileId, position: f.position })), { transaction });
+  await part.update({ latestRevisionId: next.id }, { transaction });
+  return next;
+}
+
+/**
+ * The revision that changes go into: the latest one while it is still under the contributor's
+ * control, or a new one copied from it when the latest is already published.
+ */
+export async function editableRevision(part: Part, actor: User, transaction: Transaction): Promise<PartRevision> {
+  const latest = await PartRevision.findByPk(part.latestRevisionId!, { transaction, lock: transaction.LOCK.UPDATE });
+  if (!latest) throw new Error(`part ${part.id} has no latest revision`);
+  if (latest.status === 'published') return cloneRevision(part, latest, actor, transaction);
+  if (latest.status === 'rejected' || latest.status === 'superseded') {
+    throw AppError.conflict('This revision can no longer be changed.');
+  }
+  return latest;
+}
+
+/** After an edit the revision goes (back) to the review desk; an unpublished part's status follows it. */
+export async function markChanged(part: Part, revision: PartRevision, transaction: Transaction) {
+  if (revision.status === 'sent_back' || revision.status === 'draft') {
+    await revision.update({ status: 'in_review', submittedAt: new Date() }, { transaction });
+  }
+  await part.update(
+    { status: part.publishedRevisionId ? part.status : (revision.status as PartStatus), lockVersion: part.lockVersion + 1 },
+    { transaction },
+  );
+}

@@ -1,0 +1,242 @@
+// The catalogue's core record: submitting, reading, editing parts and their files.
+import { Op, UniqueConstraintError, type Sequelize, type Transaction } from 'sequelize';
+import { slugify } from '@shared/catalogue';
+import { checkAdaptationLicence, isLicenceId } from '@shared/licences';
+import type { PartSubmission, PartUpdate } from '@shared/schemas/part';
+import { Part, PartFile, PartRevision, RevisionFile, type User } from '../../db/models';
+import { AppError } from '../../errors';
+import type { InspectedFile } from '../files/inspect';
+import type { PhotoQueue } from '../files/photo-queue';
+import type { UploadDirs } from '../files/storage';
+import { assertCanEdit, findVisiblePart, seesUnpublished } from './access';
+import { attachFiles, cleanPhoto, pathsOf, removeStoredFiles, sweepUploads } from './part-files';
+import { presentPart, presentSummaries } from './presenter';
+import { bodyIdsFor, editableRevision, markChanged, replaceBodies, replaceRecipes, revisionColumns } from './revisions';
+
+export interface PartsDeps {
+  sequelize: Sequelize;
+  dirs: UploadDirs;
+  photos: PhotoQueue;
+}
+
+function fieldError(field: string, message: string) {
+  return new AppError(422, 'validation_failed', message, { [field]: message });
+}
+
+async function uniqueSlug(title: string, transaction: Transaction): Promise<string> {
+  const base = slugify(title);
+  const taken = await Part.findAll({ where: { slug: { [Op.like]: `${base}%` } }, attributes: ['slug'], transaction });
+  const used = new Set(taken.map((p) => p.slug));
+  if (!used.has(base)) return base;
+  for (let n = 2; ; n++) if (!used.has(`${base}-${n}`)) return `${base}-${n}`;
+}
+
+export function createPartsService({ sequelize, dirs, photos }: PartsDeps) {
+  const inFlight = new Set<Promise<void>>();
+
+  function queuePhotos(rows: PartFile[]) {
+    for (const row of rows.filter((r) => r.kind === 'photo')) {
+      const job = cleanPhoto(dirs, photos, row)
+        .catch((err) => console.error(`photo ${row.id} could not be cleaned:`, err))
+        .finally(() => inFlight.delete(job));
+      inFlight.add(job);
+    }
+  }
+
+  async function checkParentLicence(parentId: number | null | undefined, licence: string, viewer: User) {
+    if (!parentId) return;
+    const parent = await Part.findByPk(parentId);
+    if (!parent || (!parent.publishedRevisionId && !seesUnpublished(viewer, parent))) {
+      throw fieldError('parentId', 'The part you are adapting is not on the shelf.');
+    }
+    const parentRev = await PartRevision.findByPk(parent.publishedRevisionId ?? parent.latestRevisionId!);
+    if (!parentRev || !isLicenceId(parentRev.licence) || !isLicenceId(licence)) return;
+    const check = checkAdaptationLicence(parentRev.licence, licence);
+    if (!check.ok) throw fieldError('licence', check.reason);
+  }
+
+  function requireModel(files: InspectedFile[]) {
+    if (!files.some((f) => f.field === 'model')) {
+      throw fieldError('model', 'Add at least one model file (STL or 3MF).');
+    }
+  }
+
+  /** Runs a write in one transaction; files moved into place are taken back if it fails. */
+  async function writeWithFiles<T>(work: (t: Transaction) => Promise<{ result: T; undo?: () => Promise<void>; photos?: PartFile[] }>) {
+    const t = await sequelize.transaction();
+    let undo: (() => Promise<void>) | undefined;
+    try {
+      const out = await work(t);
+      undo = out.undo;
+      await t.commit();
+      queuePhotos(out.photos ?? []);
+      return out.result;
+    } catch (err) {
+      await t.rollback().catch(() => undefined);
+      await undo?.();
+      throw err;
+    }
+  }
+
+  return {
+    /** Clears what a crash left behind and resumes photos that were waiting to be cleaned. */
+    async recover() {
+      const { removed, pendingPhotos } = await sweepUploads(dirs);
+      queuePhotos(pendingPhotos);
+      return { removed, resumed: pendingPhotos.length };
+    },
+
+    /** Resolves when every photo queued so far has been cleaned (tests and shutdown wait on it). */
+    async photosSettled(): Promise<void> {
+      while (inFlight.size) await Promise.all([...inFlight]);
+    },
+
+    async create(actor: User, input: PartSubmission, files: InspectedFile[]) {
+      requireModel(files);
+      const bodyIds = await bodyIdsFor(input.bodies);
+      await checkParentLicence(input.parentId, input.licence, actor);
+
+      return writeWithFiles(async (t) => {
+        let part: Part;
+        try {
+          part = await Part.create(
+            {
+              slug: await uniqueSlug(input.title, t),
+              authorId: actor.id,
+              parentId: input.parentId ?? null,
+              status: 'in_review',
+              publishedRevisionId: null,
+              latestRevisionId: null,
+              publishedAt: null,
+            },
+            { transaction: t },
+          );
+        } catch (err) {
+          if (err instanceof UniqueConstraintError) throw AppError.conflict('Another part with this title was submitted at the same moment. Submit again.');
+          throw err;
+        }
+        const revision = await PartRevision.create(
+          {
+            partId: part.id,
+            number: 1,
+            status: 'in_review',
+            title: input.title,
+            summary: input.summary,
+            descriptionMd: '',
+            descriptionHtml: '',
+            category: input.category,
+            licence: input.licence,
+            mounts: [],
+            keyDimensions: [],
+            carriesLoad: false,
+            overhead: false,
+            vehicle: false,
+            heat: false,
+            testedLoadKg: null,
+            createdBy: actor.id,
+            submittedAt: new Date(),
+            ...revisionColumns(input),
+          },
+          { transaction: t },
+        );
+        await replaceBodies(revision.id, bodyIds, t);
+        await replaceRecipes(revision.id, input.recipes, t);
+        await part.update({ latestRevisionId: revision.id }, { transaction: t });
+        const attached = await attachFiles({ dirs, partId: part.id, revisionId: revision.id, createdBy: actor.id, files }, t);
+        return { result: { id: part.id, slug: part.slug, status: part.status }, undo: attached.undo, photos: attached.rows };
+      });
+    },
+
+    async get(viewer: User | undefined, idOrSlug: string) {
+      const part = await findVisiblePart(viewer, idOrSlug);
+      const revisionId = seesUnpublished(viewer, part) ? part.latestRevisionId! : part.publishedRevisionId!;
+      return presentPart(part, revisionId, viewer);
+    },
+
+    async list(viewer: User | undefined, query: { mine?: boolean; status?: string }) {
+      if (query.mine) {
+        if (!viewer) throw AppError.unauthorized('Sign in to see your submissions.');
+        const parts = await Part.findAll({ where: { authorId: viewer.id }, order: [['updatedAt', 'DESC']] });
+        return presentSummaries(parts, (p) => p.latestRevisionId);
+      }
+      const parts = await Part.findAll({
+        where: { status: 'published', publishedRevisionId: { [Op.ne]: null } },
+        order: [['publishedAt', 'DESC']],
+        limit: 200,
+      });
+      return presentSummaries(parts, (p) => p.publishedRevisionId);
+    },
+
+    async update(actor: User, id: string, patch: PartUpdate) {
+      const bodyIds = patch.bodies ? await bodyIdsFor(patch.bodies) : null;
+      await sequelize.transaction(async (t) => {
+        const part = await findVisiblePart(actor, id, t);
+        assertCanEdit(actor, part);
+        if (patch.licence) await checkParentLicence(part.parentId, patch.licence, actor);
+        const revision = await editableRevision(part, actor, t);
+        await revision.update(revisionColumns(patch), { transaction: t });
+        if (bodyIds) await replaceBodies(revision.id, bodyIds, t);
+        if (patch.recipes) await replaceRecipes(revision.id, patch.recipes, t);
+        await markChanged(part, revision, t);
+      });
+      return this.get(actor, id);
+    },
+
+    async addFiles(actor: User, id: string, files: InspectedFile[]) {
+      if (!files.length) throw fieldError('model', 'Choose at least one file to add.');
+      await writeWithFiles(async (t) => {
+        const part = await findVisiblePart(actor, id, t);
+        assertCanEdit(actor, part);
+        const revision = await editableRevision(part, actor, t);
+        const attached = await attachFiles({ dirs, partId: part.id, revisionId: revision.id, createdBy: actor.id, files }, t);
+        await markChanged(part, revision, t);
+        return { result: undefined, undo: attached.undo, photos: attached.rows };
+      });
+      return this.get(actor, id);
+    },
+
+    async removeFile(actor: User, id: string, fileId: number) {
+      const orphan = await sequelize.transaction(async (t) => {
+        const part = await findVisiblePart(actor, id, t);
+        assertCanEdit(actor, part);
+        const revision = await editableRevision(part, actor, t);
+        const links = await RevisionFile.findAll({ where: { revisionId: revision.id }, transaction: t });
+        if (!links.some((l) => l.fileId === fileId)) throw AppError.notFound('That file is not part of this part.');
+        const file = (await PartFile.findByPk(fileId, { transaction: t }))!;
+        if (file.kind === 'model') {
+          const models = await PartFile.count({ where: { id: { [Op.in]: links.map((l) => l.fileId) }, kind: 'model' }, transaction: t });
+          if (models <= 1) throw AppError.conflict('A part needs at least one model file. Add the new model before removing this one.');
+        }
+        await RevisionFile.destroy({ where: { revisionId: revision.id, fileId }, transaction: t });
+        await markChanged(part, revision, t);
+        const stillUsed = await RevisionFile.count({ where: { fileId }, transaction: t });
+        if (stillUsed) return null;
+        await file.destroy({ transaction: t });
+        return file;
+      });
+      if (orphan) await removeStoredFiles(dirs, orphan);
+      return this.get(actor, id);
+    },
+
+    /** A file of the revision this viewer sees, with where it is on disk. */
+    async storedFile(viewer: User | undefined, id: string, fileId: number, want: 'original' | 'display' | 'thumbnail') {
+      const part = await findVisiblePart(viewer, id);
+      const revisionIds = seesUnpublished(viewer, part)
+        ? (await PartRevision.findAll({ where: { partId: part.id }, attributes: ['id'] })).map((r) => r.id)
+        : [part.publishedRevisionId!];
+      const linked = await RevisionFile.count({ where: { fileId, revisionId: { [Op.in]: revisionIds } } });
+      const file = linked ? await PartFile.findByPk(fileId) : null;
+      if (!file) throw AppError.notFound('That file is not part of this part.');
+      if (want !== 'original' && file.kind !== 'photo') throw AppError.notFound('Only photos have display sizes.');
+      if (file.kind === 'photo' && file.processing !== 'ready') {
+        throw AppError.notFound(file.processing === 'failed' ? 'This photo could not be processed.' : 'This photo is still being processed; try again in a moment.');
+      }
+      const paths = pathsOf(dirs, file);
+      // a photo's original is never kept: its download is the cleaned display image
+      const path = file.kind === 'photo' ? (want === 'thumbnail' ? paths.thumbnail! : paths.display!) : paths.original;
+      return { file, path };
+    },
+  };
+}
+
+export type PartsService = ReturnType<typeof createPartsService>;

@@ -1,0 +1,96 @@
+// Shared by the server (upload checks) and the browser (preview before upload):
+// nothing in shared/mesh may depend on Node-only APIs.
+
+export type Vec3 = [number, number, number];
+
+/** Figures for one triangle mesh. Lengths in mm, areas in mm², volumes in mm³. */
+export interface MeshAnalysis {
+  /** Bounding-box extents along x, y and z. */
+  sizeMm: Vec3;
+  min: Vec3;
+  max: Vec3;
+  /** Enclosed volume; only meaningful when the mesh is watertight. */
+  volumeMm3: number;
+  /** Σ v1·(v2×v3)/6 over all facets; negative when the facets are wound inside out. */
+  signedVolumeMm3: number;
+  insideOut: boolean;
+  areaMm2: number;
+  facets: number;
+  /** Facets with zero area (repeated or collinear corners). */
+  degenerateFacets: number;
+  /** Every edge (between welded vertices, ignoring degenerate facets) is shared by exactly two facets. */
+  watertight: boolean;
+  /** Edges used by only one facet: the rims of holes. */
+  openEdges: number;
+  /** Edges shared by three or more facets. */
+  nonManifoldEdges: number;
+  /** Connected pieces (facets joined through shared vertices). */
+  shells: number;
+  /** Plain sentences for the contributor; empty when nothing looks wrong. */
+  warnings: string[];
+}
+
+export type ModelFormat = 'stl-binary' | 'stl-ascii' | '3mf';
+
+export interface ModelFileAnalysis extends MeshAnalysis {
+  format: ModelFormat;
+  /** Millimetres per file unit that were applied (1 for plain STL, 25.4 for inches). */
+  unitScale: number;
+}
+
+export interface AnalyseOptions {
+  /** Millimetres per unit of the positions; results are scaled by it. Default 1. */
+  unitScale?: number;
+}
+
+export interface AnalyseFileOptions {
+  /** Auto-detected when omitted: a ZIP signature means 3MF, anything else STL. */
+  format?: 'stl' | '3mf';
+  /** STL carries no unit; set this when the part was drawn in inches (scales by exactly 25.4). Ignored for 3MF, which declares its unit. */
+  drawnInInches?: boolean;
+  /** 3MF only: refuse archives whose entries would inflate beyond this many bytes. Default 512 MiB. */
+  maxUncompressedBytes?: number;
+}
+
+/** Receives triangles one at a time, so readers need not build a position array. */
+export interface FacetSink {
+  addFacet(
+    ax: number, ay: number, az: number,
+    bx: number, by: number, bz: number,
+    cx: number, cy: number, cz: number,
+  ): void;
+}
+
+export type MeshErrorCode =
+  | 'empty'
+  | 'not_a_mesh'
+  | 'too_short'
+  | 'truncated'
+  | 'count_mismatch'
+  | 'ascii_syntax'
+  | 'non_finite'
+  | 'no_facets'
+  | 'bad_input'
+  | 'not_zip'
+  | 'bad_zip'
+  | 'zip_bomb'
+  | 'no_model'
+  | 'bad_unit'
+  | 'bad_number'
+  | 'bad_transform'
+  | 'index_out_of_range'
+  | 'unknown_object'
+  | 'component_cycle'
+  | 'too_large'
+  | 'no_triangles';
+
+/** A file that cannot be analysed; `message` is written for the contributor who uploaded it. */
+export class MeshError extends Error {
+  readonly code: MeshErrorCode;
+
+  constructor(code: MeshErrorCode, message: string) {
+    super(message);
+    this.name = 'MeshError';
+    this.code = code;
+  }
+}
