@@ -114,7 +114,7 @@ export function createApp({ config, sequelize }: AppContext) {
 
   return {
     app,
-    services: { parts },
+    services: { parts, dirs },
     /** Waits for photo work in hand, then stops the worker and the session store's expiry sweep. */
     async close() {
       await parts.photosSettled();

@@ -17,15 +17,15 @@ export async function startServer(config: Config): Promise<RunningServer> {
   await sequelize.authenticate();
   const migrations = await migrate(sequelize);
   if (migrations.length) console.log(`rigshelf: migrations applied: ${migrations.join(', ')}`);
-  if (config.seedDemo) {
-    const seeds = await seedDemo(sequelize);
-    if (seeds.length) console.log(`rigshelf: demo scenario seeded (${seeds.join(', ')})`);
-  }
 
   const built = createApp({ config, sequelize });
   const recovered = await built.services.parts.recover();
   if (recovered.removed || recovered.resumed) {
     console.log(`rigshelf: upload sweep removed ${recovered.removed} orphaned file(s), resumed ${recovered.resumed} photo(s)`);
+  }
+  if (config.seedDemo) {
+    const seeds = await seedDemo(sequelize, built.services);
+    if (seeds.length) console.log(`rigshelf: demo scenario seeded (${seeds.join(', ')})`);
   }
   const server = createServer(built.app);
   await new Promise<void>((resolveListen, reject) => {

@@ -4,10 +4,19 @@ import { readdirSync } from 'node:fs';
 import { resolve } from 'node:path';
 import type { QueryInterface, Sequelize } from 'sequelize';
 import { SequelizeStorage, Umzug } from 'umzug';
+import type { UploadDirs } from '../modules/files/storage';
+import type { PartsService } from '../modules/parts/service';
 
 export interface MigrationContext {
   queryInterface: QueryInterface;
   sequelize: Sequelize;
+  /** Seeders only: the running app's services, for demo data that goes through the real rules. */
+  services?: SeedServices;
+}
+
+export interface SeedServices {
+  parts: PartsService;
+  dirs: UploadDirs;
 }
 
 export type MigrationFn = (ctx: { context: MigrationContext }) => Promise<void>;
@@ -27,10 +36,10 @@ function stepsIn(folder: string) {
     });
 }
 
-function umzug(sequelize: Sequelize, folder: string, tableName: string) {
+function umzug(sequelize: Sequelize, folder: string, tableName: string, services?: SeedServices) {
   return new Umzug<MigrationContext>({
     migrations: stepsIn(folder),
-    context: { queryInterface: sequelize.getQueryInterface(), sequelize },
+    context: { queryInterface: sequelize.getQueryInterface(), sequelize, services },
     storage: new SequelizeStorage({ sequelize, tableName, modelName: tableName }),
     logger: undefined,
   });
@@ -46,7 +55,7 @@ export async function rollbackAll(sequelize: Sequelize): Promise<void> {
 }
 
 /** Runs the demo seeders that have not run on this database yet. */
-export async function seedDemo(sequelize: Sequelize): Promise<string[]> {
-  const done = await umzug(sequelize, 'seeders', 'schema_seeds').up();
+export async function seedDemo(sequelize: Sequelize, services: SeedServices): Promise<string[]> {
+  const done = await umzug(sequelize, 'seeders', 'schema_seeds', services).up();
   return done.map((m) => m.name);
 }

@@ -37,8 +37,8 @@ export async function createTestApp(overrides: Record<string, string> = {}, opti
   const config = testConfig(overrides);
   const sequelize = createSequelize(config);
   await migrate(sequelize);
-  if (options.demo) await seedDemo(sequelize);
   const built = createApp({ config, sequelize });
+  if (options.demo) await seedDemo(sequelize, built.services);
   open.push(sequelize);
   return {
     app: built.app,
