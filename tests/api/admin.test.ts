@@ -31,12 +31,45 @@ describe('admin routes · role matrix', () => {
       expect((await a.get('/api/admin/users')).status).toBe(expected[who]);
     });
 
+    it(`POST /api/admin/bodies as ${who} → ${expected[who] === 200 ? 201 : expected[who]}`, async () => {
+      const a = await as(who);
+      const res = await a.post('/api/admin/bodies').send({ maker: 'Matrix', model: `Cam ${who}` });
+      expect(res.status).toBe(expected[who] === 200 ? 201 : expected[who]);
+    });
+
+    it(`PATCH and DELETE /api/admin/bodies/:slug as ${who} → ${expected[who]} / ${expected[who] === 200 ? 204 : expected[who]}`, async () => {
+      const admin = await as('admin');
+      const created = await admin.post('/api/admin/bodies').send({ maker: 'Matrix', model: `Target ${who}` });
+      const slug = created.body.body.slug;
+      const a = await as(who);
+      expect((await a.patch(`/api/admin/bodies/${slug}`).send({ aliases: ['T'] })).status).toBe(expected[who]);
+      expect((await a.delete(`/api/admin/bodies/${slug}`)).status).toBe(expected[who] === 200 ? 204 : expected[who]);
+    });
+
     it(`PATCH /api/admin/users/:id as ${who} → ${expected[who]}`, async () => {
       const target = await makeUser();
       const a = await as(who);
       expect((await a.patch(`/api/admin/users/${target.user.id}`).send({ role: 'moderator' })).status).toBe(expected[who]);
     });
   }
+});
+
+describe('admin · camera bodies', () => {
+  it('adds a body with a slug made from maker and model, and refuses a duplicate', async () => {
+    const a = await as('admin');
+    const res = await a.post('/api/admin/bodies').send({ maker: 'Ostrava Imaging', model: 'Vega S35 Mk II', aliases: ['Vega 2'] });
+    expect(res.status).toBe(201);
+    expect(res.body.body).toEqual({ slug: 'ostrava-imaging-vega-s35-mk-ii', maker: 'Ostrava Imaging', model: 'Vega S35 Mk II', aliases: ['Vega 2'] });
+    expect((await a.post('/api/admin/bodies').send({ maker: 'Ostrava Imaging', model: 'Vega S35 Mk II' })).status).toBe(409);
+    const vocab = await request(t.app).get('/api/vocab');
+    expect(vocab.body.bodies.map((b: { slug: string }) => b.slug)).toContain('ostrava-imaging-vega-s35-mk-ii');
+  });
+
+  it('answers 422 for a body without a model and 404 for an unknown slug', async () => {
+    const a = await as('admin');
+    expect((await a.post('/api/admin/bodies').send({ maker: 'Nobody' })).status).toBe(422);
+    expect((await a.patch('/api/admin/bodies/no-such-body').send({ model: 'X' })).status).toBe(404);
+  });
 });
 
 describe('admin · changing accounts', () => {

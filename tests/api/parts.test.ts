@@ -3,6 +3,7 @@ import { join } from 'node:path';
 import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it, vi } from 'vitest';
 import { Jimp } from 'jimp';
+import { strToU8, zipSync } from 'fflate';
 import { Part, PartFile, PartRevision, RevisionFile } from '../../server/db/models';
 import { agentFor, createTestApp, makeUser, uploadsDir, type TestApp } from '../helpers/app';
 import { boxStl, cubeStl } from '../helpers/meshes';
@@ -129,6 +130,24 @@ describe('parts · submit', () => {
     const { body } = await submit(author, { data, models: [{ name: 'inch-cube.stl', bytes: cubeStl(1) }] }).expect(201);
     const part = await author.get(`/api/parts/${body.id}`);
     expect(part.body.files[0].analysis.sizeMm.map((v: number) => +v.toFixed(6))).toEqual([25.4, 25.4, 25.4]);
+  });
+
+  it('reads a 3MF in inches and honours its unit (3MF Core Specification §3.4)', async () => {
+    const v = [[0, 0, 0], [1, 0, 0], [1, 1, 0], [0, 1, 0], [0, 0, 1], [1, 0, 1], [1, 1, 1], [0, 1, 1]];
+    const t3 = [[0, 2, 1], [0, 3, 2], [4, 5, 6], [4, 6, 7], [0, 1, 5], [0, 5, 4], [1, 2, 6], [1, 6, 5], [2, 3, 7], [2, 7, 6], [3, 0, 4], [3, 4, 7]];
+    const model = `<?xml version="1.0" encoding="UTF-8"?>
+<model unit="inch" xmlns="http://schemas.microsoft.com/3dmanufacturing/core/2015/02"><resources><object id="1" type="model"><mesh>
+<vertices>${v.map(([x, y, z]) => `<vertex x="${x}" y="${y}" z="${z}"/>`).join('')}</vertices>
+<triangles>${t3.map(([a, b, c]) => `<triangle v1="${a}" v2="${b}" v3="${c}"/>`).join('')}</triangles>
+</mesh></object></resources><build><item objectid="1"/></build></model>`;
+    const rels = `<?xml version="1.0" encoding="UTF-8"?><Relationships xmlns="http://schemas.openxmlformats.org/package/2006/relationships"><Relationship Target="/3D/3dmodel.model" Id="rel0" Type="http://schemas.microsoft.com/3dmanufacturing/2013/01/3dmodel"/></Relationships>`;
+    const types = `<?xml version="1.0" encoding="UTF-8"?><Types xmlns="http://schemas.openxmlformats.org/package/2006/content-types"><Default Extension="rels" ContentType="application/vnd.openxmlformats-package.relationships+xml"/><Default Extension="model" ContentType="application/vnd.ms-package.3dmanufacturing-3dmodel+xml"/></Types>`;
+    const zip = zipSync({ '[Content_Types].xml': strToU8(types), '_rels/.rels': strToU8(rels), '3D/3dmodel.model': strToU8(model) });
+    const { body } = await submit(author, { models: [{ name: 'cube.3mf', bytes: Buffer.from(zip) }] }).expect(201);
+    const part = await author.get(`/api/parts/${body.id}`);
+    expect(part.body.files[0].format).toBe('3mf');
+    expect(part.body.files[0].analysis.sizeMm.map((x: number) => +x.toFixed(6))).toEqual([25.4, 25.4, 25.4]);
+    expect(part.body.files[0].analysis.watertight).toBe(true);
   });
 
   it('keeps only a clean display name from a path-traversal file name and stores under a random name', async () => {

@@ -2,6 +2,8 @@ import { Router } from 'express';
 import { adminUserPatchSchema, idParamSchema, type AdminUserPatch } from '@shared/schemas/auth';
 import { currentUser, requireRole } from '../../middleware/auth';
 import { validate } from '../../middleware/validate';
+import { cameraBodyPatchSchema, cameraBodySchema, slugParamSchema, type CameraBodyInput } from '@shared/schemas/vocab';
+import { cameraBodies } from '../vocab/service';
 import { adminService } from './service';
 
 export function adminRoutes() {
@@ -17,6 +19,21 @@ export function adminRoutes() {
     const { id } = res.locals.params as { id: number };
     const user = await adminService.updateUser(currentUser(req)!, id, res.locals.body as AdminUserPatch);
     res.json({ user: user.toPublic() });
+  });
+
+  router.post('/bodies', validate('body', cameraBodySchema), async (_req, res) => {
+    const body = await cameraBodies.create(res.locals.body as CameraBodyInput);
+    res.status(201).json({ body: body.toInfo() });
+  });
+
+  router.patch('/bodies/:slug', validate('params', slugParamSchema), validate('body', cameraBodyPatchSchema), async (req, res) => {
+    const body = await cameraBodies.update(req.params.slug as string, res.locals.body as Partial<CameraBodyInput>);
+    res.json({ body: body.toInfo() });
+  });
+
+  router.delete('/bodies/:slug', validate('params', slugParamSchema), async (req, res) => {
+    await cameraBodies.remove(req.params.slug as string);
+    res.status(204).end();
   });
 
   return router;
