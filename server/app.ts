@@ -14,6 +14,7 @@ import { adminRoutes } from './modules/admin/routes';
 import { createPassport } from './modules/auth/passport';
 import { authRoutes } from './modules/auth/routes';
 import { createAuthService } from './modules/auth/service';
+import { createTokenService } from './modules/auth/tokens';
 import { healthRoutes } from './modules/health/routes';
 import { PhotoQueue } from './modules/files/photo-queue';
 import { uploadDirs } from './modules/files/storage';
@@ -21,15 +22,23 @@ import { multerErrors } from './modules/files/upload';
 import { partsRoutes } from './modules/parts/routes';
 import { createPartsService } from './modules/parts/service';
 import { vocabRoutes } from './modules/vocab/routes';
+import type { Mailer } from './modules/mail/outbox';
+import { devMailboxRoutes, mailAdminRoutes } from './modules/mail/routes';
+import { noticesRoutes } from './modules/notices/routes';
+import { partHistoryRoutes } from './modules/review/history-routes';
+import { reviewRoutes } from './modules/review/routes';
+import { createReviewService } from './modules/review/service';
 
 export const SESSION_COOKIE = 'rigshelf.sid';
 
 export interface AppContext {
   config: Config;
   sequelize: Sequelize;
+  /** The outbox (server/modules/mail/outbox.ts); its owner starts and closes it. */
+  mailer: Mailer;
 }
 
-export function createApp({ config, sequelize }: AppContext) {
+export function createApp({ config, sequelize, mailer }: AppContext) {
   const app = express();
   app.disable('x-powered-by');
   app.set('trust proxy', config.TRUST_PROXY ? 1 : false);
@@ -80,9 +89,11 @@ export function createApp({ config, sequelize }: AppContext) {
 
   const dirs = uploadDirs(config.UPLOADS_DIR);
   const photos = new PhotoQueue();
-  const parts = createPartsService({ sequelize, dirs, photos });
+  const review = createReviewService({ sequelize, mail: mailer, publicUrl: config.PUBLIC_URL });
+  const parts = createPartsService({ sequelize, dirs, photos, onSubmitted: review.submitted });
 
-  const auth = createAuthService(config);
+  const tokens = createTokenService({ config, mailer });
+  const auth = createAuthService(config, tokens);
   const passport = createPassport(auth);
   app.use('/api', passport.initialize());
   app.use('/api', passport.session());
@@ -97,10 +108,16 @@ export function createApp({ config, sequelize }: AppContext) {
   });
   app.use('/api', csrfSynchronisedProtection);
 
-  app.use('/api/auth', authRoutes({ config, auth, passport, csrfToken: generateToken }));
+  app.use('/api/auth', authRoutes({ config, auth, passport, csrfToken: generateToken, tokens }));
+  app.use('/api/admin/mail', mailAdminRoutes(mailer));
   app.use('/api/admin', adminRoutes());
+  // the fake's mailbox exists only in development; elsewhere it is an unknown path (404)
+  if (!config.isProduction && mailer.fake) app.use('/api/dev', devMailboxRoutes(mailer.fake));
   app.use('/api/vocab', vocabRoutes());
+  app.use('/api/parts', partHistoryRoutes(review));
   app.use('/api/parts', partsRoutes(parts, dirs));
+  app.use('/api/review', reviewRoutes(review));
+  app.use('/api/notices', noticesRoutes());
   app.use('/api', apiNotFound());
 
   const dist = resolve(config.CLIENT_DIST);
@@ -114,7 +131,7 @@ export function createApp({ config, sequelize }: AppContext) {
 
   return {
     app,
-    services: { parts, dirs },
+    services: { parts, review, dirs },
     /** Waits for photo work in hand, then stops the worker and the session store's expiry sweep. */
     async close() {
       await parts.photosSettled();

@@ -31,18 +31,48 @@ const schema = z
     LOGIN_LIMIT_WINDOW_MIN: z.coerce.number().positive().default(15),
     /** scrypt cost parameter N as a power of two (2^15 = 32 MiB per hash with r = 8). */
     PASSWORD_SCRYPT_LOG_N: z.coerce.number().int().min(10).max(20).default(15),
+    SMTP_HOST: z.string().min(1).default('127.0.0.1'),
+    /** 0 picks a free port (only useful with SMTP_FAKE, which the tests use). */
+    SMTP_PORT: z.coerce.number().int().min(0).max(65535).default(2525),
+    SMTP_SECURE: flag.default(false),
+    SMTP_USER: z.string().min(1).optional(),
+    SMTP_PASS: z.string().min(1).optional(),
+    MAIL_FROM: z.string().min(3).default('Rigshelf <shelf@rigshelf.test>'),
+    /** Start the local fake SMTP server on SMTP_HOST:SMTP_PORT and send to it: on by default, off in production. */
+    SMTP_FAKE: flag.optional(),
+    /** Where people open the app; links in mails start with it. Defaults to http://127.0.0.1:PORT. */
+    PUBLIC_URL: z.url({ protocol: /^https?$/, error: 'use an http(s) address like https://shelf.example.org' }).optional(),
   })
   .superRefine((env, ctx) => {
     if (env.NODE_ENV === 'production' && env.SESSION_SECRET.length < 32) {
       ctx.addIssue({ code: 'custom', path: ['SESSION_SECRET'], message: 'use at least 32 characters in production' });
     }
+    const fake = env.SMTP_FAKE ?? env.NODE_ENV !== 'production';
+    if (fake && !isLoopbackHost(env.SMTP_HOST)) {
+      ctx.addIssue({
+        code: 'custom',
+        path: ['SMTP_HOST'],
+        message: 'the local fake SMTP server listens on loopback only; use 127.0.0.1, or set SMTP_FAKE=0 to send through a real host',
+      });
+    }
+    if (!fake && env.SMTP_PORT === 0) {
+      ctx.addIssue({ code: 'custom', path: ['SMTP_PORT'], message: 'give the port of the SMTP server (0 only works with SMTP_FAKE=1)' });
+    }
   });
 
+export function isLoopbackHost(host: string): boolean {
+  return host === 'localhost' || host === '::1' || /^127\.\d{1,3}\.\d{1,3}\.\d{1,3}$/.test(host);
+}
+
 export type Config = Readonly<
-  z.output<typeof schema> & {
+  Omit<z.output<typeof schema>, 'SMTP_FAKE' | 'PUBLIC_URL'> & {
     isProduction: boolean;
     /** Seed the demo scenario: on by default, off in production unless RIGSHELF_DEMO=1. */
     seedDemo: boolean;
+    /** Run the local fake SMTP server and send to it: on by default, off in production unless SMTP_FAKE=1. */
+    SMTP_FAKE: boolean;
+    /** Where people open the app, without a trailing slash (default http://127.0.0.1:PORT). */
+    PUBLIC_URL: string;
   }
 >;
 
@@ -54,5 +84,11 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): Config {
   }
   const c = parsed.data;
   const isProduction = c.NODE_ENV === 'production';
-  return Object.freeze({ ...c, isProduction, seedDemo: c.RIGSHELF_DEMO ?? !isProduction });
+  return Object.freeze({
+    ...c,
+    isProduction,
+    seedDemo: c.RIGSHELF_DEMO ?? !isProduction,
+    SMTP_FAKE: c.SMTP_FAKE ?? !isProduction,
+    PUBLIC_URL: (c.PUBLIC_URL ?? `http://127.0.0.1:${c.PORT}`).replace(/\/+$/, ''),
+  });
 }

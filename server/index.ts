@@ -5,6 +5,7 @@ import { createApp } from './app';
 import { loadConfig, type Config } from './config';
 import { migrate, seedDemo } from './db/migrator';
 import { createSequelize } from './db/sequelize';
+import { createMailer } from './modules/mail/outbox';
 
 export interface RunningServer {
   server: Server;
@@ -18,7 +19,11 @@ export async function startServer(config: Config): Promise<RunningServer> {
   const migrations = await migrate(sequelize);
   if (migrations.length) console.log(`rigshelf: migrations applied: ${migrations.join(', ')}`);
 
-  const built = createApp({ config, sequelize });
+  const mailer = await createMailer({ config, sequelize });
+  if (mailer.fake) {
+    console.log(`rigshelf: local fake SMTP server on ${mailer.fake.host}:${mailer.fake.port} (admins read it at /api/dev/mailbox)`);
+  }
+  const built = createApp({ config, sequelize, mailer });
   const recovered = await built.services.parts.recover();
   if (recovered.removed || recovered.resumed) {
     console.log(`rigshelf: upload sweep removed ${recovered.removed} orphaned file(s), resumed ${recovered.resumed} photo(s)`);
@@ -28,10 +33,16 @@ export async function startServer(config: Config): Promise<RunningServer> {
     if (seeds.length) console.log(`rigshelf: demo scenario seeded (${seeds.join(', ')})`);
   }
   const server = createServer(built.app);
-  await new Promise<void>((resolveListen, reject) => {
-    server.once('error', reject);
-    server.listen(config.PORT, config.HOST, () => resolveListen());
-  });
+  try {
+    await new Promise<void>((resolveListen, reject) => {
+      server.once('error', reject);
+      server.listen(config.PORT, config.HOST, () => resolveListen());
+    });
+  } catch (err) {
+    await mailer.close();
+    throw err;
+  }
+  mailer.start();
   const address = server.address();
   const port = typeof address === 'object' && address ? address.port : config.PORT;
   const url = `http://${config.HOST}:${port}`;
@@ -45,12 +56,13 @@ export async function startServer(config: Config): Promise<RunningServer> {
         server.closeIdleConnections();
       });
       await built.close();
+      await mailer.close();
       await sequelize.close();
     },
   };
 }
 
-/** Closes the HTTP server, then the DB pool, then whatever `after` stops (MariaDB under `npm start`). */
+/** Closes the HTTP server, then the mail loop, then the DB pool, then whatever `after` stops (MariaDB under `npm start`). */
 export function closeOnSignals(running: RunningServer, after?: () => Promise<void>) {
   let closing = false;
   const shutdown = async (signal: string) => {

@@ -13,6 +13,8 @@ export interface PublicUser {
   status: AccountStatus;
   crewRole: string | null;
   createdAt: string;
+  /** The account opened the confirmation link sent to its e-mail address. */
+  emailVerified: boolean;
 }
 
 /** Every error the API returns has this body. */
@@ -22,6 +24,32 @@ export interface ApiErrorBody {
     message: string;
     fields?: Record<string, string>;
   };
+}
+
+export const MAIL_STATUSES = ['queued', 'sent', 'failed'] as const;
+export type MailStatus = (typeof MAIL_STATUSES)[number];
+
+/** One row of the mail outbox, as admins see it (GET /api/admin/mail). */
+export interface OutboxItem {
+  id: number;
+  to: string;
+  subject: string;
+  status: MailStatus;
+  attempts: number;
+  lastError: string | null;
+  createdAt: string;
+  sentAt: string | null;
+}
+
+/** A mail caught by the local fake SMTP server (GET /api/dev/mailbox, development only). */
+export interface MailboxMessage {
+  id: number;
+  from: string;
+  to: string[];
+  subject: string;
+  text: string;
+  html: string;
+  receivedAt: string;
 }
 
 export interface HealthStatus {
@@ -84,4 +112,14 @@ export interface PartSummary {
   thumbnailUrl: string | null;
   sizeMm: [number, number, number] | null;
   updatedAt: string;
+}
+
+export interface NoticeInfo {
+  id: number;
+  kind: string;
+  title: string;
+  body: string;
+  link: string | null;
+  read: boolean;
+  createdAt: string;
 }

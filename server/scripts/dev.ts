@@ -7,6 +7,8 @@ import { localInstance, root } from './local-env';
 
 const { db, env } = localInstance('app');
 Object.assign(process.env, env);
+// people open Vite's server in development, so links in mails point there
+process.env.PUBLIC_URL ??= 'http://127.0.0.1:5173';
 const config = loadConfig();
 await db.start();
 await db.provision({ database: config.DB_NAME, user: config.DB_USER, password: config.DB_PASSWORD });

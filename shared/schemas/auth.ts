@@ -30,6 +30,23 @@ export const loginSchema = z.object({
 });
 export type LoginInput = z.infer<typeof loginSchema>;
 
+// A token that is missing or wrong is answered by the service (400 token_invalid), not here, so a
+// mangled link gets the same actionable message as a made-up one.
+const linkToken = z
+  .string({ error: 'The link is missing its code. Open the whole link from the mail.' })
+  .trim()
+  .min(1, 'The link is missing its code. Open the whole link from the mail.')
+  .max(200, 'That link code is too long. Open the whole link from the mail.');
+
+export const verifyEmailSchema = z.object({ token: linkToken });
+export type VerifyEmailInput = z.infer<typeof verifyEmailSchema>;
+
+export const passwordResetRequestSchema = z.object({ email });
+export type PasswordResetRequestInput = z.infer<typeof passwordResetRequestSchema>;
+
+export const passwordResetSchema = z.object({ token: linkToken, password: registerSchema.shape.password });
+export type PasswordResetInput = z.infer<typeof passwordResetSchema>;
+
 export const adminUserPatchSchema = z
   .object({
     role: z.enum(ROLES, { error: `Role must be one of: ${ROLES.join(', ')}.` }).optional(),

@@ -10,6 +10,7 @@ import { loadConfig, type Config } from '../../server/config';
 import { migrate, seedDemo } from '../../server/db/migrator';
 import { createSequelize } from '../../server/db/sequelize';
 import { initModels, User } from '../../server/db/models';
+import { createMailer, type Mailer } from '../../server/modules/mail/outbox';
 import { hashPassword } from '../../server/security/password';
 import type { Role } from '@shared/types';
 
@@ -18,6 +19,8 @@ export interface TestApp {
   services: ReturnType<typeof createApp>['services'];
   sequelize: Sequelize;
   config: Config;
+  /** The app's outbox; not started, so tests deliver with `await t.mailer.flush()` and read `t.mailer.fake!.messages()`. */
+  mailer: Mailer;
   close(): Promise<void>;
 }
 
@@ -26,7 +29,16 @@ export const uploadsDir = mkdtempSync(join(tmpdir(), 'rigshelf-uploads-'));
 afterAll(() => rmSync(uploadsDir, { recursive: true, force: true }));
 
 export function testConfig(overrides: Record<string, string> = {}): Config {
-  return loadConfig({ ...process.env, NODE_ENV: 'test', PASSWORD_SCRYPT_LOG_N: '12', UPLOADS_DIR: uploadsDir, ...overrides });
+  return loadConfig({
+    ...process.env,
+    NODE_ENV: 'test',
+    PASSWORD_SCRYPT_LOG_N: '12',
+    UPLOADS_DIR: uploadsDir,
+    // one local fake SMTP server per app, on a free port
+    SMTP_FAKE: '1',
+    SMTP_PORT: '0',
+    ...overrides,
+  });
 }
 
 // Sequelize models are classes bound to one instance; when a second app (a "restart") closes,
@@ -37,7 +49,8 @@ export async function createTestApp(overrides: Record<string, string> = {}, opti
   const config = testConfig(overrides);
   const sequelize = createSequelize(config);
   await migrate(sequelize);
-  const built = createApp({ config, sequelize });
+  const mailer = await createMailer({ config, sequelize });
+  const built = createApp({ config, sequelize, mailer });
   if (options.demo) await seedDemo(sequelize, built.services);
   open.push(sequelize);
   return {
@@ -45,8 +58,10 @@ export async function createTestApp(overrides: Record<string, string> = {}, opti
     services: built.services,
     sequelize,
     config,
+    mailer,
     async close() {
       await built.close();
+      await mailer.close();
       await sequelize.close();
       open.splice(open.indexOf(sequelize), 1);
       if (open.length) initModels(open[open.length - 1]);
@@ -65,6 +80,7 @@ export async function makeUser(role: Role = 'member', extra: Partial<{ status: '
     role,
     status: extra.status ?? 'active',
     crewRole: null,
+    emailVerifiedAt: new Date(),
   });
   return { user, email: user.email, password };
 }

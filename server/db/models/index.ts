@@ -1,6 +1,10 @@
 // Every model is initialised here and every association is declared here, in one place.
 import { DataTypes, Model, type Sequelize } from 'sequelize';
+import { AccountToken, initAccountToken } from './account-token';
+import { AuditEvent, initAuditEvent } from './audit-event';
 import { CameraBody, initCameraBody } from './camera-body';
+import { initMailMessage, MailMessage } from './mail-message';
+import { initNotice, Notice } from './notice';
 import { initPart, Part } from './part';
 import { initPartFile, PartFile } from './part-file';
 import { initPartRevision, PartRevision } from './part-revision';
@@ -8,7 +12,8 @@ import { initRecipe, Recipe } from './recipe';
 import { initSession, Session } from './session';
 import { initUser, User } from './user';
 
-export { CameraBody, Part, PartFile, PartRevision, Recipe, Session, User };
+export type { AuditAction } from './audit-event';
+export { AccountToken, AuditEvent, CameraBody, MailMessage, Notice, Part, PartFile, PartRevision, Recipe, Session, User };
 
 /** Join rows: which camera bodies a revision fits, which files a revision shows (in order). */
 export class RevisionBody extends Model {}
@@ -26,6 +31,10 @@ export function initModels(sequelize: Sequelize) {
   initPartRevision(sequelize);
   initRecipe(sequelize);
   initPartFile(sequelize);
+  initMailMessage(sequelize);
+  initAccountToken(sequelize);
+  initAuditEvent(sequelize);
+  initNotice(sequelize);
   RevisionBody.init(
     {
       revisionId: { type: DataTypes.INTEGER.UNSIGNED, primaryKey: true },
@@ -43,6 +52,8 @@ export function initModels(sequelize: Sequelize) {
   );
 
   Part.belongsTo(User, { as: 'author', foreignKey: 'authorId' });
+  AccountToken.belongsTo(User, { as: 'user', foreignKey: 'userId' });
+  AuditEvent.belongsTo(User, { as: 'actor', foreignKey: 'actorId' });
   Part.belongsTo(Part, { as: 'parent', foreignKey: 'parentId' });
   Part.hasMany(Part, { as: 'adaptations', foreignKey: 'parentId' });
   Part.belongsTo(PartRevision, { as: 'publishedRevision', foreignKey: 'publishedRevisionId', constraints: false });

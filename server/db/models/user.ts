@@ -9,6 +9,7 @@ export class User extends Model<InferAttributes<User>, InferCreationAttributes<U
   declare role: CreationOptional<Role>;
   declare status: CreationOptional<AccountStatus>;
   declare crewRole: string | null;
+  declare emailVerifiedAt: CreationOptional<Date | null>;
   declare createdAt: CreationOptional<Date>;
   declare updatedAt: CreationOptional<Date>;
 
@@ -21,6 +22,7 @@ export class User extends Model<InferAttributes<User>, InferCreationAttributes<U
       status: this.status,
       crewRole: this.crewRole,
       createdAt: this.createdAt.toISOString(),
+      emailVerified: this.emailVerifiedAt != null,
     };
   }
 }
@@ -35,6 +37,7 @@ export function initUser(sequelize: Sequelize) {
       role: { type: DataTypes.ENUM('member', 'moderator', 'admin'), allowNull: false, defaultValue: 'member' },
       status: { type: DataTypes.ENUM('active', 'suspended'), allowNull: false, defaultValue: 'active' },
       crewRole: { type: DataTypes.STRING(80), allowNull: true },
+      emailVerifiedAt: { type: DataTypes.DATE, allowNull: true },
       createdAt: DataTypes.DATE,
       updatedAt: DataTypes.DATE,
     },

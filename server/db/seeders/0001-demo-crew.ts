@@ -16,7 +16,7 @@ export const up: MigrationFn = async () => {
   for (const account of DEMO_ACCOUNTS) {
     await User.findOrCreate({
       where: { email: account.email },
-      defaults: { ...account, passwordHash },
+      defaults: { ...account, passwordHash, emailVerifiedAt: new Date() },
     });
   }
 };

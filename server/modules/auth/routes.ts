@@ -1,19 +1,32 @@
 import { Router, type NextFunction, type Request, type Response } from 'express';
 import { rateLimit } from 'express-rate-limit';
 import type { createPassport } from './passport';
-import { loginSchema, registerSchema, type LoginInput, type RegisterInput } from '@shared/schemas/auth';
+import {
+  loginSchema,
+  passwordResetRequestSchema,
+  passwordResetSchema,
+  registerSchema,
+  verifyEmailSchema,
+  type LoginInput,
+  type PasswordResetInput,
+  type PasswordResetRequestInput,
+  type RegisterInput,
+  type VerifyEmailInput,
+} from '@shared/schemas/auth';
 import type { Config } from '../../config';
 import type { User } from '../../db/models';
 import { AppError } from '../../errors';
 import { currentUser, requireAuth } from '../../middleware/auth';
 import { validate } from '../../middleware/validate';
 import type { AuthService } from './service';
+import { RESET_REQUESTED_MESSAGE, TOKEN_LIFETIME_MS, type TokenService } from './tokens';
 
 interface Deps {
   config: Config;
   auth: AuthService;
   passport: ReturnType<typeof createPassport>;
   csrfToken: (req: Request, overwrite?: boolean) => string;
+  tokens: TokenService;
 }
 
 function tooMany(message: string) {
@@ -25,7 +38,18 @@ function signIn(req: Request, user: User): Promise<void> {
   return new Promise((resolve, reject) => req.login(user, (err) => (err ? reject(err) : resolve())));
 }
 
-export function authRoutes({ config, auth, passport, csrfToken }: Deps) {
+/** Ends the session of this request (after a password reset of the account it is signed in to). */
+function endSession(req: Request, res: Response): Promise<void> {
+  return new Promise((resolve, reject) =>
+    req.session.destroy((err) => {
+      if (err) return reject(err);
+      res.clearCookie('rigshelf.sid', { path: '/' });
+      resolve();
+    }),
+  );
+}
+
+export function authRoutes({ config, auth, passport, csrfToken, tokens }: Deps) {
   const router = Router();
   const windowMs = config.LOGIN_LIMIT_WINDOW_MIN * 60_000;
   const minutes = `${config.LOGIN_LIMIT_WINDOW_MIN} minutes`;
@@ -45,6 +69,31 @@ export function authRoutes({ config, auth, passport, csrfToken }: Deps) {
     skipSuccessfulRequests: true,
     keyGenerator: (req) => `account:${String((req.body as Partial<LoginInput>)?.email ?? '').toLowerCase()}`,
     handler: tooMany(`Too many failed sign-ins for this account. Wait ${minutes} or reset your password.`),
+  });
+
+  // mail-sending and link-spending routes: their own counters, the same limits as sign-in
+  const resetPerIp = rateLimit({
+    windowMs,
+    limit: config.LOGIN_LIMIT_PER_IP,
+    standardHeaders: 'draft-8',
+    legacyHeaders: false,
+    handler: tooMany(`Too many password-reset attempts from this network. Wait ${minutes} and try again.`),
+  });
+  const resetPerAddress = rateLimit({
+    windowMs,
+    limit: config.LOGIN_LIMIT_PER_ACCOUNT,
+    standardHeaders: 'draft-8',
+    legacyHeaders: false,
+    keyGenerator: (req) => `reset:${String((req.body as Partial<PasswordResetRequestInput>)?.email ?? '').toLowerCase()}`,
+    handler: tooMany(`Too many reset links were asked for this address. Wait ${minutes}, then use the newest mail.`),
+  });
+  const resendPerAccount = rateLimit({
+    windowMs,
+    limit: config.LOGIN_LIMIT_PER_ACCOUNT,
+    standardHeaders: 'draft-8',
+    legacyHeaders: false,
+    keyGenerator: (req) => `resend:${currentUser(req)?.id ?? ''}`,
+    handler: tooMany(`Too many confirmation mails were asked for. Wait ${minutes}, then use the newest mail.`),
   });
 
   router.get('/csrf', (req, response) => {
@@ -71,6 +120,33 @@ export function authRoutes({ config, auth, passport, csrfToken }: Deps) {
         .then(() => response.json({ user: user.toPublic() }))
         .catch(next);
     })(req, response, next);
+  });
+
+  router.post('/verify-email', validate('body', verifyEmailSchema), async (_req, response) => {
+    const { token } = response.locals.body as VerifyEmailInput;
+    const user = await tokens.verifyEmail(token);
+    response.json({ user: user.toPublic() });
+  });
+
+  router.post('/verify-email/resend', requireAuth, resendPerAccount, async (req, response) => {
+    const user = currentUser(req)!;
+    await tokens.resendVerification(user);
+    const hours = TOKEN_LIFETIME_MS.verify_email / 3600_000;
+    response.status(202).json({ message: `A new confirmation link is on its way to ${user.email}. It works for ${hours} hours.` });
+  });
+
+  router.post('/password-reset/request', resetPerIp, validate('body', passwordResetRequestSchema), resetPerAddress, async (_req, response) => {
+    const { email } = response.locals.body as PasswordResetRequestInput;
+    await tokens.requestPasswordReset(email);
+    // the same answer whether or not an account uses the address
+    response.status(202).json({ message: RESET_REQUESTED_MESSAGE });
+  });
+
+  router.post('/password-reset', resetPerIp, validate('body', passwordResetSchema), async (req, response) => {
+    const { token, password } = response.locals.body as PasswordResetInput;
+    const user = await tokens.resetPassword(token, password);
+    if (currentUser(req)?.id === user.id) await endSession(req, response);
+    response.json({ message: 'Your password is changed and you are signed out everywhere. Sign in with the new password.' });
   });
 
   router.get('/me', requireAuth, (req, response) => {

@@ -4,17 +4,26 @@ import type { Config } from '../../config';
 import { User } from '../../db/models';
 import { AppError } from '../../errors';
 import { dummyHash, hashPassword, verifyPassword } from '../../security/password';
+import type { TokenService } from './tokens';
 
 export type SignInResult = { ok: true; user: User } | { ok: false; reason: 'credentials' | 'suspended' };
 
-export function createAuthService(config: Config) {
+export function createAuthService(config: Config, tokens: Pick<TokenService, 'sendVerification'>) {
   const logN = config.PASSWORD_SCRYPT_LOG_N;
 
   return {
+    /** Creates the account and queues its confirmation mail in the same transaction. */
     async register(input: RegisterInput): Promise<User> {
       const passwordHash = await hashPassword(input.password, logN);
       try {
-        return await User.create({ email: input.email, displayName: input.displayName, passwordHash, crewRole: null });
+        return await User.sequelize!.transaction(async (transaction) => {
+          const user = await User.create(
+            { email: input.email, displayName: input.displayName, passwordHash, crewRole: null },
+            { transaction },
+          );
+          await tokens.sendVerification(user, transaction);
+          return user;
+        });
       } catch (err) {
         if (err instanceof UniqueConstraintError) {
           throw new AppError(409, 'email_taken', 'An account with that e-mail address already exists. Sign in instead.', {

@@ -87,23 +87,31 @@ async function cloneRevision(part: Part, from: PartRevision, actor: User, transa
  * The revision that changes go into: the latest one while it is still under the contributor's
  * control, or a new one copied from it when the latest is already published.
  */
-export async function editableRevision(part: Part, actor: User, transaction: Transaction): Promise<PartRevision> {
+export async function editableRevision(part: Part, actor: User, transaction: Transaction): Promise<{ revision: PartRevision; created: boolean }> {
   const latest = await PartRevision.findByPk(part.latestRevisionId!, { transaction, lock: transaction.LOCK.UPDATE });
   if (!latest) throw new Error(`part ${part.id} has no latest revision`);
-  if (latest.status === 'published') return cloneRevision(part, latest, actor, transaction);
+  if (latest.status === 'published') return { revision: await cloneRevision(part, latest, actor, transaction), created: true };
+  if (latest.status === 'rejected' && part.publishedRevisionId) {
+    // a rejected change to a published part: start again from what is on the shelf
+    const published = (await PartRevision.findByPk(part.publishedRevisionId, { transaction }))!;
+    return { revision: await cloneRevision(part, published, actor, transaction), created: true };
+  }
   if (latest.status === 'rejected' || latest.status === 'superseded') {
     throw AppError.conflict('This revision can no longer be changed.');
   }
-  return latest;
+  return { revision: latest, created: false };
 }
 
-/** After an edit the revision goes (back) to the review desk; an unpublished part's status follows it. */
-export async function markChanged(part: Part, revision: PartRevision, transaction: Transaction) {
-  if (revision.status === 'sent_back' || revision.status === 'draft') {
-    await revision.update({ status: 'in_review', submittedAt: new Date() }, { transaction });
-  }
+/**
+ * After an edit the revision goes (back) to the review desk; an unpublished part's status follows it.
+ * Returns true when this edit resubmitted a revision that had been sent back (or was a draft).
+ */
+export async function markChanged(part: Part, revision: PartRevision, transaction: Transaction): Promise<boolean> {
+  const resubmitted = revision.status === 'sent_back' || revision.status === 'draft';
+  if (resubmitted) await revision.update({ status: 'in_review', submittedAt: new Date() }, { transaction });
   await part.update(
     { status: part.publishedRevisionId ? part.status : (revision.status as PartStatus), lockVersion: part.lockVersion + 1 },
     { transaction },
   );
+  return resubmitted;
 }

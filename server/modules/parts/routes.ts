@@ -77,6 +77,10 @@ export function partsRoutes(parts: PartsService, dirs: UploadDirs) {
     res.json(await parts.update(currentUser(req)!, req.params.id as string, res.locals.body as PartUpdate));
   });
 
+  router.post('/:id/submit', requireAuth, validate('params', idParamSchema), async (req, res) => {
+    res.json(await parts.resubmit(currentUser(req)!, req.params.id as string));
+  });
+
   router.post(
     '/:id/files',
     requireAuth,

@@ -1,6 +1,7 @@
 // The catalogue's core record: submitting, reading, editing parts and their files.
 import { Op, UniqueConstraintError, type Sequelize, type Transaction } from 'sequelize';
 import { slugify } from '@shared/catalogue';
+import { transition } from '@shared/review';
 import { checkAdaptationLicence, isLicenceId } from '@shared/licences';
 import type { PartSubmission, PartUpdate } from '@shared/schemas/part';
 import { Part, PartFile, PartRevision, RevisionFile, type User } from '../../db/models';
@@ -13,10 +14,14 @@ import { attachFiles, cleanPhoto, pathsOf, removeStoredFiles, sweepUploads } fro
 import { presentPart, presentSummaries } from './presenter';
 import { bodyIdsFor, editableRevision, markChanged, replaceBodies, replaceRecipes, revisionColumns } from './revisions';
 
+export type SubmissionHook = (actor: User, part: Part, revision: PartRevision, kind: 'submit' | 'resubmit', t: Transaction) => Promise<void>;
+
 export interface PartsDeps {
   sequelize: Sequelize;
   dirs: UploadDirs;
   photos: PhotoQueue;
+  /** Tells the review desk about a new or changed submission, inside the same transaction. */
+  onSubmitted?: SubmissionHook;
 }
 
 function fieldError(field: string, message: string) {
@@ -31,7 +36,14 @@ async function uniqueSlug(title: string, transaction: Transaction): Promise<stri
   for (let n = 2; ; n++) if (!used.has(`${base}-${n}`)) return `${base}-${n}`;
 }
 
-export function createPartsService({ sequelize, dirs, photos }: PartsDeps) {
+export function createPartsService({ sequelize, dirs, photos, onSubmitted }: PartsDeps) {
+  /** Records what an edit did: a new revision of a published part, or a resubmission after changes. */
+  async function afterEdit(actor: User, part: Part, edit: { revision: PartRevision; created: boolean }, t: Transaction) {
+    const resubmitted = await markChanged(part, edit.revision, t);
+    if (edit.created) await onSubmitted?.(actor, part, edit.revision, 'submit', t);
+    else if (resubmitted) await onSubmitted?.(actor, part, edit.revision, 'resubmit', t);
+  }
+
   const inFlight = new Set<Promise<void>>();
 
   function queuePhotos(rows: PartFile[]) {
@@ -143,6 +155,7 @@ export function createPartsService({ sequelize, dirs, photos }: PartsDeps) {
         await replaceRecipes(revision.id, input.recipes, t);
         await part.update({ latestRevisionId: revision.id }, { transaction: t });
         const attached = await attachFiles({ dirs, partId: part.id, revisionId: revision.id, createdBy: actor.id, files }, t);
+        await onSubmitted?.(actor, part, revision, 'submit', t);
         return { result: { id: part.id, slug: part.slug, status: part.status }, undo: attached.undo, photos: attached.rows };
       });
     },
@@ -173,11 +186,11 @@ export function createPartsService({ sequelize, dirs, photos }: PartsDeps) {
         const part = await findVisiblePart(actor, id, t);
         assertCanEdit(actor, part);
         if (patch.licence) await checkParentLicence(part.parentId, patch.licence, actor);
-        const revision = await editableRevision(part, actor, t);
-        await revision.update(revisionColumns(patch), { transaction: t });
-        if (bodyIds) await replaceBodies(revision.id, bodyIds, t);
-        if (patch.recipes) await replaceRecipes(revision.id, patch.recipes, t);
-        await markChanged(part, revision, t);
+        const edit = await editableRevision(part, actor, t);
+        await edit.revision.update(revisionColumns(patch), { transaction: t });
+        if (bodyIds) await replaceBodies(edit.revision.id, bodyIds, t);
+        if (patch.recipes) await replaceRecipes(edit.revision.id, patch.recipes, t);
+        await afterEdit(actor, part, edit, t);
       });
       return this.get(actor, id);
     },
@@ -187,9 +200,9 @@ export function createPartsService({ sequelize, dirs, photos }: PartsDeps) {
       await writeWithFiles(async (t) => {
         const part = await findVisiblePart(actor, id, t);
         assertCanEdit(actor, part);
-        const revision = await editableRevision(part, actor, t);
-        const attached = await attachFiles({ dirs, partId: part.id, revisionId: revision.id, createdBy: actor.id, files }, t);
-        await markChanged(part, revision, t);
+        const edit = await editableRevision(part, actor, t);
+        const attached = await attachFiles({ dirs, partId: part.id, revisionId: edit.revision.id, createdBy: actor.id, files }, t);
+        await afterEdit(actor, part, edit, t);
         return { result: undefined, undo: attached.undo, photos: attached.rows };
       });
       return this.get(actor, id);
@@ -199,7 +212,8 @@ export function createPartsService({ sequelize, dirs, photos }: PartsDeps) {
       const orphan = await sequelize.transaction(async (t) => {
         const part = await findVisiblePart(actor, id, t);
         assertCanEdit(actor, part);
-        const revision = await editableRevision(part, actor, t);
+        const edit = await editableRevision(part, actor, t);
+        const revision = edit.revision;
         const links = await RevisionFile.findAll({ where: { revisionId: revision.id }, transaction: t });
         if (!links.some((l) => l.fileId === fileId)) throw AppError.notFound('That file is not part of this part.');
         const file = (await PartFile.findByPk(fileId, { transaction: t }))!;
@@ -208,13 +222,26 @@ export function createPartsService({ sequelize, dirs, photos }: PartsDeps) {
           if (models <= 1) throw AppError.conflict('A part needs at least one model file. Add the new model before removing this one.');
         }
         await RevisionFile.destroy({ where: { revisionId: revision.id, fileId }, transaction: t });
-        await markChanged(part, revision, t);
+        await afterEdit(actor, part, edit, t);
         const stillUsed = await RevisionFile.count({ where: { fileId }, transaction: t });
         if (stillUsed) return null;
         await file.destroy({ transaction: t });
         return file;
       });
       if (orphan) await removeStoredFiles(dirs, orphan);
+      return this.get(actor, id);
+    },
+
+    /** Sends a sent-back (or draft) revision to the review desk again without further changes. */
+    async resubmit(actor: User, id: string) {
+      await sequelize.transaction(async (t) => {
+        const part = await findVisiblePart(actor, id, t);
+        assertCanEdit(actor, part);
+        const latest = (await PartRevision.findByPk(part.latestRevisionId!, { transaction: t, lock: t.LOCK.UPDATE }))!;
+        const step = transition(latest.status, 'submit');
+        if (!step.ok) throw AppError.conflict(step.message);
+        await afterEdit(actor, part, { revision: latest, created: false }, t);
+      });
       return this.get(actor, id);
     },
 
