@@ -16,6 +16,7 @@ import { authRoutes } from './modules/auth/routes';
 import { createAuthService } from './modules/auth/service';
 import { createTokenService } from './modules/auth/tokens';
 import { healthRoutes } from './modules/health/routes';
+import { PhotoJobs } from './modules/files/photo-jobs';
 import { PhotoQueue } from './modules/files/photo-queue';
 import { uploadDirs } from './modules/files/storage';
 import { multerErrors } from './modules/files/upload';
@@ -24,10 +25,14 @@ import { createPartsService } from './modules/parts/service';
 import { vocabRoutes } from './modules/vocab/routes';
 import type { Mailer } from './modules/mail/outbox';
 import { devMailboxRoutes, mailAdminRoutes } from './modules/mail/routes';
+import { evidenceModerationRoutes, flagRoutes, partEvidenceRoutes, profileRoutes } from './modules/evidence/routes';
+import { createEvidenceService } from './modules/evidence/service';
 import { noticesRoutes } from './modules/notices/routes';
 import { partHistoryRoutes } from './modules/review/history-routes';
 import { reviewRoutes } from './modules/review/routes';
 import { createReviewService } from './modules/review/service';
+import { searchRoutes } from './modules/search/routes';
+import { createSearchService } from './modules/search/service';
 
 export const SESSION_COOKIE = 'rigshelf.sid';
 
@@ -88,9 +93,12 @@ export function createApp({ config, sequelize, mailer }: AppContext) {
   );
 
   const dirs = uploadDirs(config.UPLOADS_DIR);
-  const photos = new PhotoQueue();
-  const review = createReviewService({ sequelize, mail: mailer, publicUrl: config.PUBLIC_URL });
+  const photos = new PhotoJobs(dirs, new PhotoQueue());
+  const search = createSearchService({ sequelize, indexFile: config.SEARCH_INDEX_FILE });
+  // a decision that puts a part on the shelf, replaces its published revision or retires it changes search
+  const review = createReviewService({ sequelize, mail: mailer, publicUrl: config.PUBLIC_URL, onDecided: () => search.scheduleRebuild() });
   const parts = createPartsService({ sequelize, dirs, photos, onSubmitted: review.submitted });
+  const evidence = createEvidenceService({ sequelize, dirs, photos });
 
   const tokens = createTokenService({ config, mailer });
   const auth = createAuthService(config, tokens);
@@ -116,8 +124,14 @@ export function createApp({ config, sequelize, mailer }: AppContext) {
   app.use('/api/vocab', vocabRoutes());
   app.use('/api/parts', partHistoryRoutes(review));
   app.use('/api/parts', partsRoutes(parts, dirs));
+  app.use('/api/parts', partEvidenceRoutes(evidence, dirs));
+  app.use('/api/ratings', flagRoutes(evidence, 'rating'));
+  app.use('/api/reports', flagRoutes(evidence, 'report'));
+  app.use('/api/users', profileRoutes(evidence));
+  app.use('/api/review', evidenceModerationRoutes(evidence));
   app.use('/api/review', reviewRoutes(review));
   app.use('/api/notices', noticesRoutes());
+  app.use('/api/search', searchRoutes(search));
   app.use('/api', apiNotFound());
 
   const dist = resolve(config.CLIENT_DIST);
@@ -131,11 +145,12 @@ export function createApp({ config, sequelize, mailer }: AppContext) {
 
   return {
     app,
-    services: { parts, review, dirs },
+    services: { parts, review, evidence, dirs, search },
     /** Waits for photo work in hand, then stops the worker and the session store's expiry sweep. */
     async close() {
       await parts.photosSettled();
       await photos.close();
+      await search.close();
       (store as unknown as { stopExpiringSessions(): void }).stopExpiringSessions();
     },
   };

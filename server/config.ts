@@ -25,6 +25,8 @@ const schema = z
     TRUST_PROXY: flag.default(false),
     UPLOADS_DIR: z.string().default(resolve(root, 'uploads')),
     CLIENT_DIST: z.string().default(resolve(root, 'dist')),
+    /** The saved search index, loaded at start-up when it still matches the shelf. */
+    SEARCH_INDEX_FILE: z.string().min(1).default(resolve(root, 'var/search-index.json')),
     RIGSHELF_DEMO: flag.optional(),
     LOGIN_LIMIT_PER_IP: z.coerce.number().int().positive().default(30),
     LOGIN_LIMIT_PER_ACCOUNT: z.coerce.number().int().positive().default(8),

@@ -32,6 +32,9 @@ export async function startServer(config: Config): Promise<RunningServer> {
     const seeds = await seedDemo(sequelize, built.services);
     if (seeds.length) console.log(`rigshelf: demo scenario seeded (${seeds.join(', ')})`);
   }
+  // after the seed: a seeded shelf no longer matches the saved index's fingerprint, so it is rebuilt
+  const search = await built.services.search.start();
+  console.log(`rigshelf: search index ${search.source === 'file' ? 'loaded' : 'built'} (${search.documents} part(s))`);
   const server = createServer(built.app);
   try {
     await new Promise<void>((resolveListen, reject) => {

@@ -48,6 +48,7 @@ describe('auth · register, sign in, me, sign out', () => {
       status: 'active',
       crewRole: null,
       createdAt: expect.any(String),
+      emailVerified: true,
     });
     expect(sessionCookie(login)).toBeDefined();
     expect(login.headers['set-cookie']?.[0]).toMatch(/HttpOnly/i);

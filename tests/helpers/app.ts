@@ -27,6 +27,9 @@ export interface TestApp {
 // Each test file keeps its uploads apart, so one file's start-up sweep never sees another's files.
 export const uploadsDir = mkdtempSync(join(tmpdir(), 'rigshelf-uploads-'));
 afterAll(() => rmSync(uploadsDir, { recursive: true, force: true }));
+const searchDir = mkdtempSync(join(tmpdir(), 'rigshelf-search-'));
+let searchFiles = 0;
+afterAll(() => rmSync(searchDir, { recursive: true, force: true }));
 
 export function testConfig(overrides: Record<string, string> = {}): Config {
   return loadConfig({
@@ -34,6 +37,8 @@ export function testConfig(overrides: Record<string, string> = {}): Config {
     NODE_ENV: 'test',
     PASSWORD_SCRYPT_LOG_N: '12',
     UPLOADS_DIR: uploadsDir,
+    // each app its own index file, unless a test passes one (a restart reads the same file)
+    SEARCH_INDEX_FILE: join(searchDir, `index-${(searchFiles += 1)}.json`),
     // one local fake SMTP server per app, on a free port
     SMTP_FAKE: '1',
     SMTP_PORT: '0',
@@ -52,6 +57,7 @@ export async function createTestApp(overrides: Record<string, string> = {}, opti
   const mailer = await createMailer({ config, sequelize });
   const built = createApp({ config, sequelize, mailer });
   if (options.demo) await seedDemo(sequelize, built.services);
+  await built.services.search.start();
   open.push(sequelize);
   return {
     app: built.app,

@@ -3,6 +3,7 @@ import { DataTypes, Model, type Sequelize } from 'sequelize';
 import { AccountToken, initAccountToken } from './account-token';
 import { AuditEvent, initAuditEvent } from './audit-event';
 import { CameraBody, initCameraBody } from './camera-body';
+import { ContentFlag, initEvidence, Rating, ReportPhoto, SetReport } from './evidence';
 import { initMailMessage, MailMessage } from './mail-message';
 import { initNotice, Notice } from './notice';
 import { initPart, Part } from './part';
@@ -13,6 +14,7 @@ import { initSession, Session } from './session';
 import { initUser, User } from './user';
 
 export type { AuditAction } from './audit-event';
+export { ContentFlag, Rating, ReportPhoto, SetReport };
 export { AccountToken, AuditEvent, CameraBody, MailMessage, Notice, Part, PartFile, PartRevision, Recipe, Session, User };
 
 /** Join rows: which camera bodies a revision fits, which files a revision shows (in order). */
@@ -34,6 +36,7 @@ export function initModels(sequelize: Sequelize) {
   initMailMessage(sequelize);
   initAccountToken(sequelize);
   initAuditEvent(sequelize);
+  initEvidence(sequelize);
   initNotice(sequelize);
   RevisionBody.init(
     {
@@ -54,6 +57,9 @@ export function initModels(sequelize: Sequelize) {
   Part.belongsTo(User, { as: 'author', foreignKey: 'authorId' });
   AccountToken.belongsTo(User, { as: 'user', foreignKey: 'userId' });
   AuditEvent.belongsTo(User, { as: 'actor', foreignKey: 'actorId' });
+  Rating.belongsTo(User, { as: 'user', foreignKey: 'userId' });
+  SetReport.belongsTo(User, { as: 'user', foreignKey: 'userId' });
+  SetReport.hasMany(ReportPhoto, { as: 'photos', foreignKey: 'reportId' });
   Part.belongsTo(Part, { as: 'parent', foreignKey: 'parentId' });
   Part.hasMany(Part, { as: 'adaptations', foreignKey: 'parentId' });
   Part.belongsTo(PartRevision, { as: 'publishedRevision', foreignKey: 'publishedRevisionId', constraints: false });

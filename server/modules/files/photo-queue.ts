@@ -12,9 +12,12 @@ export class PhotoQueue {
   private waiting = new Map<number, (r: PhotoResult) => void>();
   private idleTimer: NodeJS.Timeout | null = null;
 
+  private nextId = 0;
+
   /** Resolves when the photo is processed (or has failed); never rejects. */
-  process(job: PhotoJob): Promise<PhotoResult> {
+  process(paths: Omit<PhotoJob, 'id'>): Promise<PhotoResult> {
     const worker = this.ensureWorker();
+    const job: PhotoJob = { id: ++this.nextId, ...paths };
     return new Promise((resolve) => {
       this.waiting.set(job.id, resolve);
       worker.postMessage(job);

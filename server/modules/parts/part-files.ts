@@ -2,7 +2,7 @@
 import { existsSync } from 'node:fs';
 import { join } from 'node:path';
 import { Op, type Transaction } from 'sequelize';
-import { PartFile, RevisionFile } from '../../db/models';
+import { PartFile, ReportPhoto, RevisionFile } from '../../db/models';
 import type { InspectedFile } from '../files/inspect';
 import type { PhotoQueue } from '../files/photo-queue';
 import { filesOlderThan, moveAll, randomStoredName, removeQuietly, type UploadDirs } from '../files/storage';
@@ -66,12 +66,18 @@ export async function attachFiles(
   return { rows, undo: () => moved.undo() };
 }
 
+/** A row holding a photo (a part's or a set report's), reloaded after cleaning in case it was deleted meanwhile. */
+interface PhotoRow {
+  storedName: string;
+}
+type Reload = () => Promise<{ update(values: { processing: 'ready' | 'failed'; width?: number; height?: number }): Promise<unknown> } | null>;
+
 /** Cleans a stored photo in the worker and records the outcome; the raw upload is removed either way. */
-export async function cleanPhoto(dirs: UploadDirs, photos: PhotoQueue, row: PartFile): Promise<void> {
-  const paths = pathsOf(dirs, row);
-  const result = await photos.process({ id: row.id, source: paths.original, display: paths.display!, thumbnail: paths.thumbnail! });
+export async function cleanPhoto(dirs: UploadDirs, photos: PhotoQueue, row: PhotoRow, reload: Reload): Promise<void> {
+  const paths = pathsOf(dirs, { kind: 'photo', storedName: row.storedName });
+  const result = await photos.process({ source: paths.original, display: paths.display!, thumbnail: paths.thumbnail! });
   await removeQuietly(paths.original);
-  const stillThere = await PartFile.findByPk(row.id);
+  const stillThere = await reload();
   if (!stillThere) {
     await removeQuietly(paths.display, paths.thumbnail);
     return;
@@ -92,7 +98,7 @@ export async function removeStoredFiles(dirs: UploadDirs, row: Pick<PartFile, 'k
  * Start-up sweep after a crash: drops unfinished uploads, raw photos nobody is waiting for and stored
  * files no row refers to. Returns the photos still waiting to be cleaned.
  */
-export async function sweepUploads(dirs: UploadDirs): Promise<{ removed: number; pendingPhotos: PartFile[] }> {
+export async function sweepUploads(dirs: UploadDirs): Promise<{ removed: number; pendingPhotos: PartFile[]; pendingReportPhotos: ReportPhoto[] }> {
   let removed = 0;
   const drop = async (path: string) => {
     await removeQuietly(path);
@@ -101,14 +107,18 @@ export async function sweepUploads(dirs: UploadDirs): Promise<{ removed: number;
   for (const name of await filesOlderThan(dirs.tmp, 0)) await drop(join(dirs.tmp, name));
 
   const pendingPhotos = await PartFile.findAll({ where: { kind: 'photo', processing: 'pending' } });
-  const waiting = new Set(pendingPhotos.map((p) => p.storedName));
+  const pendingReportPhotos = await ReportPhoto.findAll({ where: { processing: 'pending' } });
+  const waiting = new Set([...pendingPhotos, ...pendingReportPhotos].map((p) => p.storedName));
   for (const name of await filesOlderThan(dirs.incoming, 0)) if (!waiting.has(name)) await drop(join(dirs.incoming, name));
 
   const stored = await filesOlderThan(dirs.store, 0);
   const baseOf = (name: string) => name.replace(/-(display|thumb)\.jpg$/, '');
-  const known = new Set(
-    (await PartFile.findAll({ where: { storedName: { [Op.in]: [...new Set(stored.map(baseOf))] } }, attributes: ['storedName'] })).map((f) => f.storedName),
-  );
+  const names = { storedName: { [Op.in]: [...new Set(stored.map(baseOf))] } };
+  const known = new Set([
+    ...(await PartFile.findAll({ where: names, attributes: ['storedName'] })).map((f) => f.storedName),
+    ...(await ReportPhoto.findAll({ where: names, attributes: ['storedName'] })).map((f) => f.storedName),
+  ]);
   for (const name of stored) if (!known.has(baseOf(name))) await drop(join(dirs.store, name));
-  return { removed, pendingPhotos: pendingPhotos.filter((p) => existsSync(pathsOf(dirs, p).original)) };
+  const stillRaw = <T extends { storedName: string }>(rows: T[]) => rows.filter((p) => existsSync(pathsOf(dirs, { kind: 'photo', storedName: p.storedName }).original));
+  return { removed, pendingPhotos: stillRaw(pendingPhotos), pendingReportPhotos: stillRaw(pendingReportPhotos) };
 }

@@ -4,13 +4,13 @@ import { slugify } from '@shared/catalogue';
 import { transition } from '@shared/review';
 import { checkAdaptationLicence, isLicenceId } from '@shared/licences';
 import type { PartSubmission, PartUpdate } from '@shared/schemas/part';
-import { Part, PartFile, PartRevision, RevisionFile, type User } from '../../db/models';
+import { Part, PartFile, PartRevision, ReportPhoto, RevisionFile, type User } from '../../db/models';
 import { AppError } from '../../errors';
 import type { InspectedFile } from '../files/inspect';
-import type { PhotoQueue } from '../files/photo-queue';
+import type { PhotoJobs } from '../files/photo-jobs';
 import type { UploadDirs } from '../files/storage';
 import { assertCanEdit, findVisiblePart, seesUnpublished } from './access';
-import { attachFiles, cleanPhoto, pathsOf, removeStoredFiles, sweepUploads } from './part-files';
+import { attachFiles, pathsOf, removeStoredFiles, sweepUploads } from './part-files';
 import { presentPart, presentSummaries } from './presenter';
 import { bodyIdsFor, editableRevision, markChanged, replaceBodies, replaceRecipes, revisionColumns } from './revisions';
 
@@ -19,7 +19,7 @@ export type SubmissionHook = (actor: User, part: Part, revision: PartRevision, k
 export interface PartsDeps {
   sequelize: Sequelize;
   dirs: UploadDirs;
-  photos: PhotoQueue;
+  photos: PhotoJobs;
   /** Tells the review desk about a new or changed submission, inside the same transaction. */
   onSubmitted?: SubmissionHook;
 }
@@ -44,15 +44,8 @@ export function createPartsService({ sequelize, dirs, photos, onSubmitted }: Par
     else if (resubmitted) await onSubmitted?.(actor, part, edit.revision, 'resubmit', t);
   }
 
-  const inFlight = new Set<Promise<void>>();
-
   function queuePhotos(rows: PartFile[]) {
-    for (const row of rows.filter((r) => r.kind === 'photo')) {
-      const job = cleanPhoto(dirs, photos, row)
-        .catch((err) => console.error(`photo ${row.id} could not be cleaned:`, err))
-        .finally(() => inFlight.delete(job));
-      inFlight.add(job);
-    }
+    for (const row of rows.filter((r) => r.kind === 'photo')) photos.clean(row, () => PartFile.findByPk(row.id));
   }
 
   async function checkParentLicence(parentId: number | null | undefined, licence: string, viewer: User) {
@@ -93,14 +86,15 @@ export function createPartsService({ sequelize, dirs, photos, onSubmitted }: Par
   return {
     /** Clears what a crash left behind and resumes photos that were waiting to be cleaned. */
     async recover() {
-      const { removed, pendingPhotos } = await sweepUploads(dirs);
+      const { removed, pendingPhotos, pendingReportPhotos } = await sweepUploads(dirs);
       queuePhotos(pendingPhotos);
-      return { removed, resumed: pendingPhotos.length };
+      for (const row of pendingReportPhotos) photos.clean(row, () => ReportPhoto.findByPk(row.id));
+      return { removed, resumed: pendingPhotos.length + pendingReportPhotos.length };
     },
 
     /** Resolves when every photo queued so far has been cleaned (tests and shutdown wait on it). */
-    async photosSettled(): Promise<void> {
-      while (inFlight.size) await Promise.all([...inFlight]);
+    photosSettled(): Promise<void> {
+      return photos.settled();
     },
 
     async create(actor: User, input: PartSubmission, files: InspectedFile[]) {

@@ -1,0 +1,263 @@
+// After the shoot: ratings and set reports, the evidence that makes a part proven, and moderation
+// of abusive entries (hidden entries stay on record but leave every score).
+import { Op, UniqueConstraintError, type Sequelize } from 'sequelize';
+import { summariseEvidence, type Evidence, type SetCondition } from '@shared/evidence';
+import type { RatingInput, SetReportInput } from '@shared/schemas/evidence';
+import { AuditEvent, ContentFlag, Part, PartRevision, Rating, Recipe, ReportPhoto, SetReport, User } from '../../db/models';
+import { AppError } from '../../errors';
+import type { InspectedFile } from '../files/inspect';
+import type { PhotoJobs } from '../files/photo-jobs';
+import { moveAll, randomStoredName, type UploadDirs } from '../files/storage';
+import { findVisiblePart, isModerator } from '../parts/access';
+import { pathsOf } from '../parts/part-files';
+
+export interface EvidenceDeps {
+  sequelize: Sequelize;
+  dirs: UploadDirs;
+  photos: PhotoJobs;
+  /** Called after evidence changed (ratings, reports, hiding), e.g. to refresh the search ranking. */
+  onChanged?: (partId: number) => void;
+}
+
+type Target = 'rating' | 'report';
+
+const visible = { hiddenAt: { [Op.is]: null } };
+
+async function partOnShelf(viewer: User | undefined, id: string | number): Promise<Part> {
+  const part = await findVisiblePart(viewer, id);
+  if (part.status !== 'published') {
+    throw AppError.conflict('Only parts that are on the shelf can be rated or reported on.');
+  }
+  return part;
+}
+
+function presentReport(r: SetReport, partId: number) {
+  return {
+    id: r.id,
+    production: r.production,
+    daysInUse: r.daysInUse,
+    conditions: r.conditions,
+    recipeId: r.recipeId,
+    material: r.material,
+    infillPct: r.infillPct,
+    walls: r.walls,
+    outcome: r.outcome,
+    notes: r.notes,
+    author: { id: r.userId, displayName: r.user?.displayName ?? '' },
+    createdAt: r.createdAt.toISOString(),
+    photos: (r.photos ?? []).map((p) => ({
+      id: p.id,
+      processing: p.processing,
+      thumbnailUrl: p.processing === 'ready' ? `/api/parts/${partId}/reports/${r.id}/photos/${p.id}/thumb` : null,
+      displayUrl: p.processing === 'ready' ? `/api/parts/${partId}/reports/${r.id}/photos/${p.id}/display` : null,
+    })),
+  };
+}
+
+export function createEvidenceService({ sequelize, dirs, photos, onChanged }: EvidenceDeps) {
+  async function catalogueMean(): Promise<number | null> {
+    const row = (await Rating.findOne({ where: visible, attributes: [[sequelize.fn('AVG', sequelize.col('stars')), 'mean']], raw: true })) as unknown as { mean: string | null } | null;
+    return row?.mean == null ? null : Number(row.mean);
+  }
+
+  async function evidenceFor(partIds: number[]): Promise<Map<number, Evidence>> {
+    const [reports, ratings, prior] = await Promise.all([
+      SetReport.findAll({ where: { partId: { [Op.in]: partIds }, ...visible }, attributes: ['partId', 'outcome', 'material', 'conditions'] }),
+      Rating.findAll({ where: { partId: { [Op.in]: partIds }, ...visible }, attributes: ['partId', 'stars'] }),
+      catalogueMean(),
+    ]);
+    return new Map(
+      partIds.map((id) => [
+        id,
+        summariseEvidence(
+          reports.filter((r) => r.partId === id),
+          ratings.filter((r) => r.partId === id).map((r) => r.stars),
+          prior,
+        ),
+      ]),
+    );
+  }
+
+  return {
+    async rate(actor: User, partId: string, input: RatingInput) {
+      const part = await partOnShelf(actor, partId);
+      if (part.authorId === actor.id) throw AppError.forbidden('You cannot rate your own part; file a set report instead.');
+      const existing = await Rating.findOne({ where: { partId: part.id, userId: actor.id } });
+      let rating: Rating;
+      if (existing) {
+        rating = await existing.update({ stars: input.stars, comment: input.comment ?? null });
+      } else {
+        try {
+          rating = await Rating.create({ partId: part.id, userId: actor.id, stars: input.stars, comment: input.comment ?? null, hiddenAt: null, hiddenBy: null, hiddenReason: null });
+        } catch (err) {
+          if (err instanceof UniqueConstraintError) throw AppError.conflict('Your rating was saved a moment ago from elsewhere; reload to change it.');
+          throw err;
+        }
+      }
+      onChanged?.(part.id);
+      return { created: !existing, rating: { id: rating.id, stars: rating.stars, comment: rating.comment } };
+    },
+
+    async ratings(viewer: User | undefined, partId: string) {
+      const part = await findVisiblePart(viewer, partId);
+      const rows = await Rating.findAll({ where: { partId: part.id, ...visible }, include: [{ model: User, as: 'user' }], order: [['updatedAt', 'DESC']] });
+      const evidence = (await evidenceFor([part.id])).get(part.id)!;
+      const mine = viewer ? rows.find((r) => r.userId === viewer.id) : undefined;
+      return {
+        items: rows.map((r) => ({ id: r.id, stars: r.stars, comment: r.comment, author: { id: r.userId, displayName: r.user?.displayName ?? '' }, updatedAt: r.updatedAt.toISOString() })),
+        summary: evidence.rating,
+        mine: mine ? { id: mine.id, stars: mine.stars, comment: mine.comment } : null,
+      };
+    },
+
+    async fileReport(actor: User, partId: string, input: SetReportInput, files: InspectedFile[]) {
+      const part = await partOnShelf(actor, partId);
+      if (files.some((f) => f.field !== 'photo')) throw new AppError(422, 'validation_failed', 'A set report takes photos only.', { photo: 'Attach photos (JPEG, PNG or WebP) only.' });
+      let material = input.material;
+      if (input.recipeId) {
+        const recipe = await Recipe.findByPk(input.recipeId);
+        const revision = recipe ? await PartRevision.findByPk(recipe.revisionId) : null;
+        if (!recipe || revision?.partId !== part.id) {
+          throw new AppError(422, 'validation_failed', 'Some fields need another look.', { recipeId: 'That recipe does not belong to this part.' });
+        }
+        material ??= recipe.material;
+      }
+      const t = await sequelize.transaction();
+      let undo: (() => Promise<void>) | undefined;
+      try {
+        const report = await SetReport.create(
+          {
+            partId: part.id,
+            userId: actor.id,
+            production: input.production,
+            daysInUse: input.daysInUse,
+            conditions: input.conditions as SetCondition[],
+            recipeId: input.recipeId ?? null,
+            material: material!,
+            infillPct: input.infillPct ?? null,
+            walls: input.walls ?? null,
+            outcome: input.outcome,
+            notes: input.notes ?? null,
+            hiddenAt: null,
+            hiddenBy: null,
+            hiddenReason: null,
+          },
+          { transaction: t },
+        );
+        const rows: ReportPhoto[] = [];
+        for (const f of files) {
+          rows.push(
+            await ReportPhoto.create(
+              { reportId: report.id, storedName: randomStoredName(''), originalName: f.originalName, sizeBytes: f.size, sha256: f.sha256, width: null, height: null },
+              { transaction: t },
+            ),
+          );
+        }
+        const moved = await moveAll(rows.map((row, i) => ({ from: files[i].path, to: pathsOf(dirs, { kind: 'photo', storedName: row.storedName }).original })));
+        undo = moved.undo;
+        await t.commit();
+        for (const row of rows) photos.clean(row, () => ReportPhoto.findByPk(row.id));
+        onChanged?.(part.id);
+        return { id: report.id };
+      } catch (err) {
+        await t.rollback().catch(() => undefined);
+        await undo?.();
+        throw err;
+      }
+    },
+
+    async reports(viewer: User | undefined, partId: string, filter: { material?: string; condition?: string; outcome?: string }) {
+      const part = await findVisiblePart(viewer, partId);
+      const rows = await SetReport.findAll({
+        where: { partId: part.id, ...visible, ...(filter.material && { material: filter.material }), ...(filter.outcome && { outcome: filter.outcome }) },
+        include: [{ model: User, as: 'user' }, { model: ReportPhoto, as: 'photos' }],
+        order: [['createdAt', 'DESC'], ['id', 'DESC']],
+      });
+      const items = rows.filter((r) => !filter.condition || r.conditions.includes(filter.condition as SetCondition));
+      return { items: items.map((r) => presentReport(r, part.id)) };
+    },
+
+    async reportPhotoPath(viewer: User | undefined, partId: string, reportId: number, photoId: number, size: 'thumb' | 'display') {
+      const part = await findVisiblePart(viewer, partId);
+      const report = await SetReport.findOne({ where: { id: reportId, partId: part.id, ...visible } });
+      const photo = report ? await ReportPhoto.findOne({ where: { id: photoId, reportId: report.id, processing: 'ready' } }) : null;
+      if (!photo) throw AppError.notFound('There is no such photo.');
+      const paths = pathsOf(dirs, { kind: 'photo', storedName: photo.storedName });
+      return size === 'thumb' ? paths.thumbnail! : paths.display!;
+    },
+
+    async proven(viewer: User | undefined, partId: string) {
+      const part = await findVisiblePart(viewer, partId);
+      return (await evidenceFor([part.id])).get(part.id)!;
+    },
+
+    evidenceFor,
+
+    async flag(actor: User, type: Target, id: number, reason: string) {
+      const target = type === 'rating' ? await Rating.findByPk(id) : await SetReport.findByPk(id);
+      if (!target || target.hiddenAt) throw AppError.notFound(`There is no such ${type}.`);
+      await findVisiblePart(actor, target.partId);
+      if (target.userId === actor.id) throw AppError.conflict(`That is your own ${type}; edit or ask a moderator instead.`);
+      const [, created] = await ContentFlag.findOrCreate({
+        where: { targetType: type, targetId: id, userId: actor.id },
+        defaults: { targetType: type, targetId: id, userId: actor.id, reason, resolvedAt: null },
+      });
+      return { flagged: true, alreadyFlagged: !created };
+    },
+
+    async hide(actor: User, type: Target, id: number, note: string) {
+      const result = await sequelize.transaction(async (t) => {
+        const Target = (type === 'rating' ? Rating : SetReport) as typeof Rating;
+        const target = await Target.findByPk(id, { transaction: t, lock: t.LOCK.UPDATE });
+        if (!target) throw AppError.notFound(`There is no such ${type}.`);
+        if (target.hiddenAt) throw AppError.conflict(`This ${type} is already hidden.`);
+        await target.update({ hiddenAt: new Date(), hiddenBy: actor.id, hiddenReason: note }, { transaction: t });
+        await ContentFlag.update({ resolvedAt: new Date() }, { where: { targetType: type, targetId: id }, transaction: t });
+        await AuditEvent.create(
+          { partId: target.partId, revisionId: null, actorId: actor.id, action: type === 'rating' ? 'hide_rating' : 'hide_report', note, details: { [`${type}Id`]: id, author: target.userId } },
+          { transaction: t },
+        );
+        return { id, hidden: true, partId: target.partId };
+      });
+      onChanged?.(result.partId);
+      return { id: result.id, hidden: true };
+    },
+
+    /** Flagged entries waiting for a moderator, oldest flag first. */
+    async flagged() {
+      const flags = await ContentFlag.findAll({ where: { resolvedAt: { [Op.is]: null } }, order: [['createdAt', 'ASC']] });
+      const byTarget = new Map<string, ContentFlag[]>();
+      for (const f of flags) byTarget.set(`${f.targetType}:${f.targetId}`, [...(byTarget.get(`${f.targetType}:${f.targetId}`) ?? []), f]);
+      const items = [];
+      for (const [key, list] of byTarget) {
+        const [type, id] = key.split(':') as [Target, string];
+        const target = type === 'rating' ? await Rating.findByPk(Number(id)) : await SetReport.findByPk(Number(id));
+        if (!target) continue;
+        items.push({
+          type,
+          id: Number(id),
+          partId: target.partId,
+          text: type === 'rating' ? (target as Rating).comment : (target as SetReport).notes,
+          flags: list.map((f) => ({ reason: f.reason, at: f.createdAt.toISOString() })),
+        });
+      }
+      return items;
+    },
+
+    async profile(viewer: User | undefined, userId: number) {
+      const user = await User.findByPk(userId);
+      if (!user || (user.status !== 'active' && !isModerator(viewer))) throw AppError.notFound('There is no such crew member.');
+      const parts = await Part.findAll({ where: { authorId: userId, status: 'published' }, include: [{ model: PartRevision, as: 'publishedRevision' }], order: [['publishedAt', 'DESC']] });
+      const evidence = await evidenceFor(parts.map((p) => p.id));
+      return {
+        user: { id: user.id, displayName: user.displayName, crewRole: user.crewRole, memberSince: user.createdAt.toISOString() },
+        parts: parts.map((p) => {
+          const e = evidence.get(p.id)!;
+          return { id: p.id, slug: p.slug, title: p.publishedRevision?.title ?? p.slug, proven: e.proven, reports: e.reports, heldUp: e.heldUp, rating: { mean: e.rating.mean, count: e.rating.count }, warnings: e.warnings.map((w) => w.text) };
+        }),
+      };
+    },
+  };
+}
+
+export type EvidenceService = ReturnType<typeof createEvidenceService>;

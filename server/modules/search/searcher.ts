@@ -1,0 +1,176 @@
+// Answers one search from an index and its documents: text matching through lunr, then filters,
+// facets, sorting and paging in memory. No database and no I/O, so the benchmark runs it as is.
+import lunr from 'lunr';
+import { mountStandard } from '../../../shared/catalogue';
+import type { SearchResponse, SearchResultItem } from '../../../shared/api/search';
+import type { SearchQuery } from '../../../shared/schemas/search';
+import { mountToken } from '../../../shared/search/aliases';
+import { countFacets, matchesFilters } from '../../../shared/search/filters';
+import { readQueryText, type TermGroup } from '../../../shared/search/query';
+import { AppError } from '../../errors';
+import { SEARCH_FIELDS, type SearchDocument } from './index-builder';
+
+/** What lunr keeps inside an index that its type declarations leave out. */
+interface IndexInternals {
+  invertedIndex: Record<string, unknown>;
+  tokenSet: lunr.TokenSet;
+  pipeline: lunr.Pipeline;
+}
+// @types/lunr declares these constructors as instance methods
+const TokenSet = lunr.TokenSet as unknown as {
+  fromString(text: string): lunr.TokenSet;
+  fromFuzzyString(text: string, editDistance: number): lunr.TokenSet;
+};
+
+/**
+ * Typo tolerance, for words the shelf does not know: one edit (insertion, deletion, substitution
+ * or swap of neighbours) from 5 letters, two edits from 7 letters when one finds nothing. Words
+ * the index holds are taken as typed, so "plate" never drifts to "place".
+ */
+export const TYPO_RULES = { oneEditFrom: 5, twoEditsFrom: 7 } as const;
+/** The last word also matches as a prefix (the crew member may still be typing) from this length. */
+export const PREFIX_FROM = 2;
+/** At most this many words per prefix, shortest first, so "a" does not expand to the whole shelf. */
+export const MAX_EXPANSIONS = 50;
+
+const BOOST = { exact: 1, prefix: 0.5, oneEdit: 0.4, twoEdits: 0.25, mountWord: 0.5 } as const;
+
+export interface Searchable {
+  index: lunr.Index;
+  documents: readonly SearchDocument[];
+}
+
+export interface Searcher {
+  search(query: SearchQuery): SearchResponse;
+  readonly size: number;
+}
+
+interface Match {
+  doc: SearchDocument;
+  score: number;
+}
+
+/** Terms of the index one group of the query may match, with the boost each gets. */
+function expandGroup(index: lunr.Index, group: TermGroup): Map<string, number> {
+  const internals = index as unknown as IndexInternals;
+  const has = (term: string) => Object.prototype.hasOwnProperty.call(internals.invertedIndex, term);
+  const terms = new Map<string, number>();
+  const add = (term: string, boost: number) => {
+    if (!terms.has(term) && has(term)) terms.set(term, boost);
+  };
+  const stem = (word: string) => internals.pipeline.runString(word)[0] ?? word;
+
+  if (group.kind === 'mount') {
+    add(mountToken(group.mount!), BOOST.exact);
+    if (group.alsoWord) add(stem(group.text), BOOST.mountWord);
+    return terms;
+  }
+
+  const word = group.text;
+  const stemmed = stem(word);
+  add(stemmed, BOOST.exact);
+  add(word, BOOST.exact);
+  if (group.last && word.length >= PREFIX_FROM) {
+    const prefixed = internals.tokenSet.intersect(TokenSet.fromString(`${word}*`)).toArray();
+    prefixed.sort((a, b) => a.length - b.length || (a < b ? -1 : 1));
+    for (const term of prefixed.slice(0, MAX_EXPANSIONS)) add(term, BOOST.prefix);
+  }
+  if (terms.size === 0 && word.length >= TYPO_RULES.oneEditFrom) {
+    const fuzzy = (distance: number) => internals.tokenSet.intersect(TokenSet.fromFuzzyString(stemmed, distance)).toArray();
+    for (const term of fuzzy(1).slice(0, MAX_EXPANSIONS)) add(term, BOOST.oneEdit);
+    if (terms.size === 0 && word.length >= TYPO_RULES.twoEditsFrom) {
+      for (const term of fuzzy(2).slice(0, MAX_EXPANSIONS)) add(term, BOOST.twoEdits);
+    }
+  }
+  return terms;
+}
+
+/**
+ * Plain words: every word (or mount name) must match, each through any of its expansions. lunr
+ * scores the expansions together; the check that each group matched is ours, from the match data.
+ */
+function plainMatches(index: lunr.Index, groups: TermGroup[], byRef: Map<string, SearchDocument>): Match[] {
+  const expanded = groups.map((g) => expandGroup(index, g));
+  if (expanded.some((terms) => terms.size === 0)) return [];
+  const results = index.query((q) => {
+    for (const terms of expanded) {
+      for (const [term, boost] of terms) q.term(term, { usePipeline: false, boost });
+    }
+  });
+  const matches: Match[] = [];
+  for (const result of results) {
+    const matched = result.matchData.metadata as Record<string, unknown>;
+    if (!expanded.every((terms) => [...terms.keys()].some((t) => t in matched))) continue;
+    const doc = byRef.get(result.ref);
+    if (doc) matches.push({ doc, score: result.score });
+  }
+  return matches;
+}
+
+const SYNTAX_HELP =
+  `Search understands plain words, or the query syntax field:word (fields: ${SEARCH_FIELDS.join(', ')}), ` +
+  '+word (must have), -word (must not have), word~1 (one typo allowed), word^2 (counts double) and batt* (starts with).';
+
+function syntaxMatches(index: lunr.Index, text: string, original: string, byRef: Map<string, SearchDocument>): Match[] {
+  let results: lunr.Index.Result[];
+  try {
+    results = index.search(text);
+  } catch (err) {
+    if (err instanceof lunr.QueryParseError) {
+      throw AppError.badRequest(`The search "${original}" could not be read: ${err.message}. ${SYNTAX_HELP}`, { q: err.message });
+    }
+    throw err;
+  }
+  return results.flatMap((r) => {
+    const doc = byRef.get(r.ref);
+    return doc ? [{ doc, score: r.score }] : [];
+  });
+}
+
+const newestFirst = (a: SearchDocument, b: SearchDocument) => (a.publishedAt < b.publishedAt ? 1 : a.publishedAt > b.publishedAt ? -1 : b.id - a.id);
+
+function present(m: Match): SearchResultItem {
+  const { doc } = m;
+  return {
+    id: doc.id,
+    slug: doc.slug,
+    title: doc.title,
+    summary: doc.summary,
+    sizeMm: doc.sizeMm ? [doc.sizeMm[0], doc.sizeMm[1], doc.sizeMm[2]] : null,
+    mounts: doc.mounts.map((mount) => ({ slug: mount.slug, label: mountStandard(mount.slug)?.label ?? mount.slug, ...(mount.note ? { note: mount.note } : {}) })),
+    bodies: doc.bodies.map((b) => ({ slug: b.slug, maker: b.maker, model: b.model })),
+    rating: doc.rating,
+    thumbnail: doc.thumbnail,
+    score: Math.round(m.score * 1e4) / 1e4,
+  };
+}
+
+export function createSearcher({ index, documents }: Searchable): Searcher {
+  const byRef = new Map(documents.map((d) => [String(d.id), d]));
+  const newest = [...documents].sort(newestFirst);
+
+  return {
+    size: documents.length,
+    search(query) {
+      const text = readQueryText(query.q);
+      let matches: Match[];
+      if (text.kind === 'none') matches = newest.map((doc) => ({ doc, score: 0 }));
+      else if (text.kind === 'plain') matches = plainMatches(index, text.groups, byRef);
+      else matches = syntaxMatches(index, text.text, query.q ?? '', byRef);
+
+      const filtered = matches.filter((m) => matchesFilters(m.doc, query));
+      // 'proven' will weigh ratings and reports once parts have them; until then it is relevance
+      if (query.sort === 'newest' || text.kind === 'none') filtered.sort((a, b) => newestFirst(a.doc, b.doc));
+      else filtered.sort((a, b) => b.score - a.score || newestFirst(a.doc, b.doc));
+
+      const start = (query.page - 1) * query.pageSize;
+      return {
+        total: filtered.length,
+        page: query.page,
+        pageSize: query.pageSize,
+        facets: countFacets(filtered.map((m) => m.doc)),
+        results: filtered.slice(start, start + query.pageSize).map(present),
+      };
+    },
+  };
+}

@@ -1,0 +1,115 @@
+// What set reports and ratings say about a part: the proven score (Wilson lower bound of the share
+// that held up), per material and per condition, the adjusted rating, and warnings from the evidence.
+import { bayesianRating, isSuccessfulOutcome, PRIOR_WEIGHT, wilsonLowerBound, type SetReportOutcome } from './ranking';
+
+export const SET_CONDITIONS = [
+  { key: 'heat', label: 'Heat or direct sun', phrase: 'in heat' },
+  { key: 'cold', label: 'Cold', phrase: 'in the cold' },
+  { key: 'wet', label: 'Rain or wet', phrase: 'in the wet' },
+  { key: 'dust', label: 'Dust or sand', phrase: 'in dust or sand' },
+  { key: 'vehicle', label: 'Vehicle or vibration', phrase: 'on a vehicle' },
+  { key: 'impacts', label: 'Drops or impacts', phrase: 'after drops or impacts' },
+] as const;
+export type SetCondition = (typeof SET_CONDITIONS)[number]['key'];
+export const SET_CONDITION_KEYS = SET_CONDITIONS.map((c) => c.key) as [SetCondition, ...SetCondition[]];
+
+export const OUTCOME_LABELS: Record<SetReportOutcome, string> = {
+  'held-up': 'Held up',
+  'worn-but-working': 'Worn but working',
+  deformed: 'Deformed',
+  cracked: 'Cracked',
+  failed: 'Failed',
+};
+
+const BAD_OUTCOMES: SetReportOutcome[] = ['deformed', 'cracked', 'failed'];
+/** Two reports of the same failure are a pattern worth a warning; one may be bad luck. */
+export const WARNING_THRESHOLD = 2;
+
+export interface ReportFacts {
+  outcome: SetReportOutcome;
+  material: string;
+  conditions: readonly SetCondition[];
+}
+
+export interface ProvenFigures {
+  proven: number;
+  reports: number;
+  heldUp: number;
+}
+
+export interface EvidenceWarning {
+  material: string;
+  condition: SetCondition;
+  bad: number;
+  of: number;
+  text: string;
+}
+
+export interface Evidence extends ProvenFigures {
+  byMaterial: Record<string, ProvenFigures>;
+  byCondition: Partial<Record<SetCondition, ProvenFigures>>;
+  rating: { mean: number | null; count: number; adjusted: number | null; distribution: Record<1 | 2 | 3 | 4 | 5, number> };
+  warnings: EvidenceWarning[];
+  sentence: string;
+}
+
+function figures(reports: readonly ReportFacts[]): ProvenFigures {
+  const heldUp = reports.filter((r) => isSuccessfulOutcome(r.outcome)).length;
+  return { proven: wilsonLowerBound(heldUp, reports.length), reports: reports.length, heldUp };
+}
+
+function groupBy<K extends string>(reports: readonly ReportFacts[], keys: (r: ReportFacts) => readonly K[]) {
+  const groups = new Map<K, ReportFacts[]>();
+  for (const r of reports) for (const k of keys(r)) groups.set(k, [...(groups.get(k) ?? []), r]);
+  return groups;
+}
+
+function verbFor(outcomes: SetReportOutcome[]): string {
+  const kinds = [...new Set(outcomes)];
+  if (kinds.length === 1) return kinds[0];
+  return `${kinds.slice(0, -1).join(', ')} or ${kinds[kinds.length - 1]}`;
+}
+
+export function evidenceWarnings(reports: readonly ReportFacts[]): EvidenceWarning[] {
+  const warnings: EvidenceWarning[] = [];
+  for (const [material, ofMaterial] of groupBy(reports, (r) => [r.material])) {
+    for (const condition of SET_CONDITIONS) {
+      const inCondition = ofMaterial.filter((r) => r.conditions.includes(condition.key));
+      const bad = inCondition.filter((r) => BAD_OUTCOMES.includes(r.outcome));
+      if (bad.length < WARNING_THRESHOLD) continue;
+      warnings.push({
+        material,
+        condition: condition.key,
+        bad: bad.length,
+        of: inCondition.length,
+        text: `${material} ${verbFor(bad.map((r) => r.outcome))} ${condition.phrase} in ${bad.length} of ${inCondition.length} reports`,
+      });
+    }
+  }
+  return warnings;
+}
+
+export function provenSentence(f: ProvenFigures): string {
+  if (f.reports === 0) return 'No set reports yet: nobody has said how it holds up on a job.';
+  const pct = Math.round(f.proven * 100);
+  return `${f.heldUp} of ${f.reports} set reports say it held up or kept working; with that much evidence we can be 95 % sure at least ${pct} % of prints hold up.`;
+}
+
+export function summariseEvidence(reports: readonly ReportFacts[], stars: readonly number[], catalogueMean: number | null): Evidence {
+  const all = figures(reports);
+  const byMaterial = Object.fromEntries([...groupBy(reports, (r) => [r.material])].map(([k, v]) => [k, figures(v)]));
+  const byCondition = Object.fromEntries([...groupBy(reports, (r) => r.conditions)].map(([k, v]) => [k, figures(v)]));
+  const count = stars.length;
+  const mean = count ? stars.reduce((a, b) => a + b, 0) / count : null;
+  const distribution = { 1: 0, 2: 0, 3: 0, 4: 0, 5: 0 } as Record<1 | 2 | 3 | 4 | 5, number>;
+  for (const s of stars) distribution[s as 1 | 2 | 3 | 4 | 5] += 1;
+  const adjusted = mean === null ? null : bayesianRating({ mean, count }, { priorMean: catalogueMean ?? mean, priorWeight: PRIOR_WEIGHT });
+  return {
+    ...all,
+    byMaterial,
+    byCondition,
+    rating: { mean, count, adjusted, distribution },
+    warnings: evidenceWarnings(reports),
+    sentence: provenSentence(all),
+  };
+}

@@ -1,0 +1,86 @@
+import { describe, expect, it } from 'vitest';
+import { evidenceWarnings, provenSentence, summariseEvidence, type ReportFacts } from '@shared/evidence';
+import { compareProven, normalQuantileTwoSided } from '@shared/ranking';
+
+const r = (outcome: ReportFacts['outcome'], material = 'PETG', conditions: ReportFacts['conditions'] = []): ReportFacts => ({ outcome, material, conditions });
+
+/** Wilson lower bound written out from E. B. Wilson, JASA 22(158), 1927 (trade reference, "Ranking"). */
+function wilsonByHand(k: number, n: number): number {
+  const z = normalQuantileTwoSided(0.95); // jstat's normal quantile, 1.959964
+  const p = k / n;
+  return (p + (z * z) / (2 * n) - z * Math.sqrt((p * (1 - p) + (z * z) / (4 * n)) / n)) / (1 + (z * z) / n);
+}
+
+describe('evidence · proven score per part, material and condition', () => {
+  const reports = [
+    r('held-up', 'PETG', ['heat']),
+    r('worn-but-working', 'PETG', ['vehicle']),
+    r('held-up', 'ASA', ['heat', 'vehicle']),
+    r('deformed', 'PLA', ['heat']),
+    r('cracked', 'PETG', ['impacts']),
+  ];
+  const e = summariseEvidence(reports, [], null);
+
+  it('counts held up and worn-but-working as success and takes the Wilson lower bound', () => {
+    expect(e.reports).toBe(5);
+    expect(e.heldUp).toBe(3);
+    expect(e.proven).toBeCloseTo(wilsonByHand(3, 5), 12);
+    // 3 of 5 at 95 %, by hand: z² = 3.841459; (0.6 + 0.384146 − 1.959964·√((0.24 + 0.192073)/5)) / (1 + 0.768292)
+    //   = (0.984146 − 0.576157) / 1.768292 = 0.230724
+    expect(e.proven).toBeCloseTo(0.2307, 3);
+  });
+
+  it('splits the figures by material and by condition', () => {
+    expect(e.byMaterial.PETG).toEqual({ reports: 3, heldUp: 2, proven: wilsonByHand(2, 3) });
+    expect(e.byMaterial.PLA).toEqual({ reports: 1, heldUp: 0, proven: 0 });
+    expect(e.byCondition.heat).toEqual({ reports: 3, heldUp: 2, proven: wilsonByHand(2, 3) });
+    expect(e.byCondition.cold).toBeUndefined();
+  });
+
+  it('is 0 with no reports, and says so in plain words', () => {
+    const none = summariseEvidence([], [], null);
+    expect(none.proven).toBe(0);
+    expect(none.sentence).toMatch(/No set reports yet/);
+    expect(provenSentence({ proven: 0.62, reports: 12, heldUp: 10 })).toBe(
+      '10 of 12 set reports say it held up or kept working; with that much evidence we can be 95 % sure at least 62 % of prints hold up.',
+    );
+  });
+});
+
+describe('evidence · warnings drawn from the reports', () => {
+  it('warns when a material deformed in heat in two or more reports', () => {
+    const reports = [r('deformed', 'PLA', ['heat']), r('deformed', 'PLA', ['heat', 'vehicle']), r('deformed', 'PLA', ['heat']), r('held-up', 'PLA', ['heat'])];
+    const warnings = evidenceWarnings(reports);
+    expect(warnings.map((w) => w.text)).toContain('PLA deformed in heat in 3 of 4 reports');
+  });
+
+  it('names mixed failures and stays quiet for a single one', () => {
+    expect(evidenceWarnings([r('deformed', 'PLA', ['heat']), r('failed', 'PLA', ['heat'])])[0].text).toBe('PLA deformed or failed in heat in 2 of 2 reports');
+    expect(evidenceWarnings([r('deformed', 'PLA', ['heat']), r('held-up', 'PLA', ['heat'])])).toEqual([]);
+  });
+});
+
+describe('evidence · ratings', () => {
+  it('reports the distribution, the mean and the Bayesian adjusted rating with the catalogue mean as prior', () => {
+    const e = summariseEvidence([], [5, 5, 4], 3.5);
+    expect(e.rating.distribution).toEqual({ 1: 0, 2: 0, 3: 0, 4: 1, 5: 2 });
+    expect(e.rating.mean).toBeCloseTo(14 / 3, 12);
+    // WR = v/(v+m)·R + m/(v+m)·C with v = 3, m = 5, R = 14/3, C = 3.5 → (14 + 17.5) / 8 = 3.9375 (by hand)
+    expect(e.rating.adjusted).toBeCloseTo(3.9375, 12);
+  });
+});
+
+describe('ranking · a fixed set, best proven first', () => {
+  it('puts forty good reports above one perfect one, and breaks ties by adjusted rating', () => {
+    const parts = [
+      { name: 'one perfect', ...summariseEvidence([r('held-up')], [5], 4) },
+      { name: 'forty good', ...summariseEvidence([...Array(38).fill(r('held-up')), r('failed'), r('cracked')], [4, 4, 5], 4) },
+      { name: 'no reports, loved', ...summariseEvidence([], [5, 5, 5, 5], 4) },
+      { name: 'no reports, disliked', ...summariseEvidence([], [1, 2], 4) },
+    ];
+    const order = [...parts]
+      .sort((a, b) => compareProven({ provenScore: a.proven, adjustedRating: a.rating.adjusted ?? 0 }, { provenScore: b.proven, adjustedRating: b.rating.adjusted ?? 0 }))
+      .map((p) => p.name);
+    expect(order).toEqual(['forty good', 'one perfect', 'no reports, loved', 'no reports, disliked']);
+  });
+});
