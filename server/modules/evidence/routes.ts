@@ -1,14 +1,13 @@
-import { Router, type Request } from 'express';
+import { Router } from 'express';
 import { z } from 'zod';
 import { flagSchema, ratingSchema, reportFilterSchema, setReportSchema, type RatingInput } from '@shared/schemas/evidence';
 import { idParamSchema } from '@shared/schemas/auth';
 import { noteRequiredSchema } from '@shared/schemas/review';
-import { AppError } from '../../errors';
 import { currentUser, requireAuth, requireRole } from '../../middleware/auth';
 import { validate } from '../../middleware/validate';
 import { inspectUploads } from '../files/inspect';
 import type { UploadDirs } from '../files/storage';
-import { uploadedFiles, uploadMiddleware, withUploads } from '../files/upload';
+import { multipartFields, parseOrThrow, uploadedFiles, uploadMiddleware, withUploads } from '../files/upload';
 import type { EvidenceService } from './service';
 
 const partParam = z.object({ id: z.string().min(1).max(100) });
@@ -18,24 +17,6 @@ const photoParams = z.object({
   photoId: z.coerce.number().int().positive(),
   size: z.enum(['thumb', 'display']),
 });
-
-function reportFields(req: Request): unknown {
-  const body = (req.body ?? {}) as Record<string, unknown>;
-  if (typeof body.data === 'string') {
-    try {
-      return JSON.parse(body.data);
-    } catch {
-      throw AppError.badRequest('The "data" field is not valid JSON.');
-    }
-  }
-  const out: Record<string, unknown> = { ...body };
-  // a form sends conditions as repeated fields, one string, or JSON text
-  if (typeof out.conditions === 'string') {
-    const text = out.conditions.trim();
-    out.conditions = text.startsWith('[') ? JSON.parse(text) : text ? text.split(',').map((c) => c.trim()) : [];
-  }
-  return out;
-}
 
 /** /api/parts/:id/ratings, /reports, /proven */
 export function partEvidenceRoutes(evidence: EvidenceService, dirs: UploadDirs) {
@@ -56,10 +37,9 @@ export function partEvidenceRoutes(evidence: EvidenceService, dirs: UploadDirs) 
     validate('params', partParam),
     ...uploadMiddleware(dirs),
     withUploads(async (req, res) => {
-      const parsed = setReportSchema.safeParse(reportFields(req));
-      if (!parsed.success) throw AppError.validation(parsed.error);
+      const input = parseOrThrow(setReportSchema, multipartFields(req, ['conditions']));
       const files = await inspectUploads(uploadedFiles(req), { drawnInInches: false });
-      res.status(201).json(await evidence.fileReport(currentUser(req)!, req.params.id as string, parsed.data, files));
+      res.status(201).json(await evidence.fileReport(currentUser(req)!, req.params.id as string, input, files));
     }),
   );
 

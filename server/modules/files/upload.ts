@@ -5,6 +5,7 @@ import { createReadStream } from 'node:fs';
 import { rm } from 'node:fs/promises';
 import type { ErrorRequestHandler, Request, RequestHandler, Response } from 'express';
 import multer from 'multer';
+import type { z } from 'zod';
 import { AppError } from '../../errors';
 import { displayName } from './sniff';
 import { randomStoredName } from './storage';
@@ -113,4 +114,38 @@ export function sha256File(path: string): Promise<string> {
       .on('end', () => resolve(hash.digest('hex')))
       .on('error', reject);
   });
+}
+
+/**
+ * The fields of a multipart form: either one JSON field `data` with the whole object, or one field
+ * per property, where the `structured` ones carry JSON text (a plain comma list is taken for arrays).
+ */
+export function multipartFields(req: Request, structured: readonly string[]): unknown {
+  const body = (req.body ?? {}) as Record<string, unknown>;
+  if (typeof body.data === 'string') {
+    try {
+      return JSON.parse(body.data);
+    } catch {
+      throw AppError.badRequest('The "data" field is not valid JSON.');
+    }
+  }
+  const out: Record<string, unknown> = { ...body };
+  for (const key of structured) {
+    const value = out[key];
+    if (typeof value !== 'string') continue;
+    const text = value.trim();
+    try {
+      out[key] = /^[[{]/.test(text) ? JSON.parse(text) : text ? text.split(',').map((v) => v.trim()) : [];
+    } catch {
+      throw new AppError(422, 'validation_failed', 'Some fields need another look.', { [key]: `"${key}" must be JSON.` });
+    }
+  }
+  return out;
+}
+
+/** Parses with a shared schema and answers 422 with per-field messages when that fails. */
+export function parseOrThrow<S extends z.ZodType>(schema: S, value: unknown): z.output<S> {
+  const result = schema.safeParse(value);
+  if (!result.success) throw AppError.validation(result.error);
+  return result.data;
 }

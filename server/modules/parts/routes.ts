@@ -1,4 +1,4 @@
-import { Router, type Request } from 'express';
+import { Router } from 'express';
 import { z } from 'zod';
 import { fileUploadOptionsSchema, partFileParamsSchema, partSubmissionSchema, partUpdateSchema, type PartUpdate } from '@shared/schemas/part';
 import { boolish } from '@shared/validation';
@@ -6,43 +6,11 @@ import { AppError } from '../../errors';
 import { currentUser, requireAuth } from '../../middleware/auth';
 import { validate } from '../../middleware/validate';
 import { inspectUploads } from '../files/inspect';
-import { uploadedFiles, uploadMiddleware, withUploads } from '../files/upload';
+import { multipartFields, parseOrThrow, uploadedFiles, uploadMiddleware, withUploads } from '../files/upload';
 import type { UploadDirs } from '../files/storage';
 import type { PartsService } from './service';
 
 const STRUCTURED = ['bodies', 'mounts', 'keyDimensions', 'safety', 'recipes'];
-
-/**
- * A multipart form carries either one JSON field `data` with the whole submission, or one field per
- * property (structured ones as JSON text).
- */
-function multipartFields(req: Request): unknown {
-  const body = (req.body ?? {}) as Record<string, unknown>;
-  if (typeof body.data === 'string') {
-    try {
-      return JSON.parse(body.data);
-    } catch {
-      throw AppError.badRequest('The "data" field is not valid JSON.');
-    }
-  }
-  const out: Record<string, unknown> = { ...body };
-  for (const key of STRUCTURED) {
-    if (typeof out[key] === 'string') {
-      try {
-        out[key] = JSON.parse(out[key] as string);
-      } catch {
-        throw new AppError(422, 'validation_failed', 'Some fields need another look.', { [key]: `"${key}" must be JSON.` });
-      }
-    }
-  }
-  return out;
-}
-
-function parseOrThrow<S extends z.ZodType>(schema: S, value: unknown): z.output<S> {
-  const result = schema.safeParse(value);
-  if (!result.success) throw AppError.validation(result.error);
-  return result.data;
-}
 
 const listQuerySchema = z.object({ mine: boolish.optional(), status: z.enum(['published']).optional() });
 const idParamSchema = z.object({ id: z.string().min(1).max(100) });
@@ -62,7 +30,7 @@ export function partsRoutes(parts: PartsService, dirs: UploadDirs) {
     requireAuth,
     ...upload,
     withUploads(async (req, res) => {
-      const input = parseOrThrow(partSubmissionSchema, multipartFields(req));
+      const input = parseOrThrow(partSubmissionSchema, multipartFields(req, STRUCTURED));
       const files = await inspectUploads(uploadedFiles(req), { drawnInInches: input.drawnInInches });
       const created = await parts.create(currentUser(req)!, input, files);
       res.status(201).location(`/api/parts/${created.id}`).json(created);
