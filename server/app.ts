@@ -28,6 +28,8 @@ import { devMailboxRoutes, mailAdminRoutes } from './modules/mail/routes';
 import { evidenceModerationRoutes, flagRoutes, partEvidenceRoutes, profileRoutes } from './modules/evidence/routes';
 import { createEvidenceService } from './modules/evidence/service';
 import { noticesRoutes } from './modules/notices/routes';
+import { estimateRoutes, kitRoutes, priceRoutes, printerRoutes } from './modules/planning/routes';
+import { createPlanningService } from './modules/planning/service';
 import { partHistoryRoutes } from './modules/review/history-routes';
 import { reviewRoutes } from './modules/review/routes';
 import { createReviewService } from './modules/review/service';
@@ -99,6 +101,7 @@ export function createApp({ config, sequelize, mailer }: AppContext) {
   const review = createReviewService({ sequelize, mail: mailer, publicUrl: config.PUBLIC_URL, onDecided: () => search.scheduleRebuild() });
   const parts = createPartsService({ sequelize, dirs, photos, onSubmitted: review.submitted });
   const evidence = createEvidenceService({ sequelize, dirs, photos });
+  const planning = createPlanningService({ sequelize, evidence });
 
   const tokens = createTokenService({ config, mailer });
   const auth = createAuthService(config, tokens);
@@ -132,6 +135,10 @@ export function createApp({ config, sequelize, mailer }: AppContext) {
   app.use('/api/review', reviewRoutes(review));
   app.use('/api/notices', noticesRoutes());
   app.use('/api/search', searchRoutes(search));
+  app.use('/api/estimate', estimateRoutes(planning));
+  app.use('/api/printers', printerRoutes(planning));
+  app.use('/api/me/prices', priceRoutes(planning));
+  app.use('/api/kits', kitRoutes(planning));
   app.use('/api', apiNotFound());
 
   const dist = resolve(config.CLIENT_DIST);

@@ -4,17 +4,21 @@ import { AccountToken, initAccountToken } from './account-token';
 import { AuditEvent, initAuditEvent } from './audit-event';
 import { CameraBody, initCameraBody } from './camera-body';
 import { ContentFlag, initEvidence, Rating, ReportPhoto, SetReport } from './evidence';
+import { initKits, Kit, KitItem, KitShare } from './kit';
 import { initMailMessage, MailMessage } from './mail-message';
 import { initNotice, Notice } from './notice';
 import { initPart, Part } from './part';
 import { initPartFile, PartFile } from './part-file';
 import { initPartRevision, PartRevision } from './part-revision';
+import { initPriceSheet, PriceSheet } from './price-sheet';
+import { initPrinter, Printer } from './printer';
 import { initRecipe, Recipe } from './recipe';
 import { initSession, Session } from './session';
 import { initUser, User } from './user';
 
 export type { AuditAction } from './audit-event';
 export { ContentFlag, Rating, ReportPhoto, SetReport };
+export { Kit, KitItem, KitShare, PriceSheet, Printer };
 export { AccountToken, AuditEvent, CameraBody, MailMessage, Notice, Part, PartFile, PartRevision, Recipe, Session, User };
 
 /** Join rows: which camera bodies a revision fits, which files a revision shows (in order). */
@@ -38,6 +42,9 @@ export function initModels(sequelize: Sequelize) {
   initAuditEvent(sequelize);
   initEvidence(sequelize);
   initNotice(sequelize);
+  initPrinter(sequelize);
+  initPriceSheet(sequelize);
+  initKits(sequelize);
   RevisionBody.init(
     {
       revisionId: { type: DataTypes.INTEGER.UNSIGNED, primaryKey: true },
@@ -70,4 +77,12 @@ export function initModels(sequelize: Sequelize) {
   PartRevision.hasMany(Recipe, { as: 'recipes', foreignKey: 'revisionId' });
   PartRevision.belongsToMany(CameraBody, { as: 'bodies', through: RevisionBody, foreignKey: 'revisionId', otherKey: 'bodyId' });
   PartRevision.belongsToMany(PartFile, { as: 'files', through: RevisionFile, foreignKey: 'revisionId', otherKey: 'fileId' });
+  Printer.belongsTo(User, { as: 'owner', foreignKey: 'ownerId' });
+  Kit.belongsTo(User, { as: 'owner', foreignKey: 'ownerId' });
+  Kit.hasMany(KitItem, { as: 'items', foreignKey: 'kitId' });
+  Kit.hasMany(KitShare, { as: 'shares', foreignKey: 'kitId' });
+  KitShare.belongsTo(User, { as: 'user', foreignKey: 'userId' });
+  KitItem.belongsTo(Part, { as: 'part', foreignKey: 'partId' });
+  KitItem.belongsTo(Recipe, { as: 'recipe', foreignKey: 'recipeId', constraints: false });
+  KitItem.belongsTo(Printer, { as: 'printer', foreignKey: 'printerId', constraints: false });
 }

@@ -1,0 +1,40 @@
+import { DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes, type Sequelize } from 'sequelize';
+import { decimalColumn } from './columns';
+
+/** A member's own printer: only its owner sees it and can put kit items on it. */
+export class Printer extends Model<InferAttributes<Printer>, InferCreationAttributes<Printer>> {
+  declare id: CreationOptional<number>;
+  declare ownerId: number;
+  declare name: string;
+  declare bedXMm: number;
+  declare bedYMm: number;
+  declare bedZMm: number;
+  declare nozzleMm: number;
+  declare watts: number | null;
+  declare notes: string | null;
+  declare createdAt: CreationOptional<Date>;
+  declare updatedAt: CreationOptional<Date>;
+
+  bedMm(): [number, number, number] {
+    return [this.bedXMm, this.bedYMm, this.bedZMm];
+  }
+}
+
+export function initPrinter(sequelize: Sequelize) {
+  Printer.init(
+    {
+      id: { type: DataTypes.INTEGER.UNSIGNED, autoIncrement: true, primaryKey: true },
+      ownerId: { type: DataTypes.INTEGER.UNSIGNED, allowNull: false },
+      name: { type: DataTypes.STRING(80), allowNull: false },
+      bedXMm: decimalColumn('bedXMm', 6, 1),
+      bedYMm: decimalColumn('bedYMm', 6, 1),
+      bedZMm: decimalColumn('bedZMm', 6, 1),
+      nozzleMm: decimalColumn('nozzleMm', 4, 2),
+      watts: { type: DataTypes.INTEGER.UNSIGNED, allowNull: true },
+      notes: { type: DataTypes.TEXT, allowNull: true },
+      createdAt: DataTypes.DATE,
+      updatedAt: DataTypes.DATE,
+    },
+    { sequelize, tableName: 'printers', modelName: 'Printer' },
+  );
+}

@@ -1,0 +1,145 @@
+// The JSON printers, price sheets and kits are shown as (shapes in shared/api/planning.ts).
+import { Op } from 'sequelize';
+import type { KitAccess, KitDetail, KitItemInfo, KitListItem, KitRecipeRef, KitShareInfo, PrinterInfo, PriceSheetInfo } from '@shared/api/planning';
+import { DEFAULT_PRICE_PER_KG } from '@shared/estimate';
+import { MATERIAL_IDS, type MaterialId } from '@shared/materials';
+import { Kit, KitItem, KitShare, Part, PartRevision, Printer, Recipe, User, type PriceSheet } from '../../db/models';
+
+export function presentPrinter(p: Printer): PrinterInfo {
+  return {
+    id: p.id,
+    name: p.name,
+    bedMm: p.bedMm(),
+    nozzleMm: p.nozzleMm,
+    watts: p.watts,
+    notes: p.notes,
+    createdAt: p.createdAt.toISOString(),
+    updatedAt: p.updatedAt.toISOString(),
+  };
+}
+
+/** Every material's price per kg: the member's own where set, the default elsewhere. */
+export function effectivePrices(sheet: PriceSheet | null): Record<MaterialId, number> {
+  const own = sheet?.pricesPerKg ?? {};
+  return Object.fromEntries(MATERIAL_IDS.map((m) => [m, own[m] ?? DEFAULT_PRICE_PER_KG[m]])) as Record<MaterialId, number>;
+}
+
+export function presentPriceSheet(sheet: PriceSheet | null): PriceSheetInfo {
+  const own = sheet?.pricesPerKg ?? {};
+  return {
+    prices: effectivePrices(sheet),
+    defaults: { ...DEFAULT_PRICE_PER_KG },
+    custom: MATERIAL_IDS.filter((m) => own[m] !== undefined),
+    pricePerKwh: sheet?.pricePerKwh ?? null,
+    updatedAt: sheet?.updatedAt?.toISOString() ?? null,
+  };
+}
+
+function memberRef(user: User | undefined, id: number) {
+  return { id, displayName: user?.displayName ?? '' };
+}
+
+export function presentShares(shares: KitShare[], access: KitAccess): KitShareInfo[] {
+  return shares
+    .map((s) => ({
+      user: { ...memberRef(s.user, s.userId), email: access === 'owner' ? (s.user?.email ?? null) : null },
+      access: s.access,
+    }))
+    .sort((a, b) => a.user.displayName.localeCompare(b.user.displayName));
+}
+
+function recipeRef(recipe: Recipe, part: Part): KitRecipeRef {
+  return {
+    id: recipe.id,
+    purpose: recipe.purpose,
+    material: recipe.material,
+    nozzleMm: recipe.nozzleMm,
+    layerMm: recipe.layerMm,
+    walls: recipe.walls,
+    topBottomLayers: recipe.topBottomLayers,
+    infillPct: recipe.infillPct,
+    speedMmS: recipe.speedMmS,
+    current: recipe.revisionId === part.publishedRevisionId,
+  };
+}
+
+export function isOnShelfForKits(part: Part): boolean {
+  return part.status === 'published' && part.publishedRevisionId !== null;
+}
+
+/** A kit's items (or one of them) with their part, recipe and printer, in the kit's order. */
+export async function loadItems(kitId: number, itemId?: number): Promise<KitItem[]> {
+  return KitItem.findAll({
+    where: itemId === undefined ? { kitId } : { kitId, id: itemId },
+    include: [
+      { model: Part, as: 'part', include: [{ model: PartRevision, as: 'publishedRevision' }] },
+      { model: Recipe, as: 'recipe' },
+      { model: Printer, as: 'printer' },
+    ],
+    order: [['position', 'ASC'], ['id', 'ASC']],
+  });
+}
+
+export function presentItem(item: KitItem): KitItemInfo {
+  const part = item.part!;
+  const recipe = item.recipe ?? null;
+  return {
+    id: item.id,
+    position: item.position,
+    part: { id: part.id, slug: part.slug, title: part.publishedRevision?.title ?? part.slug, onShelf: isOnShelfForKits(part) },
+    quantity: item.quantity,
+    recipe: recipe ? recipeRef(recipe, part) : null,
+    materialOverride: item.material,
+    material: item.material ?? recipe?.material ?? null,
+    printer: item.printer ? { id: item.printer.id, name: item.printer.name } : null,
+    boughtPriceEach: item.boughtPriceEach,
+    servicePriceEach: item.servicePriceEach,
+    serviceShipping: item.serviceShipping,
+  };
+}
+
+export async function presentKit(kit: Kit, access: KitAccess): Promise<KitDetail> {
+  const [owner, shares, items] = await Promise.all([
+    User.findByPk(kit.ownerId),
+    KitShare.findAll({ where: { kitId: kit.id }, include: [{ model: User, as: 'user' }] }),
+    loadItems(kit.id),
+  ]);
+  return {
+    id: kit.id,
+    name: kit.name,
+    production: kit.production,
+    startsOn: kit.startsOn,
+    endsOn: kit.endsOn,
+    locationNotes: kit.locationNotes,
+    heatExposure: kit.heatExposure,
+    printHoursPerDay: kit.printHoursPerDay,
+    printerPrice: kit.printerPrice,
+    owner: memberRef(owner ?? undefined, kit.ownerId),
+    access,
+    createdAt: kit.createdAt.toISOString(),
+    updatedAt: kit.updatedAt.toISOString(),
+    shares: presentShares(shares, access),
+    items: items.map(presentItem),
+  };
+}
+
+export async function presentKitList(kits: Kit[], accessOf: (kit: Kit) => KitAccess): Promise<KitListItem[]> {
+  if (!kits.length) return [];
+  const ids = kits.map((k) => k.id);
+  const [owners, counts] = await Promise.all([
+    User.findAll({ where: { id: { [Op.in]: [...new Set(kits.map((k) => k.ownerId))] } } }),
+    KitItem.count({ where: { kitId: { [Op.in]: ids } }, group: ['kitId'] }) as unknown as Promise<{ kitId: number; count: number }[]>,
+  ]);
+  return kits.map((kit) => ({
+    id: kit.id,
+    name: kit.name,
+    production: kit.production,
+    startsOn: kit.startsOn,
+    endsOn: kit.endsOn,
+    heatExposure: kit.heatExposure,
+    owner: memberRef(owners.find((o) => o.id === kit.ownerId), kit.ownerId),
+    access: accessOf(kit),
+    itemCount: Number(counts.find((c) => Number(c.kitId) === kit.id)?.count ?? 0),
+    updatedAt: kit.updatedAt.toISOString(),
+  }));
+}
