@@ -65,8 +65,27 @@ async function send<T>(method: Method, path: string, body?: unknown, retried = f
   throw new ApiError(res.status, error?.code ?? 'http_' + res.status, error?.message ?? `Request failed (${res.status}).`, error?.fields);
 }
 
+/** Raw bytes of a download (a model file for the 3D view), with the API's errors as ApiError. */
+async function bytes(path: string): Promise<ArrayBuffer> {
+  let res: Response;
+  try {
+    res = await fetch(path, { credentials: 'same-origin' });
+  } catch {
+    throw new ApiError(0, 'network', 'Rigshelf cannot be reached. Check the connection and try again.');
+  }
+  if (res.ok) return res.arrayBuffer();
+  let error: ApiErrorBody['error'] | undefined;
+  try {
+    error = ((await res.json()) as ApiErrorBody).error;
+  } catch {
+    error = undefined;
+  }
+  throw new ApiError(res.status, error?.code ?? 'http_' + res.status, error?.message ?? `Download failed (${res.status}).`, error?.fields);
+}
+
 export const http = {
   get: <T>(path: string) => send<T>('GET', path),
+  bytes,
   post: <T>(path: string, body?: unknown) => send<T>('POST', path, body ?? {}),
   patch: <T>(path: string, body: unknown) => send<T>('PATCH', path, body),
   put: <T>(path: string, body: unknown) => send<T>('PUT', path, body),

@@ -14,7 +14,17 @@ declare module 'vue-router' {
   }
 }
 
-export type RouteName = 'home' | 'sign-in' | 'register' | 'account' | 'admin-users' | 'not-found';
+export type RouteName =
+  | 'home'
+  | 'sign-in'
+  | 'register'
+  | 'account'
+  | 'admin-users'
+  | 'part-new'
+  | 'part-edit'
+  | 'part'
+  | 'my-parts'
+  | 'not-found';
 
 const routes: RouteRecordRaw[] = [
   {
@@ -25,6 +35,20 @@ const routes: RouteRecordRaw[] = [
       { path: 'sign-in', name: 'sign-in', component: () => import('@/views/SignInView.vue'), meta: { guest: true, title: 'Sign in' } },
       { path: 'register', name: 'register', component: () => import('@/views/RegisterView.vue'), meta: { guest: true, title: 'Join' } },
       { path: 'account', name: 'account', component: () => import('@/views/AccountView.vue'), meta: { auth: true, title: 'Your account' } },
+      {
+        path: 'parts/new',
+        name: 'part-new',
+        component: () => import('@/views/PartSubmitView.vue'),
+        meta: { auth: true, title: 'Submit a part' },
+      },
+      {
+        path: 'parts/:id/edit',
+        name: 'part-edit',
+        component: () => import('@/views/PartSubmitView.vue'),
+        meta: { auth: true, title: 'Change a part' },
+      },
+      { path: 'parts/:id', name: 'part', component: () => import('@/views/PartPageView.vue'), meta: { title: 'Part' } },
+      { path: 'my/parts', name: 'my-parts', component: () => import('@/views/MyPartsView.vue'), meta: { auth: true, title: 'My submissions' } },
       {
         path: 'admin/users',
         name: 'admin-users',

@@ -60,6 +60,8 @@ export const RigshelfPreset = definePreset(Aura, {
         primary: { color: cycGreen[700], contrastColor: '#ffffff', hoverColor: cycGreen[800], activeColor: cycGreen[900] },
         highlight: { background: cycGreen[100], focusBackground: cycGreen[200], color: cycGreen[900], focusColor: cycGreen[950] },
         text: { color: slateInk[950], mutedColor: slateInk[600], hoverColor: slateInk[900] },
+        // a placeholder stays a hint on a field with a message under it, not red text that looks typed
+        formField: { invalidPlaceholderColor: slateInk[500] },
       },
       dark: {
         surface: slateInk,

@@ -1,0 +1,71 @@
+import { createPinia, setActivePinia } from 'pinia';
+import { beforeEach, describe, expect, it } from 'vitest';
+import { stepOfField, usePartDraftStore } from '@/stores/partDraft';
+import { formatSizeIn, formatSizeMm } from '@/format';
+
+beforeEach(() => setActivePinia(createPinia()));
+
+describe('part draft · server field keys', () => {
+  it('part draft · keys of a 422 answer · belong to the step that shows the field', () => {
+    expect(stepOfField('title')).toBe('details');
+    expect(stepOfField('model')).toBe('files');
+    expect(stepOfField('photo')).toBe('files');
+    expect(stepOfField('mounts.1.note')).toBe('fit');
+    expect(stepOfField('keyDimensions.0.valueMm')).toBe('fit');
+    expect(stepOfField('recipes.0.layerMm')).toBe('recipes');
+    expect(stepOfField('licence')).toBe('licence');
+    expect(stepOfField('_')).toBe('review');
+  });
+
+  it('part draft · server messages on two steps · opens the earlier step and keeps both messages', () => {
+    const draft = usePartDraftStore();
+    const step = draft.takeServerErrors({ licence: 'Choose another licence.', 'recipes.0.layerMm': 'Too thick.' });
+    expect(step).toBe('recipes');
+    expect(draft.stepHasErrors('licence')).toBe(true);
+    expect(draft.errors['recipes.0.layerMm']).toBe('Too thick.');
+  });
+});
+
+describe('part draft · checking a step', () => {
+  it('part draft · 0.36 mm layers on a 0.4 mm nozzle · the recipes step reports the shared rule', () => {
+    const draft = usePartDraftStore();
+    Object.assign(draft.recipes[0], { layerMm: 0.36, infillPct: 30, hotendC: 210, bedC: 60, speedMmS: 60 });
+    expect(draft.checkStep('recipes')).toBe(false);
+    // shared/schemas/recipe.ts: at most 80 % of the nozzle (common practice)
+    expect(draft.errors['recipes.0.layerMm']).toContain('at most 0.32 mm');
+    draft.recipes[0].layerMm = 0.2;
+    draft.recheck();
+    expect(draft.stepHasErrors('recipes')).toBe(false);
+  });
+
+  it('part draft · a key dimension typed in inches · is sent in millimetres', () => {
+    const draft = usePartDraftStore();
+    draft.keyDimensions.push({ ...draft.newKeyDimension(), name: 'rod bore', value: '5/8 in', tol: '0.1' });
+    expect(draft.checkStep('fit')).toBe(true);
+    // 5/8 in × 25.4 mm/in (exact since 1959) = 15.875 mm
+    expect(draft.submission().keyDimensions[0]).toEqual({ name: 'rod bore', valueMm: 15.875, tolMm: 0.1 });
+  });
+
+  it('part draft · a length that is not one · gets a message saying how to write it', () => {
+    const draft = usePartDraftStore();
+    draft.keyDimensions.push({ ...draft.newKeyDimension(), name: 'rod bore', value: 'fifteen', tol: '' });
+    expect(draft.checkStep('fit')).toBe(false);
+    expect(draft.errors['keyDimensions.0.valueMm']).toContain('15 mm or 5/8 in');
+  });
+
+  it('part draft · adapting a CC BY-NC part under CC BY · refuses the licence with the reason', () => {
+    const draft = usePartDraftStore();
+    draft.setParent({ id: 9, licence: { id: 'CC-BY-NC-4.0' } } as Parameters<typeof draft.setParent>[0]);
+    draft.licence = 'CC-BY-4.0';
+    expect(draft.checkStep('licence')).toBe(false);
+    expect(draft.errors.licence).toContain('non-commercial');
+  });
+});
+
+describe('format · sizes', () => {
+  it('format · a 20 × 30 × 10 mm box · reads in mm and in inches (25.4 mm per inch)', () => {
+    expect(formatSizeMm([20, 30, 10])).toBe('20 × 30 × 10 mm');
+    expect(formatSizeIn([20, 30, 10])).toBe('0.79 × 1.18 × 0.39 in');
+    expect(formatSizeMm([15.875, 0.254, 100.04])).toBe('15.9 × 0.25 × 100 mm');
+  });
+});
