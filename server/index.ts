@@ -34,7 +34,7 @@ export async function startServer(config: Config): Promise<RunningServer> {
   }
   // after the seed: a seeded shelf no longer matches the saved index's fingerprint, so it is rebuilt
   const search = await built.services.search.start();
-  console.log(`rigshelf: search index ${search.source === 'file' ? 'loaded' : 'built'} (${search.documents} part(s))`);
+  console.log(`rigshelf: search index ${search.rebuiltBecause ? `built (${search.rebuiltBecause})` : 'loaded'}, ${search.documents} part(s)`);
   const server = createServer(built.app);
   try {
     await new Promise<void>((resolveListen, reject) => {

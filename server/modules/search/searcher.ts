@@ -29,7 +29,7 @@ const TokenSet = lunr.TokenSet as unknown as {
  */
 export const TYPO_RULES = { oneEditFrom: 5, twoEditsFrom: 7 } as const;
 /** The last word also matches as a prefix (the crew member may still be typing) from this length. */
-export const PREFIX_FROM = 2;
+export const PREFIX_FROM = 3;
 /** At most this many words per prefix, shortest first, so "a" does not expand to the whole shelf. */
 export const MAX_EXPANSIONS = 50;
 
@@ -45,7 +45,7 @@ export interface Searcher {
   readonly size: number;
 }
 
-interface Match {
+export interface Match {
   doc: SearchDocument;
   score: number;
 }
@@ -86,21 +86,25 @@ function expandGroup(index: lunr.Index, group: TermGroup): Map<string, number> {
 }
 
 /**
- * Plain words: every word (or mount name) must match, each through any of its expansions. lunr
- * scores the expansions together; the check that each group matched is ours, from the match data.
+ * Plain words: every word (or mount name) must match, each through any of its expansions. A word
+ * with a single expansion is marked required, so lunr scores only documents that have it; for the
+ * others (prefix, typo) lunr scores the expansions together and the check that each group matched
+ * is ours, from the match data.
  */
 function plainMatches(index: lunr.Index, groups: TermGroup[], byRef: Map<string, SearchDocument>): Match[] {
   const expanded = groups.map((g) => expandGroup(index, g));
   if (expanded.some((terms) => terms.size === 0)) return [];
   const results = index.query((q) => {
     for (const terms of expanded) {
-      for (const [term, boost] of terms) q.term(term, { usePipeline: false, boost });
+      const presence = terms.size === 1 ? lunr.Query.presence.REQUIRED : lunr.Query.presence.OPTIONAL;
+      for (const [term, boost] of terms) q.term(term, { usePipeline: false, boost, presence });
     }
   });
+  const open = expanded.filter((terms) => terms.size > 1).map((terms) => [...terms.keys()]);
   const matches: Match[] = [];
   for (const result of results) {
     const matched = result.matchData.metadata as Record<string, unknown>;
-    if (!expanded.every((terms) => [...terms.keys()].some((t) => t in matched))) continue;
+    if (!open.every((terms) => terms.some((t) => t in matched))) continue;
     const doc = byRef.get(result.ref);
     if (doc) matches.push({ doc, score: result.score });
   }
@@ -145,32 +149,44 @@ function present(m: Match): SearchResultItem {
   };
 }
 
+export function sortNewestFirst(documents: readonly SearchDocument[]): SearchDocument[] {
+  return [...documents].sort(newestFirst);
+}
+
+/**
+ * Everything after the text match: filters, facets over all matches, order and the page. Without
+ * text (`ranked` false) the matches must come newest first already.
+ */
+export function filterAndPage(matches: Match[], query: SearchQuery, ranked: boolean): SearchResponse {
+  const filtered = matches.filter((m) => matchesFilters(m.doc, query));
+  // 'proven' will weigh ratings and reports once parts have them; until then it is relevance
+  if (ranked) {
+    if (query.sort === 'newest') filtered.sort((a, b) => newestFirst(a.doc, b.doc));
+    else filtered.sort((a, b) => b.score - a.score || newestFirst(a.doc, b.doc));
+  }
+  const start = (query.page - 1) * query.pageSize;
+  return {
+    total: filtered.length,
+    page: query.page,
+    pageSize: query.pageSize,
+    facets: countFacets(filtered.map((m) => m.doc)),
+    results: filtered.slice(start, start + query.pageSize).map(present),
+  };
+}
+
 export function createSearcher({ index, documents }: Searchable): Searcher {
   const byRef = new Map(documents.map((d) => [String(d.id), d]));
-  const newest = [...documents].sort(newestFirst);
+  const everything: Match[] = sortNewestFirst(documents).map((doc) => ({ doc, score: 0 }));
 
   return {
     size: documents.length,
     search(query) {
       const text = readQueryText(query.q);
       let matches: Match[];
-      if (text.kind === 'none') matches = newest.map((doc) => ({ doc, score: 0 }));
+      if (text.kind === 'none') matches = everything;
       else if (text.kind === 'plain') matches = plainMatches(index, text.groups, byRef);
       else matches = syntaxMatches(index, text.text, query.q ?? '', byRef);
-
-      const filtered = matches.filter((m) => matchesFilters(m.doc, query));
-      // 'proven' will weigh ratings and reports once parts have them; until then it is relevance
-      if (query.sort === 'newest' || text.kind === 'none') filtered.sort((a, b) => newestFirst(a.doc, b.doc));
-      else filtered.sort((a, b) => b.score - a.score || newestFirst(a.doc, b.doc));
-
-      const start = (query.page - 1) * query.pageSize;
-      return {
-        total: filtered.length,
-        page: query.page,
-        pageSize: query.pageSize,
-        facets: countFacets(filtered.map((m) => m.doc)),
-        results: filtered.slice(start, start + query.pageSize).map(present),
-      };
+      return filterAndPage(matches, query, text.kind !== 'none');
     },
   };
 }

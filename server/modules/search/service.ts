@@ -123,7 +123,7 @@ async function readIndexFile(file: string, fingerprint: string): Promise<{ file:
 export function createSearchService({ sequelize, indexFile, rebuildDelayMs = 250 }: SearchServiceDeps) {
   const worker = new IndexWorker();
   let current: Current | null = null;
-  let startup: Promise<SearchStats> | null = null;
+  let startup: Promise<SearchStats & { rebuiltBecause: string | null }> | null = null;
   let timer: NodeJS.Timeout | null = null;
   let running: Promise<void> | null = null;
   let dirty = false;
@@ -183,23 +183,23 @@ export function createSearchService({ sequelize, indexFile, rebuildDelayMs = 250
   const service = {
     /**
      * Puts an index in place: the saved one if it matches the shelf, otherwise a fresh build
-     * (saved for the next start). Safe to call more than once.
+     * (saved for the next start). Says why it rebuilt ("is missing", "is out of date with the
+     * shelf", …). Safe to call more than once.
      */
-    start(): Promise<SearchStats> {
+    start() {
       startup ??= (async () => {
         const fingerprint = await publishedFingerprint(sequelize);
         const saved = await readIndexFile(indexFile, fingerprint);
         if (typeof saved === 'object') {
           stats.loadsFromFile += 1;
           install(saved.file.documents, saved.index, saved.file.fingerprint, saved.file.builtAt, 'file');
-        } else {
-          console.log(`rigshelf: search index ${indexFile} ${saved}; building it`);
-          dirty = true;
-          run();
-          await service.idle();
-          if (!current) throw new Error(`The search index could not be built: ${stats.lastError ?? 'unknown error'}`);
+          return { ...service.stats(), rebuiltBecause: null };
         }
-        return service.stats();
+        dirty = true;
+        run();
+        await service.idle();
+        if (!current) throw new Error(`The search index could not be built: ${stats.lastError ?? 'unknown error'}`);
+        return { ...service.stats(), rebuiltBecause: `${indexFile} ${saved}` };
       })();
       return startup;
     },

@@ -1,0 +1,29 @@
+// What GET /api/search answers, for the client. Built by server/modules/search/searcher.ts.
+import type { FacetCounts } from '../search/filters';
+
+export interface SearchResultItem {
+  id: number;
+  slug: string;
+  title: string;
+  summary: string;
+  /** Bounding box of the first model file, in millimetres, as drawn (not sorted). */
+  sizeMm: [number, number, number] | null;
+  mounts: { slug: string; label: string; note?: string }[];
+  bodies: { slug: string; maker: string; model: string }[];
+  /** Crew ratings are not collected yet: always null for now. */
+  rating: number | null;
+  /** URL of the first cleaned photo's thumbnail, if there is one. */
+  thumbnail: string | null;
+  /** Relevance from the text match (0 when there was no search text). */
+  score: number;
+}
+
+export interface SearchResponse {
+  /** Parts matching the text and every filter. */
+  total: number;
+  page: number;
+  pageSize: number;
+  /** Counted over all `total` matches, not just this page. */
+  facets: FacetCounts;
+  results: SearchResultItem[];
+}

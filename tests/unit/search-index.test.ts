@@ -1,0 +1,110 @@
+// The index builder and the searcher on documents held in memory (no database): ranking, typos,
+// prefixes, mount names and query syntax. The API test covers the same through the real app.
+import { describe, expect, it } from 'vitest';
+import lunr from 'lunr';
+import { searchQuerySchema, type SearchQueryInput } from '@shared/schemas/search';
+import { AppError } from '../../server/errors';
+import { buildIndex, indexFileContent, type SearchDocument } from '../../server/modules/search/index-builder';
+import { createSearcher } from '../../server/modules/search/searcher';
+
+let nextId = 1;
+function doc(over: Partial<SearchDocument>): SearchDocument {
+  const id = nextId++;
+  return {
+    id,
+    slug: `part-${id}`,
+    title: `Part ${id}`,
+    summary: 'A printed part for the camera department.',
+    description: '',
+    category: 'rods-mounting',
+    bodies: [],
+    mounts: [],
+    materials: ['PETG'],
+    keyDimensions: [],
+    sizeMm: null,
+    thumbnail: null,
+    licence: 'CC-BY-4.0',
+    adaptable: true,
+    publishedAt: new Date(Date.UTC(2025, 0, id)).toISOString(),
+    publishedRevisionId: id,
+    rating: null,
+    ...over,
+  };
+}
+
+const plate = doc({ title: 'V-style battery plate adapter', category: 'power-batteries', mounts: [{ slug: 'battery-v-style' }, { slug: 'screw-1-4-20' }] });
+const note = doc({ title: 'Slate holder', description: 'Keeps the spare battery for the slate light in a pocket.' });
+const riser = doc({ title: 'Cheese riser', mounts: [{ slug: 'screw-1-4-20' }] });
+const kx8 = doc({ title: 'Top handle', bodies: [{ slug: 'korvel-kx8', maker: 'Korvel', model: 'KX-8', aliases: ['Korvel 8'] }] });
+const clamp = doc({ title: 'Rod clamp', mounts: [{ slug: 'rods-15-60' }], keyDimensions: [{ name: 'rod bore', valueMm: 15.2, tolMm: 0.2 }] });
+const docs = [plate, note, riser, kx8, clamp];
+const searcher = createSearcher({ index: buildIndex(docs), documents: docs });
+
+const ids = (input: SearchQueryInput) => searcher.search(searchQuerySchema.parse(input)).results.map((r) => r.id);
+
+describe('search index · ranking', () => {
+  it('ranks a title match above a description-only match', () => {
+    expect(ids({ q: 'battery' })).toEqual([plate.id, note.id]);
+  });
+
+  it('needs every word: "battery plate" leaves out the part that only mentions a battery', () => {
+    expect(ids({ q: 'battery plate' })).toEqual([plate.id]);
+  });
+
+  it('finds a camera body by model, compact model and alias', () => {
+    for (const q of ['KX-8', 'kx8', 'korvel 8', 'Korvel']) expect(ids({ q })).toEqual([kx8.id]);
+  });
+
+  it('forgives typos in words the shelf does not know', () => {
+    // "baterry" is two edits from the stem "batteri": allowed from 7 letters
+    expect(ids({ q: 'baterry' })).toEqual([plate.id, note.id]);
+    expect(ids({ q: 'adaptr' })).toEqual([plate.id]);
+    // known words are taken as typed: "slate" does not also find "plate"
+    expect(ids({ q: 'slate' })).toEqual([note.id]);
+  });
+
+  it('treats the last word as a prefix', () => {
+    expect(ids({ q: 'chee' })).toEqual([riser.id]);
+    expect(ids({ q: 'batt plate' })).toEqual([]); // only the last word is a prefix
+    expect(ids({ q: 'plate batt' })).toEqual([plate.id]);
+  });
+
+  it('finds mounts by any of their names', () => {
+    for (const q of ['1/4"', 'quarter inch', '1/4-20', 'tripod screw']) expect(ids({ q }).sort()).toEqual([plate.id, riser.id].sort());
+    expect(ids({ q: 'LWS clamp' })).toEqual([clamp.id]);
+  });
+
+  it('lists everything newest first without text', () => {
+    expect(ids({})).toEqual([...docs].reverse().map((d) => d.id));
+  });
+});
+
+describe('search index · query syntax', () => {
+  it('runs lunr query syntax', () => {
+    expect(ids({ q: 'title:battery' })).toEqual([plate.id]);
+    expect(ids({ q: '+battery -adapter' })).toEqual([note.id]);
+    expect(ids({ q: 'mounts:LWS' })).toEqual([clamp.id]);
+  });
+
+  it.each(['title:', '*~^', 'colour:red', 'plate~x'])('answers %j with a 400 that explains the syntax', (q) => {
+    let caught: unknown;
+    try {
+      ids({ q });
+    } catch (err) {
+      caught = err;
+    }
+    expect(caught).toBeInstanceOf(AppError);
+    expect((caught as AppError).status).toBe(400);
+    expect((caught as AppError).message).toMatch(/could not be read/);
+    expect((caught as AppError).message).toMatch(/field:word/);
+  });
+});
+
+describe('search index · file', () => {
+  it('round-trips through its JSON form', () => {
+    const content = JSON.parse(indexFileContent(docs, 'abc', buildIndex(docs)));
+    const again = createSearcher({ index: lunr.Index.load(content.index), documents: content.documents });
+    expect(again.search(searchQuerySchema.parse({ q: 'battery' })).results.map((r) => r.id)).toEqual([plate.id, note.id]);
+    expect(content).toMatchObject({ format: 1, fingerprint: 'abc' });
+  });
+});
