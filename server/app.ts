@@ -96,11 +96,15 @@ export function createApp({ config, sequelize, mailer }: AppContext) {
 
   const dirs = uploadDirs(config.UPLOADS_DIR);
   const photos = new PhotoJobs(dirs, new PhotoQueue());
-  const search = createSearchService({ sequelize, indexFile: config.SEARCH_INDEX_FILE });
+  const search = createSearchService({
+    sequelize,
+    indexFile: config.SEARCH_INDEX_FILE,
+    ranking: (partIds) => evidence.rankFigures(partIds),
+  });
   // a decision that puts a part on the shelf, replaces its published revision or retires it changes search
   const review = createReviewService({ sequelize, mail: mailer, publicUrl: config.PUBLIC_URL, onDecided: () => search.scheduleRebuild() });
   const parts = createPartsService({ sequelize, dirs, photos, onSubmitted: review.submitted });
-  const evidence = createEvidenceService({ sequelize, dirs, photos });
+  const evidence = createEvidenceService({ sequelize, dirs, photos, onChanged: () => search.rankingChanged() });
   const planning = createPlanningService({ sequelize, evidence });
 
   const tokens = createTokenService({ config, mailer });

@@ -19,13 +19,18 @@ await db.provision({
   // each test file makes a database of its own under this prefix
   extraGrants: ['rigshelf\\_t\\_%'],
 });
-if (!existsSync(CHROMIUM)) {
-  console.log('rigshelf: installing Debian chromium for the browser tests (apt-get)');
-  await aptInstall(['chromium']);
+const selection = process.argv.slice(2);
+// the browser tests need chromium and a built client; a run limited to other files does not
+const browserTests = selection.filter((a) => !a.startsWith('-')).length === 0 || selection.some((a) => a.includes('e2e'));
+if (browserTests) {
+  if (!existsSync(CHROMIUM)) {
+    console.log('rigshelf: installing Debian chromium for the browser tests (apt-get)');
+    await aptInstall(['chromium']);
+  }
+  ensureClientBuilt();
 }
-ensureClientBuilt();
 
-const args = ['run', ...process.argv.slice(2)];
+const args = ['run', ...selection];
 const result = spawnSync(resolve(root, 'node_modules/.bin/vitest'), args, {
   cwd: root,
   stdio: 'inherit',

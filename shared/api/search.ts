@@ -10,8 +10,12 @@ export interface SearchResultItem {
   sizeMm: [number, number, number] | null;
   mounts: { slug: string; label: string; note?: string }[];
   bodies: { slug: string; maker: string; model: string }[];
-  /** Crew ratings are not collected yet: always null for now. */
+  /** Mean of the crew's ratings (1–5), null when nobody has rated it; always shown with ratingCount. */
   rating: number | null;
+  ratingCount: number;
+  /** Wilson lower bound of the share of set reports that held up (0 with no reports). */
+  proven: number;
+  reports: number;
   /** URL of the first cleaned photo's thumbnail, if there is one. */
   thumbnail: string | null;
   /** Relevance from the text match (0 when there was no search text). */

@@ -223,6 +223,9 @@ describe('search · relevance', () => {
       ],
       bodies: [{ slug: 'korvel-kx8', maker: 'Korvel', model: 'KX-8' }],
       rating: null,
+      ratingCount: 0,
+      proven: 0,
+      reports: 0,
       thumbnail: expect.stringMatching(new RegExp(`^/api/parts/${ids.plate}/files/\\d+/image/thumb$`)),
       score: expect.any(Number),
     });

@@ -193,6 +193,14 @@ export function createEvidenceService({ sequelize, dirs, photos, onChanged }: Ev
 
     evidenceFor,
 
+    /** The figures search ranks by: proven score, report count and the (adjusted) rating. */
+    async rankFigures(partIds: number[]) {
+      const evidence = partIds.length ? await evidenceFor(partIds) : new Map<number, Evidence>();
+      return new Map(
+        [...evidence].map(([id, e]) => [id, { proven: e.proven, reports: e.reports, mean: e.rating.mean, count: e.rating.count, adjusted: e.rating.adjusted }]),
+      );
+    },
+
     async flag(actor: User, type: Target, id: number, reason: string) {
       const target = type === 'rating' ? await Rating.findByPk(id) : await SetReport.findByPk(id);
       if (!target || target.hiddenAt) throw AppError.notFound(`There is no such ${type}.`);

@@ -1,5 +1,6 @@
 // Answers one search from an index and its documents: text matching through lunr, then filters,
 // facets, sorting and paging in memory. No database and no I/O, so the benchmark runs it as is.
+import { compareProven } from '../../../shared/ranking';
 import lunr from 'lunr';
 import { mountStandard } from '../../../shared/catalogue';
 import type { SearchResponse, SearchResultItem } from '../../../shared/api/search';
@@ -40,9 +41,21 @@ export interface Searchable {
   documents: readonly SearchDocument[];
 }
 
+/** What ratings and set reports say about a part; refreshed apart from the text index. */
+export interface Rank {
+  proven: number;
+  reports: number;
+  mean: number | null;
+  count: number;
+  adjusted: number | null;
+}
+export type Ranks = ReadonlyMap<number, Rank>;
+const UNRANKED: Rank = { proven: 0, reports: 0, mean: null, count: 0, adjusted: null };
+
 export interface Searcher {
-  search(query: SearchQuery): SearchResponse;
+  search(query: SearchQuery, ranks?: Ranks): SearchResponse;
   readonly size: number;
+  readonly documents: readonly SearchDocument[];
 }
 
 export interface Match {
@@ -133,8 +146,9 @@ function syntaxMatches(index: lunr.Index, text: string, original: string, byRef:
 
 const newestFirst = (a: SearchDocument, b: SearchDocument) => (a.publishedAt < b.publishedAt ? 1 : a.publishedAt > b.publishedAt ? -1 : b.id - a.id);
 
-function present(m: Match): SearchResultItem {
+function present(m: Match, ranks: Ranks): SearchResultItem {
   const { doc } = m;
+  const rank = ranks.get(doc.id) ?? UNRANKED;
   return {
     id: doc.id,
     slug: doc.slug,
@@ -143,7 +157,10 @@ function present(m: Match): SearchResultItem {
     sizeMm: doc.sizeMm ? [doc.sizeMm[0], doc.sizeMm[1], doc.sizeMm[2]] : null,
     mounts: doc.mounts.map((mount) => ({ slug: mount.slug, label: mountStandard(mount.slug)?.label ?? mount.slug, ...(mount.note ? { note: mount.note } : {}) })),
     bodies: doc.bodies.map((b) => ({ slug: b.slug, maker: b.maker, model: b.model })),
-    rating: doc.rating,
+    rating: rank.mean,
+    ratingCount: rank.count,
+    proven: rank.proven,
+    reports: rank.reports,
     thumbnail: doc.thumbnail,
     score: Math.round(m.score * 1e4) / 1e4,
   };
@@ -157,10 +174,18 @@ export function sortNewestFirst(documents: readonly SearchDocument[]): SearchDoc
  * Everything after the text match: filters, facets over all matches, order and the page. Without
  * text (`ranked` false) the matches must come newest first already.
  */
-export function filterAndPage(matches: Match[], query: SearchQuery, ranked: boolean): SearchResponse {
+export function filterAndPage(matches: Match[], query: SearchQuery, ranked: boolean, ranks: Ranks = new Map()): SearchResponse {
   const filtered = matches.filter((m) => matchesFilters(m.doc, query));
-  // 'proven' will weigh ratings and reports once parts have them; until then it is relevance
-  if (ranked) {
+  const rankOf = (m: Match) => ranks.get(m.doc.id) ?? UNRANKED;
+  if (query.sort === 'proven') {
+    // best proven on set, then the adjusted rating, then relevance: one perfect report never beats forty good ones
+    filtered.sort(
+      (a, b) =>
+        compareProven({ provenScore: rankOf(a).proven, adjustedRating: rankOf(a).adjusted ?? 0 }, { provenScore: rankOf(b).proven, adjustedRating: rankOf(b).adjusted ?? 0 }) ||
+        b.score - a.score ||
+        newestFirst(a.doc, b.doc),
+    );
+  } else if (ranked) {
     if (query.sort === 'newest') filtered.sort((a, b) => newestFirst(a.doc, b.doc));
     else filtered.sort((a, b) => b.score - a.score || newestFirst(a.doc, b.doc));
   }
@@ -170,7 +195,7 @@ export function filterAndPage(matches: Match[], query: SearchQuery, ranked: bool
     page: query.page,
     pageSize: query.pageSize,
     facets: countFacets(filtered.map((m) => m.doc)),
-    results: filtered.slice(start, start + query.pageSize).map(present),
+    results: filtered.slice(start, start + query.pageSize).map((m) => present(m, ranks)),
   };
 }
 
@@ -180,13 +205,14 @@ export function createSearcher({ index, documents }: Searchable): Searcher {
 
   return {
     size: documents.length,
-    search(query) {
+    documents,
+    search(query, ranks) {
       const text = readQueryText(query.q);
       let matches: Match[];
       if (text.kind === 'none') matches = everything;
       else if (text.kind === 'plain') matches = plainMatches(index, text.groups, byRef);
       else matches = syntaxMatches(index, text.text, query.q ?? '', byRef);
-      return filterAndPage(matches, query, text.kind !== 'none');
+      return filterAndPage(matches, query, text.kind !== 'none', ranks);
     },
   };
 }

@@ -10,7 +10,7 @@ import { AppError } from '../../errors';
 import { loadDocuments, publishedFingerprint } from './documents';
 import { SEARCH_FORMAT, type IndexFile, type SearchDocument } from './index-builder';
 import type { BuildJob, BuildResult } from './index-worker';
-import { createSearcher, type Searcher } from './searcher';
+import { createSearcher, type Ranks, type Searcher } from './searcher';
 
 export interface SearchServiceDeps {
   sequelize: Sequelize;
@@ -18,6 +18,8 @@ export interface SearchServiceDeps {
   indexFile: string;
   /** How long to gather changes before rebuilding (ms). */
   rebuildDelayMs?: number;
+  /** Ratings and set-report figures per part, for 'best proven' and the rating filter. */
+  ranking?: (partIds: number[]) => Promise<Ranks>;
 }
 
 const WORKER_URL = new URL('./index-worker.ts', import.meta.url).href;
@@ -120,7 +122,40 @@ async function readIndexFile(file: string, fingerprint: string): Promise<{ file:
   }
 }
 
-export function createSearchService({ sequelize, indexFile, rebuildDelayMs = 250 }: SearchServiceDeps) {
+export function createSearchService({ sequelize, indexFile, rebuildDelayMs = 250, ranking }: SearchServiceDeps) {
+  let ranks: Ranks = new Map();
+  let rankRefresh: Promise<void> | null = null;
+  let rankAgain = false;
+
+  /** Copies the mean rating onto the documents, where the minRating filter reads it. */
+  function applyRanks(documents: readonly SearchDocument[]) {
+    for (const doc of documents) doc.rating = ranks.get(doc.id)?.mean ?? null;
+  }
+
+  /** Reloads the ranking figures (cheap next to an index build); calls close together share one. */
+  function refreshRanks(): Promise<void> {
+    if (!ranking) return Promise.resolve();
+    if (rankRefresh) {
+      rankAgain = true;
+      return rankRefresh;
+    }
+    rankRefresh = (async () => {
+      do {
+        rankAgain = false;
+        const docs = current?.searcher.documents ?? [];
+        try {
+          ranks = await ranking(docs.map((d) => d.id));
+          applyRanks(current?.searcher.documents ?? []);
+        } catch (err) {
+          if (!closed) console.error('rigshelf: search ranking could not be refreshed:', err);
+        }
+      } while (rankAgain && !closed);
+    })().finally(() => {
+      rankRefresh = null;
+    });
+    return rankRefresh;
+  }
+
   const worker = new IndexWorker();
   let current: Current | null = null;
   let startup: Promise<SearchStats & { rebuiltBecause: string | null }> | null = null;
@@ -135,9 +170,11 @@ export function createSearchService({ sequelize, indexFile, rebuildDelayMs = 250
 
   function install(documents: SearchDocument[], index: lunr.Index, fingerprint: string, builtAt: string, source: 'file' | 'build') {
     // one assignment: a search that already holds the old searcher finishes with it
+    applyRanks(documents);
     current = { searcher: createSearcher({ index, documents }), fingerprint, builtAt };
     stats.source = source;
     markReady();
+    void refreshRanks();
   }
 
   /** Loads the published set and builds it in the worker, unless nothing changed since the last build. */
@@ -209,10 +246,15 @@ export function createSearchService({ sequelize, indexFile, rebuildDelayMs = 250
       return readyPromise;
     },
 
-    /** Resolves when no rebuild is waiting or running. */
-    idle(): Promise<void> {
-      if (!timer && !running) return Promise.resolve();
-      return new Promise((resolve) => idleWaiters.push(resolve));
+    /** Resolves when no rebuild (and no ranking refresh) is waiting or running. */
+    async idle(): Promise<void> {
+      if (timer || running) await new Promise<void>((resolve) => idleWaiters.push(resolve));
+      while (rankRefresh) await rankRefresh;
+    },
+
+    /** Ratings or set reports changed: re-read the ranking figures (the text index stays). */
+    rankingChanged(): void {
+      if (!closed) void refreshRanks();
     },
 
     /** Asks for a rebuild; changes arriving close together share one. Searches go on meanwhile. */
@@ -230,7 +272,7 @@ export function createSearchService({ sequelize, indexFile, rebuildDelayMs = 250
     search(query: SearchQuery): SearchResponse {
       const now = current;
       if (!now) throw new AppError(503, 'search_starting', 'Search is still starting up. Try again in a few seconds.');
-      return now.searcher.search(query);
+      return now.searcher.search(query, ranks);
     },
 
     stats(): SearchStats {
