@@ -5,7 +5,9 @@ import { resolve } from 'node:path';
 import type { QueryInterface, Sequelize } from 'sequelize';
 import { SequelizeStorage, Umzug } from 'umzug';
 import type { UploadDirs } from '../modules/files/storage';
+import type { EvidenceService } from '../modules/evidence/service';
 import type { PartsService } from '../modules/parts/service';
+import type { ReviewService } from '../modules/review/service';
 
 export interface MigrationContext {
   queryInterface: QueryInterface;
@@ -16,6 +18,8 @@ export interface MigrationContext {
 
 export interface SeedServices {
   parts: PartsService;
+  review: ReviewService;
+  evidence: EvidenceService;
   dirs: UploadDirs;
 }
 
