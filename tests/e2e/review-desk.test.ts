@@ -1,0 +1,77 @@
+import { writeFileSync, mkdtempSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { DEMO_ACCOUNTS, DEMO_PASSWORD } from '../../server/db/seeders/0001-demo-crew';
+import { signInThroughForm, startBrowserRig, type BrowserRig } from '../helpers/browser';
+import { boxStl } from '../helpers/meshes';
+import { submission } from '../helpers/parts';
+
+let rig: BrowserRig;
+const member = DEMO_ACCOUNTS.find((a) => a.role === 'member')!;
+const moderator = DEMO_ACCOUNTS.find((a) => a.role === 'moderator')!;
+const title = 'Follow-focus whip holder';
+
+beforeAll(async () => {
+  rig = await startBrowserRig();
+});
+afterAll(async () => {
+  await rig?.close();
+});
+
+/** Submits through the API as the member signed in on the page (the submit form has its own test). */
+async function submitAsPageUser(): Promise<number> {
+  const dir = mkdtempSync(join(tmpdir(), 'rigshelf-e2e-'));
+  const stl = join(dir, 'holder.stl');
+  writeFileSync(stl, boxStl(30, 20, 12));
+  const { page } = rig;
+  const token = await page.evaluate(async () => (await (await fetch('/api/auth/csrf')).json()).csrfToken as string);
+  const res = await page.request.post('/api/parts', {
+    headers: { 'X-CSRF-Token': token },
+    multipart: {
+      data: JSON.stringify(submission({ title, safety: { carriesLoad: false, overhead: false, vehicle: false, heat: false } })),
+      model: { name: 'holder.stl', mimeType: 'model/stl', buffer: boxStl(30, 20, 12) },
+    },
+  });
+  expect(res.status()).toBe(201);
+  return (await res.json()).id;
+}
+
+describe('browser · the review desk', () => {
+  it('a member submits, the demo moderator approves with a note, the member sees it published and the notice', async () => {
+    const { page, context } = rig;
+    await signInThroughForm(page, member.email, DEMO_PASSWORD);
+    await page.waitForURL((u) => u.pathname === '/');
+    const id = await submitAsPageUser();
+    await page.goto(`/parts/${id}`);
+    await page.getByText('At the review desk').first().waitFor();
+
+    // the moderator, in a fresh session
+    await context.clearCookies();
+    await signInThroughForm(page, moderator.email, DEMO_PASSWORD);
+    await page.waitForURL((u) => u.pathname === '/');
+    await page.locator('[data-test="nav-review"]').click();
+    await page.locator(`[data-test="queue-item-${id}"]`).click();
+    await page.locator('[data-test="checklist"]').waitFor();
+    await rig.screenshot('review-desk-1-submission');
+    for (const box of await page.locator('[data-test="checklist"] input[type="checkbox"]').all()) await box.check();
+    await page.getByLabel('Note to the contributor').fill('Checked the bore against a 15 mm rod: good fit.');
+    await page.locator('[data-test="approve"]').click();
+    await page.waitForURL((u) => u.pathname === '/review');
+
+    // back to the member
+    await context.clearCookies();
+    await signInThroughForm(page, member.email, DEMO_PASSWORD);
+    await page.waitForURL((u) => u.pathname === '/');
+    await page.locator('[data-test="notice-count"]').waitFor();
+    await page.locator('[data-test="notice-bell"]').click();
+    const list = page.locator('[data-test="notice-list"]');
+    await list.waitFor();
+    expect(await list.textContent()).toContain(`On the shelf: ${title}`);
+    await rig.screenshot('review-desk-2-notice');
+    await list.getByText(`On the shelf: ${title}`).click();
+    await page.waitForURL((u) => u.pathname.startsWith('/parts/'));
+    await page.getByText('On the shelf').first().waitFor();
+    await rig.screenshot('review-desk-3-published');
+  });
+});
