@@ -61,3 +61,80 @@ export const STATUS_WORDING: Record<PartStatus | RevisionStatus, StatusWording> 
   retired: { label: 'Taken off the shelf', icon: 'pi pi-inbox', tone: 'off' },
   superseded: { label: 'Replaced by a newer revision', icon: 'pi pi-history', tone: 'off' },
 };
+
+/** What each level of a rating out of 5 says, lowest first (index 0 is level 1). */
+export const RATING_WORDS = ['Keep it off the rig', 'Needs work', 'Does the job', 'Solid', 'First thing on the cart'] as const;
+
+export function ratingWord(level: number): string {
+  return RATING_WORDS[level - 1] ?? '';
+}
+
+/** 4.25 → "4.3" */
+export function formatMean(mean: number): string {
+  return mean.toFixed(1);
+}
+
+/** 0.784 → "78 %" */
+export function formatPercent(share: number): string {
+  return `${Math.round(share * 100)} %`;
+}
+
+/** "1 report", "3 reports" */
+export function plural(n: number, one: string, many = `${one}s`): string {
+  return `${formatCount(n)} ${n === 1 ? one : many}`;
+}
+
+// ---- prep day: filament, time, money, heat and shoot dates ------------------------------------
+
+/** 82.4 → "82 g", 1234 → "1.23 kg" */
+export function formatGrams(g: number): string {
+  if (g >= 1000) return `${(g / 1000).toFixed(2)} kg`;
+  return `${g < 10 ? g.toFixed(1) : Math.round(g)} g`;
+}
+
+/** 12.345 → "12.3 m" */
+export function formatMetres(m: number): string {
+  return `${m < 10 ? m.toFixed(2) : m < 100 ? m.toFixed(1) : Math.round(m).toLocaleString('en-US')} m`;
+}
+
+/** 2.58 → "2 h 35 min", 0.4 → "24 min" */
+export function formatHours(hours: number): string {
+  const minutes = Math.round(hours * 60);
+  if (minutes < 60) return `${minutes} min`;
+  const h = Math.floor(minutes / 60);
+  const m = minutes % 60;
+  return m ? `${h.toLocaleString('en-US')} h ${m} min` : `${h.toLocaleString('en-US')} h`;
+}
+
+/** Money in the crew's own currency (none is stored): 1234.5 → "1,234.50" */
+export function formatMoney(amount: number): string {
+  return amount.toLocaleString('en-US', { minimumFractionDigits: 2, maximumFractionDigits: 2 });
+}
+
+/** 69.4 → "69.4 °C (157 °F)" */
+export function formatCelsius(c: number): string {
+  return `${Number(c.toFixed(1))} °C (${Math.round((c * 9) / 5 + 32)} °F)`;
+}
+
+/** A calendar day ("2026-04-13") as a local date: no time zone shifts it to the day before. */
+export function parseDay(day: string): Date {
+  const [y, m, d] = day.split('-').map(Number);
+  return new Date(y, m - 1, d);
+}
+
+export function formatDay(day: string): string {
+  return parseDay(day).toLocaleDateString(undefined, { weekday: 'short', year: 'numeric', month: 'short', day: 'numeric' });
+}
+
+/** "Mon, Apr 13, 2026 – Fri, Apr 24, 2026", one day, or null without dates. */
+export function formatShootDays(startsOn: string | null, endsOn: string | null): string | null {
+  if (startsOn && endsOn && startsOn !== endsOn) return `${formatDay(startsOn)} – ${formatDay(endsOn)}`;
+  const one = startsOn ?? endsOn;
+  return one ? formatDay(one) : null;
+}
+
+/** Whole days from today to a calendar day (negative once it has passed). */
+export function daysUntil(day: string, today = new Date()): number {
+  const start = new Date(today.getFullYear(), today.getMonth(), today.getDate());
+  return Math.round((parseDay(day).getTime() - start.getTime()) / 86_400_000);
+}

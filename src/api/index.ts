@@ -1,12 +1,44 @@
 // Typed calls to the Rigshelf API, grouped by feature.
 import type { PartCreated, PartDetail, PartHistoryItem, PartList, Vocab } from '@shared/api/parts';
+import type { CrewProfile, Evidence, EvidenceEntryType, FlaggedEntry, FlagResult, HideResult, PartRatings, RatingSaved, ReportFiled, SetReportList } from '@shared/api/evidence';
+import type { RatingInput, SetReportInput } from '@shared/schemas/evidence';
 import type { AdminUserPatch, LoginInput, RegisterInput } from '@shared/schemas/auth';
 import type { PartSubmission, PartUpdate } from '@shared/schemas/part';
 import type { HealthStatus, PartSummary, PublicUser } from '@shared/types';
+import type { NoticeList, ReviewDecisionResult, ReviewDetail, ReviewQueueItem } from '@shared/api/review';
+import type { ReviewAction } from '@shared/review';
+import type { MailboxMessage, OutboxItem } from '@shared/types';
+import type {
+  EstimateResult,
+  KitDetail,
+  KitItemInfo,
+  KitList,
+  KitListItem,
+  KitShareList,
+  KitSummaryResponse,
+  PrinterInfo,
+  PrinterList,
+  PriceSheetInfo,
+} from '@shared/api/planning';
+import type {
+  EstimateInput,
+  KitInput,
+  KitItemInput,
+  KitItemPatch,
+  KitPatch,
+  KitSharesInput,
+  PriceSheetInput,
+  PrinterInput,
+  PrinterPatch,
+} from '@shared/schemas/planning';
+import type { SearchResponse } from '@shared/api/search';
+import type { SearchSort } from '@shared/schemas/search';
 import { forgetCsrfToken, http } from './http';
 
 export { ApiError, isApiError } from './http';
 export type { PartCreated, PartDetail, PartHistoryItem, PartList, Vocab } from '@shared/api/parts';
+export type * from '@shared/api/evidence';
+export type { SearchResponse, SearchResultItem } from '@shared/api/search';
 
 export const authApi = {
   async me(): Promise<PublicUser | null> {
@@ -85,4 +117,126 @@ export const partsApi = {
   removeFile: (id: number, fileId: number) => http.delete<PartDetail>(`${partPath(id)}/files/${fileId}`),
   /** The bytes behind a file's downloadUrl (signed-in only). */
   fileBytes: (downloadUrl: string) => http.bytes(downloadUrl),
+};
+
+export const reviewApi = {
+  queue: async (): Promise<ReviewQueueItem[]> => (await http.get<{ items: ReviewQueueItem[] }>('/api/review/queue')).items,
+  detail: (partId: number) => http.get<ReviewDetail>(`/api/review/${partId}`),
+  decide: (partId: number, action: Exclude<ReviewAction, 'submit'>, body: { note?: string; checklist?: string[] }) =>
+    http.post<ReviewDecisionResult>(`/api/review/${partId}/${action}`, body),
+  resubmit: (id: number) => http.post<PartDetail>(`${partPath(id)}/submit`),
+};
+
+export const noticesApi = {
+  list: () => http.get<NoticeList>('/api/notices'),
+  read: (id: number) => http.post<void>(`/api/notices/${id}/read`),
+  readAll: () => http.post<void>('/api/notices/read-all'),
+};
+
+export const mailApi = {
+  outbox: async (): Promise<OutboxItem[]> => (await http.get<{ items: OutboxItem[] }>('/api/admin/mail')).items,
+  retry: (id: number) => http.post<{ item: OutboxItem }>(`/api/admin/mail/${id}/retry`),
+  mailbox: async (): Promise<MailboxMessage[]> => (await http.get<{ items: MailboxMessage[] }>('/api/dev/mailbox')).items,
+};
+
+export const accountApi = {
+  verifyEmail: async (token: string) => (await http.post<{ user: PublicUser }>('/api/auth/verify-email', { token })).user,
+  resendVerification: () => http.post<{ message: string }>('/api/auth/verify-email/resend'),
+  requestReset: (email: string) => http.post<{ message: string }>('/api/auth/password-reset/request', { email }),
+  resetPassword: (token: string, password: string) => http.post<{ message: string }>('/api/auth/password-reset', { token, password }),
+};
+
+const kitPath = (id: number) => `/api/kits/${encodeURIComponent(String(id))}`;
+
+/** Prep day: print estimates, the member's printers and filament prices, shoot kits. */
+export const planningApi = {
+  estimate: (input: EstimateInput) => http.post<EstimateResult>('/api/estimate', input),
+
+  printers: async (): Promise<PrinterInfo[]> => (await http.get<PrinterList>('/api/printers')).items,
+  createPrinter: (input: PrinterInput) => http.post<PrinterInfo>('/api/printers', input),
+  updatePrinter: (id: number, patch: PrinterPatch) => http.patch<PrinterInfo>(`/api/printers/${id}`, patch),
+  deletePrinter: (id: number) => http.delete<void>(`/api/printers/${id}`),
+
+  prices: () => http.get<PriceSheetInfo>('/api/me/prices'),
+  /** Replaces the sheet: materials left out go back to the default price. */
+  setPrices: (input: PriceSheetInput) => http.put<PriceSheetInfo>('/api/me/prices', input),
+
+  /** The member's own kits and those shared with them, last changed first. */
+  kits: async (): Promise<KitListItem[]> => (await http.get<KitList>('/api/kits')).items,
+  kit: (id: number) => http.get<KitDetail>(kitPath(id)),
+  createKit: (input: KitInput) => http.post<KitDetail>('/api/kits', input),
+  updateKit: (id: number, patch: KitPatch) => http.patch<KitDetail>(kitPath(id), patch),
+  deleteKit: (id: number) => http.delete<void>(kitPath(id)),
+  addItem: (kitId: number, input: KitItemInput) => http.post<KitItemInfo>(`${kitPath(kitId)}/items`, input),
+  updateItem: (kitId: number, itemId: number, patch: KitItemPatch) => http.patch<KitItemInfo>(`${kitPath(kitId)}/items/${itemId}`, patch),
+  removeItem: (kitId: number, itemId: number) => http.delete<void>(`${kitPath(kitId)}/items/${itemId}`),
+  /** Replaces who the kit is shared with (owner only). */
+  setShares: (kitId: number, input: KitSharesInput) => http.put<KitShareList>(`${kitPath(kitId)}/shares`, input),
+  summary: (kitId: number) => http.get<KitSummaryResponse>(`${kitPath(kitId)}/summary`),
+  /** For a plain download link: the browser sends the session cookie itself. */
+  csvUrl: (kitId: number) => `${kitPath(kitId)}/export.csv`,
+};
+
+/** Which set reports to list; every filter is optional. */
+export interface ReportFilter {
+  material?: string;
+  condition?: string;
+  outcome?: string;
+}
+
+export const evidenceApi = {
+  /** Every visible rating of a part, the star distribution and the member's own rating. */
+  ratings: (partId: number | string) => http.get<PartRatings>(`${partPath(partId)}/ratings`),
+  /** Rates a part (again: the new rating replaces the old one). Not for the part's author. */
+  rate: (partId: number | string, input: RatingInput) => http.post<RatingSaved>(`${partPath(partId)}/ratings`, input),
+  async reports(partId: number | string, filter: ReportFilter = {}): Promise<SetReportList['items']> {
+    const query = new URLSearchParams(Object.entries(filter).filter((e): e is [string, string] => !!e[1]));
+    const qs = query.toString();
+    return (await http.get<SetReportList>(`${partPath(partId)}/reports${qs ? `?${qs}` : ''}`)).items;
+  },
+  fileReport(partId: number | string, input: SetReportInput, photos: File[] = []): Promise<ReportFiled> {
+    const form = new FormData();
+    form.append('data', JSON.stringify(input));
+    for (const photo of photos) form.append('photo', photo, photo.name);
+    return http.post<ReportFiled>(`${partPath(partId)}/reports`, form);
+  },
+  /** The proven figure, the counts behind it, the rating summary and the warnings. */
+  proven: (partId: number | string) => http.get<Evidence>(`${partPath(partId)}/proven`),
+  flag: (type: EvidenceEntryType, id: number, reason: string) => http.post<FlagResult>(`/api/${type}s/${id}/flag`, { reason }),
+  /** Moderators: flagged entries waiting for a decision, oldest flag first. */
+  flagged: async (): Promise<FlaggedEntry[]> => (await http.get<{ items: FlaggedEntry[] }>('/api/review/flags')).items,
+  /** Moderators: takes an entry out of every score; the note is required. */
+  hide: (type: EvidenceEntryType, id: number, note: string) => http.post<HideResult>(`/api/review/${type}s/${id}/hide`, { note }),
+  profile: (userId: number | string) => http.get<CrewProfile>(`/api/users/${encodeURIComponent(String(userId))}/profile`),
+};
+
+/** One shelf search, as GET /api/search takes it (lists repeat their key; empty values are left out). */
+export interface SearchParams {
+  q?: string;
+  body?: string[];
+  mount?: string[];
+  category?: string[];
+  material?: string[];
+  /** The space a part must fit in, as typed: "120x80x40", "4.5inx3inx1in". */
+  fit?: string;
+  /** Key dimensions as name:value:tolerance, e.g. "rod bore:15:0.3". */
+  dim?: string[];
+  adaptable?: boolean;
+  minRating?: number;
+  sort?: SearchSort;
+  page?: number;
+  pageSize?: number;
+}
+
+export const searchApi = {
+  /** Published parts matching the text and every filter, with facet counts over all matches. */
+  search(params: SearchParams): Promise<SearchResponse> {
+    const query = new URLSearchParams();
+    for (const [key, value] of Object.entries(params) as [string, SearchParams[keyof SearchParams]][]) {
+      if (value === undefined || value === '' || value === false) continue;
+      for (const one of Array.isArray(value) ? value : [value]) if (one !== '') query.append(key, one === true ? '1' : String(one));
+    }
+    const qs = query.toString();
+    return http.get<SearchResponse>(`/api/search${qs ? `?${qs}` : ''}`);
+  },
 };

@@ -24,6 +24,18 @@ export type RouteName =
   | 'part-edit'
   | 'part'
   | 'my-parts'
+  | 'part-report'
+  | 'profile'
+  | 'flags'
+  | 'kits'
+  | 'kit'
+  | 'printers'
+  | 'review-queue'
+  | 'review-desk'
+  | 'verify-email'
+  | 'forgot-password'
+  | 'reset-password'
+  | 'admin-mail'
   | 'not-found';
 
 const routes: RouteRecordRaw[] = [
@@ -48,6 +60,17 @@ const routes: RouteRecordRaw[] = [
         meta: { auth: true, title: 'Change a part' },
       },
       { path: 'parts/:id', name: 'part', component: () => import('@/views/PartPageView.vue'), meta: { title: 'Part' } },
+      {
+        path: 'parts/:id/report',
+        name: 'part-report',
+        component: () => import('@/views/PartReportView.vue'),
+        meta: { auth: true, title: 'Rate and report' },
+      },
+      { path: 'crew/:id(\\d+)', name: 'profile', component: () => import('@/views/ProfileView.vue'), meta: { title: 'Crew member' } },
+      { path: 'review/flags', name: 'flags', component: () => import('@/views/FlagsView.vue'), meta: { role: 'moderator', title: 'Flagged entries' } },
+      { path: 'kits', name: 'kits', component: () => import('@/views/KitsView.vue'), meta: { auth: true, title: 'Shoot kits' } },
+      { path: 'kits/:id', name: 'kit', component: () => import('@/views/KitView.vue'), meta: { auth: true, title: 'Shoot kit' } },
+      { path: 'printers', name: 'printers', component: () => import('@/views/PrintersView.vue'), meta: { auth: true, title: 'Printers & prices' } },
       { path: 'my/parts', name: 'my-parts', component: () => import('@/views/MyPartsView.vue'), meta: { auth: true, title: 'My submissions' } },
       {
         path: 'admin/users',
@@ -55,6 +78,12 @@ const routes: RouteRecordRaw[] = [
         component: () => import('@/views/AdminUsersView.vue'),
         meta: { role: 'admin', title: 'Accounts' },
       },
+      { path: 'review', name: 'review-queue', component: () => import('@/views/ReviewQueueView.vue'), meta: { role: 'moderator', title: 'Review desk' } },
+      { path: 'review/:partId(\\d+)', name: 'review-desk', component: () => import('@/views/ReviewDeskView.vue'), meta: { role: 'moderator', title: 'Review' } },
+      { path: 'verify-email', name: 'verify-email', component: () => import('@/views/VerifyEmailView.vue'), meta: { title: 'Confirm your e-mail' } },
+      { path: 'forgot-password', name: 'forgot-password', component: () => import('@/views/ForgotPasswordView.vue'), meta: { title: 'Forgot your password' } },
+      { path: 'reset-password', name: 'reset-password', component: () => import('@/views/ResetPasswordView.vue'), meta: { title: 'New password' } },
+      { path: 'admin/mail', name: 'admin-mail', component: () => import('@/views/AdminMailView.vue'), meta: { role: 'admin', title: 'Outgoing mail' } },
       { path: ':rest(.*)*', name: 'not-found', component: () => import('@/views/NotFoundView.vue'), meta: { title: 'Not found' } },
     ],
   },
@@ -63,7 +92,12 @@ const routes: RouteRecordRaw[] = [
 export const router = createRouter({
   history: createWebHistory(),
   routes,
-  scrollBehavior: (_to, _from, saved) => saved ?? { top: 0 },
+  // a #hash goes to that element when it is already on the page (views that load first scroll themselves)
+  scrollBehavior(to, _from, saved) {
+    if (saved) return saved;
+    const target = to.hash ? document.getElementById(decodeURIComponent(to.hash.slice(1))) : null;
+    return target ? { el: target, top: 12 } : { top: 0 };
+  },
 });
 
 router.beforeEach(async (to) => {
