@@ -1,9 +1,6 @@
-import { writeFileSync, mkdtempSync } from 'node:fs';
-import { tmpdir } from 'node:os';
-import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { DEMO_ACCOUNTS, DEMO_PASSWORD } from '../../server/db/seeders/0001-demo-crew';
-import { signInThroughForm, startBrowserRig, type BrowserRig } from '../helpers/browser';
+import { forgetSession, signInThroughForm, startBrowserRig, type BrowserRig } from '../helpers/browser';
 import { boxStl } from '../helpers/meshes';
 import { submission } from '../helpers/parts';
 
@@ -21,9 +18,6 @@ afterAll(async () => {
 
 /** Submits through the API as the member signed in on the page (the submit form has its own test). */
 async function submitAsPageUser(): Promise<number> {
-  const dir = mkdtempSync(join(tmpdir(), 'rigshelf-e2e-'));
-  const stl = join(dir, 'holder.stl');
-  writeFileSync(stl, boxStl(30, 20, 12));
   const { page } = rig;
   const token = await page.evaluate(async () => (await (await fetch('/api/auth/csrf')).json()).csrfToken as string);
   const res = await page.request.post('/api/parts', {
@@ -39,7 +33,7 @@ async function submitAsPageUser(): Promise<number> {
 
 describe('browser · the review desk', () => {
   it('a member submits, the demo moderator approves with a note, the member sees it published and the notice', async () => {
-    const { page, context } = rig;
+    const { page } = rig;
     await signInThroughForm(page, member.email, DEMO_PASSWORD);
     await page.waitForURL((u) => u.pathname === '/');
     const id = await submitAsPageUser();
@@ -47,7 +41,7 @@ describe('browser · the review desk', () => {
     await page.getByText('At the review desk').first().waitFor();
 
     // the moderator, in a fresh session
-    await context.clearCookies();
+    await forgetSession(page);
     await signInThroughForm(page, moderator.email, DEMO_PASSWORD);
     await page.waitForURL((u) => u.pathname === '/');
     await page.locator('[data-test="nav-review"]').click();
@@ -55,12 +49,12 @@ describe('browser · the review desk', () => {
     await page.locator('[data-test="checklist"]').waitFor();
     await rig.screenshot('review-desk-1-submission');
     for (const box of await page.locator('[data-test="checklist"] input[type="checkbox"]').all()) await box.check();
-    await page.getByLabel('Note to the contributor').fill('Checked the bore against a 15 mm rod: good fit.');
+    await page.locator('#decision-note').fill('Checked the bore against a 15 mm rod: good fit.');
     await page.locator('[data-test="approve"]').click();
     await page.waitForURL((u) => u.pathname === '/review');
 
     // back to the member
-    await context.clearCookies();
+    await forgetSession(page);
     await signInThroughForm(page, member.email, DEMO_PASSWORD);
     await page.waitForURL((u) => u.pathname === '/');
     await page.locator('[data-test="notice-count"]').waitFor();
@@ -69,7 +63,7 @@ describe('browser · the review desk', () => {
     await list.waitFor();
     expect(await list.textContent()).toContain(`On the shelf: ${title}`);
     await rig.screenshot('review-desk-2-notice');
-    await list.getByText(`On the shelf: ${title}`).click();
+    await list.locator('button', { hasText: `On the shelf: ${title}` }).click();
     await page.waitForURL((u) => u.pathname.startsWith('/parts/'));
     await page.getByText('On the shelf').first().waitFor();
     await rig.screenshot('review-desk-3-published');

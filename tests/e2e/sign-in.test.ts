@@ -1,7 +1,7 @@
 import { existsSync } from 'node:fs';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { DEMO_ACCOUNTS, DEMO_PASSWORD } from '../../server/db/seeders/0001-demo-crew';
-import { signInThroughForm, startBrowserRig, type BrowserRig } from '../helpers/browser';
+import { forgetSession, signInThroughForm, startBrowserRig, type BrowserRig } from '../helpers/browser';
 
 let rig: BrowserRig;
 beforeAll(async () => {
@@ -27,7 +27,7 @@ describe('browser · sign-in', () => {
 
   it('shows the generic message for a wrong password', async () => {
     const { page } = rig;
-    await rig.context.clearCookies();
+    await forgetSession(page);
     await signInThroughForm(page, member.email, 'not the password');
     const error = page.locator('[data-test="sign-in-error"]');
     await error.waitFor();

@@ -57,7 +57,21 @@ export async function startBrowserRig(): Promise<BrowserRig> {
 
 export async function signInThroughForm(page: Page, email: string, password: string) {
   await page.goto('/sign-in');
-  await page.getByLabel('E-mail').fill(email);
+  try {
+    await page.getByLabel('E-mail').fill(email, { timeout: 10_000 });
+  } catch (err) {
+    await page.screenshot({ path: join(ARTIFACTS, 'sign-in-failure.png'), fullPage: true });
+    throw err;
+  }
   await page.locator('#password').fill(password);
   await page.getByRole('button', { name: 'Sign in' }).click();
+}
+
+/**
+ * Starts a fresh session. The page is left first: sessions roll, so a response still in flight
+ * would otherwise set the cookie again right after it was cleared.
+ */
+export async function forgetSession(page: Page) {
+  await page.goto('about:blank');
+  await page.context().clearCookies();
 }
