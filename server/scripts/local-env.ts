@@ -46,6 +46,12 @@ export function localInstance(kind: InstanceKind) {
     DB_PASSWORD: secrets.dbPassword,
     SESSION_SECRET: secrets.sessionSecret,
   };
+  if (kind === 'app' && port !== defaultPort) {
+    // a side-by-side app keeps its files and search index apart too: its start-up sweep removes
+    // every stored file its own database does not know
+    env.UPLOADS_DIR = resolve(varDir, `uploads-${port}`);
+    env.SEARCH_INDEX_FILE = resolve(varDir, `search-index-${port}.json`);
+  }
   for (const key of Object.keys(env)) {
     const given = process.env[key];
     if (given) env[key] = given;

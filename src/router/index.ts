@@ -11,11 +11,14 @@ declare module 'vue-router' {
     /** Only for visitors who are not signed in (sign in, register). */
     guest?: boolean;
     title?: string;
+    /** A change of the query alone (a search filter, the sort) keeps the scroll position. */
+    keepScroll?: boolean;
   }
 }
 
 export type RouteName =
   | 'home'
+  | 'search'
   | 'sign-in'
   | 'register'
   | 'account'
@@ -44,6 +47,7 @@ const routes: RouteRecordRaw[] = [
     component: () => import('@/layout/AppLayout.vue'),
     children: [
       { path: '', name: 'home', component: () => import('@/views/HomeView.vue'), meta: { title: 'The crew shelf' } },
+      { path: 'search', name: 'search', component: () => import('@/views/SearchView.vue'), meta: { title: 'Search the shelf', keepScroll: true } },
       { path: 'sign-in', name: 'sign-in', component: () => import('@/views/SignInView.vue'), meta: { guest: true, title: 'Sign in' } },
       { path: 'register', name: 'register', component: () => import('@/views/RegisterView.vue'), meta: { guest: true, title: 'Join' } },
       { path: 'account', name: 'account', component: () => import('@/views/AccountView.vue'), meta: { auth: true, title: 'Your account' } },
@@ -95,6 +99,7 @@ export const router = createRouter({
   // a #hash goes to that element when it is already on the page (views that load first scroll themselves)
   scrollBehavior(to, _from, saved) {
     if (saved) return saved;
+    if (to.meta.keepScroll && to.path === _from.path) return false;
     const target = to.hash ? document.getElementById(decodeURIComponent(to.hash.slice(1))) : null;
     return target ? { el: target, top: 12 } : { top: 0 };
   },

@@ -8,15 +8,6 @@ import type { KitItemInput, KitItemPatch, KitPatch, KitSharesInput } from '@shar
 import type { PartSummary } from '@shared/types';
 import { isApiError, partsApi, planningApi } from '@/api';
 
-export interface PrinterChoice {
-  id: number;
-  name: string;
-  /** Known only for the viewer's own printers. */
-  bedMm: [number, number, number] | null;
-}
-
-export type KitItemSummaryInfo = KitSummaryResponse['items'][number];
-
 export const useKitStore = defineStore('kit', () => {
   const kit = ref<KitDetail | null>(null);
   const summary = ref<KitSummaryResponse | null>(null);
@@ -38,14 +29,15 @@ export const useKitStore = defineStore('kit', () => {
    * Printers an item can be put on: the owner's own; a member with edit access cannot list the
    * owner's printers, so they choose among the ones the kit already uses.
    */
-  const printerChoices = computed<PrinterChoice[]>(() => {
-    if (isOwner.value) return ownPrinters.value.map((p) => ({ id: p.id, name: p.name, bedMm: p.bedMm }));
-    const seen = new Map<number, PrinterChoice>();
+  const printerChoices = computed(() => {
+    // the bed is known only for the viewer's own printers
+    if (isOwner.value) return ownPrinters.value.map((p) => ({ id: p.id, name: p.name, bedMm: p.bedMm as PrinterInfo['bedMm'] | null }));
+    const seen = new Map<number, { id: number; name: string; bedMm: PrinterInfo['bedMm'] | null }>();
     for (const item of kit.value?.items ?? []) if (item.printer) seen.set(item.printer.id, { ...item.printer, bedMm: null });
     return [...seen.values()];
   });
 
-  function itemSummary(itemId: number): KitItemSummaryInfo | null {
+  function itemSummary(itemId: number): KitSummaryResponse['items'][number] | null {
     return summary.value?.items.find((i) => i.id === itemId) ?? null;
   }
 

@@ -58,7 +58,7 @@ export async function startBrowserRig(): Promise<BrowserRig> {
 export async function signInThroughForm(page: Page, email: string, password: string) {
   await page.goto('/sign-in');
   try {
-    await page.getByLabel('E-mail').fill(email, { timeout: 10_000 });
+    await page.getByLabel('E-mail').fill(email);
   } catch (err) {
     await page.screenshot({ path: join(ARTIFACTS, 'sign-in-failure.png'), fullPage: true });
     throw err;
