@@ -83,7 +83,8 @@ function expandGroup(index: lunr.Index, group: TermGroup): Map<string, number> {
   const stemmed = stem(word);
   add(stemmed, BOOST.exact);
   add(word, BOOST.exact);
-  if (group.last && word.length >= PREFIX_FROM) {
+  // a last word that is already a word of the shelf is taken as typed; only a partial one expands
+  if (group.last && word.length >= PREFIX_FROM && terms.size === 0) {
     const prefixed = internals.tokenSet.intersect(TokenSet.fromString(`${word}*`)).toArray();
     prefixed.sort((a, b) => a.length - b.length || (a < b ? -1 : 1));
     for (const term of prefixed.slice(0, MAX_EXPANSIONS)) add(term, BOOST.prefix);
