@@ -31,7 +31,7 @@ export const safetySchema = z.object({
 
 /** The editable properties of a part, without defaults: an update changes only what it names. */
 const partFields = {
-  title: z.string({ error: 'Give the part a title.' }).trim().min(3, 'Use at least 3 characters.').max(120, 'Keep the title under 120 characters.'),
+  title: z.string({ error: 'Give the part a title.' }).trim().min(1, 'Give the part a title.').min(3, 'Use at least 3 characters for the title.').max(120, 'Keep the title under 120 characters.'),
   summary: z.string({ error: 'Say in a line what the part is for.' }).trim().min(10, 'Say in a line what the part is for (at least 10 characters).').max(280, 'Keep the summary under 280 characters.'),
   description: z.string().max(20_000, 'Keep the description under 20,000 characters.'),
   category: z.enum(CATEGORY_SLUGS, { error: 'Choose a category from the list.' }),

@@ -1,6 +1,7 @@
 // The part being put on the shelf (or changed) in the submit flow: every field of every step, the
 // chosen files with their measurements, and the inline messages. Kept in a store so a contributor who
 // leaves the flow to look something up comes back to what they typed.
+import { UPLOAD_LIMITS } from '@shared/uploads';
 import { defineStore } from 'pinia';
 import { computed, markRaw, reactive, ref } from 'vue';
 import type { z } from 'zod';
@@ -42,12 +43,7 @@ export function stepOfField(key: string): StepKey {
 
 // The server's upload limits (server/modules/files/upload.ts), checked here first so nobody waits
 // for a 150 MB upload to be refused.
-export const UPLOAD_LIMITS = {
-  model: 100 * 1024 * 1024,
-  photo: 15 * 1024 * 1024,
-  source: 100 * 1024 * 1024,
-  filesPerRequest: 12,
-} as const;
+export { UPLOAD_LIMITS };
 const PHOTO_TYPES = ['image/jpeg', 'image/png', 'image/webp'];
 
 export interface DraftFile {

@@ -5,6 +5,7 @@ import { createReadStream } from 'node:fs';
 import { rm } from 'node:fs/promises';
 import type { ErrorRequestHandler, Request, RequestHandler, Response } from 'express';
 import multer from 'multer';
+import { UPLOAD_LIMITS } from '@shared/uploads';
 import type { z } from 'zod';
 import { AppError } from '../../errors';
 import { displayName } from './sniff';
@@ -12,10 +13,10 @@ import { randomStoredName } from './storage';
 import type { UploadDirs } from './storage';
 
 export const LIMITS = {
-  modelBytes: 100 * 1024 * 1024,
-  photoBytes: 15 * 1024 * 1024,
-  sourceBytes: 100 * 1024 * 1024,
-  filesPerRequest: 12,
+  modelBytes: UPLOAD_LIMITS.model,
+  photoBytes: UPLOAD_LIMITS.photo,
+  sourceBytes: UPLOAD_LIMITS.source,
+  filesPerRequest: UPLOAD_LIMITS.filesPerRequest,
 } as const;
 
 export const FILE_FIELDS = ['model', 'photo', 'source'] as const;
