@@ -125,7 +125,7 @@ export function createApp({ config, sequelize, mailer }: AppContext) {
 
   app.use('/api/auth', authRoutes({ config, auth, passport, csrfToken: generateToken, tokens }));
   app.use('/api/admin/mail', mailAdminRoutes(mailer));
-  app.use('/api/admin', adminRoutes());
+  app.use('/api/admin', adminRoutes({ onBodiesChanged: () => search.scheduleRebuild() }));
   // the fake's mailbox exists only in development; elsewhere it is an unknown path (404)
   if (!config.isProduction && mailer.fake) app.use('/api/dev', devMailboxRoutes(mailer.fake));
   app.use('/api/vocab', vocabRoutes());

@@ -77,3 +77,14 @@ describe('search · best proven', () => {
     expect(t.services.search.stats().builds).toBe(builds);
   });
 });
+
+describe('search · camera-body vocabulary', () => {
+  it('finds a part by a new alias once an admin adds it to its camera body', async () => {
+    const admin = await signedIn('admin');
+    expect((await search('q=blackbird').expect(200)).body.total).toBe(0);
+    await admin.patch('/api/admin/bodies/korvel-kx8').send({ aliases: ['KX8', 'Korvel 8', 'Blackbird'] }).expect(200);
+    await t.services.search.idle();
+    const res = await search('q=blackbird').expect(200);
+    expect(res.body.results.map((r: { id: number }) => r.id).sort()).toEqual(Object.values(ids).sort());
+  });
+});

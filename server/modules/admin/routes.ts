@@ -6,7 +6,12 @@ import { cameraBodyPatchSchema, cameraBodySchema, slugParamSchema, type CameraBo
 import { cameraBodies } from '../vocab/service';
 import { adminService } from './service';
 
-export function adminRoutes() {
+export interface AdminDeps {
+  /** Camera bodies are searchable words of every part that names them. */
+  onBodiesChanged?: () => void;
+}
+
+export function adminRoutes({ onBodiesChanged }: AdminDeps = {}) {
   const router = Router();
   router.use(requireRole('admin'));
 
@@ -23,16 +28,19 @@ export function adminRoutes() {
 
   router.post('/bodies', validate('body', cameraBodySchema), async (_req, res) => {
     const body = await cameraBodies.create(res.locals.body as CameraBodyInput);
+    onBodiesChanged?.();
     res.status(201).json({ body: body.toInfo() });
   });
 
   router.patch('/bodies/:slug', validate('params', slugParamSchema), validate('body', cameraBodyPatchSchema), async (req, res) => {
     const body = await cameraBodies.update(req.params.slug as string, res.locals.body as Partial<CameraBodyInput>);
+    onBodiesChanged?.();
     res.json({ body: body.toInfo() });
   });
 
   router.delete('/bodies/:slug', validate('params', slugParamSchema), async (req, res) => {
     await cameraBodies.remove(req.params.slug as string);
+    onBodiesChanged?.();
     res.status(204).end();
   });
 
