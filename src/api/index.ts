@@ -7,7 +7,8 @@ import type { PartSubmission, PartUpdate } from '@shared/schemas/part';
 import type { HealthStatus, PartSummary, PublicUser } from '@shared/types';
 import type { NoticeList, ReviewDecisionResult, ReviewDetail, ReviewQueueItem } from '@shared/api/review';
 import type { ReviewAction } from '@shared/review';
-import type { MailboxMessage, OutboxItem } from '@shared/types';
+import type { CameraBodyInfo, MailboxMessage, OutboxItem } from '@shared/types';
+import type { CameraBodyInput } from '@shared/schemas/vocab';
 import type {
   EstimateResult,
   KitDetail,
@@ -69,6 +70,10 @@ export const adminApi = {
   users: async () => (await http.get<{ users: PublicUser[] }>('/api/admin/users')).users,
   updateUser: async (id: number, patch: AdminUserPatch) =>
     (await http.patch<{ user: PublicUser }>(`/api/admin/users/${id}`, patch)).user,
+  addBody: async (input: CameraBodyInput) => (await http.post<{ body: CameraBodyInfo }>('/api/admin/bodies', input)).body,
+  updateBody: async (slug: string, patch: Partial<CameraBodyInput>) =>
+    (await http.patch<{ body: CameraBodyInfo }>(`/api/admin/bodies/${encodeURIComponent(slug)}`, patch)).body,
+  removeBody: (slug: string) => http.delete<void>(`/api/admin/bodies/${encodeURIComponent(slug)}`),
 };
 
 export const healthApi = {

@@ -39,6 +39,7 @@ export type RouteName =
   | 'forgot-password'
   | 'reset-password'
   | 'admin-mail'
+  | 'admin-bodies'
   | 'not-found';
 
 const routes: RouteRecordRaw[] = [
@@ -87,6 +88,7 @@ const routes: RouteRecordRaw[] = [
       { path: 'verify-email', name: 'verify-email', component: () => import('@/views/VerifyEmailView.vue'), meta: { title: 'Confirm your e-mail' } },
       { path: 'forgot-password', name: 'forgot-password', component: () => import('@/views/ForgotPasswordView.vue'), meta: { title: 'Forgot your password' } },
       { path: 'reset-password', name: 'reset-password', component: () => import('@/views/ResetPasswordView.vue'), meta: { title: 'New password' } },
+      { path: 'admin/bodies', name: 'admin-bodies', component: () => import('@/views/AdminBodiesView.vue'), meta: { role: 'admin', title: 'Camera bodies' } },
       { path: 'admin/mail', name: 'admin-mail', component: () => import('@/views/AdminMailView.vue'), meta: { role: 'admin', title: 'Outgoing mail' } },
       { path: ':rest(.*)*', name: 'not-found', component: () => import('@/views/NotFoundView.vue'), meta: { title: 'Not found' } },
     ],
