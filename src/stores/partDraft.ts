@@ -8,7 +8,8 @@ import type { z } from 'zod';
 import type { PartDetail } from '@shared/api/parts';
 import type { CategorySlug, MountSlug, SafetyFlags } from '@shared/catalogue';
 import { checkAdaptationLicence, isLicenceId, type LicenceId } from '@shared/licences';
-import { analyseModelFile, MeshError, type ModelFileAnalysis } from '@shared/mesh';
+import { MeshError, type ModelFileAnalysis } from '@shared/mesh';
+import { analyseModel } from '@/meshAnalysis';
 import { partSubmissionSchema, partUpdateSchema, type PartSubmission, type PartUpdate } from '@shared/schemas/part';
 import type { RecipeInput } from '@shared/schemas/recipe';
 import type { FileKind, PartFileInfo } from '@shared/types';
@@ -260,11 +261,8 @@ export const usePartDraftStore = defineStore('partDraft', () => {
   async function measure(entry: DraftFile) {
     entry.analysing = true;
     entry.error = null;
-    // let the "Measuring…" state paint before the synchronous analysis runs
-    await new Promise((resolve) => setTimeout(resolve, 20));
     try {
-      const bytes = new Uint8Array(await entry.file.arrayBuffer());
-      entry.analysis = markRaw(analyseModelFile(bytes, { drawnInInches: drawnInInches.value }));
+      entry.analysis = markRaw(await analyseModel(entry.file, { drawnInInches: drawnInInches.value }));
     } catch (err) {
       entry.analysis = null;
       entry.error = err instanceof MeshError ? err.message : 'This file could not be read. Export it again as STL or 3MF.';
