@@ -4,7 +4,8 @@ import { readFile } from 'node:fs/promises';
 import { analyseModelFile, MeshError, type ModelFileAnalysis } from '@shared/mesh';
 import { AppError } from '../../errors';
 import { EXTENSION, MIME, sniffFile, type SniffedType } from './sniff';
-import { LIMITS, sha256File, type FileField, type UploadedFile } from './upload';
+import { UPLOAD_LIMITS } from '@shared/uploads';
+import { sha256File, type FileField, type UploadedFile } from './upload';
 
 export interface InspectedFile extends UploadedFile {
   type: SniffedType;
@@ -34,7 +35,7 @@ function refuse(file: UploadedFile, status: number, code: string, message: strin
 }
 
 function checkSize(file: UploadedFile) {
-  const limit: Record<FileField, number> = { model: LIMITS.modelBytes, photo: LIMITS.photoBytes, source: LIMITS.sourceBytes };
+  const limit: Record<FileField, number> = UPLOAD_LIMITS;
   if (file.size === 0) refuse(file, 422, 'empty_file', 'the file is empty. Export it again.');
   if (file.size > limit[file.field]) {
     refuse(file, 413, 'file_too_large', `${file.field === 'photo' ? 'photos' : 'files'} may be at most ${mb(limit[file.field])}; this one is ${mb(file.size)}.`);

@@ -12,12 +12,6 @@ import { displayName } from './sniff';
 import { randomStoredName } from './storage';
 import type { UploadDirs } from './storage';
 
-export const LIMITS = {
-  modelBytes: UPLOAD_LIMITS.model,
-  photoBytes: UPLOAD_LIMITS.photo,
-  sourceBytes: UPLOAD_LIMITS.source,
-  filesPerRequest: UPLOAD_LIMITS.filesPerRequest,
-} as const;
 
 export const FILE_FIELDS = ['model', 'photo', 'source'] as const;
 export type FileField = (typeof FILE_FIELDS)[number];
@@ -38,12 +32,12 @@ export function uploadMiddleware(dirs: UploadDirs): RequestHandler[] {
       filename: (_req, _file, cb) => cb(null, randomStoredName('.upload')),
     }),
     limits: {
-      fileSize: Math.max(LIMITS.modelBytes, LIMITS.sourceBytes),
-      files: LIMITS.filesPerRequest,
+      fileSize: Math.max(UPLOAD_LIMITS.model, UPLOAD_LIMITS.source),
+      files: UPLOAD_LIMITS.filesPerRequest,
       fields: 60,
       fieldSize: 1024 * 1024,
     },
-  }).fields(FILE_FIELDS.map((name) => ({ name, maxCount: LIMITS.filesPerRequest })));
+  }).fields(FILE_FIELDS.map((name) => ({ name, maxCount: UPLOAD_LIMITS.filesPerRequest })));
 
   // a safety net for requests that end without reaching withUploads (e.g. the client went away)
   const cleanup: RequestHandler = (req, res, next) => {
@@ -75,9 +69,9 @@ export const multerErrors: ErrorRequestHandler = (err, req, _res, next) => {
 function translateMulterError(err: multer.MulterError): AppError {
   switch (err.code) {
     case 'LIMIT_FILE_SIZE':
-      return new AppError(413, 'file_too_large', `A file is larger than ${mb(LIMITS.modelBytes)}. Reduce it (e.g. export with fewer facets) and try again.`);
+      return new AppError(413, 'file_too_large', `A file is larger than ${mb(UPLOAD_LIMITS.model)}. Reduce it (e.g. export with fewer facets) and try again.`);
     case 'LIMIT_FILE_COUNT':
-      return (new AppError(413, 'too_many_files', `Send at most ${LIMITS.filesPerRequest} files in one upload; add the rest afterwards.`));
+      return new AppError(413, 'too_many_files', `Send at most ${UPLOAD_LIMITS.filesPerRequest} files in one upload; add the rest afterwards.`);
     case 'LIMIT_UNEXPECTED_FILE':
       return (new AppError(422, 'unexpected_file', `Files go in the fields ${FILE_FIELDS.join(', ')}; "${err.field}" is not one of them.`));
     case 'LIMIT_FIELD_VALUE':
