@@ -172,6 +172,8 @@ export const planningApi = {
   createKit: (input: KitInput) => http.post<KitDetail>('/api/kits', input),
   updateKit: (id: number, patch: KitPatch) => http.patch<KitDetail>(kitPath(id), patch),
   deleteKit: (id: number) => http.delete<void>(kitPath(id)),
+  /** Takes the signed-in member off a kit someone shared with them. */
+  leaveKit: (id: number) => http.delete<void>(`${kitPath(id)}/shares/me`),
   addItem: (kitId: number, input: KitItemInput) => http.post<KitItemInfo>(`${kitPath(kitId)}/items`, input),
   updateItem: (kitId: number, itemId: number, patch: KitItemPatch) => http.patch<KitItemInfo>(`${kitPath(kitId)}/items/${itemId}`, patch),
   removeItem: (kitId: number, itemId: number) => http.delete<void>(`${kitPath(kitId)}/items/${itemId}`),

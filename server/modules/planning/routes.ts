@@ -109,6 +109,11 @@ export function kitRoutes(planning: PlanningService) {
     res.json(await planning.setShares(currentUser(req)!, kitId(res), parsed(res, 'body', kitSharesSchema)));
   });
 
+  router.delete('/:id/shares/me', kitParams, async (req, res) => {
+    await planning.leave(currentUser(req)!, kitId(res));
+    res.status(204).end();
+  });
+
   router.get('/:id/summary', kitParams, async (req, res) => {
     res.json(await planning.summary(currentUser(req)!, kitId(res)));
   });

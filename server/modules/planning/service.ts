@@ -437,6 +437,13 @@ export function createPlanningService({ sequelize, evidence }: PlanningDeps) {
       return { shares: presentShares(shares, 'owner') };
     },
 
+    /** A member the kit is shared with takes themselves off it; the owner keeps it. */
+    async leave(viewer: User, kitId: number): Promise<void> {
+      const { kit } = await findKit(viewer, kitId, 'read');
+      if (kit.ownerId === viewer.id) throw AppError.conflict('You own this kit: delete it, or share it and keep it.');
+      await KitShare.destroy({ where: { kitId: kit.id, userId: viewer.id } });
+    },
+
     async summary(viewer: User, kitId: number): Promise<KitSummaryResponse> {
       const { kit } = await findKit(viewer, kitId, 'read');
       return summaryOf(kit);
