@@ -30,9 +30,9 @@ export const MOUNT_STANDARDS = [
   { slug: 'rods-15-100', label: '15 mm studio rods at 100 mm', standard: 'Studio rod convention: 15 mm rods, 100 mm centres', aliases: ['15mm studio', 'studio rods 15'] },
   { slug: 'rods-19-104', label: '19 mm rods at 104 mm', standard: 'Studio rod convention: 19 mm rods, 104 mm centres', aliases: ['19mm rods', '19 mm', 'studio rods'] },
   { slug: 'rail-1913', label: 'MIL-STD-1913 / NATO accessory rail', standard: 'MIL-STD-1913; STANAG 4694', aliases: ['picatinny', 'NATO rail', '1913 rail', 'accessory rail'] },
-  { slug: 'dovetail-38', label: '38 mm dovetail clamp', standard: 'Common 38 mm (1.5 in) V-groove dovetail', aliases: ['dovetail', 'arca', '38mm plate', 'quick release plate'] },
-  { slug: 'battery-v-style', label: 'V-style battery plate', standard: 'V-style battery plate convention', aliases: ['v-mount', 'v mount', 'v-lock', 'v plate'] },
-  { slug: 'battery-3-stud', label: '3-stud battery plate', standard: '3-stud battery plate convention', aliases: ['3 stud', 'three stud', 'gold mount'] },
+  { slug: 'dovetail-38', label: '38 mm dovetail clamp', standard: 'Common 38 mm (1.5 in) V-groove dovetail', aliases: ['dovetail', '38mm plate', 'quick release plate'] },
+  { slug: 'battery-v-style', label: 'V-style battery plate', standard: 'V-style battery plate convention', aliases: ['v-mount', 'v mount', 'v plate', 'v-style'] },
+  { slug: 'battery-3-stud', label: '3-stud battery plate', standard: '3-stud battery plate convention', aliases: ['3 stud', 'three stud', '3-stud'] },
   { slug: 'gear-0-8', label: '0.8 module gear', standard: 'ISO 53 basic rack, module 0.8', aliases: ['0.8 mod', 'mod 0.8', 'lens gear', 'follow focus gear', '32 pitch'] },
   { slug: 'other', label: 'Other (see note)', standard: 'Described in the note', aliases: [] },
 ] as const satisfies readonly MountStandard[];

@@ -19,10 +19,10 @@ describe('mount aliases · expansion', () => {
     ['19mm rods', 'rods-19-104'],
     ['v-mount', 'battery-v-style'],
     ['V mount', 'battery-v-style'],
-    ['gold mount', 'battery-3-stud'],
+    ['three stud', 'battery-3-stud'],
     ['cold shoe', 'accessory-shoe'],
     ['NATO rail', 'rail-1913'],
-    ['arca', 'dovetail-38'],
+    ['quick release plate', 'dovetail-38'],
     ['0.8 mod', 'gear-0-8'],
     ['1/4-20 UNC screw', 'screw-1-4-20'],
   ])('reads %j as %s', (typed, slug) => {
