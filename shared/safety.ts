@@ -1,6 +1,7 @@
 // The cautions shown wherever a part carries load, goes overhead, rides on a vehicle or sits near heat.
 // Printed parts are not certified rigging: these are the usual cautions of the trade (common practice).
 import type { SafetyFlags } from './catalogue';
+import { heatCheck, isMaterialId } from './materials';
 
 export interface Caution {
   flag: keyof SafetyFlags | 'general';
@@ -11,7 +12,17 @@ export function hasSafetyFlag(flags: SafetyFlags): boolean {
   return flags.carriesLoad || flags.overhead || flags.vehicle || flags.heat;
 }
 
-export function safetyCautions(flags: SafetyFlags, testedLoadKg: number | null = null): Caution[] {
+/**
+ * The heat caution: the dashboard-in-sun figure (Vanos et al. 2018, via shared/materials.ts) and,
+ * when the part's materials are known, what each of them does at that temperature.
+ */
+function heatCaution(materials: readonly string[]): string {
+  const known = [...new Set(materials)].filter(isMaterialId);
+  if (!known.length) return 'Mind the material heat limits: a dashboard in sun reaches about 69 °C, above the softening point of PLA.';
+  return `Mind the material heat limits. ${known.map((m) => heatCheck(m, 'vehicle-sun').message).join(' ')}`;
+}
+
+export function safetyCautions(flags: SafetyFlags, testedLoadKg: number | null = null, materials: readonly string[] = []): Caution[] {
   if (!hasSafetyFlag(flags)) return [];
   const cautions: Caution[] = [];
   if (flags.carriesLoad) {
@@ -36,10 +47,7 @@ export function safetyCautions(flags: SafetyFlags, testedLoadKg: number | null =
     });
   }
   if (flags.heat || flags.vehicle) {
-    cautions.push({
-      flag: 'heat',
-      text: 'Mind the material heat limits: a dashboard in sun reaches about 69 °C, above the softening point of PLA.',
-    });
+    cautions.push({ flag: 'heat', text: heatCaution(materials) });
   }
   cautions.push({
     flag: 'general',

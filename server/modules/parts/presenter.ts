@@ -128,7 +128,7 @@ export async function presentPart(part: Part, revisionId: number, viewer: User |
       mounts: rev.mounts.map((m) => ({ ...m, label: mountStandard(m.slug)?.label ?? m.slug, standard: mountStandard(m.slug)?.standard ?? '' })),
       keyDimensions: rev.keyDimensions,
     },
-    safety: { ...flags, testedLoadKg: rev.testedLoadKg, cautions: safetyCautions(flags, rev.testedLoadKg) },
+    safety: { ...flags, testedLoadKg: rev.testedLoadKg, cautions: safetyCautions(flags, rev.testedLoadKg, (rev.recipes ?? []).map((r) => r.material)) },
     licence: { ...licence, adaptation: isLicenceId(rev.licence) ? adaptationRule(rev.licence) : null },
     recipes: (rev.recipes ?? []).map((r) => ({ id: r.id, ...r.toInput(), warnings: recipeWindowWarnings(r) })),
     files,
