@@ -54,46 +54,31 @@ export function authRoutes({ config, auth, passport, csrfToken, tokens }: Deps) 
   const windowMs = config.LOGIN_LIMIT_WINDOW_MIN * 60_000;
   const minutes = `${config.LOGIN_LIMIT_WINDOW_MIN} minutes`;
 
-  const perIp = rateLimit({
-    windowMs,
-    limit: config.LOGIN_LIMIT_PER_IP,
-    standardHeaders: 'draft-8',
-    legacyHeaders: false,
-    handler: tooMany(`Too many sign-in attempts from this network. Wait ${minutes} and try again.`),
-  });
-  const perAccount = rateLimit({
-    windowMs,
-    limit: config.LOGIN_LIMIT_PER_ACCOUNT,
-    standardHeaders: 'draft-8',
-    legacyHeaders: false,
-    skipSuccessfulRequests: true,
-    keyGenerator: (req) => `account:${String((req.body as Partial<LoginInput>)?.email ?? '').toLowerCase()}`,
-    handler: tooMany(`Too many failed sign-ins for this account. Wait ${minutes} or reset your password.`),
-  });
+  /** One counter per key (the IP address unless `key` says otherwise), answering 429 with `message`. */
+  const limiter = (limit: number, message: string, options: { key?: (req: Request) => string; onlyFailures?: boolean } = {}) =>
+    rateLimit({
+      windowMs,
+      limit,
+      standardHeaders: 'draft-8',
+      legacyHeaders: false,
+      skipSuccessfulRequests: options.onlyFailures ?? false,
+      ...(options.key && { keyGenerator: options.key }),
+      handler: tooMany(message),
+    });
+  const emailOf = (req: Request) => String((req.body as Partial<LoginInput>)?.email ?? '').toLowerCase();
 
+  const perIp = limiter(config.LOGIN_LIMIT_PER_IP, `Too many sign-in attempts from this network. Wait ${minutes} and try again.`);
+  const perAccount = limiter(config.LOGIN_LIMIT_PER_ACCOUNT, `Too many failed sign-ins for this account. Wait ${minutes} or reset your password.`, {
+    key: (req) => `account:${emailOf(req)}`,
+    onlyFailures: true,
+  });
   // mail-sending and link-spending routes: their own counters, the same limits as sign-in
-  const resetPerIp = rateLimit({
-    windowMs,
-    limit: config.LOGIN_LIMIT_PER_IP,
-    standardHeaders: 'draft-8',
-    legacyHeaders: false,
-    handler: tooMany(`Too many password-reset attempts from this network. Wait ${minutes} and try again.`),
+  const resetPerIp = limiter(config.LOGIN_LIMIT_PER_IP, `Too many password-reset attempts from this network. Wait ${minutes} and try again.`);
+  const resetPerAddress = limiter(config.LOGIN_LIMIT_PER_ACCOUNT, `Too many reset links were asked for this address. Wait ${minutes}, then use the newest mail.`, {
+    key: (req) => `reset:${emailOf(req)}`,
   });
-  const resetPerAddress = rateLimit({
-    windowMs,
-    limit: config.LOGIN_LIMIT_PER_ACCOUNT,
-    standardHeaders: 'draft-8',
-    legacyHeaders: false,
-    keyGenerator: (req) => `reset:${String((req.body as Partial<PasswordResetRequestInput>)?.email ?? '').toLowerCase()}`,
-    handler: tooMany(`Too many reset links were asked for this address. Wait ${minutes}, then use the newest mail.`),
-  });
-  const resendPerAccount = rateLimit({
-    windowMs,
-    limit: config.LOGIN_LIMIT_PER_ACCOUNT,
-    standardHeaders: 'draft-8',
-    legacyHeaders: false,
-    keyGenerator: (req) => `resend:${currentUser(req)?.id ?? ''}`,
-    handler: tooMany(`Too many confirmation mails were asked for. Wait ${minutes}, then use the newest mail.`),
+  const resendPerAccount = limiter(config.LOGIN_LIMIT_PER_ACCOUNT, `Too many confirmation mails were asked for. Wait ${minutes}, then use the newest mail.`, {
+    key: (req) => `resend:${currentUser(req)?.id ?? ''}`,
   });
 
   router.get('/csrf', (req, response) => {
