@@ -20,6 +20,12 @@ const schema = z
     DB_USER: z.string().default('rigshelf'),
     DB_PASSWORD: z.string().min(1, 'DB_PASSWORD is required'),
     DB_POOL_MAX: z.coerce.number().int().min(1).default(10),
+    /** How long the server waits at start-up for MariaDB to accept a connection before it gives up. */
+    DB_WAIT_S: z.coerce.number().min(0).max(3600).default(60),
+    /** After SIGTERM/SIGINT the process exits within this many seconds, whatever is still open. */
+    SHUTDOWN_TIMEOUT_S: z.coerce.number().positive().max(600).default(10),
+    /** Benchmarks only: log event-loop delay figures every this many seconds (off when unset). */
+    LOOP_LAG_LOG_S: z.coerce.number().positive().optional(),
     SESSION_SECRET: z.string().min(16, 'SESSION_SECRET must be at least 16 characters'),
     SESSION_MAX_AGE_HOURS: z.coerce.number().positive().default(24 * 14),
     TRUST_PROXY: flag.default(false),

@@ -1,21 +1,36 @@
-// Starts Rigshelf: connect, migrate, seed (demo only), listen; closes in order on SIGINT/SIGTERM.
+// Starts Rigshelf: connect (waiting for MariaDB), migrate, seed (demo only), listen; on SIGINT/SIGTERM
+// drains HTTP and closes in order within SHUTDOWN_TIMEOUT_S.
 import { createServer, type Server } from 'node:http';
 import { resolve } from 'node:path';
 import { createApp } from './app';
 import { loadConfig, type Config } from './config';
 import { migrate, seedDemo } from './db/migrator';
 import { createSequelize } from './db/sequelize';
+import { StartupError, waitForDatabase } from './db/wait';
+import { logLoopLag } from './loop-lag';
+import { trackConnections } from './shutdown';
 import { createMailer } from './modules/mail/outbox';
 
 export interface RunningServer {
   server: Server;
   url: string;
-  close(): Promise<void>;
+  /** The whole shutdown (drain, workers, pool, and what the caller stops after) must fit in this. */
+  shutdownTimeoutMs: number;
+  /**
+   * Stops accepting, lets requests in flight finish for up to `drainMs` (default: the shutdown
+   * timeout less a reserve for what follows), then closes workers, the mail loop and the pool.
+   */
+  close(options?: { drainMs?: number }): Promise<void>;
+}
+
+/** Time left for requests in flight: the shutdown timeout less up to 3 s for closing the rest. */
+export function drainBudgetMs(shutdownTimeoutMs: number): number {
+  return shutdownTimeoutMs - Math.min(3000, shutdownTimeoutMs * 0.3);
 }
 
 export async function startServer(config: Config): Promise<RunningServer> {
   const sequelize = createSequelize(config);
-  await sequelize.authenticate();
+  await waitForDatabase(sequelize, { host: config.DB_HOST, port: config.DB_PORT, waitSeconds: config.DB_WAIT_S });
   const migrations = await migrate(sequelize);
   if (migrations.length) console.log(`rigshelf: migrations applied: ${migrations.join(', ')}`);
 
@@ -36,6 +51,7 @@ export async function startServer(config: Config): Promise<RunningServer> {
   const search = await built.services.search.start();
   console.log(`rigshelf: search index ${search.rebuiltBecause ? `built (${search.rebuiltBecause})` : 'loaded'}, ${search.documents} part(s)`);
   const server = createServer(built.app);
+  const http = trackConnections(server);
   try {
     await new Promise<void>((resolveListen, reject) => {
       server.once('error', reject);
@@ -46,18 +62,24 @@ export async function startServer(config: Config): Promise<RunningServer> {
     throw err;
   }
   mailer.start();
+  const lag = config.LOOP_LAG_LOG_S ? logLoopLag(config.LOOP_LAG_LOG_S) : null;
   const address = server.address();
   const port = typeof address === 'object' && address ? address.port : config.PORT;
   const url = `http://${config.HOST}:${port}`;
 
+  const shutdownTimeoutMs = config.SHUTDOWN_TIMEOUT_S * 1000;
+
   return {
     server,
     url,
-    async close() {
-      await new Promise<void>((r) => {
-        server.close(() => r());
-        server.closeIdleConnections();
-      });
+    shutdownTimeoutMs,
+    async close(options = {}) {
+      const drainMs = options.drainMs ?? drainBudgetMs(shutdownTimeoutMs);
+      const busy = http.inFlight;
+      const clean = await http.drain(drainMs);
+      if (!clean) console.log(`rigshelf: requests still open after ${(drainMs / 1000).toFixed(1)} s; their connections were closed`);
+      else if (busy) console.log(`rigshelf: ${busy} request(s) in flight finished`);
+      lag?.stop();
       await built.close();
       await mailer.close();
       await sequelize.close();
@@ -65,19 +87,29 @@ export async function startServer(config: Config): Promise<RunningServer> {
   };
 }
 
-/** Closes the HTTP server, then the mail loop, then the DB pool, then whatever `after` stops (MariaDB under `npm start`). */
+/**
+ * On SIGINT/SIGTERM: drains HTTP, closes the mail loop and the DB pool, then runs `after` (stopping
+ * MariaDB under `npm start`). Exits within the server's shutdown timeout whatever is still open.
+ */
 export function closeOnSignals(running: RunningServer, after?: () => Promise<void>) {
   let closing = false;
   const shutdown = async (signal: string) => {
     if (closing) return;
     closing = true;
-    console.log(`rigshelf: ${signal} received, shutting down`);
+    const began = Date.now();
+    const limit = running.shutdownTimeoutMs;
+    console.log(`rigshelf: ${signal} received, shutting down (at most ${limit / 1000} s)`);
+    setTimeout(() => {
+      console.error(`rigshelf: shutdown did not finish within ${limit / 1000} s; exiting anyway`);
+      process.exit(1);
+    }, limit).unref();
     try {
       await running.close();
       await after?.();
+      console.log(`rigshelf: stopped in ${((Date.now() - began) / 1000).toFixed(1)} s`);
       process.exit(0);
     } catch (err) {
-      console.error(err);
+      console.error(`rigshelf: shutdown failed: ${err instanceof Error ? err.message : String(err)}`);
       process.exit(1);
     }
   };
@@ -85,8 +117,21 @@ export function closeOnSignals(running: RunningServer, after?: () => Promise<voi
   process.on('SIGTERM', () => void shutdown('SIGTERM'));
 }
 
+/** One line for a failed start: the message a person can act on, no stack (StartupError and config errors carry it all). */
+export function startFailure(err: unknown): string {
+  if (err instanceof StartupError) return `rigshelf: ${err.message}`;
+  const message = err instanceof Error ? err.message : String(err);
+  return `rigshelf: could not start: ${message}`;
+}
+
 if (process.argv[1] && resolve(process.argv[1]) === resolve(import.meta.filename)) {
-  const running = await startServer(loadConfig());
+  let running: RunningServer;
+  try {
+    running = await startServer(loadConfig());
+  } catch (err) {
+    console.error(startFailure(err));
+    process.exit(1);
+  }
   console.log(`rigshelf: serving ${running.url}`);
   closeOnSignals(running);
 }

@@ -177,6 +177,35 @@ export class PrivateMariaDb {
     await this.sql(statements.join(';\n'));
   }
 
+  /** The server's process id from its pid file, or null when it is not running. */
+  pid(): number | null {
+    try {
+      const pid = Number(readFileSync(this.pidFile, 'utf8').trim());
+      if (!Number.isInteger(pid) || pid <= 0) return null;
+      // a stale pid file may name a process that is no longer ours
+      const cmdline = readFileSync(`/proc/${pid}/cmdline`, 'utf8');
+      return cmdline.includes('mariadbd') && cmdline.includes(this.datadir) ? pid : null;
+    } catch {
+      return null;
+    }
+  }
+
+  /**
+   * Last resort for a process that is exiting (no awaiting possible): SIGTERM makes mariadbd shut
+   * down cleanly on its own; SIGCONT wakes it first in case it was stopped.
+   */
+  signalStop(): void {
+    const pid = this.pid();
+    if (!pid) return;
+    for (const signal of ['SIGCONT', 'SIGTERM'] as const) {
+      try {
+        process.kill(pid, signal);
+      } catch {
+        // already gone
+      }
+    }
+  }
+
   /** Clean shutdown; waits until the pid file is gone. */
   async stop(): Promise<void> {
     if (!(await this.isAcceptingLogins())) return;

@@ -1,6 +1,6 @@
 // `npm test`: a private MariaDB for tests (own data directory and port, never the demo data),
 // Debian's chromium for the browser tests, a fresh client build, then the whole vitest suite.
-import { spawnSync } from 'node:child_process';
+import { spawn } from 'node:child_process';
 import { existsSync } from 'node:fs';
 import { resolve } from 'node:path';
 import { ensureClientBuilt } from './build-client';
@@ -31,7 +31,8 @@ if (browserTests) {
 }
 
 const args = ['run', ...selection];
-const result = spawnSync(resolve(root, 'node_modules/.bin/vitest'), args, {
+// Not spawnSync: this process must stay responsive so Ctrl-C or SIGTERM still stops the MariaDB it started.
+const vitest = spawn(resolve(root, 'node_modules/.bin/vitest'), args, {
   cwd: root,
   stdio: 'inherit',
   env: {
@@ -42,5 +43,14 @@ const result = spawnSync(resolve(root, 'node_modules/.bin/vitest'), args, {
     CHROMIUM_PATH: CHROMIUM,
   },
 });
+let signalled: NodeJS.Signals | null = null;
+for (const signal of ['SIGINT', 'SIGTERM'] as const) {
+  process.on(signal, () => {
+    // Ctrl-C reaches vitest directly too (same process group); a SIGTERM to npm reaches only us
+    signalled ??= signal;
+    vitest.kill(signal);
+  });
+}
+const status = await new Promise<number>((done) => vitest.on('exit', (code, signal) => done(code ?? (signal ? 1 : 0))));
 if (!wasRunning) await db.stop();
-process.exit(result.status ?? 1);
+process.exit(signalled ? 130 : status);
