@@ -39,6 +39,17 @@ export default defineConfig({
       {
         extends: true,
         test: {
+          // the real server as a separate process: signals, shutdown, start-up, and the short chaos run
+          name: 'process',
+          include: ['tests/process/**/*.test.ts', 'tests/chaos/**/*.test.ts'],
+          environment: 'node',
+          testTimeout: 180_000,
+          hookTimeout: 60_000,
+        },
+      },
+      {
+        extends: true,
+        test: {
           name: 'e2e',
           include: ['tests/e2e/**/*.test.ts'],
           environment: 'node',

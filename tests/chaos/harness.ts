@@ -1,0 +1,474 @@
+// Chaos run shared by `npm run test:chaos` (long form) and tests/chaos/chaos.test.ts (short form
+// inside `npm test`): mixed load through the real server process while uploads are aborted
+// mid-stream, parts are submitted in bursts, the database is frozen (SIGSTOP) and killed (SIGKILL,
+// then restarted), and SIGTERM ends it; then the shelf is checked for lost, doubled or orphaned work.
+import { existsSync, readdirSync } from 'node:fs';
+import { request as httpRequest } from 'node:http';
+import { join } from 'node:path';
+import { boxStl } from '../helpers/meshes';
+import { plainPng } from '../helpers/photos';
+import { addMembers, loadSubmission, Member, publishedParts, scratchDb, sleep, spawnServer, waitFor, type ScratchDb, type ServerProcess } from '../helpers/system';
+
+export interface ChaosOptions {
+  /** Signed-in members sending the mixed load. */
+  members: number;
+  /** How long the load runs before SIGTERM. */
+  durationMs: number;
+  /** How long MariaDB stays frozen (SIGSTOP … SIGCONT). */
+  freezeMs: number;
+  /** How long MariaDB stays dead after SIGKILL before it is started again. */
+  deadMs: number;
+  /** Uploads cut off mid-stream, spread over the run. */
+  abortedUploads: number;
+  /** Moments when every member submits a part at once. */
+  bursts: number;
+  /** /api/health must answer within this (503 counts as an answer). */
+  healthLimitMs: number;
+  /** The server's SHUTDOWN_TIMEOUT_S. */
+  shutdownTimeoutS: number;
+  log?: (line: string) => void;
+}
+
+export const LONG_FORM: ChaosOptions = {
+  members: 25,
+  durationMs: 90_000,
+  freezeMs: 20_000,
+  deadMs: 5_000,
+  abortedUploads: 40,
+  bursts: 3,
+  healthLimitMs: 1000,
+  shutdownTimeoutS: 10,
+};
+
+// Sized for the CI budget on a shared 2-core machine: the same faults, shorter and with fewer members.
+// The health bound is looser than the long form's 1 s because other test files share the CPU; it
+// still proves that health never waits for a frozen database (the freeze lasts longer than the bound).
+export const SHORT_FORM: ChaosOptions = {
+  members: 6,
+  durationMs: 30_000,
+  freezeMs: 6_000,
+  deadMs: 2_000,
+  abortedUploads: 8,
+  bursts: 2,
+  healthLimitMs: 3000,
+  shutdownTimeoutS: 5,
+};
+
+type Route = 'search' | 'part' | 'download' | 'submit' | 'rate' | 'health' | 'aborted-upload' | 'burst-submit';
+
+interface Sample {
+  route: Route;
+  status: number; // 0: no answer (network error or client timeout)
+  ms: number;
+  at: number;
+  body?: string;
+}
+
+export interface ChaosSummary {
+  options: ChaosOptions;
+  requests: number;
+  byRoute: Record<string, { count: number; statuses: Record<string, number> }>;
+  unexpectedExit: string | null;
+  server500: number;
+  server500OutsideFaults: number;
+  deadlock500: number;
+  deadlockLogLines: number;
+  submissionsAcknowledged: number;
+  submissionsMissing: string[];
+  submissionsDuplicated: string[];
+  ratingsAcknowledged: number;
+  ratingProblems: string[];
+  dbOrphans: Record<string, number>;
+  diskOrphans: string[];
+  health: { probes: number; maxMs: number; over1s: number; overLimit: number; unanswered: number; during: Record<string, number> };
+  faults: { name: string; from: number; to: number }[];
+  shutdown: { signalledAt: number; exitedAfterMs: number | null; code: number | null; signal: string | null; stoppedLine: boolean };
+  abortedSent: number;
+  durationMs: number;
+}
+
+const SEARCH_WORDS = ['bracket', 'rod', 'plate', 'clamp', 'monitor', 'cheese', '15mm', 'arri', 'cage', 'handle'];
+
+function pick<T>(items: T[]): T {
+  return items[Math.floor(Math.random() * items.length)];
+}
+
+const submissionData = loadSubmission;
+
+export async function runChaos(options: ChaosOptions): Promise<ChaosSummary> {
+  const log = options.log ?? ((line: string) => console.log(`chaos: ${line}`));
+  const runId = Date.now().toString(36);
+  const samples: Sample[] = [];
+  const faults: ChaosSummary['faults'] = [];
+  const submissions: { title: string; status: number; at: number }[] = [];
+  const ratings: { member: string; partId: number; stars: number; status: number; at: number }[] = [];
+  const started = Date.now();
+  let db: ScratchDb | null = null;
+  let server: ServerProcess | null = null;
+  let signalledAt = 0;
+  let stopLoad = false;
+
+  try {
+    log('starting a private MariaDB and the server');
+    db = await scratchDb('chaos');
+    server = await spawnServer(db.env, { SHUTDOWN_TIMEOUT_S: String(options.shutdownTimeoutS), DB_WAIT_S: '60' }, 'chaos');
+    const srv = server;
+    const password = 'chaos load password 1';
+    const emails = await addMembers(db.db, `chaos-${runId}`, options.members, password);
+    const members: { email: string; client: Member }[] = [];
+    for (const email of emails) {
+      const client = new Member(srv.url);
+      await client.signIn(email, password);
+      members.push({ email, client });
+    }
+    const stl = boxStl(40, 30, 6);
+    const png = await plainPng(48, 32);
+    const { ids: partIds, downloads } = await publishedParts(db.db, srv.url, 5, stl);
+    log(`${members.length} members signed in; ${partIds.length} published parts; load for ${options.durationMs / 1000} s`);
+
+    async function timed(route: Route, run: () => Promise<Response>): Promise<Sample> {
+      const at = Date.now();
+      try {
+        const res = await run();
+        const body = await res.text();
+        const sample: Sample = { route, status: res.status, ms: Date.now() - at, at, body: res.status >= 500 ? body.slice(0, 300) : undefined };
+        samples.push(sample);
+        return sample;
+      } catch {
+        const sample: Sample = { route, status: 0, ms: Date.now() - at, at };
+        samples.push(sample);
+        return sample;
+      }
+    }
+
+    let counter = 0;
+    async function submit(client: Member, route: Route) {
+      counter += 1;
+      const title = `Chaos plate ${runId} ${counter}`;
+      const form = new FormData();
+      form.append('data', JSON.stringify(submissionData(title)));
+      form.append('model', new Blob([new Uint8Array(stl)]), 'plate.stl');
+      if (counter % 3 === 0) form.append('photo', new Blob([new Uint8Array(png)], { type: 'image/png' }), 'plate.png');
+      const s = await timed(route, () => client.request('POST', '/api/parts', form));
+      submissions.push({ title, status: s.status, at: s.at });
+    }
+
+    async function member(m: { email: string; client: Member }) {
+      while (!stopLoad) {
+        const roll = Math.random();
+        const c = m.client;
+        if (roll < 0.3) await timed('search', () => c.request('GET', `/api/search?q=${encodeURIComponent(pick(SEARCH_WORDS))}`));
+        else if (roll < 0.55) await timed('part', () => c.request('GET', `/api/parts/${pick(partIds)}`));
+        else if (roll < 0.7) await timed('download', () => c.request('GET', pick(downloads)));
+        else if (roll < 0.85) await submit(c, 'submit');
+        else {
+          const partId = pick(partIds);
+          const stars = 1 + Math.floor(Math.random() * 5);
+          const s = await timed('rate', () => c.request('POST', `/api/parts/${partId}/ratings`, { stars }));
+          ratings.push({ member: m.email, partId, stars, status: s.status, at: s.at });
+        }
+        await sleep(50 + Math.random() * 100);
+      }
+    }
+
+    async function healthProbe() {
+      while (!stopLoad && !signalledAt) {
+        await timed('health', () => fetch(`${srv.url}/api/health`, { signal: AbortSignal.timeout(30_000) }));
+        await sleep(250);
+      }
+    }
+
+    // A client that loses its connection half-way through a multipart upload.
+    function abortedUpload(client: Member): Promise<void> {
+      return new Promise((done) => {
+        const at = Date.now();
+        const boundary = `----chaos${Math.random().toString(16).slice(2)}`;
+        const head = Buffer.from(
+          `--${boundary}\r\nContent-Disposition: form-data; name="data"\r\n\r\n${JSON.stringify(submissionData(`Chaos aborted ${runId}`))}\r\n` +
+            `--${boundary}\r\nContent-Disposition: form-data; name="model"; filename="cut.stl"\r\nContent-Type: application/octet-stream\r\n\r\n`,
+        );
+        const req = httpRequest(`${srv.url}/api/parts`, {
+          method: 'POST',
+          agent: false,
+          headers: {
+            cookie: client.cookie,
+            'x-csrf-token': client.token,
+            'content-type': `multipart/form-data; boundary=${boundary}`,
+            'content-length': String(head.length + 4_000_000),
+          },
+        });
+        const finish = (status: number) => {
+          samples.push({ route: 'aborted-upload', status, ms: Date.now() - at, at });
+          done();
+        };
+        req.on('response', (res) => {
+          res.resume();
+          finish(res.statusCode ?? 0);
+        });
+        req.on('error', () => finish(-1));
+        req.write(head);
+        req.write(stl);
+        req.write(Buffer.alloc(200_000, 7));
+        setTimeout(() => req.destroy(), 80 + Math.random() * 150);
+      });
+    }
+
+    async function fault(name: string, run: () => Promise<void>) {
+      const from = Date.now();
+      log(`fault: ${name}`);
+      await run();
+      faults.push({ name, from, to: Date.now() });
+    }
+
+    const t0 = Date.now();
+    const at = (fraction: number) => sleep(Math.max(0, t0 + options.durationMs * fraction - Date.now()));
+    const load = members.map((m) => member(m));
+    const health = healthProbe();
+    const aborts = (async () => {
+      for (let i = 0; i < options.abortedUploads && !stopLoad; i++) {
+        await abortedUpload(pick(members).client);
+        await sleep(options.durationMs / (options.abortedUploads + 1));
+      }
+    })();
+    const script = (async () => {
+      for (let b = 0; b < options.bursts; b++) {
+        await at(0.1 + (0.8 * b) / Math.max(1, options.bursts));
+        if (stopLoad) return;
+        log(`burst: ${members.length} submissions at once`);
+        await Promise.all(members.map((m) => submit(m.client, 'burst-submit')));
+      }
+    })();
+    const dbFaults = (async () => {
+      await at(0.25);
+      if (stopLoad) return;
+      const pid = db!.db.pid();
+      if (!pid) throw new Error('no MariaDB pid');
+      await fault(`MariaDB frozen (SIGSTOP) for ${options.freezeMs / 1000} s`, async () => {
+        process.kill(pid, 'SIGSTOP');
+        await sleep(options.freezeMs);
+        process.kill(pid, 'SIGCONT');
+      });
+      await at(0.55);
+      if (stopLoad) return;
+      await fault(`MariaDB killed (SIGKILL), restarted after ${options.deadMs / 1000} s`, async () => {
+        process.kill(db!.db.pid()!, 'SIGKILL');
+        await waitFor(() => db!.db.pid() === null, 10_000);
+        await sleep(options.deadMs);
+        await db!.db.start();
+      });
+    })();
+    // a server that dies ends the run early: nothing after that would tell more
+    void srv.exited.then(() => {
+      if (!signalledAt) stopLoad = true;
+    });
+    const watchdog = Promise.race([srv.exited, at(1)]);
+    await Promise.all([dbFaults, script, watchdog]);
+
+    let unexpectedExit: string | null = null;
+    if (srv.exit) {
+      const last = srv.lines.filter((l) => l.stream === 'err').slice(-3).map((l) => l.text.trim()).join(' | ');
+      unexpectedExit = `the server exited during the run after ${((srv.exit.at - t0) / 1000).toFixed(1)} s (code ${srv.exit.code}, signal ${srv.exit.signal}): ${last}`;
+    }
+    else {
+      signalledAt = Date.now();
+      log('SIGTERM to the server while the load goes on');
+      srv.child.kill('SIGTERM');
+      await Promise.race([srv.exited, sleep((options.shutdownTimeoutS + 20) * 1000)]);
+    }
+    stopLoad = true;
+    await Promise.all([...load, health, aborts]);
+    if (!srv.exit) {
+      srv.child.kill('SIGKILL');
+      await srv.exited;
+    }
+    log('load stopped; checking the shelf');
+
+    // ---- checks, against the database and the uploads folder the server left behind
+    const sql = async (q: string) =>
+      (await db!.db.sql(q))
+        .split('\n')
+        .filter(Boolean)
+        .map((line) => line.split('\t'));
+
+    const revisionTitles = new Map<string, number>();
+    for (const [title, n] of await sql(`SELECT title, COUNT(*) FROM rigshelf.part_revisions WHERE title LIKE 'Chaos plate ${runId} %' GROUP BY title`)) {
+      revisionTitles.set(title, Number(n));
+    }
+    const acked = submissions.filter((s) => s.status === 201);
+    const submissionsMissing = acked.filter((s) => !revisionTitles.has(s.title)).map((s) => s.title);
+    const submissionsDuplicated = [...revisionTitles].filter(([, n]) => n > 1).map(([t]) => t);
+
+    const userIds = new Map<string, string>();
+    for (const [id, email] of await sql(`SELECT id, email FROM rigshelf.users WHERE email LIKE 'chaos-${runId}-%'`)) userIds.set(email, id);
+    const stored = new Map<string, { stars: number; rows: number }>();
+    for (const [userId, partId, stars, rows] of await sql(
+      `SELECT user_id, part_id, MAX(stars), COUNT(*) FROM rigshelf.ratings WHERE user_id IN (${[...userIds.values()].join(',') || 0}) GROUP BY user_id, part_id`,
+    )) {
+      stored.set(`${userId}:${partId}`, { stars: Number(stars), rows: Number(rows) });
+    }
+    const ratingProblems: string[] = [];
+    const byPair = new Map<string, typeof ratings>();
+    for (const r of ratings) {
+      const key = `${userIds.get(r.member)}:${r.partId}`;
+      byPair.set(key, [...(byPair.get(key) ?? []), r]);
+    }
+    for (const [key, attempts] of byPair) {
+      const lastAck = attempts.map((a, i) => ({ a, i })).filter(({ a }) => a.status === 200 || a.status === 201).pop();
+      if (!lastAck) continue;
+      const row = stored.get(key);
+      if (!row) {
+        ratingProblems.push(`${key}: acknowledged rating missing`);
+        continue;
+      }
+      if (row.rows !== 1) ratingProblems.push(`${key}: ${row.rows} rows`);
+      // a later attempt with no clear answer may or may not have landed
+      const possible = new Set([lastAck.a.stars, ...attempts.slice(lastAck.i + 1).filter((a) => a.status === 0 || a.status >= 500).map((a) => a.stars)]);
+      if (!possible.has(row.stars)) ratingProblems.push(`${key}: ${row.stars} stars stored, last acknowledged ${lastAck.a.stars}`);
+    }
+
+    const count = async (q: string) => Number((await sql(q))[0]?.[0] ?? 0);
+    const dbOrphans = {
+      partsWithoutRevision: await count(
+        'SELECT COUNT(*) FROM rigshelf.parts p WHERE NOT EXISTS (SELECT 1 FROM rigshelf.part_revisions r WHERE r.part_id = p.id)',
+      ),
+      partsWithoutLatestRevision: await count('SELECT COUNT(*) FROM rigshelf.parts WHERE latest_revision_id IS NULL'),
+      filesOnNoRevision: await count(
+        'SELECT COUNT(*) FROM rigshelf.part_files f WHERE NOT EXISTS (SELECT 1 FROM rigshelf.revision_files rf WHERE rf.file_id = f.id)',
+      ),
+      revisionsWithoutModel: await count(
+        "SELECT COUNT(*) FROM rigshelf.part_revisions r WHERE NOT EXISTS (SELECT 1 FROM rigshelf.revision_files rf JOIN rigshelf.part_files f ON f.id = rf.file_id WHERE rf.revision_id = r.id AND f.kind = 'model')",
+      ),
+      revisionsWithoutRecipe: await count(
+        'SELECT COUNT(*) FROM rigshelf.part_revisions r WHERE NOT EXISTS (SELECT 1 FROM rigshelf.recipes c WHERE c.revision_id = r.id)',
+      ),
+    };
+
+    const files = await sql('SELECT kind, stored_name, processing FROM rigshelf.part_files');
+    const reportPhotos = await sql('SELECT stored_name, processing FROM rigshelf.report_photos');
+    const list = (dir: string) => (existsSync(join(srv.uploadsDir, dir)) ? readdirSync(join(srv.uploadsDir, dir)) : []);
+    const store = new Set(list('store'));
+    const incoming = new Set(list('incoming'));
+    const diskOrphans: string[] = list('tmp').map((n) => `tmp/${n} (an upload nobody finished)`);
+    const expectedStore = new Set<string>();
+    const expectedIncoming = new Set<string>();
+    const expectPhoto = (name: string, processing: string) => {
+      if (processing === 'ready') {
+        expectedStore.add(`${name}-display.jpg`);
+        expectedStore.add(`${name}-thumb.jpg`);
+      } else if (processing === 'pending') expectedIncoming.add(name);
+    };
+    for (const [kind, name, processing] of files) {
+      if (kind === 'photo') expectPhoto(name, processing);
+      else expectedStore.add(name);
+    }
+    for (const [name, processing] of reportPhotos) expectPhoto(name, processing);
+    for (const n of store) if (!expectedStore.has(n)) diskOrphans.push(`store/${n} (no row)`);
+    for (const n of incoming) if (!expectedIncoming.has(n)) diskOrphans.push(`incoming/${n} (no pending row)`);
+    for (const n of expectedStore) if (!store.has(n)) diskOrphans.push(`store/${n} (row without its file)`);
+    for (const n of expectedIncoming) if (!incoming.has(n)) diskOrphans.push(`incoming/${n} (pending row without its file)`);
+
+    // ---- figures
+    const inFault = (t: number) => faults.some((f) => t >= f.from - 500 && t <= f.to + 5000);
+    const loadSamples = samples.filter((s) => s.route !== 'health');
+    const s500 = loadSamples.filter((s) => s.status === 500);
+    const deadlockPattern = /deadlock|ER_LOCK_DEADLOCK|lock wait timeout|ER_LOCK_WAIT_TIMEOUT/i;
+    const healthSamples = samples.filter((s) => s.route === 'health' && (!signalledAt || s.at < signalledAt));
+    const during: Record<string, number> = {};
+    for (const f of faults) {
+      const inside = healthSamples.filter((s) => s.at <= f.to && s.at + s.ms >= f.from);
+      during[f.name] = inside.reduce((m, s) => Math.max(m, s.ms), 0);
+    }
+    const byRoute: ChaosSummary['byRoute'] = {};
+    for (const s of samples) {
+      const entry = (byRoute[s.route] ??= { count: 0, statuses: {} });
+      entry.count += 1;
+      const key = s.status === 0 ? 'no answer' : s.status === -1 ? 'cut off' : String(s.status);
+      entry.statuses[key] = (entry.statuses[key] ?? 0) + 1;
+    }
+    const exit = srv.exit as ServerProcess['exit'];
+    return {
+      options,
+      requests: samples.length,
+      byRoute,
+      unexpectedExit,
+      server500: s500.length,
+      server500OutsideFaults: s500.filter((s) => !inFault(s.at)).length,
+      deadlock500: s500.filter((s) => deadlockPattern.test(s.body ?? '')).length,
+      deadlockLogLines: srv.lines.filter((l) => l.stream === 'err' && /Deadlock found|ER_LOCK_DEADLOCK/.test(l.text)).length,
+      submissionsAcknowledged: acked.length,
+      submissionsMissing,
+      submissionsDuplicated,
+      ratingsAcknowledged: ratings.filter((r) => r.status === 200 || r.status === 201).length,
+      ratingProblems,
+      dbOrphans,
+      diskOrphans,
+      health: {
+        probes: healthSamples.length,
+        maxMs: healthSamples.reduce((m, s) => Math.max(m, s.ms), 0),
+        over1s: healthSamples.filter((s) => s.ms > 1000 || s.status === 0).length,
+        overLimit: healthSamples.filter((s) => s.ms > options.healthLimitMs || s.status === 0).length,
+        unanswered: healthSamples.filter((s) => s.status === 0).length,
+        during,
+      },
+      faults: faults.map((f) => ({ name: f.name, from: f.from - started, to: f.to - started })),
+      shutdown: {
+        signalledAt: signalledAt ? signalledAt - started : 0,
+        exitedAfterMs: signalledAt && exit ? exit.at - signalledAt : null,
+        code: exit?.code ?? null,
+        signal: exit?.signal ?? null,
+        stoppedLine: srv.lines.some((l) => l.text.startsWith('rigshelf: stopped in')),
+      },
+      abortedSent: samples.filter((s) => s.route === 'aborted-upload').length,
+      durationMs: Date.now() - started,
+    };
+  } finally {
+    stopLoad = true;
+    await server?.dispose();
+    await db?.dispose();
+  }
+}
+
+/** What went wrong, one sentence each; empty when the run held. */
+export function verdict(s: ChaosSummary): string[] {
+  const problems: string[] = [];
+  if (s.unexpectedExit) problems.push(s.unexpectedExit);
+  if (s.deadlock500 || s.deadlockLogLines) problems.push(`${s.deadlock500} answer(s) 500 from deadlocks (${s.deadlockLogLines} deadlock log line(s))`);
+  if (s.server500OutsideFaults) problems.push(`${s.server500OutsideFaults} answer(s) 500 while the database was up`);
+  if (s.submissionsMissing.length) problems.push(`${s.submissionsMissing.length} acknowledged submission(s) missing`);
+  if (s.submissionsDuplicated.length) problems.push(`${s.submissionsDuplicated.length} submission(s) stored more than once`);
+  if (s.ratingProblems.length) problems.push(`ratings: ${s.ratingProblems.slice(0, 5).join('; ')}`);
+  for (const [name, n] of Object.entries(s.dbOrphans)) if (n) problems.push(`database: ${n} × ${name}`);
+  if (s.diskOrphans.length) problems.push(`uploads folder: ${s.diskOrphans.length} orphan(s), e.g. ${s.diskOrphans.slice(0, 3).join(', ')}`);
+  if (s.health.overLimit) problems.push(`/api/health took longer than ${s.options.healthLimitMs} ms (or did not answer) ${s.health.overLimit} time(s), worst ${s.health.maxMs} ms`);
+  if (!s.unexpectedExit) {
+    const limit = s.options.shutdownTimeoutS * 1000;
+    if (s.shutdown.exitedAfterMs === null) problems.push('the server did not exit after SIGTERM');
+    else if (s.shutdown.code !== 0 || !s.shutdown.stoppedLine)
+      problems.push(`shutdown did not complete cleanly (exit code ${s.shutdown.code}, signal ${s.shutdown.signal}, after ${s.shutdown.exitedAfterMs} ms)`);
+    // a process that ran into its own deadline exits with code 1, caught above; this is the wall clock
+    else if (s.shutdown.exitedAfterMs > limit + 2000) problems.push(`shutdown took ${s.shutdown.exitedAfterMs} ms (deadline ${limit} ms)`);
+  }
+  return problems;
+}
+
+export function formatSummary(s: ChaosSummary): string {
+  const lines = [
+    `chaos run: ${s.options.members} members, ${s.options.durationMs / 1000} s of load, ${(s.durationMs / 1000).toFixed(0)} s in all`,
+    `  requests: ${s.requests}`,
+  ];
+  for (const [route, r] of Object.entries(s.byRoute)) {
+    lines.push(`    ${route.padEnd(15)} ${String(r.count).padStart(5)}  ${Object.entries(r.statuses).map(([k, v]) => `${k}×${v}`).join(' ')}`);
+  }
+  lines.push(
+    `  faults: ${s.faults.map((f) => `${f.name} [${(f.from / 1000).toFixed(1)}–${(f.to / 1000).toFixed(1)} s]`).join('; ')}`,
+    `  aborted uploads sent: ${s.abortedSent}; server exited unexpectedly: ${s.unexpectedExit ?? 'no'}`,
+    `  500 answers: ${s.server500} (${s.server500OutsideFaults} while the database was up, ${s.deadlock500} naming a deadlock; ${s.deadlockLogLines} deadlock log lines)`,
+    `  acknowledged submissions: ${s.submissionsAcknowledged} (missing ${s.submissionsMissing.length}, stored twice ${s.submissionsDuplicated.length})`,
+    `  acknowledged ratings: ${s.ratingsAcknowledged} (problems ${s.ratingProblems.length})`,
+    `  database orphans: ${Object.entries(s.dbOrphans).map(([k, v]) => `${k}=${v}`).join(', ')}`,
+    `  uploads-folder orphans: ${s.diskOrphans.length}${s.diskOrphans.length ? ` (${s.diskOrphans.slice(0, 3).join(', ')})` : ''}`,
+    `  /api/health: ${s.health.probes} probes, worst ${s.health.maxMs} ms, ${s.health.over1s} over 1 s, ${s.health.unanswered} unanswered; worst during faults: ${Object.entries(s.health.during).map(([k, v]) => `${k.split(' (')[0]} ${v} ms`).join(', ')}`,
+    `  shutdown: SIGTERM at ${(s.shutdown.signalledAt / 1000).toFixed(1)} s, exited after ${s.shutdown.exitedAfterMs ?? '—'} ms with code ${s.shutdown.code} (deadline ${s.options.shutdownTimeoutS} s)`,
+  );
+  return lines.join('\n');
+}
