@@ -37,7 +37,8 @@ export function localInstance(kind: InstanceKind) {
   const port = Number(process.env.DB_PORT ?? defaultPort);
   // another port gets its own data directory, so two instances can run side by side
   const dirName = `${kind === 'app' ? 'mariadb' : 'mariadb-test'}${port === defaultPort ? '' : `-${port}`}`;
-  const db = new PrivateMariaDb({ dir: resolve(varDir, dirName), port });
+  // RIGSHELF_DB_DIR puts the data directory elsewhere (the process tests use a temporary one)
+  const db = new PrivateMariaDb({ dir: process.env.RIGSHELF_DB_DIR ? resolve(process.env.RIGSHELF_DB_DIR) : resolve(varDir, dirName), port });
   const env: Record<string, string> = {
     DB_HOST: '127.0.0.1',
     DB_PORT: String(port),
