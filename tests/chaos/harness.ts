@@ -266,7 +266,8 @@ export async function runChaos(options: ChaosOptions): Promise<ChaosSummary> {
 
     let unexpectedExit: string | null = null;
     if (srv.exit) {
-      const last = srv.lines.filter((l) => l.stream === 'err').slice(-3).map((l) => l.text.trim()).join(' | ');
+      const errLines = srv.lines.filter((l) => l.stream === 'err' && l.text.trim()).map((l) => l.text.trim());
+      const last = errLines.filter((t) => /Error\b|^rigshelf:/.test(t)).pop() ?? errLines.slice(-3).join(' | ');
       unexpectedExit = `the server exited during the run after ${((srv.exit.at - t0) / 1000).toFixed(1)} s (code ${srv.exit.code}, signal ${srv.exit.signal}): ${last}`;
     }
     else {
@@ -468,7 +469,9 @@ export function formatSummary(s: ChaosSummary): string {
     `  database orphans: ${Object.entries(s.dbOrphans).map(([k, v]) => `${k}=${v}`).join(', ')}`,
     `  uploads-folder orphans: ${s.diskOrphans.length}${s.diskOrphans.length ? ` (${s.diskOrphans.slice(0, 3).join(', ')})` : ''}`,
     `  /api/health: ${s.health.probes} probes, worst ${s.health.maxMs} ms, ${s.health.over1s} over 1 s, ${s.health.unanswered} unanswered; worst during faults: ${Object.entries(s.health.during).map(([k, v]) => `${k.split(' (')[0]} ${v} ms`).join(', ')}`,
-    `  shutdown: SIGTERM at ${(s.shutdown.signalledAt / 1000).toFixed(1)} s, exited after ${s.shutdown.exitedAfterMs ?? '—'} ms with code ${s.shutdown.code} (deadline ${s.options.shutdownTimeoutS} s)`,
+    s.shutdown.signalledAt
+      ? `  shutdown: SIGTERM at ${(s.shutdown.signalledAt / 1000).toFixed(1)} s, exited after ${s.shutdown.exitedAfterMs ?? '—'} ms with code ${s.shutdown.code} (deadline ${s.options.shutdownTimeoutS} s)`
+      : '  shutdown: SIGTERM not sent (the server had already exited)',
   );
   return lines.join('\n');
 }
