@@ -76,6 +76,33 @@ describe('npm start', () => {
   });
 });
 
+describe('npm test', () => {
+  it('npm test · Ctrl-C while vitest runs · its private MariaDB stops and the port closes', async () => {
+    const dbPort = await freePort();
+    const dbDir = join(scratch, 'npm-test-db');
+    const env: NodeJS.ProcessEnv = {};
+    // the inner run must not think it is a worker of this one
+    for (const [k, v] of Object.entries(process.env)) if (!k.startsWith('VITEST') && k !== 'TEST') env[k] = v;
+    Object.assign(env, { DB_PORT: String(dbPort), RIGSHELF_DB_DIR: dbDir });
+    // its own process group, like a terminal's foreground job: Ctrl-C sends SIGINT to the whole group
+    const child = spawn('npm', ['test', '--', 'tests/api/health.test.ts'], { cwd: ROOT, env, detached: true, stdio: ['ignore', 'pipe', 'pipe'] });
+    let output = '';
+    child.stdout.on('data', (d) => (output += d));
+    child.stderr.on('data', (d) => (output += d));
+    const exited = new Promise<void>((done) => child.once('exit', () => done()));
+    try {
+      expect(await waitFor(() => output.includes('RUN'), 120_000, 100), output).toBe(true);
+      const mariadb = Number(readFileSync(join(dbDir, 'mariadb.pid'), 'utf8').trim());
+      process.kill(-child.pid!, 'SIGINT');
+      await Promise.race([exited, sleep(60_000)]);
+      expect(await waitFor(async () => !processAlive(mariadb) && !(await portOpen(dbPort)), 30_000, 250), output).toBe(true);
+      expect(output).toContain(`MariaDB on port ${dbPort} shut down`);
+    } finally {
+      if (child.exitCode === null && child.signalCode === null) process.kill(-child.pid!, 'SIGKILL');
+    }
+  });
+});
+
 describe('server start-up', () => {
   it('server started directly · MariaDB not running · waits with a message, then gives up with one line and no stack', async () => {
     const dbPort = await freePort();
