@@ -94,6 +94,8 @@ async function main() {
       members.push(m);
     }
     let n = 0;
+    // answers other than 2xx, by route, status and error code (the body's code, never its details)
+    const failures = new Map<string, number>();
     const smallBlob = new Blob([new Uint8Array(small)]);
 
     async function one(m: Member): Promise<Sample> {
@@ -121,7 +123,12 @@ async function main() {
           route = 'rating';
           res = await m.request('POST', `/api/parts/${pick(ids)}/ratings`, { stars: 1 + Math.floor(Math.random() * 5) });
         }
-        await res.arrayBuffer();
+        const text = await res.text();
+        if (res.status >= 400) {
+          const code = /"code":"([^"]+)"/.exec(text)?.[1] ?? 'no code';
+          const key = `${route} ${res.status} ${code}`;
+          failures.set(key, (failures.get(key) ?? 0) + 1);
+        }
         return { route, ms: performance.now() - started, status: res.status };
       } catch {
         return { route: route!, ms: performance.now() - started, status: 0 };
@@ -222,6 +229,10 @@ async function main() {
       console.log(`  ${parallel} at once: lag p99 ${lag.p99} ms, max ${lag.max} ms; slowest /api/health ${healthMax.toFixed(0)} ms; answers ${statuses}`);
     }
 
+    if (failures.size) {
+      console.log('\nanswers other than 2xx (route, status, error code: count):');
+      for (const [key, count] of [...failures].sort((a, b) => b[1] - a[1])) console.log(`  ${key}: ${count}`);
+    }
     console.log(`\ntargets (load average now ${load()}):`);
     const at25 = results.find((r) => r.count === 25);
     if (at25) console.log(`  p95 at 25 members: ${at25.p95.toFixed(0)} ms (target ≤ 300 ms) ${at25.p95 <= 300 ? 'met' : 'NOT met'}`);
