@@ -152,7 +152,7 @@ export function createApp({ config, sequelize, mailer }: AppContext) {
   }
 
   app.use(multerErrors);
-  app.use(errorHandler({ isProduction: config.isProduction }));
+  app.use(errorHandler());
 
   return {
     app,
