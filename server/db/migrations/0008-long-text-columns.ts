@@ -1,6 +1,7 @@
-// Text that the server derives from what people write can outgrow a TEXT column (64 KiB): a
-// 20,000-character description in 4-byte characters, or the HTML of one full of '<' (each becomes
-// '&lt;'); audit details may carry the before and after of such fields. MEDIUMTEXT holds 16 MiB.
+// Text that the server derives from what people write can outgrow a TEXT column (64 KiB): the HTML
+// of a 20,000-character description full of '<' (each becomes '&lt;'), and audit details that carry
+// the before and after of such fields. The Markdown source goes along: 20,000 three-byte characters
+// already take 60,000 of TEXT's 65,535 bytes. MEDIUMTEXT holds 16 MiB.
 import { DataTypes } from 'sequelize';
 import type { MigrationFn } from '../migrator';
 
