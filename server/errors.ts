@@ -56,8 +56,11 @@ export function errorRef(): string {
   return randomBytes(4).toString('hex');
 }
 
-/** Answers every error; internals (SQL, stacks) stay in the log in every mode, never in the answer. */
-export function errorHandler(): ErrorRequestHandler {
+/**
+ * Answers every error; internals (SQL, stacks) stay in the log in every mode, never in the answer.
+ * `onDatabaseUnavailable` hears of each request that failed because the database did not answer.
+ */
+export function errorHandler(options: { onDatabaseUnavailable?: () => void } = {}): ErrorRequestHandler {
   return (err: unknown, req, res, next) => {
     if (res.headersSent) return next(err);
     const body = (status: number, code: string, message: string, fields?: Record<string, string>) => {
@@ -71,6 +74,7 @@ export function errorHandler(): ErrorRequestHandler {
       return body(e.status, e.code, e.message, e.fields);
     }
     if (err instanceof ConnectionError || isDatabaseUnavailable(err)) {
+      options.onDatabaseUnavailable?.();
       return body(503, 'database_unavailable', 'The database is not reachable right now. Try again in a moment.');
     }
     if (isRetriableTransactionError(err)) {

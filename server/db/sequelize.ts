@@ -17,8 +17,8 @@ export function createSequelize(config: Config): Sequelize {
       ...(config.DB_QUERY_TIMEOUT_MS > 0 && { queryTimeout: config.DB_QUERY_TIMEOUT_MS, socketTimeout: config.DB_QUERY_TIMEOUT_MS + 1000 }),
     },
     timezone: '+00:00',
-    // idle connections are closed before socketTimeout would end them in the pool
-    pool: { max: config.DB_POOL_MAX, min: 0, acquire: 5000, idle: Math.min(10_000, Math.max(1000, config.DB_QUERY_TIMEOUT_MS)) },
+    // idle connections leave the pool well before socketTimeout would end them there
+    pool: { max: config.DB_POOL_MAX, min: 0, acquire: 5000, idle: config.DB_QUERY_TIMEOUT_MS > 0 ? Math.min(10_000, Math.max(1000, config.DB_QUERY_TIMEOUT_MS / 2)) : 10_000 },
     define: { underscored: true },
   });
   initModels(sequelize);

@@ -6,12 +6,13 @@ import type { AddressInfo } from 'node:net';
 import { join } from 'node:path';
 import express from 'express';
 import request from 'supertest';
-import { DatabaseError, Op } from 'sequelize';
+import { DatabaseError, Op, type Sequelize } from 'sequelize';
 import { afterAll, beforeAll, describe, expect, it, vi } from 'vitest';
 import { AuditEvent, initModels, MailMessage, Part, PartFile, PartRevision, Rating, Recipe, RevisionBody } from '../../server/db/models';
 import { createSequelize } from '../../server/db/sequelize';
 import { errorHandler } from '../../server/errors';
 import { databaseAnswers, healthRoutes } from '../../server/modules/health/routes';
+import { createDatabaseWatch } from '../../server/modules/health/watch';
 import { agentFor, createTestApp, makeUser, testConfig, uploadsDir, type TestApp } from '../helpers/app';
 import { boxStl } from '../helpers/meshes';
 import { plainPng } from '../helpers/photos';
@@ -298,18 +299,59 @@ describe('database that accepts connections but never answers', () => {
     await sequelize.close().catch(() => undefined);
   });
 
-  it('a request · 503 database_unavailable once the socket timeout gives up, not a hang or a 500', async () => {
+  it('a request · 503 database_unavailable once the socket timeout gives up; the next ones wait for a probe only', async () => {
     const sequelize = silentSequelize({ DB_QUERY_TIMEOUT_MS: '300' });
+    const watch = createDatabaseWatch(sequelize, 200);
     const log = vi.spyOn(console, 'error').mockImplementation(() => undefined);
+    let handled = 0;
     const app = express();
+    app.use('/api', watch.gate());
     app.get('/api/thing', async (_req, res) => {
+      handled += 1;
       res.json(await sequelize.query('SELECT 1'));
     });
-    app.use(errorHandler());
-    const res = await request(app).get('/api/thing');
+    app.use(errorHandler({ onDatabaseUnavailable: watch.reportUnavailable }));
+    const first = await request(app).get('/api/thing');
+    const second = await request(app).get('/api/thing');
     log.mockRestore();
-    expect(res.status).toBe(503);
-    expect(res.body.error.code).toBe('database_unavailable');
+    expect(first.status).toBe(503);
+    expect(first.body.error.code).toBe('database_unavailable');
+    expect(second.status).toBe(503);
+    expect(second.body.error.code).toBe('database_unavailable');
+    expect(handled).toBe(1); // the second never reached the database's pool timeouts
     await sequelize.close().catch(() => undefined);
+  });
+});
+
+describe('database watch · the gate in front of /api', () => {
+  it('after a failure, requests share one probe: 503 while the database is silent, through once it answers', async () => {
+    let answering = false;
+    const query = vi.fn(() => (answering ? Promise.resolve([]) : new Promise<never>(() => undefined)));
+    const watch = createDatabaseWatch({ query } as unknown as Sequelize, 100);
+    let handled = 0;
+    const app = express();
+    app.use('/api', watch.gate());
+    app.get('/api/x', (_req, res) => {
+      handled += 1;
+      res.json({ ok: true });
+    });
+    app.use(errorHandler());
+
+    await request(app).get('/api/x').expect(200);
+    expect(query).not.toHaveBeenCalled(); // no probing while all is well
+
+    watch.reportUnavailable();
+    const refused = await Promise.all([1, 2, 3].map(() => request(app).get('/api/x')));
+    expect(refused.map((r) => [r.status, r.body.error.code])).toEqual(Array(3).fill([503, 'database_unavailable']));
+    expect(handled).toBe(1);
+    // callers asking at once share one probe
+    query.mockClear();
+    expect(await Promise.all([watch.check(), watch.check(), watch.check()])).toEqual([false, false, false]);
+    expect(query).toHaveBeenCalledTimes(1);
+
+    answering = true;
+    await request(app).get('/api/x').expect(200);
+    expect(handled).toBe(2);
+    expect(watch.down).toBe(false);
   });
 });

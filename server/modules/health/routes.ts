@@ -22,10 +22,12 @@ export async function databaseAnswers(sequelize: Sequelize, timeoutMs = HEALTH_T
   }
 }
 
-export function healthRoutes(sequelize: Sequelize, options: { timeoutMs?: number } = {}) {
+/** `check` defaults to a plain probe; the app passes its DatabaseWatch's, so the answer is remembered. */
+export function healthRoutes(sequelize: Sequelize, options: { timeoutMs?: number; check?: () => Promise<boolean> } = {}) {
   const router = Router();
+  const check = options.check ?? (() => databaseAnswers(sequelize, options.timeoutMs));
   router.get('/', async (_req, res) => {
-    const up = await databaseAnswers(sequelize, options.timeoutMs);
+    const up = await check();
     const body: HealthStatus = up ? { status: 'ok', db: 'up' } : { status: 'degraded', db: 'down' };
     res.status(up ? 200 : 503).json(body);
   });
