@@ -10,7 +10,8 @@ import { DatabaseError, Op, type Sequelize } from 'sequelize';
 import { afterAll, beforeAll, describe, expect, it, vi } from 'vitest';
 import { AuditEvent, initModels, MailMessage, Part, PartFile, PartRevision, Rating, Recipe, RevisionBody } from '../../server/db/models';
 import { createSequelize } from '../../server/db/sequelize';
-import { errorHandler } from '../../server/errors';
+import { AppError, errorHandler } from '../../server/errors';
+import { renderDescription } from '../../server/modules/parts/revisions';
 import { databaseAnswers, healthRoutes } from '../../server/modules/health/routes';
 import { createDatabaseWatch } from '../../server/modules/health/watch';
 import { agentFor, createTestApp, makeUser, testConfig, uploadsDir, type TestApp } from '../helpers/app';
@@ -223,6 +224,18 @@ describe('parts · long descriptions', () => {
     const part = await agent.get(`/api/parts/${res.body.id}`).expect(200);
     expect(part.body.description).toBe(description);
     expect(part.body.descriptionHtml.split('&lt;').length - 1).toBe(20_000);
+  });
+
+  it('HTML that would outgrow its column · 422 naming the description', () => {
+    const tooLong = () => renderDescription('<'.repeat(100), 407); // 100 × '&lt;' inside <p></p> and a newline: 408 bytes
+    expect(tooLong).toThrow(AppError);
+    try {
+      tooLong();
+    } catch (err) {
+      expect((err as AppError).status).toBe(422);
+      expect((err as AppError).fields?.description).toMatch(/too long once formatted/);
+    }
+    expect(renderDescription('<'.repeat(100), 408)).toContain('&lt;');
   });
 
   it('over the source limit · 422 naming the description', async () => {
