@@ -8,8 +8,9 @@ import express from 'express';
 import request from 'supertest';
 import { DatabaseError, Op, type Sequelize } from 'sequelize';
 import { afterAll, beforeAll, describe, expect, it, vi } from 'vitest';
-import { AuditEvent, initModels, MailMessage, Part, PartFile, PartRevision, Rating, Recipe, RevisionBody } from '../../server/db/models';
+import { AuditEvent, initModels, MailMessage, Part, PartFile, PartRevision, Rating, Recipe, RevisionBody, User } from '../../server/db/models';
 import { createSequelize } from '../../server/db/sequelize';
+import { transact } from '../../server/db/transaction';
 import { AppError, errorHandler } from '../../server/errors';
 import { renderDescription } from '../../server/modules/parts/revisions';
 import { databaseAnswers, healthRoutes } from '../../server/modules/health/routes';
@@ -94,6 +95,29 @@ describe('parts · concurrent submissions', () => {
 });
 
 describe('transactions · a deadlock is retried as a whole', () => {
+  it('a real InnoDB deadlock (two transactions locking two rows in opposite order) · the loser runs again, both commit', async () => {
+    const [a, b] = [(await makeUser()).user.id, (await makeUser()).user.id];
+    let arrived = 0;
+    let release!: () => void;
+    const bothHoldTheirFirstRow = new Promise<void>((resolve) => (release = resolve));
+    const runs: number[] = [];
+    const lockBoth = (first: number, second: number, name: string) =>
+      transact(t.sequelize, async (tx, attempt) => {
+        runs.push(first);
+        await User.findByPk(first, { transaction: tx, lock: tx.LOCK.UPDATE });
+        if (attempt.number === 1) {
+          if ((arrived += 1) === 2) release();
+          await bothHoldTheirFirstRow;
+        }
+        await User.findByPk(second, { transaction: tx, lock: tx.LOCK.UPDATE });
+        await User.update({ displayName: name }, { where: { id: second }, transaction: tx });
+      });
+    await Promise.all([lockBoth(a, b, 'Locked by the first'), lockBoth(b, a, 'Locked by the second')]);
+    expect(runs).toHaveLength(3); // one of the two was the deadlock victim and ran twice
+    expect((await User.findByPk(b))!.displayName).toBe('Locked by the first');
+    expect((await User.findByPk(a))!.displayName).toBe('Locked by the second');
+  });
+
   it('deadlock after the files were moved · 201, each file stored once, nothing left in tmp or orphaned', async () => {
     const { agent } = await signedIn();
     const partsBefore = await Part.count();
