@@ -92,7 +92,7 @@ export function errorHandler(options: { onDatabaseUnavailable?: () => void } = {
     // the details (SQL included) go to the log only, under a reference the person can quote
     const ref = errorRef();
     const kind = err instanceof SequelizeBaseError ? 'database error' : 'error';
-    console.error(`rigshelf: ${kind} ref ${ref} on ${req.method} ${req.originalUrl}:`, err);
+    console.error(`rigshelf: ${kind} ref ${ref} on ${req.method} ${req.originalUrl.split('?')[0]}:`, err);
     return body(500, 'internal', `Something went wrong on our side. Try again; if it keeps happening, tell an admin and quote ref ${ref}.`);
   };
 }

@@ -193,7 +193,7 @@ describe('errors · 500 answers', () => {
     expect(logged.some((line) => line.includes(ref!) && line.includes('secret_col'))).toBe(true);
   });
 
-  it('the same error in production mode · the same answer', async () => {
+  it('a file-system error in any route · 500 with a plain sentence and a ref, no path or error code', async () => {
     const log = vi.spyOn(console, 'error').mockImplementation(() => undefined);
     const app = express();
     app.get('/boom', () => {
