@@ -16,6 +16,7 @@ import { authRoutes } from './modules/auth/routes';
 import { createAuthService } from './modules/auth/service';
 import { createTokenService } from './modules/auth/tokens';
 import { healthRoutes } from './modules/health/routes';
+import { createDatabaseWatch } from './modules/health/watch';
 import { PhotoJobs } from './modules/files/photo-jobs';
 import { PhotoQueue } from './modules/files/photo-queue';
 import { uploadDirs } from './modules/files/storage';
@@ -62,7 +63,9 @@ export function createApp({ config, sequelize, mailer }: AppContext) {
       },
     }),
   );
-  app.use('/api/health', healthRoutes(sequelize));
+  const database = createDatabaseWatch(sequelize);
+  app.use('/api/health', healthRoutes(sequelize, { check: database.check }));
+  app.use('/api', database.gate());
   app.use(express.json({ limit: '1mb' }));
 
   const SequelizeStore = connectSessionSequelize(session.Store);
@@ -152,7 +155,7 @@ export function createApp({ config, sequelize, mailer }: AppContext) {
   }
 
   app.use(multerErrors);
-  app.use(errorHandler({ isProduction: config.isProduction }));
+  app.use(errorHandler({ onDatabaseUnavailable: database.reportUnavailable }));
 
   return {
     app,

@@ -20,6 +20,11 @@ const schema = z
     DB_USER: z.string().default('rigshelf'),
     DB_PASSWORD: z.string().min(1, 'DB_PASSWORD is required'),
     DB_POOL_MAX: z.coerce.number().int().min(1).default(10),
+    /**
+     * Longest a statement may run on the server (max_statement_time; 0 turns it off, e.g. for a long
+     * migration). A database that stops answering altogether is given up on 1 s after this.
+     */
+    DB_QUERY_TIMEOUT_MS: z.coerce.number().int().min(0).default(5000),
     /** How long the server waits at start-up for MariaDB to accept a connection before it gives up. */
     DB_WAIT_S: z.coerce.number().min(0).max(3600).default(60),
     /** After SIGTERM/SIGINT the process exits within this many seconds, whatever is still open. */

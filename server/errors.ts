@@ -1,9 +1,11 @@
 // One error type and one error path for the whole API.
+import { randomBytes } from 'node:crypto';
 import type { ErrorRequestHandler, RequestHandler } from 'express';
 import { ZodError } from 'zod';
 import { BaseError as SequelizeBaseError, ConnectionError } from 'sequelize';
 import type { ApiErrorBody } from '@shared/types';
 import { fieldErrors } from '@shared/validation';
+import { isDatabaseUnavailable, isRetriableTransactionError } from './db/errors';
 
 export class AppError extends Error {
   constructor(
@@ -49,8 +51,17 @@ interface HttpLikeError {
   message?: string;
 }
 
-export function errorHandler(options: { isProduction: boolean }): ErrorRequestHandler {
-  return (err: unknown, _req, res, next) => {
+/** A short reference a person can quote, and an admin can find in the log. */
+export function errorRef(): string {
+  return randomBytes(4).toString('hex');
+}
+
+/**
+ * Answers every error; internals (SQL, stacks) stay in the log in every mode, never in the answer.
+ * `onDatabaseUnavailable` hears of each request that failed because the database did not answer.
+ */
+export function errorHandler(options: { onDatabaseUnavailable?: () => void } = {}): ErrorRequestHandler {
+  return (err: unknown, req, res, next) => {
     if (res.headersSent) return next(err);
     const body = (status: number, code: string, message: string, fields?: Record<string, string>) => {
       const payload: ApiErrorBody = { error: { code, message, ...(fields ? { fields } : {}) } };
@@ -62,8 +73,13 @@ export function errorHandler(options: { isProduction: boolean }): ErrorRequestHa
       const e = AppError.validation(err);
       return body(e.status, e.code, e.message, e.fields);
     }
-    if (err instanceof ConnectionError) {
+    if (err instanceof ConnectionError || isDatabaseUnavailable(err)) {
+      options.onDatabaseUnavailable?.();
       return body(503, 'database_unavailable', 'The database is not reachable right now. Try again in a moment.');
+    }
+    if (isRetriableTransactionError(err)) {
+      // still losing lock conflicts after the retries in transact(): the shelf is very busy
+      return body(503, 'database_busy', 'The shelf is very busy right now and your change was not saved. Try again in a moment.');
     }
     const http = err as HttpLikeError;
     const status = http?.status ?? http?.statusCode;
@@ -73,11 +89,10 @@ export function errorHandler(options: { isProduction: boolean }): ErrorRequestHa
       return body(status, http.code?.toLowerCase() ?? 'bad_request', http.message ?? 'The request was refused.');
     }
 
-    if (!(err instanceof SequelizeBaseError) || !options.isProduction) console.error(err);
-    else console.error('database error:', (err as Error).message);
-    const message = options.isProduction
-      ? 'Something went wrong on our side. Try again; if it keeps happening, tell an admin.'
-      : `Internal error: ${(err as Error)?.message ?? String(err)}`;
-    return body(500, 'internal', message);
+    // the details (SQL included) go to the log only, under a reference the person can quote
+    const ref = errorRef();
+    const kind = err instanceof SequelizeBaseError ? 'database error' : 'error';
+    console.error(`rigshelf: ${kind} ref ${ref} on ${req.method} ${req.originalUrl.split('?')[0]}:`, err);
+    return body(500, 'internal', `Something went wrong on our side. Try again; if it keeps happening, tell an admin and quote ref ${ref}.`);
   };
 }

@@ -8,10 +8,17 @@ export function createSequelize(config: Config): Sequelize {
     port: config.DB_PORT,
     dialect: 'mariadb',
     logging: false,
-    // Fail fast while the database is down so /api/health can say so and requests get a 503.
-    dialectOptions: { connectTimeout: 3000 },
+    // Fail fast while the database is down or does not answer, so /api/health can say so and
+    // requests get a 503: connectTimeout covers the TCP connect only; socketTimeout (any silence on
+    // an open connection, the handshake included) catches a frozen server; queryTimeout lets a live
+    // server stop a runaway statement first, with a clean error.
+    dialectOptions: {
+      connectTimeout: 3000,
+      ...(config.DB_QUERY_TIMEOUT_MS > 0 && { queryTimeout: config.DB_QUERY_TIMEOUT_MS, socketTimeout: config.DB_QUERY_TIMEOUT_MS + 1000 }),
+    },
     timezone: '+00:00',
-    pool: { max: config.DB_POOL_MAX, min: 0, acquire: 5000, idle: 10_000 },
+    // idle connections leave the pool well before socketTimeout would end them there
+    pool: { max: config.DB_POOL_MAX, min: 0, acquire: 5000, idle: config.DB_QUERY_TIMEOUT_MS > 0 ? Math.min(10_000, Math.max(1000, config.DB_QUERY_TIMEOUT_MS / 2)) : 10_000 },
     define: { underscored: true },
   });
   initModels(sequelize);

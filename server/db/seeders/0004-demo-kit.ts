@@ -3,6 +3,7 @@
 // One item is printed in PLA on a car rig in sun, so the kit's summary shows a heat warning.
 import type { MigrationFn } from '../migrator';
 import { Kit, KitItem, KitShare, Part, PartRevision, PriceSheet, Printer, Recipe, User } from '../models';
+import { transact } from '../transaction';
 import { DEMO_ACCOUNTS } from './0001-demo-crew';
 
 const KIT_NAME = 'The Salt Road — car unit';
@@ -33,7 +34,7 @@ export const up: MigrationFn = async ({ context: { sequelize } }) => {
   const spacer = await shelfPart('V-style plate spacer, 6 mm', 'PETG');
   const cradle = await shelfPart('Receiver cradle for 15 mm rods', 'PETG');
 
-  await sequelize.transaction(async (transaction) => {
+  await transact(sequelize, async (transaction) => {
     const cart = await Printer.create(
       { ownerId: member.id, name: 'Cart printer', bedXMm: 220, bedYMm: 220, bedZMm: 250, nozzleMm: 0.4, watts: 120, notes: 'Rides on the camera cart; enclosure panels in the blue case.' },
       { transaction },

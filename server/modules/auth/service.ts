@@ -2,6 +2,7 @@ import { UniqueConstraintError } from 'sequelize';
 import type { RegisterInput } from '@shared/schemas/auth';
 import type { Config } from '../../config';
 import { User } from '../../db/models';
+import { transact } from '../../db/transaction';
 import { AppError } from '../../errors';
 import { dummyHash, hashPassword, verifyPassword } from '../../security/password';
 import type { TokenService } from './tokens';
@@ -16,7 +17,7 @@ export function createAuthService(config: Config, tokens: Pick<TokenService, 'se
     async register(input: RegisterInput): Promise<User> {
       const passwordHash = await hashPassword(input.password, logN);
       try {
-        return await User.sequelize!.transaction(async (transaction) => {
+        return await transact(User.sequelize!, async (transaction) => {
           const user = await User.create(
             { email: input.email, displayName: input.displayName, passwordHash, crewRole: null },
             { transaction },

@@ -5,6 +5,7 @@ import { createHash, randomBytes } from 'node:crypto';
 import { Op, type Transaction } from 'sequelize';
 import type { Config } from '../../config';
 import { AccountToken, Session, User } from '../../db/models';
+import { transact } from '../../db/transaction';
 import type { TokenPurpose } from '../../db/models/account-token';
 import { AppError } from '../../errors';
 import { hashPassword } from '../../security/password';
@@ -116,11 +117,11 @@ export function createTokenService({ config, mailer }: { config: Config; mailer:
       if (user.emailVerifiedAt) {
         throw new AppError(409, 'already_verified', 'Your e-mail address is already confirmed; there is nothing to resend.');
       }
-      await db().transaction((transaction) => sendVerification(user, transaction));
+      await transact(db(), (transaction) => sendVerification(user, transaction));
     },
 
     async verifyEmail(token: string): Promise<User> {
-      return db().transaction(async (transaction) => {
+      return transact(db(), async (transaction) => {
         const row = await consumeToken(token, 'verify_email', transaction);
         const user = await User.findByPk(row.userId, { transaction });
         if (!user) throw new AppError(400, 'token_invalid', MESSAGES.verify_email.invalid);
@@ -136,7 +137,7 @@ export function createTokenService({ config, mailer }: { config: Config; mailer:
      */
     async requestPasswordReset(email: string): Promise<void> {
       const made = newToken();
-      await db().transaction(async (transaction) => {
+      await transact(db(), async (transaction) => {
         const user = await User.findOne({ where: { email: email.trim().toLowerCase() }, transaction });
         const target = user && user.status === 'active' ? user : null;
         await retireResetTokens(target?.id ?? 0, transaction);
@@ -158,7 +159,7 @@ export function createTokenService({ config, mailer }: { config: Config; mailer:
     async resetPassword(token: string, password: string): Promise<User> {
       await checkToken(token, 'password_reset'); // a wrong link fails before the slow hash
       const passwordHash = await hashPassword(password, logN);
-      return db().transaction(async (transaction) => {
+      return transact(db(), async (transaction) => {
         const row = await consumeToken(token, 'password_reset', transaction);
         const user = await User.findByPk(row.userId, { transaction, lock: transaction.LOCK.UPDATE });
         if (!user) throw new AppError(400, 'token_invalid', MESSAGES.password_reset.invalid);

@@ -4,6 +4,7 @@ import { Op, UniqueConstraintError, type Sequelize } from 'sequelize';
 import { summariseEvidence, type Evidence, type SetCondition } from '@shared/evidence';
 import type { RatingInput, SetReportInput } from '@shared/schemas/evidence';
 import { AuditEvent, ContentFlag, Part, PartRevision, Rating, Recipe, ReportPhoto, SetReport, User } from '../../db/models';
+import { transact } from '../../db/transaction';
 import { AppError } from '../../errors';
 import type { InspectedFile } from '../files/inspect';
 import type { PhotoJobs } from '../files/photo-jobs';
@@ -82,16 +83,20 @@ export function createEvidenceService({ sequelize, dirs, photos, onChanged }: Ev
     async rate(actor: User, partId: string, input: RatingInput) {
       const part = await partOnShelf(actor, partId);
       if (part.authorId === actor.id) throw AppError.forbidden('You cannot rate your own part; file a set report instead.');
-      const existing = await Rating.findOne({ where: { partId: part.id, userId: actor.id } });
+      const mine = { partId: part.id, userId: actor.id };
+      const values = { stars: input.stars, comment: input.comment ?? null };
+      let existing = await Rating.findOne({ where: mine });
       let rating: Rating;
       if (existing) {
-        rating = await existing.update({ stars: input.stars, comment: input.comment ?? null });
+        rating = await existing.update(values);
       } else {
         try {
-          rating = await Rating.create({ partId: part.id, userId: actor.id, stars: input.stars, comment: input.comment ?? null, hiddenAt: null, hiddenBy: null, hiddenReason: null });
+          rating = await Rating.create({ ...mine, ...values, hiddenAt: null, hiddenBy: null, hiddenReason: null });
         } catch (err) {
-          if (err instanceof UniqueConstraintError) throw AppError.conflict('Your rating was saved a moment ago from elsewhere; reload to change it.');
-          throw err;
+          // the same member's other request created the row a moment ago: the later rating replaces it
+          existing = err instanceof UniqueConstraintError ? await Rating.findOne({ where: mine }) : null;
+          if (!existing) throw err;
+          rating = await existing.update(values);
         }
       }
       onChanged?.(part.id);
@@ -122,9 +127,7 @@ export function createEvidenceService({ sequelize, dirs, photos, onChanged }: Ev
         }
         material ??= recipe.material;
       }
-      const t = await sequelize.transaction();
-      let undo: (() => Promise<void>) | undefined;
-      try {
+      const { id, rows } = await transact(sequelize, async (t, attempt) => {
         const report = await SetReport.create(
           {
             partId: part.id,
@@ -154,16 +157,12 @@ export function createEvidenceService({ sequelize, dirs, photos, onChanged }: Ev
           );
         }
         const moved = await moveAll(rows.map((row, i) => ({ from: files[i].path, to: pathsOf(dirs, { kind: 'photo', storedName: row.storedName }).original })));
-        undo = moved.undo;
-        await t.commit();
-        for (const row of rows) photos.clean(row, () => ReportPhoto.findByPk(row.id));
-        onChanged?.(part.id);
-        return { id: report.id };
-      } catch (err) {
-        await t.rollback().catch(() => undefined);
-        await undo?.();
-        throw err;
-      }
+        attempt.onRollback(moved.undo);
+        return { id: report.id, rows };
+      });
+      for (const row of rows) photos.clean(row, () => ReportPhoto.findByPk(row.id));
+      onChanged?.(part.id);
+      return { id };
     },
 
     async reports(viewer: User | undefined, partId: string, filter: { material?: string; condition?: string; outcome?: string }) {
@@ -214,7 +213,7 @@ export function createEvidenceService({ sequelize, dirs, photos, onChanged }: Ev
     },
 
     async hide(actor: User, type: Target, id: number, note: string) {
-      const result = await sequelize.transaction(async (t) => {
+      const result = await transact(sequelize, async (t) => {
         const Target = (type === 'rating' ? Rating : SetReport) as typeof Rating;
         const target = await Target.findByPk(id, { transaction: t, lock: t.LOCK.UPDATE });
         if (!target) throw AppError.notFound(`There is no such ${type}.`);

@@ -28,7 +28,9 @@ export async function removeQuietly(...paths: (string | undefined)[]): Promise<v
 
 /**
  * Moves files into place; if any move fails, the ones already moved go back, so the caller can
- * roll back its transaction and leave nothing half-done.
+ * roll back its transaction and leave nothing half-done. undo() also puts them back where they came
+ * from, so a transaction that is retried can move them again (and the upload's own clean-up removes
+ * them if it is not).
  */
 export async function moveAll(moves: { from: string; to: string }[]): Promise<{ undo(): Promise<void> }> {
   const done: { from: string; to: string }[] = [];
@@ -43,7 +45,7 @@ export async function moveAll(moves: { from: string; to: string }[]): Promise<{ 
   }
   return {
     async undo() {
-      await Promise.all(done.map((m) => rm(m.to, { force: true })));
+      await Promise.all(done.splice(0).map((m) => rename(m.to, m.from).catch(() => rm(m.to, { force: true }))));
     },
   };
 }

@@ -12,11 +12,25 @@ type RevisionFields = Omit<PartUpdate, 'bodies' | 'recipes' | 'safety' | 'descri
   safety?: PartSubmission['safety'];
 };
 
+/** What part_revisions.description_html (MEDIUMTEXT, 16 MiB) is allowed to hold, with room to spare. */
+export const MAX_DESCRIPTION_HTML_BYTES = 4 * 1024 * 1024;
+
+/** The description's safe HTML; refused with a field message if it would not fit its column. */
+export function renderDescription(source: string, maxBytes = MAX_DESCRIPTION_HTML_BYTES): string {
+  const html = renderMarkdown(source);
+  if (Buffer.byteLength(html, 'utf8') > maxBytes) {
+    throw new AppError(422, 'validation_failed', 'Some fields need another look.', {
+      description: 'This description becomes too long once formatted. Shorten it, or use less markup.',
+    });
+  }
+  return html;
+}
+
 export function revisionColumns(input: RevisionFields) {
   return {
     ...(input.title !== undefined && { title: input.title }),
     ...(input.summary !== undefined && { summary: input.summary }),
-    ...(input.description !== undefined && { descriptionMd: input.description, descriptionHtml: renderMarkdown(input.description) }),
+    ...(input.description !== undefined && { descriptionMd: input.description, descriptionHtml: renderDescription(input.description) }),
     ...(input.category !== undefined && { category: input.category }),
     ...(input.licence !== undefined && { licence: input.licence }),
     ...(input.mounts !== undefined && { mounts: input.mounts }),
@@ -40,13 +54,25 @@ export async function bodyIdsFor(slugs: string[], transaction?: Transaction): Pr
   return bodies.map((b) => b.id);
 }
 
+// A brand-new revision only inserts: deleting its (not yet existing) rows first would take gap locks
+// at the end of the index, and two submissions doing that at once deadlock each other.
+export async function insertBodies(revisionId: number, bodyIds: number[], transaction: Transaction) {
+  if (!bodyIds.length) return;
+  await RevisionBody.bulkCreate(bodyIds.map((bodyId) => ({ revisionId, bodyId })), { transaction });
+}
+
 export async function replaceBodies(revisionId: number, bodyIds: number[], transaction: Transaction) {
   await RevisionBody.destroy({ where: { revisionId }, transaction });
-  await RevisionBody.bulkCreate(bodyIds.map((bodyId) => ({ revisionId, bodyId })), { transaction });
+  await insertBodies(revisionId, bodyIds, transaction);
 }
 
 export async function replaceRecipes(revisionId: number, recipes: PartSubmission['recipes'], transaction: Transaction) {
   await Recipe.destroy({ where: { revisionId }, transaction });
+  await insertRecipes(revisionId, recipes, transaction);
+}
+
+export async function insertRecipes(revisionId: number, recipes: PartSubmission['recipes'], transaction: Transaction) {
+  if (!recipes.length) return;
   await Recipe.bulkCreate(
     recipes.map((r, position) => ({
       ...r,

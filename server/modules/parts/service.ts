@@ -1,10 +1,11 @@
 // The catalogue's core record: submitting, reading, editing parts and their files.
-import { Op, UniqueConstraintError, type Sequelize, type Transaction } from 'sequelize';
+import { Op, UniqueConstraintError, type CreationAttributes, type Sequelize, type Transaction } from 'sequelize';
 import { slugify } from '@shared/catalogue';
 import { transition } from '@shared/review';
 import { checkAdaptationLicence, isLicenceId } from '@shared/licences';
 import type { PartSubmission, PartUpdate } from '@shared/schemas/part';
 import { Part, PartFile, PartRevision, ReportPhoto, RevisionFile, type User } from '../../db/models';
+import { transact, type Attempt } from '../../db/transaction';
 import { AppError } from '../../errors';
 import type { InspectedFile } from '../files/inspect';
 import type { PhotoJobs } from '../files/photo-jobs';
@@ -12,7 +13,7 @@ import type { UploadDirs } from '../files/storage';
 import { assertCanEdit, findVisiblePart, seesUnpublished } from './access';
 import { attachFiles, pathsOf, removeStoredFiles, sweepUploads } from './part-files';
 import { presentPart, presentSummaries } from './presenter';
-import { bodyIdsFor, editableRevision, markChanged, replaceBodies, replaceRecipes, revisionColumns } from './revisions';
+import { bodyIdsFor, editableRevision, insertBodies, insertRecipes, markChanged, replaceBodies, replaceRecipes, revisionColumns } from './revisions';
 
 export type SubmissionHook = (actor: User, part: Part, revision: PartRevision, kind: 'submit' | 'resubmit', t: Transaction) => Promise<void>;
 
@@ -28,10 +29,10 @@ function fieldError(field: string, message: string) {
   return new AppError(422, 'validation_failed', message, { [field]: message });
 }
 
-async function uniqueSlug(title: string, transaction: Transaction): Promise<string> {
+async function uniqueSlug(title: string, transaction: Transaction, alsoTaken: Set<string>): Promise<string> {
   const base = slugify(title);
   const taken = await Part.findAll({ where: { slug: { [Op.like]: `${base}%` } }, attributes: ['slug'], transaction });
-  const used = new Set(taken.map((p) => p.slug));
+  const used = new Set([...taken.map((p) => p.slug), ...alsoTaken]);
   if (!used.has(base)) return base;
   for (let n = 2; ; n++) if (!used.has(`${base}-${n}`)) return `${base}-${n}`;
 }
@@ -66,21 +67,29 @@ export function createPartsService({ sequelize, dirs, photos, onSubmitted }: Par
     }
   }
 
-  /** Runs a write in one transaction; files moved into place are taken back if it fails. */
-  async function writeWithFiles<T>(work: (t: Transaction) => Promise<{ result: T; undo?: () => Promise<void>; photos?: PartFile[] }>) {
-    const t = await sequelize.transaction();
-    let undo: (() => Promise<void>) | undefined;
-    try {
-      const out = await work(t);
-      undo = out.undo;
-      await t.commit();
-      queuePhotos(out.photos ?? []);
-      return out.result;
-    } catch (err) {
-      await t.rollback().catch(() => undefined);
-      await undo?.();
-      throw err;
+  /**
+   * Runs a write in one transaction (retried on deadlock); files moved into place go back to where
+   * they were if an attempt fails, and photos are queued once the write has committed.
+   */
+  async function writeWithFiles<T>(work: (t: Transaction, attempt: Attempt) => Promise<{ result: T; photos?: PartFile[] }>) {
+    const out = await transact(sequelize, work);
+    queuePhotos(out.photos ?? []);
+    return out.result;
+  }
+
+  /** The part row under a free slug; a slug taken by a submission committed meanwhile is skipped. */
+  async function createPart(title: string, fields: Omit<CreationAttributes<Part>, 'slug'>, t: Transaction): Promise<Part> {
+    const tried = new Set<string>();
+    for (let i = 0; i < 20; i++) {
+      const slug = await uniqueSlug(title, t, tried);
+      try {
+        return await Part.create({ ...fields, slug }, { transaction: t });
+      } catch (err) {
+        if (!(err instanceof UniqueConstraintError)) throw err;
+        tried.add(slug);
+      }
     }
+    throw AppError.conflict('Another part with this title was submitted at the same moment. Submit again.');
   }
 
   return {
@@ -102,25 +111,12 @@ export function createPartsService({ sequelize, dirs, photos, onSubmitted }: Par
       const bodyIds = await bodyIdsFor(input.bodies);
       await checkParentLicence(input.parentId, input.licence, actor);
 
-      return writeWithFiles(async (t) => {
-        let part: Part;
-        try {
-          part = await Part.create(
-            {
-              slug: await uniqueSlug(input.title, t),
-              authorId: actor.id,
-              parentId: input.parentId ?? null,
-              status: 'in_review',
-              publishedRevisionId: null,
-              latestRevisionId: null,
-              publishedAt: null,
-            },
-            { transaction: t },
-          );
-        } catch (err) {
-          if (err instanceof UniqueConstraintError) throw AppError.conflict('Another part with this title was submitted at the same moment. Submit again.');
-          throw err;
-        }
+      return writeWithFiles(async (t, attempt) => {
+        const part = await createPart(
+          input.title,
+          { authorId: actor.id, parentId: input.parentId ?? null, status: 'in_review', publishedRevisionId: null, latestRevisionId: null, publishedAt: null },
+          t,
+        );
         const revision = await PartRevision.create(
           {
             partId: part.id,
@@ -145,12 +141,13 @@ export function createPartsService({ sequelize, dirs, photos, onSubmitted }: Par
           },
           { transaction: t },
         );
-        await replaceBodies(revision.id, bodyIds, t);
-        await replaceRecipes(revision.id, input.recipes, t);
+        await insertBodies(revision.id, bodyIds, t);
+        await insertRecipes(revision.id, input.recipes, t);
         await part.update({ latestRevisionId: revision.id }, { transaction: t });
         const attached = await attachFiles({ dirs, partId: part.id, revisionId: revision.id, createdBy: actor.id, files }, t);
+        attempt.onRollback(attached.undo);
         await onSubmitted?.(actor, part, revision, 'submit', t);
-        return { result: { id: part.id, slug: part.slug, status: part.status }, undo: attached.undo, photos: attached.rows };
+        return { result: { id: part.id, slug: part.slug, status: part.status }, photos: attached.rows };
       });
     },
 
@@ -176,7 +173,7 @@ export function createPartsService({ sequelize, dirs, photos, onSubmitted }: Par
 
     async update(actor: User, id: string, patch: PartUpdate) {
       const bodyIds = patch.bodies ? await bodyIdsFor(patch.bodies) : null;
-      await sequelize.transaction(async (t) => {
+      await transact(sequelize, async (t) => {
         const part = await findVisiblePart(actor, id, t);
         assertCanEdit(actor, part);
         if (patch.licence) await checkParentLicence(part.parentId, patch.licence, actor);
@@ -191,19 +188,20 @@ export function createPartsService({ sequelize, dirs, photos, onSubmitted }: Par
 
     async addFiles(actor: User, id: string, files: InspectedFile[]) {
       if (!files.length) throw fieldError('model', 'Choose at least one file to add.');
-      await writeWithFiles(async (t) => {
+      await writeWithFiles(async (t, attempt) => {
         const part = await findVisiblePart(actor, id, t);
         assertCanEdit(actor, part);
         const edit = await editableRevision(part, actor, t);
         const attached = await attachFiles({ dirs, partId: part.id, revisionId: edit.revision.id, createdBy: actor.id, files }, t);
+        attempt.onRollback(attached.undo);
         await afterEdit(actor, part, edit, t);
-        return { result: undefined, undo: attached.undo, photos: attached.rows };
+        return { result: undefined, photos: attached.rows };
       });
       return this.get(actor, id);
     },
 
     async removeFile(actor: User, id: string, fileId: number) {
-      const orphan = await sequelize.transaction(async (t) => {
+      const orphan = await transact(sequelize, async (t) => {
         const part = await findVisiblePart(actor, id, t);
         assertCanEdit(actor, part);
         const edit = await editableRevision(part, actor, t);
@@ -228,7 +226,7 @@ export function createPartsService({ sequelize, dirs, photos, onSubmitted }: Par
 
     /** Sends a sent-back (or draft) revision to the review desk again without further changes. */
     async resubmit(actor: User, id: string) {
-      await sequelize.transaction(async (t) => {
+      await transact(sequelize, async (t) => {
         const part = await findVisiblePart(actor, id, t);
         assertCanEdit(actor, part);
         const latest = (await PartRevision.findByPk(part.latestRevisionId!, { transaction: t, lock: t.LOCK.UPDATE }))!;
@@ -242,6 +240,11 @@ export function createPartsService({ sequelize, dirs, photos, onSubmitted }: Par
     /** A file of the revision this viewer sees, with where it is on disk. */
     async storedFile(viewer: User | undefined, id: string, fileId: number, want: 'original' | 'display' | 'thumbnail') {
       const part = await findVisiblePart(viewer, id);
+      // a retired part's page stays up for reference (photos included), but its files are no longer
+      // handed out to print from: only its author and moderators still get them
+      if (want === 'original' && part.status === 'retired' && !seesUnpublished(viewer, part)) {
+        throw AppError.notFound('That file is not part of this part.');
+      }
       const revisionIds = seesUnpublished(viewer, part)
         ? (await PartRevision.findAll({ where: { partId: part.id }, attributes: ['id'] })).map((r) => r.id)
         : [part.publishedRevisionId!];

@@ -31,6 +31,7 @@ import {
   type PrinterPatch,
 } from '@shared/schemas/planning';
 import { Kit, KitItem, KitShare, Part, PartFile, PartRevision, PriceSheet, Printer, Recipe, RevisionFile, User } from '../../db/models';
+import { transact } from '../../db/transaction';
 import { AppError } from '../../errors';
 import type { EvidenceService } from '../evidence/service';
 import { findVisiblePart, seesUnpublished } from '../parts/access';
@@ -248,7 +249,7 @@ export function createPlanningService({ sequelize, evidence }: PlanningDeps) {
     /** Kit items on this printer keep their place with no printer chosen. */
     async deletePrinter(owner: User, id: number): Promise<void> {
       const printer = await ownPrinter(owner, id);
-      await sequelize.transaction(async (t) => {
+      await transact(sequelize, async (t) => {
         await KitItem.update({ printerId: null }, { where: { printerId: printer.id }, transaction: t });
         await printer.destroy({ transaction: t });
       });
@@ -303,7 +304,7 @@ export function createPlanningService({ sequelize, evidence }: PlanningDeps) {
     },
 
     async updateKit(viewer: User, id: number, patch: KitPatch): Promise<KitDetail> {
-      const result = await sequelize.transaction(async (t) => {
+      const result = await transact(sequelize, async (t) => {
         const { kit, access } = await findKit(viewer, id, 'edit', undefined, t);
         const startsOn = patch.startsOn !== undefined ? patch.startsOn : kit.startsOn;
         const endsOn = patch.endsOn !== undefined ? patch.endsOn : kit.endsOn;
@@ -328,7 +329,7 @@ export function createPlanningService({ sequelize, evidence }: PlanningDeps) {
 
     async deleteKit(viewer: User, id: number): Promise<void> {
       const { kit } = await findKit(viewer, id, 'owner', 'Only the kit’s owner can delete it.');
-      await sequelize.transaction(async (t) => {
+      await transact(sequelize, async (t) => {
         await KitItem.destroy({ where: { kitId: kit.id }, transaction: t });
         await KitShare.destroy({ where: { kitId: kit.id }, transaction: t });
         await kit.destroy({ transaction: t });
@@ -336,7 +337,7 @@ export function createPlanningService({ sequelize, evidence }: PlanningDeps) {
     },
 
     async addItem(viewer: User, kitId: number, input: KitItemInput): Promise<KitItemInfo> {
-      const id = await sequelize.transaction(async (t) => {
+      const id = await transact(sequelize, async (t) => {
         const { kit } = await findKit(viewer, kitId, 'edit', undefined, t);
         if ((await KitItem.count({ where: { kitId: kit.id }, transaction: t })) >= MAX_KIT_ITEMS) {
           throw AppError.conflict(`A kit holds at most ${MAX_KIT_ITEMS} items; split it into two kits.`);
@@ -367,7 +368,7 @@ export function createPlanningService({ sequelize, evidence }: PlanningDeps) {
     },
 
     async updateItem(viewer: User, kitId: number, itemId: number, patch: KitItemPatch): Promise<KitItemInfo> {
-      await sequelize.transaction(async (t) => {
+      await transact(sequelize, async (t) => {
         const { kit } = await findKit(viewer, kitId, 'edit', undefined, t);
         const item = await itemOf(kit, itemId, t);
         const changes: Partial<KitItem> = defined({
@@ -393,7 +394,7 @@ export function createPlanningService({ sequelize, evidence }: PlanningDeps) {
     },
 
     async deleteItem(viewer: User, kitId: number, itemId: number): Promise<void> {
-      await sequelize.transaction(async (t) => {
+      await transact(sequelize, async (t) => {
         const { kit } = await findKit(viewer, kitId, 'edit', undefined, t);
         const item = await itemOf(kit, itemId, t);
         await item.destroy({ transaction: t });
@@ -403,7 +404,7 @@ export function createPlanningService({ sequelize, evidence }: PlanningDeps) {
 
     /** Replaces who the kit is shared with. Owner only. */
     async setShares(viewer: User, kitId: number, input: KitSharesInput): Promise<KitShareList> {
-      await sequelize.transaction(async (t) => {
+      await transact(sequelize, async (t) => {
         const { kit } = await findKit(viewer, kitId, 'owner', 'Only the kit’s owner can choose who it is shared with.', t);
         const fields: Record<string, string> = {};
         const resolved: { userId: number; access: 'read' | 'edit' }[] = [];

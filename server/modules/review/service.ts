@@ -3,6 +3,7 @@ import { Op, type Sequelize, type Transaction } from 'sequelize';
 import { checkAdaptationLicence, isLicenceId } from '@shared/licences';
 import { allowedActions, NOTE_REQUIRED, REVIEW_CHECKLIST, transition, type ReviewAction, type ReviewState } from '@shared/review';
 import { AuditEvent, Part, PartRevision, User, type AuditAction } from '../../db/models';
+import { transact } from '../../db/transaction';
 import { AppError } from '../../errors';
 import { mailTemplates, type MailContent } from '../mail/templates';
 import { notices } from '../notices/service';
@@ -170,7 +171,7 @@ export function createReviewService({ sequelize, mail, publicUrl, onDecided }: R
     async decide(actor: User, partId: number, action: Exclude<ReviewAction, 'submit'>, input: { note?: string; checklist?: string[] }) {
       const note = input.note?.trim() || null;
       if (NOTE_REQUIRED.has(action) && !note) throw AppError.badRequest('Write a note for the contributor.');
-      const result = await sequelize.transaction(async (t) => {
+      const result = await transact(sequelize, async (t) => {
         // the row lock makes concurrent decisions on one part take turns; the loser sees the new state
         const part = await Part.findByPk(partId, { transaction: t, lock: t.LOCK.UPDATE });
         if (!part) throw AppError.notFound('There is no part with that id.');
