@@ -6,6 +6,7 @@ import { loadConfig, type Config } from './config';
 import { migrate, seedDemo } from './db/migrator';
 import { createSequelize } from './db/sequelize';
 import { createMailer } from './modules/mail/outbox';
+import { keepRunningOnUnhandledRejections } from './process-safety';
 
 export interface RunningServer {
   server: Server;
@@ -14,6 +15,7 @@ export interface RunningServer {
 }
 
 export async function startServer(config: Config): Promise<RunningServer> {
+  keepRunningOnUnhandledRejections();
   const sequelize = createSequelize(config);
   await sequelize.authenticate();
   const migrations = await migrate(sequelize);
