@@ -7,9 +7,11 @@ import { connect } from 'node:net';
 import type { AddressInfo } from 'node:net';
 import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { createTestApp, makeUser, uploadsDir, type TestApp } from '../helpers/app';
-import { boxStl } from '../helpers/meshes';
-import { jpegWithGps } from '../helpers/photos';
+import { PartFile } from '../../server/db/models';
+import { agentFor, createTestApp, makeUser, uploadsDir, type TestApp } from '../helpers/app';
+import { boxStl, cubeStl } from '../helpers/meshes';
+import { hugeEntry3mf, nestedComponents3mf } from '../helpers/threemf';
+import { jpegWithGps, pngDeclaring, pngHtmlPolyglot, pngWithBadCrc, truncatedJpeg } from '../helpers/photos';
 import { publishDirectly, seedBodies, submission } from '../helpers/parts';
 
 let t: TestApp;
@@ -198,5 +200,129 @@ describe('uploads · malformed bodies and names are the client’s fault', () =>
       body: 'nothing',
     });
     expect(res.status).toBe(400);
+  });
+});
+
+describe('uploads · photos are checked before the 201', () => {
+  type Agent = Awaited<ReturnType<typeof agentFor>>;
+  let agent: Agent;
+  beforeAll(async () => {
+    const { email, password } = await makeUser('member');
+    agent = await agentFor(t.app);
+    await agent.login(email, password);
+  });
+
+  const submitPhoto = (name: string, bytes: Buffer) =>
+    agent.post('/api/parts').field('data', JSON.stringify(submission())).attach('model', boxStl(10, 10, 10), 'm.stl').attach('photo', bytes, name);
+
+  it('a 68-byte PNG declaring 30000 × 30000 pixels is refused with 422 naming the megapixel limit, before any decoding', async () => {
+    const png = pngDeclaring(30000, 30000);
+    expect(png.length).toBe(68);
+    const before = await PartFile.count();
+    const res = await submitPhoto('huge.png', png);
+    expect(res.status).toBe(422);
+    expect(res.body.error.code).toBe('photo_too_large');
+    expect(res.body.error.message).toMatch(/30000 × 30000 pixels \(900\.0 megapixels\); photos may have at most 50 megapixels/);
+    expect(await PartFile.count()).toBe(before);
+    await waitFor('uploads/tmp is empty', () => tmpFiles().length === 0);
+  });
+
+  const broken: [string, string, () => Promise<Buffer> | Buffer, RegExp][] = [
+    ['a truncated JPEG', 'cut.jpg', truncatedJpeg, /cut off/],
+    ['a PNG whose CRC does not match', 'crc.png', pngWithBadCrc, /cannot be decoded/],
+    ['a PNG that goes on as an HTML page (polyglot)', 'poly.png', pngHtmlPolyglot, /cannot be decoded/],
+  ];
+  for (const [what, name, bytes, reason] of broken) {
+    it(`${what} is refused with 422 and nothing is kept`, async () => {
+      const before = await PartFile.count();
+      const res = await submitPhoto(name, await bytes());
+      expect(res.status).toBe(422);
+      expect(res.body.error.code).toBe('bad_photo');
+      expect(res.body.error.message).toMatch(reason);
+      expect(await PartFile.count()).toBe(before);
+      await waitFor('uploads/tmp is empty', () => tmpFiles().length === 0);
+    });
+  }
+
+  it('a whole photo still goes through and is cleaned', async () => {
+    const res = await submitPhoto('ok.jpg', await jpegWithGps(64, 48));
+    expect(res.status).toBe(201);
+    await t.services.parts.photosSettled();
+    const photo = await PartFile.findOne({ where: { partId: res.body.id, kind: 'photo' } });
+    expect(photo?.processing).toBe('ready');
+    expect(photo?.processingAttempts).toBe(1);
+  });
+});
+
+describe('uploads · names that mislead', () => {
+  type Agent = Awaited<ReturnType<typeof agentFor>>;
+  let agent: Agent;
+  beforeAll(async () => {
+    const { email, password } = await makeUser('member');
+    agent = await agentFor(t.app);
+    await agent.login(email, password);
+  });
+
+  it('bidi controls (U+202E and the rest of UAX #9 §2) are stripped from shown names', async () => {
+    const name = 'invoice\u202Etxt\u2066\u200F\u061C.stl';
+    const res = await agent.post('/api/parts').field('data', JSON.stringify(submission())).attach('model', boxStl(10, 10, 10), name).expect(201);
+    const model = await PartFile.findOne({ where: { partId: res.body.id, kind: 'model' } });
+    expect(model?.originalName).toBe('invoicetxt.stl');
+  });
+
+  it('a model uploaded as "….exe" downloads with its model extension', async () => {
+    const res = await agent.post('/api/parts').field('data', JSON.stringify(submission())).attach('model', boxStl(10, 10, 10), 'invoice\u202Etxt.exe').expect(201);
+    const part = await agent.get(`/api/parts/${res.body.id}`).expect(200);
+    const model = part.body.files.find((f: { kind: string }) => f.kind === 'model');
+    expect(model.name).toBe('invoicetxt.exe.stl');
+    const download = await agent.get(model.downloadUrl);
+    expect(download.status).toBe(200);
+    expect(download.headers['content-disposition']).toMatch(/filename="?invoicetxt\.exe\.stl"?$/);
+  });
+});
+
+describe('uploads · meshes no printer can build', () => {
+  type Agent = Awaited<ReturnType<typeof agentFor>>;
+  let agent: Agent;
+  beforeAll(async () => {
+    const { email, password } = await makeUser('member');
+    agent = await agentFor(t.app);
+    await agent.login(email, password);
+  });
+  const submitModel = (name: string, bytes: Buffer, data: object = submission()) =>
+    agent.post('/api/parts').field('data', JSON.stringify(data)).attach('model', bytes, name);
+
+  it('a cube with 3e38 mm sides is refused with 422 instead of estimating 8e114 mm³', async () => {
+    const res = await submitModel('huge.stl', cubeStl(3e38));
+    expect(res.status).toBe(422);
+    expect(res.body.error.message).toMatch(/3\.00e\+38 × 3\.00e\+38 × 3\.00e\+38 mm, larger than any printer builds \(at most 2,000 mm on a side\)/);
+  });
+
+  it('a part just over 2 m on one side is refused; one just under is accepted', async () => {
+    expect((await submitModel('long.stl', boxStl(2001, 10, 10))).status).toBe(422);
+    expect((await submitModel('shorter.stl', boxStl(1999, 10, 10))).status).toBe(201);
+  });
+
+  it('100 units marked as drawn in inches (2,540 mm) is refused with a hint about the unit', async () => {
+    const res = await submitModel('inches.stl', boxStl(100, 10, 10), submission({ drawnInInches: true }));
+    expect(res.status).toBe(422);
+    expect(res.body.error.message).toMatch(/do not mark it as drawn in inches/);
+  });
+
+  it('a 3MF of about 490 KB whose model part inflates to 480 MiB is refused with 422 before inflating', async () => {
+    const zip = await hugeEntry3mf(480);
+    expect(zip.length).toBeLessThan(500 * 1024);
+    const res = await submitModel('bomb.3mf', zip);
+    expect(res.status).toBe(422);
+    expect(res.body.error.message).toMatch(/would inflate to 480\.0 MB, beyond the 256\.0 MB we unpack/);
+    await waitFor('uploads/tmp is empty', () => tmpFiles().length === 0);
+  });
+
+  it('a 3MF of a few kilobytes whose nested components expand to 120 million triangles is refused with 422', async () => {
+    const zip = Buffer.from(nestedComponents3mf(7, 10));
+    expect(zip.length).toBeLessThan(4096);
+    const res = await submitModel('nested.3mf', zip);
+    expect(res.status).toBe(422);
+    expect(res.body.error.message).toMatch(/expands to 120,000,000 triangles/);
   });
 });
