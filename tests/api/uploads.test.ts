@@ -1,7 +1,7 @@
 // Uploads that go wrong on the client's side: connections that drop mid-body, malformed multipart
 // bodies and hostile file names. These run against a real listening server, since the failures
 // live in the socket, not in the app's handlers.
-import { existsSync, readdirSync } from 'node:fs';
+import { existsSync, readdirSync, writeFileSync } from 'node:fs';
 import { createServer, type Server } from 'node:http';
 import { connect } from 'node:net';
 import type { AddressInfo } from 'node:net';
@@ -243,6 +243,22 @@ describe('uploads · photos are checked before the 201', () => {
       await waitFor('uploads/tmp is empty', () => tmpFiles().length === 0);
     });
   }
+
+  it('a photo left pending after two attempts is marked failed at start-up instead of being resumed again', async () => {
+    const res = await submitPhoto('again.jpg', await jpegWithGps(64, 48));
+    expect(res.status).toBe(201);
+    await t.services.parts.photosSettled();
+    const photo = (await PartFile.findOne({ where: { partId: res.body.id, kind: 'photo' } }))!;
+    // as a crash in the middle of the second try leaves it
+    await photo.update({ processing: 'pending', processingAttempts: 2 });
+    const raw = join(uploadsDir, 'incoming', photo.storedName);
+    writeFileSync(raw, await jpegWithGps(64, 48));
+    await t.services.parts.recover();
+    await t.services.parts.photosSettled();
+    await photo.reload();
+    expect(photo.processing).toBe('failed');
+    expect(existsSync(raw)).toBe(false);
+  });
 
   it('a whole photo still goes through and is cleaned', async () => {
     const res = await submitPhoto('ok.jpg', await jpegWithGps(64, 48));

@@ -42,13 +42,14 @@ type TaskModule = Record<string, (input: never) => unknown>;
 
 export class WorkerPool<Tasks extends TaskModule = typeof import('./worker-tasks')> {
   private readonly pool: Piscina;
+  private active = 0;
 
   constructor(readonly options: WorkerPoolOptions) {
     this.pool = new Piscina({
       filename: BOOT,
       maxThreads: options.maxThreads,
       minThreads: 0,
-      maxQueue: options.maxQueue,
+      // the bound is kept by run(): piscina does not count tasks that carry an abort signal
       idleTimeout: options.idleTimeoutMs ?? 30_000,
       niceIncrement: options.nice ?? 0,
       resourceLimits: { maxOldGenerationSizeMb: options.memoryMb },
@@ -60,17 +61,23 @@ export class WorkerPool<Tasks extends TaskModule = typeof import('./worker-tasks
 
   /** Runs one task; rejects with WorkerTimeoutError, WorkerBusyError or WorkerCrashedError, or the task's own error. */
   async run<K extends keyof Tasks & string>(task: K, input: Parameters<Tasks[K]>[0], timeoutMs = this.options.timeoutMs): Promise<Awaited<ReturnType<Tasks[K]>>> {
+    if (this.active >= this.options.maxThreads + this.options.maxQueue) {
+      throw new WorkerBusyError(`${this.options.name}: ${this.options.maxQueue} tasks are already waiting`);
+    }
+    this.active += 1;
     const signal = AbortSignal.timeout(timeoutMs);
     try {
       return await this.pool.run({ task, input }, { signal });
     } catch (err) {
       throw this.translate(err, signal, timeoutMs);
+    } finally {
+      this.active -= 1;
     }
   }
 
   /** Tasks waiting for a thread plus tasks running. */
   get pending(): number {
-    return this.pool.queueSize + this.pool.threads.length - this.pool.idleThreads;
+    return this.active;
   }
 
   async close(): Promise<void> {
@@ -81,7 +88,6 @@ export class WorkerPool<Tasks extends TaskModule = typeof import('./worker-tasks
     const message = err instanceof Error ? err.message : String(err);
     const code = (err as { code?: string } | null)?.code;
     if (signal.aborted) return new WorkerTimeoutError(`${this.options.name}: the task took longer than ${Math.round(timeoutMs / 1000)} s and was stopped`);
-    if (message === 'Task queue is at limit') return new WorkerBusyError(`${this.options.name}: ${this.options.maxQueue} tasks are already waiting`);
     if (code === 'ERR_WORKER_OUT_OF_MEMORY') return new WorkerCrashedError(`${this.options.name}: the task ran out of memory (${this.options.memoryMb} MB)`);
     if (code?.startsWith('ERR_WORKER') || message.includes('exited')) return new WorkerCrashedError(`${this.options.name}: the worker stopped (${message})`);
     return err;

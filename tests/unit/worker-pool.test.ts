@@ -1,0 +1,43 @@
+import { afterAll, describe, expect, it } from 'vitest';
+import { WorkerBusyError, WorkerCrashedError, WorkerPool, WorkerTimeoutError } from '../../server/modules/files/worker-pool';
+
+type TestTasks = typeof import('../helpers/pool-tasks');
+const tasks = new URL('../helpers/pool-tasks.ts', import.meta.url).href;
+
+const pools: WorkerPool<TestTasks>[] = [];
+function pool(options: Partial<ConstructorParameters<typeof WorkerPool>[0]> = {}) {
+  const p = new WorkerPool<TestTasks>({ name: 'test', maxThreads: 1, maxQueue: 4, memoryMb: 64, timeoutMs: 30_000, tasks, ...options });
+  pools.push(p);
+  return p;
+}
+afterAll(async () => {
+  await Promise.all(pools.map((p) => p.close()));
+});
+
+describe('worker pool (piscina)', () => {
+  it('runs a TypeScript task in a thread and hands back its result', async () => {
+    expect(await pool().run('echo', { value: 21 })).toEqual({ value: 21, doubled: 42 });
+  });
+
+  it('a task past its time limit is stopped with its thread, and the pool goes on with the next task', async () => {
+    const p = pool();
+    await expect(p.run('spin', undefined as never, 300)).rejects.toBeInstanceOf(WorkerTimeoutError);
+    expect(await p.run('echo', { value: 1 })).toEqual({ value: 1, doubled: 2 });
+  });
+
+  it('a task that outgrows the thread memory limit (resourceLimits) fails alone; the next task runs', async () => {
+    const p = pool({ memoryMb: 32 });
+    await expect(p.run('hoard', undefined as never)).rejects.toBeInstanceOf(WorkerCrashedError);
+    expect(await p.run('echo', { value: 2 })).toEqual({ value: 2, doubled: 4 });
+  });
+
+  it('refuses work beyond its queue bound instead of piling it up', async () => {
+    // one thread and one place in the queue: the third task at once is refused
+    const p = pool({ maxQueue: 1, timeoutMs: 1_500 });
+    const outcomes = await Promise.all(Array.from({ length: 3 }, () => p.run('spin', undefined as never).catch((e: unknown) => e)));
+    expect(outcomes[0]).toBeInstanceOf(WorkerTimeoutError);
+    expect(outcomes[1]).toBeInstanceOf(WorkerTimeoutError);
+    expect(outcomes[2]).toBeInstanceOf(WorkerBusyError);
+    expect(p.pending).toBe(0);
+  });
+});
