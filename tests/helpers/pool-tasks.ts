@@ -15,3 +15,11 @@ export function hoard(): number {
   const kept: object[] = [];
   for (;;) kept.push({ index: kept.length, padding: 'x'.repeat(64) + kept.length });
 }
+
+/** Keeps the thread busy for `ms` of wall-clock time, as a real analysis would. */
+export function busy({ ms }: { ms: number }): number {
+  const until = Date.now() + ms;
+  let turns = 0;
+  while (Date.now() < until) turns += 1;
+  return turns;
+}

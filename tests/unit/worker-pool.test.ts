@@ -31,6 +31,14 @@ describe('worker pool (piscina)', () => {
     expect(await p.run('echo', { value: 2 })).toEqual({ value: 2, doubled: 4 });
   });
 
+  it('the time limit starts when a thread takes the task, so waiting in the queue is not held against it', async () => {
+    // six 300 ms tasks on one thread: the last waits 1.5 s in all, each runs far inside its 1.5 s limit
+    const p = pool({ timeoutMs: 1_500, maxQueue: 8 });
+    await p.run('echo', { value: 0 }); // the thread is up
+    const outcomes = await Promise.allSettled(Array.from({ length: 6 }, () => p.run('busy', { ms: 300 })));
+    expect(outcomes.map((o) => o.status)).toEqual(Array(6).fill('fulfilled'));
+  });
+
   it('refuses work beyond its queue bound instead of piling it up', async () => {
     // one thread and one place in the queue: the third task at once is refused
     const p = pool({ maxQueue: 1, timeoutMs: 1_500 });

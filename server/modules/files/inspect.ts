@@ -22,7 +22,7 @@ export const CHECK_POOL: WorkerPoolOptions = {
   name: 'upload checks',
   // the bound on analyses at once: leave a core to the event loop and the database
   maxThreads: Math.max(1, Math.min(4, availableParallelism() - 1)),
-  maxQueue: 48,
+  maxQueue: 96,
   // a 3MF's model XML is decoded into one string on the heap (up to MODEL_LIMITS.maxUnpackedBytes)
   memoryMb: 1024,
   timeoutMs: 120_000,

@@ -42,14 +42,16 @@ type TaskModule = Record<string, (input: never) => unknown>;
 
 export class WorkerPool<Tasks extends TaskModule = typeof import('./worker-tasks')> {
   private readonly pool: Piscina;
-  private active = 0;
+  private running = 0;
+  // Tasks wait here, not in piscina's queue, so the time limit starts when a thread takes the task
+  // (a long queue must not be blamed on the file) and the queue bound holds.
+  private readonly waiting: (() => void)[] = [];
 
   constructor(readonly options: WorkerPoolOptions) {
     this.pool = new Piscina({
       filename: BOOT,
       maxThreads: options.maxThreads,
       minThreads: 0,
-      // the bound is kept by run(): piscina does not count tasks that carry an abort signal
       idleTimeout: options.idleTimeoutMs ?? 30_000,
       niceIncrement: options.nice ?? 0,
       resourceLimits: { maxOldGenerationSizeMb: options.memoryMb },
@@ -61,23 +63,38 @@ export class WorkerPool<Tasks extends TaskModule = typeof import('./worker-tasks
 
   /** Runs one task; rejects with WorkerTimeoutError, WorkerBusyError or WorkerCrashedError, or the task's own error. */
   async run<K extends keyof Tasks & string>(task: K, input: Parameters<Tasks[K]>[0], timeoutMs = this.options.timeoutMs): Promise<Awaited<ReturnType<Tasks[K]>>> {
-    if (this.active >= this.options.maxThreads + this.options.maxQueue) {
-      throw new WorkerBusyError(`${this.options.name}: ${this.options.maxQueue} tasks are already waiting`);
-    }
-    this.active += 1;
+    await this.takeThread();
     const signal = AbortSignal.timeout(timeoutMs);
     try {
       return await this.pool.run({ task, input }, { signal });
     } catch (err) {
       throw this.translate(err, signal, timeoutMs);
     } finally {
-      this.active -= 1;
+      this.releaseThread();
     }
   }
 
   /** Tasks waiting for a thread plus tasks running. */
   get pending(): number {
-    return this.active;
+    return this.running + this.waiting.length;
+  }
+
+  private async takeThread(): Promise<void> {
+    if (this.running < this.options.maxThreads) {
+      this.running += 1;
+      return;
+    }
+    if (this.waiting.length >= this.options.maxQueue) {
+      throw new WorkerBusyError(`${this.options.name}: ${this.options.maxQueue} tasks are already waiting`);
+    }
+    // the finishing task hands its thread over, so `running` stays as it is
+    await new Promise<void>((resolve) => this.waiting.push(resolve));
+  }
+
+  private releaseThread(): void {
+    const next = this.waiting.shift();
+    if (next) next();
+    else this.running -= 1;
   }
 
   async close(): Promise<void> {
