@@ -84,4 +84,13 @@ describe('photo jobs · attempts', () => {
     expect(row.processing).toBe('failed');
     expect(existsSync(raw)).toBe(false);
   });
+
+  it('a photo interrupted by shutdown stays waiting, and the try does not count', async () => {
+    const queue = scriptedQueue([{ ok: false, error: 'the pool was closed', permanent: false, interrupted: true }]);
+    const row = fakeRow(1);
+    const raw = rawPhoto('interrupted');
+    await run(queue, row, 'interrupted');
+    expect(row).toMatchObject({ processing: 'pending', processingAttempts: 1 });
+    expect(existsSync(raw)).toBe(true);
+  });
 });

@@ -1,5 +1,5 @@
 import { afterAll, describe, expect, it } from 'vitest';
-import { WorkerBusyError, WorkerCrashedError, WorkerPool, WorkerTimeoutError } from '../../server/modules/files/worker-pool';
+import { WorkerBusyError, WorkerClosedError, WorkerCrashedError, WorkerPool, WorkerTimeoutError } from '../../server/modules/files/worker-pool';
 
 type TestTasks = typeof import('../helpers/pool-tasks');
 const tasks = new URL('../helpers/pool-tasks.ts', import.meta.url).href;
@@ -47,5 +47,17 @@ describe('worker pool (piscina)', () => {
     expect(outcomes[1]).toBeInstanceOf(WorkerTimeoutError);
     expect(outcomes[2]).toBeInstanceOf(WorkerBusyError);
     expect(p.pending).toBe(0);
+  });
+
+  it('closing the pool rejects running and waiting tasks as closed, not as failures of the task', async () => {
+    const p = pool({ timeoutMs: 10_000 });
+    await p.run('echo', { value: 0 });
+    const running = p.run('busy', { ms: 5_000 }).catch((e: unknown) => e);
+    const waiting = p.run('echo', { value: 1 }).catch((e: unknown) => e);
+    await new Promise((r) => setTimeout(r, 100));
+    await p.close();
+    expect(await running).toBeInstanceOf(WorkerClosedError);
+    expect(await waiting).toBeInstanceOf(WorkerClosedError);
+    await expect(p.run('echo', { value: 2 })).rejects.toBeInstanceOf(WorkerClosedError);
   });
 });

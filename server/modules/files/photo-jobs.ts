@@ -62,6 +62,11 @@ export class PhotoJobs {
       }
       await current.update({ processingAttempts: current.processingAttempts + 1 });
       const result = await this.queue.process({ source: paths.original, display: paths.display!, thumbnail: paths.thumbnail! });
+      // shutting down: the try does not count, and the start-up sweep resumes the photo
+      if (!result.ok && result.interrupted) {
+        await current.update({ processingAttempts: current.processingAttempts - 1 });
+        return;
+      }
       const after = await reload();
       if (!after) {
         await removeQuietly(paths.original, ...outputs);

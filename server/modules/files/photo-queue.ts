@@ -1,7 +1,7 @@
 // Photos are cleaned off the request path, in their own worker pool: one thread takes jobs in
 // order, so a burst of uploads never blocks the event loop or runs more than one decode at a time.
 import type { PhotoJob, PhotoResult } from './photo-worker';
-import { WorkerPool, type WorkerPoolOptions } from './worker-pool';
+import { WorkerClosedError, WorkerPool, type WorkerPoolOptions } from './worker-pool';
 
 export const PHOTO_POOL: WorkerPoolOptions = {
   name: 'photo cleaning',
@@ -26,6 +26,7 @@ export class PhotoQueue {
     try {
       return await this.pool.run('processPhoto', job);
     } catch (err) {
+      if (err instanceof WorkerClosedError) return { ok: false, error: err.message, permanent: false, interrupted: true };
       // a timeout, a thread that ran out of memory or died: perhaps the machine, perhaps the photo
       return { ok: false, error: err instanceof Error ? err.message : String(err), permanent: false };
     }

@@ -14,8 +14,11 @@ export interface PhotoJob {
   thumbnail: string;
 }
 
-/** `permanent`: the photo itself is at fault, so trying again would fail again. */
-export type PhotoResult = { ok: true; width: number; height: number } | { ok: false; error: string; permanent: boolean };
+/**
+ * `permanent`: the photo itself is at fault, so trying again would fail again. `interrupted`: the
+ * queue closed (shutdown) first; the photo stays waiting for the next start.
+ */
+export type PhotoResult = { ok: true; width: number; height: number } | { ok: false; error: string; permanent: boolean; interrupted?: boolean };
 
 export type PhotoCheck = { ok: true; width: number; height: number } | { ok: false; reason: string };
 

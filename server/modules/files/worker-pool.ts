@@ -15,6 +15,10 @@ export class WorkerTimeoutError extends Error {
 export class WorkerBusyError extends Error {
   name = 'WorkerBusyError';
 }
+/** The pool was closed (shutdown) before the task could finish; nothing is wrong with the task. */
+export class WorkerClosedError extends Error {
+  name = 'WorkerClosedError';
+}
 /** The thread died under the task: out of memory, or a crash in native code. */
 export class WorkerCrashedError extends Error {
   name = 'WorkerCrashedError';
@@ -45,7 +49,8 @@ export class WorkerPool<Tasks extends TaskModule = typeof import('./worker-tasks
   private running = 0;
   // Tasks wait here, not in piscina's queue, so the time limit starts when a thread takes the task
   // (a long queue must not be blamed on the file) and the queue bound holds.
-  private readonly waiting: (() => void)[] = [];
+  private readonly waiting: { resolve(): void; reject(err: Error): void }[] = [];
+  private closed = false;
 
   constructor(readonly options: WorkerPoolOptions) {
     this.pool = new Piscina({
@@ -63,6 +68,7 @@ export class WorkerPool<Tasks extends TaskModule = typeof import('./worker-tasks
 
   /** Runs one task; rejects with WorkerTimeoutError, WorkerBusyError or WorkerCrashedError, or the task's own error. */
   async run<K extends keyof Tasks & string>(task: K, input: Parameters<Tasks[K]>[0], timeoutMs = this.options.timeoutMs): Promise<Awaited<ReturnType<Tasks[K]>>> {
+    if (this.closed) throw new WorkerClosedError(`${this.options.name}: the pool is closed`);
     await this.takeThread();
     const signal = AbortSignal.timeout(timeoutMs);
     try {
@@ -88,22 +94,26 @@ export class WorkerPool<Tasks extends TaskModule = typeof import('./worker-tasks
       throw new WorkerBusyError(`${this.options.name}: ${this.options.maxQueue} tasks are already waiting`);
     }
     // the finishing task hands its thread over, so `running` stays as it is
-    await new Promise<void>((resolve) => this.waiting.push(resolve));
+    await new Promise<void>((resolve, reject) => this.waiting.push({ resolve, reject }));
   }
 
   private releaseThread(): void {
     const next = this.waiting.shift();
-    if (next) next();
+    if (next) next.resolve();
     else this.running -= 1;
   }
 
+  /** Stops the threads; tasks still waiting or running reject with WorkerClosedError. */
   async close(): Promise<void> {
+    this.closed = true;
+    for (const task of this.waiting.splice(0)) task.reject(new WorkerClosedError(`${this.options.name}: the pool was closed`));
     await this.pool.destroy();
   }
 
   private translate(err: unknown, signal: AbortSignal, timeoutMs: number): unknown {
     const message = err instanceof Error ? err.message : String(err);
     const code = (err as { code?: string } | null)?.code;
+    if (this.closed) return new WorkerClosedError(`${this.options.name}: the pool was closed`);
     if (signal.aborted) return new WorkerTimeoutError(`${this.options.name}: the task took longer than ${Math.round(timeoutMs / 1000)} s and was stopped`);
     if (code === 'ERR_WORKER_OUT_OF_MEMORY') return new WorkerCrashedError(`${this.options.name}: the task ran out of memory (${this.options.memoryMb} MB)`);
     if (code?.startsWith('ERR_WORKER') || message.includes('exited')) return new WorkerCrashedError(`${this.options.name}: the worker stopped (${message})`);
