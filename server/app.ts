@@ -17,6 +17,7 @@ import { createAuthService } from './modules/auth/service';
 import { createTokenService } from './modules/auth/tokens';
 import { healthRoutes } from './modules/health/routes';
 import { createDatabaseWatch } from './modules/health/watch';
+import { closeCheckPool } from './modules/files/inspect';
 import { PhotoJobs } from './modules/files/photo-jobs';
 import { PhotoQueue } from './modules/files/photo-queue';
 import { uploadDirs } from './modules/files/storage';
@@ -160,10 +161,11 @@ export function createApp({ config, sequelize, mailer }: AppContext) {
   return {
     app,
     services: { parts, review, evidence, dirs, search },
-    /** Waits for photo work in hand, then stops the worker and the session store's expiry sweep. */
+    /** Waits for photo work in hand, then stops the worker pools and the session store's expiry sweep. */
     async close() {
       await parts.photosSettled();
       await photos.close();
+      await closeCheckPool();
       await search.close();
       (store as unknown as { stopExpiringSessions(): void }).stopExpiringSessions();
     },

@@ -10,6 +10,7 @@ import { StartupError, waitForDatabase } from './db/wait';
 import { logLoopLag } from './loop-lag';
 import { trackConnections } from './shutdown';
 import { createMailer } from './modules/mail/outbox';
+import { keepRunningOnUnhandledRejections } from './process-safety';
 
 export interface RunningServer {
   server: Server;
@@ -29,6 +30,7 @@ export function drainBudgetMs(shutdownTimeoutMs: number): number {
 }
 
 export async function startServer(config: Config): Promise<RunningServer> {
+  keepRunningOnUnhandledRejections();
   const sequelize = createSequelize(config);
   await waitForDatabase(sequelize, { host: config.DB_HOST, port: config.DB_PORT, waitSeconds: config.DB_WAIT_S });
   const migrations = await migrate(sequelize);

@@ -1,3 +1,4 @@
+import { MODEL_LIMITS } from '../uploads';
 import { detectStlFormat, declaredFacetCount, nonFiniteFacet, readAsciiStl, readBinaryStl } from './stl';
 import { isZip, read3mf } from './threemf';
 import {
@@ -371,9 +372,13 @@ export function analyseTriangles(positions: Float32Array | Float64Array, options
 
 /** Reads an STL or 3MF file and analyses it; throws MeshError with a contributor-facing message when it cannot. */
 export function analyseModelFile(bytes: Uint8Array, options: AnalyseFileOptions = {}): ModelFileAnalysis {
+  return checkPrintableSize(readAndAnalyse(bytes, options));
+}
+
+function readAndAnalyse(bytes: Uint8Array, options: AnalyseFileOptions): ModelFileAnalysis {
   const format = options.format ?? (isZip(bytes) ? '3mf' : 'stl');
   if (format === '3mf') {
-    const model = read3mf(bytes, { maxUncompressedBytes: options.maxUncompressedBytes });
+    const model = read3mf(bytes, { maxUncompressedBytes: options.maxUncompressedBytes, maxTriangles: options.maxTriangles });
     const acc = new MeshAccumulator(model.triangleCount);
     model.emit(acc);
     return { ...acc.finish(model.unitScale), format: '3mf', unitScale: model.unitScale };
@@ -389,4 +394,23 @@ export function analyseModelFile(bytes: Uint8Array, options: AnalyseFileOptions 
   const acc = new MeshAccumulator(bytes.length / 256);
   readAsciiStl(bytes, acc);
   return { ...acc.finish(unitScale), format: stlFormat, unitScale };
+}
+
+const sizeText = (mm: number) => (mm < 1e6 ? `${Math.round(mm).toLocaleString('en-US')}` : mm.toPrecision(3));
+
+/** A mesh larger than any printer, or with figures that overflowed, is a units mistake or a forgery. */
+function checkPrintableSize(analysis: ModelFileAnalysis): ModelFileAnalysis {
+  const limit = MODEL_LIMITS.maxExtentMm;
+  const figures = [...analysis.sizeMm, analysis.volumeMm3, analysis.areaMm2];
+  if (figures.some((x) => !Number.isFinite(x))) {
+    throw new MeshError('non_finite', 'The mesh is so large that its size, area or volume cannot be computed; the file is broken — export the part again.');
+  }
+  if (Math.max(...analysis.sizeMm) > limit) {
+    const inches = analysis.unitScale === MM_PER_INCH ? ' If it was drawn in millimetres, do not mark it as drawn in inches.' : '';
+    throw new MeshError(
+      'implausible_size',
+      `The part measures ${analysis.sizeMm.map(sizeText).join(' × ')} mm, larger than any printer builds (at most ${limit.toLocaleString('en-US')} mm on a side). Check the units it was exported in.${inches}`,
+    );
+  }
+  return analysis;
 }

@@ -1,4 +1,5 @@
-import { type UnzipFileFilter, unzipSync } from 'fflate';
+import { Inflate } from 'fflate';
+import { MODEL_LIMITS } from '../uploads';
 import { describeNonMeshBytes, PositionCollector } from './stl';
 import { type FacetSink, MeshError } from './types';
 
@@ -17,15 +18,20 @@ const MODEL_RELATIONSHIP = 'http://schemas.microsoft.com/3dmanufacturing/2013/01
 const CORE_NAMESPACE = 'http://schemas.microsoft.com/3dmanufacturing/core/2015/02';
 const DEFAULT_MODEL_PART = '3D/3dmodel.model';
 const ROOT_RELS_PART = '_rels/.rels';
-const DEFAULT_MAX_UNCOMPRESSED = 512 * 1024 * 1024;
-const DEFAULT_MAX_TRIANGLES = 25_000_000;
+// The caps are what a printable part needs (see MODEL_LIMITS for the reasoning).
+const DEFAULT_MAX_UNCOMPRESSED = MODEL_LIMITS.maxUnpackedBytes;
+const DEFAULT_MAX_TRIANGLES = MODEL_LIMITS.maxTriangles;
 // Deflate cannot do better than about 1032:1, so a larger declared ratio means the sizes lie.
 const MAX_COMPRESSION_RATIO = 1100;
+// Real exporters nest components two or three deep; the bound keeps the recursion off the stack limit.
+const MAX_COMPONENT_DEPTH = 32;
+// Compressed bytes handed to the inflater at a time: at most ~17 MB of output before the budget is checked again.
+const INFLATE_CHUNK = 16 * 1024;
 
 export interface Read3mfOptions {
-  /** Refuse the archive if the entries read would inflate beyond this many bytes. Default 512 MiB. */
+  /** Refuse the archive if the entries read would inflate beyond this many bytes. Default MODEL_LIMITS.maxUnpackedBytes. */
   maxUncompressedBytes?: number;
-  /** Refuse builds that expand (through repeated items and components) beyond this many triangles. Default 25 million. */
+  /** Refuse builds that expand (through repeated items and components) beyond this many triangles. Default MODEL_LIMITS.maxTriangles. */
   maxTriangles?: number;
 }
 
@@ -54,29 +60,33 @@ export function read3mf(bytes: Uint8Array, options: Read3mfOptions = {}): ThreeM
     );
   }
   const zip = new ZipReader(bytes, options.maxUncompressedBytes ?? DEFAULT_MAX_UNCOMPRESSED);
+  const maxTriangles = options.maxTriangles ?? DEFAULT_MAX_TRIANGLES;
   const rootPath = rootModelPart(zip);
   const parts = new Map<string, ModelPart>();
+  // triangles stored in the model parts, counted while reading so a huge raw mesh stops early
+  const stored = { triangles: 0, max: maxTriangles };
   const loadPart = (path: string): ModelPart => {
     let part = parts.get(path);
     if (!part) {
       const name = zip.find(path);
       if (!name) throw new MeshError('no_model', `The 3MF refers to a model part "${path}" that is not in the archive; export it again.`);
-      part = parseModelPart(new TextDecoder().decode(zip.read(name)), name);
+      part = parseModelPart(new TextDecoder().decode(zip.read(name)), name, stored);
       parts.set(path, part);
     }
     return part;
   };
   const root = loadPart(rootPath);
   const build = new BuildResolver(root, rootPath, loadPart);
+  // counted from the object graph (components × build items) before a single triangle is placed
   const triangleCount = build.countTriangles();
   if (triangleCount === 0) {
     throw new MeshError('no_triangles', 'The 3MF model has no triangles to print (its build is empty or its objects have no mesh); export it again.');
   }
-  const maxTriangles = options.maxTriangles ?? DEFAULT_MAX_TRIANGLES;
   if (triangleCount > maxTriangles) {
+    const shown = triangleCount < 1e15 ? triangleCount.toLocaleString('en-US') : 'more than a quadrillion';
     throw new MeshError(
       'too_large',
-      `The 3MF build expands to ${triangleCount.toLocaleString('en-US')} triangles, more than the ${maxTriangles.toLocaleString('en-US')} we accept; simplify the mesh or reduce repeated copies.`,
+      `The 3MF build expands to ${shown} triangles, more than the ${maxTriangles.toLocaleString('en-US')} we accept; simplify the mesh or reduce repeated copies.`,
     );
   }
   return { unit: root.unit, unitScale: THREEMF_UNIT_MM[root.unit], triangleCount, emit: (sink) => build.emit(sink) };
@@ -99,9 +109,23 @@ export function parse3mf(bytes: Uint8Array, options: Read3mfOptions = {}): Parse
 // ---------------------------------------------------------------------------
 // The ZIP container
 
-/** Reads single entries on demand, refusing any that would inflate past the budget (zip bombs). */
+interface ZipEntry {
+  name: string;
+  method: number;
+  flags: number;
+  compressedSize: number;
+  originalSize: number;
+  localHeader: number;
+}
+
+/**
+ * Reads single entries on demand, refusing any that would inflate past the budget (zip bombs):
+ * declared sizes are checked before inflating, and inflating stops as soon as an entry outgrows
+ * what it declared, so a lying header cannot make it run on.
+ */
 class ZipReader {
-  readonly names: string[] = [];
+  readonly names: string[];
+  private readonly entries: Map<string, ZipEntry>;
   private remaining: number;
 
   constructor(
@@ -109,49 +133,154 @@ class ZipReader {
     private readonly maxBytes: number,
   ) {
     this.remaining = maxBytes;
-    unzipped(bytes, (file) => {
-      this.names.push(file.name);
-      return false;
-    });
+    this.entries = readCentralDirectory(bytes);
+    this.names = [...this.entries.keys()];
   }
 
   /** The entry's real name, matched case-insensitively as OPC part names are. */
   find(path: string): string | undefined {
-    if (this.names.includes(path)) return path;
+    if (this.entries.has(path)) return path;
     const lower = path.toLowerCase();
     return this.names.find((name) => name.toLowerCase() === lower);
   }
 
   read(name: string): Uint8Array {
-    const files = unzipped(this.bytes, (file) => {
-      if (file.name !== name) return false;
-      if (file.originalSize > this.remaining) {
-        throw new MeshError(
-          'zip_bomb',
-          `The 3MF entry "${name}" would inflate to ${mb(file.originalSize)}, beyond the ${mb(this.maxBytes)} we unpack; the file is refused.`,
-        );
-      }
-      if (file.size > 0 && file.originalSize / file.size > MAX_COMPRESSION_RATIO) {
-        throw new MeshError(
-          'zip_bomb',
-          `The 3MF entry "${name}" claims to inflate ${Math.round(file.originalSize / file.size).toLocaleString('en-US')} times its stored size, which no real model does; the file is refused.`,
-        );
-      }
-      this.remaining -= file.originalSize;
-      return true;
-    });
-    return files[name];
+    const entry = this.entries.get(name)!;
+    if (entry.originalSize > this.remaining) {
+      throw new MeshError(
+        'zip_bomb',
+        `The 3MF entry "${name}" would inflate to ${mb(entry.originalSize)}, beyond the ${mb(this.maxBytes)} we unpack; the file is refused.`,
+      );
+    }
+    if (entry.compressedSize > 0 && entry.originalSize / entry.compressedSize > MAX_COMPRESSION_RATIO) {
+      throw new MeshError(
+        'zip_bomb',
+        `The 3MF entry "${name}" claims to inflate ${Math.round(entry.originalSize / entry.compressedSize).toLocaleString('en-US')} times its stored size, which no real model does; the file is refused.`,
+      );
+    }
+    this.remaining -= entry.originalSize;
+    const data = entryData(this.bytes, entry);
+    if (entry.method === 0) {
+      if (data.length !== entry.originalSize) throw damaged(`entry "${name}" is stored with the wrong size`);
+      return data;
+    }
+    if (entry.method !== 8) throw damaged(`entry "${name}" uses compression method ${entry.method}, which 3MF does not allow`);
+    return inflateWithin(data, entry.originalSize, name);
   }
 }
 
-function unzipped(bytes: Uint8Array, filter: UnzipFileFilter) {
+const damaged = (detail: string) => new MeshError('bad_zip', `The 3MF archive is damaged and cannot be unpacked (${detail}); export it again.`);
+
+// ZIP structures after PKWARE's APPNOTE.TXT 6.3: end of central directory (4.3.16), its ZIP64
+// locator and record (4.3.14–15), central directory headers (4.3.12), the ZIP64 extra field (4.5.3)
+// and local file headers (4.3.7).
+const EOCD = 0x06054b50;
+const ZIP64_LOCATOR = 0x07064b50;
+const ZIP64_EOCD = 0x06064b50;
+const CENTRAL_HEADER = 0x02014b50;
+const LOCAL_HEADER = 0x04034b50;
+const MAX32 = 0xffffffff;
+
+function readCentralDirectory(bytes: Uint8Array): Map<string, ZipEntry> {
+  const view = new DataView(bytes.buffer, bytes.byteOffset, bytes.byteLength);
+  const u16 = (at: number) => view.getUint16(at, true);
+  const u32 = (at: number) => view.getUint32(at, true);
+  const u64 = (at: number) => Number(view.getBigUint64(at, true));
+  const need = (at: number, length: number) => {
+    if (at < 0 || at + length > bytes.length) throw damaged('a directory record points past the end of the file');
+  };
+
+  let eocd = -1;
+  for (let at = bytes.length - 22; at >= 0 && at >= bytes.length - 22 - 0xffff; at--) {
+    if (u32(at) === EOCD) {
+      eocd = at;
+      break;
+    }
+  }
+  if (eocd < 0) throw damaged('no end of central directory; the file is cut off or not a ZIP');
+  let count = u16(eocd + 10);
+  let offset = u32(eocd + 16);
+  if (eocd >= 20 && u32(eocd - 20) === ZIP64_LOCATOR) {
+    const record = u64(eocd - 12);
+    need(record, 56);
+    if (u32(record) !== ZIP64_EOCD) throw damaged('the ZIP64 directory record is missing');
+    count = u64(record + 32);
+    offset = u64(record + 48);
+  }
+
+  const entries = new Map<string, ZipEntry>();
+  for (let i = 0, at = offset; i < count; i++) {
+    need(at, 46);
+    if (u32(at) !== CENTRAL_HEADER) throw damaged('a central directory header is missing');
+    const flags = u16(at + 8);
+    const nameLength = u16(at + 28);
+    const extraLength = u16(at + 30);
+    const commentLength = u16(at + 32);
+    need(at + 46, nameLength + extraLength);
+    const nameBytes = bytes.subarray(at + 46, at + 46 + nameLength);
+    const name = flags & 0x800 ? new TextDecoder().decode(nameBytes) : String.fromCharCode(...nameBytes);
+    const entry: ZipEntry = { name, flags, method: u16(at + 10), compressedSize: u32(at + 20), originalSize: u32(at + 24), localHeader: u32(at + 42) };
+    if (entry.originalSize === MAX32 || entry.compressedSize === MAX32 || entry.localHeader === MAX32) {
+      readZip64Extra(view, at + 46 + nameLength, extraLength, entry);
+    }
+    if (flags & 0x1) throw damaged(`entry "${name}" is encrypted`);
+    entries.set(name, entry);
+    at += 46 + nameLength + extraLength + commentLength;
+  }
+  return entries;
+}
+
+function readZip64Extra(view: DataView, start: number, length: number, entry: ZipEntry): void {
+  for (let at = start; at + 4 <= start + length; ) {
+    const id = view.getUint16(at, true);
+    const size = view.getUint16(at + 2, true);
+    if (id === 0x0001) {
+      let field = at + 4;
+      const next = () => {
+        if (field + 8 > at + 4 + size) throw damaged(`the ZIP64 sizes of entry "${entry.name}" are incomplete`);
+        const value = Number(view.getBigUint64(field, true));
+        field += 8;
+        return value;
+      };
+      if (entry.originalSize === MAX32) entry.originalSize = next();
+      if (entry.compressedSize === MAX32) entry.compressedSize = next();
+      if (entry.localHeader === MAX32) entry.localHeader = next();
+      return;
+    }
+    at += 4 + size;
+  }
+  throw damaged(`entry "${entry.name}" lacks its ZIP64 sizes`);
+}
+
+function entryData(bytes: Uint8Array, entry: ZipEntry): Uint8Array {
+  const at = entry.localHeader;
+  const view = new DataView(bytes.buffer, bytes.byteOffset, bytes.byteLength);
+  if (at + 30 > bytes.length || view.getUint32(at, true) !== LOCAL_HEADER) throw damaged(`the local header of entry "${entry.name}" is missing`);
+  const start = at + 30 + view.getUint16(at + 26, true) + view.getUint16(at + 28, true);
+  if (start + entry.compressedSize > bytes.length) throw damaged(`entry "${entry.name}" is cut off`);
+  return bytes.subarray(start, start + entry.compressedSize);
+}
+
+/** Inflates a DEFLATE entry in small steps, stopping as soon as it outgrows its declared size. */
+function inflateWithin(data: Uint8Array, declared: number, name: string): Uint8Array {
+  const out = new Uint8Array(declared);
+  let length = 0;
+  const inflater = new Inflate((chunk) => {
+    if (length + chunk.length > declared) {
+      throw new MeshError('zip_bomb', `The 3MF entry "${name}" inflates beyond the ${mb(declared)} its directory declares, so its sizes lie; the file is refused.`);
+    }
+    out.set(chunk, length);
+    length += chunk.length;
+  });
   try {
-    return unzipSync(bytes, { filter });
+    if (data.length === 0) inflater.push(data, true);
+    for (let at = 0; at < data.length; at += INFLATE_CHUNK) inflater.push(data.subarray(at, at + INFLATE_CHUNK), at + INFLATE_CHUNK >= data.length);
   } catch (error) {
     if (error instanceof MeshError) throw error;
-    const detail = error instanceof Error ? error.message : String(error);
-    throw new MeshError('bad_zip', `The 3MF archive is damaged and cannot be unpacked (${detail}); export it again.`);
+    throw damaged(error instanceof Error ? error.message : String(error));
   }
+  if (length !== declared) throw damaged(`entry "${name}" inflates to ${length} bytes, not the ${declared} its directory declares`);
+  return out;
 }
 
 const mb = (bytes: number) => `${(bytes / (1024 * 1024)).toFixed(1)} MB`;
@@ -259,8 +388,8 @@ interface ModelPart {
   items: Placement[];
 }
 
-function parseModelPart(xml: string, partPath: string): ModelPart {
-  const builder = new ModelPartBuilder(partPath);
+function parseModelPart(xml: string, partPath: string, stored: { triangles: number; max: number }): ModelPart {
+  const builder = new ModelPartBuilder(partPath, stored);
   scanXml(
     xml,
     (name, attrText) => builder.open(name, attrText),
@@ -278,7 +407,10 @@ class ModelPartBuilder {
   private readonly corePrefixes = new Set<string>();
   private current: { id: string; vertices: NumberList; triangles: NumberList; components: Placement[] } | null = null;
 
-  constructor(private readonly partPath: string) {}
+  constructor(
+    private readonly partPath: string,
+    private readonly stored: { triangles: number; max: number },
+  ) {}
 
   open(qualified: string, attrText: string): void {
     if (this.stack.length === 0) this.learnPrefixes(attrText);
@@ -298,6 +430,9 @@ class ModelPartBuilder {
       const attrs = parseAttributes(attrText);
       const list = this.current.triangles;
       const index = list.length / 3;
+      if (++this.stored.triangles > this.stored.max) {
+        throw new MeshError('too_large', `The 3MF model stores more than ${this.stored.max.toLocaleString('en-US')} triangles, the most we accept; simplify the mesh.`);
+      }
       list.push(this.index(attrs, 'v1', index));
       list.push(this.index(attrs, 'v2', index));
       list.push(this.index(attrs, 'v3', index));
@@ -482,6 +617,9 @@ class BuildResolver {
     if (known !== undefined) return known;
     if (visiting.has(def)) {
       throw new MeshError('component_cycle', `Object ${def.id} in the 3MF model contains itself through its components; the file is damaged — export it again.`);
+    }
+    if (visiting.size >= MAX_COMPONENT_DEPTH) {
+      throw new MeshError('too_deep', `The 3MF model nests components more than ${MAX_COMPONENT_DEPTH} deep, which no printable part needs; flatten it and export it again.`);
     }
     visiting.add(def);
     let total = def.triangles.length / 3;

@@ -48,8 +48,10 @@ export interface AnalyseFileOptions {
   format?: 'stl' | '3mf';
   /** STL carries no unit; set this when the part was drawn in inches (scales by exactly 25.4). Ignored for 3MF, which declares its unit. */
   drawnInInches?: boolean;
-  /** 3MF only: refuse archives whose entries would inflate beyond this many bytes. Default 512 MiB. */
+  /** 3MF only: refuse archives whose entries would inflate beyond this many bytes. Default MODEL_LIMITS.maxUnpackedBytes. */
   maxUncompressedBytes?: number;
+  /** 3MF only: refuse builds that expand beyond this many triangles. Default MODEL_LIMITS.maxTriangles. */
+  maxTriangles?: number;
 }
 
 /** Receives triangles one at a time, so readers need not build a position array. */
@@ -82,6 +84,8 @@ export type MeshErrorCode =
   | 'unknown_object'
   | 'component_cycle'
   | 'too_large'
+  | 'too_deep'
+  | 'implausible_size'
   | 'no_triangles';
 
 /** A file that cannot be analysed; `message` is written for the contributor who uploaded it. */

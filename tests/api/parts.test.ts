@@ -262,12 +262,13 @@ describe('parts · photos', () => {
     expect(filesOnDisk().filter((f) => f.startsWith('incoming/'))).toEqual([]);
   });
 
-  it('marks an undecodable photo as failed without losing the part', async () => {
+  it('refuses an undecodable photo at upload with 422 instead of keeping a failed row', async () => {
+    const before = await snapshot();
     const broken = Buffer.concat([Buffer.from([0xff, 0xd8, 0xff, 0xe0]), Buffer.alloc(200, 7)]);
-    const { body } = await submit(author, { photos: [{ name: 'broken.jpg', bytes: broken }] }).expect(201);
-    await t.services.parts.photosSettled();
-    const part = await author.get(`/api/parts/${body.id}`);
-    expect(part.body.files.find((f: { kind: string }) => f.kind === 'photo').processing).toBe('failed');
+    const res = await submit(author, { photos: [{ name: 'broken.jpg', bytes: broken }] });
+    expect(res.status).toBe(422);
+    expect(res.body.error.message).toMatch(/broken\.jpg: .*cannot/);
+    expect(await snapshot()).toEqual(before);
   });
 });
 

@@ -1,6 +1,7 @@
 import { zipSync } from 'fflate';
 import { describe, expect, it } from 'vitest';
 import { analyseModelFile, MeshError, type MeshErrorCode, parse3mf } from '../../shared/mesh/index';
+import { deeplyNested3mf, nestedComponents3mf } from '../helpers/threemf';
 
 // 3MF packages are built here with fflate, following the 3MF Core Specification: an OPC ZIP with
 // [Content_Types].xml, _rels/.rels pointing at the model part, and <model>/<resources>/<build>.
@@ -224,7 +225,7 @@ describe('refused 3MF files', () => {
 
   it('an entry declaring a huge size (zip bomb) is refused before inflating', () => {
     const bomb = declareSize(cube3mf(10, 'millimeter'), '3D/3dmodel.model', 4_000_000_000);
-    expectFailure(bomb, 'zip_bomb', /would inflate to 3814\.7 MB, beyond the 512\.0 MB we unpack/);
+    expectFailure(bomb, 'zip_bomb', /would inflate to 3814\.7 MB, beyond the 256\.0 MB we unpack/);
   });
 
   it('an entry whose declared size is beyond what deflate can reach', () => {
@@ -291,5 +292,30 @@ describe('refused 3MF files', () => {
 
   it('a model part that is not model XML', () => {
     expectFailure(package3mf('<hello/>'), 'no_model', /is not 3MF model XML/);
+  });
+});
+
+describe('3MF caps for a printable part (shared/uploads.ts MODEL_LIMITS)', () => {
+  it('nested components that expand to 120 million triangles are refused from the object graph, before any geometry is built', () => {
+    // 12 × 10^7: a cube placed 10 times in each of 7 nested levels
+    expectFailure(nestedComponents3mf(7, 10), 'too_large', /expands to 120,000,000 triangles, more than the 2,500,000 we accept/);
+  });
+
+  it('modest nesting is still analysed in full: 12 × 10³ triangles', () => {
+    expect(analyseModelFile(nestedComponents3mf(3, 10)).facets).toBe(12_000);
+  });
+
+  it('components nested 40 deep are refused instead of recursing without bound', () => {
+    expectFailure(deeplyNested3mf(40), 'too_deep', /nests components more than 32 deep/);
+  });
+
+  it('a model part that stores more triangles than the cap stops while it is being read', () => {
+    expectFailure(cube3mf(10, 'millimeter'), 'too_large', /stores more than 10 triangles/, { maxTriangles: 10 });
+  });
+
+  it('an entry whose directory understates its size stops inflating once it outgrows it', () => {
+    // 2 MiB of spaces after the model XML compress ~1000:1; the directory then claims only 64 KiB
+    const padded = package3mf(modelXml(cubeObject(1, 10), '<item objectid="1"/>') + ' '.repeat(2 * 1024 * 1024));
+    expectFailure(declareSize(padded, '3D/3dmodel.model', 64 * 1024), 'zip_bomb', /inflates beyond the 0\.1 MB its directory declares, so its sizes lie/);
   });
 });

@@ -55,6 +55,7 @@ export class ReportPhoto extends Model<InferAttributes<ReportPhoto>, InferCreati
   declare sizeBytes: number;
   declare sha256: string;
   declare processing: CreationOptional<'ready' | 'pending' | 'failed'>;
+  declare processingAttempts: CreationOptional<number>;
   declare width: number | null;
   declare height: number | null;
 }
@@ -118,6 +119,7 @@ export function initEvidence(sequelize: Sequelize) {
       },
       sha256: { type: DataTypes.CHAR(64), allowNull: false },
       processing: { type: DataTypes.ENUM('ready', 'pending', 'failed'), allowNull: false, defaultValue: 'pending' },
+      processingAttempts: { type: DataTypes.TINYINT.UNSIGNED, allowNull: false, defaultValue: 0 },
       width: { type: DataTypes.INTEGER.UNSIGNED, allowNull: true },
       height: { type: DataTypes.INTEGER.UNSIGNED, allowNull: true },
     },

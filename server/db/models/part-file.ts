@@ -15,6 +15,7 @@ export class PartFile extends Model<InferAttributes<PartFile>, InferCreationAttr
   declare format: string | null;
   declare analysis: MeshAnalysis | null;
   declare processing: CreationOptional<'ready' | 'pending' | 'failed'>;
+  declare processingAttempts: CreationOptional<number>;
   declare width: number | null;
   declare height: number | null;
   declare createdBy: number;
@@ -42,6 +43,7 @@ export function initPartFile(sequelize: Sequelize) {
       format: { type: DataTypes.STRING(20), allowNull: true },
       analysis: jsonColumn<MeshAnalysis>('analysis', true),
       processing: { type: DataTypes.ENUM('ready', 'pending', 'failed'), allowNull: false, defaultValue: 'ready' },
+      processingAttempts: { type: DataTypes.TINYINT.UNSIGNED, allowNull: false, defaultValue: 0 },
       width: { type: DataTypes.INTEGER.UNSIGNED, allowNull: true },
       height: { type: DataTypes.INTEGER.UNSIGNED, allowNull: true },
       createdBy: { type: DataTypes.INTEGER.UNSIGNED, allowNull: false },

@@ -1,11 +1,23 @@
 // Keeps track of photo cleaning that is under way, whoever asked for it (parts or set reports), so
-// tests and shutdown can wait until every photo is done.
-import { cleanPhoto } from '../parts/part-files';
+// tests and shutdown can wait until every photo is done. Each try is counted on the row before it
+// starts, so a photo that fails twice (or took the process down twice) is marked failed for good.
+import { pathsOf } from '../parts/part-files';
 import type { PhotoQueue } from './photo-queue';
-import type { UploadDirs } from './storage';
+import { removeQuietly, type UploadDirs } from './storage';
 
-type Row = Parameters<typeof cleanPhoto>[2];
-type Reload = Parameters<typeof cleanPhoto>[3];
+export const MAX_PHOTO_ATTEMPTS = 2;
+
+/** A row holding a photo (a part's or a set report's). */
+interface PhotoRow {
+  storedName: string;
+}
+interface LivePhotoRow {
+  processing: 'ready' | 'pending' | 'failed';
+  processingAttempts: number;
+  update(values: { processing?: 'ready' | 'failed'; processingAttempts?: number; width?: number; height?: number }): Promise<unknown>;
+}
+/** Reads the row again: it may have been deleted, or finished, meanwhile. */
+type Reload = () => Promise<LivePhotoRow | null>;
 
 export class PhotoJobs {
   private inFlight = new Set<Promise<void>>();
@@ -15,8 +27,8 @@ export class PhotoJobs {
     private readonly queue: PhotoQueue,
   ) {}
 
-  clean(row: Row, reload: Reload): void {
-    const job: Promise<void> = cleanPhoto(this.dirs, this.queue, row, reload)
+  clean(row: PhotoRow, reload: Reload): void {
+    const job: Promise<void> = this.cleanPhoto(row, reload)
       .catch((err) => console.error(`photo ${row.storedName} could not be cleaned:`, err))
       .finally(() => this.inFlight.delete(job));
     this.inFlight.add(job);
@@ -29,5 +41,50 @@ export class PhotoJobs {
   async close(): Promise<void> {
     await this.settled();
     await this.queue.close();
+  }
+
+  /** Cleans a stored photo in the worker and records the outcome; the raw upload is removed once it is settled. */
+  private async cleanPhoto(row: PhotoRow, reload: Reload): Promise<void> {
+    const paths = pathsOf(this.dirs, { kind: 'photo', storedName: row.storedName });
+    const outputs = [paths.display, paths.thumbnail];
+    for (;;) {
+      const current = await reload();
+      if (!current) {
+        await removeQuietly(paths.original, ...outputs);
+        return;
+      }
+      if (current.processing !== 'pending') return;
+      if (current.processingAttempts >= MAX_PHOTO_ATTEMPTS) {
+        await removeQuietly(paths.original, ...outputs);
+        await current.update({ processing: 'failed' });
+        console.error(`photo ${row.storedName}: marked failed after ${current.processingAttempts} attempts`);
+        return;
+      }
+      await current.update({ processingAttempts: current.processingAttempts + 1 });
+      const result = await this.queue.process({ source: paths.original, display: paths.display!, thumbnail: paths.thumbnail! });
+      // shutting down: the try does not count, and the start-up sweep resumes the photo
+      if (!result.ok && result.interrupted) {
+        await current.update({ processingAttempts: current.processingAttempts - 1 });
+        return;
+      }
+      const after = await reload();
+      if (!after) {
+        await removeQuietly(paths.original, ...outputs);
+        return;
+      }
+      if (result.ok) {
+        await removeQuietly(paths.original);
+        await after.update({ processing: 'ready', width: result.width, height: result.height });
+        return;
+      }
+      await removeQuietly(...outputs);
+      console.error(`photo ${row.storedName}: ${result.error}`);
+      if (result.permanent) {
+        await removeQuietly(paths.original);
+        await after.update({ processing: 'failed' });
+        return;
+      }
+      // a timeout or a worker that died: the loop tries once more, then gives up
+    }
   }
 }

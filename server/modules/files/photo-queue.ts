@@ -1,66 +1,42 @@
-// Photos are cleaned off the request path: one worker thread takes jobs in order, so a burst of
-// uploads never blocks the event loop or runs more than one decode at a time.
-import { Worker } from 'node:worker_threads';
+// Photos are cleaned off the request path, in their own worker pool: one thread takes jobs in
+// order, so a burst of uploads never blocks the event loop or runs more than one decode at a time.
 import type { PhotoJob, PhotoResult } from './photo-worker';
+import { WorkerClosedError, WorkerPool, type WorkerPoolOptions } from './worker-pool';
 
-const WORKER_URL = new URL('./photo-worker.ts', import.meta.url).href;
-// The worker is TypeScript: load it through tsx's loader, which works under tsx and vitest alike.
-const BOOT = `import('tsx/esm/api').then(({ register }) => { register(); return import(${JSON.stringify(WORKER_URL)}); })`;
+export const PHOTO_POOL: WorkerPoolOptions = {
+  name: 'photo cleaning',
+  maxThreads: 1,
+  // jobs are only paths; the photos wait on disk
+  maxQueue: Number.MAX_SAFE_INTEGER,
+  // a 50-megapixel photo decodes into 200 MB of pixels (outside the heap) plus jimp's working set
+  memoryMb: 512,
+  timeoutMs: 60_000,
+  nice: 10,
+};
 
 export class PhotoQueue {
-  private worker: Worker | null = null;
-  private waiting = new Map<number, (r: PhotoResult) => void>();
-  private idleTimer: NodeJS.Timeout | null = null;
+  private readonly pool: WorkerPool;
 
-  private nextId = 0;
+  constructor(options: Partial<WorkerPoolOptions> = {}) {
+    this.pool = new WorkerPool({ ...PHOTO_POOL, ...options });
+  }
 
   /** Resolves when the photo is processed (or has failed); never rejects. */
-  process(paths: Omit<PhotoJob, 'id'>): Promise<PhotoResult> {
-    const worker = this.ensureWorker();
-    const job: PhotoJob = { id: ++this.nextId, ...paths };
-    return new Promise((resolve) => {
-      this.waiting.set(job.id, resolve);
-      worker.postMessage(job);
-    });
+  async process(job: PhotoJob): Promise<PhotoResult> {
+    try {
+      return await this.pool.run('processPhoto', job);
+    } catch (err) {
+      if (err instanceof WorkerClosedError) return { ok: false, error: err.message, permanent: false, interrupted: true };
+      // a timeout, a thread that ran out of memory or died: perhaps the machine, perhaps the photo
+      return { ok: false, error: err instanceof Error ? err.message : String(err), permanent: false };
+    }
   }
 
   get pending(): number {
-    return this.waiting.size;
+    return this.pool.pending;
   }
 
-  private ensureWorker(): Worker {
-    if (this.idleTimer) clearTimeout(this.idleTimer);
-    if (this.worker) return this.worker;
-    const worker = new Worker(BOOT, { eval: true });
-    worker.on('message', (result: PhotoResult) => {
-      this.waiting.get(result.id)?.(result);
-      this.waiting.delete(result.id);
-      if (this.waiting.size === 0) this.stopWhenIdle();
-    });
-    worker.on('error', (err) => this.failAll(err.message));
-    worker.on('exit', () => {
-      if (this.worker === worker) this.worker = null;
-      this.failAll('the photo worker stopped');
-    });
-    worker.unref();
-    this.worker = worker;
-    return worker;
-  }
-
-  private failAll(error: string) {
-    for (const [id, resolve] of this.waiting) resolve({ id, ok: false, error });
-    this.waiting.clear();
-  }
-
-  private stopWhenIdle() {
-    this.idleTimer = setTimeout(() => void this.close(), 30_000);
-    this.idleTimer.unref();
-  }
-
-  async close(): Promise<void> {
-    if (this.idleTimer) clearTimeout(this.idleTimer);
-    const worker = this.worker;
-    this.worker = null;
-    if (worker) await worker.terminate();
+  close(): Promise<void> {
+    return this.pool.close();
   }
 }

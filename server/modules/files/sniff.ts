@@ -73,14 +73,33 @@ export async function sniffFile(path: string, size: number): Promise<SniffedType
   }
 }
 
-/** A plain name to show beside a file: no folders, no control characters, no markup. */
+// Bidirectional formatting characters reorder what is shown: "invoice\u202Etxt.exe" reads as
+// "invoiceexe.txt". Unicode 15 UAX #9 §2 lists them (embeddings, overrides, isolates, marks).
+const BIDI_CONTROLS = /[\u061c\u200e\u200f\u202a-\u202e\u2066-\u2069]/g;
+
+/** A plain name to show beside a file: no folders, no control or bidi characters, no markup. */
 export function displayName(original: string): string {
   const base = original.split(/[\\/]/).pop() ?? '';
   const clean = base
     .normalize('NFC')
     .replace(/[\u0000-\u001f\u007f<>:"|?*]/g, '')
+    .replace(BIDI_CONTROLS, '')
     .replace(/^\.+/, '')
     .trim()
     .slice(0, 200);
   return clean || 'file';
+}
+
+const MODEL_EXTENSIONS = ['.stl', '.3mf'];
+
+/**
+ * The name a model is saved under when downloaded: whatever it was uploaded as, it ends in the
+ * extension of what the bytes are (".stl" or ".3mf"), so nobody saves a mesh as "….exe".
+ */
+export function modelFileName(name: string, extension: string): string {
+  const lower = name.toLowerCase();
+  if (lower.endsWith(extension)) return name;
+  const other = MODEL_EXTENSIONS.find((e) => lower.endsWith(e));
+  const stem = other ? name.slice(0, -other.length) : name;
+  return `${stem.slice(0, 200 - extension.length)}${extension}`;
 }

@@ -3,6 +3,7 @@
 import { createHash } from 'node:crypto';
 import { createReadStream } from 'node:fs';
 import { rm } from 'node:fs/promises';
+import { join } from 'node:path';
 import type { ErrorRequestHandler, Request, RequestHandler, Response } from 'express';
 import multer from 'multer';
 import { UPLOAD_LIMITS } from '@shared/uploads';
@@ -25,11 +26,19 @@ export interface UploadedFile {
 
 const mb = (bytes: number) => `${Math.round(bytes / 1024 / 1024)} MB`;
 
+// Every file multer starts writing for a request, whether or not it ever reaches req.files, so
+// cleanup never depends on the state of multer's entries (a dropped connection leaves half-made ones).
+const started = new WeakMap<Request, Set<string>>();
+
 export function uploadMiddleware(dirs: UploadDirs): RequestHandler[] {
   const upload = multer({
     storage: multer.diskStorage({
       destination: dirs.tmp,
-      filename: (_req, _file, cb) => cb(null, randomStoredName('.upload')),
+      filename: (req, _file, cb) => {
+        const name = randomStoredName('.upload');
+        started.get(req)?.add(join(dirs.tmp, name));
+        cb(null, name);
+      },
     }),
     limits: {
       fileSize: Math.max(UPLOAD_LIMITS.model, UPLOAD_LIMITS.source),
@@ -41,10 +50,18 @@ export function uploadMiddleware(dirs: UploadDirs): RequestHandler[] {
 
   // a safety net for requests that end without reaching withUploads (e.g. the client went away)
   const cleanup: RequestHandler = (req, res, next) => {
+    started.set(req, new Set());
     res.once('close', () => void removeUploads(req));
     next();
   };
-  return [cleanup, upload];
+  // errors while reading the body are the client's (cut off, malformed) unless the disk failed
+  const receive: RequestHandler = (req, res, next) => {
+    upload(req, res, (err?: unknown) => {
+      if (!err) return next();
+      void removeUploads(req).then(() => next(translateUploadError(err)));
+    });
+  };
+  return [cleanup, receive];
 }
 
 /**
@@ -61,10 +78,20 @@ export function withUploads(handler: (req: Request, res: Response) => Promise<vo
   };
 }
 
+/** Kept for errors raised by multer outside uploadMiddleware's wrapper. */
 export const multerErrors: ErrorRequestHandler = (err, req, _res, next) => {
   if (!(err instanceof multer.MulterError)) return next(err);
-  removeUploads(req).finally(() => next(translateMulterError(err)));
+  void removeUploads(req).then(() => next(translateMulterError(err)));
 };
+
+function translateUploadError(err: unknown): unknown {
+  if (err instanceof multer.MulterError) return translateMulterError(err);
+  if (err instanceof AppError) return err;
+  // file-system failures (a full disk, permissions) are ours: let them reach the error handler as 500
+  if (err instanceof Error && 'syscall' in err) return err;
+  const detail = err instanceof Error ? err.message : String(err);
+  return new AppError(400, 'upload_incomplete', `The upload arrived incomplete or malformed (${detail}). Send it again; if it keeps failing, check the connection.`);
+}
 
 function translateMulterError(err: multer.MulterError): AppError {
   switch (err.code) {
@@ -80,25 +107,42 @@ function translateMulterError(err: multer.MulterError): AppError {
     case 'LIMIT_PART_COUNT':
       return new AppError(413, 'form_too_large', 'The form is too large. Shorten the description or send fewer fields.');
     default:
-      return new AppError(422, 'upload_failed', `The upload could not be read (${err.message}). Try again.`);
+      return new AppError(400, 'upload_incomplete', `The upload could not be read (${err.message}). Send it again.`);
   }
 }
 
-export function uploadedFiles(req: Request): UploadedFile[] {
-  const files = (req.files ?? {}) as Record<string, Express.Multer.File[]>;
-  return FILE_FIELDS.flatMap((field) =>
-    (files[field] ?? []).map((f) => ({
-      field,
-      path: f.path,
-      // multer decodes names as latin1; browsers send UTF-8
-      originalName: displayName(Buffer.from(f.originalname, 'latin1').toString('utf8')),
-      size: f.size,
-    })),
-  );
+type MulterEntry = Partial<Express.Multer.File>;
+
+function entries(req: Request): [FileField, MulterEntry][] {
+  const files = (req.files ?? {}) as Record<string, MulterEntry[] | undefined>;
+  return FILE_FIELDS.flatMap((field) => (files[field] ?? []).map((f): [FileField, MulterEntry] => [field, f]));
 }
 
-async function removeUploads(req: Request) {
-  await Promise.all(uploadedFiles(req).map((f) => rm(f.path, { force: true })));
+/** The files multer finished writing; entries it left half-made (no path yet) are skipped. */
+export function uploadedFiles(req: Request): UploadedFile[] {
+  return entries(req)
+    .filter(([, f]) => typeof f.path === 'string' && typeof f.size === 'number')
+    .map(([field, f]) => {
+      // multer decodes names as latin1; browsers send UTF-8
+      const name = typeof f.originalname === 'string' ? Buffer.from(f.originalname, 'latin1').toString('utf8') : '';
+      if (name.includes('\0')) {
+        throw new AppError(400, 'bad_file_name', 'A file name contains a NUL character, which no real file name has. Rename the file and send it again.', {
+          [field]: 'The file name contains a NUL character.',
+        });
+      }
+      return { field, path: f.path!, originalName: displayName(name), size: f.size! };
+    });
+}
+
+/** Removes every file this request wrote that was not moved into place. Never rejects. */
+async function removeUploads(req: Request): Promise<void> {
+  try {
+    const paths = new Set(started.get(req));
+    for (const [, f] of entries(req)) if (typeof f.path === 'string') paths.add(f.path);
+    await Promise.all([...paths].map((p) => rm(p, { force: true }).catch((err) => console.error(`could not remove upload ${p}:`, err))));
+  } catch (err) {
+    console.error('upload cleanup failed:', err);
+  }
 }
 
 export function sha256File(path: string): Promise<string> {

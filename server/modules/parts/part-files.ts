@@ -4,7 +4,6 @@ import { join } from 'node:path';
 import { Op, type Transaction } from 'sequelize';
 import { PartFile, ReportPhoto, RevisionFile } from '../../db/models';
 import type { InspectedFile } from '../files/inspect';
-import type { PhotoQueue } from '../files/photo-queue';
 import { filesOlderThan, moveAll, randomStoredName, removeQuietly, type UploadDirs } from '../files/storage';
 
 export interface StoredPaths {
@@ -64,29 +63,6 @@ export async function attachFiles(
   }
   const moved = await moveAll(moves);
   return { rows, undo: () => moved.undo() };
-}
-
-/** A row holding a photo (a part's or a set report's), reloaded after cleaning in case it was deleted meanwhile. */
-interface PhotoRow {
-  storedName: string;
-}
-type Reload = () => Promise<{ update(values: { processing: 'ready' | 'failed'; width?: number; height?: number }): Promise<unknown> } | null>;
-
-/** Cleans a stored photo in the worker and records the outcome; the raw upload is removed either way. */
-export async function cleanPhoto(dirs: UploadDirs, photos: PhotoQueue, row: PhotoRow, reload: Reload): Promise<void> {
-  const paths = pathsOf(dirs, { kind: 'photo', storedName: row.storedName });
-  const result = await photos.process({ source: paths.original, display: paths.display!, thumbnail: paths.thumbnail! });
-  await removeQuietly(paths.original);
-  const stillThere = await reload();
-  if (!stillThere) {
-    await removeQuietly(paths.display, paths.thumbnail);
-    return;
-  }
-  if (result.ok) await stillThere.update({ processing: 'ready', width: result.width, height: result.height });
-  else {
-    await removeQuietly(paths.display, paths.thumbnail);
-    await stillThere.update({ processing: 'failed' });
-  }
 }
 
 export async function removeStoredFiles(dirs: UploadDirs, row: Pick<PartFile, 'kind' | 'storedName'>) {

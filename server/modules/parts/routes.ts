@@ -6,6 +6,7 @@ import { AppError } from '../../errors';
 import { currentUser, requireAuth } from '../../middleware/auth';
 import { validate } from '../../middleware/validate';
 import { inspectUploads } from '../files/inspect';
+import { EXTENSION, modelFileName } from '../files/sniff';
 import { multipartFields, parseOrThrow, uploadedFiles, uploadMiddleware, withUploads } from '../files/upload';
 import type { UploadDirs } from '../files/storage';
 import type { PartsService } from './service';
@@ -71,7 +72,8 @@ export function partsRoutes(parts: PartsService, dirs: UploadDirs) {
     const { id, fileId } = res.locals.params as z.output<typeof partFileParamsSchema>;
     const { file, path } = await parts.storedFile(currentUser(req), String(id), fileId, 'original');
     res.setHeader('X-Content-Type-Options', 'nosniff');
-    res.attachment(file.kind === 'photo' ? file.originalName.replace(/\.[^.]+$/, '') + '.jpg' : file.originalName);
+    const name = file.kind === 'model' ? modelFileName(file.originalName, EXTENSION[file.format === '3mf' ? '3mf' : 'stl']) : file.originalName;
+    res.attachment(file.kind === 'photo' ? file.originalName.replace(/\.[^.]+$/, '') + '.jpg' : name);
     res.type(file.mime);
     res.sendFile(path);
   });

@@ -1,0 +1,96 @@
+import { existsSync, mkdtempSync, rmSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { afterAll, describe, expect, it } from 'vitest';
+import { MAX_PHOTO_ATTEMPTS, PhotoJobs } from '../../server/modules/files/photo-jobs';
+import type { PhotoQueue } from '../../server/modules/files/photo-queue';
+import type { PhotoResult } from '../../server/modules/files/photo-worker';
+import { uploadDirs } from '../../server/modules/files/storage';
+
+const root = mkdtempSync(join(tmpdir(), 'rigshelf-photo-jobs-'));
+afterAll(() => rmSync(root, { recursive: true, force: true }));
+const dirs = uploadDirs(root);
+
+/** A stand-in for the database row: what PhotoJobs reads and writes. */
+function fakeRow(attempts = 0) {
+  const row = {
+    processing: 'pending' as 'ready' | 'pending' | 'failed',
+    processingAttempts: attempts,
+    async update(values: Partial<{ processing: 'ready' | 'failed'; processingAttempts: number }>) {
+      Object.assign(row, values);
+    },
+  };
+  return row;
+}
+
+/** A queue whose worker answers from a script, counting the jobs it was given. */
+function scriptedQueue(results: PhotoResult[]) {
+  const queue = {
+    jobs: 0,
+    async process(): Promise<PhotoResult> {
+      return results[Math.min(queue.jobs++, results.length - 1)];
+    },
+    async close() {},
+  };
+  return queue;
+}
+
+function rawPhoto(name: string) {
+  const path = join(dirs.incoming, name);
+  writeFileSync(path, 'raw');
+  return path;
+}
+
+async function run(queue: ReturnType<typeof scriptedQueue>, row: ReturnType<typeof fakeRow>, storedName: string) {
+  const jobs = new PhotoJobs(dirs, queue as unknown as PhotoQueue);
+  jobs.clean({ storedName }, async () => row);
+  await jobs.settled();
+}
+
+const timeout: PhotoResult = { ok: false, error: 'the task took longer than 60 s and was stopped', permanent: false };
+
+describe('photo jobs · attempts', () => {
+  it(`a photo whose worker times out twice is marked failed for good after ${MAX_PHOTO_ATTEMPTS} attempts, and its raw upload is removed`, async () => {
+    const queue = scriptedQueue([timeout, timeout, { ok: true, width: 1, height: 1 }]);
+    const row = fakeRow();
+    const raw = rawPhoto('twice-timed-out');
+    await run(queue, row, 'twice-timed-out');
+    expect(queue.jobs).toBe(2);
+    expect(row).toMatchObject({ processing: 'failed', processingAttempts: 2 });
+    expect(existsSync(raw)).toBe(false);
+  });
+
+  it('one timeout is tried again at once and may still succeed', async () => {
+    const queue = scriptedQueue([timeout, { ok: true, width: 64, height: 48 }]);
+    const row = fakeRow();
+    await run(queue, row, 'second-time-lucky');
+    expect(row).toMatchObject({ processing: 'ready', processingAttempts: 2 });
+  });
+
+  it('a photo the decoder refuses is failed after one attempt (trying again would fail again)', async () => {
+    const queue = scriptedQueue([{ ok: false, error: 'it cannot be decoded', permanent: true }]);
+    const row = fakeRow();
+    await run(queue, row, 'undecodable');
+    expect(queue.jobs).toBe(1);
+    expect(row).toMatchObject({ processing: 'failed', processingAttempts: 1 });
+  });
+
+  it('a photo resumed at start-up after two attempts (it took the process down) is failed without running again', async () => {
+    const queue = scriptedQueue([{ ok: true, width: 1, height: 1 }]);
+    const row = fakeRow(2);
+    const raw = rawPhoto('crashed-twice');
+    await run(queue, row, 'crashed-twice');
+    expect(queue.jobs).toBe(0);
+    expect(row.processing).toBe('failed');
+    expect(existsSync(raw)).toBe(false);
+  });
+
+  it('a photo interrupted by shutdown stays waiting, and the try does not count', async () => {
+    const queue = scriptedQueue([{ ok: false, error: 'the pool was closed', permanent: false, interrupted: true }]);
+    const row = fakeRow(1);
+    const raw = rawPhoto('interrupted');
+    await run(queue, row, 'interrupted');
+    expect(row).toMatchObject({ processing: 'pending', processingAttempts: 1 });
+    expect(existsSync(raw)).toBe(true);
+  });
+});
