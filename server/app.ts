@@ -10,6 +10,7 @@ import type { Sequelize } from 'sequelize';
 import type { Config } from './config';
 import { Session } from './db/models';
 import { apiNotFound, errorHandler } from './errors';
+import { absoluteSessionLifetime } from './middleware/auth';
 import { adminRoutes } from './modules/admin/routes';
 import { createPassport } from './modules/auth/passport';
 import { authRoutes } from './modules/auth/routes';
@@ -112,6 +113,7 @@ export function createApp({ config, sequelize, mailer }: AppContext) {
   const passport = createPassport(auth);
   app.use('/api', passport.initialize());
   app.use('/api', passport.session());
+  app.use('/api', absoluteSessionLifetime(config.SESSION_ABSOLUTE_HOURS));
 
   const { csrfSynchronisedProtection, generateToken } = csrfSync({
     getTokenFromRequest: (req: Request) => req.get('x-csrf-token'),

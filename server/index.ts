@@ -14,6 +14,7 @@ export interface RunningServer {
 }
 
 export async function startServer(config: Config): Promise<RunningServer> {
+  for (const warning of config.warnings) console.warn(`rigshelf: warning: ${warning}`);
   const sequelize = createSequelize(config);
   await sequelize.authenticate();
   const migrations = await migrate(sequelize);
