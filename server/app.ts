@@ -104,7 +104,7 @@ export function createApp({ config, sequelize, mailer }: AppContext) {
   });
   // a decision that puts a part on the shelf, replaces its published revision or retires it changes search
   const review = createReviewService({ sequelize, mail: mailer, publicUrl: config.PUBLIC_URL, onDecided: () => search.scheduleRebuild() });
-  const parts = createPartsService({ sequelize, dirs, photos, onSubmitted: review.submitted });
+  const parts = createPartsService({ sequelize, dirs, photos, onSubmitted: review.submitted, onEdited: review.edited });
   const evidence = createEvidenceService({ sequelize, dirs, photos, onChanged: () => search.rankingChanged() });
   const planning = createPlanningService({ sequelize, evidence });
 
