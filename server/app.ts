@@ -10,6 +10,7 @@ import type { Sequelize } from 'sequelize';
 import type { Config } from './config';
 import { Session } from './db/models';
 import { apiNotFound, errorHandler } from './errors';
+import { absoluteSessionLifetime } from './middleware/auth';
 import { adminRoutes } from './modules/admin/routes';
 import { createPassport } from './modules/auth/passport';
 import { authRoutes } from './modules/auth/routes';
@@ -107,7 +108,7 @@ export function createApp({ config, sequelize, mailer }: AppContext) {
   });
   // a decision that puts a part on the shelf, replaces its published revision or retires it changes search
   const review = createReviewService({ sequelize, mail: mailer, publicUrl: config.PUBLIC_URL, onDecided: () => search.scheduleRebuild() });
-  const parts = createPartsService({ sequelize, dirs, photos, onSubmitted: review.submitted });
+  const parts = createPartsService({ sequelize, dirs, photos, onSubmitted: review.submitted, onEdited: review.edited });
   const evidence = createEvidenceService({ sequelize, dirs, photos, onChanged: () => search.rankingChanged() });
   const planning = createPlanningService({ sequelize, evidence });
 
@@ -116,6 +117,7 @@ export function createApp({ config, sequelize, mailer }: AppContext) {
   const passport = createPassport(auth);
   app.use('/api', passport.initialize());
   app.use('/api', passport.session());
+  app.use('/api', absoluteSessionLifetime(config.SESSION_ABSOLUTE_HOURS));
 
   const { csrfSynchronisedProtection, generateToken } = csrfSync({
     getTokenFromRequest: (req: Request) => req.get('x-csrf-token'),

@@ -32,14 +32,20 @@ const schema = z
     /** Benchmarks only: log event-loop delay figures every this many seconds (off when unset). */
     LOOP_LAG_LOG_S: z.coerce.number().positive().optional(),
     SESSION_SECRET: z.string().min(16, 'SESSION_SECRET must be at least 16 characters'),
+    /** A session ends after this long without use (each request moves it on)… */
     SESSION_MAX_AGE_HOURS: z.coerce.number().positive().default(24 * 14),
-    TRUST_PROXY: flag.default(false),
+    /** …and this long after sign-in, however busy it is. */
+    SESSION_ABSOLUTE_HOURS: z.coerce.number().positive().default(24 * 30),
+    TRUST_PROXY: flag.optional(),
     UPLOADS_DIR: z.string().default(resolve(root, 'uploads')),
     CLIENT_DIST: z.string().default(resolve(root, 'dist')),
     /** The saved search index, loaded at start-up when it still matches the shelf. */
     SEARCH_INDEX_FILE: z.string().min(1).default(resolve(root, 'var/search-index.json')),
     RIGSHELF_DEMO: flag.optional(),
-    LOGIN_LIMIT_PER_IP: z.coerce.number().int().positive().default(30),
+    /** Failed sign-ins per network address and window: a tenth of it free, then slower, then refused for accounts that also failed. */
+    LOGIN_LIMIT_PER_IP: z.coerce.number().int().positive().default(300),
+    /** Registrations and reset requests (each sends a mail) per network address and window. */
+    MAIL_LIMIT_PER_IP: z.coerce.number().int().positive().default(20),
     LOGIN_LIMIT_PER_ACCOUNT: z.coerce.number().int().positive().default(8),
     LOGIN_LIMIT_WINDOW_MIN: z.coerce.number().positive().default(15),
     /** scrypt cost parameter N as a power of two (2^15 = 32 MiB per hash with r = 8). */
@@ -78,7 +84,10 @@ export function isLoopbackHost(host: string): boolean {
 }
 
 export type Config = Readonly<
-  Omit<z.output<typeof schema>, 'SMTP_FAKE' | 'PUBLIC_URL'> & {
+  Omit<z.output<typeof schema>, 'SMTP_FAKE' | 'PUBLIC_URL' | 'TRUST_PROXY'> & {
+    TRUST_PROXY: boolean;
+    /** Things worth saying at start-up that do not stop it (e.g. production without TRUST_PROXY). */
+    warnings: string[];
     isProduction: boolean;
     /** Seed the demo scenario: on by default, off in production unless RIGSHELF_DEMO=1. */
     seedDemo: boolean;
@@ -97,8 +106,16 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): Config {
   }
   const c = parsed.data;
   const isProduction = c.NODE_ENV === 'production';
+  const warnings: string[] = [];
+  if (isProduction && !c.TRUST_PROXY) {
+    warnings.push(
+      'TRUST_PROXY is not set: behind a TLS proxy the app sees plain HTTP and sends the session cookie without Secure. Set TRUST_PROXY=1 when a proxy terminates TLS in front of it.',
+    );
+  }
   return Object.freeze({
     ...c,
+    TRUST_PROXY: c.TRUST_PROXY ?? false,
+    warnings,
     isProduction,
     seedDemo: c.RIGSHELF_DEMO ?? !isProduction,
     SMTP_FAKE: c.SMTP_FAKE ?? !isProduction,

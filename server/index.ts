@@ -30,6 +30,7 @@ export function drainBudgetMs(shutdownTimeoutMs: number): number {
 }
 
 export async function startServer(config: Config): Promise<RunningServer> {
+  for (const warning of config.warnings) console.warn(`rigshelf: warning: ${warning}`);
   keepRunningOnUnhandledRejections();
   const sequelize = createSequelize(config);
   await waitForDatabase(sequelize, { host: config.DB_HOST, port: config.DB_PORT, waitSeconds: config.DB_WAIT_S });

@@ -29,6 +29,44 @@ export interface ReportFacts {
   outcome: SetReportOutcome;
   material: string;
   conditions: readonly SetCondition[];
+  /** Who filed it; reports without one are each counted. */
+  userId?: number;
+  /** The production or job it was used on. */
+  production?: string | null;
+  /** When it was filed: the day stands in for a production that is not named, and the latest of repeats counts. */
+  createdAt?: Date | string;
+}
+
+/** "The Salt Road", "the salt road " and "THE SALT-ROAD" are one production. */
+export function productionKey(production: string | null | undefined): string {
+  return (production ?? '').normalize('NFKC').toLowerCase().replace(/[^\p{L}\p{N}]+/gu, ' ').trim();
+}
+
+const time = (r: ReportFacts) => (r.createdAt === undefined ? 0 : new Date(r.createdAt).getTime());
+
+/**
+ * One report per member per production (per day when no production is named): the member's latest.
+ * Reports keep their order otherwise.
+ */
+export function onePerMemberAndProduction<T extends ReportFacts>(reports: readonly T[]): T[] {
+  const latest = new Map<string, T>();
+  reports.forEach((r, i) => {
+    if (r.userId === undefined) return latest.set(`#${i}`, r);
+    const where = productionKey(r.production) || (r.createdAt === undefined ? `#${i}` : new Date(r.createdAt).toISOString().slice(0, 10));
+    const key = `${r.userId}|${where}`;
+    const seen = latest.get(key);
+    if (!seen || time(r) >= time(seen)) latest.set(key, r);
+  });
+  const kept = new Set(latest.values());
+  return reports.filter((r) => kept.has(r));
+}
+
+/**
+ * The reports that count toward a part's proven figures: never its author's own (they cannot vouch
+ * for their own part), and at most one per member per production.
+ */
+export function countedReports<T extends ReportFacts>(reports: readonly T[], authorId: number | null | undefined): T[] {
+  return onePerMemberAndProduction(reports.filter((r) => authorId == null || r.userId !== authorId));
 }
 
 export interface ProvenFigures {
@@ -46,6 +84,8 @@ export interface EvidenceWarning {
 }
 
 export interface Evidence extends ProvenFigures {
+  /** Visible reports left out of the figures: the author's own, and repeats by one member on one production. */
+  notCounted: number;
   byMaterial: Record<string, ProvenFigures>;
   byCondition: Partial<Record<SetCondition, ProvenFigures>>;
   rating: { mean: number | null; count: number; adjusted: number | null; distribution: Record<1 | 2 | 3 | 4 | 5, number> };
@@ -89,16 +129,31 @@ export function evidenceWarnings(reports: readonly ReportFacts[]): EvidenceWarni
   return warnings;
 }
 
-export function provenSentence(f: ProvenFigures): string {
-  if (f.reports === 0) return 'No set reports yet: nobody has said how it holds up on a job.';
+export function provenSentence(f: ProvenFigures, notCounted = 0): string {
+  const aside = notCounted
+    ? ` ${notCounted} more ${notCounted === 1 ? 'report is' : 'reports are'} not counted (the author's own, or repeats by one member on one production).`
+    : '';
+  if (f.reports === 0) return `No set reports yet: nobody has said how it holds up on a job.${aside}`;
   const pct = Math.round(f.proven * 100);
-  return `${f.heldUp} of ${f.reports} set reports say it held up or kept working; with that much evidence we can be 95 % sure at least ${pct} % of prints hold up.`;
+  return `${f.heldUp} of ${f.reports} set reports say it held up or kept working; with that much evidence we can be 95 % sure at least ${pct} % of prints hold up.${aside}`;
 }
 
-export function summariseEvidence(reports: readonly ReportFacts[], stars: readonly number[], catalogueMean: number | null): Evidence {
+/**
+ * The evidence of one part. With `authorId`, the proven figures leave out the author's own reports;
+ * repeats by one member on one production count once. Warnings read every member's reports
+ * (the author's too: a failure they report is still a caution), one per member and production.
+ */
+export function summariseEvidence(
+  allReports: readonly ReportFacts[],
+  stars: readonly number[],
+  catalogueMean: number | null,
+  options: { authorId?: number | null } = {},
+): Evidence {
+  const reports = countedReports(allReports, options.authorId);
   const all = figures(reports);
   const byMaterial = Object.fromEntries([...groupBy(reports, (r) => [r.material])].map(([k, v]) => [k, figures(v)]));
   const byCondition = Object.fromEntries([...groupBy(reports, (r) => r.conditions)].map(([k, v]) => [k, figures(v)]));
+  const notCounted = allReports.length - reports.length;
   const count = stars.length;
   const mean = count ? stars.reduce((a, b) => a + b, 0) / count : null;
   const distribution = { 1: 0, 2: 0, 3: 0, 4: 0, 5: 0 } as Record<1 | 2 | 3 | 4 | 5, number>;
@@ -106,10 +161,11 @@ export function summariseEvidence(reports: readonly ReportFacts[], stars: readon
   const adjusted = mean === null ? null : bayesianRating({ mean, count }, { priorMean: catalogueMean ?? mean, priorWeight: PRIOR_WEIGHT });
   return {
     ...all,
+    notCounted,
     byMaterial,
     byCondition,
     rating: { mean, count, adjusted, distribution },
-    warnings: evidenceWarnings(reports),
-    sentence: provenSentence(all),
+    warnings: evidenceWarnings(onePerMemberAndProduction(allReports)),
+    sentence: provenSentence(all, notCounted),
   };
 }

@@ -33,3 +33,29 @@ export function requireRole(role: Role): RequestHandler {
     next();
   };
 }
+
+declare module 'express-session' {
+  interface SessionData {
+    /** When the person signed in (ms since the epoch); the session ends a fixed time after it. */
+    signedInAt?: number;
+  }
+}
+
+/**
+ * Ends a signed-in session `maxHours` after its sign-in, however active it has been (the cookie
+ * itself rolls with every request). A session from before sign-in times were kept gets one now.
+ */
+export function absoluteSessionLifetime(maxHours: number): RequestHandler {
+  const maxMs = maxHours * 3600_000;
+  return (req, _res, next) => {
+    if (!req.user || !req.session) return next();
+    const signedInAt = req.session.signedInAt;
+    if (typeof signedInAt !== 'number') {
+      req.session.signedInAt = Date.now();
+      return next();
+    }
+    if (Date.now() - signedInAt <= maxMs) return next();
+    // passport's logout drops the stored session and starts an empty one, so the request goes on signed out
+    req.logout((err) => next(err));
+  };
+}

@@ -84,11 +84,13 @@ export interface PartLineage {
 /** GET /api/parts/:id/history (author and moderators): one decision or submission on record. */
 export interface PartHistoryItem {
   id: number;
-  action: 'submit' | 'resubmit' | 'approve' | 'send_back' | 'reject' | 'retire' | 'hide_rating' | 'hide_report';
+  action: 'submit' | 'resubmit' | 'edit' | 'approve' | 'send_back' | 'reject' | 'retire' | 'hide_rating' | 'hide_report';
   note: string | null;
   revision: number | null;
   actor: PartAuthorRef;
   at: string;
+  /** For an edit by someone other than the author: what changed, one line each. */
+  changes: string[] | null;
 }
 
 /** GET /api/parts/:id, and the answer of PATCH /api/parts/:id and the file calls. */

@@ -38,6 +38,8 @@ export interface ReviewDetail {
   checklist: typeof REVIEW_CHECKLIST;
   allowedActions: ReviewAction[];
   ownSubmission: boolean;
+  /** The viewer changed this revision: they may send it back or reject it, another moderator approves. */
+  editedByYou: boolean;
   history: PartHistoryItem[];
 }
 

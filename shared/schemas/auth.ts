@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { passwordProblem } from '../password-policy';
 import { ACCOUNT_STATUSES, ROLES } from '../types';
 
 const email = z
@@ -8,20 +9,31 @@ const email = z
   .max(254, 'That e-mail address is too long.')
   .pipe(z.email({ error: 'Enter an e-mail address like name@example.com.' }));
 
-export const PASSWORD_MIN = 10;
+export { PASSWORD_MAX, PASSWORD_MIN } from '../password-policy';
 
-export const registerSchema = z.object({
-  email,
-  password: z
-    .string({ error: 'Choose a password.' })
-    .min(PASSWORD_MIN, `Use at least ${PASSWORD_MIN} characters.`)
-    .max(200, 'Use at most 200 characters.'),
-  displayName: z
-    .string({ error: 'Enter the name your crew knows you by.' })
-    .trim()
-    .min(2, 'Use at least 2 characters.')
-    .max(80, 'Use at most 80 characters.'),
+/** A new password: the shared rules of shared/password-policy.ts (the server adds its common-password list). */
+const newPassword = z.string({ error: 'Choose a password.' }).superRefine((value, ctx) => {
+  const problem = passwordProblem(value);
+  if (problem) ctx.addIssue({ code: 'custom', message: problem });
 });
+
+export const registerSchema = z
+  .object({
+    email,
+    password: newPassword,
+    displayName: z
+      .string({ error: 'Enter the name your crew knows you by.' })
+      .trim()
+      .min(2, 'Use at least 2 characters.')
+      .max(80, 'Use at most 80 characters.'),
+  })
+  .superRefine((v, ctx) => {
+    // the address's own words are refused too; the password alone was checked above
+    if (typeof v.password === 'string' && typeof v.email === 'string' && passwordProblem(v.password) === null) {
+      const problem = passwordProblem(v.password, v.email);
+      if (problem) ctx.addIssue({ code: 'custom', path: ['password'], message: problem });
+    }
+  });
 export type RegisterInput = z.infer<typeof registerSchema>;
 
 export const loginSchema = z.object({
@@ -44,7 +56,7 @@ export type VerifyEmailInput = z.infer<typeof verifyEmailSchema>;
 export const passwordResetRequestSchema = z.object({ email });
 export type PasswordResetRequestInput = z.infer<typeof passwordResetRequestSchema>;
 
-export const passwordResetSchema = z.object({ token: linkToken, password: registerSchema.shape.password });
+export const passwordResetSchema = z.object({ token: linkToken, password: newPassword });
 export type PasswordResetInput = z.infer<typeof passwordResetSchema>;
 
 export const adminUserPatchSchema = z

@@ -55,10 +55,9 @@ export const authApi = {
     forgetCsrfToken();
     return user;
   },
-  async register(input: RegisterInput): Promise<PublicUser> {
-    const { user } = await http.post<{ user: PublicUser }>('/api/auth/register', input);
-    forgetCsrfToken();
-    return user;
+  /** Always the same answer ("check your mail"): nobody is signed in by registering. */
+  async register(input: RegisterInput): Promise<string> {
+    return (await http.post<{ message: string }>('/api/auth/register', input)).message;
   },
   async logout(): Promise<void> {
     await http.post<void>('/api/auth/logout');

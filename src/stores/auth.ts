@@ -38,8 +38,9 @@ export const useAuthStore = defineStore('auth', () => {
     user.value = await authApi.login(input);
   }
 
-  async function register(input: RegisterInput) {
-    user.value = await authApi.register(input);
+  /** Resolves with the server's "check your mail" message; the new member signs in after confirming. */
+  async function register(input: RegisterInput): Promise<string> {
+    return authApi.register(input);
   }
 
   async function logout() {

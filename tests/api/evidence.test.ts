@@ -180,6 +180,42 @@ describe('proven score, warnings and hiding', () => {
   });
 });
 
+describe('evidence about one\'s own part', () => {
+  it('moderation · a moderator\'s own part · they cannot hide its ratings or reports (403) nor see their flags; another moderator can', async () => {
+    const owner = await signedIn('moderator');
+    const res = await owner.post('/api/parts').field('data', JSON.stringify(submission({ title: 'Moderator-made clamp' }))).attach('model', boxStl(20, 30, 10), 'm.stl').expect(201);
+    const id = res.body.id as number;
+    await moderator.post(`/api/review/${id}/approve`).send({}).expect(200);
+    const failed = await report(crew[0], id, { outcome: 'failed', material: 'PLA', conditions: ['heat'] }).expect(201);
+    const low = await crew[1].post(`/api/parts/${id}/ratings`).send({ stars: 1, comment: 'Snapped on day two.' }).expect(201);
+    await crew[2].post(`/api/reports/${failed.body.id}/flag`).send({ reason: 'Looks wrong to me.' }).expect(201);
+
+    const hideReport = await owner.post(`/api/review/reports/${failed.body.id}/hide`).send({ note: 'I do not like this one.' });
+    expect(hideReport.status).toBe(403);
+    expect(hideReport.body.error.message).toMatch(/your own part, so another moderator has to decide/);
+    expect((await owner.post(`/api/review/ratings/${low.body.id}/hide`).send({ note: 'Nor this one.' })).status).toBe(403);
+    const ownQueue = (await owner.get('/api/review/flags')).body.items as { id: number; type: string }[];
+    expect(ownQueue.some((f) => f.type === 'report' && f.id === failed.body.id)).toBe(false);
+    expect(((await moderator.get('/api/review/flags')).body.items as { id: number; type: string }[]).some((f) => f.type === 'report' && f.id === failed.body.id)).toBe(true);
+    // nothing was hidden, and the other moderator still decides
+    expect((await crew[3].get(`/api/parts/${id}/reports`)).body.items.some((i: { id: number }) => i.id === failed.body.id)).toBe(true);
+    await moderator.post(`/api/review/reports/${failed.body.id}/hide`).send({ note: 'Checked: a test print, not a shoot.' }).expect(200);
+  });
+
+  it('proven figure · the author\'s own reports and one member\'s repeats on a production · do not inflate it', async () => {
+    const id = await publishedPart(submission({ title: 'Self-reported bracket' }));
+    for (let i = 0; i < 5; i++) await report(author, id, { outcome: 'held-up', material: 'PETG', production: `Own shoot ${i}` }).expect(201);
+    for (let i = 0; i < 3; i++) await report(crew[0], id, { outcome: 'held-up', material: 'PETG', production: i % 2 ? 'night ferry' : 'Night Ferry ' }).expect(201);
+    await report(crew[1], id, { outcome: 'failed', material: 'PETG' }).expect(201);
+    const proven = (await crew[2].get(`/api/parts/${id}/proven`)).body;
+    expect(proven).toMatchObject({ reports: 2, heldUp: 1, notCounted: 7 });
+    // every report stays visible in the list; only the figure leaves them out
+    expect((await crew[2].get(`/api/parts/${id}/reports`)).body.items).toHaveLength(9);
+    const profile = (await request(t.app).get(`/api/users/${author.userId}/profile`)).body.parts.find((p: { id: number }) => p.id === id);
+    expect(profile).toMatchObject({ reports: 2, heldUp: 1 });
+  });
+});
+
 describe('contributor profile', () => {
   it('lists a contributor’s published parts and how they held up', async () => {
     const res = await request(t.app).get(`/api/users/${author.userId}/profile`);

@@ -38,8 +38,9 @@ async function register(displayName = 'Nia Loader') {
   const email = address('new');
   const a = await agentFor(t.app);
   const res = await a.post('/api/auth/register').send({ email, password: 'long enough pass', displayName });
-  expect(res.status).toBe(201);
-  await a.refresh();
+  expect(res.status).toBe(202);
+  // registering signs nobody in; the new member signs in (before or after confirming)
+  expect((await a.login(email, 'long enough pass')).status).toBe(200);
   const [mail] = await mailsTo(email);
   return { a, email, mail, token: tokenIn(mail, '/verify-email') };
 }
@@ -145,6 +146,21 @@ describe('mail · verification at registration', () => {
   });
 });
 
+describe('mail · registration with a known address', () => {
+  it('registration · an address that already has an account · its owner gets a "someone tried" mail with sign-in and reset links, no confirmation link', async () => {
+    const { email, user } = await makeUser();
+    const a = await agentFor(t.app);
+    expect((await a.post('/api/auth/register').send({ email: ` ${email.toUpperCase()}`, password: 'long enough pass', displayName: 'Twin' })).status).toBe(202);
+    const [mail] = await mailsTo(email);
+    expect(mail.subject).toBe('Someone tried to sign up with your address');
+    expect(mail.text).toContain(`Hi ${user.displayName}`);
+    expect(mail.text).toContain(`${t.config.PUBLIC_URL}/forgot-password`);
+    expect(mail.text).toContain(`${t.config.PUBLIC_URL}/sign-in`);
+    expect(mail.text).not.toContain('/verify-email');
+    expect(await User.count({ where: { email } })).toBe(1);
+  });
+});
+
 describe('mail · password reset', () => {
   it('request · an existing and an unknown address · identical 202 answers, and only the existing one gets mail', async () => {
     const { email } = await makeUser();
@@ -243,7 +259,7 @@ describe('mail · password reset', () => {
   });
 
   it('request · too many from one network · a clear 429', async () => {
-    const limited = await createTestApp({ LOGIN_LIMIT_PER_IP: '2' });
+    const limited = await createTestApp({ MAIL_LIMIT_PER_IP: '2' });
     try {
       const a = await agentFor(limited.app);
       const statuses: number[] = [];

@@ -217,11 +217,25 @@ describe('planning · kits and sharing', () => {
     expect(patchDates.status).toBe(422);
   });
 
-  it('kits · sharing with an unknown address · 422 naming it', async () => {
-    const res = await owner.agent.put(`/api/kits/${kitId}/shares`).set('X-CSRF-Token', owner.token).send({ shares: [{ email: 'nobody-here@crew.test', access: 'read' }] });
-    expect(res.status).toBe(422);
-    expect(res.body.error.message).toMatch(/nobody-here@crew\.test/);
-    expect(res.body.error.fields['shares.0.email']).toMatch(/create an account/);
+  it('kits · sharing with an unknown or a suspended account · the same neutral 422, naming no account', async () => {
+    const share = (entry: Record<string, unknown>) =>
+      owner.agent.put(`/api/kits/${kitId}/shares`).set('X-CSRF-Token', owner.token).send({ shares: [{ ...entry, access: 'read' }] });
+    const suspended = await makeUser('member', { status: 'suspended' });
+    const unknown = await share({ email: 'nobody-here@crew.test' });
+    const gone = await share({ email: suspended.email });
+    expect(unknown.status).toBe(422);
+    expect(gone.status).toBe(422);
+    // the same words for both, apart from the address the owner typed
+    const unknownText = unknown.body.error.fields['shares.0.email'].replace('nobody-here@crew.test', '<address>');
+    const goneText = gone.body.error.fields['shares.0.email'].replace(suspended.email, '<address>');
+    expect(goneText).toBe(unknownText);
+    expect(gone.body.error.message.replace(suspended.email, '<address>')).toBe(unknown.body.error.message.replace('nobody-here@crew.test', '<address>'));
+    expect(JSON.stringify(gone.body)).not.toContain(suspended.user.displayName);
+    expect(JSON.stringify(gone.body)).not.toMatch(/suspended/i);
+    // by id too
+    const noId = await share({ userId: 987654 });
+    const goneId = await share({ userId: suspended.user.id });
+    expect(goneId.body.error.fields['shares.0.userId'].replace(String(suspended.user.id), '<id>')).toBe(noId.body.error.fields['shares.0.userId'].replace('987654', '<id>'));
     const self = await owner.agent.put(`/api/kits/${kitId}/shares`).set('X-CSRF-Token', owner.token).send({ shares: [{ userId: owner.userId, access: 'edit' }] });
     expect(self.body.error.fields['shares.0.userId']).toMatch(/you own this kit/);
   });

@@ -172,6 +172,43 @@ describe('review · decisions', () => {
     await modB.post(`/api/review/${id}/approve`).send({}).expect(200);
   });
 
+  it('four eyes · a moderator rewrites someone else\'s submission and replaces its model · cannot approve it (403), the history says who changed what, another moderator approves', async () => {
+    const id = await submitted(member, submission({ summary: 'The contributor wrote this summary line.' }));
+    const oldModel = (await member.get(`/api/parts/${id}`)).body.files.find((f: { kind: string }) => f.kind === 'model');
+    await modA.patch(`/api/parts/${id}`).send({ summary: 'A moderator rewrote this summary line.' }).expect(200);
+    await modA.post(`/api/parts/${id}/files`).attach('model', boxStl(22, 30, 10), 'swapped.stl').expect(201);
+    await modA.delete(`/api/parts/${id}/files/${oldModel.id}`).expect(200);
+
+    const approve = await modA.post(`/api/review/${id}/approve`).send({});
+    expect(approve.status).toBe(403);
+    expect(approve.body.error.message).toMatch(/You changed this revision yourself, so another moderator has to approve it/);
+    const desk = (await modA.get(`/api/review/${id}`)).body;
+    expect(desk.editedByYou).toBe(true);
+    expect(desk.allowedActions).not.toContain('approve');
+    expect(desk.allowedActions).toContain('send-back');
+
+    // the contributor sees each change, who made it and what it was
+    const history = (await member.get(`/api/parts/${id}/history`)).body.items as { action: string; actor: { displayName: string }; changes: string[] | null }[];
+    const edits = history.filter((e) => e.action === 'edit');
+    expect(edits).toHaveLength(3);
+    expect(edits.every((e) => e.actor.displayName === 'Mod Alder')).toBe(true);
+    expect(edits.flatMap((e) => e.changes)).toEqual([
+      'Summary: “The contributor wrote this summary line.” → “A moderator rewrote this summary line.”',
+      'Files added: swapped.stl',
+      'Files removed: part.stl',
+    ]);
+    expect((await member.get('/api/notices')).body.items.some((n: { title: string }) => /Changed by Mod Alder/.test(n.title))).toBe(true);
+
+    await modB.post(`/api/review/${id}/approve`).send({}).expect(200);
+  });
+
+  it('four eyes · the author edits their own submission · no edit event, and any other moderator may approve', async () => {
+    const id = await submitted();
+    await member.patch(`/api/parts/${id}`).send({ summary: 'The author tightened the summary.' }).expect(200);
+    expect(await AuditEvent.count({ where: { partId: id, action: 'edit' } })).toBe(0);
+    await modA.post(`/api/review/${id}/approve`).send({}).expect(200);
+  });
+
   it('lets exactly one of two moderators acting at once win; the other is told', async () => {
     const id = await submitted();
     const [a, b] = await Promise.all([

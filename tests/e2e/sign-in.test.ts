@@ -33,4 +33,27 @@ describe('browser · sign-in', () => {
     await error.waitFor();
     expect(await error.textContent()).toContain('do not match');
   });
+
+  it('register · a weak password · the form says why on the field; a good one · "check your mail", nobody signed in', async () => {
+    const { page } = rig;
+    await forgetSession(page);
+    await page.goto('/register');
+    const email = `browser-${Date.now()}@crew.test`;
+    await page.getByLabel('Name your crew knows you by').fill('Bea Browser');
+    await page.getByLabel('E-mail').fill(email);
+    await page.locator('#password').fill('aaaaaaaaaa');
+    await page.getByRole('button', { name: 'Create account' }).click();
+    await page.getByText('repeated or consecutive characters').waitFor();
+    // the common-password list is checked on the server; its answer lands on the same field
+    await page.locator('#password').fill('password12');
+    await page.getByRole('button', { name: 'Create account' }).click();
+    await page.getByText('list of common passwords').waitFor();
+    await page.locator('#password').fill('gaffer tape and a quiet dolly');
+    await page.getByRole('button', { name: 'Create account' }).click();
+    const sent = page.locator('[data-test="register-sent"]');
+    await sent.waitFor();
+    expect(await sent.textContent()).toContain(`Check your mail: a message is on its way to ${email}`);
+    expect(await page.locator('[data-test="account-button"]').count()).toBe(0);
+    await rig.screenshot('register-check-your-mail');
+  });
 });

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { evidenceWarnings, provenSentence, summariseEvidence, type ReportFacts } from '@shared/evidence';
+import { countedReports, evidenceWarnings, onePerMemberAndProduction, productionKey, provenSentence, summariseEvidence, type ReportFacts } from '@shared/evidence';
 import { compareProven, normalQuantileTwoSided } from '@shared/ranking';
 
 const r = (outcome: ReportFacts['outcome'], material = 'PETG', conditions: ReportFacts['conditions'] = []): ReportFacts => ({ outcome, material, conditions });
@@ -82,5 +82,75 @@ describe('ranking · a fixed set, best proven first', () => {
       .sort((a, b) => compareProven({ provenScore: a.proven, adjustedRating: a.rating.adjusted ?? 0 }, { provenScore: b.proven, adjustedRating: b.rating.adjusted ?? 0 }))
       .map((p) => p.name);
     expect(order).toEqual(['forty good', 'one perfect', 'no reports, loved', 'no reports, disliked']);
+  });
+});
+
+describe('evidence · who counts toward the proven figure', () => {
+  const AUTHOR = 1;
+  const by = (userId: number, outcome: ReportFacts['outcome'], production = 'The Salt Road', createdAt = '2026-03-01T10:00:00Z'): ReportFacts => ({
+    outcome,
+    material: 'PETG',
+    conditions: [],
+    userId,
+    production,
+    createdAt,
+  });
+
+  it('an author\'s own reports · never count toward their part\'s proven figure', () => {
+    // the probe's case: 25 "held up" reports by the author, one "failed" and one "held up" by crew
+    const reports = [...Array.from({ length: 25 }, (_, i) => by(AUTHOR, 'held-up', `Shoot ${i}`)), by(2, 'failed'), by(3, 'held-up')];
+    const e = summariseEvidence(reports, [], null, { authorId: AUTHOR });
+    expect(e.reports).toBe(2);
+    expect(e.heldUp).toBe(1);
+    expect(e.notCounted).toBe(25);
+    // Wilson lower bound, 1 of 2 at 95 % (E. B. Wilson, JASA 1927), by hand: z² = 3.841459;
+    // (0.5 + 0.960365 − 1.959964·√((0.25 + 0.480182)/2)) / (1 + 1.920730) = (1.460365 − 1.184265) / 2.920730 = 0.094531
+    expect(e.proven).toBeCloseTo(0.094531, 5);
+    expect(e.proven).toBeCloseTo(wilsonByHand(1, 2), 12);
+    expect(e.sentence).toMatch(/25 more reports are not counted/);
+    // without the rule the same reports would read 26 of 27, Wilson ≈ 0.81 (by the same formula)
+    expect(summariseEvidence(reports, [], null).proven).toBeCloseTo(wilsonByHand(26, 27), 12);
+  });
+
+  it('one member, one production · counts once (the latest), however the production is written', () => {
+    // our rule (common practice against ballot stuffing): one voice per member per job
+    const reports = [
+      by(2, 'failed', 'The Salt Road', '2026-03-01T10:00:00Z'),
+      by(2, 'held-up', 'the salt road ', '2026-03-02T10:00:00Z'),
+      by(2, 'held-up', 'THE SALT-ROAD', '2026-03-03T10:00:00Z'),
+      by(2, 'held-up', 'Night Ferry', '2026-03-04T10:00:00Z'),
+      by(3, 'held-up', 'The Salt Road', '2026-03-01T10:00:00Z'),
+    ];
+    const kept = onePerMemberAndProduction(reports);
+    expect(kept).toEqual([reports[2], reports[3], reports[4]]);
+    expect(productionKey('  THE  Salt-Road ')).toBe('the salt road');
+    const e = summariseEvidence(reports, [], null, { authorId: AUTHOR });
+    expect(e).toMatchObject({ reports: 3, heldUp: 3, notCounted: 2 });
+    expect(e.proven).toBeCloseTo(wilsonByHand(3, 3), 12);
+  });
+
+  it('no production named · one per member per day', () => {
+    const reports = [by(2, 'held-up', '', '2026-03-01T08:00:00Z'), by(2, 'held-up', '', '2026-03-01T18:00:00Z'), by(2, 'held-up', '', '2026-03-02T08:00:00Z')];
+    expect(countedReports(reports, AUTHOR)).toEqual([reports[1], reports[2]]);
+  });
+
+  it('warnings · still read the author\'s own failure reports (a caution is a caution), once per member and production', () => {
+    const reports = [
+      { ...by(AUTHOR, 'deformed'), material: 'PLA', conditions: ['heat'] as const },
+      { ...by(2, 'deformed'), material: 'PLA', conditions: ['heat'] as const },
+      { ...by(2, 'deformed', 'The Salt Road', '2026-03-05T10:00:00Z'), material: 'PLA', conditions: ['heat'] as const },
+    ];
+    const e = summariseEvidence(reports, [], null, { authorId: AUTHOR });
+    expect(e.warnings.map((w) => w.text)).toEqual(['PLA deformed in heat in 2 of 2 reports']);
+    expect(e.reports).toBe(1);
+  });
+
+  it('ranking · an author\'s 25 self-reports no longer lift their part above one with five crew reports', () => {
+    const stuffed = summariseEvidence([...Array.from({ length: 25 }, (_, i) => by(AUTHOR, 'held-up', `Shoot ${i}`)), by(2, 'held-up')], [], null, { authorId: AUTHOR });
+    const earned = summariseEvidence([2, 3, 4, 5, 6].map((u) => by(u, 'held-up')), [], null, { authorId: AUTHOR });
+    // Wilson lower bounds (JASA 1927): 1 of 1 → 0.2065, 5 of 5 → 0.5655 (both by the formula above)
+    expect(stuffed.proven).toBeCloseTo(wilsonByHand(1, 1), 12);
+    expect(earned.proven).toBeCloseTo(0.5655, 4);
+    expect(compareProven({ provenScore: earned.proven, adjustedRating: 0 }, { provenScore: stuffed.proven, adjustedRating: 0 })).toBeLessThan(0);
   });
 });

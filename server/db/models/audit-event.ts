@@ -2,7 +2,7 @@ import { DataTypes, Model, type CreationOptional, type InferAttributes, type Inf
 import { jsonColumn } from './columns';
 import type { User } from './user';
 
-export type AuditAction = 'submit' | 'resubmit' | 'approve' | 'send_back' | 'reject' | 'retire' | 'hide_rating' | 'hide_report';
+export type AuditAction = 'submit' | 'resubmit' | 'edit' | 'approve' | 'send_back' | 'reject' | 'retire' | 'hide_rating' | 'hide_report';
 
 /** One decision on record: who did what to which part, when, and why. Rows are never updated. */
 export class AuditEvent extends Model<InferAttributes<AuditEvent>, InferCreationAttributes<AuditEvent>> {

@@ -1,5 +1,6 @@
-import { Router, type NextFunction, type Request, type Response } from 'express';
+import { Router, type NextFunction, type Request, type RequestHandler, type Response } from 'express';
 import { rateLimit } from 'express-rate-limit';
+import { slowDown } from 'express-slow-down';
 import type { createPassport } from './passport';
 import {
   loginSchema,
@@ -19,6 +20,7 @@ import { AppError } from '../../errors';
 import { currentUser, requireAuth } from '../../middleware/auth';
 import { validate } from '../../middleware/validate';
 import type { AuthService } from './service';
+import { ACCOUNT_ANSWER_FLOOR_MS, evenTiming, registrationMessage } from './service';
 import { RESET_REQUESTED_MESSAGE, TOKEN_LIFETIME_MS, type TokenService } from './tokens';
 
 interface Deps {
@@ -29,13 +31,24 @@ interface Deps {
   tokens: TokenService;
 }
 
+/** Each failed sign-in from a network address past the free allowance waits this much longer… */
+export const LOGIN_DELAY_STEP_MS = 250;
+/** …up to this. */
+export const LOGIN_DELAY_MAX_MS = 5_000;
+
 function tooMany(message: string) {
   return (_req: Request, _res: Response, next: NextFunction) => next(new AppError(429, 'too_many_attempts', message));
 }
 
 function signIn(req: Request, user: User): Promise<void> {
   // passport regenerates the session id here, so a session fixed before sign-in is worthless after it
-  return new Promise((resolve, reject) => req.login(user, (err) => (err ? reject(err) : resolve())));
+  return new Promise((resolve, reject) =>
+    req.login(user, (err) => {
+      if (err) return reject(err);
+      req.session.signedInAt = Date.now();
+      resolve();
+    }),
+  );
 }
 
 /** Ends the session of this request (after a password reset of the account it is signed in to). */
@@ -55,7 +68,11 @@ export function authRoutes({ config, auth, passport, csrfToken, tokens }: Deps) 
   const minutes = `${config.LOGIN_LIMIT_WINDOW_MIN} minutes`;
 
   /** One counter per key (the IP address unless `key` says otherwise), answering 429 with `message`. */
-  const limiter = (limit: number, message: string, options: { key?: (req: Request) => string; onlyFailures?: boolean } = {}) =>
+  const limiter = (
+    limit: number,
+    message: string,
+    options: { key?: (req: Request, res: Response) => string; onlyFailures?: boolean; handler?: RequestHandler } = {},
+  ) =>
     rateLimit({
       windowMs,
       limit,
@@ -63,20 +80,45 @@ export function authRoutes({ config, auth, passport, csrfToken, tokens }: Deps) 
       legacyHeaders: false,
       skipSuccessfulRequests: options.onlyFailures ?? false,
       ...(options.key && { keyGenerator: options.key }),
-      handler: tooMany(message),
+      handler: options.handler ?? tooMany(message),
     });
-  const emailOf = (req: Request) => String((req.body as Partial<LoginInput>)?.email ?? '').toLowerCase();
+  // the address as the shared schema normalised it (trimmed, lower case), so " Name@x" and "name@x" share a counter
+  const emailOf = (res: Response) => String((res.locals.body as Partial<LoginInput> | undefined)?.email ?? '');
 
-  const perIp = limiter(config.LOGIN_LIMIT_PER_IP, `Too many sign-in attempts from this network. Wait ${minutes} and try again.`);
+  // Sign-in. Per account: strict, failures only. Per network address: failures only, generous and
+  // progressive: past a tenth of the limit each further failure waits longer (up to a few seconds);
+  // past the limit, an attempt is only checked when its account has no recent failures, and any
+  // refusal there (wrong password, or an account already under attack) is the same 429, so the
+  // answer never tells a correct password apart from a wrong one.
+  const signInRefused = `Too many sign-in attempts from this network. Wait ${minutes} and try again.`;
+  const perIpDelay = slowDown({
+    windowMs,
+    delayAfter: Math.max(1, Math.floor(config.LOGIN_LIMIT_PER_IP / 10)),
+    delayMs: (used, req) => (used - req.slowDown.limit) * LOGIN_DELAY_STEP_MS,
+    maxDelayMs: LOGIN_DELAY_MAX_MS,
+    skipSuccessfulRequests: true,
+  });
+  const perIp = limiter(config.LOGIN_LIMIT_PER_IP, signInRefused, {
+    onlyFailures: true,
+    handler: (_req, res, next) => {
+      res.locals.ipOverLimit = true;
+      next();
+    },
+  });
   const perAccount = limiter(config.LOGIN_LIMIT_PER_ACCOUNT, `Too many failed sign-ins for this account. Wait ${minutes} or reset your password.`, {
-    key: (req) => `account:${emailOf(req)}`,
+    key: (_req, res) => `account:${emailOf(res)}`,
     onlyFailures: true,
   });
-  // mail-sending and link-spending routes: their own counters, the same limits as sign-in
-  const resetPerIp = limiter(config.LOGIN_LIMIT_PER_IP, `Too many password-reset attempts from this network. Wait ${minutes} and try again.`);
-  const resetPerAddress = limiter(config.LOGIN_LIMIT_PER_ACCOUNT, `Too many reset links were asked for this address. Wait ${minutes}, then use the newest mail.`, {
-    key: (req) => `reset:${emailOf(req)}`,
-  });
+  /** Over the network limit: true when the account has failed sign-ins in this window (besides this attempt). */
+  const accountUnderAttack = async (res: Response) => ((await perAccount.getKey(`account:${emailOf(res)}`))?.totalHits ?? 0) > 1;
+
+  // mail-sending routes (registration, reset requests): per network address and per target address
+  const mailPerIp = (what: string) => limiter(config.MAIL_LIMIT_PER_IP, `Too many ${what} from this network. Wait ${minutes} and try again.`);
+  const perAddress = (prefix: string, message: string) => limiter(config.LOGIN_LIMIT_PER_ACCOUNT, message, { key: (_req, res) => `${prefix}:${emailOf(res)}` });
+  const registerPerIp = mailPerIp('new accounts');
+  const registerPerAddress = perAddress('register', `Too many sign-ups were tried with this address. Wait ${minutes}, then use the newest mail.`);
+  const resetPerIp = mailPerIp('password-reset attempts');
+  const resetPerAddress = perAddress('reset', `Too many reset links were asked for this address. Wait ${minutes}, then use the newest mail.`);
   const resendPerAccount = limiter(config.LOGIN_LIMIT_PER_ACCOUNT, `Too many confirmation mails were asked for. Wait ${minutes}, then use the newest mail.`, {
     key: (req) => `resend:${currentUser(req)?.id ?? ''}`,
   });
@@ -85,16 +127,19 @@ export function authRoutes({ config, auth, passport, csrfToken, tokens }: Deps) 
     response.json({ csrfToken: csrfToken(req) });
   });
 
-  router.post('/register', validate('body', registerSchema), async (req, response) => {
+  router.post('/register', registerPerIp, validate('body', registerSchema), registerPerAddress, async (_req, response) => {
     const input = response.locals.body as RegisterInput;
-    const user = await auth.register(input);
-    await signIn(req, user);
-    response.status(201).json({ user: user.toPublic() });
+    await evenTiming(ACCOUNT_ANSWER_FLOOR_MS, () => auth.register(input));
+    // the same answer whether the address is new or already has an account (its owner gets a mail saying so)
+    response.status(202).json({ message: registrationMessage(input.email) });
   });
 
-  router.post('/login', perIp, validate('body', loginSchema), perAccount, (req, response, next) => {
+  router.post('/login', validate('body', loginSchema), perIpDelay, perIp, perAccount, async (req, response, next) => {
+    const overLimit = response.locals.ipOverLimit === true;
+    if (overLimit && (await accountUnderAttack(response))) return next(new AppError(429, 'too_many_attempts', signInRefused));
     passport.authenticate('local', { session: false }, (err: unknown, user: User | false, info?: { message?: string }) => {
       if (err) return next(err);
+      if (overLimit && (!user || info?.message === 'suspended')) return next(new AppError(429, 'too_many_attempts', signInRefused));
       if (!user) {
         if (info?.message === 'suspended') {
           return next(new AppError(403, 'account_suspended', 'This account is suspended. Ask a Rigshelf admin to restore it.'));
@@ -122,7 +167,7 @@ export function authRoutes({ config, auth, passport, csrfToken, tokens }: Deps) 
 
   router.post('/password-reset/request', resetPerIp, validate('body', passwordResetRequestSchema), resetPerAddress, async (_req, response) => {
     const { email } = response.locals.body as PasswordResetRequestInput;
-    await tokens.requestPasswordReset(email);
+    await evenTiming(ACCOUNT_ANSWER_FLOOR_MS, () => tokens.requestPasswordReset(email));
     // the same answer whether or not an account uses the address
     response.status(202).json({ message: RESET_REQUESTED_MESSAGE });
   });

@@ -3,40 +3,65 @@ import type { RegisterInput } from '@shared/schemas/auth';
 import type { Config } from '../../config';
 import { User } from '../../db/models';
 import { transact } from '../../db/transaction';
-import { AppError } from '../../errors';
 import { dummyHash, hashPassword, verifyPassword } from '../../security/password';
+import { assertPasswordAllowed } from '../../security/password-policy';
 import type { TokenService } from './tokens';
 
 export type SignInResult = { ok: true; user: User } | { ok: false; reason: 'credentials' | 'suspended' };
 
-export function createAuthService(config: Config, tokens: Pick<TokenService, 'sendVerification'>) {
+/** Registration and reset requests take at least this long, whatever the address, so timing does not tell. */
+export const ACCOUNT_ANSWER_FLOOR_MS = 400;
+
+/** Runs `work` and resolves no sooner than `floorMs` after it started (also when it fails). */
+export async function evenTiming<T>(floorMs: number, work: () => Promise<T>): Promise<T> {
+  const started = performance.now();
+  try {
+    return await work();
+  } finally {
+    const left = floorMs - (performance.now() - started);
+    if (left > 0) await new Promise((resolve) => setTimeout(resolve, left));
+  }
+}
+
+export function registrationMessage(email: string): string {
+  return `Check your mail: a message is on its way to ${email}. Follow its link to confirm your address, then sign in. If nothing arrives within a few minutes, look in your spam folder.`;
+}
+
+export function createAuthService(config: Config, tokens: Pick<TokenService, 'sendVerification' | 'sendAlreadyRegistered'>) {
   const logN = config.PASSWORD_SCRYPT_LOG_N;
 
   return {
-    /** Creates the account and queues its confirmation mail in the same transaction. */
-    async register(input: RegisterInput): Promise<User> {
+    /**
+     * Registration answers the same whether or not the address has an account. A new address gets
+     * an unconfirmed account and a confirmation mail; a known one gets a mail telling its owner that
+     * someone tried to sign up with it. Both paths hash the password and write one mail, so the time
+     * taken says little either; the route adds a floor on top.
+     */
+    async register(input: RegisterInput): Promise<void> {
+      await assertPasswordAllowed(input.password, input.email);
       const passwordHash = await hashPassword(input.password, logN);
+      const db = User.sequelize!;
       try {
-        return await transact(User.sequelize!, async (transaction) => {
+        await transact(db, async (transaction) => {
+          const existing = await User.findOne({ where: { email: input.email }, transaction });
+          if (existing) return tokens.sendAlreadyRegistered(existing, transaction);
           const user = await User.create(
             { email: input.email, displayName: input.displayName, passwordHash, crewRole: null },
             { transaction },
           );
           await tokens.sendVerification(user, transaction);
-          return user;
         });
       } catch (err) {
-        if (err instanceof UniqueConstraintError) {
-          throw new AppError(409, 'email_taken', 'An account with that e-mail address already exists. Sign in instead.', {
-            email: 'An account with that e-mail address already exists.',
-          });
-        }
-        throw err;
+        if (!(err instanceof UniqueConstraintError)) throw err;
+        // the same address signed up twice at the same moment: the second one is told like any known address
+        const existing = await User.findOne({ where: { email: input.email } });
+        if (existing) await transact(db, (transaction) => tokens.sendAlreadyRegistered(existing, transaction));
       }
     },
 
     async checkCredentials(email: string, password: string): Promise<SignInResult> {
-      const user = await User.findOne({ where: { email: email.trim().toLowerCase() } });
+      // the address comes normalised by the shared schema (trimmed, lower case)
+      const user = await User.findOne({ where: { email } });
       if (!user) {
         await verifyPassword(password, await dummyHash(logN));
         return { ok: false, reason: 'credentials' };

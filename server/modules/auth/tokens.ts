@@ -9,6 +9,7 @@ import { transact } from '../../db/transaction';
 import type { TokenPurpose } from '../../db/models/account-token';
 import { AppError } from '../../errors';
 import { hashPassword } from '../../security/password';
+import { assertPasswordAllowed } from '../../security/password-policy';
 import type { Mailer } from '../mail/outbox';
 import { mailTemplates } from '../mail/templates';
 
@@ -112,6 +113,16 @@ export function createTokenService({ config, mailer }: { config: Config; mailer:
     /** Queues a confirmation mail for the account (inside the caller's transaction when given). */
     sendVerification,
 
+    /** Someone tried to sign up with an address that already has an account: tell its owner. */
+    async sendAlreadyRegistered(user: User, transaction?: Transaction): Promise<void> {
+      const content = mailTemplates.alreadyRegistered({
+        displayName: user.displayName,
+        signInLink: `${config.PUBLIC_URL}/sign-in`,
+        resetLink: `${config.PUBLIC_URL}/forgot-password`,
+      });
+      await mailer.enqueue(user.email, content, transaction);
+    },
+
     /** Signed in, not yet confirmed: a new confirmation mail (older links keep working until they expire). */
     async resendVerification(user: User): Promise<void> {
       if (user.emailVerifiedAt) {
@@ -138,7 +149,7 @@ export function createTokenService({ config, mailer }: { config: Config; mailer:
     async requestPasswordReset(email: string): Promise<void> {
       const made = newToken();
       await transact(db(), async (transaction) => {
-        const user = await User.findOne({ where: { email: email.trim().toLowerCase() }, transaction });
+        const user = await User.findOne({ where: { email }, transaction });
         const target = user && user.status === 'active' ? user : null;
         await retireResetTokens(target?.id ?? 0, transaction);
         if (!target) return;
@@ -157,7 +168,10 @@ export function createTokenService({ config, mailer }: { config: Config; mailer:
      * through the mailbox, so the address counts as confirmed too.
      */
     async resetPassword(token: string, password: string): Promise<User> {
-      await checkToken(token, 'password_reset'); // a wrong link fails before the slow hash
+      // a wrong link fails before the slow hash, a refused password before the link is spent
+      const found = await checkToken(token, 'password_reset');
+      const owner = await User.findByPk(found.userId);
+      await assertPasswordAllowed(password, owner?.email);
       const passwordHash = await hashPassword(password, logN);
       return transact(db(), async (transaction) => {
         const row = await consumeToken(token, 'password_reset', transaction);

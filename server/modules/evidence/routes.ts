@@ -75,8 +75,8 @@ export function flagRoutes(evidence: EvidenceService, type: 'rating' | 'report')
 /** Moderators: /api/review/flags, /api/review/ratings/:id/hide, /api/review/reports/:id/hide */
 export function evidenceModerationRoutes(evidence: EvidenceService) {
   const router = Router();
-  router.get('/flags', requireRole('moderator'), async (_req, res) => {
-    res.json({ items: await evidence.flagged() });
+  router.get('/flags', requireRole('moderator'), async (req, res) => {
+    res.json({ items: await evidence.flagged(currentUser(req)!) });
   });
   for (const type of ['rating', 'report'] as const) {
     router.post(`/${type}s/:id/hide`, requireRole('moderator'), validate('params', idParamSchema), validate('body', noteRequiredSchema), async (req, res) => {

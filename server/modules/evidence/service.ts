@@ -62,11 +62,17 @@ export function createEvidenceService({ sequelize, dirs, photos, onChanged }: Ev
   }
 
   async function evidenceFor(partIds: number[]): Promise<Map<number, Evidence>> {
-    const [reports, ratings, prior] = await Promise.all([
-      SetReport.findAll({ where: { partId: { [Op.in]: partIds }, ...visible }, attributes: ['partId', 'outcome', 'material', 'conditions'] }),
+    const [reports, ratings, prior, parts] = await Promise.all([
+      SetReport.findAll({
+        where: { partId: { [Op.in]: partIds }, ...visible },
+        attributes: ['partId', 'userId', 'production', 'createdAt', 'outcome', 'material', 'conditions'],
+        order: [['id', 'ASC']],
+      }),
       Rating.findAll({ where: { partId: { [Op.in]: partIds }, ...visible }, attributes: ['partId', 'stars'] }),
       catalogueMean(),
+      Part.findAll({ where: { id: { [Op.in]: partIds } }, attributes: ['id', 'authorId'] }),
     ]);
+    const authorOf = new Map(parts.map((p) => [p.id, p.authorId]));
     return new Map(
       partIds.map((id) => [
         id,
@@ -74,6 +80,8 @@ export function createEvidenceService({ sequelize, dirs, photos, onChanged }: Ev
           reports.filter((r) => r.partId === id),
           ratings.filter((r) => r.partId === id).map((r) => r.stars),
           prior,
+          // an author's own reports never raise their part's proven figure
+          { authorId: authorOf.get(id) ?? null },
         ),
       ]),
     );
@@ -217,6 +225,10 @@ export function createEvidenceService({ sequelize, dirs, photos, onChanged }: Ev
         const Target = (type === 'rating' ? Rating : SetReport) as typeof Rating;
         const target = await Target.findByPk(id, { transaction: t, lock: t.LOCK.UPDATE });
         if (!target) throw AppError.notFound(`There is no such ${type}.`);
+        const part = await Part.findByPk(target.partId, { transaction: t });
+        if (part?.authorId === actor.id) {
+          throw AppError.forbidden(`This ${type} is about your own part, so another moderator has to decide on it.`);
+        }
         if (target.hiddenAt) throw AppError.conflict(`This ${type} is already hidden.`);
         await target.update({ hiddenAt: new Date(), hiddenBy: actor.id, hiddenReason: note }, { transaction: t });
         await ContentFlag.update({ resolvedAt: new Date() }, { where: { targetType: type, targetId: id }, transaction: t });
@@ -230,8 +242,9 @@ export function createEvidenceService({ sequelize, dirs, photos, onChanged }: Ev
       return { id: result.id, hidden: true };
     },
 
-    /** Flagged entries waiting for a moderator, oldest flag first. */
-    async flagged() {
+    /** Flagged entries waiting for a moderator, oldest flag first; never those about the moderator's own parts. */
+    async flagged(viewer: User) {
+      const own = new Set((await Part.findAll({ where: { authorId: viewer.id }, attributes: ['id'] })).map((p) => p.id));
       const flags = await ContentFlag.findAll({ where: { resolvedAt: { [Op.is]: null } }, order: [['createdAt', 'ASC']] });
       const byTarget = new Map<string, ContentFlag[]>();
       for (const f of flags) byTarget.set(`${f.targetType}:${f.targetId}`, [...(byTarget.get(`${f.targetType}:${f.targetId}`) ?? []), f]);
@@ -239,7 +252,7 @@ export function createEvidenceService({ sequelize, dirs, photos, onChanged }: Ev
       for (const [key, list] of byTarget) {
         const [type, id] = key.split(':') as [Target, string];
         const target = type === 'rating' ? await Rating.findByPk(Number(id)) : await SetReport.findByPk(Number(id));
-        if (!target) continue;
+        if (!target || own.has(target.partId)) continue;
         items.push({
           type,
           id: Number(id),

@@ -116,6 +116,7 @@ export interface MailTemplates {
   decision(p: { partTitle: string; decision: Decision; note: string | null; moderator: string; link: string }): MailContent;
   verifyEmail(p: { displayName: string; link: string; expiresHours: number }): MailContent;
   passwordReset(p: { displayName: string; link: string; expiresMinutes: number }): MailContent;
+  alreadyRegistered(p: { displayName: string; signInLink: string; resetLink: string }): MailContent;
 }
 
 export const mailTemplates: MailTemplates = {
@@ -211,6 +212,20 @@ export const mailTemplates: MailTemplates = {
         kind: 'small',
         text: `The link works once, for ${plural(p.expiresMinutes, 'minute', 'minutes')}. A new password signs you out on every device. If it was not you, ignore this mail: your password stays as it is.`,
       },
+    ]);
+  },
+
+  /** To the owner of an address someone tried to sign up with again. */
+  alreadyRegistered(p: { displayName: string; signInLink: string; resetLink: string }): MailContent {
+    return mail('Someone tried to sign up with your address', 'You already have a Rigshelf account', [
+      {
+        kind: 'p',
+        text: `Hi ${p.displayName}, someone tried to create a new Rigshelf account with this address. It already has an account, so nothing was changed.`,
+      },
+      { kind: 'action', label: 'Sign in', link: p.signInLink },
+      { kind: 'p', text: 'If you have forgotten your password, ask for a reset link:' },
+      { kind: 'action', label: 'Reset my password', link: p.resetLink },
+      { kind: 'small', text: 'If it was not you, ignore this mail: your account and password stay as they are.' },
     ]);
   },
 };

@@ -141,3 +141,45 @@ export async function markChanged(part: Part, revision: PartRevision, transactio
   );
   return resubmitted;
 }
+
+/** One line of an edit's record: which field, and the old and new value where it is short enough to show. */
+export interface EditChange {
+  field: string;
+  before?: string;
+  after?: string;
+}
+
+const SHOWN_FIELDS = ['title', 'summary', 'category', 'licence', 'testedLoadKg'] as const;
+const SAFETY_FIELDS = ['carriesLoad', 'overhead', 'vehicle', 'heat'] as const;
+const clip = (v: unknown) => {
+  const text = v === null || v === undefined ? 'none' : String(v);
+  return text.length > 300 ? `${text.slice(0, 299)}…` : text;
+};
+
+/** What a PATCH changes on a revision, from the revision as it was before it. */
+export function editChanges(before: PartRevision, patch: PartUpdate): EditChange[] {
+  const changes: EditChange[] = [];
+  for (const field of SHOWN_FIELDS) {
+    if (patch[field] === undefined) continue;
+    const old = before[field];
+    const next = patch[field] ?? null;
+    if (String(old ?? 'none') !== String(next ?? 'none')) changes.push({ field, before: clip(old), after: clip(next) });
+  }
+  if (patch.description !== undefined && patch.description !== before.descriptionMd) {
+    changes.push({ field: 'description', before: clip(before.descriptionMd), after: clip(patch.description) });
+  }
+  if (patch.safety) {
+    for (const flag of SAFETY_FIELDS) {
+      if (patch.safety[flag] !== undefined && patch.safety[flag] !== before[flag]) {
+        changes.push({ field: `safety.${flag}`, before: before[flag] ? 'yes' : 'no', after: patch.safety[flag] ? 'yes' : 'no' });
+      }
+    }
+  }
+  for (const field of ['mounts', 'keyDimensions'] as const) {
+    if (patch[field] !== undefined && JSON.stringify(patch[field]) !== JSON.stringify(before[field])) changes.push({ field });
+  }
+  // recipes and camera bodies are replaced whole: sending them counts as a change
+  if (patch.recipes) changes.push({ field: 'recipes' });
+  if (patch.bodies) changes.push({ field: 'bodies' });
+  return changes;
+}

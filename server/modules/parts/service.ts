@@ -13,9 +13,27 @@ import type { UploadDirs } from '../files/storage';
 import { assertCanEdit, findVisiblePart, seesUnpublished } from './access';
 import { attachFiles, pathsOf, removeStoredFiles, sweepUploads } from './part-files';
 import { presentPart, presentSummaries } from './presenter';
-import { bodyIdsFor, editableRevision, insertBodies, insertRecipes, markChanged, replaceBodies, replaceRecipes, revisionColumns } from './revisions';
+import {
+  bodyIdsFor,
+  editableRevision,
+  editChanges,
+  insertBodies,
+  insertRecipes,
+  markChanged,
+  replaceBodies,
+  replaceRecipes,
+  revisionColumns,
+  type EditChange,
+} from './revisions';
 
 export type SubmissionHook = (actor: User, part: Part, revision: PartRevision, kind: 'submit' | 'resubmit', t: Transaction) => Promise<void>;
+/** What someone other than the author changed on a revision (fields, files added, files removed). */
+export interface EditRecord {
+  changes: EditChange[];
+  filesAdded?: string[];
+  filesRemoved?: string[];
+}
+export type EditHook = (actor: User, part: Part, revision: PartRevision, record: EditRecord, t: Transaction) => Promise<void>;
 
 export interface PartsDeps {
   sequelize: Sequelize;
@@ -23,6 +41,8 @@ export interface PartsDeps {
   photos: PhotoJobs;
   /** Tells the review desk about a new or changed submission, inside the same transaction. */
   onSubmitted?: SubmissionHook;
+  /** Puts an edit by someone other than the author on record, inside the same transaction. */
+  onEdited?: EditHook;
 }
 
 function fieldError(field: string, message: string) {
@@ -37,9 +57,11 @@ async function uniqueSlug(title: string, transaction: Transaction, alsoTaken: Se
   for (let n = 2; ; n++) if (!used.has(`${base}-${n}`)) return `${base}-${n}`;
 }
 
-export function createPartsService({ sequelize, dirs, photos, onSubmitted }: PartsDeps) {
+export function createPartsService({ sequelize, dirs, photos, onSubmitted, onEdited }: PartsDeps) {
   /** Records what an edit did: a new revision of a published part, or a resubmission after changes. */
-  async function afterEdit(actor: User, part: Part, edit: { revision: PartRevision; created: boolean }, t: Transaction) {
+  async function afterEdit(actor: User, part: Part, edit: { revision: PartRevision; created: boolean }, t: Transaction, record?: EditRecord) {
+    // the author's own edits are on record as (re)submissions; anyone else's edit is an event of its own
+    if (actor.id !== part.authorId && record) await onEdited?.(actor, part, edit.revision, record, t);
     const resubmitted = await markChanged(part, edit.revision, t);
     if (edit.created) await onSubmitted?.(actor, part, edit.revision, 'submit', t);
     else if (resubmitted) await onSubmitted?.(actor, part, edit.revision, 'resubmit', t);
@@ -178,10 +200,11 @@ export function createPartsService({ sequelize, dirs, photos, onSubmitted }: Par
         assertCanEdit(actor, part);
         if (patch.licence) await checkParentLicence(part.parentId, patch.licence, actor);
         const edit = await editableRevision(part, actor, t);
+        const changes = editChanges(edit.revision, patch);
         await edit.revision.update(revisionColumns(patch), { transaction: t });
         if (bodyIds) await replaceBodies(edit.revision.id, bodyIds, t);
         if (patch.recipes) await replaceRecipes(edit.revision.id, patch.recipes, t);
-        await afterEdit(actor, part, edit, t);
+        await afterEdit(actor, part, edit, t, { changes });
       });
       return this.get(actor, id);
     },
@@ -194,7 +217,7 @@ export function createPartsService({ sequelize, dirs, photos, onSubmitted }: Par
         const edit = await editableRevision(part, actor, t);
         const attached = await attachFiles({ dirs, partId: part.id, revisionId: edit.revision.id, createdBy: actor.id, files }, t);
         attempt.onRollback(attached.undo);
-        await afterEdit(actor, part, edit, t);
+        await afterEdit(actor, part, edit, t, { changes: [], filesAdded: files.map((f) => f.originalName) });
         return { result: undefined, photos: attached.rows };
       });
       return this.get(actor, id);
@@ -214,7 +237,7 @@ export function createPartsService({ sequelize, dirs, photos, onSubmitted }: Par
           if (models <= 1) throw AppError.conflict('A part needs at least one model file. Add the new model before removing this one.');
         }
         await RevisionFile.destroy({ where: { revisionId: revision.id, fileId }, transaction: t });
-        await afterEdit(actor, part, edit, t);
+        await afterEdit(actor, part, edit, t, { changes: [], filesRemoved: [file.originalName] });
         const stillUsed = await RevisionFile.count({ where: { fileId }, transaction: t });
         if (stillUsed) return null;
         await file.destroy({ transaction: t });
@@ -232,7 +255,7 @@ export function createPartsService({ sequelize, dirs, photos, onSubmitted }: Par
         const latest = (await PartRevision.findByPk(part.latestRevisionId!, { transaction: t, lock: t.LOCK.UPDATE }))!;
         const step = transition(latest.status, 'submit');
         if (!step.ok) throw AppError.conflict(step.message);
-        await afterEdit(actor, part, { revision: latest, created: false }, t);
+        await afterEdit(actor, part, { revision: latest, created: false }, t, { changes: [{ field: 'status', before: latest.status, after: 'in_review' }] });
       });
       return this.get(actor, id);
     },

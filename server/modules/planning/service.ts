@@ -411,13 +411,12 @@ export function createPlanningService({ sequelize, evidence }: PlanningDeps) {
         for (const [i, share] of input.shares.entries()) {
           const key = `shares.${i}.${share.email !== undefined ? 'email' : 'userId'}`;
           const user = share.email !== undefined ? await User.findOne({ where: { email: share.email }, transaction: t }) : await User.findByPk(share.userId!, { transaction: t });
-          if (!user) {
+          // an unknown and a suspended account get the same words, and neither is named
+          if (!user || user.status !== 'active') {
             fields[key] =
               share.email !== undefined
-                ? `Nobody on Rigshelf signs in with ${share.email}. Check the spelling, or ask them to create an account first.`
-                : `There is no member with id ${share.userId}.`;
-          } else if (user.status !== 'active') {
-            fields[key] = `${user.displayName}’s account is suspended, so the kit cannot be shared with it.`;
+                ? `The kit cannot be shared with ${share.email}. Check the spelling, or ask them for the address they sign in with.`
+                : `The kit cannot be shared with member ${share.userId}. Pick the member again, or share by the address they sign in with.`;
           } else if (user.id === kit.ownerId) {
             fields[key] = 'That is you: you own this kit already.';
           } else if (resolved.some((r) => r.userId === user.id)) {

@@ -9,6 +9,7 @@ import { mailTemplates, type MailContent } from '../mail/templates';
 import { notices } from '../notices/service';
 import { isModerator } from '../parts/access';
 import { presentPart, type PartDetail } from '../parts/presenter';
+import type { EditRecord } from '../parts/service';
 import { diffParts } from './diff';
 
 export interface MailQueue {
@@ -41,7 +42,35 @@ const NOTICE_TITLE = {
 } as const;
 
 /** Decisions a contributor sees about their own part (not moderation of other people's ratings). */
-const CONTRIBUTOR_VISIBLE: AuditAction[] = ['submit', 'resubmit', 'approve', 'send_back', 'reject', 'retire'];
+const CONTRIBUTOR_VISIBLE: AuditAction[] = ['submit', 'resubmit', 'edit', 'approve', 'send_back', 'reject', 'retire'];
+
+const FIELD_LABELS: Record<string, string> = {
+  title: 'Title',
+  summary: 'Summary',
+  description: 'Description',
+  category: 'Category',
+  licence: 'Licence',
+  testedLoadKg: 'Tested load (kg)',
+  'safety.carriesLoad': 'Carries load',
+  'safety.overhead': 'Used overhead',
+  'safety.vehicle': 'Used on a vehicle',
+  'safety.heat': 'Exposed to heat or sun',
+  mounts: 'Mount standards',
+  keyDimensions: 'Key dimensions',
+  recipes: 'Recipes',
+  bodies: 'Camera bodies',
+  status: 'Status',
+};
+
+/** The lines an edit event shows in the history: what changed, old → new where short enough. */
+export function editLines(record: EditRecord): string[] {
+  const lines = record.changes.map((c) =>
+    c.before !== undefined ? `${FIELD_LABELS[c.field] ?? c.field}: “${c.before}” → “${c.after}”` : `${FIELD_LABELS[c.field] ?? c.field} changed`,
+  );
+  if (record.filesAdded?.length) lines.push(`Files added: ${record.filesAdded.join(', ')}`);
+  if (record.filesRemoved?.length) lines.push(`Files removed: ${record.filesRemoved.join(', ')}`);
+  return lines;
+}
 
 async function moderatorIds(except: number, transaction?: Transaction): Promise<{ ids: number[]; emails: string[] }> {
   const mods = await User.findAll({
@@ -86,6 +115,14 @@ export function createReviewService({ sequelize, mail, publicUrl, onDecided }: R
     }
   }
 
+  /** Whoever changed a revision that is not theirs cannot also approve it: a second moderator has to. */
+  async function notEditedBy(actor: User, revision: PartRevision, t: Transaction) {
+    const edits = await AuditEvent.count({ where: { revisionId: revision.id, actorId: actor.id, action: 'edit' }, transaction: t });
+    if (edits) {
+      throw AppError.forbidden('You changed this revision yourself, so another moderator has to approve it. You can still send it back or reject it.');
+    }
+  }
+
   /** The message for a decision that is no longer possible, naming who got there first. */
   async function alreadyDecided(part: Part, revision: PartRevision | null, message: string, t: Transaction): Promise<AppError> {
     const last = await AuditEvent.findOne({
@@ -112,6 +149,17 @@ export function createReviewService({ sequelize, mail, publicUrl, onDecided }: R
       if (mods.emails.length) {
         await mail.enqueue(mods.emails, mailTemplates.newSubmission({ partTitle: revision.title, contributor: actor.displayName, link: deskLink(part), isRevision }), t);
       }
+    },
+
+    /** Puts an edit by someone other than the author on record and tells the author; inside the editing transaction. */
+    async edited(actor: User, part: Part, revision: PartRevision, change: EditRecord, t: Transaction) {
+      const lines = editLines(change);
+      await record(actor, part, revision, 'edit', null, { revision: revision.number, lines, ...change }, t);
+      await notices.notify(
+        [part.authorId],
+        { kind: 'review', title: `Changed by ${actor.displayName}: ${revision.title}`, body: lines.join('\n') || 'No visible change.', link: `/parts/${part.slug}` },
+        t,
+      );
     },
 
     async queue() {
@@ -156,14 +204,16 @@ export function createReviewService({ sequelize, mail, publicUrl, onDecided }: R
       const state: ReviewState = part.status === 'retired' ? 'retired' : submission.revision.status;
       const latest = await PartRevision.findByPk(part.latestRevisionId!);
       const own = part.authorId === actor.id || latest?.createdBy === actor.id;
+      const editedByYou = latest ? (await AuditEvent.count({ where: { revisionId: latest.id, actorId: actor.id, action: 'edit' } })) > 0 : false;
       return {
         submission,
         published,
         changes: published ? diffParts(published, submission) : [],
         warnings: await reviewWarnings(submission),
         checklist: REVIEW_CHECKLIST,
-        allowedActions: own ? [] : allowedActions(state),
+        allowedActions: own ? [] : allowedActions(state).filter((a) => !(editedByYou && a === 'approve')),
         ownSubmission: own,
+        editedByYou,
         history: await this.history(actor, partId),
       };
     },
@@ -178,6 +228,7 @@ export function createReviewService({ sequelize, mail, publicUrl, onDecided }: R
         const revision =
           action === 'retire' ? null : await PartRevision.findByPk(part.latestRevisionId!, { transaction: t, lock: t.LOCK.UPDATE });
         fourEyes(actor, part, revision);
+        if (action === 'approve' && revision) await notEditedBy(actor, revision, t);
 
         const from: ReviewState = action === 'retire' ? (part.status === 'retired' ? 'retired' : part.publishedRevisionId ? 'published' : part.status) : revision!.status;
         const step = transition(from, action);
@@ -236,6 +287,7 @@ export function createReviewService({ sequelize, mail, publicUrl, onDecided }: R
         actor: { id: e.actorId, displayName: e.actor?.displayName ?? '' },
         at: e.createdAt.toISOString(),
         details: isModerator(viewer) ? e.details : null,
+        changes: e.action === 'edit' ? ((e.details?.lines as string[] | undefined) ?? []) : null,
       }));
     },
   };
