@@ -352,18 +352,25 @@ export async function runChaos(options: ChaosOptions): Promise<ChaosSummary> {
     const diskOrphans: string[] = list('tmp').map((n) => `tmp/${n} (an upload nobody finished)`);
     const expectedStore = new Set<string>();
     const expectedIncoming = new Set<string>();
+    // a photo still waiting (cleaning cut off by shutdown) may already have its sizes written; the
+    // next start cleans it again over them, so they belong to its row
+    const pendingSizes = new Set<string>();
     const expectPhoto = (name: string, processing: string) => {
       if (processing === 'ready') {
         expectedStore.add(`${name}-display.jpg`);
         expectedStore.add(`${name}-thumb.jpg`);
-      } else if (processing === 'pending') expectedIncoming.add(name);
+      } else if (processing === 'pending') {
+        expectedIncoming.add(name);
+        pendingSizes.add(`${name}-display.jpg`);
+        pendingSizes.add(`${name}-thumb.jpg`);
+      }
     };
     for (const [kind, name, processing] of files) {
       if (kind === 'photo') expectPhoto(name, processing);
       else expectedStore.add(name);
     }
     for (const [name, processing] of reportPhotos) expectPhoto(name, processing);
-    for (const n of store) if (!expectedStore.has(n)) diskOrphans.push(`store/${n} (no row)`);
+    for (const n of store) if (!expectedStore.has(n) && !pendingSizes.has(n)) diskOrphans.push(`store/${n} (no row)`);
     for (const n of incoming) if (!expectedIncoming.has(n)) diskOrphans.push(`incoming/${n} (no pending row)`);
     for (const n of expectedStore) if (!store.has(n)) diskOrphans.push(`store/${n} (row without its file)`);
     for (const n of expectedIncoming) if (!incoming.has(n)) diskOrphans.push(`incoming/${n} (pending row without its file)`);
