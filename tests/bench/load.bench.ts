@@ -82,7 +82,10 @@ async function main() {
   const load = () => loadavg().map((l) => l.toFixed(1)).join(' ');
   console.log(`load bench: ${cpus().length} CPU(s) (load average ${load()} before the run: other work on the machine skews every figure), levels ${LEVELS.join(' and ')} members, ${SECONDS} s each, think time 0–${2 * THINK_MS} ms`);
   const db = await scratchDb('bench');
-  const server = await spawnServer(db.env, { LOOP_LAG_LOG_S: '0.25' }, 'bench');
+  const server = await spawnServer(db.env, { LOOP_LAG_LOG_S: '0.25' }, 'bench').catch(async (err) => {
+    await db.dispose();
+    throw err;
+  });
   try {
     const small = boxStl(40, 30, 6);
     const { ids, downloads } = await publishedParts(db.db, server.url, 8, small);
