@@ -2,7 +2,7 @@
 import { existsSync } from 'node:fs';
 import { join } from 'node:path';
 import { Op, type Transaction } from 'sequelize';
-import { PartFile, ReportPhoto, RevisionFile } from '../../db/models';
+import { PartFile, ReportPhoto, RevisionFile, WantedPhoto } from '../../db/models';
 import type { InspectedFile } from '../files/inspect';
 import type { PhotoQueue } from '../files/photo-queue';
 import { filesOlderThan, moveAll, randomStoredName, removeQuietly, type UploadDirs } from '../files/storage';
@@ -98,7 +98,7 @@ export async function removeStoredFiles(dirs: UploadDirs, row: Pick<PartFile, 'k
  * Start-up sweep after a crash: drops unfinished uploads, raw photos nobody is waiting for and stored
  * files no row refers to. Returns the photos still waiting to be cleaned.
  */
-export async function sweepUploads(dirs: UploadDirs): Promise<{ removed: number; pendingPhotos: PartFile[]; pendingReportPhotos: ReportPhoto[] }> {
+export async function sweepUploads(dirs: UploadDirs): Promise<{ removed: number; pendingPhotos: PartFile[]; pendingReportPhotos: ReportPhoto[]; pendingWantedPhotos: WantedPhoto[] }> {
   let removed = 0;
   const drop = async (path: string) => {
     await removeQuietly(path);
@@ -108,7 +108,8 @@ export async function sweepUploads(dirs: UploadDirs): Promise<{ removed: number;
 
   const pendingPhotos = await PartFile.findAll({ where: { kind: 'photo', processing: 'pending' } });
   const pendingReportPhotos = await ReportPhoto.findAll({ where: { processing: 'pending' } });
-  const waiting = new Set([...pendingPhotos, ...pendingReportPhotos].map((p) => p.storedName));
+  const pendingWantedPhotos = await WantedPhoto.findAll({ where: { processing: 'pending' } });
+  const waiting = new Set([...pendingPhotos, ...pendingReportPhotos, ...pendingWantedPhotos].map((p) => p.storedName));
   for (const name of await filesOlderThan(dirs.incoming, 0)) if (!waiting.has(name)) await drop(join(dirs.incoming, name));
 
   const stored = await filesOlderThan(dirs.store, 0);
@@ -117,8 +118,9 @@ export async function sweepUploads(dirs: UploadDirs): Promise<{ removed: number;
   const known = new Set([
     ...(await PartFile.findAll({ where: names, attributes: ['storedName'] })).map((f) => f.storedName),
     ...(await ReportPhoto.findAll({ where: names, attributes: ['storedName'] })).map((f) => f.storedName),
+    ...(await WantedPhoto.findAll({ where: names, attributes: ['storedName'] })).map((f) => f.storedName),
   ]);
   for (const name of stored) if (!known.has(baseOf(name))) await drop(join(dirs.store, name));
   const stillRaw = <T extends { storedName: string }>(rows: T[]) => rows.filter((p) => existsSync(pathsOf(dirs, { kind: 'photo', storedName: p.storedName }).original));
-  return { removed, pendingPhotos: stillRaw(pendingPhotos), pendingReportPhotos: stillRaw(pendingReportPhotos) };
+  return { removed, pendingPhotos: stillRaw(pendingPhotos), pendingReportPhotos: stillRaw(pendingReportPhotos), pendingWantedPhotos: stillRaw(pendingWantedPhotos) };
 }
