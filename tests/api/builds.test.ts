@@ -166,7 +166,7 @@ describe('search · build=', () => {
     const res = await visitor.get(`/api/search?q=clip&build=${id}`).expect(401);
     expect(res.body.error.message).toMatch(/Sign in to search with one of your builds/);
     const bad = await owner.get('/api/search?q=clip&build=mine').expect(422);
-    expect(bad.body.error.fields._).toMatch(/build=3/);
+    expect(bad.body.error.fields.build).toMatch(/build=3/);
   });
 
   it('GET /api/search · without build · the plain search, no fit marks', async () => {

@@ -7,6 +7,7 @@
 import type { NextFunction, Request, Response } from 'express';
 import { Router } from 'express';
 import { Op } from 'sequelize';
+import { z } from 'zod';
 import type { BuildSearchResponse, BuildSearchResultItem } from '@shared/api/builds';
 import type { SearchResponse, SearchResultItem } from '@shared/api/search';
 import { fitPartToBuild, FIT_ORDER, type FitBuild, type FitSize, type FitVerdict } from '@shared/build-fit';
@@ -19,6 +20,8 @@ import { currentUser } from '../../middleware/auth';
 import { buildsService } from '../builds/service';
 
 export const FIT_WINDOW = 300;
+
+const buildParam = z.object({ build: buildIdSchema });
 
 interface Searching {
   search(query: SearchQuery): SearchResponse | Promise<SearchResponse>;
@@ -42,14 +45,14 @@ export function buildSearchRoutes(search: Searching) {
     if (raw.build === undefined) return next();
     const user = currentUser(req);
     if (!user) throw AppError.unauthorized('Sign in to search with one of your builds, or leave out build=.');
-    const idParsed = buildIdSchema.safeParse(Array.isArray(raw.build) ? raw.build[0] : raw.build);
+    const idParsed = buildParam.safeParse({ build: Array.isArray(raw.build) ? raw.build[0] : raw.build });
     if (!idParsed.success) throw AppError.validation(idParsed.error);
     const { build: _omit, ...rest } = raw;
     const parsedQuery = searchQuerySchema.safeParse(rest);
     if (!parsedQuery.success) throw AppError.validation(parsedQuery.error);
     const query = parsedQuery.data;
 
-    const build = await buildsService.find(user, idParsed.data);
+    const build = await buildsService.find(user, idParsed.data.build);
     const fitBuild: FitBuild = { body: build.body?.slug ?? null, mounts: build.mounts, keySizes: build.keySizes };
     const bodyLabel = new Map<string, string>();
     const labels = { body: (slug: string) => bodyLabel.get(slug) ?? slug, mount: (slug: string) => mountStandard(slug)?.label ?? slug };
