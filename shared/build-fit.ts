@@ -9,7 +9,7 @@
 //            none of them is on the build (−: it has nothing to attach to). No mounts declared on
 //            either side gives no evidence.
 //   sizes  – each key size of the build is compared with the part's key dimensions of the same name
-//            (one name contains the other, case and spacing ignored). The part's value ± its own
+//            (sameSizeName: "lens barrel" meets "barrel bore", not "rod bore"). The part's value ± its own
 //            tolerance must overlap the build's value ± its tolerance, edges included (+); ranges
 //            apart are a clash (−). Sizes the part does not name give no evidence.
 // Verdict: any (−) → "not"; otherwise the body is listed, or a mount is shared, → "fits";
@@ -72,11 +72,34 @@ export function rangesOverlap(a: FitSize, b: FitSize): boolean {
 
 const plainName = (name: string) => name.trim().replace(/\s+/g, ' ').toLowerCase();
 
-/** "lens barrel" and "lens barrel diameter" name the same size; "rod bore" and "barrel bore" do not. */
+// Words that say which measure of a thing a size is; a bore and a diameter measure the same way.
+const MEASURES: Record<string, string> = {
+  bore: 'diameter', diameter: 'diameter', dia: 'diameter', od: 'diameter', id: 'diameter',
+  width: 'width', wide: 'width', height: 'height', tall: 'height', depth: 'depth', length: 'length', long: 'length', thickness: 'thickness', thick: 'thickness',
+};
+
+function nameParts(name: string) {
+  const words = plainName(name).split(/[^a-z0-9]+/).filter(Boolean);
+  const subject = new Set(words.filter((w) => !(w in MEASURES)).map((w) => w.replace(/s$/, '')));
+  const measure = new Set(words.filter((w) => w in MEASURES).map((w) => MEASURES[w]));
+  return { subject, measure };
+}
+const meets = (a: Set<string>, b: Set<string>) => [...a].some((x) => b.has(x));
+
+/**
+ * Whether two key-size names mean the same size: one name contains the other ("lens barrel" and
+ * "lens barrel diameter"), or they name the same thing and do not measure it differently ("lens
+ * barrel" and "barrel bore" meet; "plate width" and "plate height" do not, nor "rod bore" and
+ * "barrel bore").
+ */
 export function sameSizeName(a: string, b: string): boolean {
   const x = plainName(a);
   const y = plainName(b);
-  return x.length > 0 && y.length > 0 && (x.includes(y) || y.includes(x));
+  if (!x || !y) return false;
+  if (x.includes(y) || y.includes(x)) return true;
+  const p = nameParts(x);
+  const q = nameParts(y);
+  return meets(p.subject, q.subject) && (!p.measure.size || !q.measure.size || meets(p.measure, q.measure));
 }
 
 const mm = (v: number) => `${Number(v.toFixed(2))} mm`;

@@ -19,11 +19,11 @@ afterAll(async () => {
 });
 
 describe('demo scenario · builds and wanted parts', () => {
-  it('demo member · their builds · the car-week build on the KX-8 with rods, V-style, 1/4-20 and shoe', async () => {
+  it('demo member · their builds · the car-week build on the KX-8 with rods, V-style, 1/4-20, shoe and lens gear', async () => {
     const items = (await member.get('/api/builds').expect(200)).body.items as BuildInfo[];
     const carWeek = items.find((b) => b.name === DEMO_BUILD_NAME)!;
     expect(carWeek.body?.slug).toBe('korvel-kx8');
-    expect(carWeek.mounts.map((m) => m.slug)).toEqual(['rods-15-60', 'battery-v-style', 'screw-1-4-20', 'accessory-shoe']);
+    expect(carWeek.mounts.map((m) => m.slug)).toEqual(['rods-15-60', 'battery-v-style', 'screw-1-4-20', 'accessory-shoe', 'gear-0-8']);
   });
 
   it('demo shelf · searched with the car-week build · best proven first · the receiver cradle (made for the KX-8) fits and leads, every fitting part before any other', async () => {
@@ -34,6 +34,9 @@ describe('demo scenario · builds and wanted parts', () => {
     expect(res.results[0].fit.verdict).toBe('fits');
     const verdicts = res.results.map((r) => r.fit.verdict);
     expect(verdicts.lastIndexOf('fits')).toBeLessThan(verdicts.indexOf('not'));
+    // the gear ring: a gear the build uses, and its bore meets the build's lens barrel
+    const gear = res.results.find((r) => r.slug === 'lens-gear-ring-module-0-8-for-80-mm-barrels')!;
+    expect(gear.fit).toMatchObject({ verdict: 'fits', summary: 'Shares 0.8 module gear · barrel bore 80.4 ± 0.3 mm meets your lens barrel 80 ± 0.5 mm' });
     // the plate spacer is made for another body only
     const spacer = res.results.find((r) => r.slug === 'v-style-plate-spacer-6-mm')!;
     expect(spacer.fit).toMatchObject({ verdict: 'not', summary: 'Made for Ostrava Imaging Vega S35, not the Korvel KX-8' });

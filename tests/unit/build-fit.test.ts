@@ -55,6 +55,14 @@ describe('sameSizeName · naming', () => {
   it('sameSizeName · "rod bore" and "barrel bore" · different sizes', () => {
     expect(sameSizeName('rod bore', 'barrel bore')).toBe(false);
   });
+  it('sameSizeName · "lens barrel" and "barrel bore" · the same size (a gear ring’s bore sits on the barrel)', () => {
+    expect(sameSizeName('lens barrel', 'barrel bore')).toBe(true);
+    expect(sameSizeName('barrel diameter', 'barrel bore')).toBe(true);
+  });
+  it('sameSizeName · "plate width" and "plate height" · different measures of one thing', () => {
+    expect(sameSizeName('plate width', 'plate height')).toBe(false);
+    expect(sameSizeName('monitor width', 'Monitor widths')).toBe(true);
+  });
 });
 
 describe('fitPartToBuild · worked examples', () => {
@@ -64,10 +72,10 @@ describe('fitPartToBuild · worked examples', () => {
     expect(r.summary).toBe('Made for the Korvel KX-8 · Shares 15 mm rods at 60 mm, 1/4-20 UNC screw');
   });
 
-  it('fitPartToBuild · gear ring with no body and a gear mount the build lacks · not for this build', () => {
+  it('fitPartToBuild · gear ring with no body and a gear mount the build lacks · not for this build, though its bore meets the barrel', () => {
     const r = fitPartToBuild(gearRing, carWeek, labels);
     expect(r.verdict).toBe('not');
-    expect(r.reasons.map((x) => x.kind)).toEqual(['body-agnostic', 'mounts-none-shared']);
+    expect(r.reasons.map((x) => x.kind)).toEqual(['body-agnostic', 'mounts-none-shared', 'size-within']);
   });
 
   it('fitPartToBuild · the same gear ring for a build that lists the gear · fits, and its barrel bore meets the lens barrel', () => {

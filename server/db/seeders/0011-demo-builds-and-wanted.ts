@@ -36,7 +36,7 @@ export const up: MigrationFn = async ({ context: { sequelize } }) => {
         ownerId: member.id,
         name: DEMO_BUILD_NAME,
         bodyId: kx8.id,
-        mounts: ['rods-15-60', 'battery-v-style', 'screw-1-4-20', 'accessory-shoe'],
+        mounts: ['rods-15-60', 'battery-v-style', 'screw-1-4-20', 'accessory-shoe', 'gear-0-8'],
         keySizes: [
           { name: 'lens barrel', valueMm: 80, tolMm: 0.5 },
           { name: 'monitor width', valueMm: 182, tolMm: 1 },
