@@ -80,6 +80,9 @@ describe('wanted · asking', () => {
     expect(d.photos[0].processing).toBe('ready');
     const img = await stranger.get(d.photos[0].thumbnailUrl!).expect(200);
     expect(img.headers['content-type']).toBe('image/jpeg');
+    // the start-up sweep knows wanted photos: it leaves them in place
+    await t.services.parts.recover();
+    await stranger.get(d.photos[0].displayUrl!).expect(200);
   });
 
   it('POST /api/wanted · a model file instead of a photo · 422 and nothing kept', async () => {
