@@ -206,6 +206,18 @@ describe('wanted · answering and closing', () => {
     await moderator.post(`/api/wanted/${other}/close`).send({ reason: 'withdrawn', note: 'Same as the earlier one.' }).expect(200);
   });
 
+  it('wanted · role matrix · visitors 401 everywhere; an admin closes spam like a moderator', async () => {
+    const visitor = await agentFor(t.app);
+    await visitor.get(`/api/wanted/${id}`).expect(401);
+    await visitor.post(`/api/wanted/${id}/answers`).send({ part: 1 }).expect(401);
+    await visitor.post(`/api/wanted/${id}/close`).send({ reason: 'spam' }).expect(401);
+    const admin = await signedIn('admin');
+    const spamId = (await stranger.post('/api/wanted').send({ ...request, title: 'Buy followers for your reel' }).expect(201)).body.id;
+    const detail = (await admin.get(`/api/wanted/${spamId}`).expect(200)).body as WantedDetail;
+    expect(detail.can).toEqual({ answer: true, close: true, closeAsSpam: true });
+    await admin.post(`/api/wanted/${spamId}/close`).send({ reason: 'spam' }).expect(200);
+  });
+
   it('POST /:id/close · an unknown reason · 422 naming the reasons', async () => {
     const res = await asker.post(`/api/wanted/${id}/close`).send({ reason: 'done' }).expect(422);
     expect(res.body.error.fields.reason).toMatch(/solved, withdrawn/);
