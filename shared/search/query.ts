@@ -100,6 +100,34 @@ export type TextQuery =
 /** At most this many words count; the rest of a pasted paragraph is ignored. */
 export const MAX_TERMS = 12;
 
+/**
+ * What one search may cost. A typo automaton grows with the word's length to the power of the
+ * edit distance (lunr builds it whole before looking at the index): 12 letters at distance 7 took
+ * half a minute and gigabytes, so distances are capped and long words get fewer edits.
+ */
+export const SEARCH_LIMITS = {
+  /** `word~7` is read as `word~2`. */
+  maxEditDistance: 2,
+  /** The longest word given 2 edits (about 10 ms of automaton); 1 edit up to `oneEditUpTo`. */
+  twoEditsUpTo: 14,
+  oneEditUpTo: 30,
+  /** `*` in one query, and the letters that must come before the first `*` of a word. */
+  maxWildcards: 2,
+  minWildcardPrefix: 2,
+  /** Index terms one word may stand for (prefix, typo or wildcard expansions), shortest first. */
+  maxExpansions: 50,
+  /** A search still running after this long stops with an error instead of holding the shelf up. */
+  budgetMs: 1000,
+} as const;
+
+/** The edit distance a word of this length may get: the asked one, capped by length. */
+export function allowedEditDistance(asked: number, wordLength: number): number {
+  const capped = Math.min(Math.max(0, Math.floor(asked)), SEARCH_LIMITS.maxEditDistance);
+  if (capped >= 2 && wordLength > SEARCH_LIMITS.twoEditsUpTo) return wordLength > SEARCH_LIMITS.oneEditUpTo ? 0 : 1;
+  if (capped >= 1 && wordLength > SEARCH_LIMITS.oneEditUpTo) return 0;
+  return capped;
+}
+
 // field:term, +term, -term, term~1, term^2, te*m. A hyphen inside a word (KX-8, v-mount) is not syntax.
 const SYNTAX = /(?:^|[\s+-])[a-z][a-z0-9]*:|(?:^|\s)[+-]|[~^*]/i;
 

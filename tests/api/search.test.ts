@@ -340,6 +340,18 @@ describe('search · filters', () => {
 });
 
 describe('search · answers bad input', () => {
+  // an outside probe's request: before the cap it held every other request for half a minute
+  it('answers the probe\'s q=abcdefghijkl~7 at once, as if ~2', async () => {
+    const res = await request(t.app).get('/api/search?q=abcdefghijkl~7').expect(200);
+    expect(res.body.total).toBe(0);
+  });
+
+  it.each(['*', 'a*', 'ba* pl* ri*'])('refuses the costly wildcard search q=%j with 400', async (q) => {
+    const res = await searchRaw({ q });
+    expect(res.status).toBe(400);
+    expect(res.body.error.message).toMatch(/\*/);
+  });
+
   it.each(['title:', '*~^', 'colour:red'])('answers q=%j with 400 and a message', async (q) => {
     const res = await searchRaw({ q });
     expect(res.status).toBe(400);

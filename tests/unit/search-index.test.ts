@@ -5,7 +5,8 @@ import lunr from 'lunr';
 import { searchQuerySchema, type SearchQueryInput } from '@shared/schemas/search';
 import { AppError } from '../../server/errors';
 import { buildIndex, indexFileContent, type SearchDocument } from '../../server/modules/search/index-builder';
-import { createSearcher } from '../../server/modules/search/searcher';
+import { Budget, createSearcher, readSyntax } from '../../server/modules/search/searcher';
+import { allowedEditDistance } from '@shared/search/query';
 
 let nextId = 1;
 function doc(over: Partial<SearchDocument>): SearchDocument {
@@ -106,5 +107,51 @@ describe('search index · file', () => {
     const again = createSearcher({ index: lunr.Index.load(content.index), documents: content.documents });
     expect(again.search(searchQuerySchema.parse({ q: 'battery' })).results.map((r) => r.id)).toEqual([plate.id, note.id]);
     expect(content).toMatchObject({ format: 1, fingerprint: 'abc' });
+  });
+});
+
+describe('search index · limits', () => {
+  // The probe's queries: 12 letters at distance 7 held the event loop for half a minute before the cap.
+  it.each(['abcdefghijkl~7', 'abcdefghijkl~6', 'abcdefghijklmnopqrstuvwxyzabcdefghij~2', 'plate~9 battery~9 riser~9'])('answers %j within its limits', (q) => {
+    expect(() => ids({ q })).not.toThrow();
+  });
+
+  it('reads an edit distance above 2 as 2', () => {
+    expect(ids({ q: 'title:plaet~7' })).toEqual(ids({ q: 'title:plaet~2' }));
+    expect(ids({ q: 'title:plaet~2' })).toContain(plate.id);
+    expect(ids({ q: 'abcdefghijkl~7' })).toEqual([]);
+    expect(ids({ q: 'abcdefghijkl~7 -battery' })).toEqual([]);
+  });
+
+  it('gives long words fewer edits', () => {
+    expect(allowedEditDistance(7, 12)).toBe(2);
+    expect(allowedEditDistance(2, 15)).toBe(1);
+    expect(allowedEditDistance(2, 31)).toBe(0);
+    expect(allowedEditDistance(-1, 5)).toBe(0);
+  });
+
+  it.each([
+    ['*', /letters before a \*/],
+    ['a*', /letters before a \*/],
+    ['*late', /letters before a \*/],
+    ['pl*te ba*t ri*', /3 wildcards/],
+    [Array.from({ length: 13 }, (_, i) => `+w${i}`).join(' '), /13 words/],
+  ])('refuses %j with a 400 that says what to change', (q, message) => {
+    expect(() => readSyntax(q, q)).toThrow(message);
+    try {
+      ids({ q });
+    } catch (err) {
+      expect((err as AppError).status).toBe(400);
+    }
+  });
+
+  it('keeps "starts with" working after some letters, and a required word with several expansions', () => {
+    expect(ids({ q: 'title:ba*' })).toEqual([plate.id]);
+    expect(ids({ q: '+ch* +riser' })).toEqual([riser.id]);
+  });
+
+  it('stops a search that runs past its budget with a 503', () => {
+    const spent = new Budget(-1);
+    expect(() => spent.check()).toThrow(/took too long/);
   });
 });

@@ -7,7 +7,7 @@ import type { SearchResponse, SearchResultItem } from '../../../shared/api/searc
 import type { SearchQuery } from '../../../shared/schemas/search';
 import { mountToken } from '../../../shared/search/aliases';
 import { countFacets, matchesFilters } from '../../../shared/search/filters';
-import { readQueryText, type TermGroup } from '../../../shared/search/query';
+import { allowedEditDistance, MAX_TERMS, readQueryText, SEARCH_LIMITS, type TermGroup } from '../../../shared/search/query';
 import { AppError } from '../../errors';
 import { SEARCH_FIELDS, type SearchDocument } from './index-builder';
 
@@ -32,7 +32,22 @@ export const TYPO_RULES = { oneEditFrom: 5, twoEditsFrom: 7 } as const;
 /** The last word also matches as a prefix (the crew member may still be typing) from this length. */
 export const PREFIX_FROM = 3;
 /** At most this many words per prefix, shortest first, so "a" does not expand to the whole shelf. */
-export const MAX_EXPANSIONS = 50;
+export const MAX_EXPANSIONS = SEARCH_LIMITS.maxExpansions;
+
+/** Throws once a search has run longer than its budget (checked between the costly steps). */
+export class Budget {
+  private readonly until: number;
+  constructor(ms: number = SEARCH_LIMITS.budgetMs) {
+    this.until = performance.now() + ms;
+  }
+  check() {
+    if (performance.now() > this.until) {
+      throw new AppError(503, 'search_too_costly', 'This search took too long. Use fewer words with wildcards (*) or typos (~), then try again.');
+    }
+  }
+}
+
+const shortestFirst = (a: string, b: string) => a.length - b.length || (a < b ? -1 : 1);
 
 const BOOST = { exact: 1, prefix: 0.5, oneEdit: 0.4, twoEdits: 0.25, mountWord: 0.5 } as const;
 
@@ -89,10 +104,10 @@ function expandGroup(index: lunr.Index, group: TermGroup): Map<string, number> {
     prefixed.sort((a, b) => a.length - b.length || (a < b ? -1 : 1));
     for (const term of prefixed.slice(0, MAX_EXPANSIONS)) add(term, BOOST.prefix);
   }
-  if (terms.size === 0 && word.length >= TYPO_RULES.oneEditFrom) {
-    const fuzzy = (distance: number) => internals.tokenSet.intersect(TokenSet.fromFuzzyString(stemmed, distance)).toArray();
+  if (terms.size === 0 && word.length >= TYPO_RULES.oneEditFrom && allowedEditDistance(1, stemmed.length) === 1) {
+    const fuzzy = (distance: number) => internals.tokenSet.intersect(TokenSet.fromFuzzyString(stemmed, distance)).toArray().sort(shortestFirst);
     for (const term of fuzzy(1).slice(0, MAX_EXPANSIONS)) add(term, BOOST.oneEdit);
-    if (terms.size === 0 && word.length >= TYPO_RULES.twoEditsFrom) {
+    if (terms.size === 0 && word.length >= TYPO_RULES.twoEditsFrom && allowedEditDistance(2, stemmed.length) === 2) {
       for (const term of fuzzy(2).slice(0, MAX_EXPANSIONS)) add(term, BOOST.twoEdits);
     }
   }
@@ -127,19 +142,91 @@ function plainMatches(index: lunr.Index, groups: TermGroup[], byRef: Map<string,
 
 const SYNTAX_HELP =
   `Search understands plain words, or the query syntax field:word (fields: ${SEARCH_FIELDS.join(', ')}), ` +
-  '+word (must have), -word (must not have), word~1 (one typo allowed), word^2 (counts double) and batt* (starts with).';
+  '+word (must have), -word (must not have), word~1 (one typo allowed, at most ~2), word^2 (counts double) and batt* (starts with; at least two letters first, at most two * per search).';
 
-function syntaxMatches(index: lunr.Index, text: string, original: string, byRef: Map<string, SearchDocument>): Match[] {
-  let results: lunr.Index.Result[];
+function syntaxError(original: string, problem: string): AppError {
+  return AppError.badRequest(`The search "${original}" could not be read: ${problem}. ${SYNTAX_HELP}`, { q: problem });
+}
+
+/** A parsed clause; @types/lunr leaves `presence` out. */
+type Clause = lunr.Query.Clause & { presence?: lunr.Query.presence };
+
+// @types/lunr leaves the parser out
+const QueryParser = (lunr as unknown as { QueryParser: new (text: string, query: lunr.Query) => { parse(): void } }).QueryParser;
+
+/**
+ * Reads query syntax into clauses and holds it to SEARCH_LIMITS: edit distances capped (and
+ * lowered for long words), at most a few wildcards, each after some letters, at most MAX_TERMS
+ * clauses. Refusals are 400s a person can act on; capped distances are applied quietly.
+ */
+export function readSyntax(text: string, original: string, fields: readonly string[] = SEARCH_FIELDS): Clause[] {
+  const query = new lunr.Query([...fields]);
   try {
-    results = index.search(text);
+    new QueryParser(text, query).parse();
   } catch (err) {
-    if (err instanceof lunr.QueryParseError) {
-      throw AppError.badRequest(`The search "${original}" could not be read: ${err.message}. ${SYNTAX_HELP}`, { q: err.message });
-    }
+    if (err instanceof lunr.QueryParseError) throw syntaxError(original, err.message);
     throw err;
   }
+  if (query.clauses.length > MAX_TERMS) throw syntaxError(original, `it has ${query.clauses.length} words; use at most ${MAX_TERMS}`);
+  let wildcards = 0;
+  for (const clause of query.clauses) {
+    const stars = clause.term.split('*').length - 1;
+    wildcards += stars;
+    if (stars && clause.term.indexOf('*') < SEARCH_LIMITS.minWildcardPrefix) {
+      throw syntaxError(original, `put at least ${SEARCH_LIMITS.minWildcardPrefix} letters before a * ("${clause.term}"), like batt*`);
+    }
+    if (clause.editDistance) clause.editDistance = allowedEditDistance(clause.editDistance, clause.term.length);
+  }
+  if (wildcards > SEARCH_LIMITS.maxWildcards) throw syntaxError(original, `it has ${wildcards} wildcards (*); use at most ${SEARCH_LIMITS.maxWildcards}`);
+  return query.clauses as Clause[];
+}
+
+/**
+ * Query syntax, with the expansion done here instead of inside lunr so each clause stands for at
+ * most MAX_EXPANSIONS index terms and the budget is checked between clauses. A required clause
+ * with several expansions needs any one of them: it is sent as optional terms and checked after.
+ */
+function syntaxMatches(index: lunr.Index, text: string, original: string, byRef: Map<string, SearchDocument>, budget: Budget): Match[] {
+  const internals = index as unknown as IndexInternals;
+  const clauses = readSyntax(text, original);
+  const expanded: Clause[] = [];
+  const anyOf: string[][] = [];
+  for (const clause of clauses) {
+    budget.check();
+    const words = clause.usePipeline ? (internals.pipeline as unknown as { runString(s: string, meta: object): string[] }).runString(clause.term, { fields: clause.fields }) : [clause.term];
+    const terms = new Set<string>();
+    for (const word of words) {
+      const automaton = clause.editDistance ? TokenSet.fromFuzzyString(word, clause.editDistance) : TokenSet.fromString(word);
+      for (const term of internals.tokenSet.intersect(automaton).toArray()) terms.add(term);
+    }
+    const kept = [...terms].sort(shortestFirst).slice(0, MAX_EXPANSIONS);
+    const required = clause.presence === lunr.Query.presence.REQUIRED;
+    if (required && kept.length === 0) return [];
+    if (required && kept.length > 1) anyOf.push(kept);
+    for (const term of kept) {
+      // no editDistance key at all: lunr reads its presence as "fuzzy"
+      expanded.push({
+        term,
+        fields: clause.fields,
+        boost: clause.boost,
+        usePipeline: false,
+        wildcard: lunr.Query.wildcard.NONE,
+        presence: required && kept.length > 1 ? lunr.Query.presence.OPTIONAL : clause.presence,
+      } as Clause);
+    }
+  }
+  budget.check();
+  // lunr reads a query of only "must not" clauses (or none) as "everything except": when the
+  // positive words expanded to nothing, nothing matches
+  const positive = (c: Clause) => c.presence !== lunr.Query.presence.PROHIBITED;
+  if (clauses.some(positive) && !expanded.some(positive)) return [];
+  // a term holding "*" would be read as a wildcard again; such index terms are rare and skipped
+  const results = index.query((q) => {
+    for (const clause of expanded) if (!clause.term.includes('*')) q.clause(clause);
+  });
   return results.flatMap((r) => {
+    const matched = r.matchData.metadata as Record<string, unknown>;
+    if (!anyOf.every((terms) => terms.some((t) => t in matched))) return [];
     const doc = byRef.get(r.ref);
     return doc ? [{ doc, score: r.score }] : [];
   });
@@ -209,10 +296,11 @@ export function createSearcher({ index, documents }: Searchable): Searcher {
     documents,
     search(query, ranks) {
       const text = readQueryText(query.q);
+      const budget = new Budget();
       let matches: Match[];
       if (text.kind === 'none') matches = everything;
       else if (text.kind === 'plain') matches = plainMatches(index, text.groups, byRef);
-      else matches = syntaxMatches(index, text.text, query.q ?? '', byRef);
+      else matches = syntaxMatches(index, text.text, query.q ?? '', byRef, budget);
       return filterAndPage(matches, query, text.kind !== 'none', ranks);
     },
   };
