@@ -48,8 +48,15 @@ describe('search index · ranking', () => {
     expect(ids({ q: 'battery' })).toEqual([plate.id, note.id]);
   });
 
-  it('needs every word: "battery plate" leaves out the part that only mentions a battery', () => {
-    expect(ids({ q: 'battery plate' })).toEqual([plate.id]);
+  it('ranks parts matching every word first, then those matching most words, never an empty page', () => {
+    const res = searcher.search(searchQuerySchema.parse({ q: 'battery plate adapter slate' }));
+    expect(res.results.map((r) => r.id)).toEqual([plate.id, note.id]);
+    expect(res.results[0]).toMatchObject({ matched: ['battery plate', 'adapter'], missing: ['slate'] });
+    expect(res.results[1]).toMatchObject({ matched: ['slate'], missing: ['battery plate', 'adapter'] });
+    const all = searcher.search(searchQuerySchema.parse({ q: 'slate battery holder' }));
+    expect(all.results[0]).toMatchObject({ id: note.id, matched: ['slate', 'battery', 'holder'], missing: [] });
+    expect(all.results.map((r) => r.id)).toEqual([note.id, plate.id]);
+    expect(ids({ q: 'battery zzzzqqq' })).toEqual([plate.id, note.id]);
   });
 
   it('finds a camera body by model, compact model and alias', () => {
@@ -66,8 +73,9 @@ describe('search index · ranking', () => {
 
   it('treats the last word as a prefix', () => {
     expect(ids({ q: 'chee' })).toEqual([riser.id]);
-    expect(ids({ q: 'batt plate' })).toEqual([]); // only the last word is a prefix
-    expect(ids({ q: 'plate batt' })).toEqual([plate.id]);
+    // only the last word is a prefix: "batt" matches nothing here, "plate" still does
+    expect(searcher.search(searchQuerySchema.parse({ q: 'batt plate' })).results).toMatchObject([{ id: plate.id, matched: ['plate'], missing: ['batt'] }]);
+    expect(ids({ q: 'plate batt' })).toEqual([plate.id, note.id]);
   });
 
   it('finds mounts by any of their names', () => {
@@ -106,7 +114,7 @@ describe('search index · file', () => {
     const content = JSON.parse(indexFileContent(docs, 'abc', buildIndex(docs)));
     const again = createSearcher({ index: lunr.Index.load(content.index), documents: content.documents });
     expect(again.search(searchQuerySchema.parse({ q: 'battery' })).results.map((r) => r.id)).toEqual([plate.id, note.id]);
-    expect(content).toMatchObject({ format: 1, fingerprint: 'abc' });
+    expect(content).toMatchObject({ format: 2, fingerprint: 'abc' });
   });
 });
 

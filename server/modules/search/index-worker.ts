@@ -3,11 +3,12 @@
 import { mkdir, rename, rm, writeFile } from 'node:fs/promises';
 import { dirname } from 'node:path';
 import { parentPort } from 'node:worker_threads';
-import { buildIndex, indexFileContent, type SearchDocument } from './index-builder';
+import { buildIndex, indexFileContent, type SearchBody, type SearchDocument } from './index-builder';
 
 export interface BuildJob {
   id: number;
   documents: SearchDocument[];
+  bodies: SearchBody[];
   fingerprint: string;
   /** Where to save the index; null builds without saving. */
   file: string | null;
@@ -37,7 +38,7 @@ async function build(job: BuildJob): Promise<BuildResult> {
   let writeError: string | null = null;
   if (job.file) {
     try {
-      await writeAtomically(job.file, indexFileContent(job.documents, job.fingerprint, json));
+      await writeAtomically(job.file, indexFileContent(job.documents, job.fingerprint, json, job.bodies));
     } catch (err) {
       writeError = (err as Error).message;
     }

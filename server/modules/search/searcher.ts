@@ -5,8 +5,9 @@ import lunr from 'lunr';
 import { mountStandard } from '../../../shared/catalogue';
 import type { SearchResponse, SearchResultItem } from '../../../shared/api/search';
 import type { SearchQuery } from '../../../shared/schemas/search';
-import { mountToken } from '../../../shared/search/aliases';
-import { countFacets, matchesFilters } from '../../../shared/search/filters';
+import { BASE_PHRASES, PhraseTable } from '../../../shared/search/aliases';
+import { bodyPhraseEntries, resolveBody, type NamedBody } from '../../../shared/search/bodies';
+import { countFacets, dimensionCloseness, matchesFilters, type SearchFilters } from '../../../shared/search/filters';
 import { allowedEditDistance, MAX_TERMS, readQueryText, SEARCH_LIMITS, type TermGroup } from '../../../shared/search/query';
 import { AppError } from '../../errors';
 import { SEARCH_FIELDS, type SearchDocument } from './index-builder';
@@ -54,6 +55,8 @@ const BOOST = { exact: 1, prefix: 0.5, oneEdit: 0.4, twoEdits: 0.25, mountWord: 
 export interface Searchable {
   index: lunr.Index;
   documents: readonly SearchDocument[];
+  /** Every camera body the shelf knows (also those no part names yet); from the documents if left out. */
+  bodies?: readonly NamedBody[];
 }
 
 /** What ratings and set reports say about a part; refreshed apart from the text index. */
@@ -76,66 +79,104 @@ export interface Searcher {
 export interface Match {
   doc: SearchDocument;
   score: number;
+  /** Indexes of the query groups the part matched (plain text only). */
+  groups?: number[];
 }
 
-/** Terms of the index one group of the query may match, with the boost each gets. */
-function expandGroup(index: lunr.Index, group: TermGroup): Map<string, number> {
+/** Index terms that may stand for a slot, each with its boost; a slot is met when any is present. */
+type Slot = Map<string, number>;
+/** One way to match a group: every slot met. */
+type Alternative = Slot[];
+
+function internalsOf(index: lunr.Index) {
   const internals = index as unknown as IndexInternals;
   const has = (term: string) => Object.prototype.hasOwnProperty.call(internals.invertedIndex, term);
-  const terms = new Map<string, number>();
+  const stem = (word: string) => internals.pipeline.runString(word)[0] ?? word;
+  return { internals, has, stem };
+}
+
+/** The index terms one typed word stands for: as typed and stemmed, else as a prefix or with typos. */
+function wordSlot(index: lunr.Index, word: string, last: boolean, budget: Budget): Slot {
+  const { internals, has, stem } = internalsOf(index);
+  const terms: Slot = new Map();
   const add = (term: string, boost: number) => {
     if (!terms.has(term) && has(term)) terms.set(term, boost);
   };
-  const stem = (word: string) => internals.pipeline.runString(word)[0] ?? word;
-
-  if (group.kind === 'mount') {
-    add(mountToken(group.mount!), BOOST.exact);
-    if (group.alsoWord) add(stem(group.text), BOOST.mountWord);
-    return terms;
-  }
-
-  const word = group.text;
   const stemmed = stem(word);
   add(stemmed, BOOST.exact);
   add(word, BOOST.exact);
   // a last word that is already a word of the shelf is taken as typed; only a partial one expands
-  if (group.last && word.length >= PREFIX_FROM && terms.size === 0) {
+  if (last && word.length >= PREFIX_FROM && terms.size === 0) {
+    budget.check();
     const prefixed = internals.tokenSet.intersect(TokenSet.fromString(`${word}*`)).toArray();
-    prefixed.sort((a, b) => a.length - b.length || (a < b ? -1 : 1));
+    prefixed.sort(shortestFirst);
     for (const term of prefixed.slice(0, MAX_EXPANSIONS)) add(term, BOOST.prefix);
   }
   if (terms.size === 0 && word.length >= TYPO_RULES.oneEditFrom && allowedEditDistance(1, stemmed.length) === 1) {
+    budget.check();
     const fuzzy = (distance: number) => internals.tokenSet.intersect(TokenSet.fromFuzzyString(stemmed, distance)).toArray().sort(shortestFirst);
     for (const term of fuzzy(1).slice(0, MAX_EXPANSIONS)) add(term, BOOST.oneEdit);
     if (terms.size === 0 && word.length >= TYPO_RULES.twoEditsFrom && allowedEditDistance(2, stemmed.length) === 2) {
+      budget.check();
       for (const term of fuzzy(2).slice(0, MAX_EXPANSIONS)) add(term, BOOST.twoEdits);
     }
   }
   return terms;
 }
 
+/** The ways one group of the query can match; none when the shelf has none of its terms. */
+function expandGroup(index: lunr.Index, group: TermGroup, budget: Budget): Alternative[] {
+  const { has, stem } = internalsOf(index);
+  const alternatives: Alternative[] = [];
+  const single = (term: string, boost: number) => {
+    if (has(term)) alternatives.push([new Map([[term, boost]])]);
+  };
+  if (group.kind !== 'word') {
+    for (const token of group.tokens ?? []) single(token, BOOST.exact);
+    if (group.alsoWord) single(stem(group.text), BOOST.mountWord);
+  } else if (group.parts) {
+    // "snap-on": its parts (the last may be unfinished), or the joined form the index also holds
+    const slots = group.parts.map((part, i) => wordSlot(index, part, group.last && i === group.parts!.length - 1, budget));
+    if (slots.every((slot) => slot.size > 0)) alternatives.push(slots);
+    single(group.text.replace(/[^a-z0-9]+/g, ''), BOOST.exact);
+  } else {
+    const slot = wordSlot(index, group.text, group.last, budget);
+    if (slot.size) alternatives.push([slot]);
+  }
+  return alternatives;
+}
+
 /**
- * Plain words: every word (or mount name) must match, each through any of its expansions. A word
- * with a single expansion is marked required, so lunr scores only documents that have it; for the
- * others (prefix, typo) lunr scores the expansions together and the check that each group matched
- * is ours, from the match data.
+ * Plain words: each group (a word, a hyphenated word, a mount name, a trade synonym, a camera body)
+ * matches on its own. lunr scores every part that has any of the terms; which groups each part
+ * matched is read from the match data. Parts that match all groups rank first, then those that
+ * match most of them (coordination), so a search where only some words match never comes back empty.
  */
-function plainMatches(index: lunr.Index, groups: TermGroup[], byRef: Map<string, SearchDocument>): Match[] {
-  const expanded = groups.map((g) => expandGroup(index, g));
-  if (expanded.some((terms) => terms.size === 0)) return [];
+function plainMatches(index: lunr.Index, groups: TermGroup[], byRef: Map<string, SearchDocument>, budget: Budget): Match[] {
+  const expanded = groups.map((g) => expandGroup(index, g, budget));
+  const boosts = new Map<string, number>();
+  for (const alternatives of expanded) {
+    for (const alt of alternatives) for (const slot of alt) for (const [term, boost] of slot) boosts.set(term, Math.max(boost, boosts.get(term) ?? 0));
+  }
+  if (boosts.size === 0) return [];
+  budget.check();
   const results = index.query((q) => {
-    for (const terms of expanded) {
-      const presence = terms.size === 1 ? lunr.Query.presence.REQUIRED : lunr.Query.presence.OPTIONAL;
-      for (const [term, boost] of terms) q.term(term, { usePipeline: false, boost, presence });
-    }
+    for (const [term, boost] of boosts) q.term(term, { usePipeline: false, boost, presence: lunr.Query.presence.OPTIONAL });
   });
-  const open = expanded.filter((terms) => terms.size > 1).map((terms) => [...terms.keys()]);
   const matches: Match[] = [];
   for (const result of results) {
-    const matched = result.matchData.metadata as Record<string, unknown>;
-    if (!open.every((terms) => terms.some((t) => t in matched))) continue;
+    const present = result.matchData.metadata as Record<string, unknown>;
+    const met = (slot: Slot) => {
+      for (const term of slot.keys()) if (term in present) return true;
+      return false;
+    };
+    const matched: number[] = [];
+    expanded.forEach((alternatives, i) => {
+      if (alternatives.some((alt) => alt.every(met))) matched.push(i);
+    });
+    if (!matched.length) continue;
     const doc = byRef.get(result.ref);
-    if (doc) matches.push({ doc, score: result.score });
+    if (doc) matches.push({ doc, score: result.score, groups: matched });
   }
   return matches;
 }
@@ -234,9 +275,10 @@ function syntaxMatches(index: lunr.Index, text: string, original: string, byRef:
 
 const newestFirst = (a: SearchDocument, b: SearchDocument) => (a.publishedAt < b.publishedAt ? 1 : a.publishedAt > b.publishedAt ? -1 : b.id - a.id);
 
-function present(m: Match, ranks: Ranks): SearchResultItem {
+function present(m: Match, ranks: Ranks, groupTexts: readonly string[]): SearchResultItem {
   const { doc } = m;
   const rank = ranks.get(doc.id) ?? UNRANKED;
+  const hit = new Set(m.groups ?? []);
   return {
     id: doc.id,
     slug: doc.slug,
@@ -251,6 +293,8 @@ function present(m: Match, ranks: Ranks): SearchResultItem {
     reports: rank.reports,
     thumbnail: doc.thumbnail,
     score: Math.round(m.score * 1e4) / 1e4,
+    matched: groupTexts.filter((_, i) => hit.has(i)),
+    missing: m.groups ? groupTexts.filter((_, i) => !hit.has(i)) : [],
   };
 }
 
@@ -258,24 +302,45 @@ export function sortNewestFirst(documents: readonly SearchDocument[]): SearchDoc
   return [...documents].sort(newestFirst);
 }
 
+/** What the text part of a search handed on: the groups typed, for matched / missing on each result. */
+export interface TextContext {
+  ranked: boolean;
+  groupTexts: readonly string[];
+}
+
 /**
  * Everything after the text match: filters, facets over all matches, order and the page. Without
- * text (`ranked` false) the matches must come newest first already.
+ * text (`ranked` false) the matches must come newest first already. Whatever the sort, parts that
+ * match more of the typed groups come first (coordination); by relevance, then the closest key
+ * dimension, then lunr's score.
  */
-export function filterAndPage(matches: Match[], query: SearchQuery, ranked: boolean, ranks: Ranks = new Map()): SearchResponse {
+export function filterAndPage(
+  matches: Match[],
+  query: SearchQuery & SearchFilters,
+  text: TextContext | boolean,
+  ranks: Ranks = new Map(),
+): SearchResponse {
+  const ctx: TextContext = typeof text === 'boolean' ? { ranked: text, groupTexts: [] } : text;
   const filtered = matches.filter((m) => matchesFilters(m.doc, query));
   const rankOf = (m: Match) => ranks.get(m.doc.id) ?? UNRANKED;
+  const coordination = (a: Match, b: Match) => (b.groups?.length ?? 0) - (a.groups?.length ?? 0);
+  const dims = query.dim ?? [];
+  const closeness = new Map<Match, number>();
+  if (dims.length) for (const m of filtered) closeness.set(m, dimensionCloseness(m.doc.keyDimensions, dims));
+  const closer = (a: Match, b: Match) => (dims.length ? closeness.get(a)! - closeness.get(b)! : 0);
   if (query.sort === 'proven') {
     // best proven on set, then the adjusted rating, then relevance: one perfect report never beats forty good ones
     filtered.sort(
       (a, b) =>
+        coordination(a, b) ||
         compareProven({ provenScore: rankOf(a).proven, adjustedRating: rankOf(a).adjusted ?? 0 }, { provenScore: rankOf(b).proven, adjustedRating: rankOf(b).adjusted ?? 0 }) ||
         b.score - a.score ||
         newestFirst(a.doc, b.doc),
     );
-  } else if (ranked) {
-    if (query.sort === 'newest') filtered.sort((a, b) => newestFirst(a.doc, b.doc));
-    else filtered.sort((a, b) => b.score - a.score || newestFirst(a.doc, b.doc));
+  } else if (query.sort === 'newest') {
+    if (ctx.ranked) filtered.sort((a, b) => coordination(a, b) || newestFirst(a.doc, b.doc));
+  } else if (ctx.ranked || dims.length) {
+    filtered.sort((a, b) => coordination(a, b) || closer(a, b) || b.score - a.score || newestFirst(a.doc, b.doc));
   }
   const start = (query.page - 1) * query.pageSize;
   return {
@@ -283,25 +348,48 @@ export function filterAndPage(matches: Match[], query: SearchQuery, ranked: bool
     page: query.page,
     pageSize: query.pageSize,
     facets: countFacets(filtered.map((m) => m.doc)),
-    results: filtered.slice(start, start + query.pageSize).map((m) => present(m, ranks)),
+    results: filtered.slice(start, start + query.pageSize).map((m) => present(m, ranks, ctx.groupTexts)),
   };
 }
 
-export function createSearcher({ index, documents }: Searchable): Searcher {
+/** Every body named by the documents, when the caller passes no list of its own. */
+function bodiesOf(documents: readonly SearchDocument[]): NamedBody[] {
+  const bySlug = new Map<string, NamedBody>();
+  for (const d of documents) for (const b of d.bodies) if (!bySlug.has(b.slug)) bySlug.set(b.slug, b);
+  return [...bySlug.values()];
+}
+
+export function createSearcher({ index, documents, bodies = bodiesOf(documents) }: Searchable): Searcher {
   const byRef = new Map(documents.map((d) => [String(d.id), d]));
   const everything: Match[] = sortNewestFirst(documents).map((doc) => ({ doc, score: 0 }));
+  const phrases = new PhraseTable([...BASE_PHRASES, ...bodyPhraseEntries(bodies)]);
+
+  /** Body filter values (slugs or names) as slugs; an unknown name is a 400 naming the closest bodies. */
+  function bodyFilter(values: readonly string[]): string[] {
+    if (!values.length) return [];
+    return values.map((value) => {
+      const found = resolveBody(value, bodies);
+      if (found.ok) return found.slug;
+      const hint = found.closest.length ? ` Closest known: ${found.closest.join(', ')}.` : '';
+      throw AppError.badRequest(`No camera body is called "${value}".${hint}`, { body: `Unknown camera body "${value}".${hint}` });
+    });
+  }
 
   return {
     size: documents.length,
     documents,
     search(query, ranks) {
-      const text = readQueryText(query.q);
+      const filters = { ...query, body: bodyFilter(query.body) };
+      const text = readQueryText(query.q, phrases);
       const budget = new Budget();
       let matches: Match[];
+      let groupTexts: string[] = [];
       if (text.kind === 'none') matches = everything;
-      else if (text.kind === 'plain') matches = plainMatches(index, text.groups, byRef);
-      else matches = syntaxMatches(index, text.text, query.q ?? '', byRef, budget);
-      return filterAndPage(matches, query, text.kind !== 'none', ranks);
+      else if (text.kind === 'plain') {
+        matches = plainMatches(index, text.groups, byRef, budget);
+        groupTexts = text.groups.map((g) => g.text);
+      } else matches = syntaxMatches(index, text.text, query.q ?? '', byRef, budget);
+      return filterAndPage(matches, filters, { ranked: text.kind !== 'none', groupTexts }, ranks);
     },
   };
 }

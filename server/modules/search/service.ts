@@ -7,8 +7,8 @@ import type { Sequelize } from 'sequelize';
 import type { SearchResponse } from '@shared/api/search';
 import type { SearchQuery } from '@shared/schemas/search';
 import { AppError } from '../../errors';
-import { loadDocuments, publishedFingerprint } from './documents';
-import { SEARCH_FORMAT, type IndexFile, type SearchDocument } from './index-builder';
+import { loadBodies, loadDocuments, publishedFingerprint } from './documents';
+import { SEARCH_FORMAT, type IndexFile, type SearchBody, type SearchDocument } from './index-builder';
 import type { BuildJob, BuildResult } from './index-worker';
 import { createSearcher, type Ranks, type Searcher } from './searcher';
 
@@ -114,7 +114,7 @@ async function readIndexFile(file: string, fingerprint: string): Promise<{ file:
   }
   if (parsed?.format !== SEARCH_FORMAT) return `has format ${String(parsed?.format)}, this version writes ${SEARCH_FORMAT}`;
   if (parsed.fingerprint !== fingerprint) return 'is out of date with the shelf';
-  if (!Array.isArray(parsed.documents) || typeof parsed.index !== 'object' || !parsed.index) return 'is corrupt (missing parts)';
+  if (!Array.isArray(parsed.documents) || !Array.isArray(parsed.bodies) || typeof parsed.index !== 'object' || !parsed.index) return 'is corrupt (missing parts)';
   try {
     return { file: parsed, index: lunr.Index.load(parsed.index) };
   } catch {
@@ -168,10 +168,10 @@ export function createSearchService({ sequelize, indexFile, rebuildDelayMs = 250
   const readyPromise = new Promise<void>((r) => (markReady = r));
   const stats: Omit<SearchStats, 'documents' | 'fingerprint' | 'builtAt'> = { builds: 0, loadsFromFile: 0, source: null, lastError: null };
 
-  function install(documents: SearchDocument[], index: lunr.Index, fingerprint: string, builtAt: string, source: 'file' | 'build') {
+  function install(documents: SearchDocument[], bodies: SearchBody[], index: lunr.Index, fingerprint: string, builtAt: string, source: 'file' | 'build') {
     // one assignment: a search that already holds the old searcher finishes with it
     applyRanks(documents);
-    current = { searcher: createSearcher({ index, documents }), fingerprint, builtAt };
+    current = { searcher: createSearcher({ index, documents, bodies }), fingerprint, builtAt };
     stats.source = source;
     markReady();
     void refreshRanks();
@@ -182,12 +182,13 @@ export function createSearchService({ sequelize, indexFile, rebuildDelayMs = 250
     const fingerprint = await publishedFingerprint(sequelize);
     if (current && current.fingerprint === fingerprint) return;
     const documents = await loadDocuments();
+    const bodies = await loadBodies();
     if (closed) return;
-    const built = await worker.build({ documents, fingerprint, file: indexFile });
+    const built = await worker.build({ documents, bodies, fingerprint, file: indexFile });
     if (closed) return;
     if (built.writeError) console.error(`rigshelf: search index could not be saved to ${indexFile}: ${built.writeError}`);
     stats.builds += 1;
-    install(documents, lunr.Index.load(built.index), fingerprint, new Date().toISOString(), 'build');
+    install(documents, bodies, lunr.Index.load(built.index), fingerprint, new Date().toISOString(), 'build');
   }
 
   function settle() {
@@ -229,7 +230,7 @@ export function createSearchService({ sequelize, indexFile, rebuildDelayMs = 250
         const saved = await readIndexFile(indexFile, fingerprint);
         if (typeof saved === 'object') {
           stats.loadsFromFile += 1;
-          install(saved.file.documents, saved.index, saved.file.fingerprint, saved.file.builtAt, 'file');
+          install(saved.file.documents, saved.file.bodies ?? [], saved.index, saved.file.fingerprint, saved.file.builtAt, 'file');
           return { ...service.stats(), rebuiltBecause: null };
         }
         dirty = true;
