@@ -30,11 +30,14 @@ export function fuseUnits(text: string): string {
 
 /** Same-looking characters people type for inch marks and dashes folded, case, spacing and units. */
 export function normaliseQueryText(text: string): string {
-  const folded = text
-    .replace(/[″”“„‟]|′′/g, '"') // before NFKC, which would turn ″ into two primes
-    .normalize('NFKC')
-    .toLowerCase()
-    .replace(/[‐‑‒–—]/g, '-');
+  // plain ASCII (nearly every part text) has no look-alike marks or dashes to fold
+  const folded = /^[\x00-\x7f]*$/.test(text)
+    ? text.toLowerCase()
+    : text
+        .replace(/[″”“„‟]|′′/g, '"') // before NFKC, which would turn ″ into two primes
+        .normalize('NFKC')
+        .toLowerCase()
+        .replace(/[‐‑‒–—]/g, '-');
   return fuseUnits(folded).replace(/\s+/g, ' ').trim();
 }
 
@@ -169,9 +172,65 @@ function joinedCompounds(text: string): string[] {
   return [...text.matchAll(/(?<![a-z0-9-])[a-z0-9]+(?:-[a-z0-9]+)+(?![a-z0-9-])/g)].map((m) => m[0].replace(/-/g, ''));
 }
 
-// one table per synonym set, so phrases of different sets that overlap ("cheese riser", "riser")
-// are each found in indexed text
-const SYNONYM_SETS = TRADE_SYNONYMS.map((set) => new PhraseTable(set.phrases.map((text) => ({ text, token: synonymToken(set.key) }))));
+const SINGULARS = new Map<string, string>();
+
+/** One spelling per word for phrase look-ups: plural endings dropped ("batteries" → "battery"). */
+function singular(word: string): string {
+  let known = SINGULARS.get(word);
+  if (known === undefined) {
+    known = singularOf(word);
+    // the shelf's vocabulary is small; a pasted wall of unique words must not grow this forever
+    if (SINGULARS.size < 100_000) SINGULARS.set(word, known);
+  }
+  return known;
+}
+
+function singularOf(word: string): string {
+  if (!/^[a-z]{4,}$/.test(word) || /(ss|us|is)$/.test(word)) return word;
+  if (word.endsWith('ies')) return `${word.slice(0, -3)}y`;
+  if (/(ches|shes|xes|sses)$/.test(word)) return word.slice(0, -2);
+  return word.endsWith('s') ? word.slice(0, -1) : word;
+}
+
+const phraseKey = (words: readonly string[]) => words.map(singular).join('');
+
+/** Synonym phrases by their key (words singular, joined without separators), for indexed text. */
+const SYNONYM_KEYS = new Map<string, string[]>();
+/** Keys of the first words of longer phrases: a run that is none of these stops growing. */
+const SYNONYM_PREFIXES = new Set<string>();
+let LONGEST_SYNONYM = 1;
+for (const set of TRADE_SYNONYMS) {
+  for (const phrase of set.phrases) {
+    const words = normaliseQueryText(phrase).split(/[^a-z0-9]+/).filter(Boolean);
+    LONGEST_SYNONYM = Math.max(LONGEST_SYNONYM, words.length);
+    const key = phraseKey(words);
+    for (let n = 1; n < words.length; n++) SYNONYM_PREFIXES.add(phraseKey(words.slice(0, n)));
+    const tokens = SYNONYM_KEYS.get(key) ?? [];
+    if (!tokens.includes(synonymToken(set.key))) tokens.push(synonymToken(set.key));
+    SYNONYM_KEYS.set(key, tokens);
+  }
+}
+
+/**
+ * The synonym tokens of every phrase in a text, overlapping ones included ("cheese riser" and
+ * "riser"). A look-up of each run of up to LONGEST_SYNONYM words, so hyphens, spaces, joined
+ * spellings and plurals are folded the way the query's phrase table folds them; linear in the
+ * text, which matters when 50,000 parts are indexed.
+ */
+export function synonymTokensIn(normalised: string): string[] {
+  const words = normalised.split(/[^a-z0-9]+/).filter(Boolean).map(singular);
+  const found = new Set<string>();
+  for (let i = 0; i < words.length; i++) {
+    let key = '';
+    for (let n = 0; n < LONGEST_SYNONYM && i + n < words.length; n++) {
+      key += words[i + n];
+      const tokens = SYNONYM_KEYS.get(key);
+      if (tokens) for (const t of tokens) found.add(t);
+      if (!SYNONYM_PREFIXES.has(key)) break;
+    }
+  }
+  return [...found];
+}
 
 /**
  * Text as the index holds it: normalised like a query (units fused), with the joined form of each
@@ -180,8 +239,7 @@ const SYNONYM_SETS = TRADE_SYNONYMS.map((set) => new PhraseTable(set.phrases.map
 export function indexText(text: string): string {
   if (!text) return '';
   const normalised = normaliseQueryText(text);
-  const synonyms = SYNONYM_SETS.flatMap((table) => table.find(normalised).mentions.slice(0, 1).flatMap((m) => m.tokens));
-  const extra = [...new Set([...joinedCompounds(normalised), ...synonyms])];
+  const extra = [...new Set([...joinedCompounds(normalised), ...synonymTokensIn(normalised)])];
   return extra.length ? `${normalised} ${extra.join(' ')}` : normalised;
 }
 
