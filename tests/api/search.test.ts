@@ -398,12 +398,12 @@ describe('search · follows the shelf', () => {
   it('keeps answering from the old index while a rebuild runs, then swaps in the new one', async () => {
     const id = await submitPart({ size: [20, 20, 20], data: { ...base, title: 'Marker pouch clip', category: 'cases-storage', licence: 'CC-BY-4.0', summary: 'Hangs a pouch of slate markers on the cart.', recipes: [recipe.PETG] } });
     await approve(id);
-    // search is synchronous: whatever it answers now comes from one complete index
-    const during = t.services.search.search(searchQuerySchema.parse({ q: 'pouch' }));
+    // the worker that holds the old index answers until the new one is ready
+    const during = await t.services.search.search(searchQuerySchema.parse({ q: 'pouch' }));
     expect(during.results.map((r) => r.id)).toEqual([]);
     expect(t.services.search.stats().documents).toBe(11);
     await t.services.search.idle();
-    expect(t.services.search.search(searchQuerySchema.parse({ q: 'pouch' })).results.map((r) => r.id)).toEqual([id]);
+    expect((await t.services.search.search(searchQuerySchema.parse({ q: 'pouch' }))).results.map((r) => r.id)).toEqual([id]);
   });
 
   it('follows an approved edit: the new title is found, the old one no longer', async () => {
