@@ -22,7 +22,10 @@
  * in memory in both); for MariaDB the server process's RSS and the tables' size on disk.
  */
 import { spawnSync } from 'node:child_process';
-import { readFileSync } from 'node:fs';
+import { mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { monitorEventLoopDelay } from 'node:perf_hooks';
 import { fileURLToPath } from 'node:url';
 import lunr from 'lunr';
 import { createConnection, type Connection } from 'mariadb';
@@ -30,10 +33,12 @@ import MiniSearch from 'minisearch';
 import { searchQuerySchema, type SearchQuery } from '../../shared/schemas/search';
 import { expandMountAliases } from '../../shared/search/aliases';
 import { readQueryText } from '../../shared/search/query';
+import { resolveBody } from '../../shared/search/bodies';
+import { SearchWorker } from '../../server/modules/search/service';
 import { FIELD_BOOSTS, SEARCH_FIELDS, buildIndex, indexFileContent, indexRecord, type SearchDocument } from '../../server/modules/search/index-builder';
 import { createSearcher, filterAndPage, sortNewestFirst, type Match } from '../../server/modules/search/searcher';
 import { localInstance } from '../../server/scripts/local-env';
-import { BENCH_QUERIES, inventedCatalogue, type QueryKind } from './search-catalogue';
+import { BENCH_QUERIES, inventedBodies, inventedCatalogue, type QueryKind } from './search-catalogue';
 
 const MB = 1e6;
 const BENCH_DB = 'rigshelf_bench';
@@ -57,6 +62,8 @@ interface Report {
   rssMb: number;
   /** Sum of `total` over the query set, to show how differently the engines match. */
   hits: number;
+  /** lunr only: the live path, through the search worker the server uses. */
+  live?: { p50: number; p95: number; p99: number; stallMs: number; stallP99Ms: number; swapBuildMs: number };
   note?: string;
 }
 
@@ -82,6 +89,12 @@ function summarise(samples: { kind: QueryKind; ms: number }[]) {
 }
 
 const parsedQueries = () => BENCH_QUERIES.map((q) => ({ kind: q.kind, query: searchQuerySchema.parse(q.query) }));
+
+/** Body names as slugs, for the contenders that do not read names themselves (our searcher does). */
+const BODIES = inventedBodies();
+function withBodySlugs(q: SearchQuery): SearchQuery {
+  return { ...q, body: q.body.map((b) => { const r = resolveBody(b, BODIES); return r.ok ? r.slug : b; }) };
+}
 
 /** Runs the query set once to warm up, then whole rounds until the budget is spent. */
 async function measureQueries(run: (q: SearchQuery) => Promise<number> | number) {
@@ -125,7 +138,9 @@ async function benchLunr(docs: SearchDocument[]): Promise<Omit<Report, 'contende
   })();
   gc();
   const { hits, rounds, samples } = await measureQueries((q) => searcher.search(q).total);
+  const live = await liveLunr(docs);
   return {
+    live,
     buildMs,
     serializedMb,
     loadMs,
@@ -136,6 +151,59 @@ async function benchLunr(docs: SearchDocument[]): Promise<Omit<Report, 'contende
     rssMb: (after.rss - before.rss) / MB,
     hits,
   };
+}
+
+/**
+ * The server's live path: a SearchWorker loads the saved index and answers searches posted from
+ * this (main) thread. Then, while searches keep going to it, a second worker builds a new index
+ * and is swapped in exactly as the service does it. The main thread's longest stall over the
+ * whole rebuild and swap is what a request would have waited, at worst.
+ */
+async function liveLunr(docs: SearchDocument[]) {
+  const dir = mkdtempSync(join(tmpdir(), 'rigshelf-bench-'));
+  try {
+    const first = join(dir, 'first.json');
+    writeFileSync(first, indexFileContent(docs, 'first', buildIndex(docs), BODIES));
+    const documentsFile = join(dir, 'documents.json');
+    writeFileSync(documentsFile, JSON.stringify({ documents: docs, bodies: BODIES }));
+    let serving = new SearchWorker({ file: first, db: null });
+    if ((await serving.run({ type: 'start' })).type !== 'ready') throw new Error('the search worker did not load the index');
+    const { samples } = await measureQueries(async (q) => (await serving.search(q, 60_000)).total);
+    const latency = summarise(samples).latency;
+
+    const queries = parsedQueries().map((q) => q.query);
+    const delay = monitorEventLoopDelay({ resolution: 5 });
+    let last = performance.now();
+    let stall = 0;
+    const probe = setInterval(() => {
+      const now = performance.now();
+      stall = Math.max(stall, now - last);
+      last = now;
+    }, 2);
+    let searching = true;
+    const traffic = (async () => {
+      for (let i = 0; searching; i++) await serving.search(queries[i % queries.length], 60_000);
+    })();
+    delay.enable();
+    const next = new SearchWorker({ file: join(dir, 'second.json'), db: null });
+    const built = await next.run({ type: 'build-file', documentsFile, fingerprint: 'second' });
+    if (built.type !== 'ready') throw new Error('the second search worker did not build');
+    // the swap, as service.ts swapIn does it
+    next.sendRanks(new Map());
+    const old = serving;
+    serving = next;
+    old.retire();
+    await new Promise((r) => setTimeout(r, 300));
+    searching = false;
+    await traffic;
+    delay.disable();
+    clearInterval(probe);
+    await serving.stop();
+    // the probe ticks every 2 ms: a gap of 2 ms is no stall
+    return { ...latency, stallMs: Math.max(0, stall - 2), stallP99Ms: delay.percentile(99) / 1e6, swapBuildMs: built.buildMs ?? 0 };
+  } finally {
+    rmSync(dir, { recursive: true, force: true });
+  }
 }
 
 // ---------------------------------------------------------------------------------------------
@@ -174,7 +242,8 @@ async function benchMiniSearch(docs: SearchDocument[]): Promise<Omit<Report, 'co
     return { serializedMb: Buffer.byteLength(content) / MB, loadMs: performance.now() - started };
   })();
   gc();
-  const { hits, rounds, samples } = await measureQueries((q) => {
+  const { hits, rounds, samples } = await measureQueries((raw) => {
+    const q = withBodySlugs(raw);
     const text = readQueryText(q.q);
     let matches: Match[];
     if (text.kind === 'none') matches = newest;
@@ -326,7 +395,7 @@ async function benchMariaDb(docs: SearchDocument[]): Promise<Omit<Report, 'conte
       [BENCH_DB],
     );
     const rssAfter = serverRssMb();
-    const { hits, rounds, samples } = await measureQueries((q) => sqlSearch(db, q));
+    const { hits, rounds, samples } = await measureQueries((q) => sqlSearch(db, withBodySlugs(q)));
     return {
       buildMs,
       serializedMb: Number(sizes.bytes) / MB,
@@ -395,6 +464,12 @@ function table(reports: Report[]) {
     ),
   );
   console.log(`samples: lunr ${l.samples} (${l.rounds} rounds), minisearch ${m.samples}, MariaDB ${d.samples}; ${d.note}`);
+  if (l.live) {
+    console.log(
+      `lunr live path (search worker, round trip from the main thread): p50 ${f(l.live.p50, 2)} ms, p95 ${f(l.live.p95, 2)} ms, p99 ${f(l.live.p99, 2)} ms; ` +
+        `rebuild + swap under search traffic: longest main-thread stall ${f(l.live.stallMs, 1)} ms (event-loop delay p99 ${f(l.live.stallP99Ms, 1)} ms; build in the worker ${f(l.live.swapBuildMs, 0)} ms)`,
+    );
+  }
 }
 
 async function parent(sizes: number[]) {

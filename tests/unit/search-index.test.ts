@@ -163,3 +163,18 @@ describe('search index · limits', () => {
     expect(() => spent.check()).toThrow(/took too long/);
   });
 });
+
+describe('search index · plain-word scorer', () => {
+  it('gives the same scores as lunr.Index.query for the same terms', () => {
+    // reference: lunr 2.3.9's own query scoring over the same index, every term optional
+    const index = buildIndex(docs);
+    const ours = createSearcher({ index, documents: docs });
+    for (const q of ['battery', 'battery holder', 'pocket light spare']) {
+      const terms = q.split(' ');
+      const reference = new Map(index.query((query) => terms.forEach((t) => query.term(t, { presence: lunr.Query.presence.OPTIONAL }))).map((r) => [Number(r.ref), r.score]));
+      const got = ours.search(searchQuerySchema.parse({ q: `${q} ` }));
+      expect(got.results.length).toBeGreaterThan(0);
+      for (const r of got.results) if (r.missing.length === 0 && reference.has(r.id)) expect(r.score).toBeCloseTo(reference.get(r.id)!, 3);
+    }
+  });
+});

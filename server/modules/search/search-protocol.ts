@@ -1,6 +1,5 @@
 // What the search service and its worker thread say to each other (search-worker.ts, service.ts).
 import type { SearchQuery } from '../../../shared/schemas/search';
-import type { SearchBody, SearchDocument } from './index-builder';
 import type { Rank } from './searcher';
 
 export interface DbSettings {
@@ -23,8 +22,8 @@ export type WorkerRequest =
   | { type: 'start' }
   /** Build from the database and save, unless the shelf's fingerprint is still `unless`. */
   | { type: 'build'; unless: string | null }
-  /** Build from the documents given (the benchmark's catalogue) and save. */
-  | { type: 'build-documents'; documents: SearchDocument[]; bodies: SearchBody[]; fingerprint: string }
+  /** Build from a JSON file of { documents, bodies } (the benchmark's catalogue) and save. */
+  | { type: 'build-file'; documentsFile: string; fingerprint: string }
   | { type: 'search'; id: number; query: SearchQuery }
   /** Ratings and set-report figures, 6 numbers per part (RANK_FIELDS); NaN stands for null. */
   | { type: 'ranks'; data: Float64Array };

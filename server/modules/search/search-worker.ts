@@ -115,8 +115,10 @@ async function handle(message: WorkerRequest): Promise<WorkerReply | null> {
       if (fingerprint === message.unless) return { type: 'unchanged' };
       return buildAndSave(await loadDocuments(), await loadBodies(), fingerprint, null);
     }
-    case 'build-documents':
-      return buildAndSave(message.documents, message.bodies, message.fingerprint, null);
+    case 'build-file': {
+      const { documents, bodies } = JSON.parse(await readFile(message.documentsFile, 'utf8')) as { documents: SearchDocument[]; bodies: SearchBody[] };
+      return buildAndSave(documents, bodies, message.fingerprint, null);
+    }
     case 'ranks':
       ranks = unpackRanks(message.data);
       for (const doc of searcher?.documents ?? []) doc.rating = ranks.get(doc.id)?.mean ?? null;

@@ -146,37 +146,123 @@ function expandGroup(index: lunr.Index, group: TermGroup, budget: Budget): Alter
   return alternatives;
 }
 
+/** Per index term: the documents (by position) that hold it, and its weight in each. */
+interface Postings {
+  docs: Int32Array;
+  weights: Float32Array;
+}
+
+/**
+ * The plain-word scorer's view of the lunr index, derived once when an index is put in place.
+ * lunr scores a document as Σ over fields of (query vector · field vector) / |query vector|, the
+ * field vectors holding lunr's BM25 weights with the field boosts (lunr.Index.prototype.query,
+ * lunr.Vector.prototype.similarity). For plain words every term counts in every field, so a
+ * term's share of a document's score is one number, Σ_fields w(term, field, doc), and the query
+ * vector's length is √(Σ boost²). Kept as typed arrays per term, a query adds
+ * them up in a Float64Array: the same scores as lunr.Index.query (to float32 rounding) without
+ * the objects lunr makes for every matching field of every document (the profile of a broad
+ * word such as "print" spent most of its time there and in the garbage collector).
+ */
+function compactPostings(index: lunr.Index, positionOf: Map<string, number>): Map<string, Postings> {
+  const internals = index as unknown as IndexInternals & { fieldVectors: Record<string, { elements: number[]; magnitude(): number }> };
+  const termOf: string[] = [];
+  for (const term of Object.keys(internals.invertedIndex)) termOf[(internals.invertedIndex[term] as { _index: number })._index] = term;
+  const lists = new Map<number, { docs: number[]; weights: number[] }>();
+  for (const [fieldRef, vector] of Object.entries(internals.fieldVectors)) {
+    const doc = positionOf.get(fieldRef.slice(fieldRef.indexOf('/') + 1));
+    if (doc === undefined) continue;
+    const el = vector.elements;
+    for (let i = 0; i < el.length; i += 2) {
+      let list = lists.get(el[i]);
+      if (!list) lists.set(el[i], (list = { docs: [], weights: [] }));
+      const n = list.docs.length;
+      // fields of one document come one after another: add to its entry instead of a new one
+      if (n && list.docs[n - 1] === doc) list.weights[n - 1] += el[i + 1];
+      else {
+        list.docs.push(doc);
+        list.weights.push(el[i + 1]);
+      }
+    }
+  }
+  const postings = new Map<string, Postings>();
+  for (const [termIndex, list] of lists) {
+    const term = termOf[termIndex];
+    if (term !== undefined) postings.set(term, { docs: Int32Array.from(list.docs), weights: Float32Array.from(list.weights) });
+  }
+  return postings;
+}
+
 /**
  * Plain words: each group (a word, a hyphenated word, a mount name, a trade synonym, a camera body)
- * matches on its own. lunr scores every part that has any of the terms; which groups each part
- * matched is read from the match data. Parts that match all groups rank first, then those that
- * match most of them (coordination), so a search where only some words match never comes back empty.
+ * matches on its own. Every part that has any of the terms is scored; which groups each part
+ * matched comes from bit masks of the slots its terms meet. Parts that match all groups rank
+ * first, then those that match most of them (coordination), so a search where only some words
+ * match never comes back empty.
  */
-function plainMatches(index: lunr.Index, groups: TermGroup[], byRef: Map<string, SearchDocument>, budget: Budget): Match[] {
+function plainMatches(
+  index: lunr.Index,
+  groups: TermGroup[],
+  documents: readonly SearchDocument[],
+  postings: Map<string, Postings>,
+  budget: Budget,
+): Match[] {
   const expanded = groups.map((g) => expandGroup(index, g, budget));
-  const boosts = new Map<string, number>();
+  // one bit per slot (at most 64: two 32-bit words); a group is met when all slots of one of its alternatives are
+  const terms = new Map<string, { boost: number; lo: number; hi: number }>();
+  const groupMasks: { lo: number; hi: number }[][] = [];
+  let bit = 0;
   for (const alternatives of expanded) {
-    for (const alt of alternatives) for (const slot of alt) for (const [term, boost] of slot) boosts.set(term, Math.max(boost, boosts.get(term) ?? 0));
+    const masks: { lo: number; hi: number }[] = [];
+    for (const alt of alternatives) {
+      if (bit + alt.length > 64) break;
+      const mask = { lo: 0, hi: 0 };
+      for (const slot of alt) {
+        const lo = bit < 32 ? 1 << bit : 0;
+        const hi = bit >= 32 ? 1 << (bit - 32) : 0;
+        bit += 1;
+        mask.lo |= lo;
+        mask.hi |= hi;
+        for (const [term, boost] of slot) {
+          const t = terms.get(term) ?? { boost: 0, lo: 0, hi: 0 };
+          t.boost = Math.max(t.boost, boost);
+          t.lo |= lo;
+          t.hi |= hi;
+          terms.set(term, t);
+        }
+      }
+      masks.push(mask);
+    }
+    groupMasks.push(masks);
   }
-  if (boosts.size === 0) return [];
+  if (terms.size === 0) return [];
   budget.check();
-  const results = index.query((q) => {
-    for (const [term, boost] of boosts) q.term(term, { usePipeline: false, boost, presence: lunr.Query.presence.OPTIONAL });
-  });
+  const n = documents.length;
+  const score = new Float64Array(n);
+  const lo = new Int32Array(n);
+  const hi = new Int32Array(n);
+  const touched: number[] = [];
+  for (const [term, t] of terms) {
+    const p = postings.get(term);
+    if (!p) continue;
+    const { docs, weights } = p;
+    for (let i = 0; i < docs.length; i++) {
+      const d = docs[i];
+      if (lo[d] === 0 && hi[d] === 0) touched.push(d);
+      score[d] += t.boost * weights[i];
+      lo[d] |= t.lo;
+      hi[d] |= t.hi;
+    }
+  }
+  let squares = 0;
+  for (const t of terms.values()) squares += t.boost * t.boost;
+  const norm = Math.sqrt(squares) || 1;
   const matches: Match[] = [];
-  for (const result of results) {
-    const present = result.matchData.metadata as Record<string, unknown>;
-    const met = (slot: Slot) => {
-      for (const term of slot.keys()) if (term in present) return true;
-      return false;
-    };
+  for (const d of touched) {
     const matched: number[] = [];
-    expanded.forEach((alternatives, i) => {
-      if (alternatives.some((alt) => alt.every(met))) matched.push(i);
-    });
-    if (!matched.length) continue;
-    const doc = byRef.get(result.ref);
-    if (doc) matches.push({ doc, score: result.score, groups: matched });
+    for (let g = 0; g < groupMasks.length; g++) {
+      if (groupMasks[g].some((m) => (lo[d] & m.lo) === m.lo && (hi[d] & m.hi) === m.hi)) matched.push(g);
+    }
+    if (matched.length) matches.push({ doc: documents[d], score: score[d] / norm, groups: matched });
   }
   return matches;
 }
@@ -361,6 +447,7 @@ function bodiesOf(documents: readonly SearchDocument[]): NamedBody[] {
 
 export function createSearcher({ index, documents, bodies = bodiesOf(documents) }: Searchable): Searcher {
   const byRef = new Map(documents.map((d) => [String(d.id), d]));
+  const postings = compactPostings(index, new Map(documents.map((d, i) => [String(d.id), i])));
   const everything: Match[] = sortNewestFirst(documents).map((doc) => ({ doc, score: 0 }));
   const phrases = new PhraseTable([...BASE_PHRASES, ...bodyPhraseEntries(bodies)]);
 
@@ -386,7 +473,7 @@ export function createSearcher({ index, documents, bodies = bodiesOf(documents) 
       let groupTexts: string[] = [];
       if (text.kind === 'none') matches = everything;
       else if (text.kind === 'plain') {
-        matches = plainMatches(index, text.groups, byRef, budget);
+        matches = plainMatches(index, text.groups, documents, postings, budget);
         groupTexts = text.groups.map((g) => g.text);
       } else matches = syntaxMatches(index, text.text, query.q ?? '', byRef, budget);
       return filterAndPage(matches, filters, { ranked: text.kind !== 'none', groupTexts }, ranks);
