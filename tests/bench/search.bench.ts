@@ -9,8 +9,11 @@
  * creates the database rigshelf_bench and drops it at the end. Each contender × size runs in its
  * own child process (node --expose-gc) on the same seeded catalogue and the same fixed query set:
  *
- * - lunr: buildIndex / indexFileContent / lunr.Index.load + createSearcher, exactly what the
- *   service does; a query is searcher.search() (text, filters, facets, sort, page).
+ * - lunr: buildIndex / indexFileContent / lunr.Index.load + createSearcher, what the search worker
+ *   does; a query is searcher.search() (text, filters, facets, sort, page). In a process of its
+ *   own, the live path: a SearchWorker (the server's class) loads the index file and answers
+ *   searches posted from the main thread; then a second worker builds and is swapped in while
+ *   searches go on, and the main thread's longest event-loop stall is printed.
  * - MiniSearch: the same index records (indexRecord) and term processing (lunr's trimmer, stop
  *   words and stemmer), the same boosts, fuzzy 0.2, prefix, AND; then our filterAndPage().
  * - MariaDB: one table with a FULLTEXT index over all fields plus weighted ones (title ×10,
