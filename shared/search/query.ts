@@ -195,5 +195,8 @@ export function readQueryText(q: string | undefined, phrases: PhraseTable = DEFA
     groups.push({ kind: 'word', text: word, last });
   });
   if (!groups.length) return { kind: 'none' };
+  // in the order typed, so matched / missing read like the search text
+  const at = (g: TermGroup) => text.indexOf(g.text);
+  groups.sort((a, b) => at(a) - at(b));
   return { kind: 'plain', groups: groups.slice(0, MAX_TERMS) };
 }

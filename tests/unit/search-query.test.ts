@@ -140,7 +140,7 @@ describe('readQueryText', () => {
     expect(readQueryText('quarter inch riser')).toMatchObject({
       groups: [{ kind: 'mount', mount: 'screw-1-4-20' }, { kind: 'phrase', text: 'riser', alsoWord: true }],
     });
-    expect(readQueryText('clamp 1/4"')).toMatchObject({ groups: [{ kind: 'mount', text: '1/4in' }, { kind: 'word', text: 'clamp', last: false }] });
+    expect(readQueryText('clamp 1/4"')).toMatchObject({ groups: [{ kind: 'word', text: 'clamp', last: false }, { kind: 'mount', text: '1/4in' }] });
   });
 
   it('reads a number glued to its unit, or apart, as one word', () => {
