@@ -28,7 +28,7 @@ import { spawnSync } from 'node:child_process';
 import { mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import { monitorEventLoopDelay } from 'node:perf_hooks';
+import { monitorEventLoopDelay, performance as perf } from 'node:perf_hooks';
 import { fileURLToPath } from 'node:url';
 import lunr from 'lunr';
 import { createConnection, type Connection } from 'mariadb';
@@ -68,7 +68,7 @@ interface Report {
   /** Sum of `total` over the query set, to show how differently the engines match. */
   hits: number;
   /** lunr only: the live path, through the search worker the server uses. */
-  live?: { p50: number; p95: number; p99: number; stallMs: number; stallP99Ms: number; swapBuildMs: number };
+  live?: { p50: number; p95: number; p99: number; stallMs: number; stallsOver50: number; stallP99Ms: number; utilisation: number; swapBuildMs: number };
   note?: string;
 }
 
@@ -162,25 +162,28 @@ async function benchLunr(docs: SearchDocument[]): Promise<Omit<Report, 'contende
  * and is swapped in exactly as the service does it. The main thread's longest stall over the
  * whole rebuild and swap is what a request would have waited, at worst.
  */
-async function liveLunr(docs: SearchDocument[]) {
+async function liveLunr(catalogue: SearchDocument[]) {
   const dir = mkdtempSync(join(tmpdir(), 'rigshelf-bench-'));
   try {
-    const first = join(dir, 'first.json');
-    writeFileSync(first, indexFileContent(docs, 'first', buildIndex(docs), BODIES));
+    // the main thread keeps no documents and no index: both workers build from this file
     const documentsFile = join(dir, 'documents.json');
-    writeFileSync(documentsFile, JSON.stringify({ documents: docs, bodies: BODIES }));
-    let serving = new SearchWorker({ file: first, db: null });
-    if ((await serving.run({ type: 'start' })).type !== 'ready') throw new Error('the search worker did not load the index');
+    writeFileSync(documentsFile, JSON.stringify({ documents: catalogue, bodies: BODIES }));
+    catalogue.length = 0;
+    let serving = new SearchWorker({ file: join(dir, 'first.json'), db: null });
+    if ((await serving.run({ type: 'build-file', documentsFile, fingerprint: 'first' })).type !== 'ready') throw new Error('the search worker did not build');
     const { samples } = await measureQueries(async (q) => (await serving.search(q, 60_000)).total);
     const latency = summarise(samples).latency;
 
     const queries = parsedQueries().map((q) => q.query);
+    gc();
     const delay = monitorEventLoopDelay({ resolution: 5 });
     let last = performance.now();
     let stall = 0;
+    let over50 = 0;
     const probe = setInterval(() => {
       const now = performance.now();
       stall = Math.max(stall, now - last);
+      if (now - last > 52) over50 += 1;
       last = now;
     }, 2);
     let searching = true;
@@ -188,6 +191,7 @@ async function liveLunr(docs: SearchDocument[]) {
       for (let i = 0; searching; i++) await serving.search(queries[i % queries.length], 60_000);
     })();
     delay.enable();
+    const elu = perf.eventLoopUtilization();
     const next = new SearchWorker({ file: join(dir, 'second.json'), db: null });
     const built = await next.run({ type: 'build-file', documentsFile, fingerprint: 'second' });
     if (built.type !== 'ready') throw new Error('the second search worker did not build');
@@ -199,11 +203,19 @@ async function liveLunr(docs: SearchDocument[]) {
     await new Promise((r) => setTimeout(r, 300));
     searching = false;
     await traffic;
+    const used = perf.eventLoopUtilization(elu);
     delay.disable();
     clearInterval(probe);
     await serving.stop();
     // the probe ticks every 2 ms: a gap of 2 ms is no stall
-    return { ...latency, stallMs: Math.max(0, stall - 2), stallP99Ms: delay.percentile(99) / 1e6, swapBuildMs: built.buildMs ?? 0 };
+    return {
+      ...latency,
+      stallMs: Math.max(0, stall - 2),
+      stallsOver50: over50,
+      stallP99Ms: delay.percentile(99) / 1e6,
+      utilisation: used.utilization,
+      swapBuildMs: built.buildMs ?? 0,
+    };
   } finally {
     rmSync(dir, { recursive: true, force: true });
   }
@@ -474,7 +486,8 @@ function table(reports: Report[]) {
   if (l.live) {
     console.log(
       `lunr live path (search worker, round trip from the main thread): p50 ${f(l.live.p50, 2)} ms, p95 ${f(l.live.p95, 2)} ms, p99 ${f(l.live.p99, 2)} ms; ` +
-        `rebuild + swap under search traffic: longest main-thread stall ${f(l.live.stallMs, 1)} ms (event-loop delay p99 ${f(l.live.stallP99Ms, 1)} ms; build in the worker ${f(l.live.swapBuildMs, 0)} ms)`,
+        `rebuild + swap under search traffic: longest main-thread stall ${f(l.live.stallMs, 1)} ms, ${l.live.stallsOver50} stall(s) over 50 ms ` +
+        `(event-loop delay p99 ${f(l.live.stallP99Ms, 1)} ms; main-thread utilisation ${f(100 * l.live.utilisation, 1)} %; build in the worker ${f(l.live.swapBuildMs, 0)} ms)`,
     );
   }
 }
