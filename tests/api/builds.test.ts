@@ -169,6 +169,15 @@ describe('search · build=', () => {
     expect(bad.body.error.fields.build).toMatch(/build=3/);
   });
 
+  it('GET /api/search?build= · "clip cradle" · the part matching both words stays first, fitting partial matches follow', async () => {
+    const body = (await owner.get(`/api/search?q=${encodeURIComponent('clip cradle')}&build=${id}`).expect(200)).body as BuildSearchResponse;
+    expect(body.results[0].id).toBe(cradle);
+    expect(body.results[0].missing).toEqual([]);
+    const rest = body.results.slice(1);
+    expect(rest.every((r) => r.missing.length > 0)).toBe(true);
+    expect(rest.map((r) => r.fit.verdict)).toEqual(['may-fit', 'not', 'not']);
+  });
+
   it('GET /api/search · without build · the plain search, no fit marks', async () => {
     const res = await owner.get('/api/search?q=clip').expect(200);
     expect(res.body.results[0].fit).toBeUndefined();

@@ -3,7 +3,8 @@
 // verdict and its reasons (shared/build-fit.ts). Without `build` the plain search route answers.
 //
 // The text search ranks the whole shelf; this re-orders its best FIT_WINDOW matches by fit and keeps
-// relevance inside each verdict. Matches beyond the window keep their relevance order after it.
+// relevance inside each verdict. Parts that match only some of the typed words stay behind those
+// that match all of them. Matches beyond the window keep their relevance order after it.
 import type { NextFunction, Request, Response } from 'express';
 import { Router } from 'express';
 import { Op } from 'sequelize';
@@ -72,8 +73,13 @@ export function buildSearchRoutes(search: Searching) {
     let page: BuildSearchResultItem[];
     if (beyond) page = marked;
     else {
-      // a stable sort: relevance (or the chosen order) stays the order within each verdict
-      const ordered = marked.map((r, i) => ({ r, i })).sort((a, b) => FIT_ORDER[a.r.fit.verdict] - FIT_ORDER[b.r.fit.verdict] || a.i - b.i).map((x) => x.r);
+      // parts matching every typed word stay ahead of partial matches; within each, fit decides,
+      // then the search's own order (a stable sort)
+      const partial = (r: BuildSearchResultItem) => (r.missing?.length ? 1 : 0);
+      const ordered = marked
+        .map((r, i) => ({ r, i }))
+        .sort((a, b) => partial(a.r) - partial(b.r) || FIT_ORDER[a.r.fit.verdict] - FIT_ORDER[b.r.fit.verdict] || a.i - b.i)
+        .map((x) => x.r);
       for (const r of ordered) fitCounts[r.fit.verdict] += 1;
       page = ordered.slice(start, start + query.pageSize);
     }
