@@ -38,6 +38,10 @@ import { reviewRoutes } from './modules/review/routes';
 import { createReviewService } from './modules/review/service';
 import { searchRoutes } from './modules/search/routes';
 import { createSearchService } from './modules/search/service';
+import { buildSearchRoutes } from './modules/search/build-route';
+import { buildRoutes } from './modules/builds/routes';
+import { wantedRoutes } from './modules/wanted/routes';
+import { createWantedService } from './modules/wanted/service';
 
 export const SESSION_COOKIE = 'rigshelf.sid';
 
@@ -107,8 +111,22 @@ export function createApp({ config, sequelize, mailer }: AppContext) {
     ranking: (partIds) => evidence.rankFigures(partIds),
   });
   // a decision that puts a part on the shelf, replaces its published revision or retires it changes search
-  const review = createReviewService({ sequelize, mail: mailer, publicUrl: config.PUBLIC_URL, onDecided: () => search.scheduleRebuild() });
-  const parts = createPartsService({ sequelize, dirs, photos, onSubmitted: review.submitted, onEdited: review.edited });
+  const wanted = createWantedService({ sequelize, dirs, photos, mail: mailer, publicUrl: config.PUBLIC_URL });
+  const review = createReviewService({
+    sequelize,
+    mail: mailer,
+    publicUrl: config.PUBLIC_URL,
+    onDecided: () => search.scheduleRebuild(),
+    onPublished: (part, t) => wanted.partPublished(part, t),
+  });
+  const parts = createPartsService({
+    sequelize,
+    dirs,
+    photos,
+    onSubmitted: review.submitted,
+    onEdited: review.edited,
+    onRecovered: (rows) => wanted.resume(rows),
+  });
   const evidence = createEvidenceService({ sequelize, dirs, photos, onChanged: () => search.rankingChanged() });
   const planning = createPlanningService({ sequelize, evidence });
 
@@ -144,7 +162,10 @@ export function createApp({ config, sequelize, mailer }: AppContext) {
   app.use('/api/review', evidenceModerationRoutes(evidence));
   app.use('/api/review', reviewRoutes(review));
   app.use('/api/notices', noticesRoutes());
+  app.use('/api/search', buildSearchRoutes(search));
   app.use('/api/search', searchRoutes(search));
+  app.use('/api/builds', buildRoutes());
+  app.use('/api/wanted', wantedRoutes(wanted, dirs));
   app.use('/api/estimate', estimateRoutes(planning));
   app.use('/api/printers', printerRoutes(planning));
   app.use('/api/me/prices', priceRoutes(planning));
@@ -162,7 +183,7 @@ export function createApp({ config, sequelize, mailer }: AppContext) {
 
   return {
     app,
-    services: { parts, review, evidence, dirs, search },
+    services: { parts, review, evidence, dirs, search, wanted },
     /** Waits for photo work in hand, then stops the worker pools and the session store's expiry sweep. */
     async close() {
       await parts.photosSettled();

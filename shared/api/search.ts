@@ -20,6 +20,13 @@ export interface SearchResultItem {
   thumbnail: string | null;
   /** Relevance from the text match (0 when there was no search text). */
   score: number;
+  /**
+   * Which of the typed words and phrases ("15mm", "v-style", "receiver") the part matched, and
+   * which it did not; both empty without search text or for query syntax. Parts matching more
+   * words come first, so `missing` is empty on the best results.
+   */
+  matched: string[];
+  missing: string[];
 }
 
 export interface SearchResponse {

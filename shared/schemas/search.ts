@@ -26,7 +26,6 @@ function listOf<T>(read: (value: string) => T | null, refusal: (value: string) =
   });
 }
 
-const BODY_SLUG = /^[a-z0-9-]{1,80}$/;
 const materialFor = (value: string) => MATERIAL_IDS.find((m) => m.toLowerCase() === value.toLowerCase()) ?? null;
 
 export const searchQuerySchema = z.strictObject(
@@ -36,9 +35,11 @@ export const searchQuerySchema = z.strictObject(
       .max(200, 'Keep the search text under 200 characters.')
       .optional()
       .transform((v) => v || undefined),
+    // a slug or any name the body answers to ("KX8", "Korvel KX-8"); the searcher resolves it
+    // against the known bodies and names the closest ones when none fits
     body: listOf<string>(
-      (v) => (BODY_SLUG.test(v) ? v : null),
-      (v) => `"${v}" is not a camera-body slug. Use the slug from the list of bodies, e.g. korvel-kx8.`,
+      (v) => (v.length <= 80 ? v : null),
+      (v) => `"${v.slice(0, 40)}…" is too long for a camera-body name. Use the maker and model, e.g. Korvel KX-8.`,
     ),
     mount: listOf<MountSlug>(resolveMount, (v) => `Unknown mount standard "${v}". Use a slug from the list (e.g. screw-1-4-20) or a name such as 1/4" or LWS.`),
     category: listOf<CategorySlug>(

@@ -11,9 +11,16 @@ export interface FilterableDoc {
   mounts: readonly { slug: string }[];
   materials: readonly string[];
   sizeMm: SizeMm | null;
-  keyDimensions: readonly { name: string; valueMm: number }[];
+  keyDimensions: readonly KeyDimension[];
   adaptable: boolean;
   rating: number | null;
+}
+
+export interface KeyDimension {
+  name: string;
+  valueMm: number;
+  /** The part's own tolerance (±); 0 when it states none. */
+  tolMm?: number;
 }
 
 export interface SearchFilters {
@@ -50,15 +57,44 @@ export function normaliseDimensionName(name: string): string {
   return name.trim().replace(/\s+/g, ' ').toLowerCase();
 }
 
+const namedLike = (d: KeyDimension, asked: DimensionQuery) => normaliseDimensionName(d.name).includes(normaliseDimensionName(asked.name));
+
 /**
- * Whether any of the part's key dimensions is named like the asked one (case-insensitive, the
- * part's name contains the asked name) and lies within the asked tolerance, edges included.
+ * How far a part's key dimension is from the asked one, or null when the two do not overlap.
+ *
+ * The rule: each side is a range, its value ± its own tolerance. The part matches when the two
+ * ranges overlap, that is when |part value − asked value| ≤ part tolerance + asked tolerance;
+ * ranges that only touch match (the edge is included). Compared in whole nanometres so inch
+ * fractions and decimals land exactly on the edge.
+ *
+ * Worked example: searching a 15 mm rod bore ± 0.1 asks for [14.9, 15.1]. A clamp whose bore is
+ * 15.2 ± 0.2 covers [15.0, 15.4]: |15.2 − 15| = 0.2 ≤ 0.2 + 0.1 = 0.3, so it matches, at distance
+ * 0.2. A clip of 15.3 ± 0.0 covers [15.3, 15.3]: 0.3 ≤ 0 + 0.1 fails, so it does not; at ± 0.2 it
+ * would touch (0.3 ≤ 0.3) and match. Among matches the closer nominal value ranks first.
  */
-export function matchesKeyDimension(dims: readonly { name: string; valueMm: number }[], asked: DimensionQuery): boolean {
-  const name = normaliseDimensionName(asked.name);
-  const value = nanometres(asked.valueMm);
-  const tol = nanometres(asked.tolMm);
-  return dims.some((d) => normaliseDimensionName(d.name).includes(name) && Math.abs(nanometres(d.valueMm) - value) <= tol);
+export function keyDimensionDistance(d: KeyDimension, asked: DimensionQuery): number | null {
+  if (!namedLike(d, asked)) return null;
+  const gap = Math.abs(nanometres(d.valueMm) - nanometres(asked.valueMm));
+  return gap <= nanometres(d.tolMm ?? 0) + nanometres(asked.tolMm) ? gap / 1e6 : null;
+}
+
+/** Whether any of the part's key dimensions named like the asked one overlaps it (keyDimensionDistance). */
+export function matchesKeyDimension(dims: readonly KeyDimension[], asked: DimensionQuery): boolean {
+  return dims.some((d) => keyDimensionDistance(d, asked) !== null);
+}
+
+/** Summed distance of the closest matching dimension for each asked one (0 with none asked), for ranking. */
+export function dimensionCloseness(dims: readonly KeyDimension[], asked: readonly DimensionQuery[]): number {
+  let total = 0;
+  for (const a of asked) {
+    let best = Infinity;
+    for (const d of dims) {
+      const gap = keyDimensionDistance(d, a);
+      if (gap !== null && gap < best) best = gap;
+    }
+    total += best;
+  }
+  return total;
 }
 
 // plain loops: these run for every document of a large result, so they allocate nothing

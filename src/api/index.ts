@@ -33,6 +33,10 @@ import type {
   PrinterPatch,
 } from '@shared/schemas/planning';
 import type { SearchResponse } from '@shared/api/search';
+import type { BuildInfo, BuildList } from '@shared/api/builds';
+import type { WantedDetail, WantedList, WantedListItem } from '@shared/api/wanted';
+import type { BuildInput, BuildPatch } from '@shared/schemas/builds';
+import type { WantedAnswerInput, WantedCloseInput, WantedInput } from '@shared/schemas/wanted';
 import type { SearchSort } from '@shared/schemas/search';
 import { forgetCsrfToken, http } from './http';
 
@@ -232,6 +236,8 @@ export interface SearchParams {
   sort?: SearchSort;
   page?: number;
   pageSize?: number;
+  /** One of the member's builds: fitting parts first, each marked (see buildsApi). */
+  build?: number;
 }
 
 export const searchApi = {
@@ -245,4 +251,34 @@ export const searchApi = {
     const qs = query.toString();
     return http.get<SearchResponse>(`/api/search${qs ? `?${qs}` : ''}`);
   },
+};
+
+// ---- camera builds and wanted parts --------------------------------------------------------------
+
+export type { BuildInfo, BuildSearchResponse, BuildSearchResultItem, FitMark } from '@shared/api/builds';
+export type { WantedDetail, WantedListItem } from '@shared/api/wanted';
+
+/** The member's own camera builds. */
+export const buildsApi = {
+  list: async (): Promise<BuildInfo[]> => (await http.get<BuildList>('/api/builds')).items,
+  get: (id: number) => http.get<BuildInfo>(`/api/builds/${id}`),
+  create: (input: BuildInput) => http.post<BuildInfo>('/api/builds', input),
+  update: (id: number, patch: BuildPatch) => http.patch<BuildInfo>(`/api/builds/${id}`, patch),
+  remove: (id: number) => http.delete<void>(`/api/builds/${id}`),
+};
+
+/** The crew's board of wanted parts. */
+export const wantedApi = {
+  list: async (status: 'open' | 'closed' | 'mine' = 'open', limit?: number): Promise<WantedListItem[]> =>
+    (await http.get<WantedList>(`/api/wanted?status=${status}${limit ? `&limit=${limit}` : ''}`)).items,
+  get: (id: number) => http.get<WantedDetail>(`/api/wanted/${id}`),
+  create(input: WantedInput, photos: File[] = []): Promise<WantedDetail> {
+    if (!photos.length) return http.post<WantedDetail>('/api/wanted', input);
+    const form = new FormData();
+    form.append('data', JSON.stringify(input));
+    for (const photo of photos) form.append('photo', photo, photo.name);
+    return http.post<WantedDetail>('/api/wanted', form);
+  },
+  answer: (id: number, input: WantedAnswerInput) => http.post<{ id: number; onShelf: boolean }>(`/api/wanted/${id}/answers`, input),
+  close: (id: number, input: WantedCloseInput) => http.post<{ id: number; status: 'closed' }>(`/api/wanted/${id}/close`, input),
 };

@@ -25,6 +25,8 @@ export interface SearchState {
   sort: string;
   page: number;
   pageSize: number | null;
+  /** One of the member's builds ("fits my build"), or null. */
+  build: number | null;
 }
 
 type Value = LocationQueryValue | LocationQueryValue[] | undefined;
@@ -61,6 +63,7 @@ export function readSearchQuery(query: LocationQuery): SearchState {
     sort: one(query.sort) || 'relevance',
     page: whole(query.page) ?? 1,
     pageSize: whole(query.pageSize),
+    build: whole(query.build),
   };
 }
 
@@ -76,6 +79,7 @@ export function toLocationQuery(s: SearchState): LocationQueryRaw {
   if (s.sort && s.sort !== 'relevance') query.sort = s.sort;
   if (s.page > 1) query.page = String(s.page);
   if (s.pageSize !== null) query.pageSize = String(s.pageSize);
+  if (s.build !== null) query.build = String(s.build);
   return query;
 }
 
@@ -93,6 +97,7 @@ export function toSearchParams(s: SearchState): SearchParams {
     sort: s.sort === 'relevance' ? undefined : (s.sort as SearchSort),
     page: s.page > 1 ? s.page : undefined,
     pageSize: s.pageSize ?? undefined,
+    build: s.build ?? undefined,
   };
 }
 

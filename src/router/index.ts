@@ -40,6 +40,10 @@ export type RouteName =
   | 'reset-password'
   | 'admin-mail'
   | 'admin-bodies'
+  | 'builds'
+  | 'wanted'
+  | 'wanted-new'
+  | 'wanted-request'
   | 'not-found';
 
 const routes: RouteRecordRaw[] = [
@@ -76,6 +80,10 @@ const routes: RouteRecordRaw[] = [
       { path: 'kits', name: 'kits', component: () => import('@/views/KitsView.vue'), meta: { auth: true, title: 'Shoot kits' } },
       { path: 'kits/:id', name: 'kit', component: () => import('@/views/KitView.vue'), meta: { auth: true, title: 'Shoot kit' } },
       { path: 'printers', name: 'printers', component: () => import('@/views/PrintersView.vue'), meta: { auth: true, title: 'Printers & prices' } },
+      { path: 'builds', name: 'builds', component: () => import('@/views/BuildsView.vue'), meta: { auth: true, title: 'My camera builds' } },
+      { path: 'wanted', name: 'wanted', component: () => import('@/views/WantedBoardView.vue'), meta: { auth: true, title: 'Wanted parts' } },
+      { path: 'wanted/new', name: 'wanted-new', component: () => import('@/views/WantedNewView.vue'), meta: { auth: true, title: 'Ask the crew for a part' } },
+      { path: 'wanted/:id(\\d+)', name: 'wanted-request', component: () => import('@/views/WantedRequestView.vue'), meta: { auth: true, title: 'Wanted part' } },
       { path: 'my/parts', name: 'my-parts', component: () => import('@/views/MyPartsView.vue'), meta: { auth: true, title: 'My submissions' } },
       {
         path: 'admin/users',

@@ -65,26 +65,57 @@ const PART_TYPES: PartType[] = [
   { noun: 'media card case', category: 'cases-storage', mounts: [], dims: [['slot width', 24, 0.3]] },
   { noun: 'slate light holder', category: 'cases-storage', mounts: ['screw-1-4-20'], dims: [] },
   { noun: 'lens cap keeper', category: 'cases-storage', mounts: [], dims: [['cap diameter', 95, 0.5]] },
+  { noun: 'timecode box holder', category: 'monitors-video', mounts: ['accessory-shoe', 'screw-1-4-20'], dims: [['box width', 48, 0.3]] },
+  { noun: 'transmitter bracket', category: 'monitors-video', mounts: ['screw-1-4-20', 'rods-15-60'], dims: [] },
+  { noun: 'hand unit holster', category: 'lens-focus', mounts: ['rods-15-60'], dims: [['rod bore', 15.2, 0.2]] },
+  { noun: 'focus marker disc', category: 'lens-focus', mounts: [], dims: [['disc diameter', 60, 0.2]] },
+  { noun: 'lens motor bracket', category: 'lens-focus', mounts: ['rods-15-60', 'rods-19-104'], dims: [['rod bore', 19.2, 0.2]] },
+  { noun: 'seamless gear', category: 'lens-focus', mounts: ['gear-0-8'], dims: [['inner diameter', 70, 0.2]] },
+  { noun: 'rod end cap', category: 'protection-caps', mounts: ['rods-15-60'], dims: [['plug diameter', 12, 0.1]] },
+  { noun: 'baseplate wedge', category: 'rods-mounting', mounts: ['dovetail-38', 'screw-3-8-16'], dims: [['plate width', 38, 0.2]] },
+  { noun: 'NATO rail clamp', category: 'rods-mounting', mounts: ['rail-1913'], dims: [['rail width', 21.2, 0.1]] },
+  { noun: 'eyepiece leveller', category: 'shoe-top', mounts: ['rods-15-60'], dims: [] },
+  { noun: 'power tap splitter box', category: 'power-batteries', mounts: ['battery-v-style', 'battery-3-stud'], dims: [] },
+  { noun: 'D-tap cable strain relief', category: 'cable-management', mounts: ['rail-1913'], dims: [['cable slot', 5, 0.3]] },
+  { noun: 'SDI connector saver', category: 'cable-management', mounts: [], dims: [] },
+  { noun: 'phone monitor mount', category: 'monitors-video', mounts: ['accessory-shoe', 'screw-1-4-20'], dims: [['clamp width', 75, 2]] },
+  { noun: 'slate clip', category: 'cases-storage', mounts: [], dims: [] },
+  { noun: 'filter tray shim', category: 'protection-caps', mounts: [], dims: [['tray thickness', 4, 0.1]] },
+  { noun: 'battery cover', category: 'power-batteries', mounts: ['battery-v-style'], dims: [] },
+  { noun: 'lens support riser', category: 'lens-focus', mounts: ['rods-15-60', 'screw-1-4-20'], dims: [['rod bore', 15.2, 0.2]] },
 ];
 
-const ADJECTIVES = ['compact', 'low-profile', 'quick-release', 'heavy-duty', 'slim', 'offset', 'angled', 'dual', 'tool-free', 'vented', 'folding', 'stackable'];
-const SENTENCES = [
-  'Print it flat on the bed with the clamp face down.',
-  'Uses an M4 thumb screw and a captive nut.',
-  'Held up through a week of handheld work in the rain.',
-  'The bore is drawn slightly undersize so it grips after printing.',
-  'Add a safety cable when it goes overhead.',
-  'Keeps the battery cable away from the lens.',
-  'Works on the top rod or the bottom rods.',
-  'Tested on a long day in a parked car.',
-  'The slot takes a strip of camera tape for a label.',
-  'Sand the contact face lightly before the first use.',
-  'A second version with a longer arm is on the way.',
-  'The monitor sits at eye height for the focus puller.',
+const ADJECTIVES = [
+  'compact', 'low-profile', 'quick-release', 'heavy-duty', 'slim', 'offset', 'angled', 'dual', 'tool-free', 'vented', 'folding', 'stackable',
+  'ribbed', 'split', 'hinged', 'locking', 'padded', 'lightweight', 'reinforced', 'modular', 'swivel', 'sliding', 'clip-on', 'snap-fit',
+  'rounded', 'flush', 'long', 'short', 'wide', 'narrow', 'twin', 'single', 'universal', 'keyed', 'tapered', 'counterbored',
+];
+
+// Sentence parts a contributor writes in a description; combined, they give the shelf a vocabulary
+// of several hundred trade words instead of a few sentences repeated.
+const VERBS = ['holds', 'grips', 'clamps', 'carries', 'protects', 'guides', 'locks', 'lifts', 'centres', 'spaces', 'routes', 'keeps', 'steadies', 'covers', 'stores', 'hangs', 'aligns', 'braces'];
+const OBJECTS = [
+  'the wireless video receiver', 'a small director monitor', 'the timecode box', 'a spare battery', 'the follow focus motor', 'the lens motor cable',
+  'an SDI cable', 'the power tap lead', 'the audio receiver', 'a media card', 'the eyepiece', 'the top handle', 'a focus marker disc', 'the hand unit',
+  'the filter tray', 'a slate light', 'the lens cap', 'a tally lamp', 'a distance sensor', 'the cine tape measure', 'the camera report pad',
+  'a phone monitor', 'the accessory arm', 'the matte box flag', 'a 4-pin power lead', 'the BNC connectors', 'a charger brick', 'the lens light',
+];
+const CONTEXTS = [
+  'on a car mount', 'during handheld work', 'on the dolly', 'on a gimbal', 'in the rain', 'at the back of the cage', 'under the baseplate', 'beside the lens',
+  'on the top rail', 'on the bottom rods', 'near the mattebox', 'on a steadicam sled', 'on a crane arm', 'in a parked car', 'on the camera cart',
+  'for the focus puller', 'for the operator', 'for the loader', 'in cold weather', 'on long exterior days', 'for studio builds', 'on documentary shoots',
+];
+const PRINT_NOTES = [
+  'Print it flat on the bed with the clamp face down.', 'Uses an M4 thumb screw and a captive nut.', 'Needs a heat-set insert for the M3 screw.',
+  'Supports only under the overhang.', 'Four perimeters and 40 % infill.', 'Brim helps on the long edge.', 'Sand the contact face lightly before the first use.',
+  'The bore is drawn slightly undersize so it grips after printing.', 'Add a safety cable when it goes overhead.', 'Rubber pads stop it marking the rod.',
+  'A second version with a longer arm is on the way.', 'The slot takes a strip of camera tape for a label.', 'Chamfered edges print without supports.',
+  'Layer height 0.2 mm; slower outer walls look better.', 'Drill the hole to size after printing for a tight fit.', 'Print two and stack them for more height.',
 ];
 
 export function inventedCatalogue(n: number, seed = 42): SearchDocument[] {
   const rand = mulberry32(seed);
+  const cap = (text: string) => `${text[0].toUpperCase()}${text.slice(1)}`;
   const pick = <T>(xs: readonly T[]) => xs[Math.floor(rand() * xs.length)];
   const bodies = inventedBodies();
   const start = Date.UTC(2024, 0, 1);
@@ -108,7 +139,10 @@ export function inventedCatalogue(n: number, seed = 42): SearchDocument[] {
       slug: `part-${id}`,
       title,
       summary: `A ${adjective} ${type.noun} printed in ${materials[0]}${partBodies.length ? ` for the ${partBodies.map((b) => b.model).join(' and ')}` : ''}.`,
-      description: Array.from({ length: 2 + Math.floor(rand() * 4) }, () => pick(SENTENCES)).join(' '),
+      description: [
+        ...Array.from({ length: 1 + Math.floor(rand() * 3) }, () => `${cap(pick(VERBS))} ${pick(OBJECTS)} ${pick(CONTEXTS)}.`),
+        ...Array.from({ length: 1 + Math.floor(rand() * 3) }, () => pick(PRINT_NOTES)),
+      ].join(' '),
       category: type.category,
       bodies: partBodies,
       mounts,
@@ -152,4 +186,20 @@ export const BENCH_QUERIES: { kind: QueryKind; query: SearchQueryInput }[] = [
   { kind: 'envelope', query: { fit: '4.5in x 3in x 1in', q: 'adapter' } },
   { kind: 'envelope', query: { fit: '60x60x60', category: 'shoe-top' } },
   { kind: 'envelope', query: { fit: '200x100x50', mount: 'accessory-shoe', sort: 'newest' } },
+  // what crews type most: thread sizes, V-style, 15mm glued, typed dimensions, typos, body names
+  { kind: 'text', query: { q: '1/4-20 cheese plate' } },
+  { kind: 'text', query: { q: 'V-style battery plate' } },
+  { kind: 'text', query: { q: 'v style' } },
+  { kind: 'text', query: { q: '15mm rod clamp' } },
+  { kind: 'text', query: { q: 'receiver bracket for v-style' } },
+  { kind: 'text', query: { q: 'monitor battery plate adapter' } },
+  { kind: 'text', query: { q: 'recievr cradle' } },
+  { kind: 'text', query: { q: 'focus gear 80mm' } },
+  { kind: 'text', query: { q: 'print' } },
+  { kind: 'text', query: { q: 'cold shoe' } },
+  { kind: 'text', query: { q: 'kx8 handle' } },
+  { kind: 'text+filters', query: { q: 'rod clamp', dim: 'rod bore:15mm:0.1' } },
+  { kind: 'text+filters', query: { q: 'lens support', dim: 'rod bore:15:0.2', mount: '15mm rods' } },
+  { kind: 'text+filters', query: { q: 'cage bracket', body: 'KX8' } },
+  { kind: 'filters', query: { body: 'Halden Cine H6' } },
 ];

@@ -9,8 +9,11 @@
  * creates the database rigshelf_bench and drops it at the end. Each contender × size runs in its
  * own child process (node --expose-gc) on the same seeded catalogue and the same fixed query set:
  *
- * - lunr: buildIndex / indexFileContent / lunr.Index.load + createSearcher, exactly what the
- *   service does; a query is searcher.search() (text, filters, facets, sort, page).
+ * - lunr: buildIndex / indexFileContent / lunr.Index.load + createSearcher, what the search worker
+ *   does; a query is searcher.search() (text, filters, facets, sort, page). In a process of its
+ *   own, the live path: a SearchWorker (the server's class) loads the index file and answers
+ *   searches posted from the main thread; then a second worker builds and is swapped in while
+ *   searches go on, and the main thread's longest event-loop stall is printed.
  * - MiniSearch: the same index records (indexRecord) and term processing (lunr's trimmer, stop
  *   words and stemmer), the same boosts, fuzzy 0.2, prefix, AND; then our filterAndPage().
  * - MariaDB: one table with a FULLTEXT index over all fields plus weighted ones (title ×10,
@@ -22,7 +25,10 @@
  * in memory in both); for MariaDB the server process's RSS and the tables' size on disk.
  */
 import { spawnSync } from 'node:child_process';
-import { readFileSync } from 'node:fs';
+import { mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { monitorEventLoopDelay, performance as perf } from 'node:perf_hooks';
 import { fileURLToPath } from 'node:url';
 import lunr from 'lunr';
 import { createConnection, type Connection } from 'mariadb';
@@ -30,18 +36,22 @@ import MiniSearch from 'minisearch';
 import { searchQuerySchema, type SearchQuery } from '../../shared/schemas/search';
 import { expandMountAliases } from '../../shared/search/aliases';
 import { readQueryText } from '../../shared/search/query';
+import { resolveBody } from '../../shared/search/bodies';
+import { SearchWorker } from '../../server/modules/search/service';
 import { FIELD_BOOSTS, SEARCH_FIELDS, buildIndex, indexFileContent, indexRecord, type SearchDocument } from '../../server/modules/search/index-builder';
 import { createSearcher, filterAndPage, sortNewestFirst, type Match } from '../../server/modules/search/searcher';
 import { localInstance } from '../../server/scripts/local-env';
-import { BENCH_QUERIES, inventedCatalogue, type QueryKind } from './search-catalogue';
+import { BENCH_QUERIES, inventedBodies, inventedCatalogue, type QueryKind } from './search-catalogue';
 
 const MB = 1e6;
 const BENCH_DB = 'rigshelf_bench';
-const CHILD_TIMEOUT_MS = 240_000;
+const CHILD_TIMEOUT_MS = 600_000;
 /** Time for the measured query rounds per contender and size (at least 3 rounds, at most 30). */
 const QUERY_BUDGET_MS = 20_000;
 
 type Contender = 'lunr' | 'minisearch' | 'mariadb';
+/** The live path runs in a process of its own, so this main thread holds no index of its own to collect. */
+type Child = Contender | 'lunr-live';
 
 interface Report {
   contender: Contender;
@@ -57,6 +67,8 @@ interface Report {
   rssMb: number;
   /** Sum of `total` over the query set, to show how differently the engines match. */
   hits: number;
+  /** lunr only: the live path, through the search worker the server uses. */
+  live?: { p50: number; p95: number; p99: number; stallMs: number; stallsOver50: number; stallP99Ms: number; utilisation: number; swapBuildMs: number };
   note?: string;
 }
 
@@ -82,6 +94,12 @@ function summarise(samples: { kind: QueryKind; ms: number }[]) {
 }
 
 const parsedQueries = () => BENCH_QUERIES.map((q) => ({ kind: q.kind, query: searchQuerySchema.parse(q.query) }));
+
+/** Body names as slugs, for the contenders that do not read names themselves (our searcher does). */
+const BODIES = inventedBodies();
+function withBodySlugs(q: SearchQuery): SearchQuery {
+  return { ...q, body: q.body.map((b) => { const r = resolveBody(b, BODIES); return r.ok ? r.slug : b; }) };
+}
 
 /** Runs the query set once to warm up, then whole rounds until the budget is spent. */
 async function measureQueries(run: (q: SearchQuery) => Promise<number> | number) {
@@ -138,6 +156,71 @@ async function benchLunr(docs: SearchDocument[]): Promise<Omit<Report, 'contende
   };
 }
 
+/**
+ * The server's live path: a SearchWorker loads the saved index and answers searches posted from
+ * this (main) thread. Then, while searches keep going to it, a second worker builds a new index
+ * and is swapped in exactly as the service does it. The main thread's longest stall over the
+ * whole rebuild and swap is what a request would have waited, at worst.
+ */
+async function liveLunr(catalogue: SearchDocument[]) {
+  const dir = mkdtempSync(join(tmpdir(), 'rigshelf-bench-'));
+  try {
+    // the main thread keeps no documents and no index: both workers build from this file
+    const documentsFile = join(dir, 'documents.json');
+    writeFileSync(documentsFile, JSON.stringify({ documents: catalogue, bodies: BODIES }));
+    catalogue.length = 0;
+    let serving = new SearchWorker({ file: join(dir, 'first.json'), db: null });
+    if ((await serving.run({ type: 'build-file', documentsFile, fingerprint: 'first' })).type !== 'ready') throw new Error('the search worker did not build');
+    const { samples } = await measureQueries(async (q) => (await serving.search(q, 60_000)).total);
+    const latency = summarise(samples).latency;
+
+    const queries = parsedQueries().map((q) => q.query);
+    gc();
+    const delay = monitorEventLoopDelay({ resolution: 5 });
+    let last = performance.now();
+    let stall = 0;
+    let over50 = 0;
+    const probe = setInterval(() => {
+      const now = performance.now();
+      stall = Math.max(stall, now - last);
+      if (now - last > 52) over50 += 1;
+      last = now;
+    }, 2);
+    let searching = true;
+    const traffic = (async () => {
+      for (let i = 0; searching; i++) await serving.search(queries[i % queries.length], 60_000);
+    })();
+    delay.enable();
+    const elu = perf.eventLoopUtilization();
+    const next = new SearchWorker({ file: join(dir, 'second.json'), db: null });
+    const built = await next.run({ type: 'build-file', documentsFile, fingerprint: 'second' });
+    if (built.type !== 'ready') throw new Error('the second search worker did not build');
+    // the swap, as service.ts swapIn does it
+    next.sendRanks(new Map());
+    const old = serving;
+    serving = next;
+    old.retire();
+    await new Promise((r) => setTimeout(r, 300));
+    searching = false;
+    await traffic;
+    const used = perf.eventLoopUtilization(elu);
+    delay.disable();
+    clearInterval(probe);
+    await serving.stop();
+    // the probe ticks every 2 ms: a gap of 2 ms is no stall
+    return {
+      ...latency,
+      stallMs: Math.max(0, stall - 2),
+      stallsOver50: over50,
+      stallP99Ms: delay.percentile(99) / 1e6,
+      utilisation: used.utilization,
+      swapBuildMs: built.buildMs ?? 0,
+    };
+  } finally {
+    rmSync(dir, { recursive: true, force: true });
+  }
+}
+
 // ---------------------------------------------------------------------------------------------
 // MiniSearch, with our records and our term processing
 
@@ -174,7 +257,8 @@ async function benchMiniSearch(docs: SearchDocument[]): Promise<Omit<Report, 'co
     return { serializedMb: Buffer.byteLength(content) / MB, loadMs: performance.now() - started };
   })();
   gc();
-  const { hits, rounds, samples } = await measureQueries((q) => {
+  const { hits, rounds, samples } = await measureQueries((raw) => {
+    const q = withBodySlugs(raw);
     const text = readQueryText(q.q);
     let matches: Match[];
     if (text.kind === 'none') matches = newest;
@@ -209,7 +293,7 @@ async function createTables(db: Connection) {
   for (const t of ['bench_bodies', 'bench_mounts', 'bench_materials', 'bench_dims', 'bench_parts']) await db.query(`DROP TABLE IF EXISTS ${t}`);
   await db.query(`CREATE TABLE bench_parts (
     id INT UNSIGNED PRIMARY KEY,
-    title VARCHAR(120) NOT NULL, bodies TEXT NOT NULL, mounts TEXT NOT NULL, summary VARCHAR(280) NOT NULL,
+    title VARCHAR(600) NOT NULL, bodies TEXT NOT NULL, mounts TEXT NOT NULL, summary VARCHAR(1200) NOT NULL,
     dimensions TEXT NOT NULL, category_label VARCHAR(80) NOT NULL, materials VARCHAR(120) NOT NULL, description TEXT NOT NULL,
     category VARCHAR(40) NOT NULL, adaptable BOOLEAN NOT NULL, rating DECIMAL(3,2) NULL, published_at DATETIME(3) NOT NULL,
     s1 DECIMAL(10,3) NULL, s2 DECIMAL(10,3) NULL, s3 DECIMAL(10,3) NULL,
@@ -326,7 +410,7 @@ async function benchMariaDb(docs: SearchDocument[]): Promise<Omit<Report, 'conte
       [BENCH_DB],
     );
     const rssAfter = serverRssMb();
-    const { hits, rounds, samples } = await measureQueries((q) => sqlSearch(db, q));
+    const { hits, rounds, samples } = await measureQueries((q) => sqlSearch(db, withBodySlugs(q)));
     return {
       buildMs,
       serializedMb: Number(sizes.bytes) / MB,
@@ -344,8 +428,12 @@ async function benchMariaDb(docs: SearchDocument[]): Promise<Omit<Report, 'conte
   }
 }
 
-async function child(contender: Contender, size: number) {
+async function child(contender: Child, size: number) {
   const docs = inventedCatalogue(size);
+  if (contender === 'lunr-live') {
+    process.stdout.write(`${JSON.stringify(await liveLunr(docs))}\n`);
+    return;
+  }
   const run = { lunr: benchLunr, minisearch: benchMiniSearch, mariadb: benchMariaDb }[contender];
   const report: Report = { contender, size, ...(await run(docs)) };
   process.stdout.write(`${JSON.stringify(report)}\n`);
@@ -354,7 +442,7 @@ async function child(contender: Contender, size: number) {
 // ---------------------------------------------------------------------------------------------
 // Parent
 
-function spawnChild(contender: Contender, size: number, env: NodeJS.ProcessEnv): Report {
+function spawnChild<T = Report>(contender: Child, size: number, env: NodeJS.ProcessEnv): T {
   const self = fileURLToPath(import.meta.url);
   const result = spawnSync(process.execPath, ['--expose-gc', '--import', 'tsx', self, '--child', contender, String(size)], {
     encoding: 'utf8',
@@ -363,7 +451,7 @@ function spawnChild(contender: Contender, size: number, env: NodeJS.ProcessEnv):
     env,
   });
   if (result.status !== 0) throw new Error(`${contender} at ${size} failed (status ${result.status}, signal ${result.signal}):\n${result.stderr}`);
-  return JSON.parse(result.stdout.trim().split('\n').pop()!) as Report;
+  return JSON.parse(result.stdout.trim().split('\n').pop()!) as T;
 }
 
 const f = (n: number | null, digits = 1) => (n === null ? 'n/a' : n.toFixed(digits));
@@ -395,6 +483,13 @@ function table(reports: Report[]) {
     ),
   );
   console.log(`samples: lunr ${l.samples} (${l.rounds} rounds), minisearch ${m.samples}, MariaDB ${d.samples}; ${d.note}`);
+  if (l.live) {
+    console.log(
+      `lunr live path (search worker, round trip from the main thread): p50 ${f(l.live.p50, 2)} ms, p95 ${f(l.live.p95, 2)} ms, p99 ${f(l.live.p99, 2)} ms; ` +
+        `rebuild + swap under search traffic: longest main-thread stall ${f(l.live.stallMs, 1)} ms, ${l.live.stallsOver50} stall(s) over 50 ms ` +
+        `(event-loop delay p99 ${f(l.live.stallP99Ms, 1)} ms; main-thread utilisation ${f(100 * l.live.utilisation, 1)} %; build in the worker ${f(l.live.swapBuildMs, 0)} ms)`,
+    );
+  }
 }
 
 async function parent(sizes: number[]) {
@@ -410,6 +505,7 @@ async function parent(sizes: number[]) {
     for (const size of sizes) {
       console.log(`\n${size.toLocaleString('en-US')} invented parts`);
       const reports = (['lunr', 'minisearch', 'mariadb'] as Contender[]).map((c) => spawnChild(c, size, childEnv));
+      reports[0].live = spawnChild<Report['live']>('lunr-live', size, childEnv);
       table(reports);
     }
   } finally {
@@ -421,7 +517,7 @@ async function parent(sizes: number[]) {
 
 const args = process.argv.slice(2);
 if (args[0] === '--child') {
-  await child(args[1] as Contender, Number(args[2]));
+  await child(args[1] as Child, Number(args[2]));
 } else {
   const sizesFlag = args.indexOf('--sizes');
   await parent(sizesFlag >= 0 ? args[sizesFlag + 1].split(',').map(Number) : [10_000, 50_000]);

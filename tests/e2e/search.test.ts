@@ -97,4 +97,28 @@ describe('browser · search', () => {
     await page.getByText('= 114.3 × 76.2 × 50.8 mm').waitFor();
     await rig.screenshot('search-5-inline-messages');
   });
+
+  it('search · "receiver bracket for v-style" typed and sent with the keyboard, on a laptop and a phone · partial matches say quietly what matched', async () => {
+    const { page } = rig;
+    for (const [name, viewport] of [['laptop', { width: 1366, height: 800 }], ['phone', { width: 390, height: 844 }]] as const) {
+      await page.setViewportSize(viewport);
+      await page.goto('/search');
+      const box = page.locator('#search-q');
+      await box.focus();
+      await page.keyboard.type('receiver bracket for v-style');
+      await page.keyboard.press('Enter');
+      await page.waitForURL((url) => url.searchParams.get('q') === 'receiver bracket for v-style');
+      const results = page.locator('[data-test="search-result"]');
+      await results.first().waitFor();
+      // no demo part matches every word: the page says so and each card names what it matched
+      await page.locator('[data-test="search-partial-head"]').waitFor();
+      const partial = page.locator('[data-test="result-partial"]');
+      expect(await partial.count()).toBe(await results.count());
+      const texts = await results.allTextContents();
+      expect(texts.slice(0, 2)).toEqual(expect.arrayContaining([expect.stringContaining('Receiver cradle'), expect.stringContaining('V-style plate spacer')]));
+      expect(await partial.first().textContent()).toMatch(/Matches “receiver”.*no “bracket”, “v-style”/);
+      await rig.screenshot(`search-partial-${name}`);
+    }
+    await page.setViewportSize({ width: 1280, height: 800 });
+  });
 });

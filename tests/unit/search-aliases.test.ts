@@ -39,7 +39,9 @@ describe('mount aliases · expansion', () => {
 
   it('matches whole words only, but lets an inch mark run into the next word', () => {
     expect(expandMountAliases('glwsx').mentions).toEqual([]);
-    expect(expandMountAliases('dovetails').mentions).toEqual([]);
+    expect(expandMountAliases('dovetailed').mentions).toEqual([]);
+    // plurals are the same name
+    expect(expandMountAliases('dovetails').mentions.map((m) => m.slug)).toEqual(['dovetail-38']);
     expect(expandMountAliases('1/4"plate').mentions.map((m) => m.slug)).toEqual(['screw-1-4-20']);
   });
 

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { countFacets, fitsWithin, matchesFilters, matchesKeyDimension, type FilterableDoc } from '@shared/search/filters';
+import { countFacets, dimensionCloseness, fitsWithin, keyDimensionDistance, matchesFilters, matchesKeyDimension, type FilterableDoc } from '@shared/search/filters';
 import { inchesToMm } from '@shared/units';
 
 type Triple = [number, number, number];
@@ -103,6 +103,40 @@ describe('matchesKeyDimension · tolerance', () => {
     const plate = [{ name: 'plate width', valueMm: 102.87 }];
     expect(matchesKeyDimension(plate, { name: 'plate width', valueMm: inchesToMm(4), tolMm: inchesToMm(0.05) })).toBe(true);
     expect(matchesKeyDimension([{ name: 'plate width', valueMm: 102.871 }], { name: 'plate width', valueMm: inchesToMm(4), tolMm: inchesToMm(0.05) })).toBe(false);
+  });
+});
+
+describe('keyDimensionDistance · range overlap', () => {
+  // Interval overlap: [a − s, a + s] and [b − t, b + t] intersect iff |a − b| ≤ s + t (elementary
+  // interval arithmetic, common practice); the worked example is the one in shared/search/filters.ts.
+  const asked = { name: 'rod bore', valueMm: 15, tolMm: 0.1 };
+
+  it('matches a clamp of 15.2 ± 0.2 for a 15 ± 0.1 bore: its range covers 15.0', () => {
+    expect(keyDimensionDistance({ name: 'rod bore', valueMm: 15.2, tolMm: 0.2 }, asked)).toBeCloseTo(0.2, 9);
+  });
+
+  it('matches ranges that only touch, and not ranges a micrometre apart', () => {
+    // [15.3 − 0.2, 15.5] touches [14.9, 15.1] at 15.1
+    expect(keyDimensionDistance({ name: 'rod bore', valueMm: 15.3, tolMm: 0.2 }, asked)).toBeCloseTo(0.3, 9);
+    expect(keyDimensionDistance({ name: 'rod bore', valueMm: 15.301, tolMm: 0.2 }, asked)).toBeNull();
+    // touching from below: [14.6, 14.8] + 0.1 … [14.7 ± 0.2] touches at 14.9
+    expect(keyDimensionDistance({ name: 'rod bore', valueMm: 14.7, tolMm: 0.2 }, asked)).not.toBeNull();
+    expect(keyDimensionDistance({ name: 'rod bore', valueMm: 14.699, tolMm: 0.2 }, asked)).toBeNull();
+  });
+
+  it('keeps disjoint ranges apart, with no tolerance on either side only the exact value', () => {
+    expect(keyDimensionDistance({ name: 'rod bore', valueMm: 15.5, tolMm: 0.1 }, asked)).toBeNull();
+    expect(keyDimensionDistance({ name: 'rod bore', valueMm: 15 }, { ...asked, tolMm: 0 })).toBe(0);
+    expect(keyDimensionDistance({ name: 'rod bore', valueMm: 15.0001 }, { ...asked, tolMm: 0 })).toBeNull();
+  });
+
+  it('ranks the closest nominal first when several match', () => {
+    const dims = [
+      { name: 'rod bore', valueMm: 15.2, tolMm: 0.2 },
+      { name: 'rod bore', valueMm: 15.05, tolMm: 0 },
+    ];
+    expect(dimensionCloseness(dims, [asked])).toBeCloseTo(0.05, 9);
+    expect(dimensionCloseness([dims[0]], [asked])).toBeGreaterThan(dimensionCloseness(dims, [asked]));
   });
 });
 

@@ -5,7 +5,8 @@ import lunr from 'lunr';
 import { searchQuerySchema, type SearchQueryInput } from '@shared/schemas/search';
 import { AppError } from '../../server/errors';
 import { buildIndex, indexFileContent, type SearchDocument } from '../../server/modules/search/index-builder';
-import { createSearcher } from '../../server/modules/search/searcher';
+import { Budget, createSearcher, readSyntax } from '../../server/modules/search/searcher';
+import { allowedEditDistance } from '@shared/search/query';
 
 let nextId = 1;
 function doc(over: Partial<SearchDocument>): SearchDocument {
@@ -47,8 +48,15 @@ describe('search index · ranking', () => {
     expect(ids({ q: 'battery' })).toEqual([plate.id, note.id]);
   });
 
-  it('needs every word: "battery plate" leaves out the part that only mentions a battery', () => {
-    expect(ids({ q: 'battery plate' })).toEqual([plate.id]);
+  it('ranks parts matching every word first, then those matching most words, never an empty page', () => {
+    const res = searcher.search(searchQuerySchema.parse({ q: 'battery plate adapter slate' }));
+    expect(res.results.map((r) => r.id)).toEqual([plate.id, note.id]);
+    expect(res.results[0]).toMatchObject({ matched: ['battery plate', 'adapter'], missing: ['slate'] });
+    expect(res.results[1]).toMatchObject({ matched: ['slate'], missing: ['battery plate', 'adapter'] });
+    const all = searcher.search(searchQuerySchema.parse({ q: 'slate battery holder' }));
+    expect(all.results[0]).toMatchObject({ id: note.id, matched: ['slate', 'battery', 'holder'], missing: [] });
+    expect(all.results.map((r) => r.id)).toEqual([note.id, plate.id]);
+    expect(ids({ q: 'battery zzzzqqq' })).toEqual([plate.id, note.id]);
   });
 
   it('finds a camera body by model, compact model and alias', () => {
@@ -65,8 +73,9 @@ describe('search index · ranking', () => {
 
   it('treats the last word as a prefix', () => {
     expect(ids({ q: 'chee' })).toEqual([riser.id]);
-    expect(ids({ q: 'batt plate' })).toEqual([]); // only the last word is a prefix
-    expect(ids({ q: 'plate batt' })).toEqual([plate.id]);
+    // only the last word is a prefix: "batt" matches nothing here, "plate" still does
+    expect(searcher.search(searchQuerySchema.parse({ q: 'batt plate' })).results).toMatchObject([{ id: plate.id, matched: ['plate'], missing: ['batt'] }]);
+    expect(ids({ q: 'plate batt' })).toEqual([plate.id, note.id]);
   });
 
   it('finds mounts by any of their names', () => {
@@ -105,6 +114,67 @@ describe('search index · file', () => {
     const content = JSON.parse(indexFileContent(docs, 'abc', buildIndex(docs)));
     const again = createSearcher({ index: lunr.Index.load(content.index), documents: content.documents });
     expect(again.search(searchQuerySchema.parse({ q: 'battery' })).results.map((r) => r.id)).toEqual([plate.id, note.id]);
-    expect(content).toMatchObject({ format: 1, fingerprint: 'abc' });
+    expect(content).toMatchObject({ format: 2, fingerprint: 'abc' });
+  });
+});
+
+describe('search index · limits', () => {
+  // The probe's queries: 12 letters at distance 7 held the event loop for half a minute before the cap.
+  it.each(['abcdefghijkl~7', 'abcdefghijkl~6', 'abcdefghijklmnopqrstuvwxyzabcdefghij~2', 'plate~9 battery~9 riser~9'])('answers %j within its limits', (q) => {
+    expect(() => ids({ q })).not.toThrow();
+  });
+
+  it('reads an edit distance above 2 as 2', () => {
+    expect(ids({ q: 'title:plaet~7' })).toEqual(ids({ q: 'title:plaet~2' }));
+    expect(ids({ q: 'title:plaet~2' })).toContain(plate.id);
+    expect(ids({ q: 'abcdefghijkl~7' })).toEqual([]);
+    expect(ids({ q: 'abcdefghijkl~7 -battery' })).toEqual([]);
+  });
+
+  it('gives long words fewer edits', () => {
+    expect(allowedEditDistance(7, 12)).toBe(2);
+    expect(allowedEditDistance(2, 15)).toBe(1);
+    expect(allowedEditDistance(2, 31)).toBe(0);
+    expect(allowedEditDistance(-1, 5)).toBe(0);
+  });
+
+  it.each([
+    ['*', /letters before a \*/],
+    ['a*', /letters before a \*/],
+    ['*late', /letters before a \*/],
+    ['pl*te ba*t ri*', /3 wildcards/],
+    [Array.from({ length: 13 }, (_, i) => `+w${i}`).join(' '), /13 words/],
+  ])('refuses %j with a 400 that says what to change', (q, message) => {
+    expect(() => readSyntax(q, q)).toThrow(message);
+    try {
+      ids({ q });
+    } catch (err) {
+      expect((err as AppError).status).toBe(400);
+    }
+  });
+
+  it('keeps "starts with" working after some letters, and a required word with several expansions', () => {
+    expect(ids({ q: 'title:ba*' })).toEqual([plate.id]);
+    expect(ids({ q: '+ch* +riser' })).toEqual([riser.id]);
+  });
+
+  it('stops a search that runs past its budget with a 503', () => {
+    const spent = new Budget(-1);
+    expect(() => spent.check()).toThrow(/took too long/);
+  });
+});
+
+describe('search index · plain-word scorer', () => {
+  it('gives the same scores as lunr.Index.query for the same terms', () => {
+    // reference: lunr 2.3.9's own query scoring over the same index, every term optional
+    const index = buildIndex(docs);
+    const ours = createSearcher({ index, documents: docs });
+    for (const q of ['battery', 'battery holder', 'pocket light spare']) {
+      const terms = q.split(' ');
+      const reference = new Map(index.query((query) => terms.forEach((t) => query.term(t, { presence: lunr.Query.presence.OPTIONAL }))).map((r) => [Number(r.ref), r.score]));
+      const got = ours.search(searchQuerySchema.parse({ q: `${q} ` }));
+      expect(got.results.length).toBeGreaterThan(0);
+      for (const r of got.results) if (r.missing.length === 0 && reference.has(r.id)) expect(r.score).toBeCloseTo(reference.get(r.id)!, 3);
+    }
   });
 });

@@ -2,6 +2,8 @@ import { describe, expect, it } from 'vitest';
 import { searchQuerySchema } from '@shared/schemas/search';
 import { mountToken } from '@shared/search/aliases';
 import { parseDimension, parseEnvelope, readQueryText, splitList } from '@shared/search/query';
+import { normaliseQueryText } from '@shared/search/aliases';
+import { synonymToken } from '@shared/search/synonyms';
 import { fieldErrors } from '@shared/validation';
 
 describe('parseEnvelope · fit', () => {
@@ -126,20 +128,43 @@ describe('search query schema', () => {
 });
 
 describe('readQueryText', () => {
-  it('turns plain words into groups, mount names into one group each, the last word a prefix', () => {
-    expect(readQueryText('Battery plate for the KX-8')).toEqual({
+  it('turns plain words into groups, mount names and trade phrases into one group each, the last word a prefix', () => {
+    expect(readQueryText('Battery plate for the KX-8 bracket')).toEqual({
       kind: 'plain',
       groups: [
-        { kind: 'word', text: 'battery', last: false },
-        { kind: 'word', text: 'plate', last: false },
-        { kind: 'word', text: 'kx', last: false },
-        { kind: 'word', text: '8', last: true },
+        { kind: 'phrase', text: 'battery plate', tokens: [synonymToken('battery-plate')], alsoWord: false, last: false },
+        { kind: 'word', text: 'kx-8', parts: ['kx', '8'], last: false },
+        { kind: 'word', text: 'bracket', last: true },
       ],
     });
     expect(readQueryText('quarter inch riser')).toMatchObject({
-      groups: [{ kind: 'mount', mount: 'screw-1-4-20' }, { kind: 'word', text: 'riser', last: true }],
+      groups: [{ kind: 'mount', mount: 'screw-1-4-20' }, { kind: 'phrase', text: 'riser', alsoWord: true }],
     });
-    expect(readQueryText('riser 1/4"')).toMatchObject({ groups: [{ kind: 'mount' }, { kind: 'word', text: 'riser', last: false }] });
+    expect(readQueryText('clamp 1/4"')).toMatchObject({ groups: [{ kind: 'word', text: 'clamp', last: false }, { kind: 'mount', text: '1/4in' }] });
+  });
+
+  it('reads a number glued to its unit, or apart, as one word', () => {
+    for (const q of ['15mm', '15 mm', '15-mm', '15 MM', '15 millimetres']) expect(normaliseQueryText(q)).toBe('15mm');
+    for (const q of ['1/4in', '1/4 in', '1/4"', '1/4 inch', '1/4″']) expect(normaliseQueryText(q)).toBe('1/4in');
+    expect(normaliseQueryText('3/8"')).toBe('3/8in');
+    expect(normaliseQueryText('5-inch monitor')).toBe('5in monitor');
+    // not a unit: "in" as a word after a number that is part of something else
+    expect(normaliseQueryText('1/4-20 in a pinch')).toBe('1/4-20 in a pinch');
+    expect(readQueryText('15mm rod')).toEqual(readQueryText('15 mm rod'));
+    expect(readQueryText('15mm rod')).toMatchObject({ groups: [{ kind: 'mount', mount: 'rods-15-60' }] });
+  });
+
+  it('reads hyphens, spaces and plurals of trade phrases alike', () => {
+    for (const q of ['v-style', 'V style', 'vstyle', 'V-STYLE']) expect(readQueryText(q)).toMatchObject({ groups: [{ kind: 'mount', mount: 'battery-v-style' }] });
+    for (const q of ['cold shoe', 'cold-shoe', 'coldshoe', 'cold shoes', 'accessory shoe']) {
+      expect(readQueryText(q)).toMatchObject({ groups: [{ tokens: expect.arrayContaining([synonymToken('accessory-shoe')]) }] });
+    }
+    for (const q of ['wireless video receiver', 'receiver', 'RX', 'receivers']) {
+      expect(readQueryText(q)).toMatchObject({ groups: [{ tokens: [synonymToken('video-receiver')] }] });
+    }
+    for (const q of ['follow-focus gear', 'lens gear', 'focus gears']) {
+      expect(readQueryText(q)).toMatchObject({ groups: [{ tokens: expect.arrayContaining([synonymToken('focus-gear')]) }] });
+    }
   });
 
   it('sends query syntax to the parser, with mount names replaced', () => {

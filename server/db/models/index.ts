@@ -2,6 +2,7 @@
 import { DataTypes, Model, type Sequelize } from 'sequelize';
 import { AccountToken, initAccountToken } from './account-token';
 import { AuditEvent, initAuditEvent } from './audit-event';
+import { Build, initBuild } from './build';
 import { CameraBody, initCameraBody } from './camera-body';
 import { ContentFlag, initEvidence, Rating, ReportPhoto, SetReport } from './evidence';
 import { initKits, Kit, KitItem, KitShare } from './kit';
@@ -15,10 +16,12 @@ import { initPrinter, Printer } from './printer';
 import { initRecipe, Recipe } from './recipe';
 import { initSession, Session } from './session';
 import { initUser, User } from './user';
+import { initWanted, WantedAnswer, WantedPhoto, WantedRequest } from './wanted';
 
 export type { AuditAction } from './audit-event';
 export { ContentFlag, Rating, ReportPhoto, SetReport };
 export { Kit, KitItem, KitShare, PriceSheet, Printer };
+export { Build, WantedAnswer, WantedPhoto, WantedRequest };
 export { AccountToken, AuditEvent, CameraBody, MailMessage, Notice, Part, PartFile, PartRevision, Recipe, Session, User };
 
 /** Join rows: which camera bodies a revision fits, which files a revision shows (in order). */
@@ -45,6 +48,8 @@ export function initModels(sequelize: Sequelize) {
   initPrinter(sequelize);
   initPriceSheet(sequelize);
   initKits(sequelize);
+  initBuild(sequelize);
+  initWanted(sequelize);
   RevisionBody.init(
     {
       revisionId: { type: DataTypes.INTEGER.UNSIGNED, primaryKey: true },
@@ -85,4 +90,14 @@ export function initModels(sequelize: Sequelize) {
   KitItem.belongsTo(Part, { as: 'part', foreignKey: 'partId' });
   KitItem.belongsTo(Recipe, { as: 'recipe', foreignKey: 'recipeId', constraints: false });
   KitItem.belongsTo(Printer, { as: 'printer', foreignKey: 'printerId', constraints: false });
+  Build.belongsTo(User, { as: 'owner', foreignKey: 'ownerId' });
+  Build.belongsTo(CameraBody, { as: 'body', foreignKey: 'bodyId', constraints: false });
+  WantedRequest.belongsTo(User, { as: 'author', foreignKey: 'authorId' });
+  WantedRequest.belongsTo(User, { as: 'closer', foreignKey: 'closedBy', constraints: false });
+  WantedRequest.belongsTo(CameraBody, { as: 'body', foreignKey: 'bodyId', constraints: false });
+  WantedRequest.hasMany(WantedPhoto, { as: 'photos', foreignKey: 'requestId' });
+  WantedRequest.hasMany(WantedAnswer, { as: 'answers', foreignKey: 'requestId' });
+  WantedAnswer.belongsTo(WantedRequest, { as: 'request', foreignKey: 'requestId' });
+  WantedAnswer.belongsTo(User, { as: 'user', foreignKey: 'userId' });
+  WantedAnswer.belongsTo(Part, { as: 'part', foreignKey: 'partId' });
 }

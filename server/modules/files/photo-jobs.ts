@@ -73,8 +73,9 @@ export class PhotoJobs {
         return;
       }
       if (result.ok) {
-        await removeQuietly(paths.original);
+        // the row first: if the database fails here the raw upload is still there for the next start
         await after.update({ processing: 'ready', width: result.width, height: result.height });
+        await removeQuietly(paths.original);
         return;
       }
       await removeQuietly(...outputs);

@@ -117,6 +117,7 @@ export interface MailTemplates {
   verifyEmail(p: { displayName: string; link: string; expiresHours: number }): MailContent;
   passwordReset(p: { displayName: string; link: string; expiresMinutes: number }): MailContent;
   alreadyRegistered(p: { displayName: string; signInLink: string; resetLink: string }): MailContent;
+  wantedAnswered(p: { requestTitle: string; partTitle: string; answeredBy: string; note: string | null; partLink: string; requestLink: string }): MailContent;
 }
 
 export const mailTemplates: MailTemplates = {
@@ -226,6 +227,20 @@ export const mailTemplates: MailTemplates = {
       { kind: 'p', text: 'If you have forgotten your password, ask for a reset link:' },
       { kind: 'action', label: 'Reset my password', link: p.resetLink },
       { kind: 'small', text: 'If it was not you, ignore this mail: your account and password stay as they are.' },
+    ]);
+  },
+
+  /** To a crew member who asked for a part: a part linked in answer is on the shelf. */
+  wantedAnswered(p: { requestTitle: string; partTitle: string; answeredBy: string; note: string | null; partLink: string; requestLink: string }): MailContent {
+    return mail(`A part for your request: ${p.requestTitle}`, 'Someone found a part for you', [
+      { kind: 'p', text: `${p.answeredBy} answered your request “${p.requestTitle}” with “${p.partTitle}”, which is on the shelf now.` },
+      ...(p.note?.trim() ? [{ kind: 'note', label: `Note from ${p.answeredBy}`, text: p.note.trim() } as Block] : []),
+      { kind: 'action', label: 'See the part', link: p.partLink },
+      {
+        kind: 'p',
+        text: `Check that it fits your rig before the shoot. If it does what you needed, close your request as solved so the crew knows: ${p.requestLink}`,
+      },
+      { kind: 'small', text: 'You get this because you asked the crew for a part on Rigshelf.' },
     ]);
   },
 };

@@ -1,8 +1,10 @@
 // Turning inspected uploads into file rows and files in place, inside the caller's transaction.
 import { existsSync } from 'node:fs';
+import { readFile } from 'node:fs/promises';
 import { join } from 'node:path';
+import { imageSize } from 'image-size';
 import { Op, type Transaction } from 'sequelize';
-import { PartFile, ReportPhoto, RevisionFile } from '../../db/models';
+import { PartFile, ReportPhoto, RevisionFile, WantedPhoto } from '../../db/models';
 import type { InspectedFile } from '../files/inspect';
 import { filesOlderThan, moveAll, randomStoredName, removeQuietly, type UploadDirs } from '../files/storage';
 
@@ -74,7 +76,7 @@ export async function removeStoredFiles(dirs: UploadDirs, row: Pick<PartFile, 'k
  * Start-up sweep after a crash: drops unfinished uploads, raw photos nobody is waiting for and stored
  * files no row refers to. Returns the photos still waiting to be cleaned.
  */
-export async function sweepUploads(dirs: UploadDirs): Promise<{ removed: number; pendingPhotos: PartFile[]; pendingReportPhotos: ReportPhoto[] }> {
+export async function sweepUploads(dirs: UploadDirs): Promise<{ removed: number; pendingPhotos: PartFile[]; pendingReportPhotos: ReportPhoto[]; pendingWantedPhotos: WantedPhoto[] }> {
   let removed = 0;
   const drop = async (path: string) => {
     await removeQuietly(path);
@@ -84,7 +86,8 @@ export async function sweepUploads(dirs: UploadDirs): Promise<{ removed: number;
 
   const pendingPhotos = await PartFile.findAll({ where: { kind: 'photo', processing: 'pending' } });
   const pendingReportPhotos = await ReportPhoto.findAll({ where: { processing: 'pending' } });
-  const waiting = new Set([...pendingPhotos, ...pendingReportPhotos].map((p) => p.storedName));
+  const pendingWantedPhotos = await WantedPhoto.findAll({ where: { processing: 'pending' } });
+  const waiting = new Set([...pendingPhotos, ...pendingReportPhotos, ...pendingWantedPhotos].map((p) => p.storedName));
   for (const name of await filesOlderThan(dirs.incoming, 0)) if (!waiting.has(name)) await drop(join(dirs.incoming, name));
 
   const stored = await filesOlderThan(dirs.store, 0);
@@ -93,8 +96,38 @@ export async function sweepUploads(dirs: UploadDirs): Promise<{ removed: number;
   const known = new Set([
     ...(await PartFile.findAll({ where: names, attributes: ['storedName'] })).map((f) => f.storedName),
     ...(await ReportPhoto.findAll({ where: names, attributes: ['storedName'] })).map((f) => f.storedName),
+    ...(await WantedPhoto.findAll({ where: names, attributes: ['storedName'] })).map((f) => f.storedName),
   ]);
   for (const name of stored) if (!known.has(baseOf(name))) await drop(join(dirs.store, name));
-  const stillRaw = <T extends { storedName: string }>(rows: T[]) => rows.filter((p) => existsSync(pathsOf(dirs, { kind: 'photo', storedName: p.storedName }).original));
-  return { removed, pendingPhotos: stillRaw(pendingPhotos), pendingReportPhotos: stillRaw(pendingReportPhotos) };
+  const stillRaw = async <T extends WaitingPhoto>(rows: T[]) => {
+    const raw: T[] = [];
+    for (const row of rows) if (await settleWithoutRaw(dirs, row)) raw.push(row);
+    return raw;
+  };
+  return {
+    removed,
+    pendingPhotos: await stillRaw(pendingPhotos),
+    pendingReportPhotos: await stillRaw(pendingReportPhotos),
+    pendingWantedPhotos: await stillRaw(pendingWantedPhotos),
+  };
+}
+
+type WaitingPhoto = Pick<PartFile, 'storedName'> & { update(values: { processing: 'ready' | 'failed'; width?: number; height?: number }): Promise<unknown> };
+
+/**
+ * A waiting photo whose raw upload is gone was cut off between its last steps: with both sizes written
+ * it is ready (its recorded size is then the display size, same proportions), otherwise it failed.
+ * Returns true when the raw upload is there and the photo can be cleaned again.
+ */
+async function settleWithoutRaw(dirs: UploadDirs, row: WaitingPhoto): Promise<boolean> {
+  const p = pathsOf(dirs, { kind: 'photo', storedName: row.storedName });
+  if (existsSync(p.original)) return true;
+  if (existsSync(p.display!) && existsSync(p.thumbnail!)) {
+    const size = imageSize(await readFile(p.display!));
+    await row.update({ processing: 'ready', width: size.width, height: size.height });
+  } else {
+    await removeQuietly(p.display!, p.thumbnail!);
+    await row.update({ processing: 'failed' });
+  }
+  return false;
 }

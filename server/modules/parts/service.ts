@@ -4,7 +4,7 @@ import { slugify } from '@shared/catalogue';
 import { transition } from '@shared/review';
 import { checkAdaptationLicence, isLicenceId } from '@shared/licences';
 import type { PartSubmission, PartUpdate } from '@shared/schemas/part';
-import { Part, PartFile, PartRevision, ReportPhoto, RevisionFile, type User } from '../../db/models';
+import { Part, PartFile, PartRevision, ReportPhoto, RevisionFile, type User, type WantedPhoto } from '../../db/models';
 import { transact, type Attempt } from '../../db/transaction';
 import { AppError } from '../../errors';
 import type { InspectedFile } from '../files/inspect';
@@ -43,6 +43,8 @@ export interface PartsDeps {
   onSubmitted?: SubmissionHook;
   /** Puts an edit by someone other than the author on record, inside the same transaction. */
   onEdited?: EditHook;
+  /** Wanted-request photos the start-up sweep found waiting to be cleaned. */
+  onRecovered?: (wantedPhotos: WantedPhoto[]) => void;
 }
 
 function fieldError(field: string, message: string) {
@@ -57,7 +59,7 @@ async function uniqueSlug(title: string, transaction: Transaction, alsoTaken: Se
   for (let n = 2; ; n++) if (!used.has(`${base}-${n}`)) return `${base}-${n}`;
 }
 
-export function createPartsService({ sequelize, dirs, photos, onSubmitted, onEdited }: PartsDeps) {
+export function createPartsService({ sequelize, dirs, photos, onSubmitted, onEdited, onRecovered }: PartsDeps) {
   /** Records what an edit did: a new revision of a published part, or a resubmission after changes. */
   async function afterEdit(actor: User, part: Part, edit: { revision: PartRevision; created: boolean }, t: Transaction, record?: EditRecord) {
     // the author's own edits are on record as (re)submissions; anyone else's edit is an event of its own
@@ -117,10 +119,11 @@ export function createPartsService({ sequelize, dirs, photos, onSubmitted, onEdi
   return {
     /** Clears what a crash left behind and resumes photos that were waiting to be cleaned. */
     async recover() {
-      const { removed, pendingPhotos, pendingReportPhotos } = await sweepUploads(dirs);
+      const { removed, pendingPhotos, pendingReportPhotos, pendingWantedPhotos } = await sweepUploads(dirs);
+      onRecovered?.(pendingWantedPhotos);
       queuePhotos(pendingPhotos);
       for (const row of pendingReportPhotos) photos.clean(row, () => ReportPhoto.findByPk(row.id));
-      return { removed, resumed: pendingPhotos.length + pendingReportPhotos.length };
+      return { removed, resumed: pendingPhotos.length + pendingReportPhotos.length + pendingWantedPhotos.length };
     },
 
     /** Resolves when every photo queued so far has been cleaned (tests and shutdown wait on it). */

@@ -22,6 +22,8 @@ export interface ReviewDeps {
   publicUrl: string;
   /** Called after a decision has been committed (e.g. to refresh the search index). */
   onDecided?: (partId: number, action: ReviewAction) => void;
+  /** Called inside the approving transaction when a part goes on the shelf (wanted requests hear of it). */
+  onPublished?: (part: Part, t: Transaction) => Promise<void>;
 }
 
 const AUDIT_ACTION: Record<ReviewAction, AuditAction> = {
@@ -101,7 +103,7 @@ export async function reviewWarnings(detail: PartDetail): Promise<string[]> {
   return warnings;
 }
 
-export function createReviewService({ sequelize, mail, publicUrl, onDecided }: ReviewDeps) {
+export function createReviewService({ sequelize, mail, publicUrl, onDecided, onPublished }: ReviewDeps) {
   const partLink = (part: Part) => `${publicUrl}/parts/${part.slug}`;
   const deskLink = (part: Part) => `${publicUrl}/review/${part.id}`;
 
@@ -238,6 +240,7 @@ export function createReviewService({ sequelize, mail, publicUrl, onDecided }: R
           if (part.publishedRevisionId) await PartRevision.update({ status: 'superseded' }, { where: { id: part.publishedRevisionId }, transaction: t });
           await revision!.update({ status: 'published' }, { transaction: t });
           await part.update({ status: 'published', publishedRevisionId: revision!.id, publishedAt: part.publishedAt ?? new Date() }, { transaction: t });
+          await onPublished?.(part, t);
         } else if (action === 'send-back' || action === 'reject') {
           const to = step.to as 'sent_back' | 'rejected';
           await revision!.update({ status: to }, { transaction: t });

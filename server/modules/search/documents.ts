@@ -47,6 +47,12 @@ export async function publishedFingerprint(sequelize: Sequelize): Promise<string
   return hash.digest('hex');
 }
 
+/** Every camera body on the list, named or not by a published part (for names in search). */
+export async function loadBodies(): Promise<SearchBody[]> {
+  const rows = await CameraBody.findAll({ order: [['id', 'ASC']] });
+  return rows.map((b) => ({ slug: b.slug, maker: b.maker, model: b.model, aliases: b.aliases }));
+}
+
 export async function loadDocuments(): Promise<SearchDocument[]> {
   const parts = await Part.findAll({ where: PUBLISHED, order: [['id', 'ASC']] });
   const revisionIds = parts.map((p) => p.publishedRevisionId!);

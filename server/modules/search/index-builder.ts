@@ -3,11 +3,12 @@
 // Imports are relative so the worker thread resolves them without the @shared alias.
 import lunr from 'lunr';
 import { categoryLabel } from '../../../shared/catalogue';
-import { mountIndexText } from '../../../shared/search/aliases';
+import { indexText, mountIndexText } from '../../../shared/search/aliases';
+import { bodyToken } from '../../../shared/search/bodies';
 import type { FilterableDoc, SizeMm } from '../../../shared/search/filters';
 
 /** Bumped whenever documents, fields or tokens change shape; an index file of another format is rebuilt. */
-export const SEARCH_FORMAT = 1;
+export const SEARCH_FORMAT = 2;
 
 /**
  * Field boosts. A match in the title, the camera bodies or the mounts counts most; the summary,
@@ -62,17 +63,21 @@ function compact(text: string): string {
   return text.toLowerCase().replace(/[^a-z0-9]+/g, '');
 }
 
+/**
+ * What the index holds per field. Free text goes through indexText (units fused as in queries,
+ * hyphenated words also joined, trade-synonym tokens added); bodies and mounts carry their tokens.
+ */
 export function indexRecord(doc: SearchDocument): Record<SearchField | 'id', string> {
   return {
     id: String(doc.id),
-    title: doc.title,
-    bodies: doc.bodies.flatMap((b) => [b.maker, b.model, compact(b.model), ...b.aliases]).join(' '),
-    mounts: mountIndexText(doc.mounts),
-    summary: doc.summary,
-    dimensions: doc.keyDimensions.map((d) => d.name).join(' '),
+    title: indexText(doc.title),
+    bodies: doc.bodies.flatMap((b) => [bodyToken(b.slug), b.maker, b.model, compact(b.model), ...b.aliases]).join(' '),
+    mounts: indexText(mountIndexText(doc.mounts)),
+    summary: indexText(doc.summary),
+    dimensions: indexText(doc.keyDimensions.map((d) => d.name).join(' ')),
     category: categoryLabel(doc.category),
     materials: doc.materials.join(' '),
-    description: doc.description,
+    description: indexText(doc.description),
   };
 }
 
@@ -94,15 +99,18 @@ export interface IndexFile {
   fingerprint: string;
   builtAt: string;
   documents: SearchDocument[];
+  /** Every camera body known when it was built (names for the body filter and the query text). */
+  bodies: SearchBody[];
   index: object;
 }
 
-export function indexFileContent(documents: SearchDocument[], fingerprint: string, index: lunr.Index | object): string {
+export function indexFileContent(documents: SearchDocument[], fingerprint: string, index: lunr.Index | object, bodies: SearchBody[] = []): string {
   const file: IndexFile = {
     format: SEARCH_FORMAT,
     fingerprint,
     builtAt: new Date().toISOString(),
     documents,
+    bodies,
     index: index instanceof lunr.Index ? index.toJSON() : index,
   };
   return JSON.stringify(file);

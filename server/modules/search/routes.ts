@@ -6,8 +6,8 @@ import type { SearchService } from './service';
 /** GET /api/search: public, like the shelf itself. */
 export function searchRoutes(search: SearchService) {
   const router = Router();
-  router.get('/', validate('query', searchQuerySchema), (_req, res) => {
-    res.json(search.search(res.locals.query as SearchQuery));
+  router.get('/', validate('query', searchQuerySchema), async (_req, res) => {
+    res.json(await search.search(res.locals.query as SearchQuery));
   });
   return router;
 }

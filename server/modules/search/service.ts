@@ -1,16 +1,17 @@
-// Shelf search: the current index and its documents live in memory. Rebuilds run off the request
-// path in a worker thread and are swapped in whole; a search always sees one complete index.
-import { readFile } from 'node:fs/promises';
+// Shelf search. A worker thread owns the index and answers the searches (search-worker.ts); this
+// side only posts queries and passes pages back, so neither a search nor an index swap can hold
+// the main event loop. A rebuild starts a second worker that reads the shelf, builds and saves
+// the index while the first keeps answering; then new searches go to the new worker and the old
+// one stops once its last answer is out. A search that runs past its time stops its worker, which
+// is replaced from the saved file; that search gets a 503 and everyone else goes on.
 import { Worker } from 'node:worker_threads';
-import lunr from 'lunr';
 import type { Sequelize } from 'sequelize';
 import type { SearchResponse } from '@shared/api/search';
 import type { SearchQuery } from '@shared/schemas/search';
+import { SEARCH_LIMITS } from '@shared/search/query';
 import { AppError } from '../../errors';
-import { loadDocuments, publishedFingerprint } from './documents';
-import { SEARCH_FORMAT, type IndexFile, type SearchDocument } from './index-builder';
-import type { BuildJob, BuildResult } from './index-worker';
-import { createSearcher, type Ranks, type Searcher } from './searcher';
+import type { Ranks } from './searcher';
+import { packRanks, type DbSettings, type SearchWorkerData, type WorkerReply, type WorkerRequest } from './search-protocol';
 
 export interface SearchServiceDeps {
   sequelize: Sequelize;
@@ -20,70 +21,106 @@ export interface SearchServiceDeps {
   rebuildDelayMs?: number;
   /** Ratings and set-report figures per part, for 'best proven' and the rating filter. */
   ranking?: (partIds: number[]) => Promise<Ranks>;
+  /** How long one search may take, the worker's round trip included, before it is stopped (ms). */
+  queryTimeoutMs?: number;
 }
 
-const WORKER_URL = new URL('./index-worker.ts', import.meta.url).href;
+const WORKER_URL = new URL('./search-worker.ts', import.meta.url).href;
 // Same start as the photo worker: load the TypeScript worker through tsx (works under tsx and vitest).
 const BOOT = `import('tsx/esm/api').then(({ register }) => { register(); return import(${JSON.stringify(WORKER_URL)}); })`;
 
-/** One worker thread for index builds, started on demand and stopped after a quiet minute. */
-class IndexWorker {
-  private worker: Worker | null = null;
-  private waiting = new Map<number, { resolve(r: BuildResult): void; reject(e: Error): void }>();
-  private nextId = 1;
-  private idleTimer: NodeJS.Timeout | null = null;
+type Ready = Extract<WorkerReply, { type: 'ready' }>;
+type Answer = Extract<WorkerReply, { type: 'answer' }>;
 
-  build(job: Omit<BuildJob, 'id'>): Promise<Extract<BuildResult, { ok: true }>> {
-    if (this.idleTimer) clearTimeout(this.idleTimer);
-    const worker = this.ensure();
-    const id = this.nextId++;
-    return new Promise((resolve, reject) => {
-      this.waiting.set(id, {
-        resolve: (r) => (r.ok ? resolve(r) : reject(new Error(r.error))),
-        reject,
-      });
-      worker.postMessage({ ...job, id } satisfies BuildJob);
+/** One worker thread and the index it holds. */
+export class SearchWorker {
+  private readonly worker: Worker;
+  private readonly answers = new Map<number, { resolve(r: Answer): void; reject(e: Error): void; timer: NodeJS.Timeout }>();
+  private control: { resolve(r: WorkerReply): void; reject(e: Error): void } | null = null;
+  private nextId = 1;
+  private retiring = false;
+  private exited = false;
+  ready: Ready | null = null;
+
+  constructor(data: SearchWorkerData, private readonly onStuck: (w: SearchWorker) => void = () => undefined) {
+    this.worker = new Worker(BOOT, { eval: true, workerData: data });
+    this.worker.unref();
+    this.worker.on('message', (reply: WorkerReply) => {
+      if (reply.type === 'answer') {
+        const waiting = this.answers.get(reply.id);
+        if (!waiting) return;
+        clearTimeout(waiting.timer);
+        this.answers.delete(reply.id);
+        waiting.resolve(reply);
+        if (this.retiring && this.answers.size === 0) void this.stop();
+        return;
+      }
+      if (reply.type === 'ready') this.ready = reply;
+      const control = this.control;
+      this.control = null;
+      control?.resolve(reply);
+    });
+    this.worker.on('error', (err) => this.failAll(err));
+    this.worker.on('exit', () => {
+      this.exited = true;
+      this.failAll(new Error('the search worker stopped'));
     });
   }
 
-  private ensure(): Worker {
-    if (this.worker) return this.worker;
-    const worker = new Worker(BOOT, { eval: true });
-    worker.on('message', (result: BuildResult) => {
-      this.waiting.get(result.id)?.resolve(result);
-      this.waiting.delete(result.id);
-      if (!this.waiting.size) {
-        this.idleTimer = setTimeout(() => void this.close(), 60_000);
-        this.idleTimer.unref();
-      }
+  /** Start, build or build from documents: one at a time, answered by ready / unchanged / failed. */
+  run(request: Exclude<WorkerRequest, { type: 'search' | 'ranks' }>): Promise<WorkerReply> {
+    if (this.control) return Promise.reject(new Error('the search worker is busy with another index job'));
+    return new Promise((resolve, reject) => {
+      this.control = { resolve, reject };
+      this.worker.postMessage(request);
     });
-    worker.on('error', (err) => this.failAll(err));
-    worker.on('exit', () => {
-      if (this.worker === worker) this.worker = null;
-      this.failAll(new Error('the search index worker stopped'));
+  }
+
+  sendRanks(ranks: Ranks) {
+    if (this.exited) return;
+    const data = packRanks(ranks);
+    this.worker.postMessage({ type: 'ranks', data } satisfies WorkerRequest, [data.buffer as ArrayBuffer]);
+  }
+
+  search(query: SearchQuery, timeoutMs: number): Promise<SearchResponse> {
+    if (this.exited) return Promise.reject(new AppError(503, 'search_starting', 'Search is restarting. Try again in a few seconds.'));
+    const id = this.nextId++;
+    return new Promise<Answer>((resolve, reject) => {
+      const timer = setTimeout(() => {
+        this.answers.delete(id);
+        reject(new AppError(503, 'search_too_costly', 'This search took too long and was stopped. Use fewer words with wildcards (*) or typos (~), then try again.'));
+        this.onStuck(this);
+      }, timeoutMs);
+      this.answers.set(id, { resolve, reject, timer });
+      this.worker.postMessage({ type: 'search', id, query } satisfies WorkerRequest);
+    }).then((answer) => {
+      if (answer.ok) return answer.response as SearchResponse;
+      throw new AppError(answer.error.status, answer.error.code, answer.error.message, answer.error.fields);
     });
-    worker.unref();
-    this.worker = worker;
-    return worker;
+  }
+
+  /** Stops once the searches already sent have their answers. */
+  retire() {
+    this.retiring = true;
+    if (this.answers.size === 0) void this.stop();
+  }
+
+  async stop() {
+    if (this.exited) return;
+    this.exited = true;
+    await this.worker.terminate();
   }
 
   private failAll(err: Error) {
-    for (const w of this.waiting.values()) w.reject(err);
-    this.waiting.clear();
+    const busy = err.message === 'the search worker stopped' ? new AppError(503, 'search_starting', 'Search is restarting. Try again in a few seconds.') : err;
+    for (const w of this.answers.values()) {
+      clearTimeout(w.timer);
+      w.reject(busy);
+    }
+    this.answers.clear();
+    this.control?.reject(err);
+    this.control = null;
   }
-
-  async close() {
-    if (this.idleTimer) clearTimeout(this.idleTimer);
-    const worker = this.worker;
-    this.worker = null;
-    if (worker) await worker.terminate();
-  }
-}
-
-interface Current {
-  searcher: Searcher;
-  fingerprint: string;
-  builtAt: string;
 }
 
 export interface SearchStats {
@@ -99,40 +136,29 @@ export interface SearchStats {
   lastError: string | null;
 }
 
-async function readIndexFile(file: string, fingerprint: string): Promise<{ file: IndexFile; index: lunr.Index } | string> {
-  let text: string;
-  try {
-    text = await readFile(file, 'utf8');
-  } catch {
-    return 'is missing';
-  }
-  let parsed: IndexFile;
-  try {
-    parsed = JSON.parse(text) as IndexFile;
-  } catch {
-    return 'is corrupt (not JSON)';
-  }
-  if (parsed?.format !== SEARCH_FORMAT) return `has format ${String(parsed?.format)}, this version writes ${SEARCH_FORMAT}`;
-  if (parsed.fingerprint !== fingerprint) return 'is out of date with the shelf';
-  if (!Array.isArray(parsed.documents) || typeof parsed.index !== 'object' || !parsed.index) return 'is corrupt (missing parts)';
-  try {
-    return { file: parsed, index: lunr.Index.load(parsed.index) };
-  } catch {
-    return 'is corrupt (the index does not load)';
-  }
+function dbSettings(sequelize: Sequelize): DbSettings {
+  const c = sequelize.config;
+  return { database: c.database, username: c.username, password: c.password ?? '', host: c.host ?? '127.0.0.1', port: Number(c.port) };
 }
 
-export function createSearchService({ sequelize, indexFile, rebuildDelayMs = 250, ranking }: SearchServiceDeps) {
+export function createSearchService({ sequelize, indexFile, rebuildDelayMs = 250, ranking, queryTimeoutMs = SEARCH_LIMITS.budgetMs * 3 }: SearchServiceDeps) {
+  const workerData: SearchWorkerData = { file: indexFile, db: dbSettings(sequelize) };
   let ranks: Ranks = new Map();
   let rankRefresh: Promise<void> | null = null;
   let rankAgain = false;
 
-  /** Copies the mean rating onto the documents, where the minRating filter reads it. */
-  function applyRanks(documents: readonly SearchDocument[]) {
-    for (const doc of documents) doc.rating = ranks.get(doc.id)?.mean ?? null;
-  }
+  let current: SearchWorker | null = null;
+  let startup: Promise<SearchStats & { rebuiltBecause: string | null }> | null = null;
+  let timer: NodeJS.Timeout | null = null;
+  let running: Promise<void> | null = null;
+  let replacing: Promise<void> | null = null;
+  let dirty = false;
+  let closed = false;
+  let idleWaiters: (() => void)[] = [];
+  const starting = new Set<SearchWorker>();
+  const stats: Omit<SearchStats, 'documents' | 'fingerprint' | 'builtAt'> = { builds: 0, loadsFromFile: 0, source: null, lastError: null };
 
-  /** Reloads the ranking figures (cheap next to an index build); calls close together share one. */
+  /** Reloads the ranking figures for the parts the current index holds; calls close together share one. */
   function refreshRanks(): Promise<void> {
     if (!ranking) return Promise.resolve();
     if (rankRefresh) {
@@ -142,10 +168,11 @@ export function createSearchService({ sequelize, indexFile, rebuildDelayMs = 250
     rankRefresh = (async () => {
       do {
         rankAgain = false;
-        const docs = current?.searcher.documents ?? [];
+        const serving = current;
+        const ids = serving?.ready ? [...serving.ready.ids] : [];
         try {
-          ranks = await ranking(docs.map((d) => d.id));
-          applyRanks(current?.searcher.documents ?? []);
+          ranks = await ranking(ids);
+          current?.sendRanks(ranks);
         } catch (err) {
           if (!closed) console.error('rigshelf: search ranking could not be refreshed:', err);
         }
@@ -156,38 +183,65 @@ export function createSearchService({ sequelize, indexFile, rebuildDelayMs = 250
     return rankRefresh;
   }
 
-  const worker = new IndexWorker();
-  let current: Current | null = null;
-  let startup: Promise<SearchStats & { rebuiltBecause: string | null }> | null = null;
-  let timer: NodeJS.Timeout | null = null;
-  let running: Promise<void> | null = null;
-  let dirty = false;
-  let closed = false;
-  let idleWaiters: (() => void)[] = [];
-  let markReady!: () => void;
-  const readyPromise = new Promise<void>((r) => (markReady = r));
-  const stats: Omit<SearchStats, 'documents' | 'fingerprint' | 'builtAt'> = { builds: 0, loadsFromFile: 0, source: null, lastError: null };
+  function spawn(): SearchWorker {
+    const worker = new SearchWorker(workerData, (stuck) => replaceStuck(stuck));
+    starting.add(worker);
+    return worker;
+  }
 
-  function install(documents: SearchDocument[], index: lunr.Index, fingerprint: string, builtAt: string, source: 'file' | 'build') {
-    // one assignment: a search that already holds the old searcher finishes with it
-    applyRanks(documents);
-    current = { searcher: createSearcher({ index, documents }), fingerprint, builtAt };
-    stats.source = source;
-    markReady();
+  /** Puts a ready worker in place of the current one; the old one finishes what it was asked. */
+  function swapIn(worker: SearchWorker, ready: Ready) {
+    starting.delete(worker);
+    worker.sendRanks(ranks);
+    const old = current;
+    current = worker;
+    if (ready.source === 'build') stats.builds += 1;
+    else stats.loadsFromFile += 1;
+    stats.source = ready.source;
+    if (ready.writeError) console.error(`rigshelf: search index could not be saved to ${indexFile}: ${ready.writeError}`);
+    old?.retire();
     void refreshRanks();
   }
 
-  /** Loads the published set and builds it in the worker, unless nothing changed since the last build. */
+  /** A search ran past its time: that worker is stopped and a fresh one loads the saved index. */
+  function replaceStuck(stuck: SearchWorker) {
+    void stuck.stop();
+    if (current !== stuck || closed || replacing) return;
+    current = null;
+    replacing = (async () => {
+      const worker = spawn();
+      try {
+        const reply = await worker.run({ type: 'start' });
+        if (reply.type === 'ready' && !closed) swapIn(worker, reply);
+        else await worker.stop();
+      } catch (err) {
+        stats.lastError = (err as Error).message;
+        await worker.stop();
+      } finally {
+        starting.delete(worker);
+      }
+    })().finally(() => {
+      replacing = null;
+    });
+  }
+
+  /** Builds in a new worker unless the shelf is unchanged, then swaps it in. */
   async function rebuild() {
-    const fingerprint = await publishedFingerprint(sequelize);
-    if (current && current.fingerprint === fingerprint) return;
-    const documents = await loadDocuments();
-    if (closed) return;
-    const built = await worker.build({ documents, fingerprint, file: indexFile });
-    if (closed) return;
-    if (built.writeError) console.error(`rigshelf: search index could not be saved to ${indexFile}: ${built.writeError}`);
-    stats.builds += 1;
-    install(documents, lunr.Index.load(built.index), fingerprint, new Date().toISOString(), 'build');
+    const worker = spawn();
+    try {
+      const reply = await worker.run({ type: 'build', unless: current?.ready?.fingerprint ?? null });
+      if (reply.type === 'failed') throw new Error(reply.error);
+      if (reply.type !== 'ready' || closed) {
+        await worker.stop();
+        return;
+      }
+      swapIn(worker, reply);
+    } catch (err) {
+      await worker.stop();
+      throw err;
+    } finally {
+      starting.delete(worker);
+    }
   }
 
   function settle() {
@@ -225,31 +279,28 @@ export function createSearchService({ sequelize, indexFile, rebuildDelayMs = 250
      */
     start() {
       startup ??= (async () => {
-        const fingerprint = await publishedFingerprint(sequelize);
-        const saved = await readIndexFile(indexFile, fingerprint);
-        if (typeof saved === 'object') {
-          stats.loadsFromFile += 1;
-          install(saved.file.documents, saved.index, saved.file.fingerprint, saved.file.builtAt, 'file');
-          return { ...service.stats(), rebuiltBecause: null };
+        const worker = spawn();
+        let reply: WorkerReply;
+        try {
+          reply = await worker.run({ type: 'start' });
+        } catch (err) {
+          await worker.stop();
+          throw new Error(`The search index could not be built: ${(err as Error).message}`);
         }
-        dirty = true;
-        run();
-        await service.idle();
-        if (!current) throw new Error(`The search index could not be built: ${stats.lastError ?? 'unknown error'}`);
-        return { ...service.stats(), rebuiltBecause: `${indexFile} ${saved}` };
+        if (reply.type !== 'ready') {
+          await worker.stop();
+          throw new Error(`The search index could not be built: ${reply.type === 'failed' ? reply.error : reply.type}`);
+        }
+        swapIn(worker, reply);
+        return { ...service.stats(), rebuiltBecause: reply.reason };
       })();
       return startup;
-    },
-
-    /** Resolves once an index is in place. */
-    ready(): Promise<void> {
-      return readyPromise;
     },
 
     /** Resolves when no rebuild (and no ranking refresh) is waiting or running. */
     async idle(): Promise<void> {
       if (timer || running) await new Promise<void>((resolve) => idleWaiters.push(resolve));
-      while (rankRefresh) await rankRefresh;
+      while (rankRefresh || replacing) await (rankRefresh ?? replacing);
     },
 
     /** Ratings or set reports changed: re-read the ranking figures (the text index stays). */
@@ -269,27 +320,26 @@ export function createSearchService({ sequelize, indexFile, rebuildDelayMs = 250
       timer.unref();
     },
 
-    search(query: SearchQuery): SearchResponse {
+    /** Answered by the worker that holds the current index; the page comes back, nothing else. */
+    search(query: SearchQuery): Promise<SearchResponse> {
       const now = current;
-      if (!now) throw new AppError(503, 'search_starting', 'Search is still starting up. Try again in a few seconds.');
-      return now.searcher.search(query, ranks);
+      if (!now) return Promise.reject(new AppError(503, 'search_starting', 'Search is still starting up. Try again in a few seconds.'));
+      return now.search(query, queryTimeoutMs);
     },
 
     stats(): SearchStats {
-      return {
-        ...stats,
-        documents: current?.searcher.size ?? 0,
-        fingerprint: current?.fingerprint ?? null,
-        builtAt: current?.builtAt ?? null,
-      };
+      const ready = current?.ready;
+      return { ...stats, documents: ready?.documents ?? 0, fingerprint: ready?.fingerprint ?? null, builtAt: ready?.builtAt ?? null };
     },
 
-    /** Stops pending rebuilds and the worker thread. */
+    /** Stops pending rebuilds and every worker thread. */
     async close(): Promise<void> {
       closed = true;
       if (timer) clearTimeout(timer);
       timer = null;
-      await worker.close();
+      const workers = [current, ...starting].filter((w): w is SearchWorker => !!w);
+      current = null;
+      await Promise.all(workers.map((w) => w.stop()));
       await running?.catch(() => undefined);
       settle();
     },
