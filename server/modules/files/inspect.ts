@@ -1,7 +1,7 @@
 // Checks every uploaded file before anything is written to the database: size per kind, real type
 // from the bytes, and for models the full mesh analysis.
-import { readFile } from 'node:fs/promises';
-import { analyseModelFile, MeshError, type ModelFileAnalysis } from '@shared/mesh';
+import { MeshError, type ModelFileAnalysis } from '@shared/mesh';
+import { analyseModelPath } from './analyse-model';
 import { AppError } from '../../errors';
 import { EXTENSION, MIME, sniffFile, type SniffedType } from './sniff';
 import { UPLOAD_LIMITS } from '@shared/uploads';
@@ -51,7 +51,7 @@ async function inspectOne(file: UploadedFile, drawnInInches: boolean): Promise<I
   if (file.field === 'model') {
     if (DESCRIBED[sniffed]) refuse(file, 422, 'not_a_model', `this is ${DESCRIBED[sniffed]}, not an STL or 3MF model.`);
     try {
-      analysis = analyseModelFile(new Uint8Array(await readFile(file.path)), { drawnInInches });
+      analysis = await analyseModelPath(file.path, { drawnInInches });
     } catch (err) {
       if (err instanceof MeshError) refuse(file, 422, 'bad_model', err.message);
       throw err;

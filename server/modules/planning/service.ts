@@ -16,6 +16,7 @@ import type {
 import { DEFAULT_PRICE_PER_KG, estimatePrint, type PartGeometry, type PrintEstimate } from '@shared/estimate';
 import { summariseKit, type KitPlanItem } from '@shared/kit-summary';
 import { heatExposureInfo } from '@shared/materials';
+import { meshConcerns, type MeshSoundness } from '@shared/mesh/concerns';
 import {
   MAX_KIT_ITEMS,
   MAX_KITS,
@@ -56,6 +57,14 @@ function textOrNull(value: string | null | undefined): string | null {
 /** Only the keys that were sent: an update changes what it names. */
 function defined<T extends object>(values: T): Partial<T> {
   return Object.fromEntries(Object.entries(values).filter(([, v]) => v !== undefined)) as Partial<T>;
+}
+
+/** What a crew should know about a model before trusting an estimate made from it. */
+function soundnessNotes(name: string, a: MeshSoundness): string[] {
+  const concerns = meshConcerns(a);
+  if (!concerns.length) return [];
+  const trust = a.watertight ? 'check the model before printing' : 'its volume and this estimate may be off';
+  return [`${name}: ${concerns.join('; ')}, so ${trust}.`];
 }
 
 const noFile = () => AppError.notFound('There is no model file with that id on the shelf.');
@@ -160,7 +169,7 @@ export function createPlanningService({ sequelize, evidence }: PlanningDeps) {
         const a = file.analysis!;
         geometry = { volumeMm3: a.volumeMm3, areaMm2: a.areaMm2, sizeMm: a.sizeMm };
         source = { source: 'file', fileId: file.id, partId: file.partId, volumeMm3: a.volumeMm3, areaMm2: a.areaMm2, sizeMm: a.sizeMm };
-        if (!a.watertight) notes.push(`${file.originalName} is not watertight, so its volume and this estimate may be off.`);
+        notes.push(...soundnessNotes(file.originalName, a));
       } else {
         geometry = { volumeMm3: input.volumeMm3!, areaMm2: input.areaMm2!, sizeMm: input.sizeMm! };
         source = { source: 'figures', fileId: null, partId: null, ...geometry };
@@ -501,7 +510,7 @@ export function createPlanningService({ sequelize, evidence }: PlanningDeps) {
       const models = modelFilesOf(revision);
       const model = models.find((f) => f.analysis && f.analysis.volumeMm3 > 0);
       if (models.length > 1 && model) notes.push(`The part has ${models.length} model files; the estimate covers ${model.originalName} only.`);
-      if (model && !model.analysis!.watertight) notes.push(`${model.originalName} is not watertight, so its volume and this estimate may be off.`);
+      if (model) notes.push(...soundnessNotes(model.originalName, model.analysis!));
       const a = model?.analysis;
       const printer = item.printer ?? null;
       planned.push({
