@@ -49,9 +49,9 @@ export interface PrintEstimate {
   assumptions: string[];
 }
 
-/** Common practice: slicers default to a line a little wider than the nozzle. */
+/** Common practice: slicers default to a line 1.1–1.2 × the nozzle (0.45 mm for 0.4 mm). */
 export const LINE_WIDTH_PER_NOZZLE = 1.125;
-/** Common practice for a general-purpose print speed. */
+/** Common practice for a general-purpose print speed on a hobby printer. */
 export const DEFAULT_SPEED_MM_S = 60;
 /**
  * Share of the set speed a printer averages once acceleration, travel and slower outer walls
@@ -60,7 +60,10 @@ export const DEFAULT_SPEED_MM_S = 60;
 export const FLOW_EFFICIENCY = 0.6;
 /** Layer change, retraction and travel to the next layer's start (from memory). */
 export const LAYER_OVERHEAD_S = 6;
-/** Typical spool prices per kg in the catalogue's currency, from memory; users can override. */
+/**
+ * Typical spool prices per kg in the catalogue's currency, every one from memory (no price list
+ * consulted: prices vary by brand, colour and year); members set their own on their price sheet.
+ */
 export const DEFAULT_PRICE_PER_KG: Record<MaterialId, number> = {
   PLA: 20,
   PETG: 22,
@@ -172,11 +175,19 @@ export function estimatePrint(geometry: PartGeometry, settings: PrintSettings): 
   };
 }
 
-/** Whole spools to buy for `grams` of filament. */
+/** Whole numbers from sums of decimals: 16.000000000001 h at 8 h a day is still 2 days, 1000.0000000001 g one spool. */
+export const ROUNDING_SLACK = 1e-9;
+
+/** Rounds up to a whole number, forgiving the last bits of binary rounding. */
+export function ceilWhole(value: number): number {
+  return Math.max(0, Math.ceil(value - ROUNDING_SLACK));
+}
+
+/** Whole spools to buy for `grams` of filament (rounded up with the same slack as print days). */
 export function spoolsNeeded(grams: number, spoolG = 1000): number {
   requireAtLeast('Grams', grams, 0);
   requirePositive('Spool weight', spoolG);
-  return Math.ceil(grams / spoolG);
+  return ceilWhole(grams / spoolG);
 }
 
 export type BedFit = 'as-is' | 'rotated' | 'diagonal' | 'no';
@@ -193,7 +204,7 @@ export interface BedFitResult {
   message: string;
 }
 
-/** Rounding slack so a part exactly as big as the bed fits. */
+/** Rounding slack so a part exactly as big as the usable bed fits (our choice, far below a micron). */
 const FIT_TOLERANCE_MM = 1e-9;
 
 // Keep the modelled z up first, then try each other axis standing up.
@@ -251,11 +262,24 @@ function diagonalFit(part: Size3, bed: Size3): BedFitResult | null {
   return null;
 }
 
-export function fitOnBed(partSizeMm: Size3, bedMm: Size3): BedFitResult {
-  [...partSizeMm, ...bedMm].forEach((side) => requireAtLeast('Each size', side, 0));
-  const bedText = formatMm(bedMm);
+/**
+ * Room kept free round the bed's edge, per side, for a brim or skirt (common practice: slicers lay
+ * a skirt a few millimetres out and brims of about 5 mm). A printer setting; this is its default.
+ */
+export const DEFAULT_BED_MARGIN_MM = 5;
+
+export interface BedFitOptions {
+  /** Kept free on each side of the bed's x and y; default DEFAULT_BED_MARGIN_MM. */
+  marginMm?: number;
+}
+
+export function fitOnBed(partSizeMm: Size3, fullBedMm: Size3, options: BedFitOptions = {}): BedFitResult {
+  const marginMm = options.marginMm ?? DEFAULT_BED_MARGIN_MM;
+  [...partSizeMm, ...fullBedMm, marginMm].forEach((side) => requireAtLeast('Each size', side, 0));
+  const bedMm: Size3 = [Math.max(0, fullBedMm[0] - 2 * marginMm), Math.max(0, fullBedMm[1] - 2 * marginMm), fullBedMm[2]];
+  const bedText = marginMm > 0 ? `${formatMm(fullBedMm)} bed (keeping ${round(marginMm, 1)} mm round the edge for a brim or skirt)` : `${formatMm(fullBedMm)} bed`;
   if (fitsAligned(partSizeMm, bedMm)) {
-    return { fits: 'as-is', orientation: [...partSizeMm], message: `Fits the ${bedText} bed as modelled.` };
+    return { fits: 'as-is', orientation: [...partSizeMm], message: `Fits the ${bedText} as modelled.` };
   }
   for (const order of AXIS_ORDERS) {
     const placed: [number, number, number] = [partSizeMm[order[0]], partSizeMm[order[1]], partSizeMm[order[2]]];
@@ -266,7 +290,7 @@ export function fitOnBed(partSizeMm: Size3, bedMm: Size3): BedFitResult {
   return (
     diagonalFit(partSizeMm, bedMm) ?? {
       fits: 'no',
-      message: `Too big for the ${bedText} bed in any orientation; split the part or use a larger printer.`,
+      message: `Too big for the ${bedText} in any orientation; split the part or use a larger printer.`,
     }
   );
 }

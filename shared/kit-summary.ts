@@ -16,6 +16,7 @@ import {
   estimatePrint,
   fitOnBed,
   spoolsNeeded,
+  ceilWhole,
   type BedFitResult,
   type FilamentDiameter,
   type PartGeometry,
@@ -29,12 +30,6 @@ export const DEFAULT_PRINT_HOURS_PER_DAY = 8;
 /** The usual spool of filament (common practice). */
 export const SPOOL_G = 1000;
 
-/** Whole numbers from sums of decimals: 16.000000000001 h at 8 h a day is still 2 days. */
-const ROUNDING_SLACK = 1e-9;
-
-function ceilWhole(value: number): number {
-  return Math.max(0, Math.ceil(value - ROUNDING_SLACK));
-}
 
 /** Days of printing for `hours` at `hoursPerDay`, rounded up to whole days. */
 export function printingDays(hours: number, hoursPerDay: number): number {
@@ -57,6 +52,8 @@ export interface KitPrinterRef {
   id: number;
   name: string;
   bedMm: Size3;
+  /** Free round the bed's edge for a brim or skirt, per side; the default when omitted. */
+  bedMarginMm?: number;
   nozzleMm: number;
   watts: number | null;
 }
@@ -242,7 +239,7 @@ function summariseItem(item: KitPlanItem, plan: KitPlan): KitItemSummary {
     printer: item.printer ? { id: item.printer.id, name: item.printer.name } : null,
     each,
     total,
-    fit: item.printer && item.geometry ? fitOnBed(item.geometry.sizeMm, item.printer.bedMm) : null,
+    fit: item.printer && item.geometry ? fitOnBed(item.geometry.sizeMm, item.printer.bedMm, { marginMm: item.printer.bedMarginMm }) : null,
     heat: plan.heatExposure ? heatCheck(material, plan.heatExposure) : null,
     cautions: safetyCautions(item.safety, item.testedLoadKg),
     evidenceWarnings: item.evidenceWarnings.map((w) => ({ material: w.material, text: w.text, matchesMaterial: w.material === material })),

@@ -34,6 +34,8 @@ export interface PrinterInfo {
   name: string;
   /** Bed x, y, z in mm. */
   bedMm: [number, number, number];
+  /** Kept free round the bed's edge for a brim or skirt, per side (mm). */
+  bedMarginMm: number;
   nozzleMm: number;
   watts: number | null;
   notes: string | null;

@@ -88,6 +88,11 @@ const printerFields = {
   name: z.string({ error: 'Name the printer.' }).trim().min(1, 'Name the printer.').max(80, 'Keep the name to 80 characters or fewer.'),
   bedMm: z.tuple([side('bed size'), side('bed size'), side('bed size')], { error: 'Give the bed as three sizes: x, y and z in mm.' }),
   nozzleMm: recipe.nozzleMm,
+  bedMarginMm: z
+    .number({ error: 'Enter the margin in mm.' })
+    .min(0, 'The margin cannot be negative.')
+    .max(50, 'The margin must be at most 50 mm.')
+    .optional(),
   watts: z.number({ error: 'Enter the power in watts.' }).int('Enter the power in whole watts.').positive('The power must be more than 0 W.').max(10_000, 'The power must be at most 10,000 W.').nullable().optional(),
   notes: optionalText('notes', 2000),
 };

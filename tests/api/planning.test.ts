@@ -174,7 +174,7 @@ describe('planning · printers', () => {
   it('printers · create, list, change, delete · only for the owner', async () => {
     const created = await stranger.post('/api/printers').send({ name: 'Bench printer', bedMm: [180, 180, 180], nozzleMm: 0.4, watts: 90, notes: 'By the window' });
     expect(created.status).toBe(201);
-    expect(created.body).toMatchObject({ name: 'Bench printer', bedMm: [180, 180, 180], nozzleMm: 0.4, watts: 90, notes: 'By the window' });
+    expect(created.body).toMatchObject({ name: 'Bench printer', bedMm: [180, 180, 180], bedMarginMm: 5, nozzleMm: 0.4, watts: 90, notes: 'By the window' });
     const id = created.body.id;
     expect((await stranger.get('/api/printers')).body.items.map((p: { id: number }) => p.id)).toContain(id);
     expect((await owner.get('/api/printers')).body.items.map((p: { id: number }) => p.id)).not.toContain(id);
@@ -188,6 +188,16 @@ describe('planning · printers', () => {
     expect(patched.body).toMatchObject({ name: 'Bench printer v2', watts: null, bedMm: [180, 180, 180] });
     expect((await stranger.delete(`/api/printers/${id}`)).status).toBe(204);
     expect((await stranger.get(`/api/printers/${id}`)).status).toBe(404);
+  });
+
+  it('printers · brim margin · 5 mm a side unless set, changeable, and a negative one refused', async () => {
+    const created = await stranger.post('/api/printers').send({ name: 'Margin printer', bedMm: [200, 200, 200], nozzleMm: 0.4, bedMarginMm: 8 }).expect(201);
+    expect(created.body.bedMarginMm).toBe(8);
+    const patched = await stranger.patch(`/api/printers/${created.body.id}`).send({ bedMarginMm: 0 }).expect(200);
+    expect(patched.body.bedMarginMm).toBe(0);
+    const bad = await stranger.post('/api/printers').send({ name: 'Bad margin', bedMm: [200, 200, 200], nozzleMm: 0.4, bedMarginMm: -1 });
+    expect(bad.status).toBe(422);
+    expect(bad.body.error.fields.bedMarginMm).toMatch(/cannot be negative/);
   });
 
   it('printers · bad sizes, an empty change, visitors · 422 and 401', async () => {

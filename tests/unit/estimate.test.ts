@@ -120,6 +120,13 @@ describe('spoolsNeeded', () => {
     expect(spoolsNeeded(2500, 750)).toBe(4);
     expect(() => spoolsNeeded(10, 0)).toThrow(RangeError);
   });
+
+  it('spoolsNeeded · a sum of decimals a hair over a whole spool · one spool, like print days', () => {
+    const grams = ((0.1 + 0.2) * 1000) / 0.3; // 1000 exactly on paper, 1000.0000000000002 in binary
+    expect(grams).toBeGreaterThan(1000);
+    expect(spoolsNeeded(grams)).toBe(1);
+    expect(spoolsNeeded(1000.001)).toBe(2);
+  });
 });
 
 /** Brute force: does a p × q rectangle fit an a × b one at some angle? Returns the best slack in mm. */
@@ -141,10 +148,22 @@ function extentsAt(p: number, q: number, angleDeg: number): [number, number] {
 }
 
 describe('fitOnBed', () => {
+  // The geometry checks below use no margin, so the bed is exactly the given rectangle.
+  const fitBare = (part: Size3, bedMm: Size3) => fitOnBed(part, bedMm, { marginMm: 0 });
+
+  it('fitOnBed · a part exactly the bed size · refused with the default 5 mm brim margin, fits with none', () => {
+    const fit = fitOnBed([250, 210, 60], [250, 210, 60]);
+    expect(fit.fits).toBe('no');
+    expect(fit.message).toMatch(/keeping 5 mm round the edge for a brim or skirt/);
+    expect(fitOnBed([240, 200, 60], [250, 210, 60]).fits).toBe('as-is'); // 250 − 2·5 = 240, 210 − 2·5 = 200
+    expect(fitOnBed([240.1, 200, 60], [250, 210, 60]).fits).not.toBe('as-is');
+    expect(fitOnBed([250, 210, 60], [250, 210, 60], { marginMm: 0 }).fits).toBe('as-is');
+  });
+
   const bed: Size3 = [250, 210, 60];
 
   it('fits a part that fits as modelled', () => {
-    expect(fitOnBed([240, 200, 50], bed)).toMatchObject({ fits: 'as-is', orientation: [240, 200, 50] });
+    expect(fitBare([240, 200, 50], bed)).toMatchObject({ fits: 'as-is', orientation: [240, 200, 50] });
   });
 
   it.each([
@@ -154,20 +173,20 @@ describe('fitOnBed', () => {
     [200, 50, 240],
     [50, 200, 240],
   ] as const)('turns %d × %d × %d to 240 × 200 × 50', (...part) => {
-    const fit = fitOnBed(part, bed);
+    const fit = fitBare(part, bed);
     expect(fit.fits).toBe('rotated');
     expect(fit.orientation).toEqual([240, 200, 50]);
     expect(fit.message).toBe('Fits if turned to 240 × 200 × 50 mm (x × y × z).');
   });
 
   it('fits a part exactly the size of the bed', () => {
-    expect(fitOnBed([250, 210, 60], bed).fits).toBe('as-is');
+    expect(fitBare([250, 210, 60], bed).fits).toBe('as-is');
   });
 
   it('lays a long part diagonally when that is the only way', () => {
     // At 45° a 290 × 20 footprint spans (290 + 20)/√2 = 219.2 mm ≤ 220 mm.
     expect(sweepSlack(290, 20, 220, 220)).toBeGreaterThan(0);
-    const fit = fitOnBed([290, 20, 10], [220, 220, 250]);
+    const fit = fitBare([290, 20, 10], [220, 220, 250]);
     expect(fit.fits).toBe('diagonal');
     expect(fit.orientation).toEqual([290, 20, 10]);
     const [x, y] = extentsAt(290, 20, fit.angleDeg!);
@@ -180,18 +199,18 @@ describe('fitOnBed', () => {
     // Lying flat, 300 × 20 spans 320/√2 = 226.3 mm at 45°; on its 300 × 10 edge, 310/√2 = 219.2 mm.
     expect(sweepSlack(300, 20, 220, 220)).toBeLessThan(0);
     expect(sweepSlack(300, 10, 220, 220)).toBeGreaterThan(0);
-    expect(fitOnBed([300, 20, 10], [220, 220, 250])).toMatchObject({ fits: 'diagonal', orientation: [300, 10, 20] });
+    expect(fitBare([300, 20, 10], [220, 220, 250])).toMatchObject({ fits: 'diagonal', orientation: [300, 10, 20] });
   });
 
   it('refuses a 300 × 20 × 20 mm part on a 220 × 220 × 250 mm bed', () => {
     // Every face is 300 × 20 (no angle fits, as above) and 300 mm is taller than the bed.
-    const fit = fitOnBed([300, 20, 20], [220, 220, 250]);
+    const fit = fitBare([300, 20, 20], [220, 220, 250]);
     expect(fit.fits).toBe('no');
     expect(fit.message).toMatch(/Too big for the 220 × 220 × 250 mm bed/);
   });
 
   it('stands a part up when it fits no other way', () => {
-    expect(fitOnBed([300, 20, 10], [220, 220, 320])).toMatchObject({ fits: 'rotated', orientation: [20, 10, 300] });
+    expect(fitBare([300, 20, 10], [220, 220, 320])).toMatchObject({ fits: 'rotated', orientation: [20, 10, 300] });
   });
 
   it('agrees with a brute-force angle sweep (Carver 1956, from memory) on random footprints', () => {
@@ -208,7 +227,7 @@ describe('fitOnBed', () => {
       const short = 7 + random() * 60; // taller than the bed, so the part can only lie flat
       const slack = sweepSlack(long, short, Math.max(bedX, bedY), Math.min(bedX, bedY), 20_000);
       if (Math.abs(slack) < 0.05) continue; // too close to call at this sweep resolution
-      const fit = fitOnBed([long, short, 5], [bedX, bedY, 6]);
+      const fit = fitBare([long, short, 5], [bedX, bedY, 6]);
       expect(fit.fits === 'no', `${long} × ${short} on ${bedX} × ${bedY}`).toBe(slack < 0);
       if (fit.fits === 'diagonal') {
         diagonalCases++;
@@ -223,6 +242,6 @@ describe('fitOnBed', () => {
   it('reads an inch-sized part (1 in = 25.4 mm exactly, NIST SP 811)', () => {
     expect(MM_PER_INCH).toBe(25.4);
     const part: Size3 = [inchesToMm(9), inchesToMm(8), inchesToMm(2)]; // 228.6 × 203.2 × 50.8 mm
-    expect(fitOnBed(part, bed).fits).toBe('as-is');
+    expect(fitBare(part, bed).fits).toBe('as-is');
   });
 });

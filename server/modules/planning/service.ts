@@ -13,7 +13,7 @@ import type {
   PrinterList,
   PriceSheetInfo,
 } from '@shared/api/planning';
-import { DEFAULT_PRICE_PER_KG, estimatePrint, type PartGeometry, type PrintEstimate } from '@shared/estimate';
+import { DEFAULT_BED_MARGIN_MM, DEFAULT_PRICE_PER_KG, estimatePrint, type PartGeometry, type PrintEstimate } from '@shared/estimate';
 import { summariseKit, type KitPlanItem } from '@shared/kit-summary';
 import { heatExposureInfo } from '@shared/materials';
 import { meshConcerns, type MeshSoundness } from '@shared/mesh/concerns';
@@ -231,6 +231,7 @@ export function createPlanningService({ sequelize, evidence }: PlanningDeps) {
         bedXMm: input.bedMm[0],
         bedYMm: input.bedMm[1],
         bedZMm: input.bedMm[2],
+        bedMarginMm: input.bedMarginMm ?? DEFAULT_BED_MARGIN_MM,
         nozzleMm: input.nozzleMm,
         watts: input.watts ?? null,
         notes: textOrNull(input.notes),
@@ -246,6 +247,7 @@ export function createPlanningService({ sequelize, evidence }: PlanningDeps) {
           bedXMm: patch.bedMm?.[0],
           bedYMm: patch.bedMm?.[1],
           bedZMm: patch.bedMm?.[2],
+          bedMarginMm: patch.bedMarginMm,
           nozzleMm: patch.nozzleMm,
           watts: patch.watts,
           notes: patch.notes === undefined ? undefined : textOrNull(patch.notes),
@@ -529,7 +531,7 @@ export function createPlanningService({ sequelize, evidence }: PlanningDeps) {
             infillPct: recipe.infillPct,
             speedMmS: recipe.speedMmS,
           },
-          printer: printer ? { id: printer.id, name: printer.name, bedMm: printer.bedMm(), nozzleMm: printer.nozzleMm, watts: printer.watts } : null,
+          printer: printer ? { id: printer.id, name: printer.name, bedMm: printer.bedMm(), bedMarginMm: printer.bedMarginMm, nozzleMm: printer.nozzleMm, watts: printer.watts } : null,
           safety: { carriesLoad: revision.carriesLoad, overhead: revision.overhead, vehicle: revision.vehicle, heat: revision.heat },
           testedLoadKg: revision.testedLoadKg,
           evidenceWarnings: warnings.get(part.id)?.warnings ?? [],
