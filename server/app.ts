@@ -29,6 +29,7 @@ import { evidenceModerationRoutes, flagRoutes, partEvidenceRoutes, profileRoutes
 import { createEvidenceService } from './modules/evidence/service';
 import { noticesRoutes } from './modules/notices/routes';
 import { estimateRoutes, kitRoutes, priceRoutes, printerRoutes } from './modules/planning/routes';
+import { SliceQueue } from './modules/planning/slice-queue';
 import { createPlanningService } from './modules/planning/service';
 import { partHistoryRoutes } from './modules/review/history-routes';
 import { reviewRoutes } from './modules/review/routes';
@@ -105,7 +106,8 @@ export function createApp({ config, sequelize, mailer }: AppContext) {
   const review = createReviewService({ sequelize, mail: mailer, publicUrl: config.PUBLIC_URL, onDecided: () => search.scheduleRebuild() });
   const parts = createPartsService({ sequelize, dirs, photos, onSubmitted: review.submitted });
   const evidence = createEvidenceService({ sequelize, dirs, photos, onChanged: () => search.rankingChanged() });
-  const planning = createPlanningService({ sequelize, evidence });
+  const slicer = new SliceQueue();
+  const planning = createPlanningService({ sequelize, evidence, dirs, slicer });
 
   const tokens = createTokenService({ config, mailer });
   const auth = createAuthService(config, tokens);
@@ -162,6 +164,7 @@ export function createApp({ config, sequelize, mailer }: AppContext) {
       await parts.photosSettled();
       await photos.close();
       await search.close();
+      await slicer.close();
       (store as unknown as { stopExpiringSessions(): void }).stopExpiringSessions();
     },
   };

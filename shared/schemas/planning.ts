@@ -62,6 +62,16 @@ export const estimateSchema = z
     topBottomLayers: recipe.topBottomLayers,
     infillPct: recipe.infillPct,
     speedMmS: recipe.speedMmS.optional(),
+    accelerationMmS2: z
+      .number({ error: 'Enter the acceleration in mm/s².' })
+      .min(50, 'The acceleration must be between 50 and 50,000 mm/s².')
+      .max(50_000, 'The acceleration must be between 50 and 50,000 mm/s².')
+      .optional(),
+    travelSpeedMmS: z
+      .number({ error: 'Enter the travel speed in mm/s.' })
+      .min(5, 'The travel speed must be between 5 and 1,000 mm/s.')
+      .max(1000, 'The travel speed must be between 5 and 1,000 mm/s.')
+      .optional(),
     pricePerKg: money('price per kg', 10_000).optional(),
     printerWatts: z.number({ error: 'Enter the printer’s power in watts.' }).positive('The printer’s power must be more than 0 W.').max(10_000, 'The printer’s power must be at most 10,000 W.').optional(),
     pricePerKwh: money('price per kWh', 100).optional(),

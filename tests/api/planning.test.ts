@@ -88,7 +88,7 @@ afterAll(async () => {
 describe('planning · estimate', () => {
   it('estimate · a published model file, solid PLA · weighs the 20 mm cube at 9.92 g', async () => {
     // Trade reference: PLA 1.24 g/cm³ (UL Prospector, ISO 1183): 8 cm³ × 1.24 = 9.92 g; at 100 % infill
-    // estimatePrint caps walls + skins + infill at the solid volume, so nothing is counted twice.
+    // walls + skins + infill fill every layer exactly once, so nothing is counted twice.
     const visitor = await agentFor(t.app);
     const res = await visitor.post('/api/estimate').send({ fileId: cubeModel, ...solidPlaFigures });
     expect(res.status).toBe(200);
@@ -102,6 +102,32 @@ describe('planning · estimate', () => {
     expect(res.body.cost).toBeCloseTo(0.1984, 6);
     expect(res.body.geometry).toMatchObject({ source: 'file', fileId: cubeModel, partId: cubePart, sizeMm: [20, 20, 20] });
     expect(res.body.assumptions.length).toBeGreaterThan(3);
+    expect(res.body.method).toBe('slices');
+    expect(res.body.assumptions.join(' ')).toMatch(/Sliced from the mesh: 100 layers of 0\.2 mm/);
+  });
+
+  it('estimate · the cube file at 2 walls, 4 top/bottom, 20 % · sliced layers give the hand-worked split', async () => {
+    // d = 2 × 0.45 mm: walls (20² − 18.2²) × 20 = 1375.2 mm³, skins 8 × 0.2 × 18.2² = 529.984 mm³,
+    // infill 0.2 × 92 × 0.2 × 18.2² = 1218.9632 mm³ (the same hand computation as the unit tests).
+    const res = await stranger.post('/api/estimate').send({ fileId: cubeModel, ...solidPlaFigures, infillPct: 20, walls: 2, topBottomLayers: 4 });
+    expect(res.status).toBe(200);
+    expect(res.body.method).toBe('slices');
+    expect(res.body.partsMm3.walls).toBeCloseTo(1375.2, 0);
+    expect(res.body.partsMm3.skins).toBeCloseTo(529.984, 0);
+    expect(res.body.partsMm3.infill).toBeCloseTo(1218.9632, 0);
+    const quick = await stranger.post('/api/estimate').send({ volumeMm3: 8000, areaMm2: 2400, sizeMm: [20, 20, 20], ...solidPlaFigures, infillPct: 20, walls: 2, topBottomLayers: 4 });
+    expect(quick.body.method).toBe('figures');
+    expect(quick.body.massG).toBeCloseTo(res.body.massG, 3); // a cube is the prism the quick estimate assumes
+  });
+
+  it('estimate · acceleration and travel speed · slower acceleration never prints faster; out of range is 422', async () => {
+    const figures = { volumeMm3: 8000, areaMm2: 2400, sizeMm: [20, 20, 20], ...solidPlaFigures, infillPct: 20 };
+    const slow = await stranger.post('/api/estimate').send({ ...figures, accelerationMmS2: 300 });
+    const fast = await stranger.post('/api/estimate').send({ ...figures, accelerationMmS2: 3000 });
+    expect(slow.body.timeMin).toBeGreaterThan(fast.body.timeMin);
+    const bad = await stranger.post('/api/estimate').send({ ...figures, travelSpeedMmS: 0 });
+    expect(bad.status).toBe(422);
+    expect(bad.body.error.fields.travelSpeedMmS).toMatch(/between 5 and 1,000 mm\/s/);
   });
 
   it('estimate · raw figures · gives the same answer without a file', async () => {

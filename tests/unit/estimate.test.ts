@@ -1,9 +1,9 @@
 import { describe, expect, it } from 'vitest';
 import {
-  FLOW_EFFICIENCY,
-  LAYER_OVERHEAD_S,
+  DEFAULT_ACCELERATION_MM_S2,
   LINE_WIDTH_PER_NOZZLE,
   estimatePrint,
+  trapezoidTimeS,
   filamentLengthM,
   fitOnBed,
   spoolsNeeded,
@@ -35,38 +35,62 @@ describe('estimatePrint', () => {
     expect(estimate.lengthM['2.85']).toBeCloseTo(126.4, 1);
   });
 
-  it('works an example by hand from the documented model', () => {
-    // Line width 0.4 × 1.125 = 0.45 mm (common practice).
-    // Walls 2400 × 2 × 0.45 = 2160 mm³; skins 400 × 4 × 0.2 × 2 = 640 mm³;
-    // infill 20 % × (8000 − 2160 − 640) = 1040 mm³; total 3840 mm³ → 3.84 cm³ × 1.24 = 4.7616 g.
-    // Time 3840 / (60 × 0.2 × 0.45 × 0.6) = 1185.19 s, plus 100 layers × 6 s = 1785.19 s = 29.753 min.
-    // Cost at the default 20 per kg: 4.7616 g → 0.095232.
+  it('quick estimate · 20 mm cube, 2 walls, 4 top/bottom, 20 % · walls, skins and infill worked by hand', () => {
+    // Line width 0.4 × 1.125 = 0.45 mm (common practice); d = 2 × 0.45 = 0.9 mm.
+    // Prism of the mean cross-section 8000 / 20 = 400 mm², outline (2400 − 2·400) / 20 = 80 mm.
+    // Inset area 400 − 80·0.9 + 4·0.9² = 331.24 mm² (= 18.2², a square inset by 0.9 on each side).
+    // Walls (400 − 331.24) × 0.2 × 100 layers = 1375.2 mm³; skins 331.24 × 0.2 × 8 layers = 529.984 mm³;
+    // infill 0.2 × 331.24 × 0.2 × 92 layers = 1218.9632 mm³; total 3124.1472 mm³ → × 1.24 g/cm³ = 3.874 g.
     expect(LINE_WIDTH_PER_NOZZLE).toBe(1.125);
-    expect(FLOW_EFFICIENCY).toBe(0.6);
-    expect(LAYER_OVERHEAD_S).toBe(6);
     const estimate = estimatePrint(cube20, pla);
-    expect(estimate.volumeMm3).toBeCloseTo(3840, 9);
-    expect(estimate.massG).toBeCloseTo(4.7616, 9);
-    expect(estimate.timeMin).toBeCloseTo(1785.185185 / 60, 5);
-    expect(estimate.cost).toBeCloseTo(0.095232, 9);
+    expect(estimate.partsMm3.walls).toBeCloseTo(1375.2, 6);
+    expect(estimate.partsMm3.skins).toBeCloseTo(529.984, 6);
+    expect(estimate.partsMm3.infill).toBeCloseTo(1218.9632, 6);
+    expect(estimate.massG).toBeCloseTo(3.1241472 * 1.24, 9);
+    expect(estimate.cost).toBeCloseTo((estimate.massG / 1000) * 20, 9); // default 20 per kg
+    expect(estimate.method).toBe('figures');
     expect(estimate.assumptions.join(' ')).toMatch(/nozzle × 1\.125 \(common practice\)/);
+    expect(estimate.assumptions.join(' ')).toMatch(/trapezoidal profile/);
     expect(estimate.assumptions.join(' ')).toMatch(/Electricity not included/);
   });
 
   it('adds electricity when watts and a price per kWh are given', () => {
-    // 120 W × 29.753 min = 59.506 Wh = 0.059506 kWh; × 0.30 per kWh = 0.017852.
+    const plain = estimatePrint(cube20, pla);
     const estimate = estimatePrint(cube20, { ...pla, printerWatts: 120, pricePerKwh: 0.3 });
-    expect(estimate.cost).toBeCloseTo(0.095232 + (120 * (1785.185185 / 3600)) / 1000 * 0.3, 6);
+    // kWh = W × h / 1000.
+    expect(estimate.cost).toBeCloseTo(plain.cost + ((120 * (plain.timeMin / 60)) / 1000) * 0.3, 9);
     expect(estimate.assumptions.at(-1)).toMatch(/^Electricity: 120 W/);
   });
 
-  it('does not charge a hollow tube a full slab of top and bottom skin', () => {
+  it('quick estimate · flat plate 100 × 40 × 3 mm, 2 walls, 4 top/bottom, 0 % infill · about 9 g, not the solid 14.9 g', () => {
+    // Inset (100 − 1.8)(40 − 1.8) = 3751.24 mm²; walls (4000 − 3751.24) × 3 = 746.28 mm³;
+    // skins 3751.24 × 0.2 × 8 = 6001.98 mm³; no infill → 6748.26 mm³ × 1.24 = 8.368 g
+    // (the audit's "about 9 g"; solid would be 12,000 mm³ = 14.88 g).
+    const plate: PartGeometry = { volumeMm3: 12_000, areaMm2: 2 * (4000 + 300 + 120), sizeMm: [100, 40, 3] };
+    const estimate = estimatePrint(plate, { ...pla, infillPct: 0 });
+    expect(estimate.massG).toBeCloseTo(6.74826 * 1.24, 4);
+    expect(estimate.massG).toBeGreaterThan(8);
+    expect(estimate.massG).toBeLessThan(10);
+    // Infill now matters on a thin plate: 15 layers − 8 skin layers leave 7 sparse ones.
+    expect(estimatePrint(plate, { ...pla, infillPct: 50 }).massG).toBeGreaterThan(estimate.massG + 1);
+  });
+
+  it('trapezoidTimeS · long and short moves · s/v + v/a, or 2√(s/a) when v is never reached (constant-acceleration kinematics)', () => {
+    // v = 50 mm/s, a = 1000 mm/s²: full speed needs v²/a = 2.5 mm.
+    expect(trapezoidTimeS(20, 50, 1000)).toBeCloseTo(20 / 50 + 50 / 1000, 12);
+    expect(trapezoidTimeS(1, 50, 1000)).toBeCloseTo(2 * Math.sqrt(1 / 1000), 12);
+    expect(trapezoidTimeS(2.5, 50, 1000)).toBeCloseTo(0.1, 12); // both formulas meet at s = v²/a
+    expect(trapezoidTimeS(0, 50, 1000)).toBe(0);
+    expect(DEFAULT_ACCELERATION_MM_S2).toBe(1000);
+  });
+
+  it('the hollow tube · never charged more than its solid ring', () => {
     // Tube 20 mm outside, 16 mm inside, 100 mm tall: cross-section π(10² − 8²) = 113.097 mm².
     const annulus = Math.PI * (100 - 64);
     const area = 2 * Math.PI * 10 * 100 + 2 * Math.PI * 8 * 100 + 2 * annulus;
     const tube: PartGeometry = { volumeMm3: annulus * 100, areaMm2: area, sizeMm: [20, 20, 100] };
     const estimate = estimatePrint(tube, { ...pla, walls: 1, infillPct: 0 });
-    expect(estimate.volumeMm3).toBeCloseTo(area * 0.45 + annulus * 4 * 0.2 * 2, 6);
+    expect(estimate.volumeMm3).toBeLessThanOrEqual(annulus * 100);
   });
 
   it('never exceeds the solid volume', () => {
@@ -87,6 +111,29 @@ describe('estimatePrint', () => {
         const { massG } = estimatePrint(shape, { ...pla, infillPct });
         expect(massG).toBeGreaterThanOrEqual(previous);
         previous = massG;
+      }
+    }
+  });
+
+  it('never weighs less with more walls or more top and bottom layers; never slower when faster', () => {
+    for (const shape of shapes) {
+      let previous = -Infinity;
+      for (let walls = 0; walls <= 6; walls++) {
+        const { massG } = estimatePrint(shape, { ...pla, walls });
+        expect(massG).toBeGreaterThanOrEqual(previous - 1e-9);
+        previous = massG;
+      }
+      previous = -Infinity;
+      for (let topBottomLayers = 0; topBottomLayers <= 10; topBottomLayers++) {
+        const { massG } = estimatePrint(shape, { ...pla, topBottomLayers });
+        expect(massG).toBeGreaterThanOrEqual(previous - 1e-9);
+        previous = massG;
+      }
+      let slowest = Infinity;
+      for (const speedMmS of [20, 40, 60, 100, 200, 400]) {
+        const { timeMin } = estimatePrint(shape, { ...pla, speedMmS });
+        expect(timeMin).toBeLessThanOrEqual(slowest + 1e-9);
+        slowest = timeMin;
       }
     }
   });

@@ -13,7 +13,9 @@ import type {
   PrinterList,
   PriceSheetInfo,
 } from '@shared/api/planning';
-import { DEFAULT_BED_MARGIN_MM, DEFAULT_PRICE_PER_KG, estimatePrint, type PartGeometry, type PrintEstimate } from '@shared/estimate';
+import { DEFAULT_BED_MARGIN_MM, DEFAULT_PRICE_PER_KG, estimateFromSlices, estimatePrint, lineWidthFor, type PartGeometry, type PrintEstimate, type PrintSettings } from '@shared/estimate';
+import type { ModelFileAnalysis } from '@shared/mesh';
+import type { SliceProfile } from '@shared/slice';
 import { summariseKit, type KitPlanItem } from '@shared/kit-summary';
 import { heatExposureInfo } from '@shared/materials';
 import { meshConcerns, type MeshSoundness } from '@shared/mesh/concerns';
@@ -33,6 +35,9 @@ import {
 } from '@shared/schemas/planning';
 import { Kit, KitItem, KitShare, Part, PartFile, PartRevision, PriceSheet, Printer, Recipe, RevisionFile, User } from '../../db/models';
 import { AppError } from '../../errors';
+import type { UploadDirs } from '../files/storage';
+import { pathsOf } from '../parts/part-files';
+import type { SliceQueue } from './slice-queue';
 import type { EvidenceService } from '../evidence/service';
 import { findVisiblePart, seesUnpublished } from '../parts/access';
 import { findKit } from './access';
@@ -41,6 +46,10 @@ import { effectivePrices, isOnShelfForKits, loadItems, presentItem, presentKit, 
 
 export interface PlanningDeps {
   sequelize: Sequelize;
+  /** Where stored model files live, for slicing them. */
+  dirs: UploadDirs;
+  /** Slices model files in a worker thread. */
+  slicer: SliceQueue;
   /** Outcome warnings from set reports, per part. */
   evidence: Pick<EvidenceService, 'evidenceFor'>;
 }
@@ -136,7 +145,7 @@ function modelFilesOf(revision: PartRevision | undefined): PartFile[] {
   return files.filter((f) => f.kind === 'model');
 }
 
-export function createPlanningService({ sequelize, evidence }: PlanningDeps) {
+export function createPlanningService({ sequelize, evidence, dirs, slicer }: PlanningDeps) {
   async function ownPrinter(owner: User, id: number): Promise<Printer> {
     const printer = await Printer.findOne({ where: { id, ownerId: owner.id } });
     if (!printer) throw AppError.notFound('There is no printer with that id among yours.');
@@ -164,9 +173,16 @@ export function createPlanningService({ sequelize, evidence }: PlanningDeps) {
       const notes: string[] = [];
       let geometry: PartGeometry;
       let source: EstimateResult['geometry'];
+      let sliceFor: ((settings: PrintSettings) => Promise<SliceProfile>) | null = null;
       if (input.fileId !== undefined) {
         const file = await visibleModelFile(viewer, input.fileId);
         const a = file.analysis!;
+        const stlUnitScale = (a as Partial<ModelFileAnalysis>).unitScale ?? 1;
+        sliceFor = (s) =>
+          slicer.slice(
+            { path: pathsOf(dirs, file).original, stlUnitScale, settings: { layerMm: s.layerMm, walls: s.walls, lineWidthMm: lineWidthFor(s), skinLayers: s.topBottomLayers } },
+            `file:${file.id}:${file.sha256}`,
+          );
         geometry = { volumeMm3: a.volumeMm3, areaMm2: a.areaMm2, sizeMm: a.sizeMm };
         source = { source: 'file', fileId: file.id, partId: file.partId, volumeMm3: a.volumeMm3, areaMm2: a.areaMm2, sizeMm: a.sizeMm };
         notes.push(...soundnessNotes(file.originalName, a));
@@ -180,20 +196,27 @@ export function createPlanningService({ sequelize, evidence }: PlanningDeps) {
       const pricePerKwh = input.pricePerKwh ?? sheet?.pricePerKwh ?? undefined;
       if (input.pricePerKg === undefined && ownPrice !== undefined) notes.push('The price per kg is from your price sheet.');
       if (input.pricePerKwh === undefined && pricePerKwh !== undefined && input.printerWatts !== undefined) notes.push('The price per kWh is from your price sheet.');
+      const settings: PrintSettings = {
+        material: input.material,
+        nozzleMm: input.nozzleMm,
+        layerMm: input.layerMm,
+        walls: input.walls,
+        topBottomLayers: input.topBottomLayers,
+        infillPct: input.infillPct,
+        speedMmS: input.speedMmS,
+        accelerationMmS2: input.accelerationMmS2,
+        travelSpeedMmS: input.travelSpeedMmS,
+        pricePerKg,
+        printerWatts: input.printerWatts,
+        pricePerKwh,
+      };
       let estimate: PrintEstimate;
       try {
-        estimate = estimatePrint(geometry, {
-          material: input.material,
-          nozzleMm: input.nozzleMm,
-          layerMm: input.layerMm,
-          walls: input.walls,
-          topBottomLayers: input.topBottomLayers,
-          infillPct: input.infillPct,
-          speedMmS: input.speedMmS,
-          pricePerKg,
-          printerWatts: input.printerWatts,
-          pricePerKwh,
-        });
+        const profile = sliceFor ? await sliceFor(settings).catch((err: Error) => {
+          notes.push(`The model could not be sliced (${err.message}); this is the quick estimate from its figures.`);
+          return null;
+        }) : null;
+        estimate = profile ? estimateFromSlices(profile, settings) : estimatePrint(geometry, settings);
       } catch (err) {
         if (err instanceof RangeError) throw new AppError(422, 'validation_failed', `These figures cannot be estimated: ${err.message}`);
         throw err;
@@ -205,6 +228,8 @@ export function createPlanningService({ sequelize, evidence }: PlanningDeps) {
         timeMin: estimate.timeMin,
         cost: estimate.cost,
         pricePerKg: pricePerKg ?? DEFAULT_PRICE_PER_KG[input.material],
+        partsMm3: estimate.partsMm3,
+        method: estimate.method,
         assumptions: [...estimate.assumptions, ...notes],
         geometry: source,
       };
