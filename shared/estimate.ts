@@ -199,7 +199,7 @@ export function estimatePrint(geometry: PartGeometry, settings: PrintSettings): 
 export function estimateFromSlices(profile: SliceProfile, settings: PrintSettings): PrintEstimate {
   validateSettings(settings);
   const notes = [
-    `Sliced from the mesh: ${profile.layers.length} layers of ${round(profile.layerMm, 3)} mm (height ÷ layers), each cut at its middle; outlines simplified to within 5 µm before measuring.`,
+    `Sliced from the mesh: ${profile.layers.length} layers of ${round(profile.layerMm, 3)} mm (height ÷ layers), each cut at its middle; outlines simplified to within 20 µm before measuring.`,
   ];
   if (profile.openLoops > 0) notes.push(`${profile.openLoops} outline loops did not close (holes in the mesh) and were closed straight across.`);
   return fromProfile(profile, settings, 'slices', Infinity, notes);
