@@ -3,7 +3,8 @@
 // printing beats buying. Pure: the server loads the figures, this adds them up.
 //
 // Rules (each also stated in the summary's `assumptions`):
-// - an item's figures are estimatePrint's for one piece, times the quantity;
+// - an item's figures are the estimate for one piece, times the quantity: from the model's layer
+//   slices when the caller has them (estimateFromSlices), else the quick estimate (estimatePrint);
 // - filament cost uses the price per kg given for the material; electricity is added for items on a
 //   printer with known watts when a price per kWh is known (kWh = W × h ÷ 1000);
 // - spools are whole 1 kg spools per material (spoolsNeeded);
@@ -13,6 +14,7 @@
 //   cost with the cheaper of buying and a print service, item by item.
 import type { SafetyFlags } from './catalogue';
 import {
+  estimateFromSlices,
   estimatePrint,
   fitOnBed,
   spoolsNeeded,
@@ -25,6 +27,7 @@ import {
 } from './estimate';
 import { heatCheck, heatExposureInfo, MATERIAL_IDS, type HeatCheck, type HeatExposure, type MaterialId } from './materials';
 import { safetyCautions, type Caution } from './safety';
+import type { SliceProfile } from './slice';
 
 export const DEFAULT_PRINT_HOURS_PER_DAY = 8;
 /** The usual spool of filament (common practice). */
@@ -66,6 +69,8 @@ export interface KitPlanItem {
   quantity: number;
   /** The model's figures; null when the part has no analysed model file. */
   geometry: PartGeometry | null;
+  /** The model sliced at this item's layer height, walls and skins, when the caller could slice it. */
+  slices?: SliceProfile | null;
   settings: KitPrintSettings;
   printer: KitPrinterRef | null;
   safety: SafetyFlags;
@@ -208,7 +213,8 @@ function summariseItem(item: KitPlanItem, plan: KitPlan): KitItemSummary {
   let each: PieceFigures | null = null;
   let total: ItemTotals | null = null;
   if (item.geometry) {
-    const estimate = estimatePrint(item.geometry, { ...item.settings, pricePerKg: plan.pricesPerKg[material] });
+    const settings = { ...item.settings, pricePerKg: plan.pricesPerKg[material] };
+    const estimate = item.slices ? estimateFromSlices(item.slices, settings) : estimatePrint(item.geometry, settings);
     each = { massG: estimate.massG, lengthM: estimate.lengthM, timeMin: estimate.timeMin, filamentCost: estimate.cost };
     const all = times(each, item.quantity);
     const hours = all.timeMin / 60;
@@ -327,7 +333,7 @@ export function summariseKit(plan: KitPlan): KitSummary {
   const cheapest = compare(items, (i) => cheaperOf(i.bought?.total ?? null, i.printService?.total ?? null));
 
   const assumptions = [
-    'Each item is estimated for one piece from its model file and recipe (± 30 %), then multiplied by the quantity.',
+    'Each item is estimated for one piece from its model file and recipe, then multiplied by the quantity: from the model cut into layers at the recipe’s layer height, or, where it could not be sliced, from its volume, area and size alone (the quick estimate).',
     `Filament at the kit owner's price per kg for each material; spools of ${SPOOL_G / 1000} kg, rounded up per material.`,
     plan.pricePerKwh === null
       ? "Electricity not included: the kit owner has no price per kWh."

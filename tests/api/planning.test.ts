@@ -463,6 +463,9 @@ describe('planning · summary and export', () => {
     expect(summary.items[2].total!.energyCost).toBeNull();
     expect(summary.totals.energyIncluded).toBe('some');
     expect(summary.totals.printCost).toBeCloseTo(summary.totals.filamentCost + summary.totals.energyCost, 9);
+    // every item's model was cut into layers (a failure would leave a note and a quick estimate)
+    expect(summary.items.flatMap((i: { notes: string[] }) => i.notes).join(' ')).not.toMatch(/could not be sliced/);
+    expect(summary.assumptions.join(' ')).toMatch(/cut into layers at the recipe’s layer height/);
   });
 
   it('summary · buy or print · bought price against print cost, and the printer payback', () => {

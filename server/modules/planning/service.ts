@@ -491,6 +491,24 @@ export function createPlanningService({ sequelize, evidence, dirs, slicer }: Pla
     },
   };
 
+  /** The model file sliced for a recipe (cached by the queue), or null with a note when it cannot be. */
+  async function slicesFor(file: PartFile, recipe: Recipe, notes: string[]): Promise<SliceProfile | null> {
+    const s = { nozzleMm: recipe.nozzleMm, layerMm: recipe.layerMm, walls: recipe.walls, skinLayers: recipe.topBottomLayers };
+    try {
+      return await slicer.slice(
+        {
+          path: pathsOf(dirs, file).original,
+          stlUnitScale: (file.analysis as Partial<ModelFileAnalysis> | null)?.unitScale ?? 1,
+          settings: { layerMm: s.layerMm, walls: s.walls, lineWidthMm: lineWidthFor(s), skinLayers: s.skinLayers },
+        },
+        `file:${file.id}:${file.sha256}`,
+      );
+    } catch (err) {
+      notes.push(`${file.originalName} could not be sliced (${(err as Error).message}); its figures give a quick estimate instead.`);
+      return null;
+    }
+  }
+
   async function summaryOf(kit: Kit): Promise<KitSummaryResponse> {
     const items = await loadItems(kit.id);
     const sheet = await PriceSheet.findByPk(kit.ownerId);
@@ -540,6 +558,7 @@ export function createPlanningService({ sequelize, evidence, dirs, slicer }: Pla
       if (model) notes.push(...soundnessNotes(model.originalName, model.analysis!));
       const a = model?.analysis;
       const printer = item.printer ?? null;
+      const slices = model ? await slicesFor(model, recipe, notes) : null;
       planned.push({
         item,
         plan: {
@@ -547,6 +566,7 @@ export function createPlanningService({ sequelize, evidence, dirs, slicer }: Pla
           title,
           quantity: item.quantity,
           geometry: a ? { volumeMm3: a.volumeMm3, areaMm2: a.areaMm2, sizeMm: a.sizeMm } : null,
+          slices,
           settings: {
             material: item.material ?? recipe.material,
             nozzleMm: recipe.nozzleMm,
