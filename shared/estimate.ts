@@ -285,7 +285,7 @@ function fromProfile(profile: SliceProfile, settings: PrintSettings, method: Pri
   };
 }
 
-/** Whole numbers from sums of decimals: 16.000000000001 h at 8 h a day is still 2 days, 1000.0000000001 g one spool. */
+/** Whole numbers from sums of decimals: 16.000000000001 h at 8 h a day is still 2 days, 1000.0000000001 g one spool (our choice). */
 export const ROUNDING_SLACK = 1e-9;
 
 /** Rounds up to a whole number, forgiving the last bits of binary rounding. */

@@ -29,6 +29,7 @@ import { heatCheck, heatExposureInfo, MATERIAL_IDS, type HeatCheck, type HeatExp
 import { safetyCautions, type Caution } from './safety';
 import type { SliceProfile } from './slice';
 
+/** Common practice: a printer tended through one working day. */
 export const DEFAULT_PRINT_HOURS_PER_DAY = 8;
 /** The usual spool of filament (common practice). */
 export const SPOOL_G = 1000;
