@@ -32,6 +32,7 @@ import { evidenceModerationRoutes, flagRoutes, partEvidenceRoutes, profileRoutes
 import { createEvidenceService } from './modules/evidence/service';
 import { noticesRoutes } from './modules/notices/routes';
 import { estimateRoutes, kitRoutes, priceRoutes, printerRoutes } from './modules/planning/routes';
+import { SliceQueue } from './modules/planning/slice-queue';
 import { createPlanningService } from './modules/planning/service';
 import { partHistoryRoutes } from './modules/review/history-routes';
 import { reviewRoutes } from './modules/review/routes';
@@ -128,7 +129,8 @@ export function createApp({ config, sequelize, mailer }: AppContext) {
     onRecovered: (rows) => wanted.resume(rows),
   });
   const evidence = createEvidenceService({ sequelize, dirs, photos, onChanged: () => search.rankingChanged() });
-  const planning = createPlanningService({ sequelize, evidence });
+  const slicer = new SliceQueue();
+  const planning = createPlanningService({ sequelize, evidence, dirs, slicer });
 
   const tokens = createTokenService({ config, mailer });
   const auth = createAuthService(config, tokens);
@@ -190,6 +192,7 @@ export function createApp({ config, sequelize, mailer }: AppContext) {
       await photos.close();
       await closeCheckPool();
       await search.close();
+      await slicer.close();
       (store as unknown as { stopExpiringSessions(): void }).stopExpiringSessions();
     },
   };

@@ -33,7 +33,14 @@ export const MOUNT_STANDARDS = [
   { slug: 'dovetail-38', label: '38 mm dovetail clamp', standard: 'Common 38 mm (1.5 in) V-groove dovetail', aliases: ['dovetail', '38mm plate', 'quick release plate'] },
   { slug: 'battery-v-style', label: 'V-style battery plate', standard: 'V-style battery plate convention', aliases: ['v-mount', 'v mount', 'v plate', 'v-style'] },
   { slug: 'battery-3-stud', label: '3-stud battery plate', standard: '3-stud battery plate convention', aliases: ['3 stud', 'three stud', '3-stud'] },
-  { slug: 'gear-0-8', label: '0.8 module gear', standard: 'ISO 53 basic rack, module 0.8', aliases: ['0.8 mod', 'mod 0.8', 'lens gear', 'follow focus gear', '32 pitch'] },
+  // Not 32 DP: 32 diametral pitch is module 25.4 / 32 = 0.79375, close to 0.8 but not equal, so
+  // "32 pitch" is not an alias of this gear (see moduleOfDiametralPitch in units.ts).
+  {
+    slug: 'gear-0-8',
+    label: '0.8 module gear',
+    standard: 'ISO 53 basic rack, module 0.8 (32 DP is module 0.79375: close, but the two do not mesh over long runs)',
+    aliases: ['0.8 mod', 'mod 0.8', 'lens gear', 'follow focus gear'],
+  },
   { slug: 'other', label: 'Other (see note)', standard: 'Described in the note', aliases: [] },
 ] as const satisfies readonly MountStandard[];
 export type MountSlug = (typeof MOUNT_STANDARDS)[number]['slug'];

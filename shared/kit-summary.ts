@@ -3,7 +3,8 @@
 // printing beats buying. Pure: the server loads the figures, this adds them up.
 //
 // Rules (each also stated in the summary's `assumptions`):
-// - an item's figures are estimatePrint's for one piece, times the quantity;
+// - an item's figures are the estimate for one piece, times the quantity: from the model's layer
+//   slices when the caller has them (estimateFromSlices), else the quick estimate (estimatePrint);
 // - filament cost uses the price per kg given for the material; electricity is added for items on a
 //   printer with known watts when a price per kWh is known (kWh = W × h ÷ 1000);
 // - spools are whole 1 kg spools per material (spoolsNeeded);
@@ -13,9 +14,11 @@
 //   cost with the cheaper of buying and a print service, item by item.
 import type { SafetyFlags } from './catalogue';
 import {
+  estimateFromSlices,
   estimatePrint,
   fitOnBed,
   spoolsNeeded,
+  ceilWhole,
   type BedFitResult,
   type FilamentDiameter,
   type PartGeometry,
@@ -24,17 +27,13 @@ import {
 } from './estimate';
 import { heatCheck, heatExposureInfo, MATERIAL_IDS, type HeatCheck, type HeatExposure, type MaterialId } from './materials';
 import { safetyCautions, type Caution } from './safety';
+import type { SliceProfile } from './slice';
 
+/** Common practice: a printer tended through one working day. */
 export const DEFAULT_PRINT_HOURS_PER_DAY = 8;
 /** The usual spool of filament (common practice). */
 export const SPOOL_G = 1000;
 
-/** Whole numbers from sums of decimals: 16.000000000001 h at 8 h a day is still 2 days. */
-const ROUNDING_SLACK = 1e-9;
-
-function ceilWhole(value: number): number {
-  return Math.max(0, Math.ceil(value - ROUNDING_SLACK));
-}
 
 /** Days of printing for `hours` at `hoursPerDay`, rounded up to whole days. */
 export function printingDays(hours: number, hoursPerDay: number): number {
@@ -57,6 +56,8 @@ export interface KitPrinterRef {
   id: number;
   name: string;
   bedMm: Size3;
+  /** Free round the bed's edge for a brim or skirt, per side; the default when omitted. */
+  bedMarginMm?: number;
   nozzleMm: number;
   watts: number | null;
 }
@@ -69,6 +70,8 @@ export interface KitPlanItem {
   quantity: number;
   /** The model's figures; null when the part has no analysed model file. */
   geometry: PartGeometry | null;
+  /** The model sliced at this item's layer height, walls and skins, when the caller could slice it. */
+  slices?: SliceProfile | null;
   settings: KitPrintSettings;
   printer: KitPrinterRef | null;
   safety: SafetyFlags;
@@ -211,7 +214,8 @@ function summariseItem(item: KitPlanItem, plan: KitPlan): KitItemSummary {
   let each: PieceFigures | null = null;
   let total: ItemTotals | null = null;
   if (item.geometry) {
-    const estimate = estimatePrint(item.geometry, { ...item.settings, pricePerKg: plan.pricesPerKg[material] });
+    const settings = { ...item.settings, pricePerKg: plan.pricesPerKg[material] };
+    const estimate = item.slices ? estimateFromSlices(item.slices, settings) : estimatePrint(item.geometry, settings);
     each = { massG: estimate.massG, lengthM: estimate.lengthM, timeMin: estimate.timeMin, filamentCost: estimate.cost };
     const all = times(each, item.quantity);
     const hours = all.timeMin / 60;
@@ -242,7 +246,7 @@ function summariseItem(item: KitPlanItem, plan: KitPlan): KitItemSummary {
     printer: item.printer ? { id: item.printer.id, name: item.printer.name } : null,
     each,
     total,
-    fit: item.printer && item.geometry ? fitOnBed(item.geometry.sizeMm, item.printer.bedMm) : null,
+    fit: item.printer && item.geometry ? fitOnBed(item.geometry.sizeMm, item.printer.bedMm, { marginMm: item.printer.bedMarginMm }) : null,
     heat: plan.heatExposure ? heatCheck(material, plan.heatExposure) : null,
     cautions: safetyCautions(item.safety, item.testedLoadKg),
     evidenceWarnings: item.evidenceWarnings.map((w) => ({ material: w.material, text: w.text, matchesMaterial: w.material === material })),
@@ -330,7 +334,7 @@ export function summariseKit(plan: KitPlan): KitSummary {
   const cheapest = compare(items, (i) => cheaperOf(i.bought?.total ?? null, i.printService?.total ?? null));
 
   const assumptions = [
-    'Each item is estimated for one piece from its model file and recipe (± 30 %), then multiplied by the quantity.',
+    'Each item is estimated for one piece from its model file and recipe, then multiplied by the quantity: from the model cut into layers at the recipe’s layer height, or, where it could not be sliced, from its volume, area and size alone (the quick estimate).',
     `Filament at the kit owner's price per kg for each material; spools of ${SPOOL_G / 1000} kg, rounded up per material.`,
     plan.pricePerKwh === null
       ? "Electricity not included: the kit owner has no price per kWh."

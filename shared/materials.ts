@@ -1,13 +1,17 @@
 // Filament materials and where a printed part of each can safely go.
 //
-// Values for the unfilled materials come from the project's trade reference: densities from
-// UL Prospector (ISO 1183) and designerdata.nl; glass transitions from the NETZSCH polymer
-// database and the ABS / ASA encyclopaedia articles; temperature windows from Fashion and
-// Textiles (2020) Table 2, doi 10.1186/s40691-020-00232-7 (ASA, PC and upper bed values secondary).
-// Fibre-filled values are from memory: they follow the base polymer, slightly denser.
+// Every figure names its source beside it; docs/sources.md lists them all. Sources, as in the
+// project's trade reference:
+//   [UL]  UL Prospector, generic PLA datasheet (density per ISO 1183)                  checked
+//   [DD]  designerdata.nl, PETG (density, Tg, HDT)                                      checked
+//   [NZ]  NETZSCH polymer database (Tg of PLA, TPU, PA 6)                               checked
+//   [WP]  encyclopaedia articles on ABS and ASA (Tg), and densities of ABS, ASA, TPU, PA, PC   secondary
+//   [FT]  Fashion and Textiles (2020) Table 2, doi 10.1186/s40691-020-00232-7 (hotend and bed)  checked;
+//         ASA, PC and the upper bed values secondary
+// Fibre-filled grades are from memory: they follow the base polymer, slightly denser.
 //
-// `softensAtC` is a deliberately low "starts to soften under load" figure for heat checks:
-// the heat deflection temperature where the reference gives one, otherwise Tg − 10 °C.
+// `softensAtC` is a deliberately low "starts to soften under load" figure for heat checks (our
+// rule): the heat deflection temperature where the reference gives one, otherwise Tg − 10 °C.
 
 export const MATERIAL_IDS = ['PLA', 'PETG', 'ABS', 'ASA', 'TPU', 'PA', 'PC', 'PLA-CF', 'PETG-CF', 'PA-CF'] as const;
 export type MaterialId = (typeof MATERIAL_IDS)[number];
@@ -31,7 +35,8 @@ export interface MaterialInfo {
 }
 
 const MATERIALS: Record<MaterialId, MaterialInfo> = {
-  // Tg 55–65 °C, HDT 55–65 °C at 0.455 MPa: the low end.
+  // Density 1.24 [UL]; Tg 55–65 °C [NZ], HDT 55–65 °C at 0.455 MPa [UL]: softens at the low end;
+  // hotend 180–220, bed 20–60 [FT].
   PLA: {
     id: 'PLA',
     name: 'PLA (polylactic acid)',
@@ -42,7 +47,7 @@ const MATERIALS: Record<MaterialId, MaterialInfo> = {
     flexible: false,
     abrasive: false,
   },
-  // HDT about 70 °C at 1.82 MPa (Tg about 80 °C).
+  // Density 1.27, HDT about 70 °C at 1.82 MPa (Tg about 80 °C) [DD]; hotend 220–250, bed 70–85 [FT].
   PETG: {
     id: 'PETG',
     name: 'PETG (glycol-modified polyester)',
@@ -53,7 +58,7 @@ const MATERIALS: Record<MaterialId, MaterialInfo> = {
     flexible: false,
     abrasive: false,
   },
-  // Tg about 105 °C.
+  // Density 1.04, Tg about 105 °C [WP] → softens at Tg − 10 = 95 °C (our rule); hotend 230–250, bed 90–110 [FT].
   ABS: {
     id: 'ABS',
     name: 'ABS (acrylonitrile butadiene styrene)',
@@ -64,7 +69,7 @@ const MATERIALS: Record<MaterialId, MaterialInfo> = {
     flexible: false,
     abrasive: false,
   },
-  // Tg about 100 °C.
+  // Density 1.07, Tg about 100 °C [WP] → 90 °C (Tg − 10, our rule); hotend 240–260, bed 90–110 [FT, secondary].
   ASA: {
     id: 'ASA',
     name: 'ASA (acrylonitrile styrene acrylate)',
@@ -75,7 +80,8 @@ const MATERIALS: Record<MaterialId, MaterialInfo> = {
     flexible: false,
     abrasive: false,
   },
-  // Tg −50 to −30 °C says nothing about heat; 60 °C is a cautious value from memory.
+  // Density 1.21 [WP]; Tg −50 to −30 °C [NZ] says nothing about heat, so 60 °C is a cautious
+  // softening value from memory; hotend 210–240, bed 20–60 [FT].
   TPU: {
     id: 'TPU',
     name: 'TPU (thermoplastic polyurethane, flexible)',
@@ -86,8 +92,9 @@ const MATERIALS: Record<MaterialId, MaterialInfo> = {
     flexible: true,
     abrasive: false,
   },
-  // Tg 45–80 °C depending on absorbed water. Being semi-crystalline it keeps its shape above
-  // Tg, so 70 °C (from memory) is used rather than the wet Tg.
+  // Density 1.14 [WP]; Tg 45–80 °C depending on absorbed water [NZ]. Being semi-crystalline it
+  // keeps its shape above Tg, so 70 °C (from memory) is used rather than the wet Tg;
+  // hotend 250–280, bed 70–100 [FT].
   PA: {
     id: 'PA',
     name: 'PA (nylon 6)',
@@ -98,7 +105,7 @@ const MATERIALS: Record<MaterialId, MaterialInfo> = {
     flexible: false,
     abrasive: false,
   },
-  // Tg about 147 °C.
+  // Density 1.20, Tg about 147 °C [WP] → 137 °C (Tg − 10, our rule); hotend 260–300, bed 100–120 [FT, secondary].
   PC: {
     id: 'PC',
     name: 'PC (polycarbonate)',
@@ -109,7 +116,8 @@ const MATERIALS: Record<MaterialId, MaterialInfo> = {
     flexible: false,
     abrasive: false,
   },
-  // From memory: fibres stiffen PLA but barely raise the temperature it softens at.
+  // From memory, every figure: density 1.29 (PLA plus a little fibre), softening as PLA (fibres
+  // stiffen it but barely raise the temperature it softens at), hotend 20 °C up for the filler.
   'PLA-CF': {
     id: 'PLA-CF',
     name: 'PLA-CF (carbon-fibre-filled PLA)',
@@ -120,7 +128,7 @@ const MATERIALS: Record<MaterialId, MaterialInfo> = {
     flexible: false,
     abrasive: true,
   },
-  // From memory.
+  // From memory, every figure: density 1.30, softening as PETG, hotend 10 °C up.
   'PETG-CF': {
     id: 'PETG-CF',
     name: 'PETG-CF (carbon-fibre-filled PETG)',
@@ -131,7 +139,8 @@ const MATERIALS: Record<MaterialId, MaterialInfo> = {
     flexible: false,
     abrasive: true,
   },
-  // From memory: fibres raise nylon's heat deflection well above the unfilled polymer's.
+  // From memory, every figure: density 1.18; fibres raise nylon's heat deflection well above the
+  // unfilled polymer's, so 100 °C; hotend 260–300.
   'PA-CF': {
     id: 'PA-CF',
     name: 'PA-CF (carbon-fibre-filled nylon)',
@@ -164,6 +173,7 @@ function formatWindow(window: TemperatureWindow): string {
 
 /** The heater is switched off; a bed at room temperature is what some materials want. */
 const BED_OFF_C = 0;
+/** Room temperature for "bed off" (common practice: 20–25 °C). */
 const ROOM_TEMPERATURE_C = 25;
 
 export interface RecipeTemperatures {
@@ -214,9 +224,11 @@ const EXPOSURES: Record<HeatExposure, HeatExposureInfo> = {
     temperatureC: 69.4,
     where: 'a car dashboard after an hour in the sun',
   },
-  // From memory: a dark surface in full summer sun.
+  // From memory, no source found: a dark surface in full summer sun. Kept below the 69.4 °C
+  // dashboard above (a dashboard under glass runs hotter than a part in moving air).
   'outdoor-sun': { id: 'outdoor-sun', label: 'Outdoors in direct sun', temperatureC: 65, where: 'a dark part in direct sun' },
-  // From memory, chosen on the warm side: a mount a short way from tungsten or HMI heads.
+  // From memory, no source found, chosen on the warm side: a mount a short way from tungsten or
+  // HMI heads (their housings run far hotter; the figure is for a mount beside them, not on them).
   'near-lights': { id: 'near-lights', label: 'Near lighting heads', temperatureC: 60, where: 'a mount near hot lights' },
 };
 
@@ -228,7 +240,7 @@ export function heatExposureInfo(id: HeatExposure): HeatExposureInfo {
 
 /**
  * Headroom a part needs between the exposure and its softening point to count as safe: rig
- * parts carry load, dark colours run hotter, and prints vary. Our own choice.
+ * parts carry load, dark colours run hotter, and prints vary. Our own choice (no source).
  */
 export const HEAT_MARGIN_C = 10;
 

@@ -92,6 +92,19 @@ export interface PartFileInfo {
     shells: number;
     insideOut: boolean;
     degenerateFacets: number;
+    openEdges: number;
+    nonManifoldEdges: number;
+    /** The fields below are null for files analysed before the winding and welding checks existed. */
+    zeroAreaFacets: number | null;
+    windingConsistent: boolean | null;
+    /** Facets wound against the rest of their shell. */
+    reversedFacets: number | null;
+    insideOutShells: number | null;
+    /** The volume counts reversed facets or inside-out shells as flipped. */
+    volumeRepaired: boolean | null;
+    /** Vertices merged within the welding tolerance to close hairline seams. */
+    weldedVertices: number | null;
+    weldToleranceMm: number | null;
     warnings: string[];
   } | null;
   /** Photos: processing state and the URLs of the cleaned images once ready. */

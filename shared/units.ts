@@ -13,6 +13,12 @@ export function mmToInches(mm: number): number {
   return (mm * 10) / 254;
 }
 
+/** Spur-gear module (mm) of a diametral pitch (teeth per inch of pitch diameter): m = 25.4 / DP. */
+export function moduleOfDiametralPitch(dp: number): number {
+  if (!Number.isFinite(dp) || dp <= 0) throw new RangeError('The diametral pitch must be a number > 0.');
+  return MM_PER_INCH / dp;
+}
+
 /** A parsed number kept as an integer fraction so the unit conversion rounds only once. */
 interface Ratio {
   numerator: number;

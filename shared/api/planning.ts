@@ -16,6 +16,10 @@ export interface EstimateResult {
   /** Filament, plus electricity when printerWatts and a price per kWh are known. */
   cost: number;
   pricePerKg: number;
+  /** The extruded volume split into walls, top and bottom skins, and infill (mm³). */
+  partsMm3: { walls: number; skins: number; infill: number };
+  /** 'slices' when a model file was cut into layers, 'figures' for the quick estimate. */
+  method: 'slices' | 'figures';
   assumptions: string[];
   /** What the estimate was made from. */
   geometry: {
@@ -34,6 +38,8 @@ export interface PrinterInfo {
   name: string;
   /** Bed x, y, z in mm. */
   bedMm: [number, number, number];
+  /** Kept free round the bed's edge for a brim or skirt, per side (mm). */
+  bedMarginMm: number;
   nozzleMm: number;
   watts: number | null;
   notes: string | null;

@@ -69,6 +69,11 @@ class VertexWelder {
     }
   }
 
+  /** x, y, z of vertex id at [3·id …]; shares memory with the welder. */
+  coordinates(): Float32Array {
+    return new Float32Array(this.bits.buffer, 0, this.count * 3);
+  }
+
   private insert(slot: number, bx: number, by: number, bz: number): number {
     const id = this.count++;
     if (id * 3 + 3 > this.bits.length) this.growBits();
@@ -118,14 +123,24 @@ function nextPowerOfTwo(n: number): number {
 }
 
 /**
+ * Vertices closer than this share of the bounding-box diagonal are welded. A millionth is about
+ * 16 float32 steps at the largest coordinate, far below what a printer resolves (our choice).
+ */
+export const WELD_TOLERANCE_PER_DIAGONAL = 1e-6;
+
+// Values in MeshAccumulator.flags.
+const FLAG_REPEATED_CORNER = 1;
+const FLAG_ZERO_AREA = 2;
+
+/**
  * Takes facets one at a time and keeps running bounding box, area and signed volume, plus the
  * welded vertex ids each facet uses; finish() then works out edges and shells from the ids.
  */
 export class MeshAccumulator implements FacetSink {
   private ids: Uint32Array;
-  private degenerate: Uint8Array;
+  /** 0 for a facet with area, else FLAG_REPEATED_CORNER or FLAG_ZERO_AREA. */
+  private flags: Uint8Array;
   private facets = 0;
-  private degenerateCount = 0;
   // Running figures in a typed array: V8 keeps them as raw doubles there, unlike number fields.
   private readonly sums = new Float64Array([Infinity, Infinity, Infinity, -Infinity, -Infinity, -Infinity, 0, 0]);
   private readonly welder: VertexWelder;
@@ -133,14 +148,14 @@ export class MeshAccumulator implements FacetSink {
   constructor(expectedFacets = 1024) {
     const capacity = Math.max(16, Math.ceil(expectedFacets));
     this.ids = new Uint32Array(capacity * 3);
-    this.degenerate = new Uint8Array(capacity);
+    this.flags = new Uint8Array(capacity);
     // A closed mesh has about half as many vertices as facets.
     this.welder = new VertexWelder(capacity * 0.6);
   }
 
   addFacet(ax: number, ay: number, az: number, bx: number, by: number, bz: number, cx: number, cy: number, cz: number): void {
     const f = this.facets;
-    if (f === this.degenerate.length) this.grow();
+    if (f === this.flags.length) this.grow();
 
     const ux = bx - ax, uy = by - ay, uz = bz - az;
     const vx = cx - ax, vy = cy - ay, vz = cz - az;
@@ -166,44 +181,84 @@ export class MeshAccumulator implements FacetSink {
     this.ids[k] = a;
     this.ids[k + 1] = b;
     this.ids[k + 2] = c;
-    if (a === b || b === c || a === c || cross2 <= DEGENERATE_SIN2 * (ux * ux + uy * uy + uz * uz) * (vx * vx + vy * vy + vz * vz)) {
-      this.degenerate[f] = 1;
-      this.degenerateCount++;
-    }
+    if (a === b || b === c || a === c) this.flags[f] = FLAG_REPEATED_CORNER;
+    else if (cross2 <= DEGENERATE_SIN2 * (ux * ux + uy * uy + uz * uz) * (vx * vx + vy * vy + vz * vz)) this.flags[f] = FLAG_ZERO_AREA;
     this.facets = f + 1;
   }
 
   finish(unitScale = 1): MeshAnalysis {
     if (this.facets === 0) throw new MeshError('no_facets', 'The mesh has no facets.');
     const ids = this.ids.subarray(0, this.facets * 3);
-    const degenerate = this.degenerate.subarray(0, this.facets);
-    const vertices = this.welder.count;
-    const { openEdges, nonManifoldEdges } = countEdgeUse(ids, degenerate, vertices);
-    const solidFacets = this.facets - this.degenerateCount;
-
+    const flags = this.flags.subarray(0, this.facets);
     const sums = this.sums;
+    const vertices = this.welder.count;
+    const coords = this.welder.coordinates();
+
+    const diagonal = Math.hypot(sums[MAX_X] - sums[MIN_X], sums[MAX_Y] - sums[MIN_Y], sums[MAX_Z] - sums[MIN_Z]);
+    const tolerance = diagonal * WELD_TOLERANCE_PER_DIAGONAL;
+    let edges = countEdgeUse(ids, flags, vertices);
+    let weldedVertices = 0;
+    // Welding within the tolerance can only close gaps, so it is only worth its time when exact welding left some open.
+    if (edges.openEdges > 0) {
+      const welded = weldWithinTolerance(coords, vertices, tolerance, sums[MIN_X], sums[MIN_Y], sums[MIN_Z]);
+      if (welded.merged > 0) {
+        weldedVertices = welded.merged;
+        remapFacets(ids, flags, welded.remap);
+        edges = countEdgeUse(ids, flags, vertices);
+      }
+    }
+    const { openEdges, nonManifoldEdges, misorientedEdges } = edges;
+
+    let degenerateFacets = 0;
+    let zeroAreaFacets = 0;
+    for (let f = 0; f < flags.length; f++) {
+      if (flags[f] === FLAG_REPEATED_CORNER) degenerateFacets++;
+      else if (flags[f] === FLAG_ZERO_AREA) zeroAreaFacets++;
+    }
+    const solidFacets = this.facets - degenerateFacets - zeroAreaFacets;
+    const shells = countShells(ids, flags, vertices);
+
+    const rawSixVolume = sums[SIX_VOLUME];
+    let orientation: Orientation;
+    if (misorientedEdges === 0 && shells <= 1) {
+      // One consistently wound shell: its sign alone says whether it is inside out.
+      orientation = { reversedFacets: 0, insideOutShells: rawSixVolume < 0 ? 1 : 0, unorientable: 0, sixVolume: Math.abs(rawSixVolume) };
+    } else {
+      orientation = orientShells(ids, flags, coords, vertices);
+    }
+
     const s = unitScale;
     const min: Vec3 = [sums[MIN_X] * s, sums[MIN_Y] * s, sums[MIN_Z] * s];
     const max: Vec3 = [sums[MAX_X] * s, sums[MAX_Y] * s, sums[MAX_Z] * s];
-    const signedVolumeMm3 = (sums[SIX_VOLUME] / 6) * s * s * s;
+    const signedVolumeMm3 = (rawSixVolume / 6) * s * s * s;
+    const volumeMm3 = (orientation.sixVolume / 6) * s * s * s;
     const analysis: MeshAnalysis = {
       // Extents scaled after subtracting, so 1 inch comes out as exactly 25.4 mm.
       sizeMm: [(sums[MAX_X] - sums[MIN_X]) * s, (sums[MAX_Y] - sums[MIN_Y]) * s, (sums[MAX_Z] - sums[MIN_Z]) * s],
       min,
       max,
-      volumeMm3: Math.abs(signedVolumeMm3),
+      volumeMm3,
       signedVolumeMm3,
-      insideOut: signedVolumeMm3 < 0,
+      volumeRepaired: orientation.reversedFacets > 0 || (orientation.insideOutShells > 0 && orientation.insideOutShells < shells),
+      insideOut: orientation.insideOutShells > 0,
+      insideOutShells: orientation.insideOutShells,
+      windingConsistent: misorientedEdges === 0 && orientation.unorientable === 0,
+      reversedFacets: orientation.reversedFacets,
+      misorientedEdges,
       areaMm2: (sums[DOUBLE_AREA] / 2) * s * s,
       facets: this.facets,
-      degenerateFacets: this.degenerateCount,
+      degenerateFacets,
+      zeroAreaFacets,
       watertight: solidFacets > 0 && openEdges === 0 && nonManifoldEdges === 0,
       openEdges,
       nonManifoldEdges,
-      shells: countShells(ids, degenerate, vertices),
+      shells,
+      vertices: vertices - weldedVertices,
+      weldedVertices,
+      weldToleranceMm: tolerance * s,
       warnings: [],
     };
-    analysis.warnings = describeProblems(analysis);
+    analysis.warnings = describeProblems(analysis, orientation.unorientable);
     return analysis;
   }
 
@@ -211,21 +266,76 @@ export class MeshAccumulator implements FacetSink {
     const ids = new Uint32Array(this.ids.length * 2);
     ids.set(this.ids);
     this.ids = ids;
-    const degenerate = new Uint8Array(this.degenerate.length * 2);
-    degenerate.set(this.degenerate);
-    this.degenerate = degenerate;
+    const flags = new Uint8Array(this.flags.length * 2);
+    flags.set(this.flags);
+    this.flags = flags;
   }
 }
 
 /**
- * Counts how often each edge is used. Instead of hashing edge keys, edges are bucketed by their
- * lower vertex id (a counting sort), so each bucket only holds the few higher ids it joins.
+ * Merges exact-welded vertices whose coordinates round to the same multiple of `tolerance`
+ * (measured from the bounding box's corner). Two points closer than the tolerance can still stay
+ * apart when a rounding boundary falls between them; the chance is their distance over the
+ * tolerance, so hairline seams (1e-15 mm from trigonometry) almost always close.
  */
-function countEdgeUse(ids: Uint32Array, degenerate: Uint8Array, vertices: number): { openEdges: number; nonManifoldEdges: number } {
+function weldWithinTolerance(coords: Float32Array, vertices: number, tolerance: number, ox: number, oy: number, oz: number): { remap: Uint32Array; merged: number } {
+  const remap = new Uint32Array(vertices);
+  if (!(tolerance > 0)) {
+    for (let v = 0; v < vertices; v++) remap[v] = v;
+    return { remap, merged: 0 };
+  }
+  const inverse = 1 / tolerance;
+  const capacity = nextPowerOfTwo(Math.max(64, vertices * 2));
+  const mask = capacity - 1;
+  const slots = new Int32Array(capacity).fill(-1);
+  const cells = new Int32Array(vertices * 3);
+  let merged = 0;
+  for (let v = 0, k = 0; v < vertices; v++, k += 3) {
+    const qx = Math.round((coords[k] - ox) * inverse);
+    const qy = Math.round((coords[k + 1] - oy) * inverse);
+    const qz = Math.round((coords[k + 2] - oz) * inverse);
+    cells[k] = qx;
+    cells[k + 1] = qy;
+    cells[k + 2] = qz;
+    let slot = hash3(qx, qy, qz) & mask;
+    for (;;) {
+      const other = slots[slot];
+      if (other < 0) {
+        slots[slot] = v;
+        remap[v] = v;
+        break;
+      }
+      const j = other * 3;
+      if (cells[j] === qx && cells[j + 1] === qy && cells[j + 2] === qz) {
+        remap[v] = other;
+        merged++;
+        break;
+      }
+      slot = (slot + 1) & mask;
+    }
+  }
+  return { remap, merged };
+}
+
+function remapFacets(ids: Uint32Array, flags: Uint8Array, remap: Uint32Array): void {
+  for (let f = 0, k = 0; f < flags.length; f++, k += 3) {
+    const a = (ids[k] = remap[ids[k]]);
+    const b = (ids[k + 1] = remap[ids[k + 1]]);
+    const c = (ids[k + 2] = remap[ids[k + 2]]);
+    if (a === b || b === c || a === c) flags[f] = FLAG_REPEATED_CORNER;
+  }
+}
+
+/**
+ * Counts how often each edge is used, and in which direction. Instead of hashing edge keys, edges
+ * are bucketed by their lower vertex id (a counting sort), so each bucket only holds the few higher
+ * ids it joins; each entry is partner·2 + direction (0 when the facet runs from the lower id).
+ */
+function countEdgeUse(ids: Uint32Array, flags: Uint8Array, vertices: number): { openEdges: number; nonManifoldEdges: number; misorientedEdges: number } {
   const offsets = new Uint32Array(vertices + 1);
   let halfEdges = 0;
-  for (let f = 0, k = 0; f < degenerate.length; f++, k += 3) {
-    if (degenerate[f]) continue;
+  for (let f = 0, k = 0; f < flags.length; f++, k += 3) {
+    if (flags[f]) continue;
     const a = ids[k], b = ids[k + 1], c = ids[k + 2];
     offsets[a < b ? a : b]++;
     offsets[b < c ? b : c]++;
@@ -240,30 +350,34 @@ function countEdgeUse(ids: Uint32Array, degenerate: Uint8Array, vertices: number
   offsets[vertices] = end;
 
   const partners = new Uint32Array(halfEdges);
-  for (let f = 0, k = 0; f < degenerate.length; f++, k += 3) {
-    if (degenerate[f]) continue;
+  for (let f = 0, k = 0; f < flags.length; f++, k += 3) {
+    if (flags[f]) continue;
     const a = ids[k], b = ids[k + 1], c = ids[k + 2];
-    if (a < b) partners[--offsets[a]] = b; else partners[--offsets[b]] = a;
-    if (b < c) partners[--offsets[b]] = c; else partners[--offsets[c]] = b;
-    if (c < a) partners[--offsets[c]] = a; else partners[--offsets[a]] = c;
+    if (a < b) partners[--offsets[a]] = b * 2; else partners[--offsets[b]] = a * 2 + 1;
+    if (b < c) partners[--offsets[b]] = c * 2; else partners[--offsets[c]] = b * 2 + 1;
+    if (c < a) partners[--offsets[c]] = a * 2; else partners[--offsets[a]] = c * 2 + 1;
   }
   // offsets[v] now marks the start of vertex v's bucket.
 
   let openEdges = 0;
   let nonManifoldEdges = 0;
+  let misorientedEdges = 0;
   for (let v = 0; v < vertices; v++) {
     const start = offsets[v];
     const stop = offsets[v + 1];
     if (stop - start > 1) sortRange(partners, start, stop);
     for (let i = start; i < stop; ) {
+      const partner = partners[i] >>> 1;
       let j = i + 1;
-      while (j < stop && partners[j] === partners[i]) j++;
+      while (j < stop && partners[j] >>> 1 === partner) j++;
       if (j - i === 1) openEdges++;
       else if (j - i > 2) nonManifoldEdges++;
+      // Sorted, so a sound pair is partner·2 then partner·2 + 1.
+      else if (partners[i] === partners[i + 1]) misorientedEdges++;
       i = j;
     }
   }
-  return { openEdges, nonManifoldEdges };
+  return { openEdges, nonManifoldEdges, misorientedEdges };
 }
 
 function sortRange(values: Uint32Array, start: number, stop: number): void {
@@ -283,10 +397,10 @@ function sortRange(values: Uint32Array, start: number, stop: number): void {
 }
 
 /** Connected pieces, by union-find over welded vertices; zero-area facets join nothing. */
-function countShells(ids: Uint32Array, degenerate: Uint8Array, vertices: number): number {
+function countShells(ids: Uint32Array, flags: Uint8Array, vertices: number): number {
   const parent = new Int32Array(vertices).fill(-1); // -1: not used by any solid facet
-  for (let f = 0, k = 0; f < degenerate.length; f++, k += 3) {
-    if (degenerate[f]) continue;
+  for (let f = 0, k = 0; f < flags.length; f++, k += 3) {
+    if (flags[f]) continue;
     const a = ids[k], b = ids[k + 1], c = ids[k + 2];
     if (parent[a] < 0) parent[a] = a;
     if (parent[b] < 0) parent[b] = b;
@@ -313,11 +427,195 @@ function union(parent: Int32Array, a: number, b: number): void {
   if (ra !== rb) parent[ra > rb ? ra : rb] = ra > rb ? rb : ra;
 }
 
+interface Orientation {
+  /** Facets wound against the majority of their edge-connected patch. */
+  reversedFacets: number;
+  insideOutShells: number;
+  /** Edges where no choice of flips makes the patch consistent (a one-sided surface). */
+  unorientable: number;
+  /** Six times the enclosed volume once reversed facets and inside-out patches are flipped. */
+  sixVolume: number;
+}
+
+/** Cavity tests (one ray each through every other facet) are run for at most this many patches. */
+const MAX_CAVITY_TESTS = 32;
+
+/**
+ * Works out which facets to flip, when the quick check found edges run the same way by both their
+ * facets or more than one shell. Facets sharing a two-facet edge are joined in a union-find that
+ * also keeps each facet's winding relative to its root (flipped or not), so every edge-connected
+ * patch ends up with two camps; the smaller camp is the reversed facets. A patch whose volume,
+ * counted with the larger camp's winding, is negative is inside out, unless a ray from it crosses
+ * another patch an odd number of times (then it is a cavity, wound inward on purpose).
+ */
+function orientShells(ids: Uint32Array, flags: Uint8Array, coords: Float32Array, vertices: number): Orientation {
+  const facets = flags.length;
+  // Half-edges bucketed by lower vertex, as in countEdgeUse, but holding the half-edge index.
+  const offsets = new Uint32Array(vertices + 1);
+  for (let f = 0, k = 0; f < facets; f++, k += 3) {
+    if (flags[f]) continue;
+    const a = ids[k], b = ids[k + 1], c = ids[k + 2];
+    offsets[a < b ? a : b]++;
+    offsets[b < c ? b : c]++;
+    offsets[c < a ? c : a]++;
+  }
+  let end = 0;
+  for (let v = 0; v < vertices; v++) offsets[v] = end += offsets[v];
+  offsets[vertices] = end;
+  const halves = new Uint32Array(end);
+  const next = (h: number) => (h % 3 === 2 ? h - 2 : h + 1);
+  for (let f = 0, k = 0; f < facets; f++, k += 3) {
+    if (flags[f]) continue;
+    for (let h = k; h < k + 3; h++) {
+      const a = ids[h], b = ids[next(h)];
+      halves[--offsets[a < b ? a : b]] = h;
+    }
+  }
+  const higher = (h: number) => Math.max(ids[h], ids[next(h)]);
+
+  const parent = new Int32Array(facets);
+  const parity = new Uint8Array(facets);
+  for (let f = 0; f < facets; f++) parent[f] = f;
+  const root = (f: number): number => {
+    let p = 0;
+    let x = f;
+    while (parent[x] !== x) {
+      p ^= parity[x];
+      x = parent[x];
+    }
+    // Compress: point f straight at the root with its accumulated parity.
+    let y = f;
+    let q = p;
+    while (parent[y] !== y) {
+      const up = parent[y];
+      const before = parity[y];
+      parent[y] = x;
+      parity[y] = q;
+      q ^= before;
+      y = up;
+    }
+    return x;
+  };
+
+  let unorientable = 0;
+  for (let v = 0; v < vertices; v++) {
+    const start = offsets[v], stop = offsets[v + 1];
+    // Insertion sort by the other end: buckets are small.
+    for (let i = start + 1; i < stop; i++) {
+      const h = halves[i];
+      const key = higher(h);
+      let j = i - 1;
+      while (j >= start && higher(halves[j]) > key) {
+        halves[j + 1] = halves[j];
+        j--;
+      }
+      halves[j + 1] = h;
+    }
+    for (let i = start; i < stop; ) {
+      let j = i + 1;
+      while (j < stop && higher(halves[j]) === higher(halves[i])) j++;
+      if (j - i === 2) {
+        const h1 = halves[i], h2 = halves[i + 1];
+        // Same direction along the edge: one of the two facets must be flipped.
+        const flip = ids[h1] === ids[h2] ? 1 : 0;
+        const f1 = (h1 / 3) | 0, f2 = (h2 / 3) | 0;
+        const r1 = root(f1), r2 = root(f2);
+        const p1 = parity[f1] & (f1 === r1 ? 0 : 1), p2 = parity[f2] & (f2 === r2 ? 0 : 1);
+        if (r1 === r2) {
+          if ((p1 ^ p2) !== flip) unorientable++;
+        } else {
+          parent[r2] = r1;
+          parity[r2] = p1 ^ p2 ^ flip;
+        }
+      }
+      i = j;
+    }
+  }
+
+  // Per patch: facets in each camp and six times the volume with the root's own winding.
+  const camp = new Int32Array(facets);
+  const sixVolume = new Float64Array(facets);
+  const patchOf = new Int32Array(facets);
+  const [ox, oy, oz] = [coords[0], coords[1], coords[2]];
+  for (let f = 0, k = 0; f < facets; f++, k += 3) {
+    if (flags[f]) {
+      patchOf[f] = -1;
+      continue;
+    }
+    const r = root(f);
+    const p = f === r ? 0 : parity[f];
+    patchOf[f] = r;
+    camp[r] += p ? 1 : -1;
+    const a = ids[k] * 3, b = ids[k + 1] * 3, c = ids[k + 2] * 3;
+    const ax = coords[a] - ox, ay = coords[a + 1] - oy, az = coords[a + 2] - oz;
+    const bx = coords[b] - ox, by = coords[b + 1] - oy, bz = coords[b + 2] - oz;
+    const cx = coords[c] - ox, cy = coords[c + 1] - oy, cz = coords[c + 2] - oz;
+    const v6 = ax * (by * cz - bz * cy) + ay * (bz * cx - bx * cz) + az * (bx * cy - by * cx);
+    sixVolume[r] += p ? -v6 : v6;
+  }
+
+  let reversedFacets = 0;
+  let insideOutShells = 0;
+  let total = 0;
+  let cavityTests = 0;
+  const counts = new Int32Array(facets);
+  for (let f = 0; f < facets; f++) if (patchOf[f] >= 0) counts[patchOf[f]]++;
+  for (let r = 0; r < facets; r++) {
+    if (patchOf[r] !== r) continue;
+    // camp = (flipped) − (unflipped); the smaller camp is reversed.
+    const flipped = (counts[r] + camp[r]) / 2;
+    const kept = counts[r] - flipped;
+    const majorityFlipped = flipped > kept;
+    reversedFacets += Math.min(flipped, kept);
+    const volume = majorityFlipped ? -sixVolume[r] : sixVolume[r];
+    if (volume >= 0) {
+      total += volume;
+    } else if (cavityTests++ < MAX_CAVITY_TESTS && insideAnotherPatch(r, ids, coords, patchOf)) {
+      total += volume;
+    } else {
+      insideOutShells++;
+      total -= volume;
+    }
+  }
+  return { reversedFacets, insideOutShells, unorientable, sixVolume: Math.abs(total) };
+}
+
+/** Casts a ray from a corner of the patch and counts crossings of other patches' facets (odd means inside). */
+function insideAnotherPatch(patch: number, ids: Uint32Array, coords: Float32Array, patchOf: Int32Array): boolean {
+  const p = ids[patch * 3] * 3;
+  const px = coords[p], py = coords[p + 1], pz = coords[p + 2];
+  // An oblique direction, so the ray is unlikely to graze an edge of an axis-aligned mesh.
+  const dx = 0.5773502691896258, dy = 0.5776502691896258, dz = 0.5770502691896258;
+  let crossings = 0;
+  for (let f = 0, k = 0; f < patchOf.length; f++, k += 3) {
+    const other = patchOf[f];
+    if (other < 0 || other === patch) continue;
+    // Möller–Trumbore ray–triangle intersection.
+    const a = ids[k] * 3, b = ids[k + 1] * 3, c = ids[k + 2] * 3;
+    const e1x = coords[b] - coords[a], e1y = coords[b + 1] - coords[a + 1], e1z = coords[b + 2] - coords[a + 2];
+    const e2x = coords[c] - coords[a], e2y = coords[c + 1] - coords[a + 1], e2z = coords[c + 2] - coords[a + 2];
+    const hx = dy * e2z - dz * e2y, hy = dz * e2x - dx * e2z, hz = dx * e2y - dy * e2x;
+    const det = e1x * hx + e1y * hy + e1z * hz;
+    if (det === 0) continue;
+    const inv = 1 / det;
+    const sx = px - coords[a], sy = py - coords[a + 1], sz = pz - coords[a + 2];
+    const u = (sx * hx + sy * hy + sz * hz) * inv;
+    if (u < 0 || u > 1) continue;
+    const qx = sy * e1z - sz * e1y, qy = sz * e1x - sx * e1z, qz = sx * e1y - sy * e1x;
+    const w = (dx * qx + dy * qy + dz * qz) * inv;
+    if (w < 0 || u + w > 1) continue;
+    if ((e2x * qx + e2y * qy + e2z * qz) * inv > 0) crossings++;
+  }
+  return crossings % 2 === 1;
+}
+
 const plural = (n: number, one: string, many: string) => `${n.toLocaleString('en-US')} ${n === 1 ? one : many}`;
 
-function describeProblems(m: MeshAnalysis): string[] {
+const formatVolume = (mm3: number) => `${Math.round(mm3).toLocaleString('en-US')} mm³`;
+
+function describeProblems(m: MeshAnalysis, unorientable: number): string[] {
   const warnings: string[] = [];
-  if (m.degenerateFacets === m.facets) {
+  if (m.degenerateFacets + m.zeroAreaFacets === m.facets) {
     warnings.push('Every facet has zero area, so there is no solid shape to print; export the part again.');
     return warnings;
   }
@@ -329,13 +627,31 @@ function describeProblems(m: MeshAnalysis): string[] {
       `The mesh is not watertight: ${parts.join(' and ')}. Its volume is unreliable and it may print with gaps; repair the mesh and export it again.`,
     );
   }
-  if (m.insideOut) {
-    warnings.push('The facets are wound inside out (the enclosed volume comes out negative); flip the normals before exporting.');
-  }
-  if (m.degenerateFacets > 0) {
+  const asWound = `summed as wound in the file it reads ${m.signedVolumeMm3 < 0 ? '−' : ''}${formatVolume(Math.abs(m.signedVolumeMm3))}`;
+  if (m.reversedFacets > 0) {
     warnings.push(
-      `${plural(m.degenerateFacets, 'facet has', 'facets have')} zero area (repeated or collinear corners); they add nothing to the shape and can upset repair tools.`,
+      `${plural(m.reversedFacets, 'facet is', 'facets are')} wound backwards against the rest of ${m.shells === 1 ? 'the shell' : 'their shell'}. The volume shown (${formatVolume(m.volumeMm3)}) is that of the mesh with ${m.reversedFacets === 1 ? 'it' : 'them'} flipped; ${asWound}. Fix the facet orientation before exporting.`,
     );
+  }
+  if (unorientable > 0) {
+    warnings.push(
+      `The facets cannot be wound consistently (${plural(unorientable, 'edge contradicts', 'edges contradict')} the rest, as on a one-sided surface); the volume is unreliable. Repair the mesh and export it again.`,
+    );
+  }
+  if (m.insideOutShells > 0) {
+    if (m.insideOutShells === m.shells) {
+      warnings.push('The facets are wound inside out (the enclosed volume comes out negative); flip the normals before exporting.');
+    } else {
+      warnings.push(
+        `${m.insideOutShells} of the ${m.shells} shells ${m.insideOutShells === 1 ? 'is' : 'are'} wound inside out. The volume shown (${formatVolume(m.volumeMm3)}) counts ${m.insideOutShells === 1 ? 'it' : 'them'} as solid; ${asWound}. Flip ${m.insideOutShells === 1 ? 'its' : 'their'} normals before exporting.`,
+      );
+    }
+  }
+  if (m.degenerateFacets > 0 || m.zeroAreaFacets > 0) {
+    const parts: string[] = [];
+    if (m.degenerateFacets > 0) parts.push(`${plural(m.degenerateFacets, 'facet has', 'facets have')} a repeated corner`);
+    if (m.zeroAreaFacets > 0) parts.push(`${plural(m.zeroAreaFacets, 'facet has', 'facets have')} three corners in a line`);
+    warnings.push(`${parts.join(' and ')}, so zero area; they add nothing to the shape and can upset repair tools.`);
   }
   if (m.shells > 1) {
     warnings.push(

@@ -1,4 +1,5 @@
-export { analyseModelFile, analyseTriangles, MeshAccumulator, MM_PER_INCH } from './analysis';
+export { analyseModelFile, analyseTriangles, MeshAccumulator, MM_PER_INCH, WELD_TOLERANCE_PER_DIAGONAL } from './analysis';
+export { meshConcerns, type MeshSoundness } from './concerns';
 export {
   declaredFacetCount,
   describeNonMeshBytes,
@@ -8,6 +9,9 @@ export {
   PositionCollector,
   readAsciiStl,
   readBinaryStl,
+  readBinaryStlFacets,
+  BINARY_STL_FACET_BYTES,
+  BINARY_STL_PREFIX_BYTES,
   type ParsedStl,
   type StlFormat,
 } from './stl';

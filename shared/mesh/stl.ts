@@ -138,20 +138,33 @@ function looksLikeText(bytes: Uint8Array): boolean {
 
 /** Reads a binary STL in one pass, handing each facet to the sink; returns the facet count. */
 export function readBinaryStl(bytes: Uint8Array, sink: FacetSink): number {
-  const view = new DataView(bytes.buffer, bytes.byteOffset, bytes.byteLength);
-  const facets = view.getUint32(HEADER_BYTES, true);
+  const facets = declaredFacetCount(bytes);
+  readBinaryStlFacets(bytes.subarray(BINARY_PREFIX, BINARY_PREFIX + FACET_BYTES * facets), 0, sink);
+  return facets;
+}
+
+/** Bytes before the first facet of a binary STL, and bytes per facet. */
+export const BINARY_STL_PREFIX_BYTES = BINARY_PREFIX;
+export const BINARY_STL_FACET_BYTES = FACET_BYTES;
+
+/**
+ * Reads whole 50-byte facet records (a binary STL without its 84-byte prefix, or a run of it read
+ * in pieces); `firstFacet` is the index of the first record, for error messages.
+ */
+export function readBinaryStlFacets(records: Uint8Array, firstFacet: number, sink: FacetSink): void {
+  const view = new DataView(records.buffer, records.byteOffset, records.byteLength);
+  const facets = Math.floor(records.byteLength / FACET_BYTES);
   // Start at the first vertex: the stored normal is ignored because the winding defines it.
-  let o = BINARY_PREFIX + 12;
+  let o = 12;
   for (let f = 0; f < facets; f++, o += FACET_BYTES) {
     const ax = view.getFloat32(o, true), ay = view.getFloat32(o + 4, true), az = view.getFloat32(o + 8, true);
     const bx = view.getFloat32(o + 12, true), by = view.getFloat32(o + 16, true), bz = view.getFloat32(o + 20, true);
     const cx = view.getFloat32(o + 24, true), cy = view.getFloat32(o + 28, true), cz = view.getFloat32(o + 32, true);
     // One test for all nine: float32 values cannot overflow a double sum, so only NaN or ±Infinity makes s − s non-zero.
     const s = ax + ay + az + bx + by + bz + cx + cy + cz;
-    if (s - s !== 0) throw nonFiniteFacet(f);
+    if (s - s !== 0) throw nonFiniteFacet(firstFacet + f);
     sink.addFacet(ax, ay, az, bx, by, bz, cx, cy, cz);
   }
-  return facets;
 }
 
 export function nonFiniteFacet(index: number): MeshError {
@@ -167,7 +180,7 @@ export function readAsciiStl(bytes: Uint8Array, sink: FacetSink): number {
   let facets = 0;
   for (let tok = lex.next(); tok !== null; tok = lex.next()) {
     if (tok.toLowerCase() !== 'solid') throw lex.syntax(`expected "solid" or the end of the file but found "${clip(tok)}"`);
-    lex.skipLine();
+    lex.skipName('facet', 'endsolid');
     facets += readSolid(lex, sink);
   }
   if (facets === 0) throw noFacets();
@@ -181,7 +194,7 @@ function readSolid(lex: AsciiLexer, sink: FacetSink): number {
     if (tok === null) return facets; // a missing "endsolid" loses nothing
     const word = tok.toLowerCase();
     if (word === 'endsolid') {
-      lex.skipLine();
+      lex.skipName('solid');
       return facets;
     }
     if (word !== 'facet') throw lex.syntax(`expected "facet" or "endsolid" but found "${clip(tok)}"`);
@@ -227,7 +240,10 @@ class AsciiLexer {
 
   constructor(private readonly text: string) {}
 
-  /** Next whitespace-separated token, or null at the end. Control characters (including NUL padding) count as whitespace. */
+  /**
+   * Next whitespace-separated token, or null at the end. Control characters (including NUL
+   * padding) count as whitespace; a line ends at LF, CR LF or a lone CR.
+   */
   next(): string | null {
     const text = this.text;
     const n = text.length;
@@ -235,6 +251,7 @@ class AsciiLexer {
     for (; p < n; p++) {
       const c = text.charCodeAt(p);
       if (c === 10) this.line++;
+      else if (c === 13 && text.charCodeAt(p + 1) !== 10) this.line++;
       else if (c > 32) break;
     }
     if (p >= n) {
@@ -260,10 +277,32 @@ class AsciiLexer {
     return tok;
   }
 
-  /** Skips the rest of the current line (a solid's name). */
-  skipLine(): void {
-    const end = this.text.indexOf('\n', this.pos);
-    this.pos = end < 0 ? this.text.length : end;
+  /**
+   * Skips a solid's name: the rest of the line, but no further than a word that starts what follows
+   * (files written on one line, or with line endings we would not see, have no line to end it).
+   */
+  skipName(...stopWords: string[]): void {
+    const text = this.text;
+    const n = text.length;
+    let p = this.pos;
+    for (;;) {
+      while (p < n && text.charCodeAt(p) <= 32) {
+        const c = text.charCodeAt(p);
+        if (c === 10 || c === 13) {
+          this.pos = p;
+          return;
+        }
+        p++;
+      }
+      if (p >= n) break;
+      const start = p;
+      while (p < n && text.charCodeAt(p) > 32) p++;
+      if (stopWords.includes(text.slice(start, p).toLowerCase())) {
+        this.pos = start;
+        return;
+      }
+    }
+    this.pos = p;
   }
 
   expect(tok: string, word: string, shown: string): void {

@@ -9,16 +9,33 @@ export interface MeshAnalysis {
   sizeMm: Vec3;
   min: Vec3;
   max: Vec3;
-  /** Enclosed volume; only meaningful when the mesh is watertight. */
+  /**
+   * Enclosed volume of the mesh with its winding made consistent: facets wound against the rest of
+   * their shell, and shells wound inside out, count as if flipped (`volumeRepaired` says when that
+   * changed anything). Only meaningful when the mesh is watertight.
+   */
   volumeMm3: number;
-  /** Σ v1·(v2×v3)/6 over all facets; negative when the facets are wound inside out. */
+  /** Σ v1·(v2×v3)/6 over all facets as wound in the file; negative when they are wound inside out. */
   signedVolumeMm3: number;
+  /** True when `volumeMm3` counts reversed facets, or some but not all shells, as flipped. */
+  volumeRepaired: boolean;
+  /** Some shell encloses negative volume (and is not a cavity inside another shell). */
   insideOut: boolean;
+  /** Shells wound inside out as a whole. */
+  insideOutShells: number;
+  /** Every edge shared by two facets is used once in each direction, and each shell can be oriented. */
+  windingConsistent: boolean;
+  /** Facets wound against the majority of their shell (the ones a repair flips). */
+  reversedFacets: number;
+  /** Edges whose two facets run along them in the same direction. */
+  misorientedEdges: number;
   areaMm2: number;
   facets: number;
-  /** Facets with zero area (repeated or collinear corners). */
+  /** Facets with a repeated corner (two corners weld to one vertex); they have zero area. */
   degenerateFacets: number;
-  /** Every edge (between welded vertices, ignoring degenerate facets) is shared by exactly two facets. */
+  /** Facets with three distinct corners in a line: zero area too. */
+  zeroAreaFacets: number;
+  /** Every edge (between welded vertices, ignoring zero-area facets) is shared by exactly two facets. */
   watertight: boolean;
   /** Edges used by only one facet: the rims of holes. */
   openEdges: number;
@@ -26,6 +43,15 @@ export interface MeshAnalysis {
   nonManifoldEdges: number;
   /** Connected pieces (facets joined through shared vertices). */
   shells: number;
+  /** Distinct vertices after welding. */
+  vertices: number;
+  /**
+   * Vertices closer than `weldToleranceMm` to another, merged before the final edge checks (exact
+   * duplicates not counted). Only tried when exact welding leaves open edges.
+   */
+  weldedVertices: number;
+  /** Welding tolerance: a millionth of the bounding-box diagonal. */
+  weldToleranceMm: number;
   /** Plain sentences for the contributor; empty when nothing looks wrong. */
   warnings: string[];
 }

@@ -62,6 +62,16 @@ export const estimateSchema = z
     topBottomLayers: recipe.topBottomLayers,
     infillPct: recipe.infillPct,
     speedMmS: recipe.speedMmS.optional(),
+    accelerationMmS2: z
+      .number({ error: 'Enter the acceleration in mm/s².' })
+      .min(50, 'The acceleration must be between 50 and 50,000 mm/s².')
+      .max(50_000, 'The acceleration must be between 50 and 50,000 mm/s².')
+      .optional(),
+    travelSpeedMmS: z
+      .number({ error: 'Enter the travel speed in mm/s.' })
+      .min(5, 'The travel speed must be between 5 and 1,000 mm/s.')
+      .max(1000, 'The travel speed must be between 5 and 1,000 mm/s.')
+      .optional(),
     pricePerKg: money('price per kg', 10_000).optional(),
     printerWatts: z.number({ error: 'Enter the printer’s power in watts.' }).positive('The printer’s power must be more than 0 W.').max(10_000, 'The printer’s power must be at most 10,000 W.').optional(),
     pricePerKwh: money('price per kWh', 100).optional(),
@@ -88,6 +98,11 @@ const printerFields = {
   name: z.string({ error: 'Name the printer.' }).trim().min(1, 'Name the printer.').max(80, 'Keep the name to 80 characters or fewer.'),
   bedMm: z.tuple([side('bed size'), side('bed size'), side('bed size')], { error: 'Give the bed as three sizes: x, y and z in mm.' }),
   nozzleMm: recipe.nozzleMm,
+  bedMarginMm: z
+    .number({ error: 'Enter the margin in mm.' })
+    .min(0, 'The margin cannot be negative.')
+    .max(50, 'The margin must be at most 50 mm.')
+    .optional(),
   watts: z.number({ error: 'Enter the power in watts.' }).int('Enter the power in whole watts.').positive('The power must be more than 0 W.').max(10_000, 'The power must be at most 10,000 W.').nullable().optional(),
   notes: optionalText('notes', 2000),
 };

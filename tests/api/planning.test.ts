@@ -88,7 +88,7 @@ afterAll(async () => {
 describe('planning · estimate', () => {
   it('estimate · a published model file, solid PLA · weighs the 20 mm cube at 9.92 g', async () => {
     // Trade reference: PLA 1.24 g/cm³ (UL Prospector, ISO 1183): 8 cm³ × 1.24 = 9.92 g; at 100 % infill
-    // estimatePrint caps walls + skins + infill at the solid volume, so nothing is counted twice.
+    // walls + skins + infill fill every layer exactly once, so nothing is counted twice.
     const visitor = await agentFor(t.app);
     const res = await visitor.post('/api/estimate').send({ fileId: cubeModel, ...solidPlaFigures });
     expect(res.status).toBe(200);
@@ -102,6 +102,32 @@ describe('planning · estimate', () => {
     expect(res.body.cost).toBeCloseTo(0.1984, 6);
     expect(res.body.geometry).toMatchObject({ source: 'file', fileId: cubeModel, partId: cubePart, sizeMm: [20, 20, 20] });
     expect(res.body.assumptions.length).toBeGreaterThan(3);
+    expect(res.body.method).toBe('slices');
+    expect(res.body.assumptions.join(' ')).toMatch(/Sliced from the mesh: 100 layers of 0\.2 mm/);
+  });
+
+  it('estimate · the cube file at 2 walls, 4 top/bottom, 20 % · sliced layers give the hand-worked split', async () => {
+    // d = 2 × 0.45 mm: walls (20² − 18.2²) × 20 = 1375.2 mm³, skins 8 × 0.2 × 18.2² = 529.984 mm³,
+    // infill 0.2 × 92 × 0.2 × 18.2² = 1218.9632 mm³ (the same hand computation as the unit tests).
+    const res = await stranger.post('/api/estimate').send({ fileId: cubeModel, ...solidPlaFigures, infillPct: 20, walls: 2, topBottomLayers: 4 });
+    expect(res.status).toBe(200);
+    expect(res.body.method).toBe('slices');
+    expect(res.body.partsMm3.walls).toBeCloseTo(1375.2, 0);
+    expect(res.body.partsMm3.skins).toBeCloseTo(529.984, 0);
+    expect(res.body.partsMm3.infill).toBeCloseTo(1218.9632, 0);
+    const quick = await stranger.post('/api/estimate').send({ volumeMm3: 8000, areaMm2: 2400, sizeMm: [20, 20, 20], ...solidPlaFigures, infillPct: 20, walls: 2, topBottomLayers: 4 });
+    expect(quick.body.method).toBe('figures');
+    expect(quick.body.massG).toBeCloseTo(res.body.massG, 3); // a cube is the prism the quick estimate assumes
+  });
+
+  it('estimate · acceleration and travel speed · slower acceleration never prints faster; out of range is 422', async () => {
+    const figures = { volumeMm3: 8000, areaMm2: 2400, sizeMm: [20, 20, 20], ...solidPlaFigures, infillPct: 20 };
+    const slow = await stranger.post('/api/estimate').send({ ...figures, accelerationMmS2: 300 });
+    const fast = await stranger.post('/api/estimate').send({ ...figures, accelerationMmS2: 3000 });
+    expect(slow.body.timeMin).toBeGreaterThan(fast.body.timeMin);
+    const bad = await stranger.post('/api/estimate').send({ ...figures, travelSpeedMmS: 0 });
+    expect(bad.status).toBe(422);
+    expect(bad.body.error.fields.travelSpeedMmS).toMatch(/between 5 and 1,000 mm\/s/);
   });
 
   it('estimate · raw figures · gives the same answer without a file', async () => {
@@ -174,7 +200,7 @@ describe('planning · printers', () => {
   it('printers · create, list, change, delete · only for the owner', async () => {
     const created = await stranger.post('/api/printers').send({ name: 'Bench printer', bedMm: [180, 180, 180], nozzleMm: 0.4, watts: 90, notes: 'By the window' });
     expect(created.status).toBe(201);
-    expect(created.body).toMatchObject({ name: 'Bench printer', bedMm: [180, 180, 180], nozzleMm: 0.4, watts: 90, notes: 'By the window' });
+    expect(created.body).toMatchObject({ name: 'Bench printer', bedMm: [180, 180, 180], bedMarginMm: 5, nozzleMm: 0.4, watts: 90, notes: 'By the window' });
     const id = created.body.id;
     expect((await stranger.get('/api/printers')).body.items.map((p: { id: number }) => p.id)).toContain(id);
     expect((await owner.get('/api/printers')).body.items.map((p: { id: number }) => p.id)).not.toContain(id);
@@ -188,6 +214,16 @@ describe('planning · printers', () => {
     expect(patched.body).toMatchObject({ name: 'Bench printer v2', watts: null, bedMm: [180, 180, 180] });
     expect((await stranger.delete(`/api/printers/${id}`)).status).toBe(204);
     expect((await stranger.get(`/api/printers/${id}`)).status).toBe(404);
+  });
+
+  it('printers · brim margin · 5 mm a side unless set, changeable, and a negative one refused', async () => {
+    const created = await stranger.post('/api/printers').send({ name: 'Margin printer', bedMm: [200, 200, 200], nozzleMm: 0.4, bedMarginMm: 8 }).expect(201);
+    expect(created.body.bedMarginMm).toBe(8);
+    const patched = await stranger.patch(`/api/printers/${created.body.id}`).send({ bedMarginMm: 0 }).expect(200);
+    expect(patched.body.bedMarginMm).toBe(0);
+    const bad = await stranger.post('/api/printers').send({ name: 'Bad margin', bedMm: [200, 200, 200], nozzleMm: 0.4, bedMarginMm: -1 });
+    expect(bad.status).toBe(422);
+    expect(bad.body.error.fields.bedMarginMm).toMatch(/cannot be negative/);
   });
 
   it('printers · bad sizes, an empty change, visitors · 422 and 401', async () => {
@@ -441,6 +477,9 @@ describe('planning · summary and export', () => {
     expect(summary.items[2].total!.energyCost).toBeNull();
     expect(summary.totals.energyIncluded).toBe('some');
     expect(summary.totals.printCost).toBeCloseTo(summary.totals.filamentCost + summary.totals.energyCost, 9);
+    // every item's model was cut into layers (a failure would leave a note and a quick estimate)
+    expect(summary.items.flatMap((i: { notes: string[] }) => i.notes).join(' ')).not.toMatch(/could not be sliced/);
+    expect(summary.assumptions.join(' ')).toMatch(/cut into layers at the recipe’s layer height/);
   });
 
   it('summary · buy or print · bought price against print cost, and the printer payback', () => {

@@ -3,7 +3,7 @@ import { afterAll, beforeAll, beforeEach, describe, expect, it } from 'vitest';
 import type { Role } from '@shared/types';
 import { AuditEvent, PartRevision } from '../../server/db/models';
 import { agentFor, createTestApp, makeUser, type TestApp } from '../helpers/app';
-import { boxStl } from '../helpers/meshes';
+import { boxStl, boxStlWithReversedFacets } from '../helpers/meshes';
 import { seedBodies, setReadyRecipe, submission } from '../helpers/parts';
 
 let t: TestApp;
@@ -74,6 +74,22 @@ describe('review · queue', () => {
     expect(item.warnings).toContain('No photo of a real print');
     const cold = res.body.items.find((i: { partId: number }) => i.partId === warm);
     expect(cold.warnings.join(' ')).toMatch(/Hotend 190 °C is below PETG/);
+  });
+
+  it('a model with three facets wound backwards · the moderator sees it in the warnings before approving', async () => {
+    const res = await member
+      .post('/api/parts')
+      .field('data', JSON.stringify(submission({ title: 'Backwards facets' })))
+      .attach('model', boxStlWithReversedFacets(20, 30, 10, 3), 'bracket.stl');
+    expect(res.status).toBe(201);
+    const queue = await modA.get('/api/review/queue');
+    const item = queue.body.items.find((i: { partId: number }) => i.partId === res.body.id);
+    expect(item.warnings).toContain('bracket.stl: 3 facets wound backwards');
+    expect(item.warnings).toContain('bracket.stl: volume counted with the wrongly wound facets flipped');
+    const part = await modA.get(`/api/parts/${res.body.id}`);
+    // 20 × 30 × 10 = 6,000 mm³ (box volume) once the three facets are counted flipped.
+    expect(part.body.files[0].analysis).toMatchObject({ reversedFacets: 3, windingConsistent: false, volumeRepaired: true, watertight: true });
+    expect(part.body.files[0].analysis.volumeMm3).toBeCloseTo(6000, 6);
   });
 
   it('is for moderators and admins only', async () => {

@@ -17,3 +17,15 @@ export function boxStl(x: number, y: number, z: number): Buffer {
   return toBuffer(stlSerializer.serialize({ binary: true }, transforms.translate([0, 0, z / 2], primitives.cuboid({ size: [x, y, z] }))));
 }
 
+
+/** A binary STL box with the winding of its first `reversed` facets turned backwards (second and third corners swapped). */
+export function boxStlWithReversedFacets(x: number, y: number, z: number, reversed: number): Buffer {
+  const bytes = Buffer.from(boxStl(x, y, z));
+  for (let f = 0; f < reversed; f++) {
+    const second = 84 + 50 * f + 24;
+    const copy = Buffer.from(bytes.subarray(second, second + 12));
+    bytes.copy(bytes, second, second + 12, second + 24);
+    copy.copy(bytes, second + 12);
+  }
+  return bytes;
+}

@@ -1,9 +1,9 @@
 import { describe, expect, it } from 'vitest';
 import {
-  FLOW_EFFICIENCY,
-  LAYER_OVERHEAD_S,
+  DEFAULT_ACCELERATION_MM_S2,
   LINE_WIDTH_PER_NOZZLE,
   estimatePrint,
+  trapezoidTimeS,
   filamentLengthM,
   fitOnBed,
   spoolsNeeded,
@@ -35,38 +35,62 @@ describe('estimatePrint', () => {
     expect(estimate.lengthM['2.85']).toBeCloseTo(126.4, 1);
   });
 
-  it('works an example by hand from the documented model', () => {
-    // Line width 0.4 × 1.125 = 0.45 mm (common practice).
-    // Walls 2400 × 2 × 0.45 = 2160 mm³; skins 400 × 4 × 0.2 × 2 = 640 mm³;
-    // infill 20 % × (8000 − 2160 − 640) = 1040 mm³; total 3840 mm³ → 3.84 cm³ × 1.24 = 4.7616 g.
-    // Time 3840 / (60 × 0.2 × 0.45 × 0.6) = 1185.19 s, plus 100 layers × 6 s = 1785.19 s = 29.753 min.
-    // Cost at the default 20 per kg: 4.7616 g → 0.095232.
+  it('quick estimate · 20 mm cube, 2 walls, 4 top/bottom, 20 % · walls, skins and infill worked by hand', () => {
+    // Line width 0.4 × 1.125 = 0.45 mm (common practice); d = 2 × 0.45 = 0.9 mm.
+    // Prism of the mean cross-section 8000 / 20 = 400 mm², outline (2400 − 2·400) / 20 = 80 mm.
+    // Inset area 400 − 80·0.9 + 4·0.9² = 331.24 mm² (= 18.2², a square inset by 0.9 on each side).
+    // Walls (400 − 331.24) × 0.2 × 100 layers = 1375.2 mm³; skins 331.24 × 0.2 × 8 layers = 529.984 mm³;
+    // infill 0.2 × 331.24 × 0.2 × 92 layers = 1218.9632 mm³; total 3124.1472 mm³ → × 1.24 g/cm³ = 3.874 g.
     expect(LINE_WIDTH_PER_NOZZLE).toBe(1.125);
-    expect(FLOW_EFFICIENCY).toBe(0.6);
-    expect(LAYER_OVERHEAD_S).toBe(6);
     const estimate = estimatePrint(cube20, pla);
-    expect(estimate.volumeMm3).toBeCloseTo(3840, 9);
-    expect(estimate.massG).toBeCloseTo(4.7616, 9);
-    expect(estimate.timeMin).toBeCloseTo(1785.185185 / 60, 5);
-    expect(estimate.cost).toBeCloseTo(0.095232, 9);
+    expect(estimate.partsMm3.walls).toBeCloseTo(1375.2, 6);
+    expect(estimate.partsMm3.skins).toBeCloseTo(529.984, 6);
+    expect(estimate.partsMm3.infill).toBeCloseTo(1218.9632, 6);
+    expect(estimate.massG).toBeCloseTo(3.1241472 * 1.24, 9);
+    expect(estimate.cost).toBeCloseTo((estimate.massG / 1000) * 20, 9); // default 20 per kg
+    expect(estimate.method).toBe('figures');
     expect(estimate.assumptions.join(' ')).toMatch(/nozzle × 1\.125 \(common practice\)/);
+    expect(estimate.assumptions.join(' ')).toMatch(/trapezoidal profile/);
     expect(estimate.assumptions.join(' ')).toMatch(/Electricity not included/);
   });
 
   it('adds electricity when watts and a price per kWh are given', () => {
-    // 120 W × 29.753 min = 59.506 Wh = 0.059506 kWh; × 0.30 per kWh = 0.017852.
+    const plain = estimatePrint(cube20, pla);
     const estimate = estimatePrint(cube20, { ...pla, printerWatts: 120, pricePerKwh: 0.3 });
-    expect(estimate.cost).toBeCloseTo(0.095232 + (120 * (1785.185185 / 3600)) / 1000 * 0.3, 6);
+    // kWh = W × h / 1000.
+    expect(estimate.cost).toBeCloseTo(plain.cost + ((120 * (plain.timeMin / 60)) / 1000) * 0.3, 9);
     expect(estimate.assumptions.at(-1)).toMatch(/^Electricity: 120 W/);
   });
 
-  it('does not charge a hollow tube a full slab of top and bottom skin', () => {
+  it('quick estimate · flat plate 100 × 40 × 3 mm, 2 walls, 4 top/bottom, 0 % infill · about 9 g, not the solid 14.9 g', () => {
+    // Inset (100 − 1.8)(40 − 1.8) = 3751.24 mm²; walls (4000 − 3751.24) × 3 = 746.28 mm³;
+    // skins 3751.24 × 0.2 × 8 = 6001.98 mm³; no infill → 6748.26 mm³ × 1.24 = 8.368 g
+    // (the audit's "about 9 g"; solid would be 12,000 mm³ = 14.88 g).
+    const plate: PartGeometry = { volumeMm3: 12_000, areaMm2: 2 * (4000 + 300 + 120), sizeMm: [100, 40, 3] };
+    const estimate = estimatePrint(plate, { ...pla, infillPct: 0 });
+    expect(estimate.massG).toBeCloseTo(6.74826 * 1.24, 4);
+    expect(estimate.massG).toBeGreaterThan(8);
+    expect(estimate.massG).toBeLessThan(10);
+    // Infill now matters on a thin plate: 15 layers − 8 skin layers leave 7 sparse ones.
+    expect(estimatePrint(plate, { ...pla, infillPct: 50 }).massG).toBeGreaterThan(estimate.massG + 1);
+  });
+
+  it('trapezoidTimeS · long and short moves · s/v + v/a, or 2√(s/a) when v is never reached (constant-acceleration kinematics)', () => {
+    // v = 50 mm/s, a = 1000 mm/s²: full speed needs v²/a = 2.5 mm.
+    expect(trapezoidTimeS(20, 50, 1000)).toBeCloseTo(20 / 50 + 50 / 1000, 12);
+    expect(trapezoidTimeS(1, 50, 1000)).toBeCloseTo(2 * Math.sqrt(1 / 1000), 12);
+    expect(trapezoidTimeS(2.5, 50, 1000)).toBeCloseTo(0.1, 12); // both formulas meet at s = v²/a
+    expect(trapezoidTimeS(0, 50, 1000)).toBe(0);
+    expect(DEFAULT_ACCELERATION_MM_S2).toBe(1000);
+  });
+
+  it('the hollow tube · never charged more than its solid ring', () => {
     // Tube 20 mm outside, 16 mm inside, 100 mm tall: cross-section π(10² − 8²) = 113.097 mm².
     const annulus = Math.PI * (100 - 64);
     const area = 2 * Math.PI * 10 * 100 + 2 * Math.PI * 8 * 100 + 2 * annulus;
     const tube: PartGeometry = { volumeMm3: annulus * 100, areaMm2: area, sizeMm: [20, 20, 100] };
     const estimate = estimatePrint(tube, { ...pla, walls: 1, infillPct: 0 });
-    expect(estimate.volumeMm3).toBeCloseTo(area * 0.45 + annulus * 4 * 0.2 * 2, 6);
+    expect(estimate.volumeMm3).toBeLessThanOrEqual(annulus * 100);
   });
 
   it('never exceeds the solid volume', () => {
@@ -87,6 +111,29 @@ describe('estimatePrint', () => {
         const { massG } = estimatePrint(shape, { ...pla, infillPct });
         expect(massG).toBeGreaterThanOrEqual(previous);
         previous = massG;
+      }
+    }
+  });
+
+  it('never weighs less with more walls or more top and bottom layers; never slower when faster', () => {
+    for (const shape of shapes) {
+      let previous = -Infinity;
+      for (let walls = 0; walls <= 6; walls++) {
+        const { massG } = estimatePrint(shape, { ...pla, walls });
+        expect(massG).toBeGreaterThanOrEqual(previous - 1e-9);
+        previous = massG;
+      }
+      previous = -Infinity;
+      for (let topBottomLayers = 0; topBottomLayers <= 10; topBottomLayers++) {
+        const { massG } = estimatePrint(shape, { ...pla, topBottomLayers });
+        expect(massG).toBeGreaterThanOrEqual(previous - 1e-9);
+        previous = massG;
+      }
+      let slowest = Infinity;
+      for (const speedMmS of [20, 40, 60, 100, 200, 400]) {
+        const { timeMin } = estimatePrint(shape, { ...pla, speedMmS });
+        expect(timeMin).toBeLessThanOrEqual(slowest + 1e-9);
+        slowest = timeMin;
       }
     }
   });
@@ -120,6 +167,13 @@ describe('spoolsNeeded', () => {
     expect(spoolsNeeded(2500, 750)).toBe(4);
     expect(() => spoolsNeeded(10, 0)).toThrow(RangeError);
   });
+
+  it('spoolsNeeded · a sum of decimals a hair over a whole spool · one spool, like print days', () => {
+    const grams = ((0.1 + 0.2) * 1000) / 0.3; // 1000 exactly on paper, 1000.0000000000002 in binary
+    expect(grams).toBeGreaterThan(1000);
+    expect(spoolsNeeded(grams)).toBe(1);
+    expect(spoolsNeeded(1000.001)).toBe(2);
+  });
 });
 
 /** Brute force: does a p × q rectangle fit an a × b one at some angle? Returns the best slack in mm. */
@@ -141,10 +195,22 @@ function extentsAt(p: number, q: number, angleDeg: number): [number, number] {
 }
 
 describe('fitOnBed', () => {
+  // The geometry checks below use no margin, so the bed is exactly the given rectangle.
+  const fitBare = (part: Size3, bedMm: Size3) => fitOnBed(part, bedMm, { marginMm: 0 });
+
+  it('fitOnBed · a part exactly the bed size · refused with the default 5 mm brim margin, fits with none', () => {
+    const fit = fitOnBed([250, 210, 60], [250, 210, 60]);
+    expect(fit.fits).toBe('no');
+    expect(fit.message).toMatch(/keeping 5 mm round the edge for a brim or skirt/);
+    expect(fitOnBed([240, 200, 60], [250, 210, 60]).fits).toBe('as-is'); // 250 − 2·5 = 240, 210 − 2·5 = 200
+    expect(fitOnBed([240.1, 200, 60], [250, 210, 60]).fits).not.toBe('as-is');
+    expect(fitOnBed([250, 210, 60], [250, 210, 60], { marginMm: 0 }).fits).toBe('as-is');
+  });
+
   const bed: Size3 = [250, 210, 60];
 
   it('fits a part that fits as modelled', () => {
-    expect(fitOnBed([240, 200, 50], bed)).toMatchObject({ fits: 'as-is', orientation: [240, 200, 50] });
+    expect(fitBare([240, 200, 50], bed)).toMatchObject({ fits: 'as-is', orientation: [240, 200, 50] });
   });
 
   it.each([
@@ -154,20 +220,20 @@ describe('fitOnBed', () => {
     [200, 50, 240],
     [50, 200, 240],
   ] as const)('turns %d × %d × %d to 240 × 200 × 50', (...part) => {
-    const fit = fitOnBed(part, bed);
+    const fit = fitBare(part, bed);
     expect(fit.fits).toBe('rotated');
     expect(fit.orientation).toEqual([240, 200, 50]);
     expect(fit.message).toBe('Fits if turned to 240 × 200 × 50 mm (x × y × z).');
   });
 
   it('fits a part exactly the size of the bed', () => {
-    expect(fitOnBed([250, 210, 60], bed).fits).toBe('as-is');
+    expect(fitBare([250, 210, 60], bed).fits).toBe('as-is');
   });
 
   it('lays a long part diagonally when that is the only way', () => {
     // At 45° a 290 × 20 footprint spans (290 + 20)/√2 = 219.2 mm ≤ 220 mm.
     expect(sweepSlack(290, 20, 220, 220)).toBeGreaterThan(0);
-    const fit = fitOnBed([290, 20, 10], [220, 220, 250]);
+    const fit = fitBare([290, 20, 10], [220, 220, 250]);
     expect(fit.fits).toBe('diagonal');
     expect(fit.orientation).toEqual([290, 20, 10]);
     const [x, y] = extentsAt(290, 20, fit.angleDeg!);
@@ -180,18 +246,18 @@ describe('fitOnBed', () => {
     // Lying flat, 300 × 20 spans 320/√2 = 226.3 mm at 45°; on its 300 × 10 edge, 310/√2 = 219.2 mm.
     expect(sweepSlack(300, 20, 220, 220)).toBeLessThan(0);
     expect(sweepSlack(300, 10, 220, 220)).toBeGreaterThan(0);
-    expect(fitOnBed([300, 20, 10], [220, 220, 250])).toMatchObject({ fits: 'diagonal', orientation: [300, 10, 20] });
+    expect(fitBare([300, 20, 10], [220, 220, 250])).toMatchObject({ fits: 'diagonal', orientation: [300, 10, 20] });
   });
 
   it('refuses a 300 × 20 × 20 mm part on a 220 × 220 × 250 mm bed', () => {
     // Every face is 300 × 20 (no angle fits, as above) and 300 mm is taller than the bed.
-    const fit = fitOnBed([300, 20, 20], [220, 220, 250]);
+    const fit = fitBare([300, 20, 20], [220, 220, 250]);
     expect(fit.fits).toBe('no');
     expect(fit.message).toMatch(/Too big for the 220 × 220 × 250 mm bed/);
   });
 
   it('stands a part up when it fits no other way', () => {
-    expect(fitOnBed([300, 20, 10], [220, 220, 320])).toMatchObject({ fits: 'rotated', orientation: [20, 10, 300] });
+    expect(fitBare([300, 20, 10], [220, 220, 320])).toMatchObject({ fits: 'rotated', orientation: [20, 10, 300] });
   });
 
   it('agrees with a brute-force angle sweep (Carver 1956, from memory) on random footprints', () => {
@@ -208,7 +274,7 @@ describe('fitOnBed', () => {
       const short = 7 + random() * 60; // taller than the bed, so the part can only lie flat
       const slack = sweepSlack(long, short, Math.max(bedX, bedY), Math.min(bedX, bedY), 20_000);
       if (Math.abs(slack) < 0.05) continue; // too close to call at this sweep resolution
-      const fit = fitOnBed([long, short, 5], [bedX, bedY, 6]);
+      const fit = fitBare([long, short, 5], [bedX, bedY, 6]);
       expect(fit.fits === 'no', `${long} × ${short} on ${bedX} × ${bedY}`).toBe(slack < 0);
       if (fit.fits === 'diagonal') {
         diagonalCases++;
@@ -223,6 +289,6 @@ describe('fitOnBed', () => {
   it('reads an inch-sized part (1 in = 25.4 mm exactly, NIST SP 811)', () => {
     expect(MM_PER_INCH).toBe(25.4);
     const part: Size3 = [inchesToMm(9), inchesToMm(8), inchesToMm(2)]; // 228.6 × 203.2 × 50.8 mm
-    expect(fitOnBed(part, bed).fits).toBe('as-is');
+    expect(fitBare(part, bed).fits).toBe('as-is');
   });
 });

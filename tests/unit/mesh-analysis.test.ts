@@ -217,10 +217,11 @@ describe('orientation, holes, units and headers', () => {
     withSliver.set([10, 10, 10, 10, 10, 10, -10, 10, 10], p.length);
     withSliver.set([-10, -10, -10, 0, -10, -10, 10, -10, -10], p.length + 9);
     const r = analyseTriangles(withSliver);
-    expect(r.degenerateFacets).toBe(2);
+    expect(r.degenerateFacets).toBe(1);
+    expect(r.zeroAreaFacets).toBe(1);
     expect(r.watertight).toBe(true);
     expect(r.shells).toBe(1);
-    expect(r.warnings.some((w) => w.includes('2 facets have zero area'))).toBe(true);
+    expect(r.warnings.some((w) => w.includes('1 facet has a repeated corner and 1 facet has three corners in a line, so zero area'))).toBe(true);
   });
 
   it('drawnInInches turns a 1 × 1 × 1 cube into exactly 25.4 mm sides (1 in = 25.4 mm exactly, NIST SP 811 Appendix B)', () => {

@@ -1,5 +1,7 @@
 import { describe, expect, it } from 'vitest';
-import { MM_PER_INCH, inchesToMm, mmToInches, parseLength } from '@shared/units';
+import { MOUNT_STANDARDS } from '@shared/catalogue';
+import { resolveMount } from '@shared/search/aliases';
+import { MM_PER_INCH, inchesToMm, mmToInches, moduleOfDiametralPitch, parseLength } from '@shared/units';
 
 describe('inch conversion', () => {
   it('uses 1 in = 25.4 mm exactly', () => {
@@ -63,4 +65,26 @@ describe('parseLength', () => {
       expect(parseLength(text)).toBeNull();
     },
   );
+});
+
+describe('gears · 32 DP against module 0.8', () => {
+  it('moduleOfDiametralPitch · 32 DP · module 0.79375, not 0.8 (m = 25.4 / DP, trade reference)', () => {
+    expect(moduleOfDiametralPitch(32)).toBe(0.79375);
+    expect(moduleOfDiametralPitch(32)).not.toBe(0.8);
+    expect(() => moduleOfDiametralPitch(0)).toThrow(RangeError);
+  });
+
+  it('32 DP and module 0.8 · drift apart over a long run: 60 teeth differ by more than a millimetre of pitch line', () => {
+    // Circular pitch p = π·m (ISO 53); over 60 teeth the difference is 60·π·(0.8 − 0.79375) ≈ 1.18 mm,
+    // more than the backlash of a printed gear, so the two do not mesh over long runs.
+    const drift = 60 * Math.PI * (0.8 - moduleOfDiametralPitch(32));
+    expect(drift).toBeCloseTo(1.178, 3);
+  });
+
+  it('the 0.8 module gear · is no longer found by "32 pitch", and its standard says why', () => {
+    const gear = MOUNT_STANDARDS.find((m) => m.slug === 'gear-0-8')!;
+    expect(gear.aliases.some((a) => /32/.test(a))).toBe(false);
+    expect(gear.standard).toMatch(/32 DP is module 0\.79375/);
+    expect(resolveMount('32 pitch')).toBeNull();
+  });
 });

@@ -1,4 +1,5 @@
 import { DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes, type Sequelize } from 'sequelize';
+import { DEFAULT_BED_MARGIN_MM } from '@shared/estimate';
 import { decimalColumn } from './columns';
 
 /** A member's own printer: only its owner sees it and can put kit items on it. */
@@ -10,6 +11,8 @@ export class Printer extends Model<InferAttributes<Printer>, InferCreationAttrib
   declare bedYMm: number;
   declare bedZMm: number;
   declare nozzleMm: number;
+  /** Kept free round the bed's edge for a brim or skirt, per side. */
+  declare bedMarginMm: CreationOptional<number>;
   declare watts: number | null;
   declare notes: string | null;
   declare createdAt: CreationOptional<Date>;
@@ -30,6 +33,7 @@ export function initPrinter(sequelize: Sequelize) {
       bedYMm: decimalColumn('bedYMm', 6, 1),
       bedZMm: decimalColumn('bedZMm', 6, 1),
       nozzleMm: decimalColumn('nozzleMm', 4, 2),
+      bedMarginMm: { ...decimalColumn('bedMarginMm', 4, 1), defaultValue: DEFAULT_BED_MARGIN_MM },
       watts: { type: DataTypes.INTEGER.UNSIGNED, allowNull: true },
       notes: { type: DataTypes.TEXT, allowNull: true },
       createdAt: DataTypes.DATE,

@@ -10,6 +10,7 @@ export function presentPrinter(p: Printer): PrinterInfo {
     id: p.id,
     name: p.name,
     bedMm: p.bedMm(),
+    bedMarginMm: p.bedMarginMm,
     nozzleMm: p.nozzleMm,
     watts: p.watts,
     notes: p.notes,

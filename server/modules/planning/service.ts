@@ -13,9 +13,12 @@ import type {
   PrinterList,
   PriceSheetInfo,
 } from '@shared/api/planning';
-import { DEFAULT_PRICE_PER_KG, estimatePrint, type PartGeometry, type PrintEstimate } from '@shared/estimate';
+import { DEFAULT_BED_MARGIN_MM, DEFAULT_PRICE_PER_KG, estimateFromSlices, estimatePrint, lineWidthFor, type PartGeometry, type PrintEstimate, type PrintSettings } from '@shared/estimate';
+import type { ModelFileAnalysis } from '@shared/mesh';
+import type { SliceProfile } from '@shared/slice';
 import { summariseKit, type KitPlanItem } from '@shared/kit-summary';
 import { heatExposureInfo } from '@shared/materials';
+import { meshConcerns, type MeshSoundness } from '@shared/mesh/concerns';
 import {
   MAX_KIT_ITEMS,
   MAX_KITS,
@@ -33,6 +36,9 @@ import {
 import { Kit, KitItem, KitShare, Part, PartFile, PartRevision, PriceSheet, Printer, Recipe, RevisionFile, User } from '../../db/models';
 import { transact } from '../../db/transaction';
 import { AppError } from '../../errors';
+import type { UploadDirs } from '../files/storage';
+import { pathsOf } from '../parts/part-files';
+import type { SliceQueue } from './slice-queue';
 import type { EvidenceService } from '../evidence/service';
 import { findVisiblePart, seesUnpublished } from '../parts/access';
 import { findKit } from './access';
@@ -41,6 +47,10 @@ import { effectivePrices, isOnShelfForKits, loadItems, presentItem, presentKit, 
 
 export interface PlanningDeps {
   sequelize: Sequelize;
+  /** Where stored model files live, for slicing them. */
+  dirs: UploadDirs;
+  /** Slices model files in a worker thread. */
+  slicer: SliceQueue;
   /** Outcome warnings from set reports, per part. */
   evidence: Pick<EvidenceService, 'evidenceFor'>;
 }
@@ -57,6 +67,14 @@ function textOrNull(value: string | null | undefined): string | null {
 /** Only the keys that were sent: an update changes what it names. */
 function defined<T extends object>(values: T): Partial<T> {
   return Object.fromEntries(Object.entries(values).filter(([, v]) => v !== undefined)) as Partial<T>;
+}
+
+/** What a crew should know about a model before trusting an estimate made from it. */
+function soundnessNotes(name: string, a: MeshSoundness): string[] {
+  const concerns = meshConcerns(a);
+  if (!concerns.length) return [];
+  const trust = a.watertight ? 'check the model before printing' : 'its volume and this estimate may be off';
+  return [`${name}: ${concerns.join('; ')}, so ${trust}.`];
 }
 
 const noFile = () => AppError.notFound('There is no model file with that id on the shelf.');
@@ -128,7 +146,7 @@ function modelFilesOf(revision: PartRevision | undefined): PartFile[] {
   return files.filter((f) => f.kind === 'model');
 }
 
-export function createPlanningService({ sequelize, evidence }: PlanningDeps) {
+export function createPlanningService({ sequelize, evidence, dirs, slicer }: PlanningDeps) {
   async function ownPrinter(owner: User, id: number): Promise<Printer> {
     const printer = await Printer.findOne({ where: { id, ownerId: owner.id } });
     if (!printer) throw AppError.notFound('There is no printer with that id among yours.');
@@ -156,12 +174,19 @@ export function createPlanningService({ sequelize, evidence }: PlanningDeps) {
       const notes: string[] = [];
       let geometry: PartGeometry;
       let source: EstimateResult['geometry'];
+      let sliceFor: ((settings: PrintSettings) => Promise<SliceProfile>) | null = null;
       if (input.fileId !== undefined) {
         const file = await visibleModelFile(viewer, input.fileId);
         const a = file.analysis!;
+        const stlUnitScale = (a as Partial<ModelFileAnalysis>).unitScale ?? 1;
+        sliceFor = (s) =>
+          slicer.slice(
+            { path: pathsOf(dirs, file).original, stlUnitScale, settings: { layerMm: s.layerMm, walls: s.walls, lineWidthMm: lineWidthFor(s), skinLayers: s.topBottomLayers } },
+            `file:${file.id}:${file.sha256}`,
+          );
         geometry = { volumeMm3: a.volumeMm3, areaMm2: a.areaMm2, sizeMm: a.sizeMm };
         source = { source: 'file', fileId: file.id, partId: file.partId, volumeMm3: a.volumeMm3, areaMm2: a.areaMm2, sizeMm: a.sizeMm };
-        if (!a.watertight) notes.push(`${file.originalName} is not watertight, so its volume and this estimate may be off.`);
+        notes.push(...soundnessNotes(file.originalName, a));
       } else {
         geometry = { volumeMm3: input.volumeMm3!, areaMm2: input.areaMm2!, sizeMm: input.sizeMm! };
         source = { source: 'figures', fileId: null, partId: null, ...geometry };
@@ -172,20 +197,27 @@ export function createPlanningService({ sequelize, evidence }: PlanningDeps) {
       const pricePerKwh = input.pricePerKwh ?? sheet?.pricePerKwh ?? undefined;
       if (input.pricePerKg === undefined && ownPrice !== undefined) notes.push('The price per kg is from your price sheet.');
       if (input.pricePerKwh === undefined && pricePerKwh !== undefined && input.printerWatts !== undefined) notes.push('The price per kWh is from your price sheet.');
+      const settings: PrintSettings = {
+        material: input.material,
+        nozzleMm: input.nozzleMm,
+        layerMm: input.layerMm,
+        walls: input.walls,
+        topBottomLayers: input.topBottomLayers,
+        infillPct: input.infillPct,
+        speedMmS: input.speedMmS,
+        accelerationMmS2: input.accelerationMmS2,
+        travelSpeedMmS: input.travelSpeedMmS,
+        pricePerKg,
+        printerWatts: input.printerWatts,
+        pricePerKwh,
+      };
       let estimate: PrintEstimate;
       try {
-        estimate = estimatePrint(geometry, {
-          material: input.material,
-          nozzleMm: input.nozzleMm,
-          layerMm: input.layerMm,
-          walls: input.walls,
-          topBottomLayers: input.topBottomLayers,
-          infillPct: input.infillPct,
-          speedMmS: input.speedMmS,
-          pricePerKg,
-          printerWatts: input.printerWatts,
-          pricePerKwh,
-        });
+        const profile = sliceFor ? await sliceFor(settings).catch((err: Error) => {
+          notes.push(`The model could not be sliced (${err.message}); this is the quick estimate from its figures.`);
+          return null;
+        }) : null;
+        estimate = profile ? estimateFromSlices(profile, settings) : estimatePrint(geometry, settings);
       } catch (err) {
         if (err instanceof RangeError) throw new AppError(422, 'validation_failed', `These figures cannot be estimated: ${err.message}`);
         throw err;
@@ -197,6 +229,8 @@ export function createPlanningService({ sequelize, evidence }: PlanningDeps) {
         timeMin: estimate.timeMin,
         cost: estimate.cost,
         pricePerKg: pricePerKg ?? DEFAULT_PRICE_PER_KG[input.material],
+        partsMm3: estimate.partsMm3,
+        method: estimate.method,
         assumptions: [...estimate.assumptions, ...notes],
         geometry: source,
       };
@@ -223,6 +257,7 @@ export function createPlanningService({ sequelize, evidence }: PlanningDeps) {
         bedXMm: input.bedMm[0],
         bedYMm: input.bedMm[1],
         bedZMm: input.bedMm[2],
+        bedMarginMm: input.bedMarginMm ?? DEFAULT_BED_MARGIN_MM,
         nozzleMm: input.nozzleMm,
         watts: input.watts ?? null,
         notes: textOrNull(input.notes),
@@ -238,6 +273,7 @@ export function createPlanningService({ sequelize, evidence }: PlanningDeps) {
           bedXMm: patch.bedMm?.[0],
           bedYMm: patch.bedMm?.[1],
           bedZMm: patch.bedMm?.[2],
+          bedMarginMm: patch.bedMarginMm,
           nozzleMm: patch.nozzleMm,
           watts: patch.watts,
           notes: patch.notes === undefined ? undefined : textOrNull(patch.notes),
@@ -455,6 +491,24 @@ export function createPlanningService({ sequelize, evidence }: PlanningDeps) {
     },
   };
 
+  /** The model file sliced for a recipe (cached by the queue), or null with a note when it cannot be. */
+  async function slicesFor(file: PartFile, recipe: Recipe, notes: string[]): Promise<SliceProfile | null> {
+    const s = { nozzleMm: recipe.nozzleMm, layerMm: recipe.layerMm, walls: recipe.walls, skinLayers: recipe.topBottomLayers };
+    try {
+      return await slicer.slice(
+        {
+          path: pathsOf(dirs, file).original,
+          stlUnitScale: (file.analysis as Partial<ModelFileAnalysis> | null)?.unitScale ?? 1,
+          settings: { layerMm: s.layerMm, walls: s.walls, lineWidthMm: lineWidthFor(s), skinLayers: s.skinLayers },
+        },
+        `file:${file.id}:${file.sha256}`,
+      );
+    } catch (err) {
+      notes.push(`${file.originalName} could not be sliced (${(err as Error).message}); its figures give a quick estimate instead.`);
+      return null;
+    }
+  }
+
   async function summaryOf(kit: Kit): Promise<KitSummaryResponse> {
     const items = await loadItems(kit.id);
     const sheet = await PriceSheet.findByPk(kit.ownerId);
@@ -501,9 +555,10 @@ export function createPlanningService({ sequelize, evidence }: PlanningDeps) {
       const models = modelFilesOf(revision);
       const model = models.find((f) => f.analysis && f.analysis.volumeMm3 > 0);
       if (models.length > 1 && model) notes.push(`The part has ${models.length} model files; the estimate covers ${model.originalName} only.`);
-      if (model && !model.analysis!.watertight) notes.push(`${model.originalName} is not watertight, so its volume and this estimate may be off.`);
+      if (model) notes.push(...soundnessNotes(model.originalName, model.analysis!));
       const a = model?.analysis;
       const printer = item.printer ?? null;
+      const slices = model ? await slicesFor(model, recipe, notes) : null;
       planned.push({
         item,
         plan: {
@@ -511,6 +566,7 @@ export function createPlanningService({ sequelize, evidence }: PlanningDeps) {
           title,
           quantity: item.quantity,
           geometry: a ? { volumeMm3: a.volumeMm3, areaMm2: a.areaMm2, sizeMm: a.sizeMm } : null,
+          slices,
           settings: {
             material: item.material ?? recipe.material,
             nozzleMm: recipe.nozzleMm,
@@ -520,7 +576,7 @@ export function createPlanningService({ sequelize, evidence }: PlanningDeps) {
             infillPct: recipe.infillPct,
             speedMmS: recipe.speedMmS,
           },
-          printer: printer ? { id: printer.id, name: printer.name, bedMm: printer.bedMm(), nozzleMm: printer.nozzleMm, watts: printer.watts } : null,
+          printer: printer ? { id: printer.id, name: printer.name, bedMm: printer.bedMm(), bedMarginMm: printer.bedMarginMm, nozzleMm: printer.nozzleMm, watts: printer.watts } : null,
           safety: { carriesLoad: revision.carriesLoad, overhead: revision.overhead, vehicle: revision.vehicle, heat: revision.heat },
           testedLoadKg: revision.testedLoadKg,
           evidenceWarnings: warnings.get(part.id)?.warnings ?? [],

@@ -1,5 +1,6 @@
 // The review desk: nothing reaches the shelf unreviewed, and every decision is on record.
 import { Op, type Sequelize, type Transaction } from 'sequelize';
+import { meshConcerns } from '@shared/mesh/concerns';
 import { checkAdaptationLicence, isLicenceId } from '@shared/licences';
 import { allowedActions, NOTE_REQUIRED, REVIEW_CHECKLIST, transition, type ReviewAction, type ReviewState } from '@shared/review';
 import { AuditEvent, Part, PartRevision, User, type AuditAction } from '../../db/models';
@@ -87,8 +88,7 @@ export async function reviewWarnings(detail: PartDetail): Promise<string[]> {
   const warnings: string[] = [];
   for (const file of detail.files) {
     if (file.kind !== 'model' || !file.analysis) continue;
-    if (!file.analysis.watertight) warnings.push(`${file.name}: not watertight`);
-    if (file.analysis.insideOut) warnings.push(`${file.name}: facets wound inside out`);
+    for (const concern of meshConcerns(file.analysis)) warnings.push(`${file.name}: ${concern}`);
   }
   for (const [i, recipe] of detail.recipes.entries()) {
     for (const w of recipe.warnings) warnings.push(`Recipe ${i + 1} (${recipe.material}): ${w}`);
