@@ -715,7 +715,7 @@ function readAndAnalyse(bytes: Uint8Array, options: AnalyseFileOptions): ModelFi
 const sizeText = (mm: number) => (mm < 1e6 ? `${Math.round(mm).toLocaleString('en-US')}` : mm.toPrecision(3));
 
 /** A mesh larger than any printer, or with figures that overflowed, is a units mistake or a forgery. */
-function checkPrintableSize(analysis: ModelFileAnalysis): ModelFileAnalysis {
+export function checkPrintableSize(analysis: ModelFileAnalysis): ModelFileAnalysis {
   const limit = MODEL_LIMITS.maxExtentMm;
   const figures = [...analysis.sizeMm, analysis.volumeMm3, analysis.areaMm2];
   if (figures.some((x) => !Number.isFinite(x))) {

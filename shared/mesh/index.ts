@@ -1,4 +1,4 @@
-export { analyseModelFile, analyseTriangles, MeshAccumulator, MM_PER_INCH, WELD_TOLERANCE_PER_DIAGONAL } from './analysis';
+export { analyseModelFile, analyseTriangles, checkPrintableSize, MeshAccumulator, MM_PER_INCH, WELD_TOLERANCE_PER_DIAGONAL } from './analysis';
 export { meshConcerns, type MeshSoundness } from './concerns';
 export {
   declaredFacetCount,

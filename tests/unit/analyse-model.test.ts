@@ -11,15 +11,15 @@ import { analyseModelPath } from '../../server/modules/files/analyse-model';
 const dir = mkdtempSync(join(tmpdir(), 'analyse-model-'));
 afterAll(() => rmSync(dir, { recursive: true, force: true }));
 
-/** A closed torus of u × v quads as binary STL (2·u·v facets). */
-function torusStl(u: number, v: number): Uint8Array {
+/** A closed torus of u × v quads as binary STL (2·u·v facets), 160 mm across times `scale`. */
+function torusStl(u: number, v: number, scale = 1): Uint8Array {
   const facets = 2 * u * v;
   const bytes = new Uint8Array(84 + 50 * facets);
   const view = new DataView(bytes.buffer);
   view.setUint32(80, facets, true);
   const p = (i: number, j: number) => {
     const t = (2 * Math.PI * (i % u)) / u, f = (2 * Math.PI * (j % v)) / v;
-    return [(60 + 20 * Math.cos(f)) * Math.cos(t), (60 + 20 * Math.cos(f)) * Math.sin(t), 20 * Math.sin(f)];
+    return [(60 + 20 * Math.cos(f)) * Math.cos(t) * scale, (60 + 20 * Math.cos(f)) * Math.sin(t) * scale, 20 * Math.sin(f) * scale];
   };
   let o = 84;
   const put = (...corners: number[][]) => {
@@ -47,10 +47,18 @@ describe('analyseModelPath', () => {
   });
 
   it('analyseModelPath · drawn in inches · scaled by 25.4 like the in-memory path', async () => {
-    const bytes = torusStl(300, 200);
+    const bytes = torusStl(300, 200, 1 / 25.4); // 160 mm once read as inches
     const file = join(dir, 'inches.stl');
     writeFileSync(file, bytes);
     expect(await analyseModelPath(file, { drawnInInches: true })).toEqual(analyseModelFile(bytes, { drawnInInches: true }));
+  });
+
+  it('analyseModelPath · a streamed STL over 2 m once read as inches · the same implausible_size refusal as in memory', async () => {
+    const bytes = torusStl(300, 200);
+    const file = join(dir, 'too-large.stl');
+    writeFileSync(file, bytes);
+    await expect(analyseModelPath(file, { drawnInInches: true })).rejects.toMatchObject({ code: 'implausible_size' });
+    expect(() => analyseModelFile(bytes, { drawnInInches: true })).toThrow(MeshError);
   });
 
   it('analyseModelPath · a small or broken file · the in-memory path and its MeshError', async () => {

@@ -4,6 +4,7 @@
 import { open } from 'node:fs/promises';
 import {
   analyseModelFile,
+  checkPrintableSize,
   BINARY_STL_FACET_BYTES,
   BINARY_STL_PREFIX_BYTES,
   MeshAccumulator,
@@ -50,5 +51,5 @@ async function streamBinaryStl(handle: Awaited<ReturnType<typeof open>>, facets:
     }
     readBinaryStlFacets(chunk.subarray(0, bytes), first, acc);
   }
-  return { ...acc.finish(unitScale), format: 'stl-binary', unitScale };
+  return checkPrintableSize({ ...acc.finish(unitScale), format: 'stl-binary', unitScale });
 }
