@@ -15,7 +15,10 @@ export interface RetryPolicy {
 
 export const DEFAULT_RETRY: RetryPolicy = { attempts: 5, baseDelayMs: 20, maxDelayMs: 500 };
 
-/** Work to undo when an attempt fails (files moved into place, say), so the next attempt starts clean. */
+/**
+ * Work to undo when an attempt fails (files moved into place, say), so the next attempt starts clean.
+ * Not run when the commit itself went unanswered (its outcome is unknown).
+ */
 export interface Attempt {
   /** 1 for the first run. */
   readonly number: number;
@@ -47,13 +50,21 @@ export async function transact<T>(
     const undos: (() => Promise<void> | void)[] = [];
     const attempt: Attempt = { number, onRollback: (undo) => void undos.push(undo) };
     const t = await sequelize.transaction();
+    let committing = false;
     try {
       const result = await work(t, attempt);
+      committing = true;
       await t.commit();
       return result;
     } catch (err) {
       // Sequelize has already rolled back after a deadlock, and a failed commit cannot be rolled back
       await t.rollback().catch(() => undefined);
+      // A commit cut off by a lost connection may have landed: rows without their files would be lost
+      // work, files without rows are removed by the start-up sweep, so the files stay where they are.
+      if (committing && !isRetriableTransactionError(err)) {
+        console.error('rigshelf: a commit ended without an answer; its files stay in place for the start-up sweep to settle');
+        throw err;
+      }
       for (const undo of undos.reverse()) {
         await Promise.resolve()
           .then(undo)

@@ -80,6 +80,8 @@ export interface ChaosSummary {
   ratingProblems: string[];
   dbOrphans: Record<string, number>;
   diskOrphans: string[];
+  /** Files without rows after the run (a commit that went unanswered leaves them), before the restart's sweep. */
+  leftForSweep: number;
   health: { probes: number; maxMs: number; over1s: number; overLimit: number; unanswered: number; during: Record<string, number> };
   faults: { name: string; from: number; to: number }[];
   shutdown: { signalledAt: number; exitedAfterMs: number | null; code: number | null; signal: string | null; stoppedLine: boolean };
@@ -349,7 +351,7 @@ export async function runChaos(options: ChaosOptions): Promise<ChaosSummary> {
     const list = (dir: string) => (existsSync(join(srv.uploadsDir, dir)) ? readdirSync(join(srv.uploadsDir, dir)) : []);
     const store = new Set(list('store'));
     const incoming = new Set(list('incoming'));
-    const diskOrphans: string[] = list('tmp').map((n) => `tmp/${n} (an upload nobody finished)`);
+    const diskOrphans: string[] = [];
     const expectedStore = new Set<string>();
     const expectedIncoming = new Set<string>();
     // a photo still waiting (cleaning cut off by shutdown) may already have its sizes written; the
@@ -370,10 +372,25 @@ export async function runChaos(options: ChaosOptions): Promise<ChaosSummary> {
       else expectedStore.add(name);
     }
     for (const [name, processing] of reportPhotos) expectPhoto(name, processing);
-    for (const n of store) if (!expectedStore.has(n) && !pendingSizes.has(n)) diskOrphans.push(`store/${n} (no row)`);
-    for (const n of incoming) if (!expectedIncoming.has(n)) diskOrphans.push(`incoming/${n} (no pending row)`);
+    // rows without their files are lost work, whatever happens next
     for (const n of expectedStore) if (!store.has(n)) diskOrphans.push(`store/${n} (row without its file)`);
     for (const n of expectedIncoming) if (!incoming.has(n)) diskOrphans.push(`incoming/${n} (pending row without its file)`);
+    // Files without rows are what a commit cut off without an answer leaves on purpose (it may have
+    // landed); the next start's sweep must remove them, so start the server once more and look again.
+    const unclaimed = () => [
+      ...list('tmp').map((n) => `tmp/${n} (an upload nobody finished)`),
+      ...list('store').filter((n) => !expectedStore.has(n) && !pendingSizes.has(n)).map((n) => `store/${n} (no row)`),
+      ...list('incoming').filter((n) => !expectedIncoming.has(n)).map((n) => `incoming/${n} (no pending row)`),
+    ];
+    const leftForSweep = unclaimed().length;
+    if (leftForSweep) {
+      log(`${leftForSweep} file(s) without rows; starting the server again so its start-up sweep settles them`);
+      const again = await spawnServer(db.env, { UPLOADS_DIR: srv.uploadsDir, DB_WAIT_S: '60' }, 'chaos-restart');
+      again.child.kill('SIGTERM');
+      await again.exited;
+      await again.dispose();
+    }
+    diskOrphans.push(...unclaimed());
 
     // ---- figures
     const inFault = (t: number) => faults.some((f) => t >= f.from - 500 && t <= f.to + 5000);
@@ -410,6 +427,7 @@ export async function runChaos(options: ChaosOptions): Promise<ChaosSummary> {
       ratingProblems,
       dbOrphans,
       diskOrphans,
+      leftForSweep,
       health: {
         probes: healthSamples.length,
         maxMs: healthSamples.reduce((m, s) => Math.max(m, s.ms), 0),
@@ -474,7 +492,7 @@ export function formatSummary(s: ChaosSummary): string {
     `  acknowledged submissions: ${s.submissionsAcknowledged} (missing ${s.submissionsMissing.length}, stored twice ${s.submissionsDuplicated.length})`,
     `  acknowledged ratings: ${s.ratingsAcknowledged} (problems ${s.ratingProblems.length})`,
     `  database orphans: ${Object.entries(s.dbOrphans).map(([k, v]) => `${k}=${v}`).join(', ')}`,
-    `  uploads-folder orphans: ${s.diskOrphans.length}${s.diskOrphans.length ? ` (${s.diskOrphans.slice(0, 3).join(', ')})` : ''}`,
+    `  files left for the start-up sweep: ${s.leftForSweep}; uploads-folder orphans after it: ${s.diskOrphans.length}${s.diskOrphans.length ? ` (${s.diskOrphans.slice(0, 3).join(', ')})` : ''}`,
     `  /api/health: ${s.health.probes} probes, worst ${s.health.maxMs} ms, ${s.health.over1s} over 1 s, ${s.health.unanswered} unanswered; worst during faults: ${Object.entries(s.health.during).map(([k, v]) => `${k.split(' (')[0]} ${v} ms`).join(', ')}`,
     s.shutdown.signalledAt
       ? `  shutdown: SIGTERM at ${(s.shutdown.signalledAt / 1000).toFixed(1)} s, exited after ${s.shutdown.exitedAfterMs ?? '—'} ms with code ${s.shutdown.code} (deadline ${s.options.shutdownTimeoutS} s)`

@@ -190,4 +190,23 @@ describe('transact · retry policy', () => {
     ).rejects.toThrow('disk full');
     expect(undo).toHaveBeenCalledTimes(1);
   });
+
+  it('transact · the commit goes unanswered (connection lost) · undo steps do not run, so committed rows keep their files', async () => {
+    const { sequelize } = fakeSequelize();
+    const original = sequelize.transaction.bind(sequelize);
+    (sequelize as unknown as { transaction: () => Promise<unknown> }).transaction = async () => {
+      const t = (await original()) as { commit(): Promise<void> };
+      return {
+        ...t,
+        async commit() {
+          // the connector's ER_SOCKET_UNEXPECTED_CLOSE (45009, mariadb-connector-nodejs lib/misc/errors.js)
+          throw dbError(45009, '08S01', 'socket has unexpectedly been closed', 'ER_SOCKET_UNEXPECTED_CLOSE');
+        },
+      };
+    };
+    const undo = vi.fn();
+    vi.spyOn(console, 'error').mockImplementation(() => undefined);
+    await expect(transact(sequelize, async (_t, attempt) => attempt.onRollback(undo), quick)).rejects.toThrow('unexpectedly been closed');
+    expect(undo).not.toHaveBeenCalled();
+  });
 });
