@@ -33,7 +33,8 @@ export default defineConfig({
           environment: 'node',
           setupFiles: ['tests/helpers/test-database.ts'],
           testTimeout: 30_000,
-          hookTimeout: 60_000,
+          // a file with the demo shelf seeds it in beforeAll, which takes far longer on a busy machine
+          hookTimeout: 120_000,
         },
       },
       {

@@ -32,11 +32,11 @@ describe('worker pool (piscina)', () => {
   });
 
   it('the time limit starts when a thread takes the task, so waiting in the queue is not held against it', async () => {
-    // six 300 ms tasks on one thread: the last waits 1.5 s in all, each runs far inside its 1.5 s limit
-    const p = pool({ timeoutMs: 1_500, maxQueue: 8 });
+    // twelve 300 ms tasks on one thread: the last waits 3.3 s in all, each runs far inside its 3 s limit
+    const p = pool({ timeoutMs: 3_000, maxQueue: 14 });
     await p.run('echo', { value: 0 }); // the thread is up
-    const outcomes = await Promise.allSettled(Array.from({ length: 6 }, () => p.run('busy', { ms: 300 })));
-    expect(outcomes.map((o) => o.status)).toEqual(Array(6).fill('fulfilled'));
+    const outcomes = await Promise.allSettled(Array.from({ length: 12 }, () => p.run('busy', { ms: 300 })));
+    expect(outcomes.map((o) => o.status)).toEqual(Array(12).fill('fulfilled'));
   });
 
   it('refuses work beyond its queue bound instead of piling it up', async () => {
