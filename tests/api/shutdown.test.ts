@@ -8,7 +8,7 @@ import { loadSubmission, Member, sleep } from '../helpers/system';
 
 describe('server shutdown', () => {
   it('server · shutdown begins while keep-alive clients stay busy and an upload is in flight · the upload finishes, each connection gets Connection: close once, the drain completes', async () => {
-    const server = await startServer(testConfig({ PORT: '0', SHUTDOWN_TIMEOUT_S: '8', RIGSHELF_DEMO: '0' }));
+    const server = await startServer(testConfig({ PORT: '0', SHUTDOWN_TIMEOUT_S: '30', RIGSHELF_DEMO: '0' }));
     let closed = false;
     try {
       const { email, password } = await makeUser('member');
