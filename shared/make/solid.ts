@@ -1,6 +1,7 @@
 // Solid modelling goes through @jscad/modeling; this file turns its solids into Rigshelf's flat
 // triangle arrays and back, and holds the few shapes every generator draws.
 import jscad from '@jscad/modeling';
+import { weldAndSplit } from './repair';
 import type { Corrections, DrawnSize, GeneratedMesh } from './types';
 import { circleSides, formatMm, roundMm, type Resolution } from './params';
 
@@ -39,8 +40,7 @@ export function extrude(profile: Geom2, heightMm: number, z0 = 0): Geom3 {
  * of another); generalize inserts them so every edge is shared by exactly two facets.
  */
 export function meshOf(solid: Geom3, needsRepair: boolean): GeneratedMesh {
-  const clean = needsRepair ? modifiers.generalize({ snap: true, triangulate: true }, solid) : solid;
-  const polygons = geometries.geom3.toPolygons(clean);
+  const polygons = geometries.geom3.toPolygons(solid);
   let triangles = 0;
   for (const p of polygons) triangles += p.vertices.length - 2;
   const positions = new Float32Array(triangles * 9);
@@ -56,7 +56,9 @@ export function meshOf(solid: Geom3, needsRepair: boolean): GeneratedMesh {
       positions[o++] = c[0]; positions[o++] = c[1]; positions[o++] = c[2];
     }
   }
-  return { positions, triangles };
+  if (!needsRepair) return { positions, triangles };
+  const repaired = weldAndSplit(positions);
+  return { positions: repaired, triangles: repaired.length / 9 };
 }
 
 /** The triangles back as a JSCAD solid, for the file serializers. */
