@@ -25,6 +25,36 @@ export function outerCircle(diameterMm: number, res: Resolution, center: Vec2 = 
   return primitives.circle({ radius: diameterMm / 2, segments: circleSides(diameterMm, res), center });
 }
 
+/** Points of a hole polygon (flats on the circle), clockwise, for use as a hole path of `region`. */
+export function holePath(diameterMm: number, res: Resolution, center: Vec2 = [0, 0]): Vec2[] {
+  const n = circleSides(diameterMm, res);
+  const r = diameterMm / 2 / Math.cos(Math.PI / n);
+  const pts: Vec2[] = [];
+  for (let k = n - 1; k >= 0; k--) pts.push([center[0] + r * Math.cos((2 * Math.PI * k) / n), center[1] + r * Math.sin((2 * Math.PI * k) / n)]);
+  return pts;
+}
+
+/** Points of an outer round edge (corners on the circle), counter-clockwise. */
+export function reversed(path: Vec2[]): Vec2[] {
+  return [...path].reverse();
+}
+
+export function circlePath(diameterMm: number, res: Resolution, center: Vec2 = [0, 0]): Vec2[] {
+  const n = circleSides(diameterMm, res);
+  const r = diameterMm / 2;
+  const pts: Vec2[] = [];
+  for (let k = 0; k < n; k++) pts.push([center[0] + r * Math.cos((2 * Math.PI * k) / n), center[1] + r * Math.sin((2 * Math.PI * k) / n)]);
+  return pts;
+}
+
+/**
+ * A 2D region from an outline (counter-clockwise) and holes wholly inside it (clockwise, not
+ * touching each other): no boolean needed, which keeps large outlines such as gears fast.
+ */
+export function region(outline: Vec2[], holes: Vec2[][] = []): Geom2 {
+  return holes.length === 0 ? primitives.polygon({ points: outline }) : primitives.polygon({ points: [outline, ...holes] });
+}
+
 export function rect(x0: number, y0: number, x1: number, y1: number): Geom2 {
   return primitives.polygon({ points: [[x0, y0], [x1, y0], [x1, y1], [x0, y1]] });
 }
@@ -59,6 +89,95 @@ export function meshOf(solid: Geom3, needsRepair: boolean): GeneratedMesh {
   if (!needsRepair) return { positions, triangles };
   const repaired = weldAndSplit(positions);
   return { positions: repaired, triangles: repaired.length / 9 };
+}
+
+export interface Layer {
+  region: Geom2;
+  z0: number;
+  z1: number;
+  /** The layer's prism after 3D cuts that leave its top and bottom faces alone (a cross hole); default the plain extrusion. */
+  solid?: Geom3;
+}
+
+const isCap = (normalZ: number) => Math.abs(normalZ) > 0.999999;
+
+/** Where two stacked layers differ: the part of the lower one left uncovered (facing up) and the overhang of the upper one (facing down). */
+export interface Step {
+  up?: Geom2;
+  down?: Geom2;
+}
+
+/**
+ * A solid made of prisms stacked along z (each layer's z0 is the previous layer's z1). Walls and the
+ * outer caps come from extrudeLinear; between two layers only the faces where their regions differ
+ * are drawn (`steps[i]` between layer i and i + 1, built by the caller from the same loops), so the
+ * result is one closed surface without a 3D boolean.
+ */
+export function stackLayers(layers: Layer[], steps: Step[]): GeneratedMesh {
+  const soup: number[] = [];
+  const push = (polygon: { vertices: number[][] }) => {
+    const v = polygon.vertices;
+    for (let i = 1; i + 1 < v.length; i++) soup.push(...v[0], ...v[i], ...v[i + 1]);
+  };
+  const capsOf = (g: Geom2, z: number, up: boolean) => {
+    if (geometries.geom2.toSides(g).length === 0) return;
+    for (const poly of geometries.geom3.toPolygons(extrude(g, 1, z - (up ? 1 : 0)))) {
+      const n = geometries.poly3.plane(poly);
+      if (isCap(n[2]) && (n[2] > 0) === up) push(poly);
+    }
+  };
+  layers.forEach((layer, i) => {
+    const prism = layer.solid ?? extrude(layer.region, layer.z1 - layer.z0, layer.z0);
+    for (const poly of geometries.geom3.toPolygons(prism)) {
+      const n = geometries.poly3.plane(poly);
+      const z = poly.vertices[0][2];
+      const onCap = isCap(n[2]) && (Math.abs(z - layer.z0) < 1e-9 || Math.abs(z - layer.z1) < 1e-9);
+      if (!onCap) push(poly);
+      else if (n[2] < 0 && i === 0) push(poly);
+      else if (n[2] > 0 && i === layers.length - 1) push(poly);
+    }
+    const step = steps[i];
+    if (i + 1 < layers.length && step) {
+      if (step.up) capsOf(step.up, layer.z1, true);
+      if (step.down) capsOf(step.down, layer.z1, false);
+    }
+  });
+  const positions = weldAndSplit(soup);
+  return { positions, triangles: positions.length / 9 };
+}
+
+/**
+ * A block extruded along y from a profile drawn in the xz plane (profile x → x, profile y → z),
+ * covering y0..y1: for cross holes that run along y.
+ */
+export function extrudeAlongY(profile: Geom2, y0: number, y1: number): Geom3 {
+  // (u, v, w) → (u, y1 − w, v): a proper rotation, so facets stay wound outward.
+  return remap(extrusions.extrudeLinear({ height: y1 - y0 }, profile), (v) => [v[0], y1 - v[2], v[1]]);
+}
+
+function remap(solid: Geom3, map: (v: number[]) => [number, number, number]): Geom3 {
+  return geometries.geom3.create(geometries.geom3.toPolygons(solid).map((poly) => geometries.poly3.create(poly.vertices.map(map))));
+}
+
+/** A block extruded along x from a profile drawn in the yz plane (profile x → y, profile y → z), covering x0..x1. */
+export function extrudeAlongX(profile: Geom2, x0: number, x1: number): Geom3 {
+  // (u, v, w) → (x0 + w, u, v): a cyclic swap of axes, a proper rotation.
+  return remap(extrusions.extrudeLinear({ height: x1 - x0 }, profile), (v) => [x0 + v[2], v[0], v[1]]);
+}
+
+/**
+ * Joins solids that touch along faces in one plane (axis = at), each contact face of one solid
+ * covering exactly the matching face of the other: the faces in that plane are dropped and the rest
+ * welded. The caller guarantees that nothing else of these solids lies in that plane.
+ */
+export function glue(parts: Geom3[], axis: 0 | 1 | 2, at: number): Geom3 {
+  const kept = parts.flatMap((part) =>
+    geometries.geom3.toPolygons(part).filter((poly) => {
+      const n = geometries.poly3.plane(poly);
+      return !(Math.abs(Math.abs(n[axis]) - 1) < 1e-9 && poly.vertices.every((v) => Math.abs(v[axis] - at) < 1e-7));
+    }),
+  );
+  return geometries.geom3.create(kept);
 }
 
 /** The triangles back as a JSCAD solid, for the file serializers. */
