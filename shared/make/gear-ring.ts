@@ -2,7 +2,7 @@ import { z } from 'zod';
 import type { GeneratedMesh, Generator } from './types';
 import { choiceOf, circleSides, formatMm, lengthMm, resolution, roundMm, type Resolution } from './params';
 import { CLEARANCE_HOLE_MM } from './fasteners';
-import { circlePath, extrude, extrudeAlongY, glue, holePath, meshOf, region, reversed, SizeBook, stackLayers, type Vec2 } from './solid';
+import { blockWithHoleAlongY, circlePath, extrude, glue, holePath, meshOf, region, reversed, SizeBook, slottedBoreArc, stackLayers, type Vec2 } from './solid';
 
 /** ISO 53 basic rack: 20° pressure angle, addendum 1.0·m, dedendum 1.25·m. */
 export const PRESSURE_ANGLE_RAD = (20 * Math.PI) / 180;
@@ -107,21 +107,6 @@ export function rootGapHalfWidth(moduleMm: number, teeth: number): number {
   return rf * Math.sin(Math.PI / teeth - startHalf);
 }
 
-/** Bore points (flats on the circle) clockwise from just below the slot round to just above it. */
-function boreArcClockwise(boreMm: number, res: Resolution, gap: number): Vec2[] {
-  const n = circleSides(boreMm, res);
-  const R = boreMm / 2 / Math.cos(Math.PI / n);
-  const x = Math.sqrt(R * R - gap * gap);
-  const limit = Math.asin(gap / R);
-  const pts: Vec2[] = [[x, -gap]];
-  for (let k = n - 1; k >= 1; k--) {
-    const a = (2 * Math.PI * k) / n;
-    if (a > limit + 1e-9 && a < 2 * Math.PI - limit - 1e-9) pts.push([R * Math.cos(a), R * Math.sin(a)]);
-  }
-  pts.push([x, gap]);
-  return pts;
-}
-
 export const gearRing: Generator<typeof gearRingSchema> = {
   kind: 'gear-ring',
   title: 'Lens gear ring',
@@ -170,19 +155,19 @@ export const gearRing: Generator<typeof gearRingSchema> = {
       const collarC: Vec2[] = [[xc, gap], ...outerArc, [xc, -gap]];
       const outerC: Vec2[] = [[lugEnd, gap], [lugEnd, lugTop], ...outerArc, [lugEnd, -lugTop], [lugEnd, -gap]];
       const gearC = gearOutline(p.module, teeth, p.resolution, gap);
-      const bore = boreArcClockwise(boreDrawn, p.resolution, gap);
+      const bore = slottedBoreArc(boreDrawn, p.resolution, gap);
       const collarRegion = region([...collarC, ...bore]);
       const gearRegion = region([...gearC, ...bore]);
       const stepUp = region([...outerC, ...reversed(gearC)]);
       const screwX = lugEnd - M3_HOLE_MM / 2 - 2;
-      const lugProfile = region(
-        [[xc, 0], [lugEnd, 0], [lugEnd, COLLAR_HEIGHT_MM], [xc, COLLAR_HEIGHT_MM]],
-        [holePath(M3_HOLE_MM, p.resolution === 'fine' ? 'fine' : 'default', [screwX, COLLAR_HEIGHT_MM / 2])],
-      );
+      const screwHole = { diameterMm: M3_HOLE_MM, x: screwX, z: COLLAR_HEIGHT_MM / 2 };
       const collar = glue(
-        [extrude(collarRegion, COLLAR_HEIGHT_MM), extrudeAlongY(lugProfile, gap, lugTop), extrudeAlongY(lugProfile, -lugTop, -gap)],
-        0,
-        xc,
+        [
+          extrude(collarRegion, COLLAR_HEIGHT_MM),
+          blockWithHoleAlongY(xc, lugEnd, gap, lugTop, 0, COLLAR_HEIGHT_MM, screwHole, p.resolution),
+          blockWithHoleAlongY(xc, lugEnd, -lugTop, -gap, 0, COLLAR_HEIGHT_MM, screwHole, p.resolution),
+        ],
+        [{ axis: 0, at: xc }],
       );
       mesh = stackLayers(
         [

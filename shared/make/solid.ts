@@ -165,19 +165,74 @@ export function extrudeAlongX(profile: Geom2, x0: number, x1: number): Geom3 {
   return remap(extrusions.extrudeLinear({ height: x1 - x0 }, profile), (v) => [x0 + v[2], v[0], v[1]]);
 }
 
+/** A plane solids are glued along: axis (0 x, 1 y, 2 z) = at, optionally only faces inside a box. */
+export interface GluePlane {
+  axis: 0 | 1 | 2;
+  at: number;
+  within?: { min: [number, number, number]; max: [number, number, number] };
+}
+
 /**
- * Joins solids that touch along faces in one plane (axis = at), each contact face of one solid
- * covering exactly the matching face of the other: the faces in that plane are dropped and the rest
- * welded. The caller guarantees that nothing else of these solids lies in that plane.
+ * Joins solids that touch along faces in given planes, each contact face of one solid covering
+ * exactly the matching face of the other: those faces are dropped (the welding in meshOf / stackLayers
+ * closes the seams). The caller guarantees nothing else of these solids lies in those planes.
  */
-export function glue(parts: Geom3[], axis: 0 | 1 | 2, at: number): Geom3 {
+export function glue(parts: Geom3[], planes: GluePlane[]): Geom3 {
+  const inPlane = (poly: { vertices: number[][] }, n: number[], plane: GluePlane) =>
+    Math.abs(Math.abs(n[plane.axis]) - 1) < 1e-9 &&
+    poly.vertices.every(
+      (v) =>
+        Math.abs(v[plane.axis] - plane.at) < 1e-7 &&
+        (!plane.within || v.every((c, i) => c >= plane.within!.min[i] - 1e-7 && c <= plane.within!.max[i] + 1e-7)),
+    );
   const kept = parts.flatMap((part) =>
     geometries.geom3.toPolygons(part).filter((poly) => {
       const n = geometries.poly3.plane(poly);
-      return !(Math.abs(Math.abs(n[axis]) - 1) < 1e-9 && poly.vertices.every((v) => Math.abs(v[axis] - at) < 1e-7));
+      return !planes.some((plane) => inPlane(poly, n, plane));
     }),
   );
   return geometries.geom3.create(kept);
+}
+
+/**
+ * A block x0..x1 × y0..y1 × z0..z1 with a round hole along y through (holeX, holeZ), drawn as an
+ * extrusion along y so the hole needs no 3D boolean.
+ */
+export function blockWithHoleAlongY(
+  x0: number, x1: number, y0: number, y1: number, z0: number, z1: number,
+  hole: { diameterMm: number; x: number; z: number } | null, res: Resolution,
+): Geom3 {
+  const outline: Vec2[] = [[x0, z0], [x1, z0], [x1, z1], [x0, z1]];
+  return extrudeAlongY(region(outline, hole ? [holePath(hole.diameterMm, res, [hole.x, hole.z])] : []), y0, y1);
+}
+
+/** Same along x: a block with a round hole along x through (holeY, holeZ). */
+export function blockWithHoleAlongX(
+  x0: number, x1: number, y0: number, y1: number, z0: number, z1: number,
+  hole: { diameterMm: number; y: number; z: number } | null, res: Resolution,
+): Geom3 {
+  const outline: Vec2[] = [[y0, z0], [y1, z0], [y1, z1], [y0, z1]];
+  return extrudeAlongX(region(outline, hole ? [holePath(hole.diameterMm, res, [hole.y, hole.z])] : []), x0, x1);
+}
+
+/**
+ * A bore of this diameter (flats on the circle) centred at c with a slot of half-width `gap` leaving
+ * it along direction +x (dir 1) or −x (dir −1): the points clockwise from the slot's lower edge
+ * (as seen turning away from the slot) round to its other edge, for splicing into an outline.
+ */
+export function slottedBoreArc(diameterMm: number, res: Resolution, gap: number, c: Vec2 = [0, 0], dir: 1 | -1 = 1): Vec2[] {
+  const n = circleSides(diameterMm, res);
+  const R = diameterMm / 2 / Math.cos(Math.PI / n);
+  const x = Math.sqrt(R * R - gap * gap);
+  const limit = Math.asin(gap / R);
+  const local: Vec2[] = [[x, -gap]];
+  for (let k = n - 1; k >= 1; k--) {
+    const a = (2 * Math.PI * k) / n;
+    if (a > limit + 1e-9 && a < 2 * Math.PI - limit - 1e-9) local.push([R * Math.cos(a), R * Math.sin(a)]);
+  }
+  local.push([x, gap]);
+  // Turning by 180° keeps the order clockwise.
+  return local.map(([px, py]) => [c[0] + dir * px, c[1] + dir * py] as Vec2);
 }
 
 /** The triangles back as a JSCAD solid, for the file serializers. */
