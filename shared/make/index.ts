@@ -4,6 +4,7 @@ import type { Generator, GeneratorKind } from './types';
 import { washer } from './washer';
 import { gearRing } from './gear-ring';
 import { rodClamp } from './rod-clamp';
+import { cableClip } from './cable-clip';
 
 export * from './types';
 export { toStl, to3mf } from './files';
@@ -11,6 +12,7 @@ export { circleSides, RESOLUTIONS, type Resolution } from './params';
 export { CLEARANCE_HOLE_MM, CLEARANCES, SCREWS, SCREW_LABELS, type Clearance, type Screw } from './fasteners';
 export { washer, washerSchema } from './washer';
 export { rodClamp, rodClampSchema, ROD_CENTRES } from './rod-clamp';
+export { cableClip, cableClipSchema, CABLE_OPENING_RATIO } from './cable-clip';
 export { gearRing, gearRingSchema, gearDiameters, toothCountFor, MODULES } from './gear-ring';
 
 export const GENERATOR_KINDS = ['washer', 'gear-ring', 'rod-clamp', 'cable-clip', 'shoe-foot', 'fit-gauge'] as const satisfies readonly GeneratorKind[];
@@ -19,6 +21,7 @@ export const GENERATORS: Partial<Record<GeneratorKind, Generator>> = {
   washer: washer as unknown as Generator,
   'gear-ring': gearRing as unknown as Generator,
   'rod-clamp': rodClamp as unknown as Generator,
+  'cable-clip': cableClip as unknown as Generator,
 };
 
 export function isGeneratorKind(value: string): value is GeneratorKind {

@@ -59,6 +59,45 @@ export function rect(x0: number, y0: number, x1: number, y1: number): Geom2 {
   return primitives.polygon({ points: [[x0, y0], [x1, y0], [x1, y1], [x0, y1]] });
 }
 
+/**
+ * JSCAD's 2D booleans snap their output to a grid of about 1e-4 of the size, so a corner of the input
+ * comes back a little off; this puts every output corner that lies that close to an input corner
+ * back exactly on it, so faces that must meet another solid (glue) stay where they were drawn.
+ */
+function restoreCorners(result: Geom2, inputs: Geom2[]): Geom2 {
+  const CELL = 1e-3;
+  const near = new Map<string, Vec2[]>();
+  for (const g of inputs) {
+    for (const side of geometries.geom2.toSides(g)) {
+      for (const v of side) {
+        const key = `${Math.round(v[0] / CELL)},${Math.round(v[1] / CELL)}`;
+        const list = near.get(key);
+        if (list) list.push([v[0], v[1]]);
+        else near.set(key, [[v[0], v[1]]]);
+      }
+    }
+  }
+  const fix = (v: number[]): Vec2 => {
+    const kx = Math.round(v[0] / CELL);
+    const ky = Math.round(v[1] / CELL);
+    for (let i = -1; i <= 1; i++) for (let j = -1; j <= 1; j++) {
+      for (const c of near.get(`${kx + i},${ky + j}`) ?? []) {
+        if (Math.abs(c[0] - v[0]) < 5e-4 && Math.abs(c[1] - v[1]) < 5e-4) return c;
+      }
+    }
+    return [v[0], v[1]];
+  };
+  const sides = geometries.geom2.toSides(result).map((side) => [fix(side[0]), fix(side[1])] as [Vec2, Vec2]);
+  return geometries.geom2.create(sides.filter(([a, b]) => a[0] !== b[0] || a[1] !== b[1]));
+}
+
+/** union(...solids) minus cuts, with the input corners kept exact. */
+export function profileOf(solids: Geom2[], cuts: Geom2[] = []): Geom2 {
+  const joined = solids.length === 1 ? solids[0] : booleans.union(...solids);
+  const result = cuts.length === 0 ? joined : booleans.subtract(joined, ...cuts);
+  return restoreCorners(result, [...solids, ...cuts]);
+}
+
 /** Extrudes a 2D profile (in XY) upward from z = z0 by the height. */
 export function extrude(profile: Geom2, heightMm: number, z0 = 0): Geom3 {
   const solid = extrusions.extrudeLinear({ height: heightMm }, profile);
