@@ -184,7 +184,7 @@ export const gearRing: Generator<typeof gearRingSchema> = {
       if (2 * gap < 0.8) warnings.push(`The clamp slot is only ${formatMm(2 * gap)} wide (it must fit between two teeth); clear it with a blade after printing.`);
     } else {
       const outline = gearOutline(p.module, teeth, p.resolution);
-      mesh = meshOf(extrude(region(outline, [holePath(boreDrawn, p.resolution)]), p.widthMm), false);
+      mesh = meshOf(extrude(region(outline, [holePath(boreDrawn, p.resolution)]), p.widthMm));
       if (p.interferenceMm > 0.5) warnings.push('More than 0.5 mm of interference may split the ring or mark the barrel.');
     }
     const bore = boreDrawn;
