@@ -174,6 +174,18 @@ function flipSlivers(input: number[], xyz: number[]): number[] {
   }
   const snapGrid = (1e-5 * (hi[0] - lo[0] + hi[1] - lo[1] + hi[2] - lo[2])) / 3;
   const minHeight = 4 * snapGrid;
+  /** Smallest height of triangle t, without allocating. */
+  const heightOf = (a: number, b: number, c: number) => {
+    const ux = xyz[3 * b] - xyz[3 * a], uy = xyz[3 * b + 1] - xyz[3 * a + 1], uz = xyz[3 * b + 2] - xyz[3 * a + 2];
+    const vx = xyz[3 * c] - xyz[3 * a], vy = xyz[3 * c + 1] - xyz[3 * a + 1], vz = xyz[3 * c + 2] - xyz[3 * a + 2];
+    const wx = vx - ux, wy = vy - uy, wz = vz - uz;
+    const cx = uy * vz - uz * vy, cy = uz * vx - ux * vz, cz = ux * vy - uy * vx;
+    const longest2 = Math.max(ux * ux + uy * uy + uz * uz, vx * vx + vy * vy + vz * vz, wx * wx + wy * wy + wz * wz);
+    return Math.sqrt((cx * cx + cy * cy + cz * cz) / longest2);
+  };
+  let thin = false;
+  for (let t = 0; t < count && !thin; t++) thin = heightOf(tris[3 * t], tris[3 * t + 1], tris[3 * t + 2]) < minHeight;
+  if (!thin) return tris;
   const P = (v: number) => [xyz[3 * v], xyz[3 * v + 1], xyz[3 * v + 2]];
   const sub = (a: number[], b: number[]) => [a[0] - b[0], a[1] - b[1], a[2] - b[2]];
   const cross = (a: number[], b: number[]) => [a[1] * b[2] - a[2] * b[1], a[2] * b[0] - a[0] * b[2], a[0] * b[1] - a[1] * b[0]];
@@ -182,24 +194,22 @@ function flipSlivers(input: number[], xyz: number[]): number[] {
   /** Smallest height of a triangle and its normal (unnormalised). */
   const shape = (a: number, b: number, c: number) => {
     const pa = P(a), pb = P(b), pc = P(c);
-    const n = cross(sub(pb, pa), sub(pc, pa));
-    const twiceArea = len(n);
-    const longest = Math.max(len(sub(pb, pa)), len(sub(pc, pb)), len(sub(pa, pc)));
-    return { height: twiceArea / longest, n };
+    return { height: heightOf(a, b, c), n: cross(sub(pb, pa), sub(pc, pa)) };
   };
   const vertexCount = xyz.length / 3;
-  for (let pass = 0; pass < 20; pass++) {
-    const edgeOwner = new Map<number, number>();
-    for (let t = 0; t < count; t++) {
-      for (let e = 0; e < 3; e++) edgeOwner.set(tris[3 * t + e] * vertexCount + tris[3 * t + ((e + 1) % 3)], t);
-    }
-    const touched = new Uint8Array(count);
-    let flips = 0;
-    for (let t = 0; t < count; t++) {
-      if (touched[t]) continue;
+  const edgeOwner = new Map<number, number>();
+  const own = (t: number) => {
+    for (let e = 0; e < 3; e++) edgeOwner.set(tris[3 * t + e] * vertexCount + tris[3 * t + ((e + 1) % 3)], t);
+  };
+  for (let t = 0; t < count; t++) own(t);
+  let candidates: number[] = [];
+  for (let t = 0; t < count; t++) if (heightOf(tris[3 * t], tris[3 * t + 1], tris[3 * t + 2]) < minHeight) candidates.push(t);
+  for (let pass = 0; pass < 20 && candidates.length > 0; pass++) {
+    const next: number[] = [];
+    for (const t of candidates) {
+      if (heightOf(tris[3 * t], tris[3 * t + 1], tris[3 * t + 2]) >= minHeight) continue;
       const v = [tris[3 * t], tris[3 * t + 1], tris[3 * t + 2]];
-      const own = shape(v[0], v[1], v[2]);
-      if (own.height >= minHeight) continue;
+      const mine = shape(v[0], v[1], v[2]);
       // The longest edge (a, b) and the corner c opposite it.
       let best = 0;
       let bestLen = -1;
@@ -212,24 +222,25 @@ function flipSlivers(input: number[], xyz: number[]): number[] {
       }
       const a = v[best], b = v[(best + 1) % 3], c = v[(best + 2) % 3];
       const u = edgeOwner.get(b * vertexCount + a);
-      if (u === undefined || touched[u]) continue;
+      if (u === undefined) continue;
       const w = [tris[3 * u], tris[3 * u + 1], tris[3 * u + 2]];
       const d = w.find((x) => x !== a && x !== b)!;
       const other = shape(w[0], w[1], w[2]);
-      const n1 = own.n, n2 = other.n;
+      const n1 = mine.n, n2 = other.n;
       if (len(cross(n1, n2)) > 1e-9 * len(n1) * len(n2) || dot(n1, n2) <= 0) continue;
       if (edgeOwner.has(c * vertexCount + d) || edgeOwner.has(d * vertexCount + c)) continue;
       const first = shape(a, d, c);
       const second = shape(d, b, c);
       if (dot(first.n, n1) <= 0 || dot(second.n, n1) <= 0) continue;
-      if (Math.min(first.height, second.height) <= Math.min(own.height, other.height)) continue;
+      if (Math.min(first.height, second.height) <= Math.min(mine.height, other.height)) continue;
+      for (const x of [t, u]) for (let e = 0; e < 3; e++) edgeOwner.delete(tris[3 * x + e] * vertexCount + tris[3 * x + ((e + 1) % 3)]);
       tris[3 * t] = a; tris[3 * t + 1] = d; tris[3 * t + 2] = c;
       tris[3 * u] = d; tris[3 * u + 1] = b; tris[3 * u + 2] = c;
-      touched[t] = 1;
-      touched[u] = 1;
-      flips++;
+      own(t);
+      own(u);
+      next.push(t, u);
     }
-    if (flips === 0) break;
+    candidates = next;
   }
   return tris;
 }

@@ -106,7 +106,8 @@ export function profileOf(solids: Geom2[], cuts: Geom2[] = []): Geom2 {
 
 /** Extrudes a 2D profile (in XY) upward from z = z0 by the height. */
 export function extrude(profile: Geom2, heightMm: number, z0 = 0): Geom3 {
-  const solid = extrusions.extrudeLinear({ height: heightMm }, profile);
+  // Our profiles are closed already; the slice repair (gap closing) only costs time.
+  const solid = extrusions.extrudeLinear({ height: heightMm, repair: false } as { height: number }, profile);
   return z0 === 0 ? solid : transforms.translateZ(z0, solid);
 }
 
@@ -161,7 +162,12 @@ export function stackLayers(layers: Layer[], steps: Step[]): GeneratedMesh {
   const soup: number[] = [];
   const push = (polygon: { vertices: number[][] }) => {
     const v = polygon.vertices;
-    for (let i = 1; i + 1 < v.length; i++) soup.push(...v[0], ...v[i], ...v[i + 1]);
+    const a = v[0];
+    for (let i = 1; i + 1 < v.length; i++) {
+      const b = v[i];
+      const c = v[i + 1];
+      soup.push(a[0], a[1], a[2], b[0], b[1], b[2], c[0], c[1], c[2]);
+    }
   };
   const capsOf = (g: Geom2, z: number, up: boolean) => {
     if (geometries.geom2.toSides(g).length === 0) return;
