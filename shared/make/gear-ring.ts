@@ -62,7 +62,7 @@ export function gearOutline(moduleMm: number, teeth: number, res: Resolution, ga
   // Half the tooth's angular thickness at radius R: the pitch circle carries half the circular pitch.
   const halfAngle = (R: number) => Math.PI / (2 * teeth) + involute(PRESSURE_ANGLE_RAD) - involute(Math.acos(Math.min(1, rb / R)));
   void pitchMm;
-  const flankPoints = res === 'fine' ? 14 : 7;
+  const flankPoints = res === 'fine' ? 10 : 5;
   const rStart = Math.max(rb, rf);
   const radii: number[] = [];
   for (let i = 0; i <= flankPoints; i++) radii.push(rStart + ((ra - rStart) * i) / flankPoints);

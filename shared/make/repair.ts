@@ -117,12 +117,33 @@ export function weldAndSplit(positions: ArrayLike<number>): Float32Array {
   };
 
   for (let pass = 0; pass < 6; pass++) {
-    const directed = new Set<number>();
+    // Directed edges as sorted numbers: an edge is shared when its reverse is among them.
+    const keys = new Float64Array(tris.length);
     for (let i = 0; i < tris.length; i += 3) {
-      directed.add(edgeKey(tris[i], tris[i + 1]));
-      directed.add(edgeKey(tris[i + 1], tris[i + 2]));
-      directed.add(edgeKey(tris[i + 2], tris[i]));
+      keys[i] = edgeKey(tris[i], tris[i + 1]);
+      keys[i + 1] = edgeKey(tris[i + 1], tris[i + 2]);
+      keys[i + 2] = edgeKey(tris[i + 2], tris[i]);
     }
+    const sorted = keys.slice().sort();
+    const directed = {
+      has(key: number): boolean {
+        let lo = 0;
+        let hi = sorted.length - 1;
+        while (lo <= hi) {
+          const mid = (lo + hi) >> 1;
+          const v = sorted[mid];
+          if (v === key) return true;
+          if (v < key) lo = mid + 1;
+          else hi = mid - 1;
+        }
+        return false;
+      },
+    };
+    let open = false;
+    for (let i = 0; i < tris.length && !open; i += 3) {
+      open = !directed.has(edgeKey(tris[i + 1], tris[i])) || !directed.has(edgeKey(tris[i + 2], tris[i + 1])) || !directed.has(edgeKey(tris[i], tris[i + 2]));
+    }
+    if (!open) break;
     let changed = false;
     const next: number[] = [];
     for (let i = 0; i < tris.length; i += 3) {
