@@ -1,0 +1,41 @@
+// The make pool's task (see worker-pool.ts): generate a part, measure it, slice it for the estimate
+// and, when asked, write the file. Relative imports only: this module is loaded inside worker threads.
+import { analyseTriangles, type MeshAnalysis } from '../../../shared/mesh';
+import { GENERATORS, to3mf, toStl, type Corrections, type Drawn } from '../../../shared/make';
+import { sliceProfile, type SliceProfile, type SliceSettings } from '../../../shared/slice';
+import type { MakeFormat } from '../../../shared/schemas/make';
+
+export interface MakeJob {
+  kind: string;
+  /** Already checked against the generator's schema on the main thread. */
+  params: unknown;
+  corrections: Corrections;
+  /** Cut into layers for the estimate when given. */
+  slice?: SliceSettings;
+  /** Also return the file in this format. */
+  format?: MakeFormat;
+}
+
+export interface MakeResult {
+  analysis: MeshAnalysis;
+  drawn: Drawn;
+  warnings: string[];
+  loadBearing: boolean;
+  profile: SliceProfile | null;
+  file: Uint8Array | null;
+}
+
+function bytesOf(out: Uint8Array | ArrayBuffer | string): Uint8Array {
+  if (typeof out === 'string') return new TextEncoder().encode(out);
+  return out instanceof Uint8Array ? out : new Uint8Array(out);
+}
+
+export function makePart(job: MakeJob): MakeResult {
+  const generator = (GENERATORS as Record<string, (typeof GENERATORS)[keyof typeof GENERATORS]>)[job.kind];
+  if (!generator) throw new Error(`no generator "${job.kind}"`);
+  const made = generator.generate(job.params as never, job.corrections);
+  const analysis = analyseTriangles(made.mesh.positions);
+  const profile = job.slice ? sliceProfile(made.mesh.positions, job.slice) : null;
+  const file = job.format === '3mf' ? bytesOf(to3mf(made.mesh)) : job.format === 'stl' ? bytesOf(toStl(made.mesh)) : null;
+  return { analysis, drawn: made.drawn, warnings: made.warnings, loadBearing: made.loadBearing, profile, file };
+}
