@@ -63,6 +63,8 @@ export interface MakePreview {
   corrections: { holeMm: number; outerMm: number; printer: string; material: MaterialId } | null;
   /** "Bore drawn at 15.25 mm so it prints at 15 mm on your printer." */
   calibrationNotes: string[];
+  /** What the maker chose and why (clearance tables, tooth counts, …). */
+  notes: string[];
   loadBearing: boolean;
 }
 

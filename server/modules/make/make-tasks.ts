@@ -1,7 +1,7 @@
 // The make pool's task (see worker-pool.ts): generate a part, measure it, slice it for the estimate
 // and, when asked, write the file. Relative imports only: this module is loaded inside worker threads.
 import { analyseTriangles, type MeshAnalysis } from '../../../shared/mesh';
-import { GENERATORS, to3mf, toStl, type Corrections, type Drawn } from '../../../shared/make';
+import { GENERATORS, to3mf, toStl, type Corrections, type Drawn, type Generator } from '../../../shared/make';
 import { sliceProfile, type SliceProfile, type SliceSettings } from '../../../shared/slice';
 import type { MakeFormat } from '../../../shared/schemas/make';
 
@@ -31,7 +31,7 @@ function bytesOf(out: Uint8Array | ArrayBuffer | string): Uint8Array {
 }
 
 export function makePart(job: MakeJob): MakeResult {
-  const generator = (GENERATORS as Record<string, (typeof GENERATORS)[keyof typeof GENERATORS]>)[job.kind];
+  const generator = (GENERATORS as Record<string, Generator | undefined>)[job.kind];
   if (!generator) throw new Error(`no generator "${job.kind}"`);
   const made = generator.generate(job.params as never, job.corrections);
   const analysis = analyseTriangles(made.mesh.positions);

@@ -6,7 +6,7 @@ import { availableParallelism } from 'node:os';
 import { z } from 'zod';
 import type { CalibrationInfo, CalibrationList, MadeWith, MakePreview, MakerInfo, MakerList } from '@shared/api/make';
 import { DEFAULT_PRICE_PER_KG, estimateFromSlices, fitOnBed, lineWidthFor, type PrintSettings } from '@shared/estimate';
-import { GENERATORS, type Corrections } from '@shared/make';
+import { GENERATORS, type Corrections, type Generator } from '@shared/make';
 import { heatCheck, type MaterialId } from '@shared/materials';
 import { meshConcerns } from '@shared/mesh/concerns';
 import { safetyCautions } from '@shared/safety';
@@ -36,7 +36,6 @@ export const MAKE_POOL: WorkerPoolOptions = {
   tasks: new URL('./make-tasks.ts', import.meta.url).href,
 };
 
-type Generator = (typeof GENERATORS)[keyof typeof GENERATORS];
 const makers = GENERATORS as Record<string, Generator>;
 
 function generatorOf(kind: string): Generator {
@@ -198,7 +197,7 @@ export function createMakeService() {
         const message = `A ${s.layerMm} mm layer is too thick for a ${s.nozzleMm} mm nozzle; use at most ${round(s.nozzleMm * MAX_LAYER_TO_NOZZLE, 3)} mm.`;
         throw new AppError(422, 'validation_failed', message, { 'recipe.layerMm': message });
       }
-      const { params, result, corrections, printer } = await make(viewer, kind, input, {
+      const { result, corrections, printer } = await make(viewer, kind, input, {
         slice: { layerMm: s.layerMm, walls: s.walls, lineWidthMm: lineWidthFor(s), skinLayers: s.topBottomLayers },
       });
       const { analysis, profile } = result;
@@ -241,7 +240,8 @@ export function createMakeService() {
         parameters: result.drawn.parameters,
         sizes: result.drawn.sizes,
         corrections,
-        calibrationNotes: corrections ? result.drawn.notes : [],
+        calibrationNotes: result.drawn.notes.filter((n) => n.includes(' so it prints at ')),
+        notes: result.drawn.notes.filter((n) => !n.includes(' so it prints at ')),
         loadBearing: result.loadBearing,
       };
     },

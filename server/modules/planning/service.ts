@@ -452,7 +452,7 @@ export function createPlanningService({ sequelize, evidence, dirs, slicer }: Pla
           changes.recipeId = (await publishedRecipe(part, patch.recipeId, t)).id;
         } else if (patch.recipeId !== undefined) {
           // null goes back to the part's default recipe
-          changes.recipeId = (await publishedRecipe(await shelfPart(item.partId, t), patch.recipeId, t)).id;
+          changes.recipeId = (await publishedRecipe(await shelfPart(item.partId!, t), patch.recipeId, t)).id;
         }
         if (patch.printerId !== undefined) changes.printerId = await ownersPrinter(kit, patch.printerId, t);
         await item.update(changes, { transaction: t });
