@@ -1,3 +1,4 @@
+import type request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { CalibrationInfo, MakePreview, MakerList } from '@shared/api/make';
 import type { KitItemInfo, KitSummaryResponse } from '@shared/api/planning';
@@ -19,10 +20,12 @@ async function signedIn(): Promise<Agent> {
   return Object.assign(a, { userId: u.user.id });
 }
 
-function binary(res: NodeJS.ReadableStream & { setEncoding(e: string): void; on(e: string, cb: (c?: Buffer) => void): void }, cb: (err: Error | null, body: Buffer) => void) {
+/** Collects a binary answer (supertest parses only text and JSON on its own). */
+function binary(res: request.Response, cb: (err: Error | null, body: Buffer) => void) {
+  const stream = res as unknown as NodeJS.ReadableStream;
   const chunks: Buffer[] = [];
-  res.on('data', (c) => chunks.push(c!));
-  res.on('end', () => cb(null, Buffer.concat(chunks)));
+  stream.on('data', (c: Buffer) => chunks.push(c));
+  stream.on('end', () => cb(null, Buffer.concat(chunks)));
 }
 
 const washer = { screw: 'M6', clearance: 'normal', outerDiameterMm: 14, thicknessMm: 2 };
