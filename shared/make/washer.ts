@@ -2,7 +2,7 @@ import { z } from 'zod';
 import type { Generator } from './types';
 import { choiceOf, formatMm, lengthMm, resolution, roundMm } from './params';
 import { CLEARANCE_HOLE_MM, CLEARANCE_STANDARD, CLEARANCES, clearanceName, HEAD_DIAMETER_MM, NUT_ACROSS_FLATS_MM, SCREW_LABELS, SCREWS } from './fasteners';
-import { booleans, extrude, holeCircle, meshOf, outerCircle, primitives, SizeBook } from './solid';
+import { circlePath, extrude, holePath, meshOf, region, reversed, SizeBook, stackLayers, type Vec2 } from './solid';
 import { circleSides } from './params';
 
 const MIN_WALL_MM = 1;
@@ -71,23 +71,30 @@ export const washer: Generator<typeof washerSchema> = {
     book.notes.push(
       `Clearance hole ${formatMm(nominalHole)} for ${SCREW_LABELS[p.screw]}, ${clearanceName(p.screw, p.clearance)} (${CLEARANCE_STANDARD[p.screw]}).`,
     );
-    const ring = booleans.subtract(outerCircle(od, p.resolution), holeCircle(hole, p.resolution));
-    let solid = extrude(ring, p.thicknessMm);
-    let repaired = false;
-    if (p.recess !== 'none') {
+    const outline = circlePath(od, p.resolution);
+    const holeLoop = holePath(hole, p.resolution);
+    let mesh;
+    if (p.recess === 'none') {
+      mesh = meshOf(extrude(region(outline, [holeLoop]), p.thicknessMm), false);
+    } else {
       const depth = p.recessDepthMm;
-      const pocket =
-        p.recess === 'hex'
-          ? primitives.circle({ radius: book.hole('Nut pocket corners', recessDiameter(p.screw, 'hex')) / 2, segments: 6 })
-          : holeCircle(book.hole('Counterbore', recessDiameter(p.screw, 'counterbore')), p.resolution);
-      solid = booleans.subtract(solid, extrude(pocket, depth + 1, p.thicknessMm - depth));
-      repaired = true;
+      let pocket: Vec2[];
+      if (p.recess === 'hex') {
+        const corner = book.hole('Nut pocket corners', recessDiameter(p.screw, 'hex')) / 2;
+        pocket = [0, 5, 4, 3, 2, 1].map((k) => [corner * Math.cos((k * Math.PI) / 3), corner * Math.sin((k * Math.PI) / 3)] as Vec2);
+      } else {
+        pocket = holePath(book.hole('Counterbore', recessDiameter(p.screw, 'counterbore')), p.resolution);
+      }
+      mesh = stackLayers([
+        { region: region(outline, [holeLoop]), z0: 0, z1: p.thicknessMm - depth },
+        { region: region(outline, [pocket]), z0: p.thicknessMm - depth, z1: p.thicknessMm },
+      ], [{ up: region(reversed(pocket), [holeLoop]) }]);
       book.notes.push(`${p.recess === 'hex' ? 'Nut pocket' : 'Counterbore'} ${formatMm(depth)} deep on the top face.`);
     }
     const warnings: string[] = [];
     if (od - hole < 2 * 1.5) warnings.push('The ring is under 1.5 mm wide on each side; it may crack when the screw is tightened.');
     return {
-      mesh: meshOf(solid, repaired),
+      mesh,
       drawn: {
         parameters: { ...p, holeMm: roundMm(hole), outerDiameterMm: roundMm(od), segments: circleSides(od, p.resolution) },
         sizes: book.sizes,
