@@ -92,6 +92,9 @@ export function presentCalibration(c: PrinterCalibration): CalibrationInfo {
   };
 }
 
+/** A label without its bracketed aside: "Barrel diameter (measured)" → "Barrel diameter". */
+const plain = (text: string) => text.replace(/\s*\([^)]*\)/g, '').trim();
+
 /** A made part's name from its maker and main sizes: "Lens gear ring, module 0.8, barrel 82 mm". */
 export function madeSummary(kind: string, params: Record<string, unknown>, count = 3): string {
   const g = makers[kind];
@@ -101,9 +104,9 @@ export function madeSummary(kind: string, params: Record<string, unknown>, count
     if (parts.length >= count || f.key === 'resolution') continue;
     const v = params[f.key];
     if (v === undefined || v === null || v === '' || typeof v === 'boolean') continue;
-    const label = f.label.toLowerCase();
+    const label = plain(f.label).toLowerCase();
     const option = f.options?.find((o) => o.value === v)?.label;
-    if (option) parts.push(`${label} ${option}`);
+    if (option) parts.push(`${label} ${plain(option)}`);
     else if (typeof v === 'number') parts.push(`${label} ${round(v, 3)}${f.kind === 'length' ? ' mm' : f.unit === '°' ? '°' : ''}`);
     else parts.push(`${label} ${String(v)}`);
   }
