@@ -54,6 +54,18 @@ describe('make list', () => {
 });
 
 describe('make preview', () => {
+  it('POST preview · every maker at its defaults · a sound mesh of the pieces it promises', async () => {
+    const list = (await visitor.get('/api/make').expect(200)).body as MakerList;
+    expect(list.items.length).toBeGreaterThan(0);
+    for (const m of list.items) {
+      const p = (await visitor.post(`/api/make/${m.kind}/preview`).send({ params: m.defaults }).expect(200)).body as MakePreview;
+      expect(p.analysis.watertight, m.kind).toBe(true);
+      expect(p.analysis.windingConsistent, m.kind).toBe(true);
+      expect(p.analysis.volumeMm3, m.kind).toBeGreaterThan(0);
+      expect(p.estimate, m.kind).not.toBeNull();
+    }
+  });
+
   it('POST preview · M6 washer · sound mesh, hole per ISO 273 medium, volume, estimate', async () => {
     const res = await visitor.post('/api/make/washer/preview').send({ params: washer, material: 'PETG' }).expect(200);
     const p = res.body as MakePreview;
