@@ -1,8 +1,7 @@
-// The make pool's task (see worker-pool.ts): generate a part, measure it, slice it for the estimate
-// and, when asked, write the file. Relative imports only: this module is loaded inside worker threads.
+// The make pool's task (see worker-pool.ts): generate a part, measure it and, when asked, write the
+// file. Relative imports only: this module is loaded inside worker threads.
 import { analyseTriangles, type MeshAnalysis } from '../../../shared/mesh';
 import { GENERATORS, to3mf, toStl, type Corrections, type Drawn, type Generator } from '../../../shared/make';
-import { sliceProfile, type SliceProfile, type SliceSettings } from '../../../shared/slice';
 import type { MakeFormat } from '../../../shared/schemas/make';
 
 export interface MakeJob {
@@ -10,8 +9,6 @@ export interface MakeJob {
   /** Already checked against the generator's schema on the main thread. */
   params: unknown;
   corrections: Corrections;
-  /** Cut into layers for the estimate when given. */
-  slice?: SliceSettings;
   /** Also return the file in this format. */
   format?: MakeFormat;
 }
@@ -21,7 +18,6 @@ export interface MakeResult {
   drawn: Drawn;
   warnings: string[];
   loadBearing: boolean;
-  profile: SliceProfile | null;
   file: Uint8Array | null;
 }
 
@@ -35,7 +31,6 @@ export function makePart(job: MakeJob): MakeResult {
   if (!generator) throw new Error(`no generator "${job.kind}"`);
   const made = generator.generate(job.params as never, job.corrections);
   const analysis = analyseTriangles(made.mesh.positions);
-  const profile = job.slice ? sliceProfile(made.mesh.positions, job.slice) : null;
   const file = job.format === '3mf' ? bytesOf(to3mf(made.mesh)) : job.format === 'stl' ? bytesOf(toStl(made.mesh)) : null;
-  return { analysis, drawn: made.drawn, warnings: made.warnings, loadBearing: made.loadBearing, profile, file };
+  return { analysis, drawn: made.drawn, warnings: made.warnings, loadBearing: made.loadBearing, file };
 }

@@ -5,7 +5,7 @@
 import { availableParallelism } from 'node:os';
 import { z } from 'zod';
 import type { CalibrationInfo, CalibrationList, MadeWith, MakePreview, MakerInfo, MakerList } from '@shared/api/make';
-import { DEFAULT_PRICE_PER_KG, estimateFromSlices, fitOnBed, lineWidthFor, type PrintSettings } from '@shared/estimate';
+import { DEFAULT_PRICE_PER_KG, estimatePrint, fitOnBed, type PrintSettings } from '@shared/estimate';
 import { GENERATORS, type Corrections, type Generator } from '@shared/make';
 import { heatCheck, type MaterialId } from '@shared/materials';
 import { meshConcerns } from '@shared/mesh/concerns';
@@ -168,7 +168,7 @@ export function createMakeService() {
     return { holeMm: c.holeCorrectionMm, outerMm: c.outerCorrectionMm ?? 0, printer: printer.name, material };
   }
 
-  async function make(viewer: User | undefined, kind: string, input: MakeRequest, extra: Pick<MakeJob, 'slice' | 'format'> = {}): Promise<MadeMesh> {
+  async function make(viewer: User | undefined, kind: string, input: MakeRequest, extra: Pick<MakeJob, 'format'> = {}): Promise<MadeMesh> {
     const params = parseParams(kind, input.params);
     const printer = await ownPrinter(viewer, input.printerId);
     const corrections = await correctionsFor(printer, input.material);
@@ -200,10 +200,10 @@ export function createMakeService() {
         const message = `A ${s.layerMm} mm layer is too thick for a ${s.nozzleMm} mm nozzle; use at most ${round(s.nozzleMm * MAX_LAYER_TO_NOZZLE, 3)} mm.`;
         throw new AppError(422, 'validation_failed', message, { 'recipe.layerMm': message });
       }
-      const { result, corrections, printer } = await make(viewer, kind, input, {
-        slice: { layerMm: s.layerMm, walls: s.walls, lineWidthMm: lineWidthFor(s), skinLayers: s.topBottomLayers },
-      });
-      const { analysis, profile } = result;
+      // the quick estimate from the mesh's figures, as a kit plans a made item: slicing a toothed ring
+      // takes seconds, and the preview answers while the member types
+      const { result, corrections, printer } = await make(viewer, kind, input);
+      const { analysis } = result;
 
       const sheet = viewer ? await PriceSheet.findByPk(viewer.id) : null;
       const pricePerKg = sheet?.pricesPerKg[input.material] ?? DEFAULT_PRICE_PER_KG[input.material];
@@ -219,7 +219,7 @@ export function createMakeService() {
         printerWatts: printer?.watts ?? undefined,
         pricePerKwh: printer?.watts ? (sheet?.pricePerKwh ?? undefined) : undefined,
       };
-      const e = profile ? estimateFromSlices(profile, settings) : null;
+      const e = analysis.volumeMm3 > 0 ? estimatePrint({ volumeMm3: analysis.volumeMm3, areaMm2: analysis.areaMm2, sizeMm: analysis.sizeMm }, settings) : null;
       const estimate = e
         ? { volumeMm3: e.volumeMm3, massG: e.massG, lengthM: e.lengthM, timeMin: e.timeMin, cost: e.cost, pricePerKg, partsMm3: e.partsMm3, method: e.method, assumptions: e.assumptions }
         : null;
