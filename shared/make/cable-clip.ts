@@ -99,10 +99,10 @@ export const cableClip: Generator<typeof cableClipSchema> = {
     if (p.mount === 'screw') {
       const hole = book.hole('1/4-20 hole', CLEARANCE_HOLE_MM['1/4-20'].normal);
       const ear = blockWithHoleAlongY(slabRight, slabRight + extraRight, 0, SLAB_MM, 0, p.widthMm, { diameterMm: hole, x: slabRight + extraRight / 2, z: p.widthMm / 2 }, res);
-      mesh = meshOf(glue([extrude(profile, p.widthMm), ear], [{ axis: 0, at: slabRight }]), true);
+      mesh = meshOf(glue([extrude(profile, p.widthMm), ear], [{ axis: 0, at: slabRight }]));
       book.notes.push('The 1/4-20 hole runs through the tab beside the cables.');
     } else {
-      mesh = meshOf(extrude(profile, p.widthMm), true);
+      mesh = meshOf(extrude(profile, p.widthMm));
     }
     book.notes.push(`Cable openings ${CABLE_OPENING_RATIO} × the cable; print lying on its side so the rings are round.`);
     return {

@@ -79,6 +79,13 @@ export function correctionFromGauge(input: z.input<typeof fitGaugeSchema>, fitti
   return p.mode === 'bores' ? { holeMm: delta } : { outerMm: delta };
 }
 
+/**
+ * Each step's circle is turned by a different fraction of a side: with sizes stepping evenly, the
+ * corners of unturned circles would line up across the row, and triangulating between corners in a
+ * line makes facets of no area.
+ */
+const phaseOf = (i: number) => (i * 0.618034) % 1;
+
 function notchedEdge(centres: { x: number; offset: number }[], width: number, height: number): Vec2[] {
   const front: [number, number][] = [];
   const back: [number, number][] = [];
@@ -132,9 +139,9 @@ export const fitGauge: Generator<typeof fitGaugeSchema> = {
     let mesh;
     let top = p.thicknessMm;
     if (p.mode === 'bores') {
-      mesh = meshOf(extrude(region(outline, centres.map((c) => holePath(c.d, p.resolution, [c.x, height / 2]))), p.thicknessMm), false);
+      mesh = meshOf(extrude(region(outline, centres.map((c, i) => holePath(c.d, p.resolution, [c.x, height / 2], phaseOf(i)))), p.thicknessMm));
     } else {
-      const pegs = centres.map((c) => circlePath(c.d, p.resolution, [c.x, height / 2]));
+      const pegs = centres.map((c, i) => circlePath(c.d, p.resolution, [c.x, height / 2], phaseOf(i)));
       top = p.thicknessMm + p.pegHeightMm;
       mesh = stackLayers(
         [

@@ -62,7 +62,7 @@ export function gearOutline(moduleMm: number, teeth: number, res: Resolution, ga
   // Half the tooth's angular thickness at radius R: the pitch circle carries half the circular pitch.
   const halfAngle = (R: number) => Math.PI / (2 * teeth) + involute(PRESSURE_ANGLE_RAD) - involute(Math.acos(Math.min(1, rb / R)));
   void pitchMm;
-  const flankPoints = res === 'fine' ? 14 : 7;
+  const flankPoints = res === 'fine' ? 10 : 5;
   const rStart = Math.max(rb, rf);
   const radii: number[] = [];
   for (let i = 0; i <= flankPoints; i++) radii.push(rStart + ((ra - rStart) * i) / flankPoints);
@@ -184,7 +184,7 @@ export const gearRing: Generator<typeof gearRingSchema> = {
       if (2 * gap < 0.8) warnings.push(`The clamp slot is only ${formatMm(2 * gap)} wide (it must fit between two teeth); clear it with a blade after printing.`);
     } else {
       const outline = gearOutline(p.module, teeth, p.resolution);
-      mesh = meshOf(extrude(region(outline, [holePath(boreDrawn, p.resolution)]), p.widthMm), false);
+      mesh = meshOf(extrude(region(outline, [holePath(boreDrawn, p.resolution)]), p.widthMm));
       if (p.interferenceMm > 0.5) warnings.push('More than 0.5 mm of interference may split the ring or mark the barrel.');
     }
     const bore = boreDrawn;

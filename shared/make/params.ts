@@ -42,8 +42,8 @@ export const resolution = choiceOf('Resolution', RESOLUTIONS);
 
 /** Largest gap between a true circle and its drawn polygon, and the fewest sides, per resolution (our choice). */
 const CIRCLE_RULES: Record<Resolution, { chordErrorMm: number; minSides: number; maxSides: number }> = {
-  default: { chordErrorMm: 0.02, minSides: 48, maxSides: 192 },
-  fine: { chordErrorMm: 0.005, minSides: 96, maxSides: 512 },
+  default: { chordErrorMm: 0.02, minSides: 64, maxSides: 192 },
+  fine: { chordErrorMm: 0.005, minSides: 128, maxSides: 512 },
 };
 
 /** Sides for a circle of this diameter: enough that the polygon strays at most the resolution's chord error, a multiple of 4. */

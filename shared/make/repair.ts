@@ -37,7 +37,7 @@ class VertexTable {
     const v = this.count;
     this.slots[h] = v;
     this.q.push(qx, qy, qz);
-    this.xyz.push(qx * GRID_MM, qy * GRID_MM, qz * GRID_MM);
+    this.xyz.push(Math.fround(qx * GRID_MM), Math.fround(qy * GRID_MM), Math.fround(qz * GRID_MM));
     if (this.count * 2 > this.slots.length) this.grow();
     return v;
   }
@@ -64,6 +64,21 @@ export function weldAndSplit(positions: ArrayLike<number>): Float32Array {
     if (a !== b && b !== c && c !== a) tris.push(a, b, c);
   }
   const xyz = table.xyz;
+  // Facets with three corners in a line, or within the on-edge tolerance of one (earcut leaves them
+  // where corners line up), enclose nothing; dropping them leaves T-junctions that the splitting below closes.
+  const solid: number[] = [];
+  for (let i = 0; i < tris.length; i += 3) {
+    const [a, b, c] = [tris[i], tris[i + 1], tris[i + 2]];
+    const ux = xyz[3 * b] - xyz[3 * a], uy = xyz[3 * b + 1] - xyz[3 * a + 1], uz = xyz[3 * b + 2] - xyz[3 * a + 2];
+    const vx = xyz[3 * c] - xyz[3 * a], vy = xyz[3 * c + 1] - xyz[3 * a + 1], vz = xyz[3 * c + 2] - xyz[3 * a + 2];
+    const cx = uy * vz - uz * vy, cy = uz * vx - ux * vz, cz = ux * vy - uy * vx;
+    const cross2 = cx * cx + cy * cy + cz * cz;
+    const wx = vx - ux, wy = vy - uy, wz = vz - uz;
+    const longest2 = Math.max(ux * ux + uy * uy + uz * uz, vx * vx + vy * vy + vz * vz, wx * wx + wy * wy + wz * wz);
+    // Height = 2·area / longest edge; below the on-edge tolerance the middle corner lies on that edge.
+    if (cross2 > ON_EDGE_MM * ON_EDGE_MM * longest2 * 0.25) solid.push(a, b, c);
+  }
+  tris = solid;
   const vertexCount = table.count;
   const edgeKey = (a: number, b: number) => a * vertexCount + b;
 
@@ -102,12 +117,33 @@ export function weldAndSplit(positions: ArrayLike<number>): Float32Array {
   };
 
   for (let pass = 0; pass < 6; pass++) {
-    const directed = new Set<number>();
+    // Directed edges as sorted numbers: an edge is shared when its reverse is among them.
+    const keys = new Float64Array(tris.length);
     for (let i = 0; i < tris.length; i += 3) {
-      directed.add(edgeKey(tris[i], tris[i + 1]));
-      directed.add(edgeKey(tris[i + 1], tris[i + 2]));
-      directed.add(edgeKey(tris[i + 2], tris[i]));
+      keys[i] = edgeKey(tris[i], tris[i + 1]);
+      keys[i + 1] = edgeKey(tris[i + 1], tris[i + 2]);
+      keys[i + 2] = edgeKey(tris[i + 2], tris[i]);
     }
+    const sorted = keys.slice().sort();
+    const directed = {
+      has(key: number): boolean {
+        let lo = 0;
+        let hi = sorted.length - 1;
+        while (lo <= hi) {
+          const mid = (lo + hi) >> 1;
+          const v = sorted[mid];
+          if (v === key) return true;
+          if (v < key) lo = mid + 1;
+          else hi = mid - 1;
+        }
+        return false;
+      },
+    };
+    let open = false;
+    for (let i = 0; i < tris.length && !open; i += 3) {
+      open = !directed.has(edgeKey(tris[i + 1], tris[i])) || !directed.has(edgeKey(tris[i + 2], tris[i + 1])) || !directed.has(edgeKey(tris[i], tris[i + 2]));
+    }
+    if (!open) break;
     let changed = false;
     const next: number[] = [];
     for (let i = 0; i < tris.length; i += 3) {
@@ -130,6 +166,8 @@ export function weldAndSplit(positions: ArrayLike<number>): Float32Array {
     if (!changed) break;
   }
 
+  tris = flipSlivers(tris, xyz);
+
   const out = new Float32Array(tris.length * 3);
   for (let i = 0; i < tris.length; i++) {
     out[3 * i] = xyz[3 * tris[i]];
@@ -137,4 +175,93 @@ export function weldAndSplit(positions: ArrayLike<number>): Float32Array {
     out[3 * i + 2] = xyz[3 * tris[i] + 2];
   }
   return out;
+}
+
+/**
+ * The file serializers snap every corner to a grid of 1e-5 of the part's mean size; a sliver thinner
+ * than a few grid steps could collapse to zero area there and open the mesh. Such slivers (earcut
+ * leaves them between far-apart corners) get their longest edge flipped with the coplanar
+ * neighbour's when that makes both facets fatter.
+ */
+function flipSlivers(input: number[], xyz: number[]): number[] {
+  const tris = input.slice();
+  const count = tris.length / 3;
+  if (count === 0) return tris;
+  const lo = [Infinity, Infinity, Infinity];
+  const hi = [-Infinity, -Infinity, -Infinity];
+  for (let i = 0; i < xyz.length; i += 3) for (let k = 0; k < 3; k++) {
+    lo[k] = Math.min(lo[k], xyz[i + k]);
+    hi[k] = Math.max(hi[k], xyz[i + k]);
+  }
+  const snapGrid = (1e-5 * (hi[0] - lo[0] + hi[1] - lo[1] + hi[2] - lo[2])) / 3;
+  const minHeight = 4 * snapGrid;
+  /** Smallest height of triangle t, without allocating. */
+  const heightOf = (a: number, b: number, c: number) => {
+    const ux = xyz[3 * b] - xyz[3 * a], uy = xyz[3 * b + 1] - xyz[3 * a + 1], uz = xyz[3 * b + 2] - xyz[3 * a + 2];
+    const vx = xyz[3 * c] - xyz[3 * a], vy = xyz[3 * c + 1] - xyz[3 * a + 1], vz = xyz[3 * c + 2] - xyz[3 * a + 2];
+    const wx = vx - ux, wy = vy - uy, wz = vz - uz;
+    const cx = uy * vz - uz * vy, cy = uz * vx - ux * vz, cz = ux * vy - uy * vx;
+    const longest2 = Math.max(ux * ux + uy * uy + uz * uz, vx * vx + vy * vy + vz * vz, wx * wx + wy * wy + wz * wz);
+    return Math.sqrt((cx * cx + cy * cy + cz * cz) / longest2);
+  };
+  let thin = false;
+  for (let t = 0; t < count && !thin; t++) thin = heightOf(tris[3 * t], tris[3 * t + 1], tris[3 * t + 2]) < minHeight;
+  if (!thin) return tris;
+  const P = (v: number) => [xyz[3 * v], xyz[3 * v + 1], xyz[3 * v + 2]];
+  const sub = (a: number[], b: number[]) => [a[0] - b[0], a[1] - b[1], a[2] - b[2]];
+  const cross = (a: number[], b: number[]) => [a[1] * b[2] - a[2] * b[1], a[2] * b[0] - a[0] * b[2], a[0] * b[1] - a[1] * b[0]];
+  const dot = (a: number[], b: number[]) => a[0] * b[0] + a[1] * b[1] + a[2] * b[2];
+  const len = (a: number[]) => Math.sqrt(dot(a, a));
+  /** Smallest height of a triangle and its normal (unnormalised). */
+  const shape = (a: number, b: number, c: number) => {
+    const pa = P(a), pb = P(b), pc = P(c);
+    return { height: heightOf(a, b, c), n: cross(sub(pb, pa), sub(pc, pa)) };
+  };
+  const vertexCount = xyz.length / 3;
+  const edgeOwner = new Map<number, number>();
+  const own = (t: number) => {
+    for (let e = 0; e < 3; e++) edgeOwner.set(tris[3 * t + e] * vertexCount + tris[3 * t + ((e + 1) % 3)], t);
+  };
+  for (let t = 0; t < count; t++) own(t);
+  let candidates: number[] = [];
+  for (let t = 0; t < count; t++) if (heightOf(tris[3 * t], tris[3 * t + 1], tris[3 * t + 2]) < minHeight) candidates.push(t);
+  for (let pass = 0; pass < 20 && candidates.length > 0; pass++) {
+    const next: number[] = [];
+    for (const t of candidates) {
+      if (heightOf(tris[3 * t], tris[3 * t + 1], tris[3 * t + 2]) >= minHeight) continue;
+      const v = [tris[3 * t], tris[3 * t + 1], tris[3 * t + 2]];
+      const mine = shape(v[0], v[1], v[2]);
+      // The longest edge (a, b) and the corner c opposite it.
+      let best = 0;
+      let bestLen = -1;
+      for (let e = 0; e < 3; e++) {
+        const l = len(sub(P(v[(e + 1) % 3]), P(v[e])));
+        if (l > bestLen) {
+          bestLen = l;
+          best = e;
+        }
+      }
+      const a = v[best], b = v[(best + 1) % 3], c = v[(best + 2) % 3];
+      const u = edgeOwner.get(b * vertexCount + a);
+      if (u === undefined) continue;
+      const w = [tris[3 * u], tris[3 * u + 1], tris[3 * u + 2]];
+      const d = w.find((x) => x !== a && x !== b)!;
+      const other = shape(w[0], w[1], w[2]);
+      const n1 = mine.n, n2 = other.n;
+      if (len(cross(n1, n2)) > 1e-9 * len(n1) * len(n2) || dot(n1, n2) <= 0) continue;
+      if (edgeOwner.has(c * vertexCount + d) || edgeOwner.has(d * vertexCount + c)) continue;
+      const first = shape(a, d, c);
+      const second = shape(d, b, c);
+      if (dot(first.n, n1) <= 0 || dot(second.n, n1) <= 0) continue;
+      if (Math.min(first.height, second.height) <= Math.min(mine.height, other.height)) continue;
+      for (const x of [t, u]) for (let e = 0; e < 3; e++) edgeOwner.delete(tris[3 * x + e] * vertexCount + tris[3 * x + ((e + 1) % 3)]);
+      tris[3 * t] = a; tris[3 * t + 1] = d; tris[3 * t + 2] = c;
+      tris[3 * u] = d; tris[3 * u + 1] = b; tris[3 * u + 2] = c;
+      own(t);
+      own(u);
+      next.push(t, u);
+    }
+    candidates = next;
+  }
+  return tris;
 }

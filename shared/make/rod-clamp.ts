@@ -112,7 +112,7 @@ export const rodClamp: Generator<typeof rodClampSchema> = {
     }
     book.notes.push(`Each bore is split by a ${formatMm(2 * SLIT_HALF_MM)} slit and pinched by an M3 screw and nut. Print with the rods standing upright.`);
     return {
-      mesh: meshOf(glue(parts, planes), true),
+      mesh: meshOf(glue(parts, planes)),
       drawn: {
         parameters: { ...p, boreMm: roundMm(bore), mountHoleMm: roundMm(mountHole) },
         sizes: book.sizes,

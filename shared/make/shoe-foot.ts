@@ -85,7 +85,7 @@ export const shoeFoot: Generator<typeof shoeFootSchema> = {
         [rect(-footW / 2, 0, footW / 2, footT), rect(-neckW / 2, footT, neckW / 2, footT + NECK_HEIGHT_MM), outerCircle(2 * ro, res, [0, zc])],
         [holeCircle(bore, res, [0, zc]), rect(-opening / 2, zc, opening / 2, zc + ro + 1)],
       );
-      mesh = meshOf(extrudeAlongY(profile, -footL / 2, footL / 2), true);
+      mesh = meshOf(extrudeAlongY(profile, -footL / 2, footL / 2));
       bounds = [Math.max(footW, 2 * ro), footL, zc + ro];
       book.notes.push(`Snaps onto a ${rod} mm rod through a ${formatMm(opening)} opening. Print foot down.`);
     }

@@ -26,11 +26,14 @@ export function outerCircle(diameterMm: number, res: Resolution, center: Vec2 = 
 }
 
 /** Points of a hole polygon (flats on the circle), clockwise, for use as a hole path of `region`. */
-export function holePath(diameterMm: number, res: Resolution, center: Vec2 = [0, 0]): Vec2[] {
+export function holePath(diameterMm: number, res: Resolution, center: Vec2 = [0, 0], phase = 0): Vec2[] {
   const n = circleSides(diameterMm, res);
   const r = diameterMm / 2 / Math.cos(Math.PI / n);
   const pts: Vec2[] = [];
-  for (let k = n - 1; k >= 0; k--) pts.push([center[0] + r * Math.cos((2 * Math.PI * k) / n), center[1] + r * Math.sin((2 * Math.PI * k) / n)]);
+  for (let k = n - 1; k >= 0; k--) {
+    const a = (2 * Math.PI * (k + phase)) / n;
+    pts.push([center[0] + r * Math.cos(a), center[1] + r * Math.sin(a)]);
+  }
   return pts;
 }
 
@@ -39,11 +42,14 @@ export function reversed(path: Vec2[]): Vec2[] {
   return [...path].reverse();
 }
 
-export function circlePath(diameterMm: number, res: Resolution, center: Vec2 = [0, 0]): Vec2[] {
+export function circlePath(diameterMm: number, res: Resolution, center: Vec2 = [0, 0], phase = 0): Vec2[] {
   const n = circleSides(diameterMm, res);
   const r = diameterMm / 2;
   const pts: Vec2[] = [];
-  for (let k = 0; k < n; k++) pts.push([center[0] + r * Math.cos((2 * Math.PI * k) / n), center[1] + r * Math.sin((2 * Math.PI * k) / n)]);
+  for (let k = 0; k < n; k++) {
+    const a = (2 * Math.PI * (k + phase)) / n;
+    pts.push([center[0] + r * Math.cos(a), center[1] + r * Math.sin(a)]);
+  }
   return pts;
 }
 
@@ -100,15 +106,16 @@ export function profileOf(solids: Geom2[], cuts: Geom2[] = []): Geom2 {
 
 /** Extrudes a 2D profile (in XY) upward from z = z0 by the height. */
 export function extrude(profile: Geom2, heightMm: number, z0 = 0): Geom3 {
-  const solid = extrusions.extrudeLinear({ height: heightMm }, profile);
+  // Our profiles are closed already; the slice repair (gap closing) only costs time.
+  const solid = extrusions.extrudeLinear({ height: heightMm, repair: false } as { height: number }, profile);
   return z0 === 0 ? solid : transforms.translateZ(z0, solid);
 }
 
 /**
- * Flat triangles of a solid. Booleans in 3D can leave T-junctions (a corner of one facet on the edge
- * of another); generalize inserts them so every edge is shared by exactly two facets.
+ * Flat triangles of a solid, welded and with T-junctions and collinear facets repaired (see
+ * repair.ts), so every edge is shared by exactly two facets.
  */
-export function meshOf(solid: Geom3, needsRepair: boolean): GeneratedMesh {
+export function meshOf(solid: Geom3): GeneratedMesh {
   const polygons = geometries.geom3.toPolygons(solid);
   let triangles = 0;
   for (const p of polygons) triangles += p.vertices.length - 2;
@@ -125,7 +132,6 @@ export function meshOf(solid: Geom3, needsRepair: boolean): GeneratedMesh {
       positions[o++] = c[0]; positions[o++] = c[1]; positions[o++] = c[2];
     }
   }
-  if (!needsRepair) return { positions, triangles };
   const repaired = weldAndSplit(positions);
   return { positions: repaired, triangles: repaired.length / 9 };
 }
@@ -156,7 +162,12 @@ export function stackLayers(layers: Layer[], steps: Step[]): GeneratedMesh {
   const soup: number[] = [];
   const push = (polygon: { vertices: number[][] }) => {
     const v = polygon.vertices;
-    for (let i = 1; i + 1 < v.length; i++) soup.push(...v[0], ...v[i], ...v[i + 1]);
+    const a = v[0];
+    for (let i = 1; i + 1 < v.length; i++) {
+      const b = v[i];
+      const c = v[i + 1];
+      soup.push(a[0], a[1], a[2], b[0], b[1], b[2], c[0], c[1], c[2]);
+    }
   };
   const capsOf = (g: Geom2, z: number, up: boolean) => {
     if (geometries.geom2.toSides(g).length === 0) return;

@@ -75,7 +75,7 @@ export const washer: Generator<typeof washerSchema> = {
     const holeLoop = holePath(hole, p.resolution);
     let mesh;
     if (p.recess === 'none') {
-      mesh = meshOf(extrude(region(outline, [holeLoop]), p.thicknessMm), false);
+      mesh = meshOf(extrude(region(outline, [holeLoop]), p.thicknessMm));
     } else {
       const depth = p.recessDepthMm;
       let pocket: Vec2[];
