@@ -41,6 +41,8 @@ import { searchRoutes } from './modules/search/routes';
 import { createSearchService } from './modules/search/service';
 import { buildSearchRoutes } from './modules/search/build-route';
 import { buildRoutes } from './modules/builds/routes';
+import { calibrationRoutes, madeKitRoutes, makeRoutes } from './modules/make/routes';
+import { createMakeService } from './modules/make/service';
 import { wantedRoutes } from './modules/wanted/routes';
 import { createWantedService } from './modules/wanted/service';
 
@@ -131,6 +133,7 @@ export function createApp({ config, sequelize, mailer }: AppContext) {
   const evidence = createEvidenceService({ sequelize, dirs, photos, onChanged: () => search.rankingChanged() });
   const slicer = new SliceQueue();
   const planning = createPlanningService({ sequelize, evidence, dirs, slicer });
+  const make = createMakeService();
 
   const tokens = createTokenService({ config, mailer });
   const auth = createAuthService(config, tokens);
@@ -169,8 +172,11 @@ export function createApp({ config, sequelize, mailer }: AppContext) {
   app.use('/api/builds', buildRoutes());
   app.use('/api/wanted', wantedRoutes(wanted, dirs));
   app.use('/api/estimate', estimateRoutes(planning));
+  app.use('/api/make', makeRoutes(make));
+  app.use('/api/printers', calibrationRoutes(make));
   app.use('/api/printers', printerRoutes(planning));
   app.use('/api/me/prices', priceRoutes(planning));
+  app.use('/api/kits', madeKitRoutes(make, sequelize));
   app.use('/api/kits', kitRoutes(planning));
   app.use('/api', apiNotFound());
 
@@ -193,6 +199,7 @@ export function createApp({ config, sequelize, mailer }: AppContext) {
       await closeCheckPool();
       await search.close();
       await slicer.close();
+      await make.close();
       (store as unknown as { stopExpiringSessions(): void }).stopExpiringSessions();
     },
   };

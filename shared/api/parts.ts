@@ -1,3 +1,4 @@
+import type { MadeWith } from './make';
 // What the parts and vocabulary endpoints answer, for the client. The server builds these in
 // server/modules/parts/presenter.ts and server/modules/vocab/routes.ts;
 // tests/unit/api-shapes.test.ts checks at compile time that the two stay in step.
@@ -125,4 +126,6 @@ export interface PartDetail {
   /** Bounding box of the first model file, mm. */
   sizeMm: [number, number, number] | null;
   lineage: PartLineage;
+  /** Made to size with one of Rigshelf's makers, and with which sizes; null for drawn parts. */
+  madeWith: MadeWith | null;
 }

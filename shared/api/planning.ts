@@ -5,6 +5,10 @@ import type { KitItemSummary, KitSummary } from '../kit-summary';
 import type { HeatExposure, HeatExposureInfo, MaterialId } from '../materials';
 import type { RecipeInput } from '../schemas/recipe';
 import type { KitShareAccess } from '../schemas/planning';
+import type { MadeWith } from './make';
+
+/** The print settings a made item is planned with. */
+export type MadeRecipe = { nozzleMm: number; layerMm: number; walls: number; topBottomLayers: number; infillPct: number; speedMmS: number };
 
 /** POST /api/estimate */
 export interface EstimateResult {
@@ -106,7 +110,9 @@ export type KitRecipeRef = Pick<RecipeInput, 'purpose' | 'material' | 'nozzleMm'
 export interface KitItemInfo {
   id: number;
   position: number;
-  part: { id: number; slug: string; title: string; onShelf: boolean };
+  /** Null for a made item (then `made` says what to make). */
+  part: { id: number; slug: string; title: string; onShelf: boolean } | null;
+  made: (MadeWith & { name: string; sizeMm: [number, number, number] | null; loadBearing: boolean; recipe: MadeRecipe }) | null;
   quantity: number;
   /** Null when the recipe has gone; the summary then uses the part's first set-ready recipe. */
   recipe: KitRecipeRef | null;
@@ -147,5 +153,6 @@ export interface KitSummaryResponse extends Omit<KitSummary, 'items'> {
     printHoursPerDay: number;
     printerPrice: number | null;
   };
-  items: (KitItemSummary & { part: { id: number; slug: string } })[];
+  /** part is null for a made item. */
+  items: (KitItemSummary & { part: { id: number; slug: string } | null })[];
 }

@@ -29,6 +29,14 @@ export const safetySchema = z.object({
   heat: z.boolean().default(false),
 });
 
+export const madeWithSchema = z.object(
+  {
+    kind: z.string({ error: 'Say which maker the part was made with.' }).trim().min(1, 'Say which maker the part was made with.').max(40, 'That is not one of the makers.'),
+    params: z.record(z.string(), z.unknown(), { error: 'Send the maker’s sizes as "params".' }),
+  },
+  { error: 'Send the maker as { kind, params }.' },
+);
+
 /** The editable properties of a part, without defaults: an update changes only what it names. */
 const partFields = {
   title: z.string({ error: 'Give the part a title.' }).trim().min(1, 'Give the part a title.').min(3, 'Use at least 3 characters for the title.').max(120, 'Keep the title under 120 characters.'),
@@ -55,6 +63,8 @@ export const partSubmissionSchema = z.object({
   parentId: z.coerce.number().int().positive().nullable().optional(),
   /** The STL files in this upload were drawn in inches (3MF declares its own unit). */
   drawnInInches: boolish.default(false),
+  /** Made to size on the make pages: the maker and its parameters (the server checks them against the maker). */
+  make: madeWithSchema.nullable().optional(),
 });
 export type PartSubmission = z.infer<typeof partSubmissionSchema>;
 

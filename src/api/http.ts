@@ -83,9 +83,35 @@ async function bytes(path: string): Promise<ArrayBuffer> {
   throw new ApiError(res.status, error?.code ?? 'http_' + res.status, error?.message ?? `Download failed (${res.status}).`, error?.fields);
 }
 
+/** A POST whose answer is a file (a made part): its bytes and the name the server gave it. */
+async function postForFile(path: string, body: unknown, retried = false): Promise<{ bytes: ArrayBuffer; fileName: string | null }> {
+  let res: Response;
+  try {
+    res = await fetch(path, {
+      method: 'POST',
+      headers: { 'Content-Type': 'application/json', 'X-CSRF-Token': csrfToken ?? (await fetchCsrfToken()) },
+      credentials: 'same-origin',
+      body: JSON.stringify(body),
+    });
+  } catch {
+    throw new ApiError(0, 'network', 'Rigshelf cannot be reached. Check the connection and try again.');
+  }
+  if (res.ok) {
+    const name = /filename="?([^";]+)"?/.exec(res.headers.get('Content-Disposition') ?? '')?.[1] ?? null;
+    return { bytes: await res.arrayBuffer(), fileName: name };
+  }
+  const error = ((await res.json().catch(() => undefined)) as ApiErrorBody | undefined)?.error;
+  if (res.status === 403 && error?.code === 'csrf_invalid' && !retried) {
+    await fetchCsrfToken();
+    return postForFile(path, body, true);
+  }
+  throw new ApiError(res.status, error?.code ?? 'http_' + res.status, error?.message ?? `Download failed (${res.status}).`, error?.fields);
+}
+
 export const http = {
   get: <T>(path: string) => send<T>('GET', path),
   bytes,
+  postForFile,
   post: <T>(path: string, body?: unknown) => send<T>('POST', path, body ?? {}),
   patch: <T>(path: string, body: unknown) => send<T>('PATCH', path, body),
   put: <T>(path: string, body: unknown) => send<T>('PUT', path, body),

@@ -33,6 +33,8 @@ import type {
   PrinterPatch,
 } from '@shared/schemas/planning';
 import type { SearchResponse } from '@shared/api/search';
+import type { CalibrationInfo, CalibrationList, MakePreview, MakerInfo, MakerList } from '@shared/api/make';
+import type { CalibrationInput, MadeKitItemInput, MakeFormat, MakeRequest } from '@shared/schemas/make';
 import type { BuildInfo, BuildList } from '@shared/api/builds';
 import type { WantedDetail, WantedList, WantedListItem } from '@shared/api/wanted';
 import type { BuildInput, BuildPatch } from '@shared/schemas/builds';
@@ -281,4 +283,16 @@ export const wantedApi = {
   },
   answer: (id: number, input: WantedAnswerInput) => http.post<{ id: number; onShelf: boolean }>(`/api/wanted/${id}/answers`, input),
   close: (id: number, input: WantedCloseInput) => http.post<{ id: number; status: 'closed' }>(`/api/wanted/${id}/close`, input),
+};
+
+const makePath = (kind: string) => `/api/make/${encodeURIComponent(kind)}`;
+
+export const makeApi = {
+  makers: async (): Promise<MakerInfo[]> => (await http.get<MakerList>('/api/make')).items,
+  /** Measured, estimated and checked on the server (the browser draws its own preview meanwhile). */
+  preview: (kind: string, input: Partial<MakeRequest>) => http.post<MakePreview>(`${makePath(kind)}/preview`, input),
+  file: (kind: string, input: Partial<MakeRequest>, format: MakeFormat) => http.postForFile(`${makePath(kind)}/file?format=${format}`, input),
+  calibrations: async (printerId: number): Promise<CalibrationInfo[]> => (await http.get<CalibrationList>(`/api/printers/${printerId}/calibrations`)).items,
+  calibrate: (printerId: number, input: CalibrationInput) => http.post<CalibrationInfo>(`/api/printers/${printerId}/calibrations`, input),
+  addToKit: (kitId: number, input: Partial<MadeKitItemInput> & Pick<MadeKitItemInput, 'kind' | 'params'>) => http.post<KitItemInfo>(`/api/kits/${kitId}/made`, input),
 };

@@ -44,6 +44,8 @@ export type RouteName =
   | 'wanted'
   | 'wanted-new'
   | 'wanted-request'
+  | 'make'
+  | 'make-part'
   | 'not-found';
 
 const routes: RouteRecordRaw[] = [
@@ -98,6 +100,8 @@ const routes: RouteRecordRaw[] = [
       { path: 'reset-password', name: 'reset-password', component: () => import('@/views/ResetPasswordView.vue'), meta: { title: 'New password' } },
       { path: 'admin/bodies', name: 'admin-bodies', component: () => import('@/views/AdminBodiesView.vue'), meta: { role: 'admin', title: 'Camera bodies' } },
       { path: 'admin/mail', name: 'admin-mail', component: () => import('@/views/AdminMailView.vue'), meta: { role: 'admin', title: 'Outgoing mail' } },
+      { path: 'make', name: 'make', component: () => import('@/views/MakeListView.vue'), meta: { title: 'Make to size' } },
+      { path: 'make/:kind', name: 'make-part', component: () => import('@/views/MakePartView.vue'), meta: { title: 'Make to size' } },
       { path: ':rest(.*)*', name: 'not-found', component: () => import('@/views/NotFoundView.vue'), meta: { title: 'Not found' } },
     ],
   },

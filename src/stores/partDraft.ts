@@ -143,6 +143,8 @@ export const usePartDraftStore = defineStore('partDraft', () => {
   /** "new", "adapt:12" or "edit:12": the flow the fields belong to. */
   const key = ref('');
   const mode = ref<DraftMode>('new');
+  /** Set when the part comes from a make page: the maker, its sizes and how to say it. */
+  const made = ref<{ kind: string; params: Record<string, unknown>; label: string } | null>(null);
   /** Adapting: the part this one is adapted from. Editing: the part as it was loaded. */
   const parent = ref<PartDetail | null>(null);
   const editing = ref<PartDetail | null>(null);
@@ -182,6 +184,7 @@ export const usePartDraftStore = defineStore('partDraft', () => {
     clearFiles();
     key.value = newKey;
     mode.value = 'new';
+    made.value = null;
     parent.value = null;
     editing.value = null;
     title.value = '';
@@ -225,6 +228,20 @@ export const usePartDraftStore = defineStore('partDraft', () => {
       heat: part.safety.heat,
     });
     testedLoadKg.value = part.safety.testedLoadKg;
+  }
+
+  /**
+   * A part made on a make page, going to the shelf: the made file, a title and summary to start from,
+   * the made-part print settings, and the load flag when the part can carry load. It carries no tested load.
+   */
+  function startMade(input: { kind: string; params: Record<string, unknown>; label: string; title: string; summary: string; file: File; loadBearing: boolean; recipe: Partial<Pick<RecipeForm, 'material' | 'nozzleMm' | 'layerMm' | 'walls' | 'topBottomLayers' | 'infillPct' | 'speedMmS'>> }) {
+    reset('new');
+    made.value = { kind: input.kind, params: input.params, label: input.label };
+    title.value = input.title.slice(0, 120);
+    summary.value = input.summary.slice(0, 280);
+    recipes.value = [{ ...blankRecipe(), ...input.recipe }];
+    safety.carriesLoad = input.loadBearing;
+    addFiles('model', [input.file]);
   }
 
   function startAdapt(from: PartDetail) {
@@ -365,14 +382,20 @@ export const usePartDraftStore = defineStore('partDraft', () => {
       mounts: mounts.value.map((m) => (m.note.trim() ? { slug: m.slug, note: m.note.trim() } : { slug: m.slug })),
       keyDimensions: keyDimensions.value.map((d) => ({ name: d.name, valueMm: lengthOf(d.value), tolMm: lengthOf(d.tol) ?? 0 })),
       safety: { ...safety },
-      testedLoadKg: safety.carriesLoad ? testedLoadKg.value : null,
+      // a made part's sizes were never load-tested
+      testedLoadKg: safety.carriesLoad && !made.value ? testedLoadKg.value : null,
       licence: licence.value ?? undefined,
       recipes: recipes.value.map(recipeInput),
     };
   }
 
   function submission() {
-    return { ...fields(), parentId: mode.value === 'adapt' ? (parent.value?.id ?? null) : null, drawnInInches: drawnInInches.value };
+    return {
+      ...fields(),
+      parentId: mode.value === 'adapt' ? (parent.value?.id ?? null) : null,
+      drawnInInches: drawnInInches.value,
+      ...(made.value ? { make: { kind: made.value.kind, params: made.value.params } } : {}),
+    };
   }
 
   // ---- checking ------------------------------------------------------------------------------
@@ -484,7 +507,7 @@ export const usePartDraftStore = defineStore('partDraft', () => {
   }
 
   return {
-    key, mode, parent, editing,
+    key, mode, parent, editing, made, startMade,
     title, summary, description, category,
     files, existing, drawnInInches, modelFiles, photoFiles, sourceFiles, keptModels,
     bodies, mounts, keyDimensions,

@@ -13,6 +13,7 @@ import { initPartFile, PartFile } from './part-file';
 import { initPartRevision, PartRevision } from './part-revision';
 import { initPriceSheet, PriceSheet } from './price-sheet';
 import { initPrinter, Printer } from './printer';
+import { initPrinterCalibration, PrinterCalibration } from './printer-calibration';
 import { initRecipe, Recipe } from './recipe';
 import { initSession, Session } from './session';
 import { initUser, User } from './user';
@@ -20,7 +21,8 @@ import { initWanted, WantedAnswer, WantedPhoto, WantedRequest } from './wanted';
 
 export type { AuditAction } from './audit-event';
 export { ContentFlag, Rating, ReportPhoto, SetReport };
-export { Kit, KitItem, KitShare, PriceSheet, Printer };
+export { Kit, KitItem, KitShare, PriceSheet, Printer, PrinterCalibration };
+export type { MadeGeometry } from './kit';
 export { Build, WantedAnswer, WantedPhoto, WantedRequest };
 export { AccountToken, AuditEvent, CameraBody, MailMessage, Notice, Part, PartFile, PartRevision, Recipe, Session, User };
 
@@ -46,6 +48,7 @@ export function initModels(sequelize: Sequelize) {
   initEvidence(sequelize);
   initNotice(sequelize);
   initPrinter(sequelize);
+  initPrinterCalibration(sequelize);
   initPriceSheet(sequelize);
   initKits(sequelize);
   initBuild(sequelize);
@@ -83,6 +86,7 @@ export function initModels(sequelize: Sequelize) {
   PartRevision.belongsToMany(CameraBody, { as: 'bodies', through: RevisionBody, foreignKey: 'revisionId', otherKey: 'bodyId' });
   PartRevision.belongsToMany(PartFile, { as: 'files', through: RevisionFile, foreignKey: 'revisionId', otherKey: 'fileId' });
   Printer.belongsTo(User, { as: 'owner', foreignKey: 'ownerId' });
+  Printer.hasMany(PrinterCalibration, { as: 'calibrations', foreignKey: 'printerId' });
   Kit.belongsTo(User, { as: 'owner', foreignKey: 'ownerId' });
   Kit.hasMany(KitItem, { as: 'items', foreignKey: 'kitId' });
   Kit.hasMany(KitShare, { as: 'shares', foreignKey: 'kitId' });

@@ -10,11 +10,19 @@ import {
 } from 'sequelize';
 import type { HeatExposure, MaterialId } from '@shared/materials';
 import type { KitShareAccess } from '@shared/schemas/planning';
-import { decimalColumn } from './columns';
+import { decimalColumn, jsonColumn } from './columns';
 import type { Part } from './part';
 import type { Printer } from './printer';
 import type { Recipe } from './recipe';
 import type { User } from './user';
+
+/** A made item's mesh figures, measured when it was added to the kit. */
+export interface MadeGeometry {
+  volumeMm3: number;
+  areaMm2: number;
+  sizeMm: [number, number, number];
+  loadBearing: boolean;
+}
 
 export class Kit extends Model<InferAttributes<Kit>, InferCreationAttributes<Kit>> {
   declare id: CreationOptional<number>;
@@ -50,7 +58,11 @@ export class KitShare extends Model<InferAttributes<KitShare>, InferCreationAttr
 export class KitItem extends Model<InferAttributes<KitItem>, InferCreationAttributes<KitItem>> {
   declare id: CreationOptional<number>;
   declare kitId: number;
-  declare partId: number;
+  /** Null for a made item: then makeKind and makeParams say what to make. */
+  declare partId: number | null;
+  declare makeKind: string | null;
+  declare makeParams: Record<string, unknown> | null;
+  declare makeGeometry: MadeGeometry | null;
   declare position: number;
   declare quantity: number;
   declare recipeId: number | null;
@@ -101,7 +113,10 @@ export function initKits(sequelize: Sequelize) {
     {
       id: { type: DataTypes.INTEGER.UNSIGNED, autoIncrement: true, primaryKey: true },
       kitId: { type: DataTypes.INTEGER.UNSIGNED, allowNull: false },
-      partId: { type: DataTypes.INTEGER.UNSIGNED, allowNull: false },
+      partId: { type: DataTypes.INTEGER.UNSIGNED, allowNull: true },
+      makeKind: { type: DataTypes.STRING(40), allowNull: true },
+      makeParams: jsonColumn<Record<string, unknown>>('makeParams', true),
+      makeGeometry: jsonColumn<MadeGeometry>('makeGeometry', true),
       position: { type: DataTypes.INTEGER.UNSIGNED, allowNull: false },
       quantity: { type: DataTypes.INTEGER.UNSIGNED, allowNull: false },
       recipeId: { type: DataTypes.INTEGER.UNSIGNED, allowNull: true },

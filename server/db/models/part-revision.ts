@@ -32,6 +32,9 @@ export class PartRevision extends Model<InferAttributes<PartRevision>, InferCrea
   declare vehicle: boolean;
   declare heat: boolean;
   declare testedLoadKg: number | null;
+  /** The generator this part was made with on the make pages, and its parameters; null for drawn parts. */
+  declare makeKind: string | null;
+  declare makeParams: Record<string, unknown> | null;
   declare createdBy: number;
   declare submittedAt: Date | null;
   declare createdAt: CreationOptional<Date>;
@@ -65,6 +68,8 @@ export function initPartRevision(sequelize: Sequelize) {
       vehicle: { type: DataTypes.BOOLEAN, allowNull: false, defaultValue: false },
       heat: { type: DataTypes.BOOLEAN, allowNull: false, defaultValue: false },
       testedLoadKg: decimalColumn('testedLoadKg', 7, 2, true),
+      makeKind: { type: DataTypes.STRING(40), allowNull: true },
+      makeParams: jsonColumn<Record<string, unknown>>('makeParams', true),
       createdBy: { type: DataTypes.INTEGER.UNSIGNED, allowNull: false },
       submittedAt: { type: DataTypes.DATE, allowNull: true },
       createdAt: DataTypes.DATE,

@@ -6,6 +6,7 @@ import { recipeWindowWarnings } from '@shared/materials';
 import { safetyCautions } from '@shared/safety';
 import type { PartFileInfo, PartSummary } from '@shared/types';
 import { CameraBody, Part, PartFile, PartRevision, Recipe, RevisionFile, User } from '../../db/models';
+import { madeWith } from '../make/service';
 import { seesUnpublished } from './access';
 
 export function fileUrls(partId: number, file: PartFile) {
@@ -143,6 +144,7 @@ export async function presentPart(part: Part, revisionId: number, viewer: User |
     files,
     sizeMm: model?.analysis?.sizeMm ?? null,
     lineage: await lineageOf(part, viewer),
+    madeWith: rev.makeKind ? madeWith(rev.makeKind, rev.makeParams ?? {}) : null,
   };
 }
 

@@ -11,7 +11,7 @@ import { multipartFields, parseOrThrow, uploadedFiles, uploadMiddleware, withUpl
 import type { UploadDirs } from '../files/storage';
 import type { PartsService } from './service';
 
-const STRUCTURED = ['bodies', 'mounts', 'keyDimensions', 'safety', 'recipes'];
+const STRUCTURED = ['bodies', 'mounts', 'keyDimensions', 'safety', 'recipes', 'make'];
 
 const listQuerySchema = z.object({ mine: boolish.optional(), status: z.enum(['published']).optional() });
 const idParamSchema = z.object({ id: z.string().min(1).max(100) });

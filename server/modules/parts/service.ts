@@ -10,6 +10,7 @@ import { AppError } from '../../errors';
 import type { InspectedFile } from '../files/inspect';
 import type { PhotoJobs } from '../files/photo-jobs';
 import type { UploadDirs } from '../files/storage';
+import { parseParams } from '../make/service';
 import { assertCanEdit, findVisiblePart, seesUnpublished } from './access';
 import { attachFiles, pathsOf, removeStoredFiles, sweepUploads } from './part-files';
 import { presentPart, presentSummaries } from './presenter';
@@ -49,6 +50,24 @@ export interface PartsDeps {
 
 function fieldError(field: string, message: string) {
   return new AppError(422, 'validation_failed', message, { [field]: message });
+}
+
+/** A part made on the make pages records its maker and sizes; it carries no tested load (nobody tested these sizes). */
+function madeWithColumns(input: PartSubmission): { makeKind: string | null; makeParams: Record<string, unknown> | null } {
+  if (!input.make) return { makeKind: null, makeParams: null };
+  if (input.testedLoadKg != null) {
+    throw fieldError('testedLoadKg', 'A part made to size has no tested load: leave the tested load empty. Set reports tell the crew how it holds up.');
+  }
+  try {
+    return { makeKind: input.make.kind, makeParams: parseParams(input.make.kind, input.make.params) };
+  } catch (err) {
+    if (err instanceof AppError && err.fields) {
+      const fields = Object.fromEntries(Object.entries(err.fields).map(([k, v]) => [`make.${k}`, v]));
+      throw new AppError(422, 'validation_failed', err.message, fields);
+    }
+    if (err instanceof AppError && err.status === 404) throw fieldError('make.kind', err.message);
+    throw err;
+  }
 }
 
 async function uniqueSlug(title: string, transaction: Transaction, alsoTaken: Set<string>): Promise<string> {
@@ -133,6 +152,7 @@ export function createPartsService({ sequelize, dirs, photos, onSubmitted, onEdi
 
     async create(actor: User, input: PartSubmission, files: InspectedFile[]) {
       requireModel(files);
+      const made = madeWithColumns(input);
       const bodyIds = await bodyIdsFor(input.bodies);
       await checkParentLicence(input.parentId, input.licence, actor);
 
@@ -163,6 +183,7 @@ export function createPartsService({ sequelize, dirs, photos, onSubmitted, onEdi
             createdBy: actor.id,
             submittedAt: new Date(),
             ...revisionColumns(input),
+            ...made,
           },
           { transaction: t },
         );

@@ -3,6 +3,8 @@ import { Op } from 'sequelize';
 import type { KitAccess, KitDetail, KitItemInfo, KitListItem, KitRecipeRef, KitShareInfo, PrinterInfo, PriceSheetInfo } from '@shared/api/planning';
 import { DEFAULT_PRICE_PER_KG } from '@shared/estimate';
 import { MATERIAL_IDS, type MaterialId } from '@shared/materials';
+import { MADE_PART_RECIPE } from '@shared/schemas/make';
+import { madeTitle, madeWith } from '../make/service';
 import { Kit, KitItem, KitShare, Part, PartRevision, Printer, Recipe, User, type PriceSheet } from '../../db/models';
 
 export function presentPrinter(p: Printer): PrinterInfo {
@@ -82,20 +84,34 @@ export async function loadItems(kitId: number, itemId?: number): Promise<KitItem
 }
 
 export function presentItem(item: KitItem): KitItemInfo {
-  const part = item.part!;
-  const recipe = item.recipe ?? null;
+  const part = item.part ?? null;
+  const recipe = part ? (item.recipe ?? null) : null;
   return {
     id: item.id,
     position: item.position,
-    part: { id: part.id, slug: part.slug, title: part.publishedRevision?.title ?? part.slug, onShelf: isOnShelfForKits(part) },
+    part: part ? { id: part.id, slug: part.slug, title: part.publishedRevision?.title ?? part.slug, onShelf: isOnShelfForKits(part) } : null,
+    made: item.makeKind ? madeKitInfo(item) : null,
     quantity: item.quantity,
-    recipe: recipe ? recipeRef(recipe, part) : null,
+    recipe: recipe && part ? recipeRef(recipe, part) : null,
     materialOverride: item.material,
     material: item.material ?? recipe?.material ?? null,
     printer: item.printer ? { id: item.printer.id, name: item.printer.name } : null,
     boughtPriceEach: item.boughtPriceEach,
     servicePriceEach: item.servicePriceEach,
     serviceShipping: item.serviceShipping,
+  };
+}
+
+/** A made item: its maker, sizes and the settings it is planned with. */
+export function madeKitInfo(item: KitItem): NonNullable<KitItemInfo['made']> {
+  const params = item.makeParams ?? {};
+  const g = item.makeGeometry;
+  return {
+    ...madeWith(item.makeKind!, params),
+    name: madeTitle(item.makeKind!, params),
+    sizeMm: g?.sizeMm ?? null,
+    loadBearing: g?.loadBearing ?? false,
+    recipe: MADE_PART_RECIPE,
   };
 }
 

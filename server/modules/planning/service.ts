@@ -17,6 +17,8 @@ import { DEFAULT_BED_MARGIN_MM, DEFAULT_PRICE_PER_KG, estimateFromSlices, estima
 import type { ModelFileAnalysis } from '@shared/mesh';
 import type { SliceProfile } from '@shared/slice';
 import { summariseKit, type KitPlanItem } from '@shared/kit-summary';
+import { MADE_PART_RECIPE } from '@shared/schemas/make';
+import { madeTitle } from '../make/service';
 import { heatExposureInfo } from '@shared/materials';
 import { meshConcerns, type MeshSoundness } from '@shared/mesh/concerns';
 import {
@@ -132,6 +134,33 @@ async function ownersPrinter(kit: Kit, printerId: number | null | undefined, tra
   const printer = await Printer.findOne({ where: { id: printerId, ownerId: kit.ownerId }, transaction });
   if (!printer) throw fieldError('printerId', 'That printer is not one of the kit owner’s printers; pick one of theirs or none.');
   return printer.id;
+}
+
+function printerRef(printer: Printer | null): KitPlanItem['printer'] {
+  return printer ? { id: printer.id, name: printer.name, bedMm: printer.bedMm(), bedMarginMm: printer.bedMarginMm, nozzleMm: printer.nozzleMm, watts: printer.watts } : null;
+}
+
+/** A made item is planned from the mesh figures measured when it was added, with the made-part settings. */
+function madePlan(item: KitItem): KitPlanItem {
+  const g = item.makeGeometry;
+  const r = MADE_PART_RECIPE;
+  return {
+    id: item.id,
+    title: madeTitle(item.makeKind!, item.makeParams ?? {}),
+    quantity: item.quantity,
+    geometry: g ? { volumeMm3: g.volumeMm3, areaMm2: g.areaMm2, sizeMm: g.sizeMm } : null,
+    slices: null,
+    settings: { material: item.material ?? 'PETG', ...r },
+    printer: printerRef(item.printer ?? null),
+    safety: { carriesLoad: g?.loadBearing ?? false, overhead: false, vehicle: false, heat: false },
+    // made to size: nobody has tested these sizes
+    testedLoadKg: null,
+    evidenceWarnings: [],
+    boughtPriceEach: item.boughtPriceEach,
+    servicePriceEach: item.servicePriceEach,
+    serviceShipping: item.serviceShipping,
+    notes: [`Made to size: planned from the made part’s figures with ${r.layerMm} mm layers, ${r.walls} walls and ${r.infillPct} % infill.`],
+  };
 }
 
 function checkDates(startsOn: string | null, endsOn: string | null) {
@@ -407,6 +436,9 @@ export function createPlanningService({ sequelize, evidence, dirs, slicer }: Pla
       await transact(sequelize, async (t) => {
         const { kit } = await findKit(viewer, kitId, 'edit', undefined, t);
         const item = await itemOf(kit, itemId, t);
+        if (!item.partId && (patch.partId !== undefined || patch.recipeId !== undefined)) {
+          throw fieldError(patch.partId !== undefined ? 'partId' : 'recipeId', 'A made item keeps its maker and sizes; make it again and add the new one instead.');
+        }
         const changes: Partial<KitItem> = defined({
           quantity: patch.quantity,
           material: patch.material,
@@ -420,7 +452,7 @@ export function createPlanningService({ sequelize, evidence, dirs, slicer }: Pla
           changes.recipeId = (await publishedRecipe(part, patch.recipeId, t)).id;
         } else if (patch.recipeId !== undefined) {
           // null goes back to the part's default recipe
-          changes.recipeId = (await publishedRecipe(await shelfPart(item.partId, t), patch.recipeId, t)).id;
+          changes.recipeId = (await publishedRecipe(await shelfPart(item.partId!, t), patch.recipeId, t)).id;
         }
         if (patch.printerId !== undefined) changes.printerId = await ownersPrinter(kit, patch.printerId, t);
         await item.update(changes, { transaction: t });
@@ -514,13 +546,13 @@ export function createPlanningService({ sequelize, evidence, dirs, slicer }: Pla
     const sheet = await PriceSheet.findByPk(kit.ownerId);
 
     // a recipe that has gone is replaced by the part's default published recipe
-    const orphanRevisions = [...new Set(items.filter((i) => !i.recipe && i.part!.publishedRevisionId).map((i) => i.part!.publishedRevisionId!))];
+    const orphanRevisions = [...new Set(items.filter((i) => i.part && !i.recipe && i.part.publishedRevisionId).map((i) => i.part!.publishedRevisionId!))];
     const fallbacks = orphanRevisions.length
       ? await Recipe.findAll({ where: { revisionId: { [Op.in]: orphanRevisions } }, order: [['position', 'ASC']] })
       : [];
     const chosen = items.map((i) => ({
       item: i,
-      recipe: i.recipe ?? defaultRecipe(fallbacks.filter((r) => r.revisionId === i.part!.publishedRevisionId)),
+      recipe: i.part ? (i.recipe ?? defaultRecipe(fallbacks.filter((r) => r.revisionId === i.part!.publishedRevisionId))) : null,
       fallback: !i.recipe,
     }));
 
@@ -531,13 +563,17 @@ export function createPlanningService({ sequelize, evidence, dirs, slicer }: Pla
           include: [{ model: PartFile, as: 'files', through: { attributes: ['position'] } }],
         })
       : [];
-    const partIds = [...new Set(items.map((i) => i.partId))];
+    const partIds = [...new Set(items.flatMap((i) => (i.partId ? [i.partId] : [])))];
     const warnings = partIds.length ? await evidence.evidenceFor(partIds) : new Map();
 
     const skipped: string[] = [];
     const planned: { item: KitItem; plan: KitPlanItem }[] = [];
     for (const { item, recipe, fallback } of chosen) {
-      const part = item.part!;
+      if (!item.part) {
+        planned.push({ item, plan: madePlan(item) });
+        continue;
+      }
+      const part = item.part;
       const title = part.publishedRevision?.title ?? part.slug;
       if (!recipe) {
         skipped.push(`${title} has no recipe left to plan with; choose one again.`);
@@ -576,7 +612,7 @@ export function createPlanningService({ sequelize, evidence, dirs, slicer }: Pla
             infillPct: recipe.infillPct,
             speedMmS: recipe.speedMmS,
           },
-          printer: printer ? { id: printer.id, name: printer.name, bedMm: printer.bedMm(), bedMarginMm: printer.bedMarginMm, nozzleMm: printer.nozzleMm, watts: printer.watts } : null,
+          printer: printerRef(printer),
           safety: { carriesLoad: revision.carriesLoad, overhead: revision.overhead, vehicle: revision.vehicle, heat: revision.heat },
           testedLoadKg: revision.testedLoadKg,
           evidenceWarnings: warnings.get(part.id)?.warnings ?? [],
@@ -608,7 +644,10 @@ export function createPlanningService({ sequelize, evidence, dirs, slicer }: Pla
         printerPrice: kit.printerPrice,
       },
       ...summary,
-      items: summary.items.map((s, i) => ({ ...s, part: { id: planned[i].item.part!.id, slug: planned[i].item.part!.slug } })),
+      items: summary.items.map((s, i) => {
+        const part = planned[i].item.part;
+        return { ...s, part: part ? { id: part.id, slug: part.slug } : null };
+      }),
       assumptions: [...summary.assumptions, ...skipped],
     };
   }
