@@ -11,10 +11,11 @@ async function demo(email: string) {
   return a;
 }
 
+// seeding the whole demo shelf (meshes, photos, password hashes) is slow on a busy machine
 beforeAll(async () => {
   t = await createTestApp({}, { demo: true });
   await t.services.search.idle();
-});
+}, 240_000);
 afterAll(async () => {
   await t.close();
 });
