@@ -395,6 +395,7 @@ function present(m: Match, ranks: Ranks, groupTexts: readonly string[]): SearchR
     score: Math.round(m.score * 1e4) / 1e4,
     matched: groupTexts.filter((_, i) => hit.has(i)),
     missing: m.groups ? groupTexts.filter((_, i) => !hit.has(i)) : [],
+    ...(doc.crewId != null ? { crewOnly: true } : {}),
   };
 }
 
