@@ -238,9 +238,12 @@ describe('crew-only parts · role matrix', () => {
         for (const body of [res.body, summary.body, csv.text, list.body]) expect(leaks(body), who).toBe(false);
       } else expect(leaks(summary.body)).toBe(true);
     }
-    // an outsider with edit access cannot add the crew part either
+    // an outsider with edit access cannot add the crew part, nor change or remove its item
     const add = await outsider.post(`/api/kits/${kitId}/items`).send({ partId: secret.id, quantity: 1 });
     expect(add.status).toBe(422);
+    const hiddenItem = (await author.get(`/api/kits/${kitId}`).expect(200)).body.items.find((i: { part: { id: number } }) => i.part.id === secret.id).id;
+    expect((await outsider.patch(`/api/kits/${kitId}/items/${hiddenItem}`).send({ quantity: 5 })).status).toBe(404);
+    expect((await outsider.delete(`/api/kits/${kitId}/items/${hiddenItem}`)).status).toBe(404);
   });
 
   it('wanted answers and notices · the crew part shows to the crew only', async () => {

@@ -151,3 +151,36 @@ describe('crews · lifecycle', () => {
     expect((await lead.get(`/api/crews/${crewId}`)).status).toBe(404);
   });
 });
+
+describe('kits · shared with a whole crew', () => {
+  it('kit crew shares · only crews the owner is in; edit lets every member change items, read does not', async () => {
+    const owner = await signedIn();
+    const crewId = (await owner.post('/api/crews').send({ name: 'Prep crew', currency: 'EUR' }).expect(201)).body.id;
+    const mate = await signedIn();
+    await join(owner, crewId, mate);
+    const stranger = await signedIn();
+    const otherCrew = (await stranger.post('/api/crews').send({ name: 'Elsewhere', currency: 'EUR' }).expect(201)).body.id;
+    const kitId = (await owner.post('/api/kits').send({ name: 'Rain day' }).expect(201)).body.id;
+    const put = (body: object) => owner.agent.put(`/api/kits/${kitId}/crew-shares`).set('X-CSRF-Token', owner.token).send(body);
+
+    const refused = await put({ crewShares: [{ crewId: otherCrew, access: 'read' }] });
+    expect(refused.status).toBe(422);
+    expect(refused.body.error.message).toMatch(/crew you are in/);
+    expect((await mate.get(`/api/kits/${kitId}`)).status).toBe(404);
+
+    expect((await put({ crewShares: [{ crewId, access: 'read' }] })).body.crewShares).toEqual([{ crewId, crewName: 'Prep crew', access: 'read' }]);
+    const seen = await mate.get(`/api/kits/${kitId}`).expect(200);
+    expect(seen.body.access).toBe('read');
+    expect((await mate.get('/api/kits').expect(200)).body.items.map((k: { id: number }) => k.id)).toContain(kitId);
+    expect((await mate.patch(`/api/kits/${kitId}`).send({ name: 'Mine' })).status).toBe(403);
+    // only the owner chooses crews
+    expect((await mate.agent.put(`/api/kits/${kitId}/crew-shares`).set('X-CSRF-Token', mate.token).send({ crewShares: [] })).status).toBe(403);
+
+    await put({ crewShares: [{ crewId, access: 'edit' }] }).expect(200);
+    expect((await mate.patch(`/api/kits/${kitId}`).send({ name: 'Rain day, second unit' })).status).toBe(200);
+
+    // leaving the crew ends the access
+    await mate.delete(`/api/crews/${crewId}/members/${mate.userId}`).expect(204);
+    expect((await mate.get(`/api/kits/${kitId}`)).status).toBe(404);
+  });
+});

@@ -155,9 +155,11 @@ export function createPlanningService({ sequelize, evidence, dirs, slicer }: Pla
     return printer;
   }
 
-  async function itemOf(kit: Kit, itemId: number, transaction?: Transaction): Promise<KitItem> {
+  /** An item of the kit; one whose part is published to a crew the viewer is not in is not there for them. */
+  async function itemOf(kit: Kit, itemId: number, transaction?: Transaction, viewer?: User): Promise<KitItem> {
     const item = await KitItem.findOne({ where: { id: itemId, kitId: kit.id }, transaction });
-    if (!item) throw AppError.notFound('There is no item with that id in this kit.');
+    const part = item && viewer ? await Part.findByPk(item.partId, { attributes: ['id', 'crewId', 'authorId'], transaction }) : null;
+    if (!item || (part && !crewAllows(await audienceOf(viewer, transaction), part))) throw AppError.notFound('There is no item with that id in this kit.');
     return item;
   }
 
@@ -413,7 +415,7 @@ export function createPlanningService({ sequelize, evidence, dirs, slicer }: Pla
     async updateItem(viewer: User, kitId: number, itemId: number, patch: KitItemPatch): Promise<KitItemInfo> {
       await transact(sequelize, async (t) => {
         const { kit } = await findKit(viewer, kitId, 'edit', undefined, t);
-        const item = await itemOf(kit, itemId, t);
+        const item = await itemOf(kit, itemId, t, viewer);
         const changes: Partial<KitItem> = defined({
           quantity: patch.quantity,
           material: patch.material,
@@ -439,7 +441,7 @@ export function createPlanningService({ sequelize, evidence, dirs, slicer }: Pla
     async deleteItem(viewer: User, kitId: number, itemId: number): Promise<void> {
       await transact(sequelize, async (t) => {
         const { kit } = await findKit(viewer, kitId, 'edit', undefined, t);
-        const item = await itemOf(kit, itemId, t);
+        const item = await itemOf(kit, itemId, t, viewer);
         await item.destroy({ transaction: t });
         await touch(kit, t);
       });
