@@ -290,4 +290,11 @@ describe('crew-only parts · role matrix', () => {
     expect((await crewMate.get(`/api/search?q=${SECRET_WORD}`).expect(200)).body.total).toBe(0);
     expect((await crewMate.get(`/api/kits/${kitId}`)).status).toBe(404);
   });
+
+  it('a moderator edits the crew part through the form · the unchanged visibility it sends is accepted', async () => {
+    const res = await moderator.patch(`/api/parts/${secret.id}`).send({ summary: 'Holds the zephyrwick receiver on the Varrow rig’s 15 mm rods.', visibility: { crewId } });
+    expect(res.status).toBe(200);
+    expect(res.body.visibility).toMatchObject({ crewId });
+    expect((await moderator.patch(`/api/parts/${secret.id}`).send({ visibility: 'everyone' })).status).toBe(403);
+  });
 });

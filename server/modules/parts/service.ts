@@ -216,15 +216,14 @@ export function createPartsService({ sequelize, dirs, photos, onSubmitted, onEdi
         const part = await findVisiblePart(actor, id, t);
         assertCanEdit(actor, part);
         const { visibility, ...content } = patch;
-        if (visibility !== undefined) {
+        // the edit form sends the visibility with every save: only a change is the author's alone
+        const wanted = visibility === undefined ? undefined : visibility === 'everyone' ? null : visibility.crewId;
+        if (wanted !== undefined && wanted !== part.crewId) {
           if (actor.id !== part.authorId) throw AppError.forbidden('Only the author chooses who sees a part.');
-          const crewId = await crewIdFor(actor, visibility, t);
-          if (crewId !== part.crewId) {
-            await part.update({ crewId }, { transaction: t });
-            seenByOthers = part.publishedRevisionId !== null;
-          }
-          if (!Object.keys(content).length) return;
+          await part.update({ crewId: await crewIdFor(actor, visibility, t) }, { transaction: t });
+          seenByOthers = part.publishedRevisionId !== null;
         }
+        if (visibility !== undefined && !Object.keys(content).length) return;
         if (patch.licence) await checkParentLicence(part.parentId, patch.licence, actor);
         const edit = await editableRevision(part, actor, t);
         const changes = editChanges(edit.revision, content);
