@@ -45,6 +45,8 @@ import { calibrationRoutes, madeKitRoutes, makeRoutes } from './modules/make/rou
 import { createMakeService } from './modules/make/service';
 import { wantedRoutes } from './modules/wanted/routes';
 import { createWantedService } from './modules/wanted/service';
+import { crewRoutes, invitationRoutes } from './modules/crews/routes';
+import { createCrewsService } from './modules/crews/service';
 
 export const SESSION_COOKIE = 'rigshelf.sid';
 
@@ -129,8 +131,10 @@ export function createApp({ config, sequelize, mailer }: AppContext) {
     onSubmitted: review.submitted,
     onEdited: review.edited,
     onRecovered: (rows) => wanted.resume(rows),
+    onVisibilityChanged: () => search.scheduleRebuild(),
   });
   const evidence = createEvidenceService({ sequelize, dirs, photos, onChanged: () => search.rankingChanged() });
+  const crews = createCrewsService({ sequelize, mail: mailer, publicUrl: config.PUBLIC_URL });
   const slicer = new SliceQueue();
   const planning = createPlanningService({ sequelize, evidence, dirs, slicer });
   const make = createMakeService();
@@ -178,6 +182,8 @@ export function createApp({ config, sequelize, mailer }: AppContext) {
   app.use('/api/me/prices', priceRoutes(planning));
   app.use('/api/kits', madeKitRoutes(make, sequelize));
   app.use('/api/kits', kitRoutes(planning));
+  app.use('/api/crews', crewRoutes(crews));
+  app.use('/api/invitations', invitationRoutes(crews));
   app.use('/api', apiNotFound());
 
   const dist = resolve(config.CLIENT_DIST);
@@ -191,7 +197,7 @@ export function createApp({ config, sequelize, mailer }: AppContext) {
 
   return {
     app,
-    services: { parts, review, evidence, dirs, search, wanted },
+    services: { parts, review, evidence, dirs, search, wanted, crews },
     /** Waits for photo work in hand, then stops the worker pools and the session store's expiry sweep. */
     async close() {
       await parts.photosSettled();

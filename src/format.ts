@@ -138,3 +138,17 @@ export function daysUntil(day: string, today = new Date()): number {
   const start = new Date(today.getFullYear(), today.getMonth(), today.getDate());
   return Math.round((parseDay(day).getTime() - start.getTime()) / 86_400_000);
 }
+
+/** ISO 4217 currencies the browser knows, named in English: "EUR · Euro". Common ones first. */
+export const CURRENCY_OPTIONS: { value: string; label: string }[] = (() => {
+  const codes = (Intl as unknown as { supportedValuesOf?: (key: string) => string[] }).supportedValuesOf?.('currency') ?? ['EUR', 'GBP', 'USD'];
+  let names: Intl.DisplayNames | null = null;
+  try {
+    names = new Intl.DisplayNames(['en'], { type: 'currency' });
+  } catch {
+    names = null;
+  }
+  const first = ['EUR', 'GBP', 'USD', 'CAD', 'AUD', 'CHF', 'SEK', 'NOK', 'DKK', 'PLN', 'CZK', 'NZD'];
+  const ordered = [...first.filter((c) => codes.includes(c)), ...codes.filter((c) => !first.includes(c))];
+  return ordered.map((code) => ({ value: code, label: `${code} · ${names?.of(code) ?? code}` }));
+})();

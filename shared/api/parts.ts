@@ -2,6 +2,7 @@ import type { MadeWith } from './make';
 // What the parts and vocabulary endpoints answer, for the client. The server builds these in
 // server/modules/parts/presenter.ts and server/modules/vocab/routes.ts;
 // tests/unit/api-shapes.test.ts checks at compile time that the two stay in step.
+import type { PartVisibilityInfo } from './crews';
 import type { CategorySlug, MountStandard, MountSlug, SafetyFlag, SafetyFlags } from '../catalogue';
 import type { AdaptationRule, LicenceId } from '../licences';
 import type { MaterialInfo } from '../materials';
@@ -128,4 +129,6 @@ export interface PartDetail {
   lineage: PartLineage;
   /** Made to size with one of Rigshelf's makers, and with which sizes; null for drawn parts. */
   madeWith: MadeWith | null;
+  /** Everyone on the shelf, or one crew only (its members and moderators). */
+  visibility: PartVisibilityInfo;
 }

@@ -27,6 +27,8 @@ export interface SearchResultItem {
    */
   matched: string[];
   missing: string[];
+  /** True for a part published to one of the searcher's crews only. */
+  crewOnly?: boolean;
 }
 
 export interface SearchResponse {

@@ -3,6 +3,7 @@ import { CATEGORY_SLUGS, MOUNT_SLUGS } from '../catalogue';
 import { LICENCE_IDS } from '../licences';
 import { recipeSchema } from './recipe';
 import { boolish } from '../validation';
+import { partVisibilitySchema } from './crews';
 
 export const keyDimensionSchema = z.object({
   name: z.string({ error: 'Name the dimension, e.g. "rod bore".' }).trim().min(2, 'Name the dimension, e.g. "rod bore".').max(60, 'Keep the name under 60 characters.'),
@@ -65,11 +66,13 @@ export const partSubmissionSchema = z.object({
   drawnInInches: boolish.default(false),
   /** Made to size on the make pages: the maker and its parameters (the server checks them against the maker). */
   make: madeWithSchema.nullable().optional(),
+  /** Everyone on the shelf (the default), or one crew of the author's only. */
+  visibility: partVisibilitySchema.optional(),
 });
 export type PartSubmission = z.infer<typeof partSubmissionSchema>;
 
 export const partUpdateSchema = z
-  .object(partFields)
+  .object({ ...partFields, visibility: partVisibilitySchema })
   .partial()
   .strict()
   .refine((v) => Object.keys(v).length > 0, { message: 'Send at least one field to change.' });

@@ -56,6 +56,8 @@ export interface SearchDocument extends FilterableDoc {
   publishedAt: string;
   publishedRevisionId: number;
   rating: number | null;
+  /** Published to this crew only; such documents are left out of every search by anyone else. */
+  crewId?: number | null;
 }
 
 /** "KX-8" is also indexed as "kx8", so the model name finds the part however it is typed. */
