@@ -70,15 +70,15 @@ export function percentOf(minor: number, ratePct: number, code: CurrencyCode): n
 }
 
 export interface PriceSheetTerms {
-  /** The owner's price per kg for the material; the shelf's default when they named none. */
-  pricePerKg: number;
+  /** The owner's price per kg per material; the shelf's default where they named none. */
+  pricesPerKg: Record<string, number>;
   pricePerKwh: number | null;
   machineHourRate: number | null;
 }
 
 export interface PrintFigures {
-  /** All pieces together. */
-  grams: number;
+  /** Grams per material, all pieces together. */
+  filament: readonly { material: string; grams: number }[];
   minutes: number;
   /** The printer's power; null when unknown. */
   watts: number | null;
@@ -108,16 +108,22 @@ export function roundedGrams(grams: number): number {
 }
 
 export function computePrintPrice(figures: PrintFigures, terms: PriceSheetTerms, currency: CurrencyCode): PrintPrice {
-  if (!(figures.grams >= 0) || !(figures.minutes >= 0)) throw new RangeError('Grams and minutes must be numbers ≥ 0.');
+  if (figures.filament.some((f) => !(f.grams >= 0)) || !(figures.minutes >= 0)) throw new RangeError('Grams and minutes must be numbers ≥ 0.');
   const code = currencyOf(currency).code;
-  const decigrams = Math.round(figures.grams * 10);
   const centiHours = Math.round((figures.minutes * 100) / 60);
   const lines: PriceLine[] = [];
   const notes: string[] = [];
 
-  // decigrams × 10⁻⁴ = kilograms
-  const filament = multiply(priceAmount(terms.pricePerKg, code), { amount: decigrams, scale: 4 });
-  lines.push({ kind: 'filament', label: 'Filament', basis: `${(decigrams / 10).toFixed(1)} g at ${terms.pricePerKg} ${code}/kg`, amountMinor: minorOf(filament) });
+  let totalDecigrams = 0;
+  for (const { material, grams } of figures.filament) {
+    const decigrams = Math.round(grams * 10);
+    totalDecigrams += decigrams;
+    const pricePerKg = terms.pricesPerKg[material];
+    if (pricePerKg === undefined) throw new RangeError(`There is no price per kg for ${material}.`);
+    // decigrams × 10⁻⁴ = kilograms
+    const filament = multiply(priceAmount(pricePerKg, code), { amount: decigrams, scale: 4 });
+    lines.push({ kind: 'filament', label: `Filament (${material})`, basis: `${(decigrams / 10).toFixed(1)} g at ${pricePerKg} ${code}/kg`, amountMinor: minorOf(filament) });
+  }
 
   let wattHours: number | null = null;
   if (figures.watts !== null && terms.pricePerKwh !== null) {
@@ -138,7 +144,7 @@ export function computePrintPrice(figures: PrintFigures, terms: PriceSheetTerms,
     currency: code,
     lines,
     totalMinor: sumMinor(lines.map((l) => l.amountMinor), code),
-    figures: { grams: decigrams / 10, hours: centiHours / 100, wattHours },
+    figures: { grams: totalDecigrams / 10, hours: centiHours / 100, wattHours },
     notes,
   };
 }

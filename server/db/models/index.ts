@@ -13,6 +13,7 @@ import { initPartFile, PartFile } from './part-file';
 import { initPartRevision, PartRevision } from './part-revision';
 import { initPriceSheet, PriceSheet } from './price-sheet';
 import { initPrinter, Printer } from './printer';
+import { initPrintRequests, PaymentEvent, PrintRequest, PrintRequestEvent } from './print-request';
 import { initRecipe, Recipe } from './recipe';
 import { initSession, Session } from './session';
 import { initUser, User } from './user';
@@ -22,6 +23,7 @@ export type { AuditAction } from './audit-event';
 export { ContentFlag, Rating, ReportPhoto, SetReport };
 export { Kit, KitItem, KitShare, PriceSheet, Printer };
 export { Build, WantedAnswer, WantedPhoto, WantedRequest };
+export { PaymentEvent, PrintRequest, PrintRequestEvent };
 export { AccountToken, AuditEvent, CameraBody, MailMessage, Notice, Part, PartFile, PartRevision, Recipe, Session, User };
 
 /** Join rows: which camera bodies a revision fits, which files a revision shows (in order). */
@@ -50,6 +52,7 @@ export function initModels(sequelize: Sequelize) {
   initKits(sequelize);
   initBuild(sequelize);
   initWanted(sequelize);
+  initPrintRequests(sequelize);
   RevisionBody.init(
     {
       revisionId: { type: DataTypes.INTEGER.UNSIGNED, primaryKey: true },
@@ -100,4 +103,8 @@ export function initModels(sequelize: Sequelize) {
   WantedAnswer.belongsTo(WantedRequest, { as: 'request', foreignKey: 'requestId' });
   WantedAnswer.belongsTo(User, { as: 'user', foreignKey: 'userId' });
   WantedAnswer.belongsTo(Part, { as: 'part', foreignKey: 'partId' });
+  PrintRequest.belongsTo(User, { as: 'requester', foreignKey: 'requesterId' });
+  PrintRequest.belongsTo(User, { as: 'owner', foreignKey: 'ownerId' });
+  PrintRequest.hasMany(PrintRequestEvent, { as: 'events', foreignKey: 'requestId' });
+  PrintRequestEvent.belongsTo(User, { as: 'actor', foreignKey: 'actorId', constraints: false });
 }
