@@ -43,6 +43,8 @@ import { buildSearchRoutes } from './modules/search/build-route';
 import { buildRoutes } from './modules/builds/routes';
 import { wantedRoutes } from './modules/wanted/routes';
 import { createWantedService } from './modules/wanted/service';
+import { crewRoutes, invitationRoutes } from './modules/crews/routes';
+import { createCrewsService } from './modules/crews/service';
 
 export const SESSION_COOKIE = 'rigshelf.sid';
 
@@ -129,6 +131,7 @@ export function createApp({ config, sequelize, mailer }: AppContext) {
     onRecovered: (rows) => wanted.resume(rows),
   });
   const evidence = createEvidenceService({ sequelize, dirs, photos, onChanged: () => search.rankingChanged() });
+  const crews = createCrewsService({ sequelize, mail: mailer, publicUrl: config.PUBLIC_URL });
   const slicer = new SliceQueue();
   const planning = createPlanningService({ sequelize, evidence, dirs, slicer });
 
@@ -172,6 +175,8 @@ export function createApp({ config, sequelize, mailer }: AppContext) {
   app.use('/api/printers', printerRoutes(planning));
   app.use('/api/me/prices', priceRoutes(planning));
   app.use('/api/kits', kitRoutes(planning));
+  app.use('/api/crews', crewRoutes(crews));
+  app.use('/api/invitations', invitationRoutes(crews));
   app.use('/api', apiNotFound());
 
   const dist = resolve(config.CLIENT_DIST);
@@ -185,7 +190,7 @@ export function createApp({ config, sequelize, mailer }: AppContext) {
 
   return {
     app,
-    services: { parts, review, evidence, dirs, search, wanted },
+    services: { parts, review, evidence, dirs, search, wanted, crews },
     /** Waits for photo work in hand, then stops the worker pools and the session store's expiry sweep. */
     async close() {
       await parts.photosSettled();

@@ -4,6 +4,7 @@ import { AccountToken, initAccountToken } from './account-token';
 import { AuditEvent, initAuditEvent } from './audit-event';
 import { Build, initBuild } from './build';
 import { CameraBody, initCameraBody } from './camera-body';
+import { Crew, CrewInvitation, CrewMember, initCrews, KitCrewShare } from './crew';
 import { ContentFlag, initEvidence, Rating, ReportPhoto, SetReport } from './evidence';
 import { initKits, Kit, KitItem, KitShare } from './kit';
 import { initMailMessage, MailMessage } from './mail-message';
@@ -24,6 +25,7 @@ export { ContentFlag, Rating, ReportPhoto, SetReport };
 export { Kit, KitItem, KitShare, PriceSheet, Printer };
 export { Build, WantedAnswer, WantedPhoto, WantedRequest };
 export { PaymentEvent, PrintRequest, PrintRequestEvent };
+export { Crew, CrewInvitation, CrewMember, KitCrewShare };
 export { AccountToken, AuditEvent, CameraBody, MailMessage, Notice, Part, PartFile, PartRevision, Recipe, Session, User };
 
 /** Join rows: which camera bodies a revision fits, which files a revision shows (in order). */
@@ -53,6 +55,7 @@ export function initModels(sequelize: Sequelize) {
   initBuild(sequelize);
   initWanted(sequelize);
   initPrintRequests(sequelize);
+  initCrews(sequelize);
   RevisionBody.init(
     {
       revisionId: { type: DataTypes.INTEGER.UNSIGNED, primaryKey: true },
@@ -107,4 +110,11 @@ export function initModels(sequelize: Sequelize) {
   PrintRequest.belongsTo(User, { as: 'owner', foreignKey: 'ownerId' });
   PrintRequest.hasMany(PrintRequestEvent, { as: 'events', foreignKey: 'requestId' });
   PrintRequestEvent.belongsTo(User, { as: 'actor', foreignKey: 'actorId', constraints: false });
+  Crew.hasMany(CrewMember, { as: 'members', foreignKey: 'crewId' });
+  CrewMember.belongsTo(Crew, { as: 'crew', foreignKey: 'crewId' });
+  CrewMember.belongsTo(User, { as: 'user', foreignKey: 'userId' });
+  CrewInvitation.belongsTo(Crew, { as: 'crew', foreignKey: 'crewId' });
+  CrewInvitation.belongsTo(User, { as: 'inviter', foreignKey: 'invitedBy', constraints: false });
+  Kit.hasMany(KitCrewShare, { as: 'crewShares', foreignKey: 'kitId' });
+  KitCrewShare.belongsTo(Crew, { as: 'crew', foreignKey: 'crewId' });
 }

@@ -20,6 +20,8 @@ export class Part extends Model<InferAttributes<Part>, InferCreationAttributes<P
   declare status: PartStatus;
   declare publishedRevisionId: number | null;
   declare latestRevisionId: number | null;
+  /** Published to this crew only (its members and moderators see it), or null for everyone. */
+  declare crewId: CreationOptional<number | null>;
   declare lockVersion: CreationOptional<number>;
   declare publishedAt: Date | null;
   declare createdAt: CreationOptional<Date>;
@@ -44,6 +46,7 @@ export function initPart(sequelize: Sequelize) {
       },
       publishedRevisionId: { type: DataTypes.INTEGER.UNSIGNED, allowNull: true },
       latestRevisionId: { type: DataTypes.INTEGER.UNSIGNED, allowNull: true },
+      crewId: { type: DataTypes.INTEGER.UNSIGNED, allowNull: true, defaultValue: null },
       lockVersion: { type: DataTypes.INTEGER.UNSIGNED, allowNull: false, defaultValue: 0 },
       publishedAt: { type: DataTypes.DATE, allowNull: true },
       createdAt: DataTypes.DATE,

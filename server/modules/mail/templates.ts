@@ -118,6 +118,7 @@ export interface MailTemplates {
   passwordReset(p: { displayName: string; link: string; expiresMinutes: number }): MailContent;
   alreadyRegistered(p: { displayName: string; signInLink: string; resetLink: string }): MailContent;
   wantedAnswered(p: { requestTitle: string; partTitle: string; answeredBy: string; note: string | null; partLink: string; requestLink: string }): MailContent;
+  crewInvitation(p: { crewName: string; production: string | null; invitedBy: string; role: 'lead' | 'member'; link: string; expiresDays: number }): MailContent;
 }
 
 export const mailTemplates: MailTemplates = {
@@ -241,6 +242,22 @@ export const mailTemplates: MailTemplates = {
         text: `Check that it fits your rig before the shoot. If it does what you needed, close your request as solved so the crew knows: ${p.requestLink}`,
       },
       { kind: 'small', text: 'You get this because you asked the crew for a part on Rigshelf.' },
+    ]);
+  },
+
+  /** To an address a crew lead invited: join the crew on Rigshelf. */
+  crewInvitation(p: { crewName: string; production: string | null; invitedBy: string; role: 'lead' | 'member'; link: string; expiresDays: number }): MailContent {
+    const crew = p.production ? `“${p.crewName}” (${p.production})` : `“${p.crewName}”`;
+    return mail(`Join ${p.crewName} on Rigshelf`, 'You are invited to a crew', [
+      {
+        kind: 'p',
+        text: `${p.invitedBy} invited you to the crew ${crew} as ${p.role === 'lead' ? 'a lead, who manages its members' : 'a member'}. Crew members see the parts published to the crew only, plan kits together and print for each other.`,
+      },
+      { kind: 'action', label: 'Join the crew', link: p.link },
+      {
+        kind: 'small',
+        text: `The link works once, for ${plural(p.expiresDays, 'day', 'days')}, and only for the Rigshelf account with this e-mail address: sign in (or sign up) with it first. If you do not know ${p.invitedBy}, ignore this mail and nothing happens.`,
+      },
     ]);
   },
 };
