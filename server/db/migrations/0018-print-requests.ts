@@ -45,7 +45,7 @@ export const up: MigrationFn = async ({ context: { queryInterface: q } }) => {
       defaultValue: 'requested',
     },
     price_minor: { type: DataTypes.INTEGER.UNSIGNED, allowNull: true },
-    price_lines: { type: DataTypes.TEXT, allowNull: true },
+    frozen_price: { type: DataTypes.TEXT, allowNull: true },
     priced_at: { type: DataTypes.DATE, allowNull: true },
     payment_status: { type: DataTypes.ENUM('unpaid', 'pending', 'paid', 'refund_due', 'refunded'), allowNull: false, defaultValue: 'unpaid' },
     paid_minor: { type: DataTypes.INTEGER.UNSIGNED, allowNull: false, defaultValue: 0 },

@@ -9,7 +9,7 @@ import {
   type Sequelize,
 } from 'sequelize';
 import type { PaymentState, PrintRequestState } from '@shared/print-requests';
-import type { PriceLine } from '@shared/print-price';
+import type { PrintPrice } from '@shared/print-price';
 import { decimalColumn, jsonColumn } from './columns';
 import type { User } from './user';
 
@@ -37,12 +37,13 @@ export class PrintRequest extends Model<InferAttributes<PrintRequest>, InferCrea
   declare minutes: number;
   declare estimateNotes: string[];
   declare currency: string;
-  declare status: CreationOptional<PrintRequestState>;
+  declare status: CreationOptional<PrintRequestState> & PrintRequestState;
   /** Frozen when the owner accepts. */
   declare priceMinor: number | null;
-  declare priceLines: PriceLine[] | null;
+  /** The whole breakdown as frozen at accept. */
+  declare frozenPrice: PrintPrice | null;
   declare pricedAt: Date | null;
-  declare paymentStatus: CreationOptional<PaymentState>;
+  declare paymentStatus: CreationOptional<PaymentState> & PaymentState;
   declare paidMinor: CreationOptional<number>;
   declare checkoutId: string | null;
   declare paymentRef: string | null;
@@ -110,7 +111,7 @@ export function initPrintRequests(sequelize: Sequelize) {
         defaultValue: 'requested',
       },
       priceMinor: { type: DataTypes.INTEGER.UNSIGNED, allowNull: true },
-      priceLines: jsonColumn<PriceLine[]>('priceLines', true),
+      frozenPrice: jsonColumn<PrintPrice>('frozenPrice', true),
       pricedAt: { type: DataTypes.DATE, allowNull: true },
       paymentStatus: { type: DataTypes.ENUM('unpaid', 'pending', 'paid', 'refund_due', 'refunded'), allowNull: false, defaultValue: 'unpaid' },
       paidMinor: { type: DataTypes.INTEGER.UNSIGNED, allowNull: false, defaultValue: 0 },
