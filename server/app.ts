@@ -135,6 +135,7 @@ export function createApp({ config, sequelize, mailer }: AppContext) {
     onSubmitted: review.submitted,
     onEdited: review.edited,
     onRecovered: (rows) => wanted.resume(rows),
+    onVisibilityChanged: () => search.scheduleRebuild(),
   });
   const evidence = createEvidenceService({ sequelize, dirs, photos, onChanged: () => search.rankingChanged() });
   const crews = createCrewsService({ sequelize, mail: mailer, publicUrl: config.PUBLIC_URL });

@@ -125,6 +125,8 @@ export interface PartSummary {
   thumbnailUrl: string | null;
   sizeMm: [number, number, number] | null;
   updatedAt: string;
+  /** Set when the part is published to one crew only. */
+  crewId?: number | null;
 }
 
 export interface NoticeInfo {

@@ -48,3 +48,6 @@ export interface InvitationPreview {
   invitedBy: string | null;
   expiresAt: string;
 }
+
+/** Who sees a part, as the part page shows it. */
+export type PartVisibilityInfo = 'everyone' | { crewId: number; crewName: string };

@@ -129,12 +129,26 @@ export interface KitDetail extends Omit<KitListItem, 'itemCount'> {
   printerPrice: number | null;
   createdAt: string;
   shares: KitShareInfo[];
+  /** Whole crews the kit is shared with (every member of the crew gets the access). */
+  crewShares: KitCrewShareInfo[];
+  /** Items whose part is published to a crew the viewer is not in are left out. */
   items: KitItemInfo[];
+}
+
+export interface KitCrewShareInfo {
+  crewId: number;
+  crewName: string;
+  access: 'read' | 'edit';
 }
 
 /** PUT /api/kits/:id/shares */
 export interface KitShareList {
   shares: KitShareInfo[];
+}
+
+/** PUT /api/kits/:id/crew-shares */
+export interface KitCrewShareList {
+  crewShares: KitCrewShareInfo[];
 }
 
 /** GET /api/kits/:id/summary */

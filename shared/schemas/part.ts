@@ -3,6 +3,7 @@ import { CATEGORY_SLUGS, MOUNT_SLUGS } from '../catalogue';
 import { LICENCE_IDS } from '../licences';
 import { recipeSchema } from './recipe';
 import { boolish } from '../validation';
+import { partVisibilitySchema } from './crews';
 
 export const keyDimensionSchema = z.object({
   name: z.string({ error: 'Name the dimension, e.g. "rod bore".' }).trim().min(2, 'Name the dimension, e.g. "rod bore".').max(60, 'Keep the name under 60 characters.'),
@@ -55,11 +56,13 @@ export const partSubmissionSchema = z.object({
   parentId: z.coerce.number().int().positive().nullable().optional(),
   /** The STL files in this upload were drawn in inches (3MF declares its own unit). */
   drawnInInches: boolish.default(false),
+  /** Everyone on the shelf (the default), or one crew of the author's only. */
+  visibility: partVisibilitySchema.optional(),
 });
 export type PartSubmission = z.infer<typeof partSubmissionSchema>;
 
 export const partUpdateSchema = z
-  .object(partFields)
+  .object({ ...partFields, visibility: partVisibilitySchema })
   .partial()
   .strict()
   .refine((v) => Object.keys(v).length > 0, { message: 'Send at least one field to change.' });

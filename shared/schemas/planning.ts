@@ -214,6 +214,19 @@ export const kitSharesSchema = z.object({
 });
 export type KitSharesInput = z.infer<typeof kitSharesSchema>;
 
+export const kitCrewSharesSchema = z.object({
+  crewShares: z
+    .array(
+      z.object({
+        crewId: positiveId('crew id'),
+        access: z.enum(KIT_ACCESS, { error: 'Choose "read" (can look) or "edit" (can change items).' }),
+      }),
+      { error: 'Send the list of crews as "crewShares".' },
+    )
+    .max(10, 'Share a kit with at most 10 crews.'),
+});
+export type KitCrewSharesInput = z.infer<typeof kitCrewSharesSchema>;
+
 export const kitParamsSchema = z.object({ id: z.coerce.number({ error: 'The kit id must be a number.' }).int().positive('The kit id must be a positive number.') });
 export const kitItemParamsSchema = kitParamsSchema.extend({
   itemId: z.coerce.number({ error: 'The item id must be a number.' }).int().positive('The item id must be a positive number.'),

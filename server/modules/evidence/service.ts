@@ -9,7 +9,7 @@ import { AppError } from '../../errors';
 import type { InspectedFile } from '../files/inspect';
 import type { PhotoJobs } from '../files/photo-jobs';
 import { moveAll, randomStoredName, type UploadDirs } from '../files/storage';
-import { findVisiblePart, isModerator } from '../parts/access';
+import { audienceOf, crewWhere, findVisiblePart, isModerator } from '../parts/access';
 import { pathsOf } from '../parts/part-files';
 
 export interface EvidenceDeps {
@@ -267,7 +267,7 @@ export function createEvidenceService({ sequelize, dirs, photos, onChanged }: Ev
     async profile(viewer: User | undefined, userId: number) {
       const user = await User.findByPk(userId);
       if (!user || (user.status !== 'active' && !isModerator(viewer))) throw AppError.notFound('There is no such crew member.');
-      const parts = await Part.findAll({ where: { authorId: userId, status: 'published' }, include: [{ model: PartRevision, as: 'publishedRevision' }], order: [['publishedAt', 'DESC']] });
+      const parts = await Part.findAll({ where: { [Op.and]: [{ authorId: userId, status: 'published' }, crewWhere(await audienceOf(viewer))] }, include: [{ model: PartRevision, as: 'publishedRevision' }], order: [['publishedAt', 'DESC']] });
       const evidence = await evidenceFor(parts.map((p) => p.id));
       return {
         user: { id: user.id, displayName: user.displayName, crewRole: user.crewRole, memberSince: user.createdAt.toISOString() },

@@ -5,8 +5,9 @@ import { adaptationRule, isLicenceId, licenceInfo } from '@shared/licences';
 import { recipeWindowWarnings } from '@shared/materials';
 import { safetyCautions } from '@shared/safety';
 import type { PartFileInfo, PartSummary } from '@shared/types';
-import { CameraBody, Part, PartFile, PartRevision, Recipe, RevisionFile, User } from '../../db/models';
-import { seesUnpublished } from './access';
+import type { PartVisibilityInfo } from '@shared/api/crews';
+import { CameraBody, Crew, Part, PartFile, PartRevision, Recipe, RevisionFile, User } from '../../db/models';
+import { audienceOf, crewAllows, crewWhere, seesUnpublished } from './access';
 
 export function fileUrls(partId: number, file: PartFile) {
   const base = `/api/parts/${partId}/files/${file.id}`;
@@ -79,10 +80,11 @@ function flagsOf(rev: PartRevision): SafetyFlags {
 }
 
 async function lineageOf(part: Part, viewer: User | undefined) {
+  const audience = await audienceOf(viewer);
   let parent = null;
   if (part.parentId) {
     const p = await Part.findByPk(part.parentId, { include: [{ model: User, as: 'author' }] });
-    if (p && (p.publishedRevisionId || seesUnpublished(viewer, p))) {
+    if (p && crewAllows(audience, p) && (p.publishedRevisionId || seesUnpublished(viewer, p))) {
       const rev = await PartRevision.findByPk(p.publishedRevisionId ?? p.latestRevisionId!);
       parent = {
         id: p.id,
@@ -94,7 +96,7 @@ async function lineageOf(part: Part, viewer: User | undefined) {
     }
   }
   const children = await Part.findAll({
-    where: { parentId: part.id, publishedRevisionId: { [Op.ne]: null } },
+    where: { [Op.and]: [{ parentId: part.id, publishedRevisionId: { [Op.ne]: null } }, crewWhere(audience)] },
     include: [{ model: User, as: 'author' }, { model: PartRevision, as: 'publishedRevision' }],
     order: [['publishedAt', 'ASC']],
   });
@@ -107,6 +109,13 @@ async function lineageOf(part: Part, viewer: User | undefined) {
       author: { id: c.authorId, displayName: c.author?.displayName ?? '' },
     })),
   };
+}
+
+/** Who sees the part: 'everyone', or the crew it is published to. */
+export async function visibilityOf(part: Part): Promise<PartVisibilityInfo> {
+  if (part.crewId == null) return 'everyone';
+  const crew = await Crew.findByPk(part.crewId, { attributes: ['id', 'name'] });
+  return { crewId: part.crewId, crewName: crew?.name ?? '' };
 }
 
 export async function presentPart(part: Part, revisionId: number, viewer: User | undefined) {
@@ -143,6 +152,7 @@ export async function presentPart(part: Part, revisionId: number, viewer: User |
     files,
     sizeMm: model?.analysis?.sizeMm ?? null,
     lineage: await lineageOf(part, viewer),
+    visibility: await visibilityOf(part),
   };
 }
 
@@ -173,6 +183,7 @@ export async function presentSummaries(parts: Part[], pickRevision: (p: Part) =>
         thumbnailUrl: photo ? fileUrls(part.id, photo).thumbnailUrl : null,
         sizeMm: model?.analysis?.sizeMm ?? null,
         updatedAt: rev.updatedAt.toISOString(),
+        crewId: part.crewId ?? null,
       },
     ];
   });

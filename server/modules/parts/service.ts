@@ -3,14 +3,15 @@ import { Op, UniqueConstraintError, type CreationAttributes, type Sequelize, typ
 import { slugify } from '@shared/catalogue';
 import { transition } from '@shared/review';
 import { checkAdaptationLicence, isLicenceId } from '@shared/licences';
+import type { PartVisibility } from '@shared/schemas/crews';
 import type { PartSubmission, PartUpdate } from '@shared/schemas/part';
-import { Part, PartFile, PartRevision, ReportPhoto, RevisionFile, type User, type WantedPhoto } from '../../db/models';
+import { CrewMember, Part, PartFile, PartRevision, ReportPhoto, RevisionFile, type User, type WantedPhoto } from '../../db/models';
 import { transact, type Attempt } from '../../db/transaction';
 import { AppError } from '../../errors';
 import type { InspectedFile } from '../files/inspect';
 import type { PhotoJobs } from '../files/photo-jobs';
 import type { UploadDirs } from '../files/storage';
-import { assertCanEdit, findVisiblePart, seesUnpublished } from './access';
+import { assertCanEdit, audienceOf, crewAllows, crewWhere, findVisiblePart, seesUnpublished } from './access';
 import { attachFiles, pathsOf, removeStoredFiles, sweepUploads } from './part-files';
 import { presentPart, presentSummaries } from './presenter';
 import {
@@ -45,6 +46,8 @@ export interface PartsDeps {
   onEdited?: EditHook;
   /** Wanted-request photos the start-up sweep found waiting to be cleaned. */
   onRecovered?: (wantedPhotos: WantedPhoto[]) => void;
+  /** A published part changed who sees it (search reads it again). */
+  onVisibilityChanged?: () => void;
 }
 
 function fieldError(field: string, message: string) {
@@ -59,7 +62,7 @@ async function uniqueSlug(title: string, transaction: Transaction, alsoTaken: Se
   for (let n = 2; ; n++) if (!used.has(`${base}-${n}`)) return `${base}-${n}`;
 }
 
-export function createPartsService({ sequelize, dirs, photos, onSubmitted, onEdited, onRecovered }: PartsDeps) {
+export function createPartsService({ sequelize, dirs, photos, onSubmitted, onEdited, onRecovered, onVisibilityChanged }: PartsDeps) {
   /** Records what an edit did: a new revision of a published part, or a resubmission after changes. */
   async function afterEdit(actor: User, part: Part, edit: { revision: PartRevision; created: boolean }, t: Transaction, record?: EditRecord) {
     // the author's own edits are on record as (re)submissions; anyone else's edit is an event of its own
@@ -76,13 +79,21 @@ export function createPartsService({ sequelize, dirs, photos, onSubmitted, onEdi
   async function checkParentLicence(parentId: number | null | undefined, licence: string, viewer: User) {
     if (!parentId) return;
     const parent = await Part.findByPk(parentId);
-    if (!parent || (!parent.publishedRevisionId && !seesUnpublished(viewer, parent))) {
+    if (!parent || !crewAllows(await audienceOf(viewer), parent) || (!parent.publishedRevisionId && !seesUnpublished(viewer, parent))) {
       throw fieldError('parentId', 'The part you are adapting is not on the shelf.');
     }
     const parentRev = await PartRevision.findByPk(parent.publishedRevisionId ?? parent.latestRevisionId!);
     if (!parentRev || !isLicenceId(parentRev.licence) || !isLicenceId(licence)) return;
     const check = checkAdaptationLicence(parentRev.licence, licence);
     if (!check.ok) throw fieldError('licence', check.reason);
+  }
+
+  /** The crew id a visibility choice stands for; only a crew the actor is in (moderators too). */
+  async function crewIdFor(actor: User, visibility: PartVisibility | undefined, t?: Transaction): Promise<number | null> {
+    if (!visibility || visibility === 'everyone') return null;
+    const member = await CrewMember.findOne({ where: { crewId: visibility.crewId, userId: actor.id }, transaction: t });
+    if (!member) throw fieldError('visibility', 'You can publish a part only to a crew you are in. Choose one of your crews, or everyone.');
+    return visibility.crewId;
   }
 
   function requireModel(files: InspectedFile[]) {
@@ -135,11 +146,12 @@ export function createPartsService({ sequelize, dirs, photos, onSubmitted, onEdi
       requireModel(files);
       const bodyIds = await bodyIdsFor(input.bodies);
       await checkParentLicence(input.parentId, input.licence, actor);
+      const crewId = await crewIdFor(actor, input.visibility);
 
       return writeWithFiles(async (t, attempt) => {
         const part = await createPart(
           input.title,
-          { authorId: actor.id, parentId: input.parentId ?? null, status: 'in_review', publishedRevisionId: null, latestRevisionId: null, publishedAt: null },
+          { authorId: actor.id, parentId: input.parentId ?? null, crewId, status: 'in_review', publishedRevisionId: null, latestRevisionId: null, publishedAt: null },
           t,
         );
         const revision = await PartRevision.create(
@@ -189,7 +201,7 @@ export function createPartsService({ sequelize, dirs, photos, onSubmitted, onEdi
         return presentSummaries(parts, (p) => p.latestRevisionId);
       }
       const parts = await Part.findAll({
-        where: { status: 'published', publishedRevisionId: { [Op.ne]: null } },
+        where: { [Op.and]: [{ status: 'published', publishedRevisionId: { [Op.ne]: null } }, crewWhere(await audienceOf(viewer))] },
         order: [['publishedAt', 'DESC']],
         limit: 200,
       });
@@ -198,17 +210,30 @@ export function createPartsService({ sequelize, dirs, photos, onSubmitted, onEdi
 
     async update(actor: User, id: string, patch: PartUpdate) {
       const bodyIds = patch.bodies ? await bodyIdsFor(patch.bodies) : null;
+      let seenByOthers = false;
       await transact(sequelize, async (t) => {
+        seenByOthers = false;
         const part = await findVisiblePart(actor, id, t);
         assertCanEdit(actor, part);
+        const { visibility, ...content } = patch;
+        if (visibility !== undefined) {
+          if (actor.id !== part.authorId) throw AppError.forbidden('Only the author chooses who sees a part.');
+          const crewId = await crewIdFor(actor, visibility, t);
+          if (crewId !== part.crewId) {
+            await part.update({ crewId }, { transaction: t });
+            seenByOthers = part.publishedRevisionId !== null;
+          }
+          if (!Object.keys(content).length) return;
+        }
         if (patch.licence) await checkParentLicence(part.parentId, patch.licence, actor);
         const edit = await editableRevision(part, actor, t);
-        const changes = editChanges(edit.revision, patch);
-        await edit.revision.update(revisionColumns(patch), { transaction: t });
+        const changes = editChanges(edit.revision, content);
+        await edit.revision.update(revisionColumns(content), { transaction: t });
         if (bodyIds) await replaceBodies(edit.revision.id, bodyIds, t);
         if (patch.recipes) await replaceRecipes(edit.revision.id, patch.recipes, t);
         await afterEdit(actor, part, edit, t, { changes });
       });
+      if (seenByOthers) onVisibilityChanged?.();
       return this.get(actor, id);
     },
 

@@ -1,18 +1,26 @@
 // Who may see and change a shoot kit: its owner, and the members it is shared with ('read' looks,
 // 'edit' changes the kit and its items). Everyone else is told it does not exist (404).
-import type { Transaction } from 'sequelize';
+import { Op, type Transaction } from 'sequelize';
 import type { KitAccess } from '@shared/api/planning';
-import { Kit, KitShare, type User } from '../../db/models';
+import { CrewMember, Kit, KitCrewShare, KitShare, type User } from '../../db/models';
 import { AppError } from '../../errors';
 
 const notFound = () => AppError.notFound('There is no kit with that id among yours or those shared with you.');
 
 const RANK: Record<KitAccess, number> = { read: 0, edit: 1, owner: 2 };
 
+/** The best of the member's own share and the shares of the crews they are in. */
 export async function accessTo(viewer: User, kit: Kit, transaction?: Transaction): Promise<KitAccess | null> {
   if (kit.ownerId === viewer.id) return 'owner';
   const share = await KitShare.findOne({ where: { kitId: kit.id, userId: viewer.id }, transaction });
-  return share?.access ?? null;
+  let best: KitAccess | null = share?.access ?? null;
+  if (best === 'edit') return best;
+  const crewIds = (await CrewMember.findAll({ where: { userId: viewer.id }, attributes: ['crewId'], transaction })).map((m) => m.crewId);
+  if (crewIds.length) {
+    const crewShares = await KitCrewShare.findAll({ where: { kitId: kit.id, crewId: { [Op.in]: crewIds } }, transaction });
+    for (const s of crewShares) if (best === null || RANK[s.access] > RANK[best]) best = s.access;
+  }
+  return best;
 }
 
 /**

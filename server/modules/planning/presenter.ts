@@ -1,9 +1,10 @@
 // The JSON printers, price sheets and kits are shown as (shapes in shared/api/planning.ts).
 import { Op } from 'sequelize';
-import type { KitAccess, KitDetail, KitItemInfo, KitListItem, KitRecipeRef, KitShareInfo, PrinterInfo, PriceSheetInfo } from '@shared/api/planning';
+import type { KitAccess, KitCrewShareInfo, KitDetail, KitItemInfo, KitListItem, KitRecipeRef, KitShareInfo, PrinterInfo, PriceSheetInfo } from '@shared/api/planning';
 import { DEFAULT_PRICE_PER_KG } from '@shared/estimate';
 import { MATERIAL_IDS, type MaterialId } from '@shared/materials';
-import { Kit, KitItem, KitShare, Part, PartRevision, Printer, Recipe, User, type PriceSheet } from '../../db/models';
+import { Crew, Kit, KitCrewShare, KitItem, KitShare, Part, PartRevision, Printer, Recipe, User, type PriceSheet } from '../../db/models';
+import { crewAllows, type PartAudience } from '../parts/access';
 
 export function presentPrinter(p: Printer): PrinterInfo {
   return {
@@ -69,9 +70,12 @@ export function isOnShelfForKits(part: Part): boolean {
   return part.status === 'published' && part.publishedRevisionId !== null;
 }
 
-/** A kit's items (or one of them) with their part, recipe and printer, in the kit's order. */
-export async function loadItems(kitId: number, itemId?: number): Promise<KitItem[]> {
-  return KitItem.findAll({
+/**
+ * A kit's items (or one of them) with their part, recipe and printer, in the kit's order. With an
+ * audience, items whose part is published to a crew the viewer is not in are left out.
+ */
+export async function loadItems(kitId: number, itemId?: number, audience?: PartAudience): Promise<KitItem[]> {
+  const items = await KitItem.findAll({
     where: itemId === undefined ? { kitId } : { kitId, id: itemId },
     include: [
       { model: Part, as: 'part', include: [{ model: PartRevision, as: 'publishedRevision' }] },
@@ -80,6 +84,7 @@ export async function loadItems(kitId: number, itemId?: number): Promise<KitItem
     ],
     order: [['position', 'ASC'], ['id', 'ASC']],
   });
+  return audience ? items.filter((i) => crewAllows(audience, i.part!)) : items;
 }
 
 export function presentItem(item: KitItem): KitItemInfo {
@@ -100,11 +105,12 @@ export function presentItem(item: KitItem): KitItemInfo {
   };
 }
 
-export async function presentKit(kit: Kit, access: KitAccess): Promise<KitDetail> {
-  const [owner, shares, items] = await Promise.all([
+export async function presentKit(kit: Kit, access: KitAccess, audience: PartAudience): Promise<KitDetail> {
+  const [owner, shares, crewShares, items] = await Promise.all([
     User.findByPk(kit.ownerId),
     KitShare.findAll({ where: { kitId: kit.id }, include: [{ model: User, as: 'user' }] }),
-    loadItems(kit.id),
+    KitCrewShare.findAll({ where: { kitId: kit.id }, include: [{ model: Crew, as: 'crew' }], order: [['id', 'ASC']] }),
+    loadItems(kit.id, undefined, audience),
   ]);
   return {
     id: kit.id,
@@ -121,17 +127,24 @@ export async function presentKit(kit: Kit, access: KitAccess): Promise<KitDetail
     createdAt: kit.createdAt.toISOString(),
     updatedAt: kit.updatedAt.toISOString(),
     shares: presentShares(shares, access),
+    crewShares: presentCrewShares(crewShares),
     items: items.map(presentItem),
   };
 }
 
-export async function presentKitList(kits: Kit[], accessOf: (kit: Kit) => KitAccess): Promise<KitListItem[]> {
+export function presentCrewShares(rows: KitCrewShare[]): KitCrewShareInfo[] {
+  return rows.map((r) => ({ crewId: r.crewId, crewName: r.crew?.name ?? '', access: r.access }));
+}
+
+export async function presentKitList(kits: Kit[], accessOf: (kit: Kit) => KitAccess, audience: PartAudience): Promise<KitListItem[]> {
   if (!kits.length) return [];
   const ids = kits.map((k) => k.id);
-  const [owners, counts] = await Promise.all([
+  const [owners, rows] = await Promise.all([
     User.findAll({ where: { id: { [Op.in]: [...new Set(kits.map((k) => k.ownerId))] } } }),
-    KitItem.count({ where: { kitId: { [Op.in]: ids } }, group: ['kitId'] }) as unknown as Promise<{ kitId: number; count: number }[]>,
+    KitItem.findAll({ where: { kitId: { [Op.in]: ids } }, attributes: ['kitId'], include: [{ model: Part, as: 'part', attributes: ['id', 'crewId', 'authorId'] }] }),
   ]);
+  const counts = new Map<number, number>();
+  for (const r of rows) if (crewAllows(audience, r.part!)) counts.set(r.kitId, (counts.get(r.kitId) ?? 0) + 1);
   return kits.map((kit) => ({
     id: kit.id,
     name: kit.name,
@@ -141,7 +154,7 @@ export async function presentKitList(kits: Kit[], accessOf: (kit: Kit) => KitAcc
     heatExposure: kit.heatExposure,
     owner: memberRef(owners.find((o) => o.id === kit.ownerId), kit.ownerId),
     access: accessOf(kit),
-    itemCount: Number(counts.find((c) => Number(c.kitId) === kit.id)?.count ?? 0),
+    itemCount: counts.get(kit.id) ?? 0,
     updatedAt: kit.updatedAt.toISOString(),
   }));
 }

@@ -8,6 +8,7 @@ import {
   kitParamsSchema,
   kitPatchSchema,
   kitSchema,
+  kitCrewSharesSchema,
   kitSharesSchema,
   priceSheetSchema,
   printerParamsSchema,
@@ -107,6 +108,10 @@ export function kitRoutes(planning: PlanningService) {
 
   router.put('/:id/shares', kitParams, validate('body', kitSharesSchema), async (req, res) => {
     res.json(await planning.setShares(currentUser(req)!, kitId(res), parsed(res, 'body', kitSharesSchema)));
+  });
+
+  router.put('/:id/crew-shares', kitParams, validate('body', kitCrewSharesSchema), async (req, res) => {
+    res.json(await planning.setCrewShares(currentUser(req)!, kitId(res), parsed(res, 'body', kitCrewSharesSchema)));
   });
 
   router.delete('/:id/shares/me', kitParams, async (req, res) => {

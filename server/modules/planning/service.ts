@@ -7,6 +7,7 @@ import type {
   KitDetail,
   KitItemInfo,
   KitList,
+  KitCrewShareList,
   KitShareList,
   KitSummaryResponse,
   PrinterInfo,
@@ -28,22 +29,23 @@ import {
   type KitItemInput,
   type KitItemPatch,
   type KitPatch,
+  type KitCrewSharesInput,
   type KitSharesInput,
   type PriceSheetInput,
   type PrinterInput,
   type PrinterPatch,
 } from '@shared/schemas/planning';
-import { Kit, KitItem, KitShare, Part, PartFile, PartRevision, PriceSheet, Printer, Recipe, RevisionFile, User } from '../../db/models';
+import { Crew, CrewMember, Kit, KitCrewShare, KitItem, KitShare, Part, PartFile, PartRevision, PriceSheet, Printer, Recipe, RevisionFile, User } from '../../db/models';
 import { transact } from '../../db/transaction';
 import { AppError } from '../../errors';
 import type { UploadDirs } from '../files/storage';
 import { pathsOf } from '../parts/part-files';
 import type { SliceQueue } from './slice-queue';
 import type { EvidenceService } from '../evidence/service';
-import { findVisiblePart, seesUnpublished } from '../parts/access';
+import { audienceOf, crewAllows, findVisiblePart, seesUnpublished, type PartAudience } from '../parts/access';
 import { findKit } from './access';
 import { kitCsv, kitCsvFileName } from './export';
-import { effectivePrices, isOnShelfForKits, loadItems, presentItem, presentKit, presentKitList, presentPrinter, presentPriceSheet, presentShares } from './presenter';
+import { effectivePrices, isOnShelfForKits, loadItems, presentCrewShares, presentItem, presentKit, presentKitList, presentPrinter, presentPriceSheet, presentShares } from './presenter';
 
 export interface PlanningDeps {
   sequelize: Sequelize;
@@ -102,9 +104,9 @@ async function visibleModelFile(viewer: User | undefined, fileId: number): Promi
 }
 
 /** A part that can go in a kit: on the shelf now. Missing and unpublished parts get the same answer. */
-async function shelfPart(partId: number, transaction?: Transaction): Promise<Part> {
+async function shelfPart(viewer: User, partId: number, transaction?: Transaction): Promise<Part> {
   const part = await Part.findByPk(partId, { transaction });
-  if (!part || !isOnShelfForKits(part)) {
+  if (!part || !isOnShelfForKits(part) || !crewAllows(await audienceOf(viewer, transaction), part)) {
     throw fieldError('partId', 'Only parts that are on the shelf can go in a kit; that one is not. Pick a part from the shelf.');
   }
   return part;
@@ -313,18 +315,23 @@ export function createPlanningService({ sequelize, evidence, dirs, slicer }: Pla
 
     async listKits(viewer: User): Promise<KitList> {
       const shares = await KitShare.findAll({ where: { userId: viewer.id } });
-      const shared = shares.map((s) => s.kitId);
+      const audience = await audienceOf(viewer);
+      const myCrews = (await CrewMember.findAll({ where: { userId: viewer.id }, attributes: ['crewId'] })).map((m) => m.crewId);
+      const crewShares = myCrews.length ? await KitCrewShare.findAll({ where: { crewId: { [Op.in]: myCrews } } }) : [];
+      const accessOf = new Map<number, 'read' | 'edit'>();
+      for (const s of [...shares, ...crewShares]) if (accessOf.get(s.kitId) !== 'edit') accessOf.set(s.kitId, s.access);
+      const shared = [...accessOf.keys()];
       const kits = await Kit.findAll({
         where: shared.length ? { [Op.or]: [{ ownerId: viewer.id }, { id: { [Op.in]: shared } }] } : { ownerId: viewer.id },
         order: [['updatedAt', 'DESC'], ['id', 'DESC']],
       });
-      const items = await presentKitList(kits, (kit) => (kit.ownerId === viewer.id ? 'owner' : shares.find((s) => s.kitId === kit.id)!.access));
+      const items = await presentKitList(kits, (kit) => (kit.ownerId === viewer.id ? 'owner' : accessOf.get(kit.id)!), audience);
       return { items };
     },
 
     async getKit(viewer: User, id: number): Promise<KitDetail> {
       const { kit, access } = await findKit(viewer, id, 'read');
-      return presentKit(kit, access);
+      return presentKit(kit, access, await audienceOf(viewer));
     },
 
     async createKit(owner: User, input: KitInput): Promise<KitDetail> {
@@ -342,7 +349,7 @@ export function createPlanningService({ sequelize, evidence, dirs, slicer }: Pla
         printHoursPerDay: input.printHoursPerDay,
         printerPrice: input.printerPrice ?? null,
       });
-      return presentKit(await kit.reload(), 'owner');
+      return presentKit(await kit.reload(), 'owner', await audienceOf(owner));
     },
 
     async updateKit(viewer: User, id: number, patch: KitPatch): Promise<KitDetail> {
@@ -366,7 +373,7 @@ export function createPlanningService({ sequelize, evidence, dirs, slicer }: Pla
         );
         return { kit, access };
       });
-      return presentKit(await result.kit.reload(), result.access);
+      return presentKit(await result.kit.reload(), result.access, await audienceOf(viewer));
     },
 
     async deleteKit(viewer: User, id: number): Promise<void> {
@@ -384,7 +391,7 @@ export function createPlanningService({ sequelize, evidence, dirs, slicer }: Pla
         if ((await KitItem.count({ where: { kitId: kit.id }, transaction: t })) >= MAX_KIT_ITEMS) {
           throw AppError.conflict(`A kit holds at most ${MAX_KIT_ITEMS} items; split it into two kits.`);
         }
-        const part = await shelfPart(input.partId, t);
+        const part = await shelfPart(viewer, input.partId, t);
         const recipe = await publishedRecipe(part, input.recipeId, t);
         const printerId = await ownersPrinter(kit, input.printerId, t);
         const last = (await KitItem.max<number, KitItem>('position', { where: { kitId: kit.id }, transaction: t })) ?? -1;
@@ -421,12 +428,12 @@ export function createPlanningService({ sequelize, evidence, dirs, slicer }: Pla
           serviceShipping: patch.serviceShipping,
         });
         if (patch.partId !== undefined && patch.partId !== item.partId) {
-          const part = await shelfPart(patch.partId, t);
+          const part = await shelfPart(viewer, patch.partId, t);
           changes.partId = part.id;
           changes.recipeId = (await publishedRecipe(part, patch.recipeId, t)).id;
         } else if (patch.recipeId !== undefined) {
           // null goes back to the part's default recipe
-          changes.recipeId = (await publishedRecipe(await shelfPart(item.partId, t), patch.recipeId, t)).id;
+          changes.recipeId = (await publishedRecipe(await shelfPart(viewer, item.partId, t), patch.recipeId, t)).id;
         }
         if (patch.printerId !== undefined) changes.printerId = await ownersPrinter(kit, patch.printerId, t);
         await item.update(changes, { transaction: t });
@@ -479,6 +486,29 @@ export function createPlanningService({ sequelize, evidence, dirs, slicer }: Pla
       return { shares: presentShares(shares, 'owner') };
     },
 
+    /** Replaces the crews the kit is shared with. Owner only, and only with crews the owner is in. */
+    async setCrewShares(viewer: User, kitId: number, input: KitCrewSharesInput): Promise<KitCrewShareList> {
+      await transact(sequelize, async (t) => {
+        const { kit } = await findKit(viewer, kitId, 'owner', 'Only the kit’s owner can choose which crews it is shared with.', t);
+        const fields: Record<string, string> = {};
+        const seen = new Set<number>();
+        for (const [i, share] of input.crewShares.entries()) {
+          if (seen.has(share.crewId)) fields[`crewShares.${i}.crewId`] = 'That crew is on the list twice; keep one entry.';
+          else if (!(await CrewMember.count({ where: { crewId: share.crewId, userId: viewer.id }, transaction: t }))) {
+            fields[`crewShares.${i}.crewId`] = 'You can share a kit only with a crew you are in.';
+          }
+          seen.add(share.crewId);
+        }
+        const problems = Object.values(fields);
+        if (problems.length) throw new AppError(422, 'validation_failed', problems.length === 1 ? problems[0] : 'Some of these crews cannot be added; see each entry.', fields);
+        await KitCrewShare.destroy({ where: { kitId: kit.id }, transaction: t });
+        await KitCrewShare.bulkCreate(input.crewShares.map((s) => ({ kitId: kit.id, crewId: s.crewId, access: s.access })), { transaction: t });
+        await touch(kit, t);
+      });
+      const rows = await KitCrewShare.findAll({ where: { kitId }, include: [{ model: Crew, as: 'crew' }], order: [['id', 'ASC']] });
+      return { crewShares: presentCrewShares(rows) };
+    },
+
     /** A member the kit is shared with takes themselves off it; the owner keeps it. */
     async leave(viewer: User, kitId: number): Promise<void> {
       const { kit } = await findKit(viewer, kitId, 'read');
@@ -488,12 +518,12 @@ export function createPlanningService({ sequelize, evidence, dirs, slicer }: Pla
 
     async summary(viewer: User, kitId: number): Promise<KitSummaryResponse> {
       const { kit } = await findKit(viewer, kitId, 'read');
-      return summaryOf(kit);
+      return summaryOf(kit, await audienceOf(viewer));
     },
 
     async exportCsv(viewer: User, kitId: number): Promise<{ fileName: string; body: string }> {
       const { kit } = await findKit(viewer, kitId, 'read');
-      return { fileName: kitCsvFileName(kit.name, kit.id), body: kitCsv(await summaryOf(kit)) };
+      return { fileName: kitCsvFileName(kit.name, kit.id), body: kitCsv(await summaryOf(kit, await audienceOf(viewer))) };
     },
   };
 
@@ -515,8 +545,8 @@ export function createPlanningService({ sequelize, evidence, dirs, slicer }: Pla
     }
   }
 
-  async function summaryOf(kit: Kit): Promise<KitSummaryResponse> {
-    const items = await loadItems(kit.id);
+  async function summaryOf(kit: Kit, audience: PartAudience): Promise<KitSummaryResponse> {
+    const items = await loadItems(kit.id, undefined, audience);
     const sheet = await PriceSheet.findByPk(kit.ownerId);
 
     // a recipe that has gone is replaced by the part's default published recipe

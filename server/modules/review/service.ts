@@ -8,7 +8,7 @@ import { transact } from '../../db/transaction';
 import { AppError } from '../../errors';
 import { mailTemplates, type MailContent } from '../mail/templates';
 import { notices } from '../notices/service';
-import { isModerator } from '../parts/access';
+import { canSeePart, isModerator } from '../parts/access';
 import { presentPart, type PartDetail } from '../parts/presenter';
 import type { EditRecord } from '../parts/service';
 import { diffParts } from './diff';
@@ -272,8 +272,7 @@ export function createReviewService({ sequelize, mail, publicUrl, onDecided, onP
 
     async history(viewer: User, partId: number) {
       const part = await Part.findByPk(partId);
-      const visible = part && (isModerator(viewer) || part.authorId === viewer.id || part.publishedRevisionId);
-      if (!part || !visible) throw AppError.notFound('There is no part with that id on the shelf.');
+      if (!part || !(await canSeePart(viewer, part))) throw AppError.notFound('There is no part with that id on the shelf.');
       if (!isModerator(viewer) && part.authorId !== viewer.id) {
         throw AppError.forbidden('Only the contributor and moderators can see the review history of a part.');
       }

@@ -18,14 +18,16 @@ import { searchQuerySchema, type SearchQuery } from '@shared/schemas/search';
 import { Part, PartRevision } from '../../db/models';
 import { AppError } from '../../errors';
 import { currentUser } from '../../middleware/auth';
+import { audienceOf, searchVisibility } from '../parts/access';
 import { buildsService } from '../builds/service';
+import type { CrewVisibility } from './searcher';
 
 export const FIT_WINDOW = 300;
 
 const buildParam = z.object({ build: buildIdSchema });
 
 interface Searching {
-  search(query: SearchQuery): SearchResponse | Promise<SearchResponse>;
+  search(query: SearchQuery, visibility?: CrewVisibility): SearchResponse | Promise<SearchResponse>;
 }
 
 /** Key dimensions of the published revisions of the given parts (search results do not carry them). */
@@ -59,10 +61,11 @@ export function buildSearchRoutes(search: Searching) {
     const labels = { body: (slug: string) => bodyLabel.get(slug) ?? slug, mount: (slug: string) => mountStandard(slug)?.label ?? slug };
     if (build.body) bodyLabel.set(build.body.slug, `${build.body.maker} ${build.body.model}`);
 
-    const window = await search.search({ ...query, page: 1, pageSize: FIT_WINDOW });
+    const visibility = searchVisibility(await audienceOf(user));
+    const window = await search.search({ ...query, page: 1, pageSize: FIT_WINDOW }, visibility);
     const start = (query.page - 1) * query.pageSize;
     const beyond = start >= window.results.length && window.total > window.results.length;
-    const pool: SearchResultItem[] = beyond ? (await search.search(query)).results : window.results;
+    const pool: SearchResultItem[] = beyond ? (await search.search(query, visibility)).results : window.results;
     const dims = await keyDimensionsOf(pool.map((r) => r.id));
     const marked: BuildSearchResultItem[] = pool.map((r) => {
       for (const b of r.bodies) if (!bodyLabel.has(b.slug)) bodyLabel.set(b.slug, `${b.maker} ${b.model}`);

@@ -29,7 +29,7 @@ const PUBLISHED = { status: 'published', publishedRevisionId: { [Op.ne]: null } 
 export async function publishedFingerprint(sequelize: Sequelize): Promise<string> {
   const select = <T extends object>(sql: string) => sequelize.query<T>(sql, { type: QueryTypes.SELECT });
   const parts = await select(
-    `SELECT p.id, p.published_revision_id AS rev, p.status, p.published_at AS publishedAt, r.updated_at AS revisionUpdatedAt
+    `SELECT p.id, p.published_revision_id AS rev, p.status, p.published_at AS publishedAt, p.crew_id AS crew, r.updated_at AS revisionUpdatedAt
        FROM parts p JOIN part_revisions r ON r.id = p.published_revision_id
       WHERE p.status = 'published' ORDER BY p.id`,
   );
@@ -118,6 +118,7 @@ export async function loadDocuments(): Promise<SearchDocument[]> {
         publishedAt: (part.publishedAt ?? rev.updatedAt).toISOString(),
         publishedRevisionId: rev.id,
         rating: null,
+        crewId: part.crewId ?? null,
       },
     ];
   });

@@ -8,7 +8,7 @@ import { bodyToken } from '../../../shared/search/bodies';
 import type { FilterableDoc, SizeMm } from '../../../shared/search/filters';
 
 /** Bumped whenever documents, fields or tokens change shape; an index file of another format is rebuilt. */
-export const SEARCH_FORMAT = 2;
+export const SEARCH_FORMAT = 3;
 
 /**
  * Field boosts. A match in the title, the camera bodies or the mounts counts most; the summary,
@@ -56,6 +56,8 @@ export interface SearchDocument extends FilterableDoc {
   publishedAt: string;
   publishedRevisionId: number;
   rating: number | null;
+  /** Published to this crew only; such documents are left out of every search by anyone else. */
+  crewId?: number | null;
 }
 
 /** "KX-8" is also indexed as "kx8", so the model name finds the part however it is typed. */

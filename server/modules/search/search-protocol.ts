@@ -1,6 +1,6 @@
 // What the search service and its worker thread say to each other (search-worker.ts, service.ts).
 import type { SearchQuery } from '../../../shared/schemas/search';
-import type { Rank } from './searcher';
+import type { CrewVisibility, Rank } from './searcher';
 
 export interface DbSettings {
   database: string;
@@ -24,7 +24,7 @@ export type WorkerRequest =
   | { type: 'build'; unless: string | null }
   /** Build from a JSON file of { documents, bodies } (the benchmark's catalogue) and save. */
   | { type: 'build-file'; documentsFile: string; fingerprint: string }
-  | { type: 'search'; id: number; query: SearchQuery }
+  | { type: 'search'; id: number; query: SearchQuery; visibility: CrewVisibility }
   /** Ratings and set-report figures, 6 numbers per part (RANK_FIELDS); NaN stands for null. */
   | { type: 'ranks'; data: Float64Array };
 

@@ -126,7 +126,7 @@ async function handle(message: WorkerRequest): Promise<WorkerReply | null> {
     case 'search':
       try {
         if (!searcher) throw new AppError(503, 'search_starting', 'Search is still starting up. Try again in a few seconds.');
-        return { type: 'answer', id: message.id, ok: true, response: searcher.search(message.query, ranks) };
+        return { type: 'answer', id: message.id, ok: true, response: searcher.search(message.query, ranks, message.visibility) };
       } catch (err) {
         if (err instanceof AppError) return { type: 'answer', id: message.id, ok: false, error: { status: err.status, code: err.code, message: err.message, fields: err.fields } };
         return { type: 'answer', id: message.id, ok: false, error: { status: 500, code: 'search_failed', message: (err as Error).message } };

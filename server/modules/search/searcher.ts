@@ -70,8 +70,22 @@ export interface Rank {
 export type Ranks = ReadonlyMap<number, Rank>;
 const UNRANKED: Rank = { proven: 0, reports: 0, mean: null, count: 0, adjusted: null };
 
+/**
+ * Which crew-only documents a search may see: 'all' for moderators, else the searcher's crews. The
+ * rest are dropped before filters, counts and facets, so nothing about them shows.
+ */
+export interface CrewVisibility {
+  crews: 'all' | readonly number[];
+}
+export const PUBLIC_ONLY: CrewVisibility = { crews: [] };
+
+export function visibleTo(doc: SearchDocument, visibility: CrewVisibility): boolean {
+  if (doc.crewId == null || visibility.crews === 'all') return true;
+  return visibility.crews.includes(doc.crewId);
+}
+
 export interface Searcher {
-  search(query: SearchQuery, ranks?: Ranks): SearchResponse;
+  search(query: SearchQuery, ranks?: Ranks, visibility?: CrewVisibility): SearchResponse;
   readonly size: number;
   readonly documents: readonly SearchDocument[];
 }
@@ -450,6 +464,7 @@ export function createSearcher({ index, documents, bodies = bodiesOf(documents) 
   const postings = compactPostings(index, new Map(documents.map((d, i) => [String(d.id), i])));
   const everything: Match[] = sortNewestFirst(documents).map((doc) => ({ doc, score: 0 }));
   const phrases = new PhraseTable([...BASE_PHRASES, ...bodyPhraseEntries(bodies)]);
+  const hasCrewOnly = documents.some((d) => d.crewId != null);
 
   /** Body filter values (slugs or names) as slugs; an unknown name is a 400 naming the closest bodies. */
   function bodyFilter(values: readonly string[]): string[] {
@@ -465,7 +480,7 @@ export function createSearcher({ index, documents, bodies = bodiesOf(documents) 
   return {
     size: documents.length,
     documents,
-    search(query, ranks) {
+    search(query, ranks, visibility = PUBLIC_ONLY) {
       const filters = { ...query, body: bodyFilter(query.body) };
       const text = readQueryText(query.q, phrases);
       const budget = new Budget();
@@ -476,6 +491,7 @@ export function createSearcher({ index, documents, bodies = bodiesOf(documents) 
         matches = plainMatches(index, text.groups, documents, postings, budget);
         groupTexts = text.groups.map((g) => g.text);
       } else matches = syntaxMatches(index, text.text, query.q ?? '', byRef, budget);
+      if (hasCrewOnly) matches = matches.filter((m) => visibleTo(m.doc, visibility));
       return filterAndPage(matches, filters, { ranked: text.kind !== 'none', groupTexts }, ranks);
     },
   };

@@ -10,7 +10,7 @@ import type { SearchResponse } from '@shared/api/search';
 import type { SearchQuery } from '@shared/schemas/search';
 import { SEARCH_LIMITS } from '@shared/search/query';
 import { AppError } from '../../errors';
-import type { Ranks } from './searcher';
+import { PUBLIC_ONLY, type CrewVisibility, type Ranks } from './searcher';
 import { packRanks, type DbSettings, type SearchWorkerData, type WorkerReply, type WorkerRequest } from './search-protocol';
 
 export interface SearchServiceDeps {
@@ -82,7 +82,7 @@ export class SearchWorker {
     this.worker.postMessage({ type: 'ranks', data } satisfies WorkerRequest, [data.buffer as ArrayBuffer]);
   }
 
-  search(query: SearchQuery, timeoutMs: number): Promise<SearchResponse> {
+  search(query: SearchQuery, timeoutMs: number, visibility: CrewVisibility = PUBLIC_ONLY): Promise<SearchResponse> {
     if (this.exited) return Promise.reject(new AppError(503, 'search_starting', 'Search is restarting. Try again in a few seconds.'));
     const id = this.nextId++;
     return new Promise<Answer>((resolve, reject) => {
@@ -92,7 +92,7 @@ export class SearchWorker {
         this.onStuck(this);
       }, timeoutMs);
       this.answers.set(id, { resolve, reject, timer });
-      this.worker.postMessage({ type: 'search', id, query } satisfies WorkerRequest);
+      this.worker.postMessage({ type: 'search', id, query, visibility } satisfies WorkerRequest);
     }).then((answer) => {
       if (answer.ok) return answer.response as SearchResponse;
       throw new AppError(answer.error.status, answer.error.code, answer.error.message, answer.error.fields);
@@ -321,10 +321,10 @@ export function createSearchService({ sequelize, indexFile, rebuildDelayMs = 250
     },
 
     /** Answered by the worker that holds the current index; the page comes back, nothing else. */
-    search(query: SearchQuery): Promise<SearchResponse> {
+    search(query: SearchQuery, visibility: CrewVisibility = PUBLIC_ONLY): Promise<SearchResponse> {
       const now = current;
       if (!now) return Promise.reject(new AppError(503, 'search_starting', 'Search is still starting up. Try again in a few seconds.'));
-      return now.search(query, queryTimeoutMs);
+      return now.search(query, queryTimeoutMs, visibility);
     },
 
     stats(): SearchStats {

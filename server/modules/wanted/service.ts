@@ -19,7 +19,7 @@ import type { PhotoJobs } from '../files/photo-jobs';
 import { moveAll, randomStoredName, type UploadDirs } from '../files/storage';
 import { mailTemplates } from '../mail/templates';
 import { notices } from '../notices/service';
-import { isModerator } from '../parts/access';
+import { audienceOf, crewAllows, isModerator } from '../parts/access';
 import { pathsOf } from '../parts/part-files';
 import type { MailQueue } from '../review/service';
 
@@ -81,7 +81,7 @@ export function createWantedService({ sequelize, dirs, photos, mail, publicUrl }
     await answer.update({ notifiedAt: new Date() }, { transaction: t });
     if (answer.userId === request.authorId) return;
     const requester = await User.findByPk(request.authorId, { transaction: t });
-    if (!requester) return;
+    if (!requester || !crewAllows(await audienceOf(requester, t), part)) return;
     const answerer = await User.findByPk(answer.userId, { transaction: t });
     const title = await partTitle(part, t);
     await notices.notify(
@@ -202,9 +202,11 @@ export function createWantedService({ sequelize, dirs, photos, mail, publicUrl }
         order: [[{ model: WantedPhoto, as: 'photos' }, 'id', 'ASC'], [{ model: WantedAnswer, as: 'answers' }, 'id', 'ASC']],
       }))!;
       const answers = r.answers ?? [];
+      const audience = await audienceOf(viewer);
       const answerList = [];
       for (const a of answers) {
         const part = a.part!;
+        if (!crewAllows(audience, part)) continue;
         const onShelf = part.publishedRevisionId !== null && part.status === 'published';
         // an answer whose part left the desk unpublished (sent back, rejected) shows to its answerer and moderators only
         if (!onShelf && part.status !== 'in_review' && a.userId !== viewer.id && !isModerator(viewer)) continue;
@@ -239,7 +241,7 @@ export function createWantedService({ sequelize, dirs, photos, mail, publicUrl }
         const part = await Part.findOne({ where, transaction: t });
         const onShelf = !!part && part.publishedRevisionId !== null && part.status === 'published';
         const own = !!part && part.authorId === actor.id;
-        if (!part || (!onShelf && !own && !isModerator(actor))) {
+        if (!part || !crewAllows(await audienceOf(actor, t), part) || (!onShelf && !own && !isModerator(actor))) {
           throw new AppError(422, 'validation_failed', 'Some fields need another look.', { part: 'There is no part with that id or address on the shelf. Link a published part, or one of yours that is in review.' });
         }
         if (!onShelf && part.status !== 'in_review') {
@@ -249,6 +251,14 @@ export function createWantedService({ sequelize, dirs, photos, mail, publicUrl }
         }
         if (!onShelf && !own) {
           throw new AppError(422, 'validation_failed', 'Some fields need another look.', { part: 'A part in review can be linked by its author only. Link a published part instead.' });
+        }
+        if (part.crewId != null) {
+          const requester = await User.findByPk(request.authorId, { transaction: t });
+          if (!requester || !crewAllows(await audienceOf(requester, t), part)) {
+            throw new AppError(422, 'validation_failed', 'Some fields need another look.', {
+              part: 'That part is published to a crew the person who asked is not in, so they could not open it. Link a part published to everyone, or ask them to join the crew.',
+            });
+          }
         }
         let answer: WantedAnswer;
         try {
