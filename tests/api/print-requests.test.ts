@@ -145,6 +145,38 @@ describe('print requests · asking and the price', () => {
     expect(await PrintRequest.count()).toBe(before);
   });
 
+  it('print requests · a whole kit · one request priced per material; the owner reads the items', async () => {
+    const kit = (await asker.post('/api/kits').send({ name: 'Second unit spares' }).expect(201)).body;
+    await asker.post(`/api/kits/${kit.id}/items`).send({ partId: cubePart, quantity: 2 }).expect(201);
+    const res = await asker.post('/api/print-requests').send({ crewId, printerId, kitId: kit.id });
+    expect(res.status, JSON.stringify(res.body)).toBe(201);
+    const r = res.body as PrintRequestDetail;
+    expect(r.kind).toBe('kit');
+    expect(r.title).toBe('Kit: Second unit spares');
+    // 2 solid 20 mm PLA cubes at 1.24 g/cm³ (handbook density, as above): 19.84 g
+    expect(r.estimate.grams).toBeCloseTo(19.8, 1);
+    expect(r.price.lines.filter((l) => l.kind === 'filament').map((l) => l.label)).toEqual(['Filament (PLA)']);
+    expect((await read(r.id, owner)).estimate.notes.join(' ')).toMatch(/Items: 2 × Solid test cube \(PLA\)/);
+  });
+
+  it('print requests · a part published to another crew only · refused, nothing stored', async () => {
+    const other = await Crew.create({ name: 'Splinter unit', production: null, currency: 'GBP', taxRatePct: null, createdBy: outsider.userId });
+    const { Part } = await import('../../server/db/models');
+    await CrewMember.create({ crewId: other.id, userId: asker.userId, role: 'member' });
+    await Part.update({ crewId: other.id }, { where: { id: ncPart } });
+    try {
+      const before = await PrintRequest.count();
+      const res = await asker.post('/api/print-requests').send({ crewId, printerId, partId: ncPart });
+      expect(res.status).toBe(422);
+      expect(res.body.error.fields.crewId).toMatch(/one crew only/);
+      expect(await PrintRequest.count()).toBe(before);
+    } finally {
+      await Part.update({ crewId: null }, { where: { id: ncPart } });
+      await CrewMember.destroy({ where: { crewId: other.id } });
+      await other.destroy();
+    }
+  });
+
   it('print requests · someone else’s request · 404 for an outsider, steps refused by role', async () => {
     const r = await ask();
     await outsider.get(`/api/print-requests/${r.id}`).expect(404);

@@ -23,6 +23,7 @@ import type { PrintRequestInput } from '@shared/schemas/print-requests';
 import {
   Crew,
   CrewMember,
+  Part,
   PartFile,
   PartRevision,
   PaymentEvent,
@@ -214,6 +215,10 @@ export function createPrintRequestsService({ sequelize, mail, publicUrl, plannin
       if (!part || part.status !== 'published' || !part.publishedRevisionId) {
         throw fieldError('partId', 'Only parts on the shelf can be asked for; pick one from the shelf.');
       }
+      // a crew-only part stays inside its crew: the printer's owner must be in it too
+      if (part.crewId && part.crewId !== input.crewId) {
+        throw fieldError('crewId', 'This part is published to one crew only; ask a member of that crew to print it.');
+      }
       const revision = await PartRevision.findByPk(part.publishedRevisionId, { include: [{ model: PartFile, as: 'files', through: { attributes: ['position'] } }] });
       const recipes = await Recipe.findAll({ where: { revisionId: part.publishedRevisionId }, order: [['position', 'ASC']] });
       const recipe = input.recipeId ? recipes.find((x) => x.id === input.recipeId) : (recipes.find((x) => x.purpose === 'set-ready') ?? recipes[0]);
@@ -247,6 +252,10 @@ export function createPrintRequestsService({ sequelize, mail, publicUrl, plannin
       };
     }
     const summary = await planning.summary(viewer, input.kitId!);
+    const itemParts = summary.items.length ? await Part.findAll({ where: { id: { [Op.in]: summary.items.map((i) => i.part.id) } }, attributes: ['id', 'crewId'] }) : [];
+    if (itemParts.some((p) => p.crewId && p.crewId !== input.crewId)) {
+      throw fieldError('crewId', 'This kit holds parts published to another crew only; ask a member of that crew, or take those items out first.');
+    }
     const byMaterial = new Map<string, number>();
     let minutes = 0;
     const notes: string[] = [];
@@ -270,7 +279,11 @@ export function createPrintRequestsService({ sequelize, mail, publicUrl, plannin
       filament,
       grams: filament.reduce((s, f) => s + f.grams, 0),
       minutes,
-      notes: [`Estimated from the kit’s ${summary.items.length} item(s) with each item’s recipe${input.quantity > 1 ? `, ${input.quantity} times over` : ''}.`, ...notes],
+      notes: [
+        `Estimated from the kit’s ${summary.items.length} item(s) with each item’s recipe${input.quantity > 1 ? `, ${input.quantity} times over` : ''}.`,
+        `Items: ${summary.items.map((i) => `${i.quantity * input.quantity} × ${i.title} (${i.material})`).join('; ')}.`,
+        ...notes,
+      ],
     };
   }
 
