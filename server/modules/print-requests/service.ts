@@ -78,7 +78,8 @@ const STEP_WORDS: Record<PrintRequestAction | 'asked' | 'paid' | 'refunded', { t
   refunded: { to: 'requester', subject: 'Your payment was refunded', text: (_a, t) => `What you paid for “${t}” was refunded to you.` },
 };
 
-export function createPrintRequestsService({ sequelize, mail, publicUrl, planning, payments }: PrintRequestsDeps) {
+export function createPrintRequestsService({ sequelize, mail, publicUrl: configuredUrl, planning, payments }: PrintRequestsDeps) {
+  let publicUrl = configuredUrl;
   const link = (id: number) => `/print-requests/${id}`;
 
   async function ownerTerms(ownerId: number, transaction?: Transaction) {
@@ -489,6 +490,11 @@ export function createPrintRequestsService({ sequelize, mail, publicUrl, plannin
       if (refundId === 'duplicate') return { received: true, duplicate: true };
       if (refundId) await settleRefund(refundId);
       return { received: true };
+    },
+
+    /** Links in mails and the payment page's way back start here (set once a free port is known). */
+    useBaseUrl(url: string) {
+      publicUrl = url.replace(/\/+$/, '');
     },
 
     /** At start-up: refunds that were due when the service last stopped. */
