@@ -149,3 +149,17 @@ export function formatMinor(minor: number, currency: string): string {
     return `${decimal} ${currency}`;
   }
 }
+
+/** ISO 4217 currencies the browser knows, named in English: "EUR · Euro". Common ones first. */
+export const CURRENCY_OPTIONS: { value: string; label: string }[] = (() => {
+  const codes = (Intl as unknown as { supportedValuesOf?: (key: string) => string[] }).supportedValuesOf?.('currency') ?? ['EUR', 'GBP', 'USD'];
+  let names: Intl.DisplayNames | null = null;
+  try {
+    names = new Intl.DisplayNames(['en'], { type: 'currency' });
+  } catch {
+    names = null;
+  }
+  const first = ['EUR', 'GBP', 'USD', 'CAD', 'AUD', 'CHF', 'SEK', 'NOK', 'DKK', 'PLN', 'CZK', 'NZD'];
+  const ordered = [...first.filter((c) => codes.includes(c)), ...codes.filter((c) => !first.includes(c))];
+  return ordered.map((code) => ({ value: code, label: `${code} · ${names?.of(code) ?? code}` }));
+})();

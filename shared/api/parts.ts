@@ -1,6 +1,7 @@
 // What the parts and vocabulary endpoints answer, for the client. The server builds these in
 // server/modules/parts/presenter.ts and server/modules/vocab/routes.ts;
 // tests/unit/api-shapes.test.ts checks at compile time that the two stay in step.
+import type { PartVisibilityInfo } from './crews';
 import type { CategorySlug, MountStandard, MountSlug, SafetyFlag, SafetyFlags } from '../catalogue';
 import type { AdaptationRule, LicenceId } from '../licences';
 import type { MaterialInfo } from '../materials';
@@ -125,4 +126,6 @@ export interface PartDetail {
   /** Bounding box of the first model file, mm. */
   sizeMm: [number, number, number] | null;
   lineage: PartLineage;
+  /** Everyone on the shelf, or one crew only (its members and moderators). */
+  visibility: PartVisibilityInfo;
 }

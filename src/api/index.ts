@@ -1,5 +1,7 @@
 // Typed calls to the Rigshelf API, grouped by feature.
 import type { PartCreated, PartDetail, PartHistoryItem, PartList, Vocab } from '@shared/api/parts';
+import type { CrewInfo, CrewInvitationInfo, CrewSummary, InvitationPreview } from '@shared/api/crews';
+import type { CrewInput as CrewFormInput, CrewRole } from '@shared/schemas/crews';
 import type { CrewProfile, Evidence, EvidenceEntryType, FlaggedEntry, FlagResult, HideResult, PartRatings, RatingSaved, ReportFiled, SetReportList } from '@shared/api/evidence';
 import type { RatingInput, SetReportInput } from '@shared/schemas/evidence';
 import type { AdminUserPatch, LoginInput, RegisterInput } from '@shared/schemas/auth';
@@ -15,6 +17,7 @@ import type {
   KitItemInfo,
   KitList,
   KitListItem,
+  KitCrewShareList,
   KitShareList,
   KitSummaryResponse,
   PrinterInfo,
@@ -307,4 +310,25 @@ export const statementApi = {
   get: (kitId: number) => http.get<StatementInfo>(`/api/kits/${kitId}/statement`),
   save: (kitId: number, input: StatementDetailsInput) => http.put<void>(`/api/kits/${kitId}/statement`, input),
   fileUrl: (kitId: number, ext: 'csv' | 'pdf') => `/api/kits/${kitId}/statement.${ext}`,
+};
+
+const crewPath = (id: number) => `/api/crews/${encodeURIComponent(String(id))}`;
+
+/** Crews: the member's crews, their members, invitations and crew roles. */
+export const crewsApi = {
+  list: async (): Promise<CrewSummary[]> => (await http.get<{ items: CrewSummary[] }>('/api/crews')).items,
+  get: (id: number) => http.get<CrewInfo>(crewPath(id)),
+  create: (input: CrewFormInput) => http.post<CrewInfo>('/api/crews', input),
+  update: (id: number, patch: Partial<CrewFormInput>) => http.patch<CrewInfo>(crewPath(id), patch),
+  remove: (id: number) => http.delete<void>(crewPath(id)),
+  invite: (id: number, input: { email: string; role: CrewRole }) => http.post<CrewInvitationInfo>(`${crewPath(id)}/invitations`, input),
+  withdrawInvitation: (id: number, invitationId: number) => http.delete<void>(`${crewPath(id)}/invitations/${invitationId}`),
+  setRole: (id: number, userId: number, role: CrewRole) => http.patch<CrewInfo>(`${crewPath(id)}/members/${userId}`, { role }),
+  /** A lead removes a member; with the viewer's own id, they leave. */
+  removeMember: (id: number, userId: number) => http.delete<void>(`${crewPath(id)}/members/${userId}`),
+  invitation: (token: string) => http.get<InvitationPreview>(`/api/invitations/${encodeURIComponent(token)}`),
+  accept: (token: string) => http.post<CrewInfo>(`/api/invitations/${encodeURIComponent(token)}/accept`),
+  /** Replaces the crews a kit is shared with (kit owner only). */
+  setKitCrewShares: (kitId: number, crewShares: { crewId: number; access: 'read' | 'edit' }[]) =>
+    http.put<KitCrewShareList>(`${kitPath(kitId)}/crew-shares`, { crewShares }),
 };

@@ -46,6 +46,9 @@ export type RouteName =
   | 'wanted-request'
   | 'print-requests'
   | 'print-request'
+  | 'crews'
+  | 'crew'
+  | 'invitation'
   | 'not-found';
 
 const routes: RouteRecordRaw[] = [
@@ -88,6 +91,9 @@ const routes: RouteRecordRaw[] = [
       { path: 'wanted', name: 'wanted', component: () => import('@/views/WantedBoardView.vue'), meta: { auth: true, title: 'Wanted parts' } },
       { path: 'wanted/new', name: 'wanted-new', component: () => import('@/views/WantedNewView.vue'), meta: { auth: true, title: 'Ask the crew for a part' } },
       { path: 'wanted/:id(\\d+)', name: 'wanted-request', component: () => import('@/views/WantedRequestView.vue'), meta: { auth: true, title: 'Wanted part' } },
+      { path: 'crews', name: 'crews', component: () => import('@/views/CrewsView.vue'), meta: { auth: true, title: 'Crews' } },
+      { path: 'crews/:id(\\d+)', name: 'crew', component: () => import('@/views/CrewView.vue'), meta: { auth: true, title: 'Crew' } },
+      { path: 'invitations/:token', name: 'invitation', component: () => import('@/views/InvitationView.vue'), meta: { title: 'Crew invitation' } },
       { path: 'my/parts', name: 'my-parts', component: () => import('@/views/MyPartsView.vue'), meta: { auth: true, title: 'My submissions' } },
       {
         path: 'admin/users',

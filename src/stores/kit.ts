@@ -6,7 +6,7 @@ import { computed, ref } from 'vue';
 import type { KitDetail, KitItemInfo, KitSummaryResponse, PrinterInfo } from '@shared/api/planning';
 import type { KitItemInput, KitItemPatch, KitPatch, KitSharesInput } from '@shared/schemas/planning';
 import type { PartSummary } from '@shared/types';
-import { isApiError, partsApi, planningApi } from '@/api';
+import { crewsApi, isApiError, partsApi, planningApi } from '@/api';
 
 export const useKitStore = defineStore('kit', () => {
   const kit = ref<KitDetail | null>(null);
@@ -121,6 +121,11 @@ export const useKitStore = defineStore('kit', () => {
     kit.value!.shares = shares;
   }
 
+  async function setCrewShares(crewShares: { crewId: number; access: 'read' | 'edit' }[]) {
+    const saved = await crewsApi.setKitCrewShares(kit.value!.id, crewShares);
+    kit.value!.crewShares = saved.crewShares;
+  }
+
   async function remove() {
     await planningApi.deleteKit(kit.value!.id);
     kit.value = null;
@@ -131,6 +136,6 @@ export const useKitStore = defineStore('kit', () => {
     kit, summary, ownPrinters, shelf, loading, missing, summaryLoading, summaryFailed,
     access, isOwner, canEdit, printerChoices,
     itemSummary, shelfPart,
-    open, refreshSummary, save, addItem, updateItem, removeItem, setShares, remove,
+    open, refreshSummary, save, addItem, updateItem, removeItem, setShares, setCrewShares, remove,
   };
 });

@@ -33,7 +33,7 @@ const STEP_FIELDS: Record<StepKey, readonly string[]> = {
   files: ['model', 'photo', 'source', 'drawnInInches'],
   fit: ['bodies', 'mounts', 'keyDimensions'],
   recipes: ['recipes'],
-  licence: ['licence', 'safety', 'testedLoadKg', 'parentId'],
+  licence: ['licence', 'safety', 'testedLoadKg', 'parentId', 'visibility'],
   review: [],
 };
 
@@ -165,6 +165,8 @@ export const usePartDraftStore = defineStore('partDraft', () => {
   const licence = ref<LicenceId | null>(null);
   const safety = reactive<SafetyFlags>(blankSafety());
   const testedLoadKg = ref<number | null>(null);
+  /** Published to this crew only, or null for everyone on the shelf. */
+  const crewId = ref<number | null>(null);
 
   /** Editing: the fields as loaded, to tell whether anything changed. */
   const baseline = ref('');
@@ -196,6 +198,7 @@ export const usePartDraftStore = defineStore('partDraft', () => {
     licence.value = null;
     Object.assign(safety, blankSafety());
     testedLoadKg.value = null;
+    crewId.value = null;
     baseline.value = '';
     errors.value = {};
     checked.value = [];
@@ -243,6 +246,7 @@ export const usePartDraftStore = defineStore('partDraft', () => {
     editing.value = part;
     fillFrom(part);
     licence.value = isLicenceId(part.licence.id) ? part.licence.id : null;
+    crewId.value = part.visibility === 'everyone' ? null : part.visibility.crewId;
     existing.value = part.files.map((info) => ({ info, remove: false }));
     baseline.value = JSON.stringify(fields());
   }
@@ -368,6 +372,7 @@ export const usePartDraftStore = defineStore('partDraft', () => {
       testedLoadKg: safety.carriesLoad ? testedLoadKg.value : null,
       licence: licence.value ?? undefined,
       recipes: recipes.value.map(recipeInput),
+      visibility: crewId.value === null ? ('everyone' as const) : { crewId: crewId.value },
     };
   }
 
@@ -489,7 +494,7 @@ export const usePartDraftStore = defineStore('partDraft', () => {
     files, existing, drawnInInches, modelFiles, photoFiles, sourceFiles, keptModels,
     bodies, mounts, keyDimensions,
     recipes,
-    licence, safety, testedLoadKg,
+    licence, safety, testedLoadKg, crewId,
     errors, checked, changed,
     reset, startAdapt, startEdit, setParent,
     addFiles, removeFile, makeCover, setDrawnInInches, filesSaved, fileRemoved,

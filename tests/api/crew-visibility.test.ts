@@ -24,8 +24,8 @@ async function inviteLink(email: string): Promise<string> {
 }
 
 // words no other part uses, so a leak shows as text anywhere in an answer
-const SECRET_TITLE = 'Quillfeather bracket for the Varrow rig';
-const SECRET_WORD = 'quillfeather';
+const SECRET_TITLE = 'Zephyrwick bracket for the Varrow rig';
+const SECRET_WORD = 'zephyrwick';
 
 let lead: Agent;
 let author: Agent;
@@ -87,9 +87,9 @@ beforeAll(async () => {
 
   const made = await author
     .post('/api/parts')
-    .field('data', JSON.stringify(submission({ title: SECRET_TITLE, summary: 'Holds the quillfeather receiver on the Varrow rig rods.', visibility: { crewId } })))
-    .attach('model', boxStl(40, 30, 12), 'quillfeather.stl')
-    .attach('photo', await plainPng(), 'quillfeather.png');
+    .field('data', JSON.stringify(submission({ title: SECRET_TITLE, summary: 'Holds the zephyrwick receiver on the Varrow rig rods.', visibility: { crewId } })))
+    .attach('model', boxStl(40, 30, 12), 'zephyrwick.stl')
+    .attach('photo', await plainPng(), 'zephyrwick.png');
   expect(made.status).toBe(201);
   // crew-only parts still pass the review desk
   expect((await moderator.get('/api/review/queue').expect(200)).body.items.map((i: { partId?: number; id?: number }) => i.partId ?? i.id)).toContain(made.body.id);
@@ -112,7 +112,7 @@ beforeAll(async () => {
   await moderator.post(`/api/review/${publicId}/approve`).send({}).expect(200);
 
   // a crew adaptation's parent stays hidden from outsiders; evidence on the crew part
-  await crewMate.post(`/api/parts/${secret.id}/ratings`).send({ stars: 5, comment: 'The quillfeather holds.' }).expect((r) => expect(r.status).toBeLessThan(300));
+  await crewMate.post(`/api/parts/${secret.id}/ratings`).send({ stars: 5, comment: 'The zephyrwick holds.' }).expect((r) => expect(r.status).toBeLessThan(300));
 
   // a kit with both parts, shared with the outsider by hand and with the crew as a whole
   kitId = (await author.post('/api/kits').send({ name: 'Varrow prep', production: 'Varrow' }).expect(201)).body.id;

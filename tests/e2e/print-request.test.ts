@@ -2,11 +2,12 @@ import type { Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { Part, PartRevision } from '../../server/db/models';
 import { DEMO_ACCOUNTS, DEMO_PASSWORD } from '../../server/db/seeders/0001-demo-crew';
+import { DEMO_SECOND_MEMBER } from '../../server/db/seeders/0017-demo-crew-shelf';
 import { forgetSession, signInThroughForm, startBrowserRig, type BrowserRig } from '../helpers/browser';
 
 let rig: BrowserRig;
-// two demo members of one crew: the key grip asks, the 1st AC owns the printers
-const asker = DEMO_ACCOUNTS.find((a) => a.role === 'moderator')!;
+// two demo members of one crew: the 2nd AC asks, the 1st AC owns the printers
+const asker = DEMO_SECOND_MEMBER;
 const owner = DEMO_ACCOUNTS.find((a) => a.role === 'member')!;
 
 beforeAll(async () => {
@@ -32,7 +33,7 @@ describe('browser · print request', () => {
     const revision = (await PartRevision.findOne({ where: { title: 'Snap-on cable clip for 15 mm rods', status: 'published' } }))!;
     const part = (await Part.findByPk(revision.partId))!;
 
-    // the key grip asks from the part page
+    // the 2nd AC asks from the part page
     await signInAs(page, asker.email);
     await page.goto(`/parts/${part.slug}`);
     await page.locator('[data-test="ask-print"]').click();
@@ -59,7 +60,7 @@ describe('browser · print request', () => {
     await page.setViewportSize({ width: 390, height: 844 });
     await rig.screenshot('print-request-2-handed-over-390');
 
-    // the key grip pays back on the payments page (the local fake) and comes back paid
+    // the 2nd AC pays back on the payments page (the local fake) and comes back paid
     await signInAs(page, asker.email);
     await page.goto(requestPath);
     await page.locator('[data-test="request-pay"]').click();

@@ -1,16 +1,14 @@
-// The demo crew's print requests: the key grip asks the 1st AC (who has the cart printer) for parts.
+// The demo crew's print requests: the 2nd AC asks the 1st AC (who has the cart printer) for parts.
 // One waits for an answer, one is accepted and owed, one is handed over and still owed. None is paid:
 // payments happen only through the payments service's webhook (try it on the local fake).
 import type { MigrationFn } from '../migrator';
 import { Crew, CrewMember, Part, PartRevision, PrintRequest, Printer, User } from '../models';
 import { DEMO_ACCOUNTS } from './0001-demo-crew';
+import { DEMO_SECOND_MEMBER } from './0017-demo-crew-shelf';
 
-const CREW_NAME = 'Halfmoon Unit camera & grip';
-
-async function demoUser(role: 'member' | 'moderator'): Promise<User> {
-  const account = DEMO_ACCOUNTS.find((a) => a.role === role)!;
-  const user = await User.findOne({ where: { email: account.email } });
-  if (!user) throw new Error(`the demo print-request seeder needs the demo ${role} (seeder 0001)`);
+async function demoUser(email: string): Promise<User> {
+  const user = await User.findOne({ where: { email } });
+  if (!user) throw new Error(`the demo print-request seeder needs the demo account ${email} (seeders 0001 and 0017)`);
   return user;
 }
 
@@ -21,23 +19,19 @@ async function shelfPartId(title: string): Promise<number> {
   return part.id;
 }
 
-/** A crew both demo members are in (the crews seeder's, when it made one), else one of our own. */
+/** The demo crew both are in (seeder 0017). */
 async function sharedCrew(a: User, b: User): Promise<Crew> {
   const ofA = (await CrewMember.findAll({ where: { userId: a.id } })).map((m) => m.crewId);
   const both = (await CrewMember.findAll({ where: { userId: b.id } })).map((m) => m.crewId).filter((id) => ofA.includes(id));
-  if (both.length) return (await Crew.findByPk(Math.min(...both)))!;
-  const crew = await Crew.create({ name: CREW_NAME, production: 'The Salt Road', currency: 'EUR', taxRatePct: 19, createdBy: a.id });
-  for (const [user, role] of [[a, 'lead'], [b, 'member']] as const) {
-    if (!(await CrewMember.findOne({ where: { crewId: crew.id, userId: user.id } }))) await CrewMember.create({ crewId: crew.id, userId: user.id, role });
-  }
-  return crew;
+  if (!both.length) throw new Error('the demo print-request seeder needs the demo crew with both 1st and 2nd AC (seeder 0017)');
+  return (await Crew.findByPk(Math.min(...both)))!;
 }
 
 export const up: MigrationFn = async ({ context: { services } }) => {
   const printRequests = services?.printRequests;
   if (!printRequests) throw new Error('the demo print-request seeder needs the print-request service');
-  const owner = await demoUser('member');
-  const asker = await demoUser('moderator');
+  const owner = await demoUser(DEMO_ACCOUNTS.find((a) => a.role === 'member')!.email);
+  const asker = await demoUser(DEMO_SECOND_MEMBER.email);
   if (await PrintRequest.findOne({ where: { requesterId: asker.id, ownerId: owner.id } })) return;
   const crew = await sharedCrew(owner, asker);
   const cart = await Printer.findOne({ where: { ownerId: owner.id, name: 'Cart printer' } });

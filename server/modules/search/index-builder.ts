@@ -8,7 +8,7 @@ import { bodyToken } from '../../../shared/search/bodies';
 import type { FilterableDoc, SizeMm } from '../../../shared/search/filters';
 
 /** Bumped whenever documents, fields or tokens change shape; an index file of another format is rebuilt. */
-export const SEARCH_FORMAT = 3;
+export const SEARCH_FORMAT = 2;
 
 /**
  * Field boosts. A match in the title, the camera bodies or the mounts counts most; the summary,
