@@ -98,11 +98,15 @@ const schema = z
     if (!payFake && env.PAYMENTS_API_PORT === 0) {
       ctx.addIssue({ code: 'custom', path: ['PAYMENTS_API_PORT'], message: 'give the port of the payments API (0 only works with PAYMENTS_FAKE=1)' });
     }
-    if (!payFake && env.PAYMENTS_SECRET_KEY === 'sk_test_rigshelf_local_fake') {
-      ctx.addIssue({ code: 'custom', path: ['PAYMENTS_SECRET_KEY'], message: 'set the payments service’s secret key, or PAYMENTS_FAKE=1 to use the local fake' });
-    }
-    if (!payFake && env.PAYMENTS_WEBHOOK_SECRET === 'whsec_rigshelf_local_fake') {
-      ctx.addIssue({ code: 'custom', path: ['PAYMENTS_WEBHOOK_SECRET'], message: 'set the webhook signing secret the payments service shows for this endpoint' });
+    // without the fake, one real key without the other is a mistake; neither means paying back is off
+    const realKey = env.PAYMENTS_SECRET_KEY !== 'sk_test_rigshelf_local_fake';
+    const realSecret = env.PAYMENTS_WEBHOOK_SECRET !== 'whsec_rigshelf_local_fake';
+    if (!payFake && realKey !== realSecret) {
+      ctx.addIssue({
+        code: 'custom',
+        path: [realKey ? 'PAYMENTS_WEBHOOK_SECRET' : 'PAYMENTS_SECRET_KEY'],
+        message: 'set both PAYMENTS_SECRET_KEY and PAYMENTS_WEBHOOK_SECRET for the real payments service (or neither, and paying back is off)',
+      });
     }
     if (!fake && env.SMTP_PORT === 0) {
       ctx.addIssue({ code: 'custom', path: ['SMTP_PORT'], message: 'give the port of the SMTP server (0 only works with SMTP_FAKE=1)' });
@@ -128,6 +132,8 @@ export type Config = Readonly<
     /** Run the local payments fake and point the SDK at it: on by default, off in production unless PAYMENTS_FAKE=1. */
     PAYMENTS_FAKE: boolean;
     PAYMENTS_WEBHOOK_URL: string;
+    /** The fake, or real keys: otherwise checkout answers 503 and every webhook 400. */
+    paymentsConfigured: boolean;
   }
 >;
 
@@ -154,6 +160,7 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): Config {
     SMTP_FAKE: c.SMTP_FAKE ?? !isProduction,
     PUBLIC_URL: (c.PUBLIC_URL ?? `http://127.0.0.1:${c.PORT}`).replace(/\/+$/, ''),
     PAYMENTS_FAKE: c.PAYMENTS_FAKE ?? !isProduction,
+    paymentsConfigured: (c.PAYMENTS_FAKE ?? !isProduction) || c.PAYMENTS_SECRET_KEY !== 'sk_test_rigshelf_local_fake',
     PAYMENTS_WEBHOOK_URL: c.PAYMENTS_WEBHOOK_URL ?? `${(c.PUBLIC_URL ?? `http://127.0.0.1:${c.PORT}`).replace(/\/+$/, '')}/api/payments/webhook`,
   });
 }

@@ -324,6 +324,21 @@ describe('print requests · paying back through the SDK and the local fake', () 
     expect(fake.refunds.at(-1)).toMatchObject({ amount: r.price.totalMinor });
   });
 
+  it('paying back · paid twice through two checkouts · the second payment is refunded, the first stays', async () => {
+    const r = await ask({ quantity: 1 });
+    await owner.post(`/api/print-requests/${r.id}/accept`).send({}).expect(200);
+    const first = await asker.post(`/api/print-requests/${r.id}/checkout`).send({}).expect(200);
+    const second = await asker.post(`/api/print-requests/${r.id}/checkout`).send({}).expect(200);
+    expect((await fake.pay(sessionOf(first.body.url))).answered).toBe(200);
+    const refunds = fake.refunds.length;
+    expect((await fake.pay(sessionOf(second.body.url))).answered).toBe(200);
+    const after = await read(r.id);
+    expect(after.payment).toMatchObject({ status: 'paid', paidMinor: r.price.totalMinor });
+    expect(fake.refunds.length).toBe(refunds + 1);
+    expect(fake.refunds.at(-1)).toMatchObject({ payment_intent: fake.sessions.get(sessionOf(second.body.url))!.payment_intent, amount: r.price.totalMinor });
+    expect(after.history.at(-1)!.action).toBe('refunded-extra');
+  });
+
   it('paying back · totals · owners see owed and paid, requesters what they paid', async () => {
     const paid = await acceptedAndPaid();
     const list = (await owner.get('/api/print-requests').expect(200)).body as PrintRequestList;

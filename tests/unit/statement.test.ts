@@ -56,10 +56,15 @@ describe('config · payments', () => {
     expect(c.PAYMENTS_FAKE).toBe(true);
     expect(c.PAYMENTS_WEBHOOK_URL).toBe('http://127.0.0.1:4000/api/payments/webhook');
   });
-  it('config · the fake on a public host, or production without real keys · refused with the variable named', () => {
+  it('config · the fake on a public host, or one real key without the other · refused with the variable named', () => {
     expect(() => loadConfig({ ...base, PAYMENTS_API_HOST: 'pay.example.org' })).toThrow(/PAYMENTS_API_HOST/);
-    expect(() => loadConfig({ ...base, NODE_ENV: 'production' })).toThrow(/PAYMENTS_SECRET_KEY[\s\S]*PAYMENTS_WEBHOOK_SECRET/);
+    expect(() => loadConfig({ ...base, NODE_ENV: 'production', PAYMENTS_SECRET_KEY: 'sk_live_something' })).toThrow(/PAYMENTS_WEBHOOK_SECRET/);
     const real = loadConfig({ ...base, NODE_ENV: 'production', PAYMENTS_SECRET_KEY: 'sk_live_something', PAYMENTS_WEBHOOK_SECRET: 'whsec_something' });
-    expect(real.PAYMENTS_FAKE).toBe(false);
+    expect(real).toMatchObject({ PAYMENTS_FAKE: false, paymentsConfigured: true });
+  });
+
+  it('config · production with no payment keys · starts, with paying back off', () => {
+    const c = loadConfig({ ...base, NODE_ENV: 'production' });
+    expect(c).toMatchObject({ PAYMENTS_FAKE: false, paymentsConfigured: false });
   });
 });

@@ -54,6 +54,8 @@ export function createPayments(config: Config): Payments {
     return client;
   }
   const verifier = new Stripe(config.PAYMENTS_SECRET_KEY);
+  const notSetUp = () => new AppError(503, 'payments_not_configured', 'Paying back is not set up on this Rigshelf yet; settle it with the printer’s owner directly for now.');
+  if (!config.paymentsConfigured) console.warn('rigshelf: warning: PAYMENTS_SECRET_KEY and PAYMENTS_WEBHOOK_SECRET are not set, so paying back is off');
 
   function unavailable(err: unknown): AppError {
     console.error(`rigshelf: payments service: ${err instanceof Error ? err.message : String(err)}`);
@@ -64,6 +66,7 @@ export function createPayments(config: Config): Payments {
     fake: () => fakeReady.catch(() => null),
 
     async createCheckout(input) {
+      if (!config.paymentsConfigured) throw notSetUp();
       const stripe = await sdk().catch((err) => Promise.reject(unavailable(err)));
       try {
         const session = await stripe.checkout.sessions.create({
@@ -81,6 +84,7 @@ export function createPayments(config: Config): Payments {
     },
 
     async refund(paymentRef, idempotencyKey) {
+      if (!config.paymentsConfigured) throw notSetUp();
       const stripe = await sdk();
       const refund = await stripe.refunds.create({ payment_intent: paymentRef }, { idempotencyKey });
       return { id: refund.id, status: refund.status };
@@ -88,6 +92,7 @@ export function createPayments(config: Config): Payments {
 
     verify(rawBody, signature) {
       if (!signature) throw new Error('No signature header.');
+      if (!config.paymentsConfigured) throw new Error('Payments are not set up.');
       return verifier.webhooks.constructEvent(rawBody, signature, config.PAYMENTS_WEBHOOK_SECRET);
     },
 

@@ -210,6 +210,23 @@ export function createPrintRequestsService({ sequelize, mail, publicUrl: configu
     });
   }
 
+  /** A second payment for a request already paid is refunded in full (the key holds across retries). */
+  async function refundExtra(x: { requestId: number; paymentRef: string; amountMinor: number }) {
+    try {
+      const refund = await payments.refund(x.paymentRef, `rigshelf-refund-extra-${x.paymentRef}`);
+      await transact(sequelize, async (t) => {
+        const r = await PrintRequest.findByPk(x.requestId, { transaction: t });
+        if (!r) return;
+        await PrintRequestEvent.create(
+          { requestId: r.id, actorId: null, action: 'refunded-extra', fromStatus: r.status, toStatus: r.status, details: { refund: refund.id, amountMinor: x.amountMinor, currency: r.currency } },
+          { transaction: t },
+        );
+      });
+    } catch (err) {
+      console.error(`rigshelf: refund of a second payment for print request ${x.requestId} failed: ${(err as Error).message}`);
+    }
+  }
+
   async function estimateFor(viewer: User, input: PrintRequestInput) {
     if (input.partId !== undefined) {
       const part = await findVisiblePart(viewer, input.partId).catch(() => null);
@@ -452,6 +469,7 @@ export function createPrintRequestsService({ sequelize, mail, publicUrl: configu
         throw new AppError(400, 'bad_signature', 'The webhook signature does not verify; nothing was changed.');
       }
       let refundId: number | null | 'duplicate' = null;
+      let extra: { requestId: number; paymentRef: string; amountMinor: number } | null = null;
       try {
         refundId = await transact(sequelize, async (t) => {
           if (await PaymentEvent.findByPk(event.id, { transaction: t })) return 'duplicate' as const;
@@ -468,6 +486,8 @@ export function createPrintRequestsService({ sequelize, mail, publicUrl: configu
             else if (r.priceMinor === null || s.amount_total !== r.priceMinor || s.currency?.toUpperCase() !== r.currency) taken.outcome = 'amount_mismatch';
             else if (r.paymentStatus === 'paid' || r.paymentStatus === 'refund_due' || r.paymentStatus === 'refunded') {
               taken.outcome = r.paymentRef === paymentRef ? 'already_paid' : 'second_payment';
+              // paid twice through two checkouts: the later payment goes back
+              if (taken.outcome === 'second_payment') extra = { requestId: r.id, paymentRef, amountMinor: s.amount_total ?? 0 };
             } else {
               const from = r.status;
               const settled = refundDue(r.status, 'paid') ? ('refund_due' as const) : ('paid' as const);
@@ -489,6 +509,7 @@ export function createPrintRequestsService({ sequelize, mail, publicUrl: configu
       }
       if (refundId === 'duplicate') return { received: true, duplicate: true };
       if (refundId) await settleRefund(refundId);
+      if (extra) await refundExtra(extra);
       return { received: true };
     },
 
