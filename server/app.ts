@@ -44,6 +44,10 @@ import { buildRoutes } from './modules/builds/routes';
 import { calibrationRoutes, madeKitRoutes, makeRoutes } from './modules/make/routes';
 import { createMakeService } from './modules/make/service';
 import { wantedRoutes } from './modules/wanted/routes';
+import { createPayments } from './modules/payments/client';
+import { paymentWebhookRoutes, printRequestRoutes } from './modules/print-requests/routes';
+import { createPrintRequestsService } from './modules/print-requests/service';
+import { statementRoutes } from './modules/planning/statement-routes';
 import { createWantedService } from './modules/wanted/service';
 import { crewRoutes, invitationRoutes } from './modules/crews/routes';
 import { createCrewsService } from './modules/crews/service';
@@ -77,6 +81,8 @@ export function createApp({ config, sequelize, mailer }: AppContext) {
   const database = createDatabaseWatch(sequelize);
   app.use('/api/health', healthRoutes(sequelize, { check: database.check }));
   app.use('/api', database.gate());
+  // raw bytes for the signature check, no session or CSRF: the payments service calls it
+  app.use('/api/payments/webhook', paymentWebhookRoutes(() => printRequests));
   app.use(express.json({ limit: '1mb' }));
 
   const SequelizeStore = connectSessionSequelize(session.Store);
@@ -138,6 +144,8 @@ export function createApp({ config, sequelize, mailer }: AppContext) {
   const slicer = new SliceQueue();
   const planning = createPlanningService({ sequelize, evidence, dirs, slicer });
   const make = createMakeService();
+  const payments = createPayments(config);
+  const printRequests = createPrintRequestsService({ sequelize, mail: mailer, publicUrl: config.PUBLIC_URL, planning, payments });
 
   const tokens = createTokenService({ config, mailer });
   const auth = createAuthService(config, tokens);
@@ -181,7 +189,9 @@ export function createApp({ config, sequelize, mailer }: AppContext) {
   app.use('/api/printers', printerRoutes(planning));
   app.use('/api/me/prices', priceRoutes(planning));
   app.use('/api/kits', madeKitRoutes(make, sequelize));
+  app.use('/api/kits', statementRoutes(planning));
   app.use('/api/kits', kitRoutes(planning));
+  app.use('/api/print-requests', printRequestRoutes(printRequests));
   app.use('/api/crews', crewRoutes(crews));
   app.use('/api/invitations', invitationRoutes(crews));
   app.use('/api', apiNotFound());
@@ -197,7 +207,7 @@ export function createApp({ config, sequelize, mailer }: AppContext) {
 
   return {
     app,
-    services: { parts, review, evidence, dirs, search, wanted, crews },
+    services: { parts, review, evidence, dirs, search, wanted, crews, printRequests, payments },
     /** Waits for photo work in hand, then stops the worker pools and the session store's expiry sweep. */
     async close() {
       await parts.photosSettled();
@@ -206,6 +216,7 @@ export function createApp({ config, sequelize, mailer }: AppContext) {
       await search.close();
       await slicer.close();
       await make.close();
+      await payments.close();
       (store as unknown as { stopExpiringSessions(): void }).stopExpiringSessions();
     },
   };

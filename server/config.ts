@@ -61,6 +61,19 @@ const schema = z
     SMTP_FAKE: flag.optional(),
     /** Where people open the app; links in mails start with it. Defaults to http://127.0.0.1:PORT. */
     PUBLIC_URL: z.url({ protocol: /^https?$/, error: 'use an http(s) address like https://shelf.example.org' }).optional(),
+    /** Start the local payments fake and point the SDK at it: on by default, off in production. */
+    PAYMENTS_FAKE: flag.optional(),
+    /** The payments service's secret API key (the fake accepts only this one). */
+    PAYMENTS_SECRET_KEY: z.string().min(8, 'PAYMENTS_SECRET_KEY looks too short').default('sk_test_rigshelf_local_fake'),
+    /** The secret webhook signatures are checked with (the fake signs with it). */
+    PAYMENTS_WEBHOOK_SECRET: z.string().min(8, 'PAYMENTS_WEBHOOK_SECRET looks too short').default('whsec_rigshelf_local_fake'),
+    /** Where the SDK sends API calls; unset with real keys means the service's own address. */
+    PAYMENTS_API_HOST: z.string().min(1).optional(),
+    /** 0 picks a free port (only with PAYMENTS_FAKE). */
+    PAYMENTS_API_PORT: z.coerce.number().int().min(0).max(65535).optional(),
+    PAYMENTS_API_PROTOCOL: z.enum(['http', 'https']).optional(),
+    /** Where the fake delivers its webhook events; defaults to PUBLIC_URL/api/payments/webhook. */
+    PAYMENTS_WEBHOOK_URL: z.url({ protocol: /^https?$/ }).optional(),
   })
   .superRefine((env, ctx) => {
     if (env.NODE_ENV === 'production' && env.SESSION_SECRET.length < 32) {
@@ -74,6 +87,27 @@ const schema = z
         message: 'the local fake SMTP server listens on loopback only; use 127.0.0.1, or set SMTP_FAKE=0 to send through a real host',
       });
     }
+    const payFake = env.PAYMENTS_FAKE ?? env.NODE_ENV !== 'production';
+    if (payFake && env.PAYMENTS_API_HOST && !isLoopbackHost(env.PAYMENTS_API_HOST)) {
+      ctx.addIssue({
+        code: 'custom',
+        path: ['PAYMENTS_API_HOST'],
+        message: 'the local payments fake listens on loopback only; use 127.0.0.1, or set PAYMENTS_FAKE=0 to talk to the real service',
+      });
+    }
+    if (!payFake && env.PAYMENTS_API_PORT === 0) {
+      ctx.addIssue({ code: 'custom', path: ['PAYMENTS_API_PORT'], message: 'give the port of the payments API (0 only works with PAYMENTS_FAKE=1)' });
+    }
+    // without the fake, one real key without the other is a mistake; neither means paying back is off
+    const realKey = env.PAYMENTS_SECRET_KEY !== 'sk_test_rigshelf_local_fake';
+    const realSecret = env.PAYMENTS_WEBHOOK_SECRET !== 'whsec_rigshelf_local_fake';
+    if (!payFake && realKey !== realSecret) {
+      ctx.addIssue({
+        code: 'custom',
+        path: [realKey ? 'PAYMENTS_WEBHOOK_SECRET' : 'PAYMENTS_SECRET_KEY'],
+        message: 'set both PAYMENTS_SECRET_KEY and PAYMENTS_WEBHOOK_SECRET for the real payments service (or neither, and paying back is off)',
+      });
+    }
     if (!fake && env.SMTP_PORT === 0) {
       ctx.addIssue({ code: 'custom', path: ['SMTP_PORT'], message: 'give the port of the SMTP server (0 only works with SMTP_FAKE=1)' });
     }
@@ -84,7 +118,7 @@ export function isLoopbackHost(host: string): boolean {
 }
 
 export type Config = Readonly<
-  Omit<z.output<typeof schema>, 'SMTP_FAKE' | 'PUBLIC_URL' | 'TRUST_PROXY'> & {
+  Omit<z.output<typeof schema>, 'SMTP_FAKE' | 'PUBLIC_URL' | 'TRUST_PROXY' | 'PAYMENTS_FAKE' | 'PAYMENTS_WEBHOOK_URL'> & {
     TRUST_PROXY: boolean;
     /** Things worth saying at start-up that do not stop it (e.g. production without TRUST_PROXY). */
     warnings: string[];
@@ -95,6 +129,11 @@ export type Config = Readonly<
     SMTP_FAKE: boolean;
     /** Where people open the app, without a trailing slash (default http://127.0.0.1:PORT). */
     PUBLIC_URL: string;
+    /** Run the local payments fake and point the SDK at it: on by default, off in production unless PAYMENTS_FAKE=1. */
+    PAYMENTS_FAKE: boolean;
+    PAYMENTS_WEBHOOK_URL: string;
+    /** The fake, or real keys: otherwise checkout answers 503 and every webhook 400. */
+    paymentsConfigured: boolean;
   }
 >;
 
@@ -120,5 +159,8 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): Config {
     seedDemo: c.RIGSHELF_DEMO ?? !isProduction,
     SMTP_FAKE: c.SMTP_FAKE ?? !isProduction,
     PUBLIC_URL: (c.PUBLIC_URL ?? `http://127.0.0.1:${c.PORT}`).replace(/\/+$/, ''),
+    PAYMENTS_FAKE: c.PAYMENTS_FAKE ?? !isProduction,
+    paymentsConfigured: (c.PAYMENTS_FAKE ?? !isProduction) || c.PAYMENTS_SECRET_KEY !== 'sk_test_rigshelf_local_fake',
+    PAYMENTS_WEBHOOK_URL: c.PAYMENTS_WEBHOOK_URL ?? `${(c.PUBLIC_URL ?? `http://127.0.0.1:${c.PORT}`).replace(/\/+$/, '')}/api/payments/webhook`,
   });
 }

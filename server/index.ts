@@ -42,6 +42,8 @@ export async function startServer(config: Config): Promise<RunningServer> {
     console.log(`rigshelf: local fake SMTP server on ${mailer.fake.host}:${mailer.fake.port} (admins read it at /api/dev/mailbox)`);
   }
   const built = createApp({ config, sequelize, mailer });
+  const payFake = await built.services.payments.fake();
+  if (payFake) console.log(`rigshelf: local payments fake on ${payFake.url} (the SDK talks to it; webhooks go to ${config.PAYMENTS_WEBHOOK_URL})`);
   const recovered = await built.services.parts.recover();
   if (recovered.removed || recovered.resumed) {
     console.log(`rigshelf: upload sweep removed ${recovered.removed} orphaned file(s), resumed ${recovered.resumed} photo(s)`);
@@ -65,10 +67,15 @@ export async function startServer(config: Config): Promise<RunningServer> {
     throw err;
   }
   mailer.start();
+  // refunds that were due when the server last stopped (after listen: the fake's webhook needs us up)
+  void built.services.printRequests.resumeRefunds().then((n) => n && console.log(`rigshelf: ${n} due refund(s) retried`));
   const lag = config.LOOP_LAG_LOG_S ? logLoopLag(config.LOOP_LAG_LOG_S) : null;
   const address = server.address();
   const port = typeof address === 'object' && address ? address.port : config.PORT;
   const url = `http://${config.HOST}:${port}`;
+  // on a free port (PORT=0) the default public address is only known now
+  if (config.PUBLIC_URL.endsWith(':0')) built.services.printRequests.useBaseUrl(url);
+  if (payFake && config.PAYMENTS_WEBHOOK_URL.includes(':0/')) payFake.webhookUrl = `${url}/api/payments/webhook`;
 
   const shutdownTimeoutMs = config.SHUTDOWN_TIMEOUT_S * 1000;
 

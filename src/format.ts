@@ -1,4 +1,5 @@
 // How the client writes numbers, sizes and statuses. Lengths are millimetres first, inches after.
+import { minorToDecimal } from '@shared/print-price';
 import type { PartStatus, RevisionStatus } from '@shared/types';
 import { mmToInches } from '@shared/units';
 
@@ -137,6 +138,16 @@ export function formatShootDays(startsOn: string | null, endsOn: string | null):
 export function daysUntil(day: string, today = new Date()): number {
   const start = new Date(today.getFullYear(), today.getMonth(), today.getDate());
   return Math.round((parseDay(day).getTime() - start.getTime()) / 86_400_000);
+}
+
+/** An amount in minor units (cents) of an ISO 4217 currency, e.g. 1250 EUR → "€12.50". */
+export function formatMinor(minor: number, currency: string): string {
+  const decimal = minorToDecimal(minor, currency);
+  try {
+    return new Intl.NumberFormat('en-GB', { style: 'currency', currency }).format(Number(decimal));
+  } catch {
+    return `${decimal} ${currency}`;
+  }
 }
 
 /** ISO 4217 currencies the browser knows, named in English: "EUR · Euro". Common ones first. */

@@ -8,6 +8,7 @@ import type { UploadDirs } from '../modules/files/storage';
 import type { EvidenceService } from '../modules/evidence/service';
 import type { PartsService } from '../modules/parts/service';
 import type { ReviewService } from '../modules/review/service';
+import type { PrintRequestsService } from '../modules/print-requests/service';
 
 export interface MigrationContext {
   queryInterface: QueryInterface;
@@ -21,6 +22,7 @@ export interface SeedServices {
   review: ReviewService;
   evidence: EvidenceService;
   dirs: UploadDirs;
+  printRequests?: PrintRequestsService;
 }
 
 export type MigrationFn = (ctx: { context: MigrationContext }) => Promise<void>;

@@ -63,6 +63,8 @@ export interface PriceSheetInfo {
   /** Materials the member priced themselves. */
   custom: MaterialId[];
   pricePerKwh: number | null;
+  /** Charged per hour of printing on print requests for crew members; null when none. */
+  machineHourRate: number | null;
   /** Null until the member first saves prices. */
   updatedAt: string | null;
 }

@@ -130,6 +130,8 @@ export const priceSheetSchema = z.object({
     })
     .transform((prices) => prices as Partial<Record<MaterialId, number>>),
   pricePerKwh: money('price per kWh', 100).nullable().optional(),
+  /** Charged per hour on print requests; absent keeps the saved rate, null removes it. */
+  machineHourRate: money('machine-hour rate', 1000).nullable().optional(),
 });
 export type PriceSheetInput = z.infer<typeof priceSheetSchema>;
 

@@ -43,6 +43,10 @@ import type { WantedDetail, WantedList, WantedListItem } from '@shared/api/wante
 import type { BuildInput, BuildPatch } from '@shared/schemas/builds';
 import type { WantedAnswerInput, WantedCloseInput, WantedInput } from '@shared/schemas/wanted';
 import type { SearchSort } from '@shared/schemas/search';
+import type { CrewPrinter, PrintRequestDetail, PrintRequestList } from '@shared/api/print-requests';
+import type { StatementInfo } from '@shared/api/statement';
+import type { PrintRequestAction } from '@shared/print-requests';
+import type { PrintRequestInput, StatementDetailsInput } from '@shared/schemas/print-requests';
 import { forgetCsrfToken, http } from './http';
 
 export { ApiError, isApiError } from './http';
@@ -298,6 +302,28 @@ export const makeApi = {
   calibrations: async (printerId: number): Promise<CalibrationInfo[]> => (await http.get<CalibrationList>(`/api/printers/${printerId}/calibrations`)).items,
   calibrate: (printerId: number, input: CalibrationInput) => http.post<CalibrationInfo>(`/api/printers/${printerId}/calibrations`, input),
   addToKit: (kitId: number, input: Partial<MadeKitItemInput> & Pick<MadeKitItemInput, 'kind' | 'params'>) => http.post<KitItemInfo>(`/api/kits/${kitId}/made`, input),
+};
+
+// ---- print requests and statements ---------------------------------------------------------------
+
+export type { CrewPrinter, PrintRequestDetail, PrintRequestInfo, PrintRequestList } from '@shared/api/print-requests';
+export type { StatementInfo } from '@shared/api/statement';
+
+/** Asking crew mates for prints, the steps, paying back. */
+export const printRequestsApi = {
+  list: () => http.get<PrintRequestList>('/api/print-requests'),
+  printers: async (): Promise<CrewPrinter[]> => (await http.get<{ items: CrewPrinter[] }>('/api/print-requests/printers')).items,
+  get: (id: number) => http.get<PrintRequestDetail>(`/api/print-requests/${id}`),
+  create: (input: PrintRequestInput) => http.post<PrintRequestDetail>('/api/print-requests', input),
+  step: (id: number, action: PrintRequestAction, note?: string | null) => http.post<PrintRequestDetail>(`/api/print-requests/${id}/${action}`, { note: note || null }),
+  checkout: (id: number) => http.post<{ url: string | null; clientSecret: string | null }>(`/api/print-requests/${id}/checkout`),
+};
+
+/** A kit's statement for the production office. */
+export const statementApi = {
+  get: (kitId: number) => http.get<StatementInfo>(`/api/kits/${kitId}/statement`),
+  save: (kitId: number, input: StatementDetailsInput) => http.put<void>(`/api/kits/${kitId}/statement`, input),
+  fileUrl: (kitId: number, ext: 'csv' | 'pdf') => `/api/kits/${kitId}/statement.${ext}`,
 };
 
 const crewPath = (id: number) => `/api/crews/${encodeURIComponent(String(id))}`;

@@ -46,6 +46,8 @@ export type RouteName =
   | 'wanted-request'
   | 'make'
   | 'make-part'
+  | 'print-requests'
+  | 'print-request'
   | 'crews'
   | 'crew'
   | 'invitation'
@@ -82,6 +84,8 @@ const routes: RouteRecordRaw[] = [
       },
       { path: 'crew/:id(\\d+)', name: 'profile', component: () => import('@/views/ProfileView.vue'), meta: { title: 'Crew member' } },
       { path: 'review/flags', name: 'flags', component: () => import('@/views/FlagsView.vue'), meta: { role: 'moderator', title: 'Flagged entries' } },
+      { path: 'print-requests', name: 'print-requests', component: () => import('@/views/PrintRequestsView.vue'), meta: { auth: true, title: 'Print requests' } },
+      { path: 'print-requests/:id(\\d+)', name: 'print-request', component: () => import('@/views/PrintRequestView.vue'), meta: { auth: true, title: 'Print request' } },
       { path: 'kits', name: 'kits', component: () => import('@/views/KitsView.vue'), meta: { auth: true, title: 'Shoot kits' } },
       { path: 'kits/:id', name: 'kit', component: () => import('@/views/KitView.vue'), meta: { auth: true, title: 'Shoot kit' } },
       { path: 'printers', name: 'printers', component: () => import('@/views/PrintersView.vue'), meta: { auth: true, title: 'Printers & prices' } },

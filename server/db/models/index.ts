@@ -15,6 +15,7 @@ import { initPartRevision, PartRevision } from './part-revision';
 import { initPriceSheet, PriceSheet } from './price-sheet';
 import { initPrinter, Printer } from './printer';
 import { initPrinterCalibration, PrinterCalibration } from './printer-calibration';
+import { initPrintRequests, PaymentEvent, PrintRequest, PrintRequestEvent } from './print-request';
 import { initRecipe, Recipe } from './recipe';
 import { initSession, Session } from './session';
 import { initUser, User } from './user';
@@ -25,6 +26,7 @@ export { ContentFlag, Rating, ReportPhoto, SetReport };
 export { Kit, KitItem, KitShare, PriceSheet, Printer, PrinterCalibration };
 export type { MadeGeometry } from './kit';
 export { Build, WantedAnswer, WantedPhoto, WantedRequest };
+export { PaymentEvent, PrintRequest, PrintRequestEvent };
 export { Crew, CrewInvitation, CrewMember, KitCrewShare };
 export { AccountToken, AuditEvent, CameraBody, MailMessage, Notice, Part, PartFile, PartRevision, Recipe, Session, User };
 
@@ -55,6 +57,7 @@ export function initModels(sequelize: Sequelize) {
   initKits(sequelize);
   initBuild(sequelize);
   initWanted(sequelize);
+  initPrintRequests(sequelize);
   initCrews(sequelize);
   RevisionBody.init(
     {
@@ -107,6 +110,10 @@ export function initModels(sequelize: Sequelize) {
   WantedAnswer.belongsTo(WantedRequest, { as: 'request', foreignKey: 'requestId' });
   WantedAnswer.belongsTo(User, { as: 'user', foreignKey: 'userId' });
   WantedAnswer.belongsTo(Part, { as: 'part', foreignKey: 'partId' });
+  PrintRequest.belongsTo(User, { as: 'requester', foreignKey: 'requesterId' });
+  PrintRequest.belongsTo(User, { as: 'owner', foreignKey: 'ownerId' });
+  PrintRequest.hasMany(PrintRequestEvent, { as: 'events', foreignKey: 'requestId' });
+  PrintRequestEvent.belongsTo(User, { as: 'actor', foreignKey: 'actorId', constraints: false });
   Crew.hasMany(CrewMember, { as: 'members', foreignKey: 'crewId' });
   CrewMember.belongsTo(Crew, { as: 'crew', foreignKey: 'crewId' });
   CrewMember.belongsTo(User, { as: 'user', foreignKey: 'userId' });

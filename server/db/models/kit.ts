@@ -36,6 +36,9 @@ export class Kit extends Model<InferAttributes<Kit>, InferCreationAttributes<Kit
   declare heatExposure: HeatExposure | null;
   declare printHoursPerDay: number;
   declare printerPrice: number | null;
+  /** For the production office's statement. */
+  declare purchaseOrder: CreationOptional<string | null>;
+  declare statementFees: CreationOptional<{ label: string; amount: number }[] | null>;
   declare createdAt: CreationOptional<Date>;
   declare updatedAt: CreationOptional<Date>;
 
@@ -93,6 +96,8 @@ export function initKits(sequelize: Sequelize) {
       heatExposure: { type: DataTypes.STRING(20), allowNull: true },
       printHoursPerDay: { ...decimalColumn('printHoursPerDay', 4, 1), defaultValue: 8 },
       printerPrice: decimalColumn('printerPrice', 10, 2, true),
+      purchaseOrder: { type: DataTypes.STRING(60), allowNull: true },
+      statementFees: jsonColumn<{ label: string; amount: number }[]>('statementFees', true),
       createdAt: DataTypes.DATE,
       updatedAt: DataTypes.DATE,
     },

@@ -119,6 +119,7 @@ export interface MailTemplates {
   alreadyRegistered(p: { displayName: string; signInLink: string; resetLink: string }): MailContent;
   wantedAnswered(p: { requestTitle: string; partTitle: string; answeredBy: string; note: string | null; partLink: string; requestLink: string }): MailContent;
   crewInvitation(p: { crewName: string; production: string | null; invitedBy: string; role: 'lead' | 'member'; link: string; expiresDays: number }): MailContent;
+  printRequestStep(p: { subject: string; heading: string; text: string; note: string | null; noteBy: string; link: string }): MailContent;
 }
 
 export const mailTemplates: MailTemplates = {
@@ -258,6 +259,16 @@ export const mailTemplates: MailTemplates = {
         kind: 'small',
         text: `The link works once, for ${plural(p.expiresDays, 'day', 'days')}, and only for the Rigshelf account with this e-mail address: sign in (or sign up) with it first. If you do not know ${p.invitedBy}, ignore this mail and nothing happens.`,
       },
+    ]);
+  },
+
+  /** To the other side of a print request: what just happened to it, with the note if one was left. */
+  printRequestStep(p: { subject: string; heading: string; text: string; note: string | null; noteBy: string; link: string }): MailContent {
+    return mail(p.subject, p.heading, [
+      { kind: 'p', text: p.text },
+      ...(p.note?.trim() ? [{ kind: 'note', label: `Note from ${p.noteBy}`, text: p.note.trim() } as Block] : []),
+      { kind: 'action', label: 'Open the request', link: p.link },
+      { kind: 'small', text: 'You get this because you asked a crew member for a print, or one asked you, on Rigshelf.' },
     ]);
   },
 };

@@ -35,6 +35,7 @@ export function presentPriceSheet(sheet: PriceSheet | null): PriceSheetInfo {
     defaults: { ...DEFAULT_PRICE_PER_KG },
     custom: MATERIAL_IDS.filter((m) => own[m] !== undefined),
     pricePerKwh: sheet?.pricePerKwh ?? null,
+    machineHourRate: sheet?.machineHourRate ?? null,
     updatedAt: sheet?.updatedAt?.toISOString() ?? null,
   };
 }

@@ -332,7 +332,13 @@ export function createPlanningService({ sequelize, evidence, dirs, slicer }: Pla
 
     /** Replaces the member's prices: materials not named go back to the default. */
     async setPrices(user: User, input: PriceSheetInput): Promise<PriceSheetInfo> {
-      await PriceSheet.upsert({ userId: user.id, pricesPerKg: input.prices, pricePerKwh: input.pricePerKwh ?? null });
+      const current = await PriceSheet.findByPk(user.id);
+      await PriceSheet.upsert({
+        userId: user.id,
+        pricesPerKg: input.prices,
+        pricePerKwh: input.pricePerKwh ?? null,
+        machineHourRate: input.machineHourRate !== undefined ? input.machineHourRate : (current?.machineHourRate ?? null),
+      });
       return presentPriceSheet(await PriceSheet.findByPk(user.id));
     },
 
