@@ -46,6 +46,7 @@ export async function startServer(config: Config): Promise<RunningServer> {
   if (recovered.removed || recovered.resumed) {
     console.log(`rigshelf: upload sweep removed ${recovered.removed} orphaned file(s), resumed ${recovered.resumed} photo(s)`);
   }
+  if (recovered.pictures) console.log(`rigshelf: drawing the picture of ${recovered.pictures} model(s) in the background`);
   if (config.seedDemo) {
     const seeds = await seedDemo(sequelize, built.services);
     if (seeds.length) console.log(`rigshelf: demo scenario seeded (${seeds.join(', ')})`);

@@ -106,7 +106,8 @@ export type KitRecipeRef = Pick<RecipeInput, 'purpose' | 'material' | 'nozzleMm'
 export interface KitItemInfo {
   id: number;
   position: number;
-  part: { id: number; slug: string; title: string; onShelf: boolean };
+  /** thumbnailUrl: the part's first photo, else the picture drawn from its model; null when it has neither yet. */
+  part: { id: number; slug: string; title: string; onShelf: boolean; thumbnailUrl: string | null };
   quantity: number;
   /** Null when the recipe has gone; the summary then uses the part's first set-ready recipe. */
   recipe: KitRecipeRef | null;

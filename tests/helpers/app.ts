@@ -42,6 +42,8 @@ export function testConfig(overrides: Record<string, string> = {}): Config {
     // one local fake SMTP server per app, on a free port
     SMTP_FAKE: '1',
     SMTP_PORT: '0',
+    // drawing model pictures costs seconds per model; the tests of pictures turn it back on
+    MODEL_PICTURES: '0',
     ...overrides,
   });
 }

@@ -3,7 +3,8 @@ import { Op } from 'sequelize';
 import type { KitAccess, KitDetail, KitItemInfo, KitListItem, KitRecipeRef, KitShareInfo, PrinterInfo, PriceSheetInfo } from '@shared/api/planning';
 import { DEFAULT_PRICE_PER_KG } from '@shared/estimate';
 import { MATERIAL_IDS, type MaterialId } from '@shared/materials';
-import { Kit, KitItem, KitShare, Part, PartRevision, Printer, Recipe, User, type PriceSheet } from '../../db/models';
+import { Kit, KitItem, KitShare, Part, PartFile, PartRevision, Printer, Recipe, User, type PriceSheet } from '../../db/models';
+import { coverThumbnail } from '../parts/presenter';
 
 export function presentPrinter(p: Printer): PrinterInfo {
   return {
@@ -73,7 +74,11 @@ export async function loadItems(kitId: number, itemId?: number): Promise<KitItem
   return KitItem.findAll({
     where: itemId === undefined ? { kitId } : { kitId, id: itemId },
     include: [
-      { model: Part, as: 'part', include: [{ model: PartRevision, as: 'publishedRevision' }] },
+      {
+        model: Part,
+        as: 'part',
+        include: [{ model: PartRevision, as: 'publishedRevision', include: [{ model: PartFile, as: 'files', through: { attributes: ['position'] } }] }],
+      },
       { model: Recipe, as: 'recipe' },
       { model: Printer, as: 'printer' },
     ],
@@ -81,13 +86,22 @@ export async function loadItems(kitId: number, itemId?: number): Promise<KitItem
   });
 }
 
+const filesInOrder = (files: PartFile[]) =>
+  [...files].sort((a, b) => ((a as unknown as { RevisionFile?: { position: number } }).RevisionFile?.position ?? 0) - ((b as unknown as { RevisionFile?: { position: number } }).RevisionFile?.position ?? 0));
+
 export function presentItem(item: KitItem): KitItemInfo {
   const part = item.part!;
   const recipe = item.recipe ?? null;
   return {
     id: item.id,
     position: item.position,
-    part: { id: part.id, slug: part.slug, title: part.publishedRevision?.title ?? part.slug, onShelf: isOnShelfForKits(part) },
+    part: {
+      id: part.id,
+      slug: part.slug,
+      title: part.publishedRevision?.title ?? part.slug,
+      onShelf: isOnShelfForKits(part),
+      thumbnailUrl: coverThumbnail(part.id, filesInOrder(part.publishedRevision?.files ?? [])),
+    },
     quantity: item.quantity,
     recipe: recipe ? recipeRef(recipe, part) : null,
     materialOverride: item.material,
