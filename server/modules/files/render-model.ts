@@ -49,7 +49,7 @@ export type RenderResult = { ok: true; width: number; height: number } | { ok: f
 class RenderRefused extends Error {}
 
 /** The unit vectors of the camera: right, up (on screen) and towards the viewer, in world coordinates. */
-export function viewBasis(view = VIEW): { right: Vector3; up: Vector3; toViewer: Vector3 } {
+export function viewBasis(view: { azimuthDeg: number; elevationDeg: number } = VIEW): { right: Vector3; up: Vector3; toViewer: Vector3 } {
   const az = (view.azimuthDeg * Math.PI) / 180;
   const el = (view.elevationDeg * Math.PI) / 180;
   // the front of a part faces -Y; turning the eye by the azimuth brings it round to the right (+X)
