@@ -89,7 +89,7 @@ export function cap(inner: number, wall: number, depth: number, top = 2): Geom3 
 /** An accessory-shoe foot (ISO 518 nominal: about 18.6 mm wide, 2 mm thick) under a square base. */
 export function shoeFoot(baseW: number, baseH: number, hole = HOLE_1_4): Geom3 {
   const foot = up(2, rect(18.6, 18, [0, 0]));
-  const neck = lift(1.999, up(2.5, rect(12, 18)));
+  const neck = lift(1.999, up(2.5, rect(12, 16)));
   const base = lift(4.498, up(baseH, booleans.subtract(rounded(baseW, Math.max(baseW, 20), 2), circle(hole))));
   return booleans.union(foot, neck, base);
 }
