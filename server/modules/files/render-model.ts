@@ -258,13 +258,20 @@ function sizeLines(sizeMm: [number, number, number]) {
   };
 }
 
+// read once per worker thread
+let fonts: Promise<[Awaited<ReturnType<typeof loadFont>>, Awaited<ReturnType<typeof loadFont>>]> | undefined;
+
 /** The picture as a jimp image at display size: the part, and its measured size in the right column. */
 export async function renderPicture(positions: ArrayLike<number>, sizeMm: [number, number, number] | null) {
   const small = downsample(rasterise(positions, RENDER_DISPLAY.width * SUPERSAMPLE, RENDER_DISPLAY.height * SUPERSAMPLE), SUPERSAMPLE);
   const image = new Jimp({ width: small.width, height: small.height });
   image.bitmap.data = Buffer.from(small.data.buffer, small.data.byteOffset, small.data.byteLength);
   if (sizeMm) {
-    const [large, small] = await Promise.all([loadFont(SANS_32_BLACK), loadFont(SANS_16_BLACK)]);
+    fonts ??= Promise.all([loadFont(SANS_32_BLACK), loadFont(SANS_16_BLACK)]).catch((err) => {
+      fonts = undefined;
+      throw err;
+    });
+    const [large, small] = await fonts;
     const { lines, inches } = sizeLines(sizeMm);
     const x = Math.round(RENDER_DISPLAY.width * 0.74);
     let y = Math.round(RENDER_DISPLAY.height * 0.36);
