@@ -77,7 +77,8 @@ describe('model picture · pixels', () => {
   });
 });
 
-describe('model picture · jobs', () => {
+// worker threads start and die here: generous on a loaded machine
+describe('model picture · jobs', { timeout: 60_000 }, () => {
   const tasks = new URL('../helpers/render-tasks.ts', import.meta.url).href;
 
   function fakeRow(renderAttempts = 0) {
