@@ -50,7 +50,8 @@ async function image(a: Agent, url: string) {
   return res.body as Buffer;
 }
 
-describe('model pictures · drawn at upload', () => {
+// pictures are drawn by a low-priority thread: on a loaded machine one can take tens of seconds
+describe('model pictures · drawn at upload', { timeout: 180_000 }, () => {
   it('a part without photos gets a 1200 × 900 picture and a 480 × 360 thumbnail of its model; cards use it', async () => {
     const { body } = await submit(author).expect(201);
     await settled();
@@ -121,7 +122,7 @@ describe('model pictures · drawn at upload', () => {
   });
 });
 
-describe('model pictures · start-up', () => {
+describe('model pictures · start-up', { timeout: 180_000 }, () => {
   it('models waiting for a picture (a stop cut them off, or they predate pictures) are drawn by the recovery; the sweep keeps the pictures', async () => {
     const { body } = await submit(author).expect(201);
     await settled();
