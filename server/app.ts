@@ -192,9 +192,14 @@ export function createApp({ config, sequelize, mailer }: AppContext) {
     services: { parts, review, evidence, dirs, search, wanted },
     /** Waits for photo work in hand, then stops the worker pools and the session store's expiry sweep. */
     async close() {
-      await parts.photosSettled();
-      await photos.close();
-      await renders?.close();
+      // pictures waiting are left for the next start at once; photos in hand are finished meanwhile
+      await Promise.all([
+        renders?.close(),
+        (async () => {
+          await parts.photosSettled();
+          await photos.close();
+        })(),
+      ]);
       await closeCheckPool();
       await search.close();
       await slicer.close();
