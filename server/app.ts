@@ -21,6 +21,7 @@ import { createDatabaseWatch } from './modules/health/watch';
 import { closeCheckPool } from './modules/files/inspect';
 import { PhotoJobs } from './modules/files/photo-jobs';
 import { PhotoQueue } from './modules/files/photo-queue';
+import { RenderJobs } from './modules/files/render-jobs';
 import { uploadDirs } from './modules/files/storage';
 import { multerErrors } from './modules/files/upload';
 import { partsRoutes } from './modules/parts/routes';
@@ -116,6 +117,8 @@ export function createApp({ config, sequelize, mailer }: AppContext) {
 
   const dirs = uploadDirs(config.UPLOADS_DIR);
   const photos = new PhotoJobs(dirs, new PhotoQueue());
+  // a new picture can be a part's cover in search results, which the index stores
+  const renders = config.MODEL_PICTURES ? new RenderJobs({ onReady: () => search.scheduleRebuild() }) : undefined;
   const search = createSearchService({
     sequelize,
     indexFile: config.SEARCH_INDEX_FILE,
@@ -134,6 +137,7 @@ export function createApp({ config, sequelize, mailer }: AppContext) {
     sequelize,
     dirs,
     photos,
+    renders,
     onSubmitted: review.submitted,
     onEdited: review.edited,
     onRecovered: (rows) => wanted.resume(rows),
@@ -210,8 +214,14 @@ export function createApp({ config, sequelize, mailer }: AppContext) {
     services: { parts, review, evidence, dirs, search, wanted, crews, printRequests, payments },
     /** Waits for photo work in hand, then stops the worker pools and the session store's expiry sweep. */
     async close() {
-      await parts.photosSettled();
-      await photos.close();
+      // pictures waiting are left for the next start at once; photos in hand are finished meanwhile
+      await Promise.all([
+        renders?.close(),
+        (async () => {
+          await parts.photosSettled();
+          await photos.close();
+        })(),
+      ]);
       await closeCheckPool();
       await search.close();
       await slicer.close();

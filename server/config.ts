@@ -42,6 +42,8 @@ const schema = z
     /** The saved search index, loaded at start-up when it still matches the shelf. */
     SEARCH_INDEX_FILE: z.string().min(1).default(resolve(root, 'var/search-index.json')),
     RIGSHELF_DEMO: flag.optional(),
+    /** Draw a shaded picture of every model in the background (on unless 0; most test apps turn it off). */
+    MODEL_PICTURES: flag.default(true),
     /** Failed sign-ins per network address and window: a tenth of it free, then slower, then refused for accounts that also failed. */
     LOGIN_LIMIT_PER_IP: z.coerce.number().int().positive().default(300),
     /** Registrations and reset requests (each sends a mail) per network address and window. */

@@ -48,9 +48,11 @@ export async function startServer(config: Config): Promise<RunningServer> {
   if (recovered.removed || recovered.resumed) {
     console.log(`rigshelf: upload sweep removed ${recovered.removed} orphaned file(s), resumed ${recovered.resumed} photo(s)`);
   }
+  if (recovered.pictures) console.log(`rigshelf: drawing the picture of ${recovered.pictures} model(s) in the background`);
   if (config.seedDemo) {
+    const started = performance.now();
     const seeds = await seedDemo(sequelize, built.services);
-    if (seeds.length) console.log(`rigshelf: demo scenario seeded (${seeds.join(', ')})`);
+    if (seeds.length) console.log(`rigshelf: demo scenario seeded in ${((performance.now() - started) / 1000).toFixed(1)} s (${seeds.join(', ')})`);
   }
   // after the seed: a seeded shelf no longer matches the saved index's fingerprint, so it is rebuilt
   const search = await built.services.search.start();

@@ -109,6 +109,9 @@ export interface PartFileInfo {
   } | null;
   /** Photos: processing state and the URLs of the cleaned images once ready. */
   processing: 'ready' | 'pending' | 'failed';
+  /** Models: the shaded preview picture drawn on the server (null for photos and sources). Once it is
+   * ready, thumbnailUrl and displayUrl point to it. */
+  picture: 'ready' | 'pending' | 'failed' | null;
   thumbnailUrl: string | null;
   displayUrl: string | null;
   downloadUrl: string;

@@ -60,8 +60,8 @@ export async function rollbackAll(sequelize: Sequelize): Promise<void> {
   await umzug(sequelize, 'migrations', 'schema_migrations').down({ to: 0 });
 }
 
-/** Runs the demo seeders that have not run on this database yet. */
-export async function seedDemo(sequelize: Sequelize, services: SeedServices): Promise<string[]> {
-  const done = await umzug(sequelize, 'seeders', 'schema_seeds', services).up();
+/** Runs the demo seeders that have not run on this database yet (up to and including `to`, a seeder's name). */
+export async function seedDemo(sequelize: Sequelize, services: SeedServices, options: { to?: string } = {}): Promise<string[]> {
+  const done = await umzug(sequelize, 'seeders', 'schema_seeds', services).up(options.to ? { to: options.to } : {});
   return done.map((m) => m.name);
 }

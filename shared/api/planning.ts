@@ -112,8 +112,8 @@ export type KitRecipeRef = Pick<RecipeInput, 'purpose' | 'material' | 'nozzleMm'
 export interface KitItemInfo {
   id: number;
   position: number;
-  /** Null for a made item (then `made` says what to make). */
-  part: { id: number; slug: string; title: string; onShelf: boolean } | null;
+  /** Null for a made item (then `made` says what to make). thumbnailUrl: the part's first photo, else the picture drawn from its model; null when it has neither yet. */
+  part: { id: number; slug: string; title: string; onShelf: boolean; thumbnailUrl: string | null } | null;
   made: (MadeWith & { name: string; sizeMm: [number, number, number] | null; loadBearing: boolean; recipe: MadeRecipe }) | null;
   quantity: number;
   /** Null when the recipe has gone; the summary then uses the part's first set-ready recipe. */

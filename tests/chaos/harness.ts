@@ -346,7 +346,7 @@ export async function runChaos(options: ChaosOptions): Promise<ChaosSummary> {
       ),
     };
 
-    const files = await sql('SELECT kind, stored_name, processing FROM rigshelf.part_files');
+    const files = await sql('SELECT kind, stored_name, processing, render_status FROM rigshelf.part_files');
     const reportPhotos = await sql('SELECT stored_name, processing FROM rigshelf.report_photos');
     const list = (dir: string) => (existsSync(join(srv.uploadsDir, dir)) ? readdirSync(join(srv.uploadsDir, dir)) : []);
     const store = new Set(list('store'));
@@ -367,9 +367,17 @@ export async function runChaos(options: ChaosOptions): Promise<ChaosSummary> {
         pendingSizes.add(`${name}-thumb.jpg`);
       }
     };
-    for (const [kind, name, processing] of files) {
+    for (const [kind, name, processing, picture] of files) {
       if (kind === 'photo') expectPhoto(name, processing);
       else expectedStore.add(name);
+      // a model's drawn picture: there once ready; a picture still waiting may be half-written
+      if (kind === 'model' && picture === 'ready') {
+        expectedStore.add(`${name}-display.jpg`);
+        expectedStore.add(`${name}-thumb.jpg`);
+      } else if (kind === 'model' && picture === 'pending') {
+        pendingSizes.add(`${name}-display.jpg`);
+        pendingSizes.add(`${name}-thumb.jpg`);
+      }
     }
     for (const [name, processing] of reportPhotos) expectPhoto(name, processing);
     // rows without their files are lost work, whatever happens next

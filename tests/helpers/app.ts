@@ -42,6 +42,8 @@ export function testConfig(overrides: Record<string, string> = {}): Config {
     // one local fake SMTP server per app, on a free port
     SMTP_FAKE: '1',
     SMTP_PORT: '0',
+    // drawing model pictures costs seconds per model; the tests of pictures turn it back on
+    MODEL_PICTURES: '0',
     ...overrides,
   });
 }
@@ -50,13 +52,17 @@ export function testConfig(overrides: Record<string, string> = {}): Config {
 // the models go back to the app that is still open.
 const open: Sequelize[] = [];
 
-export async function createTestApp(overrides: Record<string, string> = {}, options: { demo?: boolean } = {}): Promise<TestApp> {
+/**
+ * `demo: true` seeds the demo scenario the demo tests were written against (seeders up to 0011);
+ * `demo: 'full'` seeds the whole demo shelf (slow: tens of parts through the real submission path).
+ */
+export async function createTestApp(overrides: Record<string, string> = {}, options: { demo?: boolean | 'full' } = {}): Promise<TestApp> {
   const config = testConfig(overrides);
   const sequelize = createSequelize(config);
   await migrate(sequelize);
   const mailer = await createMailer({ config, sequelize });
   const built = createApp({ config, sequelize, mailer });
-  if (options.demo) await seedDemo(sequelize, built.services);
+  if (options.demo) await seedDemo(sequelize, built.services, options.demo === 'full' ? {} : { to: '0011-demo-builds-and-wanted' });
   await built.services.search.start();
   open.push(sequelize);
   return {

@@ -16,6 +16,9 @@ export class PartFile extends Model<InferAttributes<PartFile>, InferCreationAttr
   declare analysis: MeshAnalysis | null;
   declare processing: CreationOptional<'ready' | 'pending' | 'failed'>;
   declare processingAttempts: CreationOptional<number>;
+  /** Models only: the shaded preview picture (null for other kinds). */
+  declare renderStatus: CreationOptional<'pending' | 'ready' | 'failed' | null>;
+  declare renderAttempts: CreationOptional<number>;
   declare width: number | null;
   declare height: number | null;
   declare createdBy: number;
@@ -44,6 +47,8 @@ export function initPartFile(sequelize: Sequelize) {
       analysis: jsonColumn<MeshAnalysis>('analysis', true),
       processing: { type: DataTypes.ENUM('ready', 'pending', 'failed'), allowNull: false, defaultValue: 'ready' },
       processingAttempts: { type: DataTypes.TINYINT.UNSIGNED, allowNull: false, defaultValue: 0 },
+      renderStatus: { type: DataTypes.ENUM('pending', 'ready', 'failed'), allowNull: true, defaultValue: null },
+      renderAttempts: { type: DataTypes.TINYINT.UNSIGNED, allowNull: false, defaultValue: 0 },
       width: { type: DataTypes.INTEGER.UNSIGNED, allowNull: true },
       height: { type: DataTypes.INTEGER.UNSIGNED, allowNull: true },
       createdBy: { type: DataTypes.INTEGER.UNSIGNED, allowNull: false },

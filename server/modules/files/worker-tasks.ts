@@ -4,6 +4,7 @@ import { MeshError, type MeshErrorCode, type ModelFileAnalysis } from '../../../
 import { analyseModelPath } from './analyse-model';
 
 export { processPhoto, verifyPhoto } from './photo-worker';
+export { renderModel } from './render-model';
 
 export type ModelCheck = { ok: true; analysis: ModelFileAnalysis } | { ok: false; code: MeshErrorCode; message: string };
 

@@ -11,11 +11,19 @@ import { filesOlderThan, moveAll, randomStoredName, removeQuietly, type UploadDi
 export interface StoredPaths {
   /** Models and sources: the file itself. Photos: the raw upload until it is cleaned. */
   original: string;
+  /** Photos: the cleaned sizes. Models: the shaded preview picture (render-model.ts). */
   display?: string;
   thumbnail?: string;
 }
 
 export function pathsOf(dirs: UploadDirs, file: Pick<PartFile, 'kind' | 'storedName'>): StoredPaths {
+  if (file.kind === 'model') {
+    return {
+      original: join(dirs.store, file.storedName),
+      display: join(dirs.store, `${file.storedName}-display.jpg`),
+      thumbnail: join(dirs.store, `${file.storedName}-thumb.jpg`),
+    };
+  }
   if (file.kind !== 'photo') return { original: join(dirs.store, file.storedName) };
   return {
     original: join(dirs.incoming, file.storedName),
@@ -53,6 +61,7 @@ export async function attachFiles(
         format: file.analysis?.format ?? file.type,
         analysis: file.analysis,
         processing: kind === 'photo' ? 'pending' : 'ready',
+        renderStatus: kind === 'model' ? 'pending' : null,
         width: null,
         height: null,
         createdBy,
@@ -74,9 +83,12 @@ export async function removeStoredFiles(dirs: UploadDirs, row: Pick<PartFile, 'k
 
 /**
  * Start-up sweep after a crash: drops unfinished uploads, raw photos nobody is waiting for and stored
- * files no row refers to. Returns the photos still waiting to be cleaned.
+ * files no row refers to (a model's pictures go with the model's row). Returns the photos still waiting
+ * to be cleaned and the models still waiting for their picture.
  */
-export async function sweepUploads(dirs: UploadDirs): Promise<{ removed: number; pendingPhotos: PartFile[]; pendingReportPhotos: ReportPhoto[]; pendingWantedPhotos: WantedPhoto[] }> {
+export async function sweepUploads(
+  dirs: UploadDirs,
+): Promise<{ removed: number; pendingPhotos: PartFile[]; pendingReportPhotos: ReportPhoto[]; pendingWantedPhotos: WantedPhoto[]; pendingRenders: PartFile[] }> {
   let removed = 0;
   const drop = async (path: string) => {
     await removeQuietly(path);
@@ -104,8 +116,11 @@ export async function sweepUploads(dirs: UploadDirs): Promise<{ removed: number;
     for (const row of rows) if (await settleWithoutRaw(dirs, row)) raw.push(row);
     return raw;
   };
+  // models waiting for their picture (new ones cut off by a stop, and existing ones after migration 0014)
+  const pendingRenders = await PartFile.findAll({ where: { kind: 'model', renderStatus: 'pending' }, order: [['id', 'ASC']] });
   return {
     removed,
+    pendingRenders,
     pendingPhotos: await stillRaw(pendingPhotos),
     pendingReportPhotos: await stillRaw(pendingReportPhotos),
     pendingWantedPhotos: await stillRaw(pendingWantedPhotos),

@@ -10,14 +10,30 @@ import { CameraBody, Crew, Part, PartFile, PartRevision, Recipe, RevisionFile, U
 import { madeWith } from '../make/service';
 import { audienceOf, crewAllows, crewWhere, seesUnpublished } from './access';
 
-export function fileUrls(partId: number, file: PartFile) {
+export function fileUrls(partId: number, file: Pick<PartFile, 'id' | 'kind' | 'processing' | 'renderStatus'>) {
   const base = `/api/parts/${partId}/files/${file.id}`;
-  const photoReady = file.kind === 'photo' && file.processing === 'ready';
+  // a photo's cleaned sizes, or a model's drawn picture
+  const pictureReady = (file.kind === 'photo' && file.processing === 'ready') || (file.kind === 'model' && file.renderStatus === 'ready');
   return {
     downloadUrl: `${base}/download`,
-    thumbnailUrl: photoReady ? `${base}/image/thumb` : null,
-    displayUrl: photoReady ? `${base}/image/display` : null,
+    thumbnailUrl: pictureReady ? `${base}/image/thumb` : null,
+    displayUrl: pictureReady ? `${base}/image/display` : null,
   };
+}
+
+/** The picture a part is shown by: its first cleaned photo, else the drawn picture of its first model. */
+export function coverFile<F extends Pick<PartFile, 'id' | 'kind' | 'processing' | 'renderStatus'>>(files: F[]): F | null {
+  return (
+    files.find((f) => f.kind === 'photo' && f.processing === 'ready') ??
+    files.find((f) => f.kind === 'model' && f.renderStatus === 'ready') ??
+    null
+  );
+}
+
+/** The cover's thumbnail URL, or null when the part has no picture yet. */
+export function coverThumbnail(partId: number, files: Pick<PartFile, 'id' | 'kind' | 'processing' | 'renderStatus'>[]): string | null {
+  const cover = coverFile(files);
+  return cover ? fileUrls(partId, cover).thumbnailUrl : null;
 }
 
 export function presentFile(partId: number, file: PartFile): PartFileInfo {
@@ -52,6 +68,7 @@ export function presentFile(partId: number, file: PartFile): PartFileInfo {
         }
       : null,
     processing: file.processing,
+    picture: file.kind === 'model' ? (file.renderStatus ?? null) : null,
     ...fileUrls(partId, file),
   };
 }
@@ -160,6 +177,8 @@ export async function presentPart(part: Part, revisionId: number, viewer: User |
 
 export type PartDetail = Awaited<ReturnType<typeof presentPart>>;
 
+const positionOf = (f: PartFile) => (f as PartFile & { RevisionFile?: { position: number } }).RevisionFile?.position ?? 0;
+
 export async function presentSummaries(parts: Part[], pickRevision: (p: Part) => number | null): Promise<PartSummary[]> {
   const ids = parts.map(pickRevision).filter((id): id is number => id !== null);
   const revisions = await PartRevision.findAll({
@@ -170,8 +189,7 @@ export async function presentSummaries(parts: Part[], pickRevision: (p: Part) =>
   return parts.flatMap((part) => {
     const rev = revisions.find((r) => r.id === pickRevision(part));
     if (!rev) return [];
-    const files = [...(rev.files ?? [])];
-    const photo = files.find((f) => f.kind === 'photo' && f.processing === 'ready');
+    const files = [...(rev.files ?? [])].sort((a, b) => positionOf(a) - positionOf(b));
     const model = files.find((f) => f.kind === 'model' && f.analysis);
     return [
       {
@@ -182,7 +200,7 @@ export async function presentSummaries(parts: Part[], pickRevision: (p: Part) =>
         status: part.status,
         category: rev.category,
         author: { id: part.authorId, displayName: authors.find((a) => a.id === part.authorId)?.displayName ?? '' },
-        thumbnailUrl: photo ? fileUrls(part.id, photo).thumbnailUrl : null,
+        thumbnailUrl: coverThumbnail(part.id, files),
         sizeMm: model?.analysis?.sizeMm ?? null,
         updatedAt: rev.updatedAt.toISOString(),
         crewId: part.crewId ?? null,

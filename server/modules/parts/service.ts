@@ -10,6 +10,7 @@ import { transact, type Attempt } from '../../db/transaction';
 import { AppError } from '../../errors';
 import type { InspectedFile } from '../files/inspect';
 import type { PhotoJobs } from '../files/photo-jobs';
+import type { RenderJobs } from '../files/render-jobs';
 import type { UploadDirs } from '../files/storage';
 import { parseParams } from '../make/service';
 import { assertCanEdit, audienceOf, crewAllows, crewWhere, findVisiblePart, seesUnpublished } from './access';
@@ -41,6 +42,8 @@ export interface PartsDeps {
   sequelize: Sequelize;
   dirs: UploadDirs;
   photos: PhotoJobs;
+  /** Draws each model's preview picture; without it models keep their pictures waiting. */
+  renders?: RenderJobs;
   /** Tells the review desk about a new or changed submission, inside the same transaction. */
   onSubmitted?: SubmissionHook;
   /** Puts an edit by someone other than the author on record, inside the same transaction. */
@@ -81,7 +84,7 @@ async function uniqueSlug(title: string, transaction: Transaction, alsoTaken: Se
   for (let n = 2; ; n++) if (!used.has(`${base}-${n}`)) return `${base}-${n}`;
 }
 
-export function createPartsService({ sequelize, dirs, photos, onSubmitted, onEdited, onRecovered, onVisibilityChanged }: PartsDeps) {
+export function createPartsService({ sequelize, dirs, photos, renders, onSubmitted, onEdited, onRecovered, onVisibilityChanged }: PartsDeps) {
   /** Records what an edit did: a new revision of a published part, or a resubmission after changes. */
   async function afterEdit(actor: User, part: Part, edit: { revision: PartRevision; created: boolean }, t: Transaction, record?: EditRecord) {
     // the author's own edits are on record as (re)submissions; anyone else's edit is an event of its own
@@ -93,6 +96,15 @@ export function createPartsService({ sequelize, dirs, photos, onSubmitted, onEdi
 
   function queuePhotos(rows: PartFile[]) {
     for (const row of rows.filter((r) => r.kind === 'photo')) photos.clean(row, () => PartFile.findByPk(row.id));
+    queueRenders(rows);
+  }
+
+  function queueRenders(rows: PartFile[]) {
+    if (!renders) return;
+    for (const row of rows.filter((r) => r.kind === 'model' && r.renderStatus === 'pending')) {
+      const paths = pathsOf(dirs, row);
+      renders.render(row, { source: paths.original, display: paths.display!, thumbnail: paths.thumbnail! }, () => PartFile.findByPk(row.id));
+    }
   }
 
   async function checkParentLicence(parentId: number | null | undefined, licence: string, viewer: User) {
@@ -149,11 +161,17 @@ export function createPartsService({ sequelize, dirs, photos, onSubmitted, onEdi
   return {
     /** Clears what a crash left behind and resumes photos that were waiting to be cleaned. */
     async recover() {
-      const { removed, pendingPhotos, pendingReportPhotos, pendingWantedPhotos } = await sweepUploads(dirs);
+      const { removed, pendingPhotos, pendingReportPhotos, pendingWantedPhotos, pendingRenders } = await sweepUploads(dirs);
       onRecovered?.(pendingWantedPhotos);
       queuePhotos(pendingPhotos);
       for (const row of pendingReportPhotos) photos.clean(row, () => ReportPhoto.findByPk(row.id));
-      return { removed, resumed: pendingPhotos.length + pendingReportPhotos.length + pendingWantedPhotos.length };
+      queueRenders(pendingRenders);
+      return { removed, resumed: pendingPhotos.length + pendingReportPhotos.length + pendingWantedPhotos.length, pictures: renders ? pendingRenders.length : 0 };
+    },
+
+    /** Resolves when every model picture queued so far is drawn (or has failed). */
+    rendersSettled(): Promise<void> {
+      return renders?.settled() ?? Promise.resolve();
     },
 
     /** Resolves when every photo queued so far has been cleaned (tests and shutdown wait on it). */
@@ -322,13 +340,17 @@ export function createPartsService({ sequelize, dirs, photos, onSubmitted, onEdi
       const linked = await RevisionFile.count({ where: { fileId, revisionId: { [Op.in]: revisionIds } } });
       const file = linked ? await PartFile.findByPk(fileId) : null;
       if (!file) throw AppError.notFound('That file is not part of this part.');
-      if (want !== 'original' && file.kind !== 'photo') throw AppError.notFound('Only photos have display sizes.');
+      if (want !== 'original' && file.kind === 'source') throw AppError.notFound('Only photos and models have pictures.');
+      if (want !== 'original' && file.kind === 'model' && file.renderStatus !== 'ready') {
+        throw AppError.notFound(file.renderStatus === 'failed' ? 'No picture could be drawn from this model.' : 'The picture of this model is still being drawn; try again in a moment.');
+      }
       if (file.kind === 'photo' && file.processing !== 'ready') {
         throw AppError.notFound(file.processing === 'failed' ? 'This photo could not be processed.' : 'This photo is still being processed; try again in a moment.');
       }
       const paths = pathsOf(dirs, file);
       // a photo's original is never kept: its download is the cleaned display image
-      const path = file.kind === 'photo' ? (want === 'thumbnail' ? paths.thumbnail! : paths.display!) : paths.original;
+      const picture = want === 'thumbnail' ? paths.thumbnail! : paths.display!;
+      const path = file.kind === 'photo' || want !== 'original' ? picture : paths.original;
       return { file, path };
     },
   };

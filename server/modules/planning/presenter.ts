@@ -5,8 +5,9 @@ import { DEFAULT_PRICE_PER_KG } from '@shared/estimate';
 import { MATERIAL_IDS, type MaterialId } from '@shared/materials';
 import { MADE_PART_RECIPE } from '@shared/schemas/make';
 import { madeTitle, madeWith } from '../make/service';
-import { Crew, Kit, KitCrewShare, KitItem, KitShare, Part, PartRevision, Printer, Recipe, User, type PriceSheet } from '../../db/models';
+import { Crew, Kit, KitCrewShare, KitItem, KitShare, Part, PartFile, PartRevision, Printer, Recipe, User, type PriceSheet } from '../../db/models';
 import { crewAllows, type PartAudience } from '../parts/access';
+import { coverThumbnail } from '../parts/presenter';
 
 export function presentPrinter(p: Printer): PrinterInfo {
   return {
@@ -80,7 +81,11 @@ export async function loadItems(kitId: number, itemId?: number, audience?: PartA
   const items = await KitItem.findAll({
     where: itemId === undefined ? { kitId } : { kitId, id: itemId },
     include: [
-      { model: Part, as: 'part', include: [{ model: PartRevision, as: 'publishedRevision' }] },
+      {
+        model: Part,
+        as: 'part',
+        include: [{ model: PartRevision, as: 'publishedRevision', include: [{ model: PartFile, as: 'files', through: { attributes: ['position'] } }] }],
+      },
       { model: Recipe, as: 'recipe' },
       { model: Printer, as: 'printer' },
     ],
@@ -89,13 +94,24 @@ export async function loadItems(kitId: number, itemId?: number, audience?: PartA
   return audience ? items.filter((i) => !i.part || crewAllows(audience, i.part)) : items;
 }
 
+const filesInOrder = (files: PartFile[]) =>
+  [...files].sort((a, b) => ((a as unknown as { RevisionFile?: { position: number } }).RevisionFile?.position ?? 0) - ((b as unknown as { RevisionFile?: { position: number } }).RevisionFile?.position ?? 0));
+
 export function presentItem(item: KitItem): KitItemInfo {
   const part = item.part ?? null;
   const recipe = part ? (item.recipe ?? null) : null;
   return {
     id: item.id,
     position: item.position,
-    part: part ? { id: part.id, slug: part.slug, title: part.publishedRevision?.title ?? part.slug, onShelf: isOnShelfForKits(part) } : null,
+    part: part
+      ? {
+          id: part.id,
+          slug: part.slug,
+          title: part.publishedRevision?.title ?? part.slug,
+          onShelf: isOnShelfForKits(part),
+          thumbnailUrl: coverThumbnail(part.id, filesInOrder(part.publishedRevision?.files ?? [])),
+        }
+      : null,
     made: item.makeKind ? madeKitInfo(item) : null,
     quantity: item.quantity,
     recipe: recipe && part ? recipeRef(recipe, part) : null,

@@ -188,7 +188,8 @@ export function createReviewService({ sequelize, mail, publicUrl, onDecided, onP
             contributor: { id: part.authorId, displayName: part.author?.displayName ?? '' },
             category: detail.category,
             safety: { carriesLoad: rev.carriesLoad, overhead: rev.overhead, vehicle: rev.vehicle, heat: rev.heat },
-            thumbnailUrl: detail.files.find((f) => f.thumbnailUrl)?.thumbnailUrl ?? null,
+            // a photo first; the model's drawn picture when there is none
+            thumbnailUrl: (detail.files.find((f) => f.kind === 'photo' && f.thumbnailUrl) ?? detail.files.find((f) => f.thumbnailUrl))?.thumbnailUrl ?? null,
             warnings: await reviewWarnings(detail),
           };
         }),

@@ -6,7 +6,7 @@ import { CATEGORIES, MOUNT_STANDARDS } from '@shared/catalogue';
 import { adaptationRule, isLicenceId } from '@shared/licences';
 import type { SizeMm } from '@shared/search/filters';
 import { CameraBody, Part, PartFile, PartRevision, Recipe, RevisionBody, RevisionFile } from '../../db/models';
-import { fileUrls } from '../parts/presenter';
+import { coverThumbnail } from '../parts/presenter';
 import { FIELD_BOOSTS, SEARCH_FORMAT, type SearchBody, type SearchDocument } from './index-builder';
 
 const CHUNK = 2000;
@@ -34,7 +34,7 @@ export async function publishedFingerprint(sequelize: Sequelize): Promise<string
       WHERE p.status = 'published' ORDER BY p.id`,
   );
   const files = await select(
-    `SELECT rf.revision_id AS rev, rf.file_id AS file, rf.position, f.processing
+    `SELECT rf.revision_id AS rev, rf.file_id AS file, rf.position, f.processing, f.render_status AS picture
        FROM revision_files rf
        JOIN parts p ON p.published_revision_id = rf.revision_id AND p.status = 'published'
        JOIN part_files f ON f.id = rf.file_id
@@ -93,7 +93,6 @@ export async function loadDocuments(): Promise<SearchDocument[]> {
     if (!rev) return [];
     const revFiles = (filesOf.get(rev.id) ?? []).map((l) => files.get(l.fileId)).filter((f): f is PartFile => !!f);
     const model = revFiles.find((f) => f.kind === 'model' && f.analysis);
-    const photo = revFiles.find((f) => f.kind === 'photo' && f.processing === 'ready');
     const docBodies: SearchBody[] = (bodiesOf.get(rev.id) ?? [])
       .map((l) => bodies.get(l.bodyId))
       .filter((b): b is CameraBody => !!b)
@@ -112,7 +111,7 @@ export async function loadDocuments(): Promise<SearchDocument[]> {
         materials: [...new Set((recipesOf.get(rev.id) ?? []).map((r) => r.material))],
         keyDimensions: rev.keyDimensions.map((d) => ({ name: d.name, valueMm: d.valueMm, tolMm: d.tolMm })),
         sizeMm: size ? ([size[0], size[1], size[2]] as SizeMm) : null,
-        thumbnail: photo ? fileUrls(part.id, photo).thumbnailUrl : null,
+        thumbnail: coverThumbnail(part.id, revFiles),
         licence: rev.licence,
         adaptable: isLicenceId(rev.licence) ? adaptationRule(rev.licence).allowed : false,
         publishedAt: (part.publishedAt ?? rev.updatedAt).toISOString(),

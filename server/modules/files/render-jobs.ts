@@ -1,0 +1,118 @@
+// Draws the shaded preview of each model (render-model.ts) in its own one-thread worker pool, after
+// the model's row has committed. The state and every try are on the row (render_status,
+// render_attempts): a model that fails twice, or took the process down twice, keeps no picture and the
+// shelf shows its photos or a placeholder instead. Pictures live beside the model in store/ as
+// `<storedName>-display.jpg` and `-thumb.jpg`, so the start-up sweep keeps them with their row.
+import type { PartFile } from '../../db/models';
+import type { RenderJob, RenderResult } from './render-model';
+import { removeQuietly } from './storage';
+import { WorkerClosedError, WorkerPool, type WorkerPoolOptions } from './worker-pool';
+
+export const MAX_RENDER_ATTEMPTS = 2;
+
+export const RENDER_POOL: WorkerPoolOptions = {
+  name: 'model pictures',
+  maxThreads: 1,
+  // jobs are only paths; the models wait on disk
+  maxQueue: Number.MAX_SAFE_INTEGER,
+  // a 2.5-million-facet model is 90 MB of positions (outside the heap) plus the picture's buffers
+  memoryMb: 512,
+  timeoutMs: 120_000,
+  nice: 10,
+};
+
+export interface RenderPaths {
+  source: string;
+  display: string;
+  thumbnail: string;
+}
+
+type Reload = () => Promise<PartFile | null>;
+
+export class RenderJobs {
+  private readonly pool: WorkerPool;
+  private inFlight = new Set<Promise<void>>();
+  // one picture at a time, so a try is counted only when its drawing starts (a crash during a long
+  // backfill costs the one model being drawn a try, not every model still waiting)
+  private chain: Promise<void> = Promise.resolve();
+  private closed = false;
+
+  /** `onReady`: a picture was drawn (search's stored thumbnails are refreshed from it). */
+  constructor(options: Partial<WorkerPoolOptions> & { onReady?: (row: PartFile) => void } = {}) {
+    const { onReady, ...pool } = options;
+    this.onReady = onReady;
+    this.pool = new WorkerPool({ ...RENDER_POOL, ...pool });
+  }
+
+  private readonly onReady?: (row: PartFile) => void;
+
+  /** Queues the picture of a model whose row is waiting for one. */
+  render(row: PartFile, paths: RenderPaths, reload: Reload): void {
+    const job: Promise<void> = this.chain
+      .then(() => (this.closed ? undefined : this.renderModel(row, paths, reload)))
+      .catch((err) => console.error(`model ${row.storedName}: the picture could not be drawn:`, err))
+      .finally(() => this.inFlight.delete(job));
+    this.chain = job;
+    this.inFlight.add(job);
+  }
+
+  async settled(): Promise<void> {
+    while (this.inFlight.size) await Promise.all([...this.inFlight]);
+  }
+
+  /** Stops the pool at once: pictures under way stay waiting for the next start without losing a try. */
+  async close(): Promise<void> {
+    this.closed = true;
+    await this.pool.close();
+    await this.settled();
+  }
+
+  private async run(job: RenderJob): Promise<RenderResult> {
+    try {
+      return await this.pool.run('renderModel', job);
+    } catch (err) {
+      if (err instanceof WorkerClosedError) return { ok: false, error: err.message, permanent: false, interrupted: true };
+      return { ok: false, error: err instanceof Error ? err.message : String(err), permanent: false };
+    }
+  }
+
+  private async renderModel(row: PartFile, paths: RenderPaths, reload: Reload): Promise<void> {
+    const outputs = [paths.display, paths.thumbnail];
+    for (;;) {
+      const current = await reload();
+      if (!current) {
+        await removeQuietly(...outputs);
+        return;
+      }
+      if (current.renderStatus !== 'pending') return;
+      if (current.renderAttempts >= MAX_RENDER_ATTEMPTS) {
+        await removeQuietly(...outputs);
+        await current.update({ renderStatus: 'failed' });
+        console.error(`model ${row.storedName}: no picture after ${current.renderAttempts} attempts`);
+        return;
+      }
+      await current.update({ renderAttempts: current.renderAttempts + 1 });
+      const result = await this.run({ ...paths, sizeMm: current.analysis?.sizeMm ?? null });
+      if (!result.ok && result.interrupted) {
+        await current.update({ renderAttempts: current.renderAttempts - 1 });
+        return;
+      }
+      const after = await reload();
+      if (!after) {
+        await removeQuietly(...outputs);
+        return;
+      }
+      if (result.ok) {
+        await after.update({ renderStatus: 'ready' });
+        this.onReady?.(after);
+        return;
+      }
+      await removeQuietly(...outputs);
+      console.error(`model ${row.storedName}: ${result.error}`);
+      if (result.permanent) {
+        await after.update({ renderStatus: 'failed' });
+        return;
+      }
+    }
+  }
+}
