@@ -38,6 +38,7 @@ import type { WantedDetail, WantedList, WantedListItem } from '@shared/api/wante
 import type { BuildInput, BuildPatch } from '@shared/schemas/builds';
 import type { WantedAnswerInput, WantedCloseInput, WantedInput } from '@shared/schemas/wanted';
 import type { SearchSort } from '@shared/schemas/search';
+import type { KitRecallInfo, NoticePreferenceInfo, NoticePreferencesInput } from '@shared/schemas/notices';
 import { forgetCsrfToken, http } from './http';
 
 export { ApiError, isApiError } from './http';
@@ -281,4 +282,24 @@ export const wantedApi = {
   },
   answer: (id: number, input: WantedAnswerInput) => http.post<{ id: number; onShelf: boolean }>(`/api/wanted/${id}/answers`, input),
   close: (id: number, input: WantedCloseInput) => http.post<{ id: number; status: 'closed' }>(`/api/wanted/${id}/close`, input),
+};
+
+/** Which notices the member hears about, and the recall banners on a kit. */
+export const alertsApi = {
+  preferences: async (): Promise<NoticePreferenceInfo[]> => (await http.get<{ preferences: NoticePreferenceInfo[] }>('/api/notices/settings')).preferences,
+  setPreferences: async (input: NoticePreferencesInput): Promise<NoticePreferenceInfo[]> =>
+    (await http.put<{ preferences: NoticePreferenceInfo[] }>('/api/notices/settings', input)).preferences,
+  recalls: async (kitId: number): Promise<KitRecallInfo[]> => (await http.get<{ items: KitRecallInfo[] }>(`${kitPath(kitId)}/recalls`)).items,
+  acknowledgeRecall: (kitId: number, recallId: number) => http.post<void>(`${kitPath(kitId)}/recalls/${recallId}/acknowledge`),
+};
+
+/** Set reports and ratings sent from the offline queue: each carries its key, so a repeat is filed once. */
+export const queuedApi = {
+  fileReport(partId: number, input: SetReportInput, photos: Blob[], key: string): Promise<ReportFiled> {
+    const form = new FormData();
+    form.append('data', JSON.stringify(input));
+    photos.forEach((photo, i) => form.append('photo', photo, photo instanceof File ? photo.name : `photo-${i + 1}.jpg`));
+    return http.postOnce<ReportFiled>(`${partPath(partId)}/reports`, form, key);
+  },
+  rate: (partId: number, input: RatingInput, key: string) => http.postOnce<RatingSaved>(`${partPath(partId)}/ratings`, input, key),
 };

@@ -3,6 +3,7 @@ import { computed, ref } from 'vue';
 import type { LoginInput, RegisterInput } from '@shared/schemas/auth';
 import type { PublicUser, Role } from '@shared/types';
 import { authApi } from '@/api';
+import { useOfflineStore } from '@/stores/offline';
 
 const rank: Record<Role, number> = { member: 0, moderator: 1, admin: 2 };
 
@@ -46,6 +47,8 @@ export const useAuthStore = defineStore('auth', () => {
   async function logout() {
     await authApi.logout();
     user.value = null;
+    // the member's kits and parts kept for no signal leave the device with them
+    await useOfflineStore().forget();
   }
 
   return { user, loaded, signedIn, hasRole, ensureLoaded, login, register, logout };
