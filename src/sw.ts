@@ -8,10 +8,14 @@ import { cleanupOutdatedCaches, createHandlerBoundToURL, precacheAndRoute } from
 import { NavigationRoute, registerRoute } from 'workbox-routing';
 import { CacheFirst, NetworkFirst } from 'workbox-strategies';
 import { ExpirationPlugin } from 'workbox-expiration';
-import type { WorkboxPlugin } from 'workbox-core';
+import { clientsClaim, type WorkboxPlugin } from 'workbox-core';
 import { OFFLINE_CACHE, OFFLINE_IMAGE_CACHE, STORED_AT_HEADER, keepsOfflineCopy, keepsOfflineImage } from './offline/routes';
 
 declare const self: ServiceWorkerGlobalScope;
+
+// a new version takes over at once (the app shell is precached whole, so pages keep working)
+void self.skipWaiting();
+clientsClaim();
 
 precacheAndRoute(self.__WB_MANIFEST);
 cleanupOutdatedCaches();
@@ -41,7 +45,3 @@ registerRoute(
   ({ url, request, sameOrigin }) => sameOrigin && request.method === 'GET' && keepsOfflineImage(url.pathname),
   new CacheFirst({ cacheName: OFFLINE_IMAGE_CACHE, plugins: [new ExpirationPlugin({ maxEntries: 300, maxAgeSeconds: 30 * 24 * 3600 })] }),
 );
-
-self.addEventListener('message', (event) => {
-  if (event.data?.type === 'rigshelf:skip-waiting') void self.skipWaiting();
-});
