@@ -22,8 +22,8 @@ function sheet(paper: LabelPaper, pageSize: LabelSheet['pageSize'], pageMm: [num
 }
 
 export const LABEL_SHEETS: Record<LabelPaper, LabelSheet> = {
-  a4: sheet('a4', 'A4', [210, 297], [63.5, 38.1], 3, 7, [2.5, 0], 'A4, 21 labels of 63.5 × 38.1 mm'),
-  letter: sheet('letter', 'letter', [215.9, 279.4], [66.675, 25.4], 3, 10, [3.175, 0], 'Letter, 30 labels of 2⅝ × 1 in (66.7 × 25.4 mm)'),
+  a4: sheet('a4', 'A4', [210, 297], [63.5, 38.1], 3, 7, [2.5, 0], 'A4 · 21 labels, 63.5 × 38.1 mm'),
+  letter: sheet('letter', 'letter', [215.9, 279.4], [66.675, 25.4], 3, 10, [3.175, 0], 'Letter · 30 labels, 2⅝ × 1 in'),
 };
 
 /** The page margins (top, left) in mm that centre the label grid on the sheet. */

@@ -2,7 +2,7 @@
 // Rigshelf's service worker (built by vite-plugin-pwa, injectManifest). The app shell is precached;
 // what a member needs on set with no signal is kept as they use it: their kits and the figures of the
 // print sheet, the part pages they opened (cautions included) and their photos. Network first, so a
-// copy is only used when the network fails or is too slow; each stored copy carries the time it was
+// copy is only used when the network fails; each stored copy carries the time it was
 // stored (x-rigshelf-stored-at), which the app shows as "as of".
 import { cleanupOutdatedCaches, createHandlerBoundToURL, precacheAndRoute } from 'workbox-precaching';
 import { NavigationRoute, registerRoute } from 'workbox-routing';
@@ -35,8 +35,7 @@ registerRoute(
   ({ url, request, sameOrigin }) => sameOrigin && request.method === 'GET' && keepsOfflineCopy(url.pathname),
   new NetworkFirst({
     cacheName: OFFLINE_CACHE,
-    // a weak signal that answers after 6 s is worse than the copy from this morning
-    networkTimeoutSeconds: 6,
+    // no time limit: a slow answer (a kit summary slicing its models) must not be swapped for an older copy
     plugins: [stampStoredAt, new ExpirationPlugin({ maxEntries: 400, maxAgeSeconds: 30 * 24 * 3600 })],
   }),
 );

@@ -119,7 +119,9 @@ describe('browser · label sheet', () => {
     await rig.screenshot('labels-2-desktop');
     await page.emulateMedia({ media: 'print' });
     await rig.screenshot('labels-3-print-a4');
+    await page.emulateMedia({ media: 'screen' });
     await page.locator('[data-test="labels-paper"]').selectOption('letter');
+    await page.emulateMedia({ media: 'print' });
     await rig.screenshot('labels-4-print-letter');
     await page.emulateMedia({ media: 'screen' });
   });
