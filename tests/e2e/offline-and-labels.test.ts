@@ -1,5 +1,5 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { Kit, SetReport, User } from '../../server/db/models';
+import { Kit, KitItem, KitRecall, SetReport, User } from '../../server/db/models';
 import { DEMO_ACCOUNTS, DEMO_PASSWORD } from '../../server/db/seeders/0001-demo-crew';
 import { signInThroughForm, startBrowserRig, type BrowserRig } from '../helpers/browser';
 
@@ -141,5 +141,40 @@ describe('browser · label sheet', () => {
     await page.locator('[data-test="on-set-report"]').click();
     await page.locator('[data-test="report-form"]').waitFor();
     if (item.recipe) expect(new URL(page.url()).searchParams.get('recipe')).toBe(String(item.recipe.id));
+  });
+});
+
+describe('browser · recall banner', () => {
+  it('recall · a part of the kit was retired · the owner sees the part and the reason, acknowledges it, and it stays gone', async () => {
+    const { page } = rig;
+    await page.setViewportSize({ width: 1366, height: 800 });
+    const owner = (await User.findOne({ where: { email: member.email } }))!;
+    const kit = (await Kit.findOne({ where: { ownerId: owner.id }, order: [['id', 'ASC']] }))!;
+    await KitRecall.update({ acknowledgedAt: new Date(), acknowledgedBy: owner.id }, { where: { kitId: kit.id } });
+    const item = (await KitItem.findOne({ where: { kitId: kit.id }, order: [['position', 'ASC']] }))!;
+    const recall = await KitRecall.create({
+      kitId: kit.id,
+      partId: item.partId,
+      kind: 'retired',
+      partTitle: 'Test bracket',
+      reason: 'Retired from the shelf: the clamp screw strips its thread.',
+      acknowledgedAt: null,
+      acknowledgedBy: null,
+    });
+    await page.goto(`/kits/${kit.id}`);
+    const banner = page.locator('[data-test="kit-recall-retired"]');
+    await banner.waitFor();
+    expect(await banner.textContent()).toContain('the clamp screw strips its thread');
+    await rig.screenshot('recall-1-kit-desktop');
+    await page.setViewportSize({ width: 390, height: 844 });
+    await noHorizontalOverflow();
+    await rig.screenshot('recall-2-kit-phone');
+
+    await banner.locator('[data-test="kit-recall-ack"]').click();
+    await banner.waitFor({ state: 'detached' });
+    expect((await recall.reload()).acknowledgedAt).not.toBeNull();
+    await page.reload();
+    await page.locator('[data-test="kit-name"]').waitFor();
+    expect(await page.locator('[data-test="kit-recalls"]').count()).toBe(0);
   });
 });
