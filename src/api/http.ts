@@ -21,7 +21,12 @@ export function isApiError(err: unknown): err is ApiError {
 let csrfToken: string | null = null;
 
 async function fetchCsrfToken(): Promise<string> {
-  const res = await fetch('/api/auth/csrf', { credentials: 'same-origin' });
+  let res: Response;
+  try {
+    res = await fetch('/api/auth/csrf', { credentials: 'same-origin' });
+  } catch {
+    throw new ApiError(0, 'network', 'Rigshelf cannot be reached. Check the connection and try again.');
+  }
   const body = (await res.json()) as { csrfToken: string };
   csrfToken = body.csrfToken;
   return csrfToken;

@@ -37,6 +37,10 @@ export const useAuthStore = defineStore('auth', () => {
 
   async function login(input: LoginInput) {
     user.value = await authApi.login(input);
+    const offline = useOfflineStore();
+    await offline.forgetCopies();
+    // entries this member wrote offline before their session ran out go now
+    void offline.flush();
   }
 
   /** Resolves with the server's "check your mail" message; the new member signs in after confirming. */
@@ -47,8 +51,9 @@ export const useAuthStore = defineStore('auth', () => {
   async function logout() {
     await authApi.logout();
     user.value = null;
-    // the member's kits and parts kept for no signal leave the device with them
-    await useOfflineStore().forget();
+    // the member's kits and parts kept for no signal leave the device with them; entries they wrote
+    // offline and not yet sent stay, and go with their session when they sign in again
+    await useOfflineStore().forgetCopies();
   }
 
   return { user, loaded, signedIn, hasRole, ensureLoaded, login, register, logout };

@@ -5,6 +5,7 @@ import { isApiError, queuedApi } from '@/api';
 import { onStoredCopy } from '@/api/http';
 import * as queue from '@/offline/queue';
 import { OFFLINE_CACHE, OFFLINE_IMAGE_CACHE } from '@/offline/routes';
+import { useAuthStore } from '@/stores/auth';
 
 const RETRY_MS = 30_000;
 
@@ -26,9 +27,15 @@ export const useOfflineStore = defineStore('offline', () => {
   const waiting = computed(() => entries.value.filter((e) => !e.problem).length);
   const refused = computed(() => entries.value.filter((e) => e.problem));
 
+  /** The signed-in member's entries: another member's wait for them to sign in again. */
+  async function mine(): Promise<queue.QueuedEntry[]> {
+    const me = useAuthStore().user?.id;
+    return me === undefined ? [] : (await queue.all()).filter((e) => e.userId === me);
+  }
+
   async function reload() {
     try {
-      entries.value = await queue.all();
+      entries.value = await mine();
     } catch {
       entries.value = [];
     }
@@ -57,7 +64,8 @@ export const useOfflineStore = defineStore('offline', () => {
       sending.value = true;
       try {
         let sent = 0;
-        for (const entry of await queue.all()) {
+        await useAuthStore().ensureLoaded();
+        for (const entry of await mine()) {
           if (entry.problem) continue;
           const result = await sendOne(entry);
           if (result === 'offline') break;
@@ -75,9 +83,16 @@ export const useOfflineStore = defineStore('offline', () => {
     return running;
   }
 
+  function me(): number {
+    const id = useAuthStore().user?.id;
+    if (id === undefined) throw new Error('Sign in again to keep this on the device.');
+    return id;
+  }
+
   async function queueReport(part: { id: number; slug: string; title: string }, input: SetReportInput, photos: File[]) {
     await queue.put({
       key: queue.newKey(),
+      userId: me(),
       kind: 'report',
       partId: part.id,
       partSlug: part.slug,
@@ -92,7 +107,7 @@ export const useOfflineStore = defineStore('offline', () => {
   }
 
   async function queueRating(part: { id: number; slug: string; title: string }, input: RatingInput) {
-    await queue.put({ key: queue.newKey(), kind: 'rating', partId: part.id, partSlug: part.slug, partTitle: part.title, input, writtenAt: new Date().toISOString(), problem: null });
+    await queue.put({ key: queue.newKey(), userId: me(), kind: 'rating', partId: part.id, partSlug: part.slug, partTitle: part.title, input, writtenAt: new Date().toISOString(), problem: null });
     await reload();
   }
 
@@ -101,12 +116,10 @@ export const useOfflineStore = defineStore('offline', () => {
     await reload();
   }
 
-  /** At sign-out: the member's stored copies and queue leave this device. */
-  async function forget() {
+  /** The stored copies of pages leave the device (at sign-in and sign-out: they belong to one member). */
+  async function forgetCopies() {
     asOf.value = null;
-    await queue.clearAll().catch(() => undefined);
     if (typeof caches !== 'undefined') await Promise.all([caches.delete(OFFLINE_CACHE), caches.delete(OFFLINE_IMAGE_CACHE)]).catch(() => undefined);
-    await reload();
   }
 
   function start() {
@@ -123,10 +136,13 @@ export const useOfflineStore = defineStore('offline', () => {
     timer ??= setInterval(() => {
       if (online.value && waiting.value) void flush();
     }, RETRY_MS);
-    void reload().then(() => {
-      if (online.value && waiting.value) void flush();
-    });
+    void useAuthStore()
+      .ensureLoaded()
+      .then(reload)
+      .then(() => {
+        if (online.value && waiting.value) void flush();
+      });
   }
 
-  return { online, asOf, entries, waiting, refused, sending, lastSent, pageChanged, flush, queueReport, queueRating, drop, forget, start };
+  return { online, asOf, entries, waiting, refused, sending, lastSent, pageChanged, flush, queueReport, queueRating, drop, forgetCopies, start };
 });
