@@ -2,6 +2,7 @@
 import { fileURLToPath, URL } from 'node:url';
 import vue from '@vitejs/plugin-vue';
 import { defineConfig } from 'vite';
+import { VitePWA } from 'vite-plugin-pwa';
 
 const alias = {
   '@': fileURLToPath(new URL('./src', import.meta.url)),
@@ -9,7 +10,39 @@ const alias = {
 };
 
 export default defineConfig({
-  plugins: [vue()],
+  plugins: [
+    vue(),
+    // installable app and the service worker for no signal on set (src/sw.ts, src/offline/)
+    VitePWA({
+      strategies: 'injectManifest',
+      srcDir: 'src',
+      filename: 'sw.ts',
+      injectRegister: false,
+      registerType: 'autoUpdate',
+      manifest: {
+        name: 'Rigshelf',
+        short_name: 'Rigshelf',
+        description: 'The crew’s shelf of vetted printable rigging parts: kits, print sheets and cautions, with or without a signal.',
+        theme_color: '#163733',
+        background_color: '#f5f7f7',
+        display: 'standalone',
+        start_url: '/',
+        scope: '/',
+        icons: [
+          { src: '/icon-192.png', sizes: '192x192', type: 'image/png' },
+          { src: '/icon-512.png', sizes: '512x512', type: 'image/png' },
+          { src: '/icon-maskable-512.png', sizes: '512x512', type: 'image/png', purpose: 'maskable' },
+        ],
+      },
+      injectManifest: {
+        globPatterns: ['**/*.{js,css,html,svg,png,woff2}'],
+        // the icon font's SVG copy is for browsers without woff2
+        globIgnores: ['**/primeicons-*.svg'],
+        maximumFileSizeToCacheInBytes: 4 * 1024 * 1024,
+      },
+      devOptions: { enabled: false },
+    }),
+  ],
   resolve: { alias },
   server: {
     host: '127.0.0.1',

@@ -32,6 +32,9 @@ import { devMailboxRoutes, mailAdminRoutes } from './modules/mail/routes';
 import { evidenceModerationRoutes, flagRoutes, partEvidenceRoutes, profileRoutes } from './modules/evidence/routes';
 import { createEvidenceService } from './modules/evidence/service';
 import { noticesRoutes } from './modules/notices/routes';
+import { createAlerts, tellParentAuthor } from './modules/notices/alerts';
+import { kitRecallRoutes } from './modules/recalls/routes';
+import { createRecallService } from './modules/recalls/service';
 import { estimateRoutes, kitRoutes, priceRoutes, printerRoutes } from './modules/planning/routes';
 import { SliceQueue } from './modules/planning/slice-queue';
 import { createPlanningService } from './modules/planning/service';
@@ -125,13 +128,19 @@ export function createApp({ config, sequelize, mailer }: AppContext) {
     ranking: (partIds) => evidence.rankFigures(partIds),
   });
   // a decision that puts a part on the shelf, replaces its published revision or retires it changes search
-  const wanted = createWantedService({ sequelize, dirs, photos, mail: mailer, publicUrl: config.PUBLIC_URL });
+  const alerts = createAlerts({ mail: mailer, publicUrl: config.PUBLIC_URL });
+  const recalls = createRecallService();
+  const wanted = createWantedService({ sequelize, dirs, photos, mail: mailer, publicUrl: config.PUBLIC_URL, alerts });
   const review = createReviewService({
     sequelize,
     mail: mailer,
     publicUrl: config.PUBLIC_URL,
     onDecided: () => search.scheduleRebuild(),
     onPublished: (part, t) => wanted.partPublished(part, t),
+    onDecision: async (part, action, info, t) => {
+      await recalls.reviewDecision(part, action, info, t);
+      if (action === 'approve') await tellParentAuthor(alerts, part, info.previousRevisionId, t);
+    },
   });
   const parts = createPartsService({
     sequelize,
@@ -143,10 +152,10 @@ export function createApp({ config, sequelize, mailer }: AppContext) {
     onRecovered: (rows) => wanted.resume(rows),
     onVisibilityChanged: () => search.scheduleRebuild(),
   });
-  const evidence = createEvidenceService({ sequelize, dirs, photos, onChanged: () => search.rankingChanged() });
+  const evidence = createEvidenceService({ sequelize, dirs, photos, onChanged: () => search.rankingChanged(), alerts, recalls });
   const crews = createCrewsService({ sequelize, mail: mailer, publicUrl: config.PUBLIC_URL });
   const slicer = new SliceQueue();
-  const planning = createPlanningService({ sequelize, evidence, dirs, slicer });
+  const planning = createPlanningService({ sequelize, evidence, dirs, slicer, alerts });
   const make = createMakeService();
   const payments = createPayments(config);
   const printRequests = createPrintRequestsService({ sequelize, mail: mailer, publicUrl: config.PUBLIC_URL, planning, payments });
@@ -182,7 +191,7 @@ export function createApp({ config, sequelize, mailer }: AppContext) {
   app.use('/api/users', profileRoutes(evidence));
   app.use('/api/review', evidenceModerationRoutes(evidence));
   app.use('/api/review', reviewRoutes(review));
-  app.use('/api/notices', noticesRoutes());
+  app.use('/api/notices', noticesRoutes(alerts));
   app.use('/api/search', buildSearchRoutes(search));
   app.use('/api/search', searchRoutes(search));
   app.use('/api/builds', buildRoutes());
@@ -192,6 +201,7 @@ export function createApp({ config, sequelize, mailer }: AppContext) {
   app.use('/api/printers', calibrationRoutes(make));
   app.use('/api/printers', printerRoutes(planning));
   app.use('/api/me/prices', priceRoutes(planning));
+  app.use('/api/kits', kitRecallRoutes(recalls));
   app.use('/api/kits', madeKitRoutes(make, sequelize));
   app.use('/api/kits', statementRoutes(planning));
   app.use('/api/kits', kitRoutes(planning));

@@ -10,6 +10,7 @@ import './styles.css';
 import App from './App.vue';
 import { router } from './router';
 import { RigshelfPreset } from './theme/preset';
+import { startOffline } from './offline/start';
 
 const app = createApp(App);
 app.use(createPinia());
@@ -23,3 +24,4 @@ app.use(PrimeVue, {
 app.use(ToastService);
 app.use(ConfirmationService);
 app.mount('#app');
+startOffline();

@@ -21,7 +21,12 @@ export function isApiError(err: unknown): err is ApiError {
 let csrfToken: string | null = null;
 
 async function fetchCsrfToken(): Promise<string> {
-  const res = await fetch('/api/auth/csrf', { credentials: 'same-origin' });
+  let res: Response;
+  try {
+    res = await fetch('/api/auth/csrf', { credentials: 'same-origin' });
+  } catch {
+    throw new ApiError(0, 'network', 'Rigshelf cannot be reached. Check the connection and try again.');
+  }
   const body = (await res.json()) as { csrfToken: string };
   csrfToken = body.csrfToken;
   return csrfToken;
@@ -34,8 +39,14 @@ export function forgetCsrfToken() {
 
 type Method = 'GET' | 'POST' | 'PATCH' | 'PUT' | 'DELETE';
 
-async function send<T>(method: Method, path: string, body?: unknown, retried = false): Promise<T> {
-  const headers: Record<string, string> = { Accept: 'application/json' };
+/** Told when a GET was answered by the copy the service worker keeps for no signal (src/sw.ts). */
+let storedCopyListener: ((path: string, storedAt: string) => void) | null = null;
+export function onStoredCopy(listener: (path: string, storedAt: string) => void) {
+  storedCopyListener = listener;
+}
+
+async function send<T>(method: Method, path: string, body?: unknown, retried = false, extraHeaders: Record<string, string> = {}): Promise<T> {
+  const headers: Record<string, string> = { Accept: 'application/json', ...extraHeaders };
   const isForm = typeof FormData !== 'undefined' && body instanceof FormData;
   if (body !== undefined && !isForm) headers['Content-Type'] = 'application/json';
   if (method !== 'GET') headers['X-CSRF-Token'] = csrfToken ?? (await fetchCsrfToken());
@@ -52,6 +63,8 @@ async function send<T>(method: Method, path: string, body?: unknown, retried = f
     throw new ApiError(0, 'network', 'Rigshelf cannot be reached. Check the connection and try again.');
   }
 
+  const storedAt = method === 'GET' ? res.headers.get('x-rigshelf-stored-at') : null;
+  if (storedAt) storedCopyListener?.(path, storedAt);
   if (res.status === 204) return undefined as T;
   const text = await res.text();
   const data = text ? (JSON.parse(text) as unknown) : undefined;
@@ -60,7 +73,7 @@ async function send<T>(method: Method, path: string, body?: unknown, retried = f
   const error = (data as ApiErrorBody | undefined)?.error;
   if (res.status === 403 && error?.code === 'csrf_invalid' && !retried) {
     await fetchCsrfToken();
-    return send<T>(method, path, body, true);
+    return send<T>(method, path, body, true, extraHeaders);
   }
   throw new ApiError(res.status, error?.code ?? 'http_' + res.status, error?.message ?? `Request failed (${res.status}).`, error?.fields);
 }
@@ -116,4 +129,6 @@ export const http = {
   patch: <T>(path: string, body: unknown) => send<T>('PATCH', path, body),
   put: <T>(path: string, body: unknown) => send<T>('PUT', path, body),
   delete: <T>(path: string) => send<T>('DELETE', path),
+  /** A POST that may be sent again (queued offline): the server files it once per key. */
+  postOnce: <T>(path: string, body: unknown, idempotencyKey: string) => send<T>('POST', path, body, false, { 'Idempotency-Key': idempotencyKey }),
 };

@@ -47,6 +47,7 @@ import type { CrewPrinter, PrintRequestDetail, PrintRequestList } from '@shared/
 import type { StatementInfo } from '@shared/api/statement';
 import type { PrintRequestAction } from '@shared/print-requests';
 import type { PrintRequestInput, StatementDetailsInput } from '@shared/schemas/print-requests';
+import type { KitRecallInfo, NoticePreferenceInfo, NoticePreferencesInput } from '@shared/schemas/notices';
 import { forgetCsrfToken, http } from './http';
 
 export { ApiError, isApiError } from './http';
@@ -345,4 +346,24 @@ export const crewsApi = {
   /** Replaces the crews a kit is shared with (kit owner only). */
   setKitCrewShares: (kitId: number, crewShares: { crewId: number; access: 'read' | 'edit' }[]) =>
     http.put<KitCrewShareList>(`${kitPath(kitId)}/crew-shares`, { crewShares }),
+};
+
+/** Which notices the member hears about, and the recall banners on a kit. */
+export const alertsApi = {
+  preferences: async (): Promise<NoticePreferenceInfo[]> => (await http.get<{ preferences: NoticePreferenceInfo[] }>('/api/notices/settings')).preferences,
+  setPreferences: async (input: NoticePreferencesInput): Promise<NoticePreferenceInfo[]> =>
+    (await http.put<{ preferences: NoticePreferenceInfo[] }>('/api/notices/settings', input)).preferences,
+  recalls: async (kitId: number): Promise<KitRecallInfo[]> => (await http.get<{ items: KitRecallInfo[] }>(`${kitPath(kitId)}/recalls`)).items,
+  acknowledgeRecall: (kitId: number, recallId: number) => http.post<void>(`${kitPath(kitId)}/recalls/${recallId}/acknowledge`),
+};
+
+/** Set reports and ratings sent from the offline queue: each carries its key, so a repeat is filed once. */
+export const queuedApi = {
+  fileReport(partId: number, input: SetReportInput, photos: Blob[], key: string): Promise<ReportFiled> {
+    const form = new FormData();
+    form.append('data', JSON.stringify(input));
+    photos.forEach((photo, i) => form.append('photo', photo, photo instanceof File ? photo.name : `photo-${i + 1}.jpg`));
+    return http.postOnce<ReportFiled>(`${partPath(partId)}/reports`, form, key);
+  },
+  rate: (partId: number, input: RatingInput, key: string) => http.postOnce<RatingSaved>(`${partPath(partId)}/ratings`, input, key),
 };

@@ -32,6 +32,8 @@ export type RouteName =
   | 'flags'
   | 'kits'
   | 'kit'
+  | 'kit-labels'
+  | 'part-on-set'
   | 'printers'
   | 'review-queue'
   | 'review-desk'
@@ -88,6 +90,8 @@ const routes: RouteRecordRaw[] = [
       { path: 'print-requests/:id(\\d+)', name: 'print-request', component: () => import('@/views/PrintRequestView.vue'), meta: { auth: true, title: 'Print request' } },
       { path: 'kits', name: 'kits', component: () => import('@/views/KitsView.vue'), meta: { auth: true, title: 'Shoot kits' } },
       { path: 'kits/:id', name: 'kit', component: () => import('@/views/KitView.vue'), meta: { auth: true, title: 'Shoot kit' } },
+      { path: 'kits/:id/labels', name: 'kit-labels', component: () => import('@/views/KitLabelsView.vue'), meta: { auth: true, title: 'Labels' } },
+      { path: 'parts/:id/on-set', name: 'part-on-set', component: () => import('@/views/PartOnSetView.vue'), meta: { title: 'On set' } },
       { path: 'printers', name: 'printers', component: () => import('@/views/PrintersView.vue'), meta: { auth: true, title: 'Printers & prices' } },
       { path: 'builds', name: 'builds', component: () => import('@/views/BuildsView.vue'), meta: { auth: true, title: 'My camera builds' } },
       { path: 'wanted', name: 'wanted', component: () => import('@/views/WantedBoardView.vue'), meta: { auth: true, title: 'Wanted parts' } },

@@ -3,6 +3,7 @@ import { computed, ref } from 'vue';
 import type { LoginInput, RegisterInput } from '@shared/schemas/auth';
 import type { PublicUser, Role } from '@shared/types';
 import { authApi } from '@/api';
+import { useOfflineStore } from '@/stores/offline';
 
 const rank: Record<Role, number> = { member: 0, moderator: 1, admin: 2 };
 
@@ -36,6 +37,10 @@ export const useAuthStore = defineStore('auth', () => {
 
   async function login(input: LoginInput) {
     user.value = await authApi.login(input);
+    const offline = useOfflineStore();
+    await offline.forgetCopies();
+    // entries this member wrote offline before their session ran out go now
+    void offline.flush();
   }
 
   /** Resolves with the server's "check your mail" message; the new member signs in after confirming. */
@@ -46,6 +51,9 @@ export const useAuthStore = defineStore('auth', () => {
   async function logout() {
     await authApi.logout();
     user.value = null;
+    // the member's kits and parts kept for no signal leave the device with them; entries they wrote
+    // offline and not yet sent stay, and go with their session when they sign in again
+    await useOfflineStore().forgetCopies();
   }
 
   return { user, loaded, signedIn, hasRole, ensureLoaded, login, register, logout };

@@ -20,6 +20,9 @@ import { initRecipe, Recipe } from './recipe';
 import { initSession, Session } from './session';
 import { initUser, User } from './user';
 import { initWanted, WantedAnswer, WantedPhoto, WantedRequest } from './wanted';
+import { ClientKey, initClientKey } from './client-key';
+import { initKitRecall, KitRecall } from './kit-recall';
+import { initNoticePreference, NoticePreference } from './notice-preference';
 
 export type { AuditAction } from './audit-event';
 export { ContentFlag, Rating, ReportPhoto, SetReport };
@@ -28,6 +31,7 @@ export type { MadeGeometry } from './kit';
 export { Build, WantedAnswer, WantedPhoto, WantedRequest };
 export { PaymentEvent, PrintRequest, PrintRequestEvent };
 export { Crew, CrewInvitation, CrewMember, KitCrewShare };
+export { ClientKey, KitRecall, NoticePreference };
 export { AccountToken, AuditEvent, CameraBody, MailMessage, Notice, Part, PartFile, PartRevision, Recipe, Session, User };
 
 /** Join rows: which camera bodies a revision fits, which files a revision shows (in order). */
@@ -59,6 +63,9 @@ export function initModels(sequelize: Sequelize) {
   initWanted(sequelize);
   initPrintRequests(sequelize);
   initCrews(sequelize);
+  initNoticePreference(sequelize);
+  initKitRecall(sequelize);
+  initClientKey(sequelize);
   RevisionBody.init(
     {
       revisionId: { type: DataTypes.INTEGER.UNSIGNED, primaryKey: true },

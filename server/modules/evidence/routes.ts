@@ -1,8 +1,10 @@
-import { Router } from 'express';
+import { Router, type Request } from 'express';
 import { z } from 'zod';
 import { flagSchema, ratingSchema, reportFilterSchema, setReportSchema, type RatingInput } from '@shared/schemas/evidence';
 import { idParamSchema } from '@shared/schemas/auth';
 import { noteRequiredSchema } from '@shared/schemas/review';
+import { clientKeySchema } from '@shared/schemas/notices';
+import { AppError } from '../../errors';
 import { currentUser, requireAuth, requireRole } from '../../middleware/auth';
 import { validate } from '../../middleware/validate';
 import { inspectUploads } from '../files/inspect';
@@ -18,12 +20,25 @@ const photoParams = z.object({
   size: z.enum(['thumb', 'display']),
 });
 
+/** The Idempotency-Key a queued (offline) write carries, if any; a malformed one is a 422. */
+function clientKeyOf(req: Request): string | undefined {
+  const raw = req.get('idempotency-key');
+  if (raw === undefined) return undefined;
+  const parsed = clientKeySchema.safeParse(raw);
+  if (!parsed.success) {
+    const message = parsed.error.issues[0]?.message ?? 'The Idempotency-Key header is malformed.';
+    throw new AppError(422, 'validation_failed', message, { idempotencyKey: message });
+  }
+  return parsed.data;
+}
+
 /** /api/parts/:id/ratings, /reports, /proven */
 export function partEvidenceRoutes(evidence: EvidenceService, dirs: UploadDirs) {
   const router = Router();
 
   router.post('/:id/ratings', requireAuth, validate('params', partParam), validate('body', ratingSchema), async (req, res) => {
-    const result = await evidence.rate(currentUser(req)!, req.params.id as string, res.locals.body as RatingInput);
+    const result = await evidence.rate(currentUser(req)!, req.params.id as string, res.locals.body as RatingInput, clientKeyOf(req));
+    if (result.replayed) res.setHeader('Idempotent-Replayed', 'true');
     res.status(result.created ? 201 : 200).json(result.rating);
   });
 
@@ -37,9 +52,12 @@ export function partEvidenceRoutes(evidence: EvidenceService, dirs: UploadDirs) 
     validate('params', partParam),
     ...uploadMiddleware(dirs),
     withUploads(async (req, res) => {
+      const clientKey = clientKeyOf(req);
       const input = parseOrThrow(setReportSchema, multipartFields(req, ['conditions']));
       const files = await inspectUploads(uploadedFiles(req), { drawnInInches: false });
-      res.status(201).json(await evidence.fileReport(currentUser(req)!, req.params.id as string, input, files));
+      const filed = await evidence.fileReport(currentUser(req)!, req.params.id as string, input, files, clientKey);
+      if (filed.replayed) res.setHeader('Idempotent-Replayed', 'true');
+      res.status(filed.replayed ? 200 : 201).json({ id: filed.id });
     }),
   );
 

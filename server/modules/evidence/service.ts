@@ -11,6 +11,9 @@ import type { PhotoJobs } from '../files/photo-jobs';
 import { moveAll, randomStoredName, type UploadDirs } from '../files/storage';
 import { audienceOf, crewWhere, findVisiblePart, isModerator } from '../parts/access';
 import { pathsOf } from '../parts/part-files';
+import type { Alerts } from '../notices/alerts';
+import { reportWarningTexts, type RecallService } from '../recalls/service';
+import { rememberKey, replayOf } from './client-keys';
 
 export interface EvidenceDeps {
   sequelize: Sequelize;
@@ -18,7 +21,13 @@ export interface EvidenceDeps {
   photos: PhotoJobs;
   /** Called after evidence changed (ratings, reports, hiding), e.g. to refresh the search ranking. */
   onChanged?: (partId: number) => void;
+  /** Tells a part's author about a set report saying it deformed, cracked or failed. */
+  alerts?: Alerts;
+  /** Puts a recall banner on kits holding a part when set reports raise a new warning. */
+  recalls?: RecallService;
 }
+
+const TROUBLE: Record<string, string> = { deformed: 'deformed', cracked: 'cracked', failed: 'failed' };
 
 type Target = 'rating' | 'report';
 
@@ -55,7 +64,7 @@ function presentReport(r: SetReport, partId: number) {
   };
 }
 
-export function createEvidenceService({ sequelize, dirs, photos, onChanged }: EvidenceDeps) {
+export function createEvidenceService({ sequelize, dirs, photos, onChanged, alerts, recalls }: EvidenceDeps) {
   async function catalogueMean(): Promise<number | null> {
     const row = (await Rating.findOne({ where: visible, attributes: [[sequelize.fn('AVG', sequelize.col('stars')), 'mean']], raw: true })) as unknown as { mean: string | null } | null;
     return row?.mean == null ? null : Number(row.mean);
@@ -88,9 +97,15 @@ export function createEvidenceService({ sequelize, dirs, photos, onChanged }: Ev
   }
 
   return {
-    async rate(actor: User, partId: string, input: RatingInput) {
+    async rate(actor: User, partId: string, input: RatingInput, clientKey?: string) {
       const part = await partOnShelf(actor, partId);
       if (part.authorId === actor.id) throw AppError.forbidden('You cannot rate your own part; file a set report instead.');
+      type Rated = { created: boolean; rating: { id: number; stars: number; comment: string | null } };
+      const scope = `rating:${part.id}`;
+      if (clientKey) {
+        const seen = await replayOf<Rated>(actor.id, clientKey, scope);
+        if (seen) return { ...seen, created: false, replayed: true };
+      }
       const mine = { partId: part.id, userId: actor.id };
       const values = { stars: input.stars, comment: input.comment ?? null };
       let existing = await Rating.findOne({ where: mine });
@@ -108,7 +123,14 @@ export function createEvidenceService({ sequelize, dirs, photos, onChanged }: Ev
         }
       }
       onChanged?.(part.id);
-      return { created: !existing, rating: { id: rating.id, stars: rating.stars, comment: rating.comment } };
+      const result: Rated = { created: !existing, rating: { id: rating.id, stars: rating.stars, comment: rating.comment } };
+      if (clientKey) {
+        // a repeat that raced this one stored its answer first; both set the same stars
+        await rememberKey(actor.id, clientKey, scope, result).catch((err) => {
+          if (!(err instanceof UniqueConstraintError)) throw err;
+        });
+      }
+      return { ...result, replayed: false };
     },
 
     async ratings(viewer: User | undefined, partId: string) {
@@ -123,7 +145,7 @@ export function createEvidenceService({ sequelize, dirs, photos, onChanged }: Ev
       };
     },
 
-    async fileReport(actor: User, partId: string, input: SetReportInput, files: InspectedFile[]) {
+    async fileReport(actor: User, partId: string, input: SetReportInput, files: InspectedFile[], clientKey?: string) {
       const part = await partOnShelf(actor, partId);
       if (files.some((f) => f.field !== 'photo')) throw new AppError(422, 'validation_failed', 'A set report takes photos only.', { photo: 'Attach photos (JPEG, PNG or WebP) only.' });
       let material = input.material;
@@ -135,42 +157,79 @@ export function createEvidenceService({ sequelize, dirs, photos, onChanged }: Ev
         }
         material ??= recipe.material;
       }
-      const { id, rows } = await transact(sequelize, async (t, attempt) => {
-        const report = await SetReport.create(
-          {
-            partId: part.id,
-            userId: actor.id,
-            production: input.production,
-            daysInUse: input.daysInUse,
-            conditions: input.conditions as SetCondition[],
-            recipeId: input.recipeId ?? null,
-            material: material!,
-            infillPct: input.infillPct ?? null,
-            walls: input.walls ?? null,
-            outcome: input.outcome,
-            notes: input.notes ?? null,
-            hiddenAt: null,
-            hiddenBy: null,
-            hiddenReason: null,
-          },
-          { transaction: t },
-        );
-        const rows: ReportPhoto[] = [];
-        for (const f of files) {
-          rows.push(
-            await ReportPhoto.create(
-              { reportId: report.id, storedName: randomStoredName(''), originalName: f.originalName, sizeBytes: f.size, sha256: f.sha256, width: null, height: null },
-              { transaction: t },
-            ),
+      const scope = `report:${part.id}`;
+      let filed: { id: number; rows: ReportPhoto[]; replayed: boolean };
+      try {
+        filed = await transact(sequelize, async (t, attempt) => {
+          if (clientKey) {
+            const seen = await replayOf<{ id: number }>(actor.id, clientKey, scope, t);
+            if (seen) return { id: seen.id, rows: [] as ReportPhoto[], replayed: true };
+          }
+          const warningsBefore = recalls ? await reportWarningTexts(part.id, t) : [];
+          const report = await SetReport.create(
+            {
+              partId: part.id,
+              userId: actor.id,
+              production: input.production,
+              daysInUse: input.daysInUse,
+              conditions: input.conditions as SetCondition[],
+              recipeId: input.recipeId ?? null,
+              material: material!,
+              infillPct: input.infillPct ?? null,
+              walls: input.walls ?? null,
+              outcome: input.outcome,
+              notes: input.notes ?? null,
+              hiddenAt: null,
+              hiddenBy: null,
+              hiddenReason: null,
+            },
+            { transaction: t },
           );
-        }
-        const moved = await moveAll(rows.map((row, i) => ({ from: files[i].path, to: pathsOf(dirs, { kind: 'photo', storedName: row.storedName }).original })));
-        attempt.onRollback(moved.undo);
-        return { id: report.id, rows };
-      });
-      for (const row of rows) photos.clean(row, () => ReportPhoto.findByPk(row.id));
-      onChanged?.(part.id);
-      return { id };
+          const rows: ReportPhoto[] = [];
+          for (const f of files) {
+            rows.push(
+              await ReportPhoto.create(
+                { reportId: report.id, storedName: randomStoredName(''), originalName: f.originalName, sizeBytes: f.size, sha256: f.sha256, width: null, height: null },
+                { transaction: t },
+              ),
+            );
+          }
+          if (clientKey) await rememberKey(actor.id, clientKey, scope, { id: report.id }, t);
+          if (recalls) await recalls.reportsChanged(part, warningsBefore, await reportWarningTexts(part.id, t), t);
+          if (alerts && TROUBLE[input.outcome] && part.authorId !== actor.id) {
+            const title = (await PartRevision.findByPk(part.publishedRevisionId!, { attributes: ['title'], transaction: t }))?.title ?? part.slug;
+            const where = input.production ? ` on ${input.production}` : '';
+            await alerts.send(
+              [part.authorId],
+              'report_trouble',
+              {
+                title: `Set report: “${title}” ${TROUBLE[input.outcome]}`,
+                body: `${actor.displayName} reports that “${title}” ${TROUBLE[input.outcome]}${where} after ${input.daysInUse} ${input.daysInUse === 1 ? 'day' : 'days'} in use (${material}).`,
+                link: `/parts/${part.slug}#reports`,
+                mail: {
+                  subject: `A set report on your part: ${title} ${TROUBLE[input.outcome]}`,
+                  heading: 'A set report needs your attention',
+                  actionLabel: 'Read the report',
+                  note: input.notes ? { label: `Notes from ${actor.displayName}`, text: input.notes } : null,
+                },
+              },
+              t,
+              actor.id,
+            );
+          }
+          const moved = await moveAll(rows.map((row, i) => ({ from: files[i].path, to: pathsOf(dirs, { kind: 'photo', storedName: row.storedName }).original })));
+          attempt.onRollback(moved.undo);
+          return { id: report.id, rows, replayed: false };
+        });
+      } catch (err) {
+        // the same key sent twice at once: the first to commit filed it, this one answers with its id
+        const seen = clientKey && err instanceof UniqueConstraintError ? await replayOf<{ id: number }>(actor.id, clientKey, scope) : undefined;
+        if (!seen) throw err;
+        filed = { id: seen.id, rows: [], replayed: true };
+      }
+      for (const row of filed.rows) photos.clean(row, () => ReportPhoto.findByPk(row.id));
+      if (!filed.replayed) onChanged?.(part.id);
+      return { id: filed.id, replayed: filed.replayed };
     },
 
     async reports(viewer: User | undefined, partId: string, filter: { material?: string; condition?: string; outcome?: string }) {

@@ -272,3 +272,16 @@ export const mailTemplates: MailTemplates = {
     ]);
   },
 };
+
+/**
+ * The mail beside a member's notice (a troubling set report, an adaptation, a shared kit, a closed
+ * wanted request): the notice's own words, a link, and where to switch this kind off.
+ */
+export function memberAlertMail(p: { subject: string; heading: string; text: string; note?: { label: string; text: string } | null; actionLabel: string; link: string; settingsLink: string }): MailContent {
+  return mail(p.subject, p.heading, [
+    { kind: 'p', text: p.text },
+    ...(p.note?.text.trim() ? [{ kind: 'note', label: p.note.label, text: p.note.text.trim() } as Block] : []),
+    { kind: 'action', label: p.actionLabel, link: p.link },
+    { kind: 'small', text: `You can switch this kind of notice off, for mail or the bell, in your account settings: ${p.settingsLink}` },
+  ]);
+}

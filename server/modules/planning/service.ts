@@ -44,6 +44,7 @@ import type { UploadDirs } from '../files/storage';
 import { pathsOf } from '../parts/part-files';
 import type { SliceQueue } from './slice-queue';
 import type { EvidenceService } from '../evidence/service';
+import type { Alerts } from '../notices/alerts';
 import { audienceOf, crewAllows, findVisiblePart, seesUnpublished, type PartAudience } from '../parts/access';
 import { findKit } from './access';
 import { kitCsv, kitCsvFileName } from './export';
@@ -57,6 +58,8 @@ export interface PlanningDeps {
   slicer: SliceQueue;
   /** Outcome warnings from set reports, per part. */
   evidence: Pick<EvidenceService, 'evidenceFor'>;
+  /** Tells a member a kit was shared with them (bell and mail, as their settings allow). */
+  alerts?: Alerts;
 }
 
 function fieldError(field: string, message: string) {
@@ -177,7 +180,7 @@ function modelFilesOf(revision: PartRevision | undefined): PartFile[] {
   return files.filter((f) => f.kind === 'model');
 }
 
-export function createPlanningService({ sequelize, evidence, dirs, slicer }: PlanningDeps) {
+export function createPlanningService({ sequelize, evidence, dirs, slicer, alerts }: PlanningDeps) {
   async function ownPrinter(owner: User, id: number): Promise<Printer> {
     const printer = await Printer.findOne({ where: { id, ownerId: owner.id } });
     if (!printer) throw AppError.notFound('There is no printer with that id among yours.');
@@ -512,9 +515,25 @@ export function createPlanningService({ sequelize, evidence, dirs, slicer }: Pla
         if (problems.length) {
           throw new AppError(422, 'validation_failed', problems.length === 1 ? problems[0] : 'Some of these members cannot be added; see each entry.', fields);
         }
+        const before = new Set((await KitShare.findAll({ where: { kitId: kit.id }, attributes: ['userId'], transaction: t })).map((s) => s.userId));
         await KitShare.destroy({ where: { kitId: kit.id }, transaction: t });
         await KitShare.bulkCreate(resolved.map((r) => ({ kitId: kit.id, ...r })), { transaction: t });
         await touch(kit, t);
+        const added = resolved.filter((r) => !before.has(r.userId));
+        for (const r of added) {
+          await alerts?.send(
+            [r.userId],
+            'kit_shared',
+            {
+              title: `A shoot kit was shared with you: ${kit.name}`,
+              body: `${viewer.displayName} shared the kit “${kit.name}” with you${r.access === 'edit' ? ' and lets you change it' : ' to read'}.`,
+              link: `/kits/${kit.id}`,
+              mail: { subject: `${viewer.displayName} shared a shoot kit with you: ${kit.name}`, heading: 'A shoot kit is shared with you', actionLabel: 'Open the kit' },
+            },
+            t,
+            viewer.id,
+          );
+        }
       });
       const shares = await KitShare.findAll({ where: { kitId }, include: [{ model: User, as: 'user' }] });
       return { shares: presentShares(shares, 'owner') };

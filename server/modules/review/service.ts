@@ -25,6 +25,11 @@ export interface ReviewDeps {
   onDecided?: (partId: number, action: ReviewAction) => void;
   /** Called inside the approving transaction when a part goes on the shelf (wanted requests hear of it). */
   onPublished?: (part: Part, t: Transaction) => Promise<void>;
+  /**
+   * Called inside every decision's transaction once the part's state is written: recalls on kits and
+   * the adaptation notice. `previousRevisionId` is the revision that was on the shelf before.
+   */
+  onDecision?: (part: Part, action: Exclude<ReviewAction, 'submit'>, info: { previousRevisionId: number | null; note: string | null }, t: Transaction) => Promise<void>;
 }
 
 const AUDIT_ACTION: Record<ReviewAction, AuditAction> = {
@@ -103,7 +108,7 @@ export async function reviewWarnings(detail: PartDetail): Promise<string[]> {
   return warnings;
 }
 
-export function createReviewService({ sequelize, mail, publicUrl, onDecided, onPublished }: ReviewDeps) {
+export function createReviewService({ sequelize, mail, publicUrl, onDecided, onPublished, onDecision }: ReviewDeps) {
   const partLink = (part: Part) => `${publicUrl}/parts/${part.slug}`;
   const deskLink = (part: Part) => `${publicUrl}/review/${part.id}`;
 
@@ -233,6 +238,7 @@ export function createReviewService({ sequelize, mail, publicUrl, onDecided, onP
         fourEyes(actor, part, revision);
         if (action === 'approve' && revision) await notEditedBy(actor, revision, t);
 
+        const previousRevisionId = part.publishedRevisionId;
         const from: ReviewState = action === 'retire' ? (part.status === 'retired' ? 'retired' : part.publishedRevisionId ? 'published' : part.status) : revision!.status;
         const step = transition(from, action);
         if (!step.ok) throw await alreadyDecided(part, revision, step.message, t);
@@ -250,6 +256,7 @@ export function createReviewService({ sequelize, mail, publicUrl, onDecided, onP
           await part.update({ status: 'retired' }, { transaction: t });
         }
         await part.update({ lockVersion: part.lockVersion + 1 }, { transaction: t });
+        await onDecision?.(part, action, { previousRevisionId, note }, t);
 
         const shown = revision ?? (await PartRevision.findByPk(part.publishedRevisionId!, { transaction: t }))!;
         await record(actor, part, revision ?? shown, AUDIT_ACTION[action], note, { from, to: step.to, revision: shown.number, checklist: input.checklist ?? [] }, t);

@@ -22,6 +22,7 @@ import { notices } from '../notices/service';
 import { audienceOf, crewAllows, isModerator } from '../parts/access';
 import { pathsOf } from '../parts/part-files';
 import type { MailQueue } from '../review/service';
+import type { Alerts } from '../notices/alerts';
 
 export interface WantedDeps {
   sequelize: Sequelize;
@@ -29,6 +30,8 @@ export interface WantedDeps {
   photos: PhotoJobs;
   mail: MailQueue;
   publicUrl: string;
+  /** Tells the members who answered a request that it was closed. */
+  alerts?: Alerts;
 }
 
 const notFound = () => AppError.notFound('There is no wanted request with that id. It may have been closed by a moderator.');
@@ -72,7 +75,7 @@ async function partTitle(part: Part, transaction?: Transaction): Promise<string>
   return rev?.title ?? part.slug;
 }
 
-export function createWantedService({ sequelize, dirs, photos, mail, publicUrl }: WantedDeps) {
+export function createWantedService({ sequelize, dirs, photos, mail, publicUrl, alerts }: WantedDeps) {
   const requestLink = (id: number) => `${publicUrl}/wanted/${id}`;
 
   /** Tells the requester that an answer's part is on the shelf; once per answer, inside `t`. */
@@ -285,6 +288,22 @@ export function createWantedService({ sequelize, dirs, photos, mail, publicUrl }
             [request.authorId],
             { kind: 'wanted', title: `Request closed by a moderator: ${request.title}`, body: input.note || (input.reason === 'spam' ? 'Closed as spam.' : 'No note from the moderator.'), link: `/wanted/${request.id}` },
             t,
+          );
+        }
+        if (alerts && input.reason !== 'spam') {
+          const answerers = (await WantedAnswer.findAll({ where: { requestId: request.id }, attributes: ['userId'], transaction: t })).map((a) => a.userId);
+          const how = input.reason === 'solved' ? 'closed it as solved' : 'withdrew it';
+          await alerts.send(
+            answerers.filter((id) => id !== request.authorId),
+            'wanted_closed',
+            {
+              title: `A request you answered is closed: ${request.title}`,
+              body: `${actor.displayName} ${how}.${input.note ? ` “${input.note}”` : ''}`,
+              link: `/wanted/${request.id}`,
+              mail: { subject: `Closed: ${request.title}`, heading: 'A wanted request you answered is closed', actionLabel: 'See the request' },
+            },
+            t,
+            actor.id,
           );
         }
         return { id: request.id, status: 'closed' as const, closeReason: input.reason };
