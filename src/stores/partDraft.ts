@@ -165,6 +165,8 @@ export const usePartDraftStore = defineStore('partDraft', () => {
   const licence = ref<LicenceId | null>(null);
   const safety = reactive<SafetyFlags>(blankSafety());
   const testedLoadKg = ref<number | null>(null);
+  /** Adapting: the contributor has said where their own part is used (nothing comes from the original). */
+  const safetyStated = ref(false);
 
   /** Editing: the fields as loaded, to tell whether anything changed. */
   const baseline = ref('');
@@ -196,13 +198,14 @@ export const usePartDraftStore = defineStore('partDraft', () => {
     licence.value = null;
     Object.assign(safety, blankSafety());
     testedLoadKg.value = null;
+    safetyStated.value = false;
     baseline.value = '';
     errors.value = {};
     checked.value = [];
   }
 
-  /** Fills every field except the files from a part on the shelf. */
-  function fillFrom(part: PartDetail) {
+  /** Fills every field except the files from a part on the shelf; the safety claims only when asked. */
+  function fillFrom(part: PartDetail, { safetyClaims }: { safetyClaims: boolean }) {
     title.value = part.title;
     summary.value = part.summary;
     description.value = part.description;
@@ -218,6 +221,7 @@ export const usePartDraftStore = defineStore('partDraft', () => {
     recipes.value = part.recipes.length
       ? part.recipes.map(({ id: _id, warnings: _w, ...r }) => recipeFormOf(r))
       : [blankRecipe()];
+    if (!safetyClaims) return;
     Object.assign(safety, {
       carriesLoad: part.safety.carriesLoad,
       overhead: part.safety.overhead,
@@ -231,7 +235,9 @@ export const usePartDraftStore = defineStore('partDraft', () => {
     reset(`adapt:${from.id}`);
     mode.value = 'adapt';
     parent.value = from;
-    fillFrom(from);
+    // what the original carries, and what load it was tested with, says nothing about the changed
+    // part: its contributor states both for their own print
+    fillFrom(from, { safetyClaims: false });
     const rule = from.licence.adaptation;
     // keep the parent's licence when an adaptation may carry it, otherwise leave the choice open
     licence.value = isLicenceId(from.licence.id) && rule?.allowedChildIds.includes(from.licence.id) ? from.licence.id : null;
@@ -241,7 +247,7 @@ export const usePartDraftStore = defineStore('partDraft', () => {
     reset(`edit:${part.id}`);
     mode.value = 'edit';
     editing.value = part;
-    fillFrom(part);
+    fillFrom(part, { safetyClaims: true });
     licence.value = isLicenceId(part.licence.id) ? part.licence.id : null;
     existing.value = part.files.map((info) => ({ info, remove: false }));
     baseline.value = JSON.stringify(fields());
@@ -410,6 +416,11 @@ export const usePartDraftStore = defineStore('partDraft', () => {
     return check.ok ? {} : { licence: check.reason };
   }
 
+  function safetyIssues(): Record<string, string> {
+    if (mode.value !== 'adapt' || safetyStated.value) return {};
+    return { safety: 'Say where your adaptation is used: tick what applies (or nothing) and confirm it below. Nothing is copied from the original.' };
+  }
+
   function dimensionIssues(): Record<string, string> {
     const out: Record<string, string> = {};
     keyDimensions.value.forEach((d, i) => {
@@ -431,7 +442,7 @@ export const usePartDraftStore = defineStore('partDraft', () => {
       case 'recipes':
         return schemaIssues(partSubmissionSchema.pick(PICKS.recipes), data);
       case 'licence':
-        return { ...schemaIssues(partSubmissionSchema.pick(PICKS.licence), data), ...licenceIssues() };
+        return { ...schemaIssues(partSubmissionSchema.pick(PICKS.licence), data), ...licenceIssues(), ...safetyIssues() };
       case 'review': {
         const whole = mode.value === 'edit' ? schemaIssues(partUpdateSchema, data) : schemaIssues(partSubmissionSchema, submission());
         const all: Record<string, string> = { ...whole };
@@ -489,7 +500,7 @@ export const usePartDraftStore = defineStore('partDraft', () => {
     files, existing, drawnInInches, modelFiles, photoFiles, sourceFiles, keptModels,
     bodies, mounts, keyDimensions,
     recipes,
-    licence, safety, testedLoadKg,
+    licence, safety, testedLoadKg, safetyStated,
     errors, checked, changed,
     reset, startAdapt, startEdit, setParent,
     addFiles, removeFile, makeCover, setDrawnInInches, filesSaved, fileRemoved,

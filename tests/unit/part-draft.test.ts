@@ -62,6 +62,51 @@ describe('part draft · checking a step', () => {
   });
 });
 
+function partOnShelf(over: Record<string, unknown> = {}) {
+  return {
+    id: 9,
+    slug: 'rod-clamp',
+    title: 'Rod clamp',
+    summary: 'Holds a 15 mm rod',
+    description: 'A clamp for 15 mm rods.',
+    category: { slug: 'clamps' },
+    compatibility: { bodies: [], mounts: [], keyDimensions: [] },
+    recipes: [],
+    files: [],
+    licence: { id: 'CC-BY-4.0', adaptation: { allowed: true, allowedChildIds: ['CC-BY-4.0'], reason: '' } },
+    safety: { carriesLoad: true, overhead: true, vehicle: false, heat: false, testedLoadKg: 1.2 },
+    ...over,
+  } as unknown as Parameters<ReturnType<typeof usePartDraftStore>['startAdapt']>[0];
+}
+
+describe('part draft · adapting a part', () => {
+  it('part draft · adapting a part that carries 1.2 kg overhead · starts with no safety flag and no tested load', () => {
+    const draft = usePartDraftStore();
+    draft.startAdapt(partOnShelf());
+    expect(draft.safety).toEqual({ carriesLoad: false, overhead: false, vehicle: false, heat: false });
+    expect(draft.testedLoadKg).toBeNull();
+    expect(draft.submission().safety.carriesLoad).toBe(false);
+    expect(draft.submission().testedLoadKg).toBeNull();
+  });
+
+  it('part draft · adapting without confirming the safety step · the licence step asks the contributor to state it', () => {
+    const draft = usePartDraftStore();
+    draft.startAdapt(partOnShelf());
+    expect(draft.checkStep('licence')).toBe(false);
+    expect(draft.errors.safety).toContain('Nothing is copied from the original');
+    draft.safetyStated = true;
+    expect(draft.checkStep('licence')).toBe(true);
+  });
+
+  it('part draft · editing a part · keeps its stated flags and tested load', () => {
+    const draft = usePartDraftStore();
+    draft.startEdit(partOnShelf({ author: { id: 1 } }));
+    expect(draft.safety.carriesLoad).toBe(true);
+    expect(draft.testedLoadKg).toBe(1.2);
+    expect(draft.checkStep('licence')).toBe(true);
+  });
+});
+
 describe('format · sizes', () => {
   it('format · a 20 × 30 × 10 mm box · reads in mm and in inches (25.4 mm per inch)', () => {
     expect(formatSizeMm([20, 30, 10])).toBe('20 × 30 × 10 mm');
