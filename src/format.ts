@@ -79,6 +79,11 @@ export function formatPercent(share: number): string {
   return `${Math.round(share * 100)} %`;
 }
 
+/** The set-report counts, first and as crews say them: "2 of 2 held up". */
+export function formatHeldUp(heldUp: number, reports: number): string {
+  return `${formatCount(heldUp)} of ${formatCount(reports)} held up`;
+}
+
 /** "1 report", "3 reports" */
 export function plural(n: number, one: string, many = `${one}s`): string {
   return `${formatCount(n)} ${n === 1 ? one : many}`;
