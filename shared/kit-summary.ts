@@ -344,7 +344,7 @@ export function summariseKit(plan: KitPlan): KitSummary {
   ];
   if (plan.heatExposure) {
     const exposure = heatExposureInfo(plan.heatExposure);
-    assumptions.push(`Heat: ${exposure.label.toLowerCase()}, about ${exposure.temperatureC} °C.`);
+    assumptions.push(`Heat: ${exposure.label.toLowerCase()}, about ${Math.round(exposure.temperatureC)} °C.`);
   }
 
   return {

@@ -59,6 +59,8 @@ export interface PriceSheetInfo {
   /** Materials the member priced themselves. */
   custom: MaterialId[];
   pricePerKwh: number | null;
+  /** ISO 4217 code the prices are in (shared/money.ts). */
+  currency: string;
   /** Null until the member first saves prices. */
   updatedAt: string | null;
 }
@@ -147,5 +149,7 @@ export interface KitSummaryResponse extends Omit<KitSummary, 'items'> {
     printHoursPerDay: number;
     printerPrice: number | null;
   };
+  /** Every cost and price of the kit is in this currency (ISO 4217): the kit owner's. */
+  currency: string;
   items: (KitItemSummary & { part: { id: number; slug: string } })[];
 }

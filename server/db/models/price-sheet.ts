@@ -7,6 +7,8 @@ export class PriceSheet extends Model<InferAttributes<PriceSheet>, InferCreation
   declare userId: number;
   declare pricesPerKg: Partial<Record<MaterialId, number>>;
   declare pricePerKwh: number | null;
+  /** ISO 4217; null until the member picks one. */
+  declare currency: CreationOptional<string | null>;
   declare createdAt: CreationOptional<Date>;
   declare updatedAt: CreationOptional<Date>;
 }
@@ -17,6 +19,7 @@ export function initPriceSheet(sequelize: Sequelize) {
       userId: { type: DataTypes.INTEGER.UNSIGNED, primaryKey: true },
       pricesPerKg: jsonColumn<Partial<Record<MaterialId, number>>>('pricesPerKg', false, {}),
       pricePerKwh: decimalColumn('pricePerKwh', 8, 4, true),
+      currency: { type: DataTypes.CHAR(3), allowNull: true },
       createdAt: DataTypes.DATE,
       updatedAt: DataTypes.DATE,
     },

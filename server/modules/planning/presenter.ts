@@ -2,6 +2,7 @@
 import { Op } from 'sequelize';
 import type { KitAccess, KitDetail, KitItemInfo, KitListItem, KitRecipeRef, KitShareInfo, PrinterInfo, PriceSheetInfo } from '@shared/api/planning';
 import { DEFAULT_PRICE_PER_KG } from '@shared/estimate';
+import { DEFAULT_CURRENCY } from '@shared/money';
 import { MATERIAL_IDS, type MaterialId } from '@shared/materials';
 import { Kit, KitItem, KitShare, Part, PartRevision, Printer, Recipe, User, type PriceSheet } from '../../db/models';
 
@@ -32,6 +33,7 @@ export function presentPriceSheet(sheet: PriceSheet | null): PriceSheetInfo {
     defaults: { ...DEFAULT_PRICE_PER_KG },
     custom: MATERIAL_IDS.filter((m) => own[m] !== undefined),
     pricePerKwh: sheet?.pricePerKwh ?? null,
+    currency: sheet?.currency ?? DEFAULT_CURRENCY,
     updatedAt: sheet?.updatedAt?.toISOString() ?? null,
   };
 }

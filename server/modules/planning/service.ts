@@ -43,6 +43,7 @@ import type { EvidenceService } from '../evidence/service';
 import { findVisiblePart, seesUnpublished } from '../parts/access';
 import { findKit } from './access';
 import { kitCsv, kitCsvFileName } from './export';
+import { DEFAULT_CURRENCY } from '@shared/money';
 import { effectivePrices, isOnShelfForKits, loadItems, presentItem, presentKit, presentKitList, presentPrinter, presentPriceSheet, presentShares } from './presenter';
 
 export interface PlanningDeps {
@@ -299,7 +300,7 @@ export function createPlanningService({ sequelize, evidence, dirs, slicer }: Pla
 
     /** Replaces the member's prices: materials not named go back to the default. */
     async setPrices(user: User, input: PriceSheetInput): Promise<PriceSheetInfo> {
-      await PriceSheet.upsert({ userId: user.id, pricesPerKg: input.prices, pricePerKwh: input.pricePerKwh ?? null });
+      await PriceSheet.upsert({ userId: user.id, pricesPerKg: input.prices, pricePerKwh: input.pricePerKwh ?? null, ...(input.currency ? { currency: input.currency } : {}) });
       return presentPriceSheet(await PriceSheet.findByPk(user.id));
     },
 
@@ -607,6 +608,7 @@ export function createPlanningService({ sequelize, evidence, dirs, slicer }: Pla
         printHoursPerDay: kit.printHoursPerDay,
         printerPrice: kit.printerPrice,
       },
+      currency: sheet?.currency ?? DEFAULT_CURRENCY,
       ...summary,
       items: summary.items.map((s, i) => ({ ...s, part: { id: planned[i].item.part!.id, slug: planned[i].item.part!.slug } })),
       assumptions: [...summary.assumptions, ...skipped],
