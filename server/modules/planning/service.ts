@@ -577,6 +577,7 @@ export function createPlanningService({ sequelize, evidence, dirs, slicer }: Pla
             infillPct: recipe.infillPct,
             speedMmS: recipe.speedMmS,
           },
+          orientationNote: recipe.orientationNote,
           printer: printer ? { id: printer.id, name: printer.name, bedMm: printer.bedMm(), bedMarginMm: printer.bedMarginMm, nozzleMm: printer.nozzleMm, watts: printer.watts } : null,
           safety: { carriesLoad: revision.carriesLoad, overhead: revision.overhead, vehicle: revision.vehicle, heat: revision.heat },
           testedLoadKg: revision.testedLoadKg,
