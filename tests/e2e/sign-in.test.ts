@@ -1,5 +1,7 @@
 import { existsSync } from 'node:fs';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { Op } from 'sequelize';
+import { MailMessage } from '../../server/db/models';
 import { DEMO_ACCOUNTS, DEMO_PASSWORD } from '../../server/db/seeders/0001-demo-crew';
 import { forgetSession, signInThroughForm, startBrowserRig, type BrowserRig } from '../helpers/browser';
 
@@ -55,5 +57,34 @@ describe('browser · sign-in', () => {
     expect(await sent.textContent()).toContain(`Check your mail: a message is on its way to ${email}`);
     expect(await page.locator('[data-test="account-button"]').count()).toBe(0);
     await rig.screenshot('register-check-your-mail');
+
+    // the first sign-in of the new account: no "welcome back", a prompt to confirm the address
+    await signInThroughForm(page, email, 'gaffer tape and a quiet dolly');
+    await page.waitForURL((url) => url.pathname === '/');
+    const welcome = page.locator('[data-test="welcome"]');
+    await welcome.waitFor();
+    expect(await welcome.textContent()).toContain('Welcome to the shelf, Bea Browser');
+    expect(await welcome.textContent()).not.toContain('back');
+    const prompt = page.locator('[data-test="confirm-email-prompt"]');
+    expect(await prompt.textContent()).toContain(email);
+    await page.locator('[data-test="confirm-email-resend"]').click();
+    await page.locator('[data-test="confirm-email-sent"]').waitFor();
+    expect(await page.locator('[data-test="confirm-email-sent"]').textContent()).toContain(`on its way to ${email}`);
+    await rig.screenshot('register-first-sign-in');
+
+    // the newest link confirms it, and the page leads on
+    const mails = await MailMessage.findAll({ where: { toAddress: { [Op.like]: `%${email}%` } }, order: [['id', 'DESC']] });
+    const link = /\/verify-email\?token=[^\s"<]+/.exec(mails[0].textBody ?? '')![0];
+    await page.goto(link);
+    await page.locator('[data-test="verified-next"]').waitFor();
+    expect(await page.locator('[data-test="verified-next"]').textContent()).toContain('Find a part for your rig');
+    expect(await page.getByText('Ask for a new link').count()).toBe(0);
+    await rig.screenshot('register-confirmed');
+    await page.locator('[data-test="verified-next"]').getByText('Find a part for your rig').click();
+    await page.waitForURL((url) => url.pathname === '/search');
+    await page.goto('/');
+    await welcome.waitFor();
+    expect(await welcome.textContent()).toContain('Welcome back, Bea Browser');
+    expect(await prompt.count()).toBe(0);
   });
 });
