@@ -3,7 +3,7 @@
 // leaves the flow to look something up comes back to what they typed.
 import { UPLOAD_LIMITS } from '@shared/uploads';
 import { defineStore } from 'pinia';
-import { computed, markRaw, reactive, ref } from 'vue';
+import { computed, markRaw, reactive, ref, toRaw } from 'vue';
 import type { z } from 'zod';
 import type { PartDetail } from '@shared/api/parts';
 import type { CategorySlug, MountSlug, SafetyFlags } from '@shared/catalogue';
@@ -138,6 +138,28 @@ function lengthOf(text: string): number | undefined {
 const LENGTH_HINT = 'Write a length such as 15, 15 mm or 5/8 in.';
 
 export type DraftMode = 'new' | 'adapt' | 'edit';
+
+/** What a draft keeps between visits (src/draftStorage.ts): the typed fields and the chosen files. */
+export interface PartDraftSnapshot {
+  fields: {
+    title: string;
+    summary: string;
+    description: string;
+    category: CategorySlug | null;
+    drawnInInches: boolean;
+    bodies: string[];
+    mounts: { slug: MountSlug; note: string }[];
+    keyDimensions: KeyDimensionRow[];
+    recipes: RecipeForm[];
+    licence: LicenceId | null;
+    safety: SafetyFlags;
+    testedLoadKg: number | null;
+    safetyStated: boolean;
+  };
+  files: { kind: FileKind; file: File }[];
+  /** Editing: files on the part the contributor marked for removal. */
+  removing: number[];
+}
 
 export const usePartDraftStore = defineStore('partDraft', () => {
   /** "new", "adapt:12" or "edit:12": the flow the fields belong to. */
@@ -484,6 +506,67 @@ export const usePartDraftStore = defineStore('partDraft', () => {
     return partSubmissionSchema.parse(submission());
   }
 
+  function snapshot(): PartDraftSnapshot {
+    const fields = JSON.parse(
+      JSON.stringify({
+        title: title.value,
+        summary: summary.value,
+        description: description.value,
+        category: category.value,
+        drawnInInches: drawnInInches.value,
+        bodies: bodies.value,
+        mounts: mounts.value,
+        keyDimensions: keyDimensions.value,
+        recipes: recipes.value,
+        licence: licence.value,
+        safety,
+        testedLoadKg: testedLoadKg.value,
+        safetyStated: safetyStated.value,
+      }),
+    ) as PartDraftSnapshot['fields'];
+    return {
+      fields,
+      files: files.value.filter((f) => !f.error).map((f) => ({ kind: f.kind, file: toRaw(f.file) })),
+      removing: existing.value.filter((e) => e.remove).map((e) => e.info.id),
+    };
+  }
+
+  /** Puts a kept draft back on top of the flow already started (reset, adapt or edit). */
+  function restore(saved: PartDraftSnapshot) {
+    const f = saved.fields;
+    title.value = f.title;
+    summary.value = f.summary;
+    description.value = f.description;
+    category.value = f.category;
+    drawnInInches.value = f.drawnInInches;
+    bodies.value = [...f.bodies];
+    mounts.value = f.mounts.map((m) => ({ ...m }));
+    keyDimensions.value = f.keyDimensions.map((d) => ({ ...d, uid: uid() }));
+    recipes.value = f.recipes.length ? f.recipes.map((r) => ({ ...blankRecipe(r.purpose), ...r, uid: uid() })) : [blankRecipe()];
+    licence.value = f.licence;
+    Object.assign(safety, f.safety);
+    testedLoadKg.value = f.testedLoadKg;
+    safetyStated.value = f.safetyStated;
+    for (const e of existing.value) e.remove = saved.removing.includes(e.info.id);
+    for (const kind of ['model', 'photo', 'source'] as const) {
+      const chosen = saved.files.filter((x) => x.kind === kind).map((x) => x.file);
+      if (chosen.length) addFiles(kind, chosen);
+    }
+  }
+
+  /** Anything typed or chosen that a reload would otherwise lose. */
+  const hasContent = computed(() => {
+    if (mode.value === 'edit') return changed.value;
+    const s = snapshot();
+    const blank = JSON.stringify({ ...blankRecipe(), uid: '' });
+    return !!(
+      s.fields.title.trim() || s.fields.summary.trim() || s.fields.description.trim() || s.fields.category ||
+      s.files.length || s.fields.bodies.length || s.fields.mounts.length || s.fields.keyDimensions.length ||
+      s.fields.recipes.length !== 1 || JSON.stringify({ ...s.fields.recipes[0], uid: '' }) !== blank ||
+      (mode.value === 'new' && s.fields.licence) || Object.values(s.fields.safety).some(Boolean) || s.fields.safetyStated
+    );
+  });
+
   /** Editing: whether the fields or the files differ from what was loaded. */
   const changed = computed(
     () => files.value.length > 0 || existing.value.some((e) => e.remove) || JSON.stringify(fields()) !== baseline.value,
@@ -501,7 +584,8 @@ export const usePartDraftStore = defineStore('partDraft', () => {
     bodies, mounts, keyDimensions,
     recipes,
     licence, safety, testedLoadKg, safetyStated,
-    errors, checked, changed,
+    errors, checked, changed, hasContent,
+    snapshot, restore,
     reset, startAdapt, startEdit, setParent,
     addFiles, removeFile, makeCover, setDrawnInInches, filesSaved, fileRemoved,
     submission, checkStep, recheck, stepHasErrors, takeServerErrors, validSubmission, validUpdate,

@@ -107,6 +107,43 @@ describe('part draft · adapting a part', () => {
   });
 });
 
+describe('part draft · kept between visits', () => {
+  it('part draft · a snapshot put back on a fresh form · restores every field and the chosen files', () => {
+    const first = usePartDraftStore();
+    first.startAdapt(partOnShelf());
+    first.title = 'Shorter rod clamp';
+    first.keyDimensions.push({ ...first.newKeyDimension(), name: 'rod bore', value: '15.2', tol: '0.1' });
+    first.recipes[0].infillPct = 35;
+    first.safety.overhead = true;
+    first.safetyStated = true;
+    first.addFiles('source', [new File(['solid'], 'clamp.step', { type: 'application/octet-stream' })]);
+    // IndexedDB stores a structured clone (Node's cannot clone a File; the browser's can)
+    const taken = first.snapshot();
+    const saved = { ...taken, fields: structuredClone(taken.fields) };
+
+    setActivePinia(createPinia());
+    const again = usePartDraftStore();
+    again.startAdapt(partOnShelf());
+    expect(again.title).toBe('Rod clamp');
+    again.restore(saved);
+    expect(again.title).toBe('Shorter rod clamp');
+    expect(again.keyDimensions[0]).toMatchObject({ name: 'rod bore', value: '15.2', tol: '0.1' });
+    expect(again.recipes[0].infillPct).toBe(35);
+    expect(again.safety.overhead).toBe(true);
+    expect(again.safetyStated).toBe(true);
+    expect(again.sourceFiles.map((f) => f.file.name)).toEqual(['clamp.step']);
+    expect(again.hasContent).toBe(true);
+  });
+
+  it('part draft · a blank new form · has nothing worth keeping', () => {
+    const draft = usePartDraftStore();
+    draft.reset('new');
+    expect(draft.hasContent).toBe(false);
+    draft.summary = 'x';
+    expect(draft.hasContent).toBe(true);
+  });
+});
+
 describe('format · sizes', () => {
   it('format · a 20 × 30 × 10 mm box · reads in mm and in inches (25.4 mm per inch)', () => {
     expect(formatSizeMm([20, 30, 10])).toBe('20 × 30 × 10 mm');
