@@ -1,7 +1,7 @@
 import { existsSync } from 'node:fs';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { Op } from 'sequelize';
-import { MailMessage } from '../../server/db/models';
+import { request } from 'playwright-core';
+import type { MailboxMessage } from '@shared/types';
 import { DEMO_ACCOUNTS, DEMO_PASSWORD } from '../../server/db/seeders/0001-demo-crew';
 import { forgetSession, signInThroughForm, startBrowserRig, type BrowserRig } from '../helpers/browser';
 
@@ -73,8 +73,21 @@ describe('browser · sign-in', () => {
     await rig.screenshot('register-first-sign-in');
 
     // the newest link confirms it, and the page leads on
-    const mails = await MailMessage.findAll({ where: { toAddress: { [Op.like]: `%${email}%` } }, order: [['id', 'DESC']] });
-    const link = /\/verify-email\?token=[^\s"<]+/.exec(mails[0].textBody ?? '')![0];
+    // the link as delivered: the local fake SMTP server's mailbox, read as the demo admin
+    const admin = DEMO_ACCOUNTS.find((a) => a.role === 'admin')!;
+    const asAdmin = await request.newContext({ baseURL: rig.server.url });
+    const csrf = (await (await asAdmin.get('/api/auth/csrf')).json()).csrfToken as string;
+    await asAdmin.post('/api/auth/login', { headers: { 'X-CSRF-Token': csrf }, data: { email: admin.email, password: DEMO_PASSWORD } });
+    let link = '';
+    await expect
+      .poll(async () => {
+        const items = ((await (await asAdmin.get('/api/dev/mailbox')).json()).items ?? []) as MailboxMessage[];
+        const newest = items.find((m) => m.to.some((to) => to.includes(email)) && /verify-email\?token=/.test(m.text));
+        link = newest ? /\/verify-email\?token=[^\s"<>]+/.exec(newest.text)![0] : '';
+        return link;
+      }, { timeout: 30_000 })
+      .not.toBe('');
+    await asAdmin.dispose();
     await page.goto(link);
     await page.locator('[data-test="verified-next"]').waitFor();
     expect(await page.locator('[data-test="verified-next"]').textContent()).toContain('Find a part for your rig');
