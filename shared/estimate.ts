@@ -312,6 +312,8 @@ export interface BedFitResult {
   /** For 'diagonal': angle between the footprint's long side and the bed's x edge. */
   angleDeg?: number;
   message: string;
+  /** When the recipe says how to lay the part: its words, and whether this placement keeps to them. */
+  recipe?: { words: string; followed: boolean };
 }
 
 /** Rounding slack so a part exactly as big as the usable bed fits (our choice, far below a micron). */
@@ -350,10 +352,10 @@ function formatMm(sides: readonly number[]): string {
   return `${sides.map((side) => round(side, 1)).join(' × ')} mm`;
 }
 
-function diagonalFit(part: Size3, bed: Size3): BedFitResult | null {
+function diagonalFit(part: Size3, bed: Size3, verticals: readonly (0 | 1 | 2)[] = [2, 0, 1]): BedFitResult | null {
   const [bedX, bedY, bedZ] = bed;
   const [a, b] = bedX >= bedY ? [bedX, bedY] : [bedY, bedX];
-  for (const vertical of [2, 0, 1] as const) {
+  for (const vertical of verticals) {
     const height = part[vertical];
     if (height > bedZ + FIT_TOLERANCE_MM) continue;
     const [s, t] = part.filter((_, axis) => axis !== vertical);
@@ -381,6 +383,38 @@ export const DEFAULT_BED_MARGIN_MM = 5;
 export interface BedFitOptions {
   /** Kept free on each side of the bed's x and y; default DEFAULT_BED_MARGIN_MM. */
   marginMm?: number;
+  /** The recipe's orientation note ("Flat face on the bed"): tried first when it says how to lay the part. */
+  orientationNote?: string | null;
+}
+
+/** How a recipe can say a part lies: on its largest face, on its long edge, or standing on its end. */
+export type StatedPose = 'flat' | 'edge' | 'upright';
+
+// Words crews write in a recipe's orientation note (our own list). The earliest match wins, so
+// "Flat side down, rod bore upright" reads as flat: later words describe a feature, not the part.
+const POSE_WORDS: readonly { pose: StatedPose; pattern: RegExp }[] = [
+  { pose: 'flat', pattern: /\b(flat|lying|lie it down|laid down|lay it down|largest face|biggest face|widest face)\b/ },
+  { pose: 'edge', pattern: /\bon (?:its |the |a )?(?:long |longer |short |narrow )?(?:edge|side)\b/ },
+  { pose: 'upright', pattern: /\b(upright|standing|stand it|stood|on (?:its |the )?end|vertical(?:ly)?|tall way)\b/ },
+];
+
+/** The pose a recipe's orientation note asks for, or null when it says none we can read. */
+export function statedPose(note: string | null | undefined): StatedPose | null {
+  if (!note) return null;
+  const text = note.toLowerCase();
+  let best: { pose: StatedPose; at: number } | null = null;
+  for (const { pose, pattern } of POSE_WORDS) {
+    const at = text.search(pattern);
+    if (at >= 0 && (!best || at < best.at)) best = { pose, at };
+  }
+  return best?.pose ?? null;
+}
+
+/** Which modelled axis stands up in a pose: the shortest side for flat, the middle for edge, the longest upright. */
+function verticalAxisFor(pose: StatedPose, part: Size3): 0 | 1 | 2 {
+  // ties keep the modelled z up where it is one of the candidates
+  const axes = ([2, 0, 1] as const).slice().sort((i, j) => part[i] - part[j]);
+  return pose === 'flat' ? axes[0] : pose === 'edge' ? axes[1] : axes[2];
 }
 
 export function fitOnBed(partSizeMm: Size3, fullBedMm: Size3, options: BedFitOptions = {}): BedFitResult {
@@ -388,6 +422,45 @@ export function fitOnBed(partSizeMm: Size3, fullBedMm: Size3, options: BedFitOpt
   [...partSizeMm, ...fullBedMm, marginMm].forEach((side) => requireAtLeast('Each size', side, 0));
   const bedMm: Size3 = [Math.max(0, fullBedMm[0] - 2 * marginMm), Math.max(0, fullBedMm[1] - 2 * marginMm), fullBedMm[2]];
   const bedText = marginMm > 0 ? `${formatMm(fullBedMm)} bed (keeping ${round(marginMm, 1)} mm round the edge for a brim or skirt)` : `${formatMm(fullBedMm)} bed`;
+  const pose = statedPose(options.orientationNote);
+  if (pose) return fitAsStated(partSizeMm, bedMm, bedText, pose, options.orientationNote!.trim());
+  return fitAnyWay(partSizeMm, bedMm, bedText);
+}
+
+/** The recipe's way first; another way only when that does not fit, saying that it differs. */
+function fitAsStated(part: Size3, bedMm: Size3, bedText: string, pose: StatedPose, note: string): BedFitResult {
+  const words = note.length > 80 ? `${note.slice(0, 77)}…` : note;
+  const up = verticalAxisFor(pose, part);
+  const [i, j] = ([0, 1, 2] as const).filter((axis) => axis !== up);
+  for (const placed of [[part[i], part[j], part[up]], [part[j], part[i], part[up]]] as [number, number, number][]) {
+    if (!fitsAligned(placed, bedMm)) continue;
+    const asModelled = placed.every((side, axis) => side === part[axis]);
+    return {
+      fits: asModelled ? 'as-is' : 'rotated',
+      orientation: placed,
+      message: `Fits the ${bedText} laid as the recipe says (“${words}”): ${formatMm(placed)} (x × y × z).`,
+      recipe: { words, followed: true },
+    };
+  }
+  const diagonal = diagonalFit(part, bedMm, [up]);
+  if (diagonal) {
+    return { ...diagonal, message: `Laid as the recipe says (“${words}”), it ${diagonal.message.charAt(0).toLowerCase()}${diagonal.message.slice(1)}`, recipe: { words, followed: true } };
+  }
+  const other = fitAnyWay(part, bedMm, bedText);
+  const needs = `Laid as the recipe says (“${words}”), it needs ${formatMm([part[i], part[j]])} of bed and ${round(part[up], 1)} mm of height`;
+  if (other.fits === 'no') return { ...other, message: `${needs}; ${other.message.charAt(0).toLowerCase()}${other.message.slice(1)}`, recipe: { words, followed: false } };
+  const how =
+    other.fits === 'as-is'
+      ? `as modelled, ${formatMm(part)} (x × y × z)`
+      : other.fits === 'rotated' ? `turned to ${formatMm(other.orientation!)} (x × y × z)` : other.message.replace(/^Fits only diagonally: /, 'diagonally: ').replace(/\.$/, '');
+  return {
+    ...other,
+    message: `${needs}, more than this bed has. Here it must lie another way than the recipe says: ${how}. Check that the layer lines still suit the load before printing it so.`,
+    recipe: { words, followed: false },
+  };
+}
+
+function fitAnyWay(partSizeMm: Size3, bedMm: Size3, bedText: string): BedFitResult {
   if (fitsAligned(partSizeMm, bedMm)) {
     return { fits: 'as-is', orientation: [...partSizeMm], message: `Fits the ${bedText} as modelled.` };
   }

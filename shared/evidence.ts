@@ -129,13 +129,28 @@ export function evidenceWarnings(reports: readonly ReportFacts[]): EvidenceWarni
   return warnings;
 }
 
+/** The counts, as crews say them: "2 of 2 held up". */
+export function provenCounts(f: Pick<ProvenFigures, 'heldUp' | 'reports'>): string {
+  return `${f.heldUp} of ${f.reports} held up`;
+}
+
+/**
+ * The cautious lower bound (Wilson, 95 %) in words: what a crew can plan on, and why it is lower
+ * than the counts suggest when there are few reports. Ranking still sorts by the bound itself.
+ */
+export function provenCaution(f: ProvenFigures): string {
+  if (f.reports === 0) return '';
+  const n = Math.round(f.proven * 100);
+  const few = f.reports < 10 ? `${f.reports === 1 ? 'One report is' : `${f.reports} reports are`} not much to go on, so we` : 'We';
+  return `${few} plan on the safe side: count on at least ${n} in every 100 prints holding up. That figure climbs as more crews report it held up.`;
+}
+
 export function provenSentence(f: ProvenFigures, notCounted = 0): string {
   const aside = notCounted
     ? ` ${notCounted} more ${notCounted === 1 ? 'report is' : 'reports are'} not counted (the author's own, or repeats by one member on one production).`
     : '';
   if (f.reports === 0) return `No set reports yet: nobody has said how it holds up on a job.${aside}`;
-  const pct = Math.round(f.proven * 100);
-  return `${f.heldUp} of ${f.reports} set reports say it held up or kept working; with that much evidence we can be 95 % sure at least ${pct} % of prints hold up.${aside}`;
+  return `${f.heldUp} of ${f.reports} set reports say it held up or kept working. ${provenCaution(f)}${aside}`;
 }
 
 /**

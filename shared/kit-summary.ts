@@ -73,6 +73,8 @@ export interface KitPlanItem {
   /** The model sliced at this item's layer height, walls and skins, when the caller could slice it. */
   slices?: SliceProfile | null;
   settings: KitPrintSettings;
+  /** The recipe's orientation note: the bed-fit check lays the part that way first. */
+  orientationNote?: string | null;
   printer: KitPrinterRef | null;
   safety: SafetyFlags;
   testedLoadKg: number | null;
@@ -246,7 +248,7 @@ function summariseItem(item: KitPlanItem, plan: KitPlan): KitItemSummary {
     printer: item.printer ? { id: item.printer.id, name: item.printer.name } : null,
     each,
     total,
-    fit: item.printer && item.geometry ? fitOnBed(item.geometry.sizeMm, item.printer.bedMm, { marginMm: item.printer.bedMarginMm }) : null,
+    fit: item.printer && item.geometry ? fitOnBed(item.geometry.sizeMm, item.printer.bedMm, { marginMm: item.printer.bedMarginMm, orientationNote: item.orientationNote }) : null,
     heat: plan.heatExposure ? heatCheck(material, plan.heatExposure) : null,
     cautions: safetyCautions(item.safety, item.testedLoadKg),
     evidenceWarnings: item.evidenceWarnings.map((w) => ({ material: w.material, text: w.text, matchesMaterial: w.material === material })),
@@ -344,7 +346,7 @@ export function summariseKit(plan: KitPlan): KitSummary {
   ];
   if (plan.heatExposure) {
     const exposure = heatExposureInfo(plan.heatExposure);
-    assumptions.push(`Heat: ${exposure.label.toLowerCase()}, about ${exposure.temperatureC} °C.`);
+    assumptions.push(`Heat: ${exposure.label.toLowerCase()}, about ${Math.round(exposure.temperatureC)} °C.`);
   }
 
   return {

@@ -163,8 +163,14 @@ export function materialInfo(id: MaterialId): MaterialInfo {
   return info;
 }
 
-function formatC(celsius: number): string {
-  return `${Number(celsius.toFixed(1))} °C`;
+/** To the whole degree: the softening figures and the heat of a place are rough to a few degrees. */
+export function formatC(celsius: number): string {
+  return `${Math.round(celsius)} °C`;
+}
+
+/** A margin that rounds to nothing still reads as one: 0.6 → "less than 1 °C". */
+function formatMarginC(celsius: number): string {
+  return Math.abs(celsius) < 1 ? 'less than 1 °C' : formatC(celsius);
 }
 
 function formatWindow(window: TemperatureWindow): string {
@@ -286,7 +292,7 @@ export function heatCheck(materialId: MaterialId, exposureId: HeatExposure): Hea
   const saferMaterials = saferThan(material, exposure);
   const message =
     marginC >= 0
-      ? `${softens}, only ${formatC(marginC)} above ${heat}, so it may sag under load. ${alternatives(saferMaterials, 'Consider')}`
+      ? `${softens}, only ${formatMarginC(marginC)} above ${heat}, so it may sag under load. ${alternatives(saferMaterials, 'Consider')}`
       : `${softens}, below ${heat}, so it will deform. ${alternatives(saferMaterials, 'Print it in')}`;
   return { ok: false, marginC, message, saferMaterials };
 }

@@ -1,6 +1,7 @@
 // How the client writes numbers, sizes and statuses. Lengths are millimetres first, inches after.
 import { minorToDecimal } from '@shared/print-price';
 import type { PartStatus, RevisionStatus } from '@shared/types';
+import { DEFAULT_CURRENCY } from '@shared/money';
 import { mmToInches } from '@shared/units';
 
 type Size = readonly [number, number, number];
@@ -42,8 +43,20 @@ export function formatCount(n: number): string {
   return n.toLocaleString('en-US');
 }
 
-export function formatDate(iso: string): string {
-  return new Date(iso).toLocaleDateString(undefined, { year: 'numeric', month: 'short', day: 'numeric' });
+// One way to write a date on every page: "13 Apr 2026", with the time after it where it matters
+// ("13 Apr 2026, 14:05"). Written in one fixed locale so a page never mixes two orders of day and month.
+const DATE_LOCALE = 'en-GB';
+const DATE = new Intl.DateTimeFormat(DATE_LOCALE, { day: 'numeric', month: 'short', year: 'numeric' });
+const DATE_TIME = new Intl.DateTimeFormat(DATE_LOCALE, { day: 'numeric', month: 'short', year: 'numeric', hour: '2-digit', minute: '2-digit', hour12: false });
+
+/** A moment (ISO string or Date) as its local day: "13 Apr 2026". */
+export function formatDate(at: string | Date): string {
+  return DATE.format(typeof at === 'string' ? new Date(at) : at);
+}
+
+/** A moment with its local time: "13 Apr 2026, 14:05". */
+export function formatDateTime(at: string | Date): string {
+  return DATE_TIME.format(typeof at === 'string' ? new Date(at) : at);
 }
 
 export interface StatusWording {
@@ -80,6 +93,11 @@ export function formatPercent(share: number): string {
   return `${Math.round(share * 100)} %`;
 }
 
+/** The set-report counts, first and as crews say them: "2 of 2 held up". */
+export function formatHeldUp(heldUp: number, reports: number): string {
+  return `${formatCount(heldUp)} of ${formatCount(reports)} held up`;
+}
+
 /** "1 report", "3 reports" */
 export function plural(n: number, one: string, many = `${one}s`): string {
   return `${formatCount(n)} ${n === 1 ? one : many}`;
@@ -107,14 +125,21 @@ export function formatHours(hours: number): string {
   return m ? `${h.toLocaleString('en-US')} h ${m} min` : `${h.toLocaleString('en-US')} h`;
 }
 
-/** Money in the crew's own currency (none is stored): 1234.5 → "1,234.50" */
-export function formatMoney(amount: number): string {
-  return amount.toLocaleString('en-US', { minimumFractionDigits: 2, maximumFractionDigits: 2 });
+const moneyFormats = new Map<string, Intl.NumberFormat>();
+
+/** Money with its currency (ISO 4217, the price sheet's): 1234.5 EUR → "€1,234.50". */
+export function formatMoney(amount: number, currency: string = DEFAULT_CURRENCY): string {
+  let f = moneyFormats.get(currency);
+  if (!f) {
+    f = new Intl.NumberFormat('en-GB', { style: 'currency', currency, currencyDisplay: 'symbol' });
+    moneyFormats.set(currency, f);
+  }
+  return f.format(amount);
 }
 
-/** 69.4 → "69.4 °C (157 °F)" */
+/** Heat to the whole degree, as the estimates behind it allow: 69.4 → "69 °C (157 °F)" */
 export function formatCelsius(c: number): string {
-  return `${Number(c.toFixed(1))} °C (${Math.round((c * 9) / 5 + 32)} °F)`;
+  return `${Math.round(c)} °C (${Math.round((c * 9) / 5 + 32)} °F)`;
 }
 
 /** A calendar day ("2026-04-13") as a local date: no time zone shifts it to the day before. */
@@ -123,8 +148,9 @@ export function parseDay(day: string): Date {
   return new Date(y, m - 1, d);
 }
 
+/** A calendar day, written like every other date: "13 Apr 2026". */
 export function formatDay(day: string): string {
-  return parseDay(day).toLocaleDateString(undefined, { weekday: 'short', year: 'numeric', month: 'short', day: 'numeric' });
+  return formatDate(parseDay(day));
 }
 
 /** "Mon, Apr 13, 2026 – Fri, Apr 24, 2026", one day, or null without dates. */

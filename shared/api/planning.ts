@@ -65,6 +65,8 @@ export interface PriceSheetInfo {
   pricePerKwh: number | null;
   /** Charged per hour of printing on print requests for crew members; null when none. */
   machineHourRate: number | null;
+  /** ISO 4217 code the prices are in (shared/money.ts). */
+  currency: string;
   /** Null until the member first saves prices. */
   updatedAt: string | null;
 }
@@ -169,6 +171,8 @@ export interface KitSummaryResponse extends Omit<KitSummary, 'items'> {
     printHoursPerDay: number;
     printerPrice: number | null;
   };
+  /** Every cost and price of the kit is in this currency (ISO 4217): the kit owner's. */
+  currency: string;
   /** part is null for a made item. */
   items: (KitItemSummary & { part: { id: number; slug: string } | null })[];
 }

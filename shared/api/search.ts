@@ -16,6 +16,8 @@ export interface SearchResultItem {
   /** Wilson lower bound of the share of set reports that held up (0 with no reports). */
   proven: number;
   reports: number;
+  /** Counted set reports that say it held up or kept working: shown first, as "2 of 2 held up". */
+  heldUp: number;
   /** URL of the first cleaned photo's thumbnail, if there is one. */
   thumbnail: string | null;
   /** Relevance from the text match (0 when there was no search text). */

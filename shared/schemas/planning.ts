@@ -2,6 +2,7 @@
 import { z } from 'zod';
 import { DEFAULT_PRINT_HOURS_PER_DAY } from '../kit-summary';
 import { HEAT_EXPOSURES, isMaterialId, MATERIAL_IDS, type MaterialId } from '../materials';
+import { isCurrency } from '../money';
 import { MAX_LAYER_TO_NOZZLE, recipeSchema } from './recipe';
 
 export const KIT_ACCESS = ['read', 'edit'] as const;
@@ -132,6 +133,12 @@ export const priceSheetSchema = z.object({
   pricePerKwh: money('price per kWh', 100).nullable().optional(),
   /** Charged per hour on print requests; absent keeps the saved rate, null removes it. */
   machineHourRate: money('machine-hour rate', 1000).nullable().optional(),
+  currency: z
+    .string()
+    .trim()
+    .toUpperCase()
+    .refine(isCurrency, { message: 'Give the currency as its three-letter code, such as EUR, USD or GBP.' })
+    .optional(),
 });
 export type PriceSheetInput = z.infer<typeof priceSheetSchema>;
 

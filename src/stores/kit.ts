@@ -6,7 +6,9 @@ import { computed, ref } from 'vue';
 import type { KitDetail, KitItemInfo, KitSummaryResponse, PrinterInfo } from '@shared/api/planning';
 import type { KitItemInput, KitItemPatch, KitPatch, KitSharesInput } from '@shared/schemas/planning';
 import type { PartSummary } from '@shared/types';
+import { DEFAULT_CURRENCY } from '@shared/money';
 import { crewsApi, isApiError, partsApi, planningApi } from '@/api';
+import { formatMoney } from '@/format';
 
 export const useKitStore = defineStore('kit', () => {
   const kit = ref<KitDetail | null>(null);
@@ -132,7 +134,12 @@ export const useKitStore = defineStore('kit', () => {
     summary.value = null;
   }
 
+  /** The kit owner's currency: every cost on the kit page is in it. */
+  const currency = computed(() => summary.value?.currency ?? DEFAULT_CURRENCY);
+  const money = (amount: number) => formatMoney(amount, currency.value);
+
   return {
+    currency, money,
     kit, summary, ownPrinters, shelf, loading, missing, summaryLoading, summaryFailed,
     access, isOwner, canEdit, printerChoices,
     itemSummary, shelfPart,

@@ -3,7 +3,7 @@
 // leaves the flow to look something up comes back to what they typed.
 import { UPLOAD_LIMITS } from '@shared/uploads';
 import { defineStore } from 'pinia';
-import { computed, markRaw, reactive, ref } from 'vue';
+import { computed, markRaw, reactive, ref, toRaw } from 'vue';
 import type { z } from 'zod';
 import type { PartDetail } from '@shared/api/parts';
 import type { CategorySlug, MountSlug, SafetyFlags } from '@shared/catalogue';
@@ -139,6 +139,31 @@ const LENGTH_HINT = 'Write a length such as 15, 15 mm or 5/8 in.';
 
 export type DraftMode = 'new' | 'adapt' | 'edit';
 
+/** What a draft keeps between visits (src/draftStorage.ts): the typed fields and the chosen files. */
+export interface PartDraftSnapshot {
+  fields: {
+    title: string;
+    summary: string;
+    description: string;
+    category: CategorySlug | null;
+    drawnInInches: boolean;
+    bodies: string[];
+    mounts: { slug: MountSlug; note: string }[];
+    keyDimensions: KeyDimensionRow[];
+    recipes: RecipeForm[];
+    licence: LicenceId | null;
+    safety: SafetyFlags;
+    /** Older drafts lack these two. */
+    crewId?: number | null;
+    made?: { kind: string; params: Record<string, unknown>; label: string } | null;
+    testedLoadKg: number | null;
+    safetyStated: boolean;
+  };
+  files: { kind: FileKind; file: File }[];
+  /** Editing: files on the part the contributor marked for removal. */
+  removing: number[];
+}
+
 export const usePartDraftStore = defineStore('partDraft', () => {
   /** "new", "adapt:12" or "edit:12": the flow the fields belong to. */
   const key = ref('');
@@ -169,6 +194,8 @@ export const usePartDraftStore = defineStore('partDraft', () => {
   const testedLoadKg = ref<number | null>(null);
   /** Published to this crew only, or null for everyone on the shelf. */
   const crewId = ref<number | null>(null);
+  /** Adapting: the contributor has said where their own part is used (nothing comes from the original). */
+  const safetyStated = ref(false);
 
   /** Editing: the fields as loaded, to tell whether anything changed. */
   const baseline = ref('');
@@ -202,13 +229,14 @@ export const usePartDraftStore = defineStore('partDraft', () => {
     Object.assign(safety, blankSafety());
     testedLoadKg.value = null;
     crewId.value = null;
+    safetyStated.value = false;
     baseline.value = '';
     errors.value = {};
     checked.value = [];
   }
 
-  /** Fills every field except the files from a part on the shelf. */
-  function fillFrom(part: PartDetail) {
+  /** Fills every field except the files from a part on the shelf; the safety claims only when asked. */
+  function fillFrom(part: PartDetail, { safetyClaims }: { safetyClaims: boolean }) {
     title.value = part.title;
     summary.value = part.summary;
     description.value = part.description;
@@ -224,6 +252,7 @@ export const usePartDraftStore = defineStore('partDraft', () => {
     recipes.value = part.recipes.length
       ? part.recipes.map(({ id: _id, warnings: _w, ...r }) => recipeFormOf(r))
       : [blankRecipe()];
+    if (!safetyClaims) return;
     Object.assign(safety, {
       carriesLoad: part.safety.carriesLoad,
       overhead: part.safety.overhead,
@@ -251,7 +280,9 @@ export const usePartDraftStore = defineStore('partDraft', () => {
     reset(`adapt:${from.id}`);
     mode.value = 'adapt';
     parent.value = from;
-    fillFrom(from);
+    // what the original carries, and what load it was tested with, says nothing about the changed
+    // part: its contributor states both for their own print
+    fillFrom(from, { safetyClaims: false });
     const rule = from.licence.adaptation;
     // keep the parent's licence when an adaptation may carry it, otherwise leave the choice open
     licence.value = isLicenceId(from.licence.id) && rule?.allowedChildIds.includes(from.licence.id) ? from.licence.id : null;
@@ -261,7 +292,7 @@ export const usePartDraftStore = defineStore('partDraft', () => {
     reset(`edit:${part.id}`);
     mode.value = 'edit';
     editing.value = part;
-    fillFrom(part);
+    fillFrom(part, { safetyClaims: true });
     licence.value = isLicenceId(part.licence.id) ? part.licence.id : null;
     crewId.value = part.visibility === 'everyone' ? null : part.visibility.crewId;
     existing.value = part.files.map((info) => ({ info, remove: false }));
@@ -438,6 +469,11 @@ export const usePartDraftStore = defineStore('partDraft', () => {
     return check.ok ? {} : { licence: check.reason };
   }
 
+  function safetyIssues(): Record<string, string> {
+    if (mode.value !== 'adapt' || safetyStated.value) return {};
+    return { safety: 'Say where your adaptation is used: tick what applies (or nothing) and confirm it below. Nothing is copied from the original.' };
+  }
+
   function dimensionIssues(): Record<string, string> {
     const out: Record<string, string> = {};
     keyDimensions.value.forEach((d, i) => {
@@ -459,7 +495,7 @@ export const usePartDraftStore = defineStore('partDraft', () => {
       case 'recipes':
         return schemaIssues(partSubmissionSchema.pick(PICKS.recipes), data);
       case 'licence':
-        return { ...schemaIssues(partSubmissionSchema.pick(PICKS.licence), data), ...licenceIssues() };
+        return { ...schemaIssues(partSubmissionSchema.pick(PICKS.licence), data), ...licenceIssues(), ...safetyIssues() };
       case 'review': {
         const whole = mode.value === 'edit' ? schemaIssues(partUpdateSchema, data) : schemaIssues(partSubmissionSchema, submission());
         const all: Record<string, string> = { ...whole };
@@ -501,6 +537,71 @@ export const usePartDraftStore = defineStore('partDraft', () => {
     return partSubmissionSchema.parse(submission());
   }
 
+  function snapshot(): PartDraftSnapshot {
+    const fields = JSON.parse(
+      JSON.stringify({
+        title: title.value,
+        summary: summary.value,
+        description: description.value,
+        category: category.value,
+        drawnInInches: drawnInInches.value,
+        bodies: bodies.value,
+        mounts: mounts.value,
+        keyDimensions: keyDimensions.value,
+        recipes: recipes.value,
+        licence: licence.value,
+        safety,
+        testedLoadKg: testedLoadKg.value,
+        safetyStated: safetyStated.value,
+        crewId: crewId.value,
+        made: made.value,
+      }),
+    ) as PartDraftSnapshot['fields'];
+    return {
+      fields,
+      files: files.value.filter((f) => !f.error).map((f) => ({ kind: f.kind, file: toRaw(f.file) })),
+      removing: existing.value.filter((e) => e.remove).map((e) => e.info.id),
+    };
+  }
+
+  /** Puts a kept draft back on top of the flow already started (reset, adapt or edit). */
+  function restore(saved: PartDraftSnapshot) {
+    const f = saved.fields;
+    title.value = f.title;
+    summary.value = f.summary;
+    description.value = f.description;
+    category.value = f.category;
+    drawnInInches.value = f.drawnInInches;
+    bodies.value = [...f.bodies];
+    mounts.value = f.mounts.map((m) => ({ ...m }));
+    keyDimensions.value = f.keyDimensions.map((d) => ({ ...d, uid: uid() }));
+    recipes.value = f.recipes.length ? f.recipes.map((r) => ({ ...blankRecipe(r.purpose), ...r, uid: uid() })) : [blankRecipe()];
+    licence.value = f.licence;
+    Object.assign(safety, f.safety);
+    testedLoadKg.value = f.testedLoadKg;
+    safetyStated.value = f.safetyStated;
+    crewId.value = f.crewId ?? null;
+    made.value = f.made ?? null;
+    for (const e of existing.value) e.remove = saved.removing.includes(e.info.id);
+    for (const kind of ['model', 'photo', 'source'] as const) {
+      const chosen = saved.files.filter((x) => x.kind === kind).map((x) => x.file);
+      if (chosen.length) addFiles(kind, chosen);
+    }
+  }
+
+  /** Anything typed or chosen that a reload would otherwise lose. */
+  const hasContent = computed(() => {
+    if (mode.value === 'edit') return changed.value;
+    const s = snapshot();
+    const blank = JSON.stringify({ ...blankRecipe(), uid: '' });
+    return !!(
+      s.fields.title.trim() || s.fields.summary.trim() || s.fields.description.trim() || s.fields.category ||
+      s.files.length || s.fields.bodies.length || s.fields.mounts.length || s.fields.keyDimensions.length ||
+      s.fields.recipes.length !== 1 || JSON.stringify({ ...s.fields.recipes[0], uid: '' }) !== blank ||
+      (mode.value === 'new' && s.fields.licence) || Object.values(s.fields.safety).some(Boolean) || s.fields.safetyStated
+    );
+  });
+
   /** Editing: whether the fields or the files differ from what was loaded. */
   const changed = computed(
     () => files.value.length > 0 || existing.value.some((e) => e.remove) || JSON.stringify(fields()) !== baseline.value,
@@ -517,8 +618,9 @@ export const usePartDraftStore = defineStore('partDraft', () => {
     files, existing, drawnInInches, modelFiles, photoFiles, sourceFiles, keptModels,
     bodies, mounts, keyDimensions,
     recipes,
-    licence, safety, testedLoadKg, crewId,
-    errors, checked, changed,
+    licence, safety, testedLoadKg, crewId, safetyStated,
+    errors, checked, changed, hasContent,
+    snapshot, restore,
     reset, startAdapt, startEdit, setParent,
     addFiles, removeFile, makeCover, setDrawnInInches, filesSaved, fileRemoved,
     submission, checkStep, recheck, stepHasErrors, takeServerErrors, validSubmission, validUpdate,

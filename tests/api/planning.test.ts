@@ -172,7 +172,7 @@ describe('planning · filament prices', () => {
   it('prices · a member who set none · gets the defaults', async () => {
     const res = await editor.get('/api/me/prices');
     expect(res.status).toBe(200);
-    expect(res.body).toMatchObject({ prices: { PLA: 20, PETG: 22 }, defaults: { PLA: 20 }, custom: [], pricePerKwh: null, updatedAt: null });
+    expect(res.body).toMatchObject({ prices: { PLA: 20, PETG: 22 }, defaults: { PLA: 20 }, custom: [], pricePerKwh: null, currency: 'EUR', updatedAt: null });
   });
 
   it('prices · PUT replaces the sheet · own prices win, the rest stay default, and the estimate uses them', async () => {
@@ -193,6 +193,19 @@ describe('planning · filament prices', () => {
     const negative = await editor.agent.put('/api/me/prices').set('X-CSRF-Token', editor.token).send({ prices: { PLA: -1 } });
     expect(negative.body.error.fields['prices.PLA']).toMatch(/cannot be negative/);
     expect((await request(t.app).get('/api/me/prices')).status).toBe(401);
+  });
+
+  it('prices · a currency typed in lower case · is kept as its ISO 4217 code; an unknown code · 422', async () => {
+    const gbp = await editor.agent.put('/api/me/prices').set('X-CSRF-Token', editor.token).send({ prices: {}, currency: 'gbp' });
+    expect(gbp.status).toBe(200);
+    expect(gbp.body.currency).toBe('GBP');
+    // leaving the currency out keeps the one chosen
+    const again = await editor.agent.put('/api/me/prices').set('X-CSRF-Token', editor.token).send({ prices: { PLA: 24 } });
+    expect(again.body.currency).toBe('GBP');
+    const bad = await editor.agent.put('/api/me/prices').set('X-CSRF-Token', editor.token).send({ prices: {}, currency: 'XQQ' });
+    expect(bad.status).toBe(422);
+    expect(bad.body.error.fields.currency).toMatch(/three-letter code/);
+    await editor.agent.put('/api/me/prices').set('X-CSRF-Token', editor.token).send({ prices: {}, currency: 'EUR' }).expect(200);
   });
 });
 
@@ -414,7 +427,7 @@ describe('planning · summary and export', () => {
         .field('data', JSON.stringify({ production: 'Harbour Lights', daysInUse: 3, conditions: ['heat', 'vehicle'], material: 'PLA', outcome: 'deformed' }))
         .expect(201);
     }
-    await owner.agent.put('/api/me/prices').set('X-CSRF-Token', owner.token).send({ prices: { PLA: 25 }, pricePerKwh: 0.3 }).expect(200);
+    await owner.agent.put('/api/me/prices').set('X-CSRF-Token', owner.token).send({ prices: { PLA: 25 }, pricePerKwh: 0.3, currency: 'CHF' }).expect(200);
     const cart = (await owner.post('/api/printers').send({ name: 'Cart printer', bedMm: [220, 220, 250], nozzleMm: 0.4, watts: 120 }).expect(201)).body.id;
     const mini = (await owner.post('/api/printers').send({ name: 'Mini', bedMm: [100, 100, 100], nozzleMm: 0.4 }).expect(201)).body.id;
     const sneaky = (await owner.post('/api/printers').send({ name: '=HYPERLINK("http://evil.test","x")', bedMm: [220, 220, 250], nozzleMm: 0.4 }).expect(201)).body.id;
@@ -427,6 +440,10 @@ describe('planning · summary and export', () => {
     await add({ partId: longPart, quantity: 1, printerId: mini });
     await add({ partId: cubePart, quantity: 1, material: 'ASA', printerId: sneaky });
     summary = (await reader.get(`/api/kits/${kitId}/summary`).expect(200)).body;
+  });
+
+  it('summary · a kit read by a member it is shared with · is in the owner’s currency', () => {
+    expect(summary.currency).toBe('CHF');
   });
 
   it('summary · PLA on a car rig in sun · heat warning naming a safer material; the ASA copy passes', () => {

@@ -139,6 +139,11 @@ describe('review · decisions', () => {
     expect((await member.get(`/api/parts/${id}`)).body.status).toBe('in_review');
     const history = await member.get(`/api/parts/${id}/history`);
     expect(history.body.items.map((e: { action: string }) => e.action)).toEqual(['submit', 'send_back', 'resubmit']);
+    // the resubmission is the second version the desk sees, in the desk, the queue and the history
+    expect(history.body.items.map((e: { revision: number | null }) => e.revision)).toEqual([1, 1, 2]);
+    expect((await modB.get(`/api/review/${id}`)).body.submission.revision.number).toBe(2);
+    const queue = await modB.get('/api/review/queue');
+    expect(queue.body.items.find((i: { partId: number }) => i.partId === id)).toMatchObject({ revisionNumber: 2 });
     expect(history.body.items[1].note).toBe('Add a photo of the print on the rod.');
     await modB.post(`/api/review/${id}/approve`).send({}).expect(200);
   });

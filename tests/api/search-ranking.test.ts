@@ -58,7 +58,8 @@ describe('search · best proven', () => {
     const res = await search('q=ranking%20clamp&sort=proven').expect(200);
     expect(res.body.results.map((r: { id: number }) => r.id)).toEqual([ids.fortyGood, ids.onePerfect, ids.unreported]);
     const forty = res.body.results[0];
-    expect(forty).toMatchObject({ reports: 40, ratingCount: 0, rating: null });
+    expect(forty).toMatchObject({ reports: 40, heldUp: 38, ratingCount: 0, rating: null });
+    expect(res.body.results[1]).toMatchObject({ reports: 1, heldUp: 1 });
     expect(forty.proven).toBeGreaterThan(res.body.results[1].proven);
   });
 

@@ -232,6 +232,7 @@ describe('search · relevance', () => {
       ratingCount: 0,
       proven: 0,
       reports: 0,
+      heldUp: 0,
       thumbnail: expect.stringMatching(new RegExp(`^/api/parts/${ids.plate}/files/\\d+/image/thumb$`)),
       score: expect.any(Number),
       matched: ['battery plate'],

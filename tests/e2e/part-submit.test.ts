@@ -99,4 +99,59 @@ describe('browser · submit a part', () => {
     const shot = await rig.screenshot('part-submit-7-part-page');
     expect(existsSync(shot)).toBe(true);
   });
+  it('submit flow · a draft with a model file · survives a reload and leaving the form, until discarded', async () => {
+    const { page } = rig;
+    // the browser's own "leave this site?" question on reload: yes
+    const acceptLeave = (d: { type(): string; accept(): Promise<void> }) => void (d.type() === 'beforeunload' && d.accept());
+    page.on('dialog', acceptLeave);
+    const kept = () =>
+      page.evaluate(
+        () =>
+          new Promise<number>((resolve) => {
+            const open = indexedDB.open('rigshelf-drafts');
+            open.onsuccess = () => {
+              const db = open.result;
+              if (!db.objectStoreNames.contains('drafts')) return resolve(0);
+              const count = db.transaction('drafts').objectStore('drafts').count();
+              count.onsuccess = () => resolve(count.result);
+            };
+          }),
+      );
+
+    await page.goto('/parts/new');
+    await page.locator('#part-title').fill('Draft that survives a reload');
+    await page.locator('#part-summary').fill('Typed on set, with the model chosen, then the page reloaded.');
+    await page.getByText('Rods & mounting').click();
+    await nextStep(page);
+    await page.locator('[data-test="model-input"]').setInputFiles(join(dir, 'rod-clamp.stl'));
+    await page.locator('[data-test="model-size"]').waitFor();
+    await expect.poll(kept).toBe(1);
+
+    await page.reload();
+    await page.locator('[data-test="draft-resumed"]').waitFor();
+    expect(await page.locator('[data-test="model-size"]').textContent()).toContain('20 × 30 × 10 mm');
+    await rig.screenshot('part-submit-draft-after-reload');
+
+    // leaving through the app asks first; staying keeps the form
+    await page.locator('[data-test="nav-search"]').first().click();
+    const dialog = page.getByRole('alertdialog');
+    await dialog.waitFor();
+    expect(await dialog.textContent()).toContain('kept on this device');
+    await dialog.getByRole('button', { name: 'Stay here' }).click();
+    expect(new URL(page.url()).pathname).toBe('/parts/new');
+    await page.locator('[data-test="nav-search"]').first().click();
+    await dialog.getByRole('button', { name: 'Leave the form' }).click();
+    await page.waitForURL((u) => u.pathname === '/search');
+
+    // coming back finds it, then discarding empties the form and the store
+    await page.locator('[data-test="nav-submit"]').click();
+    await page.locator('[data-test="draft-resumed"]').waitFor();
+    await page.locator('[data-test="discard-draft"]').click();
+    await dialog.getByRole('button', { name: 'Discard it' }).click();
+    await page.locator('[data-test="draft-resumed"]').waitFor({ state: 'detached' });
+    await page.goto('/parts/new');
+    expect(await page.locator('#part-title').inputValue()).toBe('');
+    await expect.poll(kept).toBe(0);
+    page.off('dialog', acceptLeave);
+  });
 });

@@ -68,4 +68,42 @@ describe('browser · the review desk', () => {
     await page.getByText('On the shelf').first().waitFor();
     await rig.screenshot('review-desk-3-published');
   });
+
+  it('desk · a part sent back and changed · shows the model in 3D, revision 2, and the note in the edit form', async () => {
+    const { page } = rig;
+    await forgetSession(page);
+    await signInThroughForm(page, member.email, DEMO_PASSWORD);
+    await page.waitForURL((u) => u.pathname === '/');
+    const id = await submitAsPageUser();
+
+    await forgetSession(page);
+    await signInThroughForm(page, moderator.email, DEMO_PASSWORD);
+    await page.waitForURL((u) => u.pathname === '/');
+    await page.goto(`/review/${id}`);
+    await page.locator('[data-test="desk-viewer"] canvas').first().waitFor({ timeout: 30_000 });
+    await page.locator('#decision-note').fill('Add a photo of the print on the rod.');
+    await page.locator('[data-test="send-back"]').click();
+    await page.waitForURL((u) => u.pathname === '/review');
+
+    // the contributor's edit form shows what the desk asked for
+    await forgetSession(page);
+    await signInThroughForm(page, member.email, DEMO_PASSWORD);
+    await page.waitForURL((u) => u.pathname === '/');
+    await page.goto(`/parts/${id}/edit`);
+    const note = page.locator('[data-test="edit-desk-note"]');
+    await note.waitFor();
+    expect(await note.textContent()).toContain('Add a photo of the print on the rod.');
+    await rig.screenshot('review-desk-4-edit-with-note');
+    const token = await page.evaluate(async () => (await (await fetch('/api/auth/csrf')).json()).csrfToken as string);
+    expect((await page.request.patch(`/api/parts/${id}`, { headers: { 'X-CSRF-Token': token }, data: { summary: 'Now with the photo the desk asked for.' } })).status()).toBe(200);
+
+    // the desk now shows the second version
+    await forgetSession(page);
+    await signInThroughForm(page, moderator.email, DEMO_PASSWORD);
+    await page.waitForURL((u) => u.pathname === '/');
+    await page.goto(`/review/${id}`);
+    await page.locator('[data-test="checklist"]').waitFor();
+    expect(await page.locator('.rs-kicker').first().textContent()).toContain('revision 2');
+    await rig.screenshot('review-desk-5-resubmitted');
+  });
 });

@@ -6,6 +6,7 @@ import {
   trapezoidTimeS,
   filamentLengthM,
   fitOnBed,
+  statedPose,
   spoolsNeeded,
   type PartGeometry,
   type PrintSettings,
@@ -290,5 +291,52 @@ describe('fitOnBed', () => {
     expect(MM_PER_INCH).toBe(25.4);
     const part: Size3 = [inchesToMm(9), inchesToMm(8), inchesToMm(2)]; // 228.6 × 203.2 × 50.8 mm
     expect(fitBare(part, bed).fits).toBe('as-is');
+  });
+});
+
+describe('fitOnBed · the recipe says how to lay it', () => {
+  const flat = 'Flat face on the bed';
+
+  it('statedPose · notes crews write · read as flat, on edge, upright or nothing', () => {
+    expect(statedPose('Flat face on the bed')).toBe('flat');
+    // the earliest words name the part's pose; later ones describe a feature
+    expect(statedPose('Flat side down, rod bore upright')).toBe('flat');
+    expect(statedPose('Stand it on its end, bore horizontal')).toBe('upright');
+    expect(statedPose('On its long edge so the layers run along the arm')).toBe('edge');
+    expect(statedPose('Enclosure closed, no fan for the first layers')).toBeNull();
+    expect(statedPose(undefined)).toBeNull();
+  });
+
+  it('fitOnBed · a 300 × 20 × 10 mm bar, recipe flat, a 220 × 220 × 250 mm bed · says it must lie on its edge instead', () => {
+    // Lying flat (300 × 20 down) it needs 320/√2 = 226.3 mm across the bed at 45° (more than 220);
+    // on its 300 × 10 edge it needs 310/√2 = 219.2 mm: the same sums as the test above.
+    const fit = fitOnBed([300, 20, 10], [220, 220, 250], { marginMm: 0, orientationNote: flat });
+    expect(fit).toMatchObject({ fits: 'diagonal', orientation: [300, 10, 20], recipe: { words: flat, followed: false } });
+    expect(fit.message).toMatch(/^Laid as the recipe says \(“Flat face on the bed”\), it needs 300 × 20 mm of bed and 10 mm of height/);
+    expect(fit.message).toMatch(/another way than the recipe says: diagonally: lay it with its 300 × 10 mm side down/);
+  });
+
+  it('fitOnBed · a 100 × 70 × 6 mm plate modelled standing, recipe flat · is laid flat, not left standing', () => {
+    // modelled as 6 × 70 × 100 (standing); flat means the 6 mm side up: 100 × 70 (or 70 × 100) on the bed
+    const fit = fitOnBed([6, 70, 100], [220, 220, 250], { orientationNote: flat });
+    expect(fit).toMatchObject({ fits: 'rotated', orientation: [70, 100, 6], recipe: { followed: true } });
+    expect(fit.message).toMatch(/laid as the recipe says/);
+    // without a note, the modelled pose is kept as today
+    expect(fitOnBed([6, 70, 100], [220, 220, 250]).fits).toBe('as-is');
+  });
+
+  it('fitOnBed · a plate the recipe lays flat that fits flat · follows the recipe even where standing would fit too', () => {
+    // usable bed 90 × 90 × 100 (100 mm bed less 5 mm round the edge): 100 × 70 flat does not fit, so it
+    // must stand; 80 × 70 flat does
+    const small = fitOnBed([100, 70, 6], [100, 100, 100], { orientationNote: flat });
+    expect(small.recipe).toEqual({ words: flat, followed: false });
+    expect(small.orientation).toEqual([70, 6, 100]);
+    expect(fitOnBed([80, 70, 6], [100, 100, 100], { orientationNote: flat })).toMatchObject({ fits: 'as-is', orientation: [80, 70, 6], recipe: { followed: true } });
+  });
+
+  it('fitOnBed · too big every way with a stated pose · says what the recipe pose needs and that nothing fits', () => {
+    const fit = fitOnBed([300, 20, 20], [220, 220, 250], { marginMm: 0, orientationNote: flat });
+    expect(fit.fits).toBe('no');
+    expect(fit.message).toMatch(/needs 300 × 20 mm of bed and 20 mm of height; too big for the 220 × 220 × 250 mm bed/);
   });
 });

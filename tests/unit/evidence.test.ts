@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { countedReports, evidenceWarnings, onePerMemberAndProduction, productionKey, provenSentence, summariseEvidence, type ReportFacts } from '@shared/evidence';
+import { countedReports, evidenceWarnings, onePerMemberAndProduction, productionKey, provenCaution, provenCounts, provenSentence, summariseEvidence, type ReportFacts } from '@shared/evidence';
 import { compareProven, normalQuantileTwoSided } from '@shared/ranking';
 
 const r = (outcome: ReportFacts['outcome'], material = 'PETG', conditions: ReportFacts['conditions'] = []): ReportFacts => ({ outcome, material, conditions });
@@ -42,8 +42,21 @@ describe('evidence · proven score per part, material and condition', () => {
     expect(none.proven).toBe(0);
     expect(none.sentence).toMatch(/No set reports yet/);
     expect(provenSentence({ proven: 0.62, reports: 12, heldUp: 10 })).toBe(
-      '10 of 12 set reports say it held up or kept working; with that much evidence we can be 95 % sure at least 62 % of prints hold up.',
+      '10 of 12 set reports say it held up or kept working. We plan on the safe side: count on at least 62 in every 100 prints holding up. That figure climbs as more crews report it held up.',
     );
+  });
+
+  it('evidence · 2 of 2 held up · leads with the counts and explains the cautious 34 in 100', () => {
+    const two = summariseEvidence([r('held-up'), r('worn-but-working')], [], null);
+    // Wilson 95 % lower bound for 2 of 2 (E. B. Wilson 1927, z = 1.96): 1 / (1 + 1.96² / 2) = 0.342
+    expect(two.proven).toBeCloseTo(wilsonByHand(2, 2), 12);
+    expect(two.proven).toBeCloseTo(0.342, 3);
+    expect(provenCounts(two)).toBe('2 of 2 held up');
+    expect(two.sentence.startsWith('2 of 2 set reports say it held up')).toBe(true);
+    expect(provenCaution(two)).toBe(
+      '2 reports are not much to go on, so we plan on the safe side: count on at least 34 in every 100 prints holding up. That figure climbs as more crews report it held up.',
+    );
+    expect(two.sentence).not.toMatch(/%/);
   });
 });
 

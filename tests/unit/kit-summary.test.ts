@@ -246,6 +246,22 @@ describe('kit summary · heat, fit and cautions', () => {
     expect(summary.items[2].fit!.message).toMatch(/Too big/);
   });
 
+  it('kit summary · a bar whose recipe says upright · stands on the cart printer as the recipe says, and says so', () => {
+    const bar: PartGeometry = { volumeMm3: inchesToMm(9.5) * 20 * 20, areaMm2: 2 * 400 + 4 * 20 * inchesToMm(9.5), sizeMm: [inchesToMm(9.5), 20, 20] };
+    const upright = summariseKit(plan([item({ geometry: bar, printer: cart, orientationNote: 'Upright, bore at the top' })])).items[0].fit!;
+    expect(upright).toMatchObject({ fits: 'rotated', orientation: [20, 20, 241.3], recipe: { followed: true } });
+    // the big box takes it lying down, but the recipe's way comes first
+    const onBigBox = summariseKit(plan([item({ geometry: bar, printer: bigBox, orientationNote: 'Upright, bore at the top' })])).items[0].fit!;
+    expect(onBigBox).toMatchObject({ orientation: [20, 20, 241.3], recipe: { followed: true } });
+    // a 10-inch plate the recipe stands upright is 254 mm tall, more than the cart printer's 250 mm
+    // (10 in × 25.4 mm/in): it has to lie down, and the advice says that differs from the recipe
+    const plate: PartGeometry = { volumeMm3: 254 * 25.4 * 5, areaMm2: 2 * 254 * 25.4 + 2 * 5 * (254 + 25.4), sizeMm: [inchesToMm(10), inchesToMm(1), 5] };
+    const standing = summariseKit(plan([item({ geometry: plate, printer: cart, orientationNote: 'Stand it upright' })])).items[0].fit!;
+    expect(standing.recipe).toEqual({ words: 'Stand it upright', followed: false });
+    expect(standing.fits).toBe('diagonal');
+    expect(standing.message).toMatch(/needs 25.4 × 5 mm of bed and 254 mm of height, more than this bed has\. Here it must lie another way than the recipe says/);
+  });
+
   it('kit summary · a 10 × 1 inch plate · fits the cart printer only diagonally', () => {
     const plate: PartGeometry = { volumeMm3: 254 * 25.4 * 5, areaMm2: 2 * 254 * 25.4 + 2 * 5 * (254 + 25.4), sizeMm: [inchesToMm(10), inchesToMm(1), 5] };
     const summary = summariseKit(plan([item({ geometry: plate, printer: cart })]));

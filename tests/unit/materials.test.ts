@@ -122,7 +122,9 @@ describe('heatCheck', () => {
     expect(check.ok).toBe(false);
     expect(check.marginC).toBeGreaterThanOrEqual(0);
     expect(check.marginC).toBeLessThan(HEAT_MARGIN_C);
-    expect(check.message).toMatch(/only 0\.6 °C above/);
+    // 0.6 °C of margin, shown to the whole degree
+    expect(check.message).toMatch(/only less than 1 °C above the 69 °C of/);
+    expect(check.message).not.toMatch(/\d\.\d °C/);
   });
 
   it('passes ASA, ABS and PC on a vehicle in sun', () => {

@@ -62,6 +62,88 @@ describe('part draft · checking a step', () => {
   });
 });
 
+function partOnShelf(over: Record<string, unknown> = {}) {
+  return {
+    id: 9,
+    slug: 'rod-clamp',
+    title: 'Rod clamp',
+    summary: 'Holds a 15 mm rod',
+    description: 'A clamp for 15 mm rods.',
+    category: { slug: 'clamps' },
+    compatibility: { bodies: [], mounts: [], keyDimensions: [] },
+    recipes: [],
+    files: [],
+    licence: { id: 'CC-BY-4.0', adaptation: { allowed: true, allowedChildIds: ['CC-BY-4.0'], reason: '' } },
+    safety: { carriesLoad: true, overhead: true, vehicle: false, heat: false, testedLoadKg: 1.2 },
+    ...over,
+  } as unknown as Parameters<ReturnType<typeof usePartDraftStore>['startAdapt']>[0];
+}
+
+describe('part draft · adapting a part', () => {
+  it('part draft · adapting a part that carries 1.2 kg overhead · starts with no safety flag and no tested load', () => {
+    const draft = usePartDraftStore();
+    draft.startAdapt(partOnShelf());
+    expect(draft.safety).toEqual({ carriesLoad: false, overhead: false, vehicle: false, heat: false });
+    expect(draft.testedLoadKg).toBeNull();
+    expect(draft.submission().safety.carriesLoad).toBe(false);
+    expect(draft.submission().testedLoadKg).toBeNull();
+  });
+
+  it('part draft · adapting without confirming the safety step · the licence step asks the contributor to state it', () => {
+    const draft = usePartDraftStore();
+    draft.startAdapt(partOnShelf());
+    expect(draft.checkStep('licence')).toBe(false);
+    expect(draft.errors.safety).toContain('Nothing is copied from the original');
+    draft.safetyStated = true;
+    expect(draft.checkStep('licence')).toBe(true);
+  });
+
+  it('part draft · editing a part · keeps its stated flags and tested load', () => {
+    const draft = usePartDraftStore();
+    draft.startEdit(partOnShelf({ author: { id: 1 } }));
+    expect(draft.safety.carriesLoad).toBe(true);
+    expect(draft.testedLoadKg).toBe(1.2);
+    expect(draft.checkStep('licence')).toBe(true);
+  });
+});
+
+describe('part draft · kept between visits', () => {
+  it('part draft · a snapshot put back on a fresh form · restores every field and the chosen files', () => {
+    const first = usePartDraftStore();
+    first.startAdapt(partOnShelf());
+    first.title = 'Shorter rod clamp';
+    first.keyDimensions.push({ ...first.newKeyDimension(), name: 'rod bore', value: '15.2', tol: '0.1' });
+    first.recipes[0].infillPct = 35;
+    first.safety.overhead = true;
+    first.safetyStated = true;
+    first.addFiles('source', [new File(['solid'], 'clamp.step', { type: 'application/octet-stream' })]);
+    // IndexedDB stores a structured clone (Node's cannot clone a File; the browser's can)
+    const taken = first.snapshot();
+    const saved = { ...taken, fields: structuredClone(taken.fields) };
+
+    setActivePinia(createPinia());
+    const again = usePartDraftStore();
+    again.startAdapt(partOnShelf());
+    expect(again.title).toBe('Rod clamp');
+    again.restore(saved);
+    expect(again.title).toBe('Shorter rod clamp');
+    expect(again.keyDimensions[0]).toMatchObject({ name: 'rod bore', value: '15.2', tol: '0.1' });
+    expect(again.recipes[0].infillPct).toBe(35);
+    expect(again.safety.overhead).toBe(true);
+    expect(again.safetyStated).toBe(true);
+    expect(again.sourceFiles.map((f) => f.file.name)).toEqual(['clamp.step']);
+    expect(again.hasContent).toBe(true);
+  });
+
+  it('part draft · a blank new form · has nothing worth keeping', () => {
+    const draft = usePartDraftStore();
+    draft.reset('new');
+    expect(draft.hasContent).toBe(false);
+    draft.summary = 'x';
+    expect(draft.hasContent).toBe(true);
+  });
+});
+
 describe('format · sizes', () => {
   it('format · a 20 × 30 × 10 mm box · reads in mm and in inches (25.4 mm per inch)', () => {
     expect(formatSizeMm([20, 30, 10])).toBe('20 × 30 × 10 mm');

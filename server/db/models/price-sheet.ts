@@ -9,6 +9,8 @@ export class PriceSheet extends Model<InferAttributes<PriceSheet>, InferCreation
   declare pricePerKwh: number | null;
   /** Charged per hour of printing on print requests; null when the owner charges none. */
   declare machineHourRate: CreationOptional<number | null>;
+  /** ISO 4217; null until the member picks one. */
+  declare currency: CreationOptional<string | null>;
   declare createdAt: CreationOptional<Date>;
   declare updatedAt: CreationOptional<Date>;
 }
@@ -20,6 +22,7 @@ export function initPriceSheet(sequelize: Sequelize) {
       pricesPerKg: jsonColumn<Partial<Record<MaterialId, number>>>('pricesPerKg', false, {}),
       pricePerKwh: decimalColumn('pricePerKwh', 8, 4, true),
       machineHourRate: decimalColumn('machineHourRate', 10, 4, true),
+      currency: { type: DataTypes.CHAR(3), allowNull: true },
       createdAt: DataTypes.DATE,
       updatedAt: DataTypes.DATE,
     },

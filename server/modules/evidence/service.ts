@@ -263,7 +263,7 @@ export function createEvidenceService({ sequelize, dirs, photos, onChanged, aler
     async rankFigures(partIds: number[]) {
       const evidence = partIds.length ? await evidenceFor(partIds) : new Map<number, Evidence>();
       return new Map(
-        [...evidence].map(([id, e]) => [id, { proven: e.proven, reports: e.reports, mean: e.rating.mean, count: e.rating.count, adjusted: e.rating.adjusted }]),
+        [...evidence].map(([id, e]) => [id, { proven: e.proven, reports: e.reports, heldUp: e.heldUp, mean: e.rating.mean, count: e.rating.count, adjusted: e.rating.adjusted }]),
       );
     },
 

@@ -134,7 +134,15 @@ export async function editableRevision(part: Part, actor: User, transaction: Tra
  */
 export async function markChanged(part: Part, revision: PartRevision, transaction: Transaction): Promise<boolean> {
   const resubmitted = revision.status === 'sent_back' || revision.status === 'draft';
-  if (resubmitted) await revision.update({ status: 'in_review', submittedAt: new Date() }, { transaction });
+  if (resubmitted) {
+    // what comes back after a send-back is the contributor's next version: it gets the next number,
+    // so the desk and the history tell the two apart (the history keeps the number each event saw)
+    const number =
+      revision.status === 'sent_back'
+        ? ((await PartRevision.max<number, PartRevision>('number', { where: { partId: part.id }, transaction })) ?? revision.number) + 1
+        : revision.number;
+    await revision.update({ status: 'in_review', submittedAt: new Date(), number }, { transaction });
+  }
   await part.update(
     { status: part.publishedRevisionId ? part.status : (revision.status as PartStatus), lockVersion: part.lockVersion + 1 },
     { transaction },

@@ -2,6 +2,7 @@
 import { Op } from 'sequelize';
 import type { KitAccess, KitCrewShareInfo, KitDetail, KitItemInfo, KitListItem, KitRecipeRef, KitShareInfo, PrinterInfo, PriceSheetInfo } from '@shared/api/planning';
 import { DEFAULT_PRICE_PER_KG } from '@shared/estimate';
+import { DEFAULT_CURRENCY } from '@shared/money';
 import { MATERIAL_IDS, type MaterialId } from '@shared/materials';
 import { MADE_PART_RECIPE } from '@shared/schemas/make';
 import { madeTitle, madeWith } from '../make/service';
@@ -37,6 +38,7 @@ export function presentPriceSheet(sheet: PriceSheet | null): PriceSheetInfo {
     custom: MATERIAL_IDS.filter((m) => own[m] !== undefined),
     pricePerKwh: sheet?.pricePerKwh ?? null,
     machineHourRate: sheet?.machineHourRate ?? null,
+    currency: sheet?.currency ?? DEFAULT_CURRENCY,
     updatedAt: sheet?.updatedAt?.toISOString() ?? null,
   };
 }

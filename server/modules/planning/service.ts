@@ -48,6 +48,7 @@ import type { Alerts } from '../notices/alerts';
 import { audienceOf, crewAllows, findVisiblePart, seesUnpublished, type PartAudience } from '../parts/access';
 import { findKit } from './access';
 import { kitCsv, kitCsvFileName } from './export';
+import { DEFAULT_CURRENCY } from '@shared/money';
 import { effectivePrices, isOnShelfForKits, loadItems, presentCrewShares, presentItem, presentKit, presentKitList, presentPrinter, presentPriceSheet, presentShares } from './presenter';
 
 export interface PlanningDeps {
@@ -341,6 +342,7 @@ export function createPlanningService({ sequelize, evidence, dirs, slicer, alert
         pricesPerKg: input.prices,
         pricePerKwh: input.pricePerKwh ?? null,
         machineHourRate: input.machineHourRate !== undefined ? input.machineHourRate : (current?.machineHourRate ?? null),
+        ...(input.currency ? { currency: input.currency } : {}),
       });
       return presentPriceSheet(await PriceSheet.findByPk(user.id));
     },
@@ -669,6 +671,7 @@ export function createPlanningService({ sequelize, evidence, dirs, slicer, alert
             infillPct: recipe.infillPct,
             speedMmS: recipe.speedMmS,
           },
+          orientationNote: recipe.orientationNote,
           printer: printerRef(printer),
           safety: { carriesLoad: revision.carriesLoad, overhead: revision.overhead, vehicle: revision.vehicle, heat: revision.heat },
           testedLoadKg: revision.testedLoadKg,
@@ -700,6 +703,7 @@ export function createPlanningService({ sequelize, evidence, dirs, slicer, alert
         printHoursPerDay: kit.printHoursPerDay,
         printerPrice: kit.printerPrice,
       },
+      currency: sheet?.currency ?? DEFAULT_CURRENCY,
       ...summary,
       items: summary.items.map((s, i) => {
         const part = planned[i].item.part;

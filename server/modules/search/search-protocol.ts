@@ -46,14 +46,14 @@ export type WorkerReply =
   | { type: 'answer'; id: number; ok: true; response: unknown }
   | { type: 'answer'; id: number; ok: false; error: { status: number; code: string; message: string; fields?: Record<string, string> } };
 
-export const RANK_FIELDS = 6;
+export const RANK_FIELDS = 7;
 
-/** Ranks as a flat array, cheap to post: id, proven, reports, mean, count, adjusted per part. */
+/** Ranks as a flat array, cheap to post: id, proven, reports, mean, count, adjusted, held up per part. */
 export function packRanks(ranks: ReadonlyMap<number, Rank>): Float64Array {
   const data = new Float64Array(ranks.size * RANK_FIELDS);
   let i = 0;
   for (const [id, r] of ranks) {
-    data.set([id, r.proven, r.reports, r.mean ?? NaN, r.count, r.adjusted ?? NaN], i);
+    data.set([id, r.proven, r.reports, r.mean ?? NaN, r.count, r.adjusted ?? NaN, r.heldUp], i);
     i += RANK_FIELDS;
   }
   return data;
@@ -63,7 +63,7 @@ export function unpackRanks(data: Float64Array): Map<number, Rank> {
   const ranks = new Map<number, Rank>();
   const orNull = (v: number) => (Number.isNaN(v) ? null : v);
   for (let i = 0; i < data.length; i += RANK_FIELDS) {
-    ranks.set(data[i], { proven: data[i + 1], reports: data[i + 2], mean: orNull(data[i + 3]), count: data[i + 4], adjusted: orNull(data[i + 5]) });
+    ranks.set(data[i], { proven: data[i + 1], reports: data[i + 2], mean: orNull(data[i + 3]), count: data[i + 4], adjusted: orNull(data[i + 5]), heldUp: data[i + 6] });
   }
   return ranks;
 }

@@ -63,12 +63,13 @@ export interface Searchable {
 export interface Rank {
   proven: number;
   reports: number;
+  heldUp: number;
   mean: number | null;
   count: number;
   adjusted: number | null;
 }
 export type Ranks = ReadonlyMap<number, Rank>;
-const UNRANKED: Rank = { proven: 0, reports: 0, mean: null, count: 0, adjusted: null };
+const UNRANKED: Rank = { proven: 0, reports: 0, heldUp: 0, mean: null, count: 0, adjusted: null };
 
 /**
  * Which crew-only documents a search may see: 'all' for moderators, else the searcher's crews. The
@@ -391,6 +392,7 @@ function present(m: Match, ranks: Ranks, groupTexts: readonly string[]): SearchR
     ratingCount: rank.count,
     proven: rank.proven,
     reports: rank.reports,
+    heldUp: rank.heldUp,
     thumbnail: doc.thumbnail,
     score: Math.round(m.score * 1e4) / 1e4,
     matched: groupTexts.filter((_, i) => hit.has(i)),
