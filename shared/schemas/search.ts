@@ -2,7 +2,7 @@ import { z } from 'zod';
 import { CATEGORY_SLUGS, type CategorySlug, type MountSlug } from '../catalogue';
 import { MATERIAL_IDS, type MaterialId } from '../materials';
 import { resolveMount } from '../search/aliases';
-import { parseDimension, parseEnvelope, splitList, type DimensionQuery, type Envelope } from '../search/query';
+import { parseDimension, parseEnvelope, splitList, type DimensionQuery, type Envelope } from '../search/fields';
 import { boolish } from '../validation';
 
 export const SEARCH_SORTS = ['relevance', 'newest', 'proven'] as const;
