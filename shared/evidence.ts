@@ -1,7 +1,7 @@
 // What set reports and ratings say about a part: the proven score (Wilson lower bound of the share
 // that held up), per material and per condition, the adjusted rating, and warnings from the evidence.
 import { bayesianRating, isSuccessfulOutcome, PRIOR_WEIGHT, wilsonLowerBound, type SetReportOutcome } from './ranking';
-import type { SetCondition } from './evidence-terms';
+import { SET_CONDITIONS, type SetCondition } from './evidence-terms';
 
 export { OUTCOME_LABELS, SET_CONDITION_KEYS, SET_CONDITIONS, type SetCondition } from './evidence-terms';
 

@@ -3,6 +3,9 @@
 // the client's search form parses them without loading a search engine.
 import { parseLength } from '../units';
 
+export const SEARCH_SORTS = ['relevance', 'newest', 'proven'] as const;
+export type SearchSort = (typeof SEARCH_SORTS)[number];
+
 export type Envelope = [number, number, number];
 
 export interface DimensionQuery {

@@ -1,6 +1,6 @@
 import { computed } from 'vue';
 import { useRoute, useRouter, type LocationQuery, type LocationQueryRaw, type LocationQueryValue } from 'vue-router';
-import { SEARCH_SORTS, type SearchSort } from '@shared/schemas/search';
+import { SEARCH_SORTS, type SearchSort } from '@shared/search/fields';
 import { splitList } from '@shared/search/fields';
 import type { SearchParams } from '@/api';
 

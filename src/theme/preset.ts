@@ -82,7 +82,7 @@ const Aura = {
     button, checkbox, chip, confirmdialog, datatable, dialog, iconfield, inputnumber, inputtext, menu, message, multiselect, paginator, password, radiobutton, ripple, select, selectbutton, skeleton, tabs, tag, textarea, toast, togglebutton, toggleswitch, virtualscroller,
   },
   css,
-};
+} as unknown as Parameters<typeof definePreset>[0]; // aura/css is typed as a named export but ships as the default
 
 export const RigshelfPreset = definePreset(Aura, {
   primitive: {
