@@ -108,4 +108,42 @@ export const RigshelfPreset = definePreset(Aura, {
       },
     },
   },
+  // Aura's light tints put text at 3.8–4.4:1; each text colour here is one or two steps darker so
+  // every label reaches WCAG 2.1 AA (4.5:1) on its own background (checked by axe in the browser tests).
+  components: {
+    togglebutton: { colorScheme: { light: { root: { color: slateInk[600] }, icon: { color: slateInk[600] } } } },
+    message: {
+      colorScheme: {
+        light: {
+          info: { color: '{blue.800}', outlined: { color: '{blue.800}' }, simple: { color: '{blue.800}' } },
+          success: { color: '{green.800}', outlined: { color: '{green.800}' }, simple: { color: '{green.800}' } },
+          warn: { color: gafferAmber[800], outlined: { color: gafferAmber[800] }, simple: { color: gafferAmber[800] } },
+          error: { color: '{red.700}', outlined: { color: '{red.700}' }, simple: { color: '{red.700}' } },
+          secondary: { color: slateInk[700], outlined: { color: slateInk[700] }, simple: { color: slateInk[700] } },
+        },
+      },
+    },
+    button: {
+      colorScheme: {
+        light: {
+          text: {
+            secondary: { color: slateInk[700] },
+            success: { color: '{green.800}' },
+            info: { color: '{sky.800}' },
+            warn: { color: gafferAmber[800] },
+            help: { color: '{purple.700}' },
+            danger: { color: '{red.700}' },
+          },
+          outlined: {
+            secondary: { color: slateInk[700] },
+            success: { color: '{green.800}' },
+            info: { color: '{sky.800}' },
+            warn: { color: gafferAmber[800] },
+            help: { color: '{purple.700}' },
+            danger: { color: '{red.700}' },
+          },
+        },
+      },
+    },
+  },
 });
