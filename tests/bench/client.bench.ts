@@ -105,14 +105,13 @@ try {
   async function loadOnce(route: Route): Promise<LoadFigures> {
     const context = await freshContext(route.as);
     const page = await context.newPage();
-    await page.addInitScript(() => {
-      const w = window as unknown as { __headingAt?: number };
-      const seen = () => {
-        if (w.__headingAt === undefined && document.querySelector('main h1')) w.__headingAt = performance.now();
-        return w.__headingAt !== undefined;
-      };
-      new MutationObserver((_m, observer) => seen() && observer.disconnect()).observe(document, { childList: true, subtree: true });
-    });
+    // a string, not a function: the bundler's helpers (keepNames) do not exist in the page
+    await page.addInitScript(`
+      new MutationObserver((_m, observer) => {
+        if (window.__headingAt === undefined && document.querySelector('main h1')) window.__headingAt = performance.now();
+        if (window.__headingAt !== undefined) observer.disconnect();
+      }).observe(document, { childList: true, subtree: true });
+    `);
     const pending: Promise<LoadFigures['scripts'][number] | null>[] = [];
     let documentCacheControl = '';
     let assetCacheControl = '';
@@ -125,20 +124,16 @@ try {
       if (request.resourceType() !== 'script' && !response.url().endsWith('.js')) return;
       pending.push(
         (async () => {
-          try {
-            const body = await response.body();
-            const sizes = await request.sizes();
-            return {
-              url: new URL(response.url()).pathname,
-              raw: body.length,
-              gzip: gzipSync(body, { level: 9 }).length,
-              wire: sizes.responseBodySize,
-              encoding: response.headers()['content-encoding'] ?? 'none',
-            };
-          } catch {
-            return null;
-          }
-        })(),
+          const url = new URL(response.url());
+          // the body as the page got it; a preloaded chunk's body is not always kept by the browser, so
+          // the same file is then fetched again here
+          const body = await response.body().catch(async () => Buffer.from(await (await fetch(url)).arrayBuffer()));
+          const wire = await request
+            .sizes()
+            .then((z) => z.responseBodySize)
+            .catch(() => Number(response.headers()['content-length'] ?? NaN));
+          return { url: url.pathname, raw: body.length, gzip: gzipSync(body, { level: 9 }).length, wire, encoding: response.headers()['content-encoding'] ?? 'none' };
+        })().catch(() => null),
       );
     });
     await page.goto(route.path, { waitUntil: 'networkidle' });
