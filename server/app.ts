@@ -1,6 +1,7 @@
 // Builds the Express app (exported for supertest); server/index.ts starts it.
 import { existsSync } from 'node:fs';
-import { resolve } from 'node:path';
+import { resolve, sep } from 'node:path';
+import compression from 'compression';
 import express, { type Request } from 'express';
 import session from 'express-session';
 import connectSessionSequelize from 'connect-session-sequelize';
@@ -82,6 +83,8 @@ export function createApp({ config, sequelize, mailer }: AppContext) {
       },
     }),
   );
+  // gzip or brotli, whichever the browser takes, for JSON and the client's files alike
+  app.use(compression());
   const database = createDatabaseWatch(sequelize);
   app.use('/api/health', healthRoutes(sequelize, { check: database.check }));
   app.use('/api', database.gate());
@@ -212,8 +215,17 @@ export function createApp({ config, sequelize, mailer }: AppContext) {
 
   const dist = resolve(config.CLIENT_DIST);
   if (existsSync(resolve(dist, 'index.html'))) {
-    app.use(express.static(dist, { index: false, maxAge: '1h' }));
-    app.get(/^(?!\/api\/).*/, (_req, res) => res.sendFile(resolve(dist, 'index.html')));
+    app.use(
+      express.static(dist, {
+        index: false,
+        setHeaders(res, path) {
+          // Vite names what it builds under assets/ by content hash: a new build means a new name
+          const hashed = path.startsWith(resolve(dist, 'assets') + sep);
+          res.setHeader('Cache-Control', hashed ? 'public, max-age=31536000, immutable' : 'no-cache');
+        },
+      }),
+    );
+    app.get(/^(?!\/api\/).*/, (_req, res) => res.sendFile(resolve(dist, 'index.html'), { headers: { 'Cache-Control': 'no-cache' } }));
   }
 
   app.use(multerErrors);

@@ -1,25 +1,9 @@
 // What set reports and ratings say about a part: the proven score (Wilson lower bound of the share
 // that held up), per material and per condition, the adjusted rating, and warnings from the evidence.
 import { bayesianRating, isSuccessfulOutcome, PRIOR_WEIGHT, wilsonLowerBound, type SetReportOutcome } from './ranking';
+import { SET_CONDITIONS, type SetCondition } from './evidence-terms';
 
-export const SET_CONDITIONS = [
-  { key: 'heat', label: 'Heat or direct sun', phrase: 'in heat' },
-  { key: 'cold', label: 'Cold', phrase: 'in the cold' },
-  { key: 'wet', label: 'Rain or wet', phrase: 'in the wet' },
-  { key: 'dust', label: 'Dust or sand', phrase: 'in dust or sand' },
-  { key: 'vehicle', label: 'Vehicle or vibration', phrase: 'on a vehicle' },
-  { key: 'impacts', label: 'Drops or impacts', phrase: 'after drops or impacts' },
-] as const;
-export type SetCondition = (typeof SET_CONDITIONS)[number]['key'];
-export const SET_CONDITION_KEYS = SET_CONDITIONS.map((c) => c.key) as [SetCondition, ...SetCondition[]];
-
-export const OUTCOME_LABELS: Record<SetReportOutcome, string> = {
-  'held-up': 'Held up',
-  'worn-but-working': 'Worn but working',
-  deformed: 'Deformed',
-  cracked: 'Cracked',
-  failed: 'Failed',
-};
+export { OUTCOME_LABELS, SET_CONDITION_KEYS, SET_CONDITIONS, type SetCondition } from './evidence-terms';
 
 const BAD_OUTCOMES: SetReportOutcome[] = ['deformed', 'cracked', 'failed'];
 /** Two reports of the same failure are a pattern worth a warning; one may be bad luck. */

@@ -1,5 +1,6 @@
 // Ranking parts by how they held up on set and by their star ratings.
 import jStat from 'jstat';
+import type { SetReportOutcome } from './evidence-terms';
 
 /** z such that a two-sided interval at `confidence` covers the standard normal between −z and z. */
 export function normalQuantileTwoSided(confidence: number): number {
@@ -52,8 +53,7 @@ export function bayesianRating({ mean, count }: RatingSummary, { priorMean, prio
   return (count / total) * mean + (priorWeight / total) * priorMean;
 }
 
-export const SET_REPORT_OUTCOMES = ['held-up', 'worn-but-working', 'deformed', 'cracked', 'failed'] as const;
-export type SetReportOutcome = (typeof SET_REPORT_OUTCOMES)[number];
+export { SET_REPORT_OUTCOMES, type SetReportOutcome } from './evidence-terms';
 
 const SUCCESSFUL_OUTCOMES: ReadonlySet<SetReportOutcome> = new Set(['held-up', 'worn-but-working']);
 

@@ -1,14 +1,7 @@
 import { z as zod } from 'zod';
 
-/** Turns zod issues into one message per field ("_" for the whole object), as both sides show them. */
-export function fieldErrors(error: zod.ZodError): Record<string, string> {
-  const fields: Record<string, string> = {};
-  for (const issue of error.issues) {
-    const key = issue.path.join('.') || '_';
-    fields[key] ??= issue.message;
-  }
-  return fields;
-}
+// kept apart so the client's forms can show messages without loading zod with the page
+export { fieldErrors } from './field-errors';
 
 /** A boolean that also accepts the strings form fields carry ("true", "1", "on", …). */
 export const boolish = zod

@@ -1,7 +1,7 @@
 // How the client shows what set reports say: outcome words, colours and icons, condition icons.
 // Kept apart from format.ts because the shared evidence rules bring the statistics library along,
 // which only the evidence screens need.
-import { OUTCOME_LABELS, SET_CONDITIONS, type SetCondition } from '@shared/evidence';
+import { OUTCOME_LABELS, SET_CONDITIONS, type SetCondition } from '@shared/evidence-terms';
 import type { SetReportOutcome } from '@shared/ranking';
 
 export interface OutcomeWording {

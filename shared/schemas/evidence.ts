@@ -1,7 +1,7 @@
 import { z } from 'zod';
-import { SET_CONDITION_KEYS } from '../evidence';
+import { SET_CONDITION_KEYS } from '../evidence-terms';
 import { MATERIAL_IDS } from '../materials';
-import { SET_REPORT_OUTCOMES } from '../ranking';
+import { SET_REPORT_OUTCOMES } from '../evidence-terms';
 
 export const ratingSchema = z.object({
   stars: z.coerce

@@ -2,11 +2,11 @@ import { z } from 'zod';
 import { CATEGORY_SLUGS, type CategorySlug, type MountSlug } from '../catalogue';
 import { MATERIAL_IDS, type MaterialId } from '../materials';
 import { resolveMount } from '../search/aliases';
-import { parseDimension, parseEnvelope, splitList, type DimensionQuery, type Envelope } from '../search/query';
+import { parseDimension, parseEnvelope, splitList, type DimensionQuery, type Envelope } from '../search/fields';
 import { boolish } from '../validation';
 
-export const SEARCH_SORTS = ['relevance', 'newest', 'proven'] as const;
-export type SearchSort = (typeof SEARCH_SORTS)[number];
+import { SEARCH_SORTS } from '../search/fields';
+export { SEARCH_SORTS, type SearchSort } from '../search/fields';
 
 export const SEARCH_PARAMS = ['q', 'body', 'mount', 'category', 'material', 'fit', 'dim', 'adaptable', 'minRating', 'sort', 'page', 'pageSize'] as const;
 

@@ -1,6 +1,6 @@
 import { ref } from 'vue';
 import type { z } from 'zod';
-import { fieldErrors } from '@shared/validation';
+import { fieldErrors } from '@shared/field-errors';
 import { isApiError } from '@/api';
 
 /** Inline field messages from the shared schema (before sending) or from the server's 422. */

@@ -1,7 +1,7 @@
 import { computed } from 'vue';
 import { useRoute, useRouter, type LocationQuery, type LocationQueryRaw, type LocationQueryValue } from 'vue-router';
-import { SEARCH_SORTS, type SearchSort } from '@shared/schemas/search';
-import { splitList } from '@shared/search/query';
+import { SEARCH_SORTS, type SearchSort } from '@shared/search/fields';
+import { splitList } from '@shared/search/fields';
 import type { SearchParams } from '@/api';
 
 /** The filters offered as lists of choices with counts. */

@@ -28,6 +28,9 @@ describe('browser · rate and report', () => {
     await page.goto(SPACER);
     const sentence = page.locator('[data-test="proven-sentence"]');
     await sentence.waitFor();
+    // the rating form and the report list are fetched as the evidence section comes near
+    await sentence.scrollIntoViewIfNeeded();
+    await page.locator('[data-test="report"]').first().waitFor();
     expect(await page.locator('[data-test="author-link"]').textContent()).toContain(moderator.displayName);
     expect(await sentence.textContent()).toContain('2 of 2 set reports');
     expect(await page.locator('[data-test="report"]').count()).toBe(2);
@@ -86,6 +89,7 @@ describe('browser · rate and report', () => {
 
     await page.setViewportSize({ width: 1280, height: 800 });
     await page.reload();
+    await page.locator('.rs-evidence-chart-spot').scrollIntoViewIfNeeded();
     await page.locator('[data-test="evidence-chart"]').waitFor();
     await rig.screenshot('rate-and-report-4-part-after-desk');
   });
