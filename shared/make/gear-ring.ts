@@ -55,13 +55,12 @@ const involute = (alpha: number) => Math.tan(alpha) - alpha;
  * With `gapHalfWidthMm`, the outline stops where the lines y = ±gap meet the root circle (a slot).
  */
 export function gearOutline(moduleMm: number, teeth: number, res: Resolution, gapHalfWidthMm = 0): Vec2[] {
-  const { pitchMm, outsideMm, rootMm, baseMm } = gearDiameters(moduleMm, teeth);
+  const { outsideMm, rootMm, baseMm } = gearDiameters(moduleMm, teeth);
   const ra = outsideMm / 2;
   const rf = rootMm / 2;
   const rb = baseMm / 2;
   // Half the tooth's angular thickness at radius R: the pitch circle carries half the circular pitch.
   const halfAngle = (R: number) => Math.PI / (2 * teeth) + involute(PRESSURE_ANGLE_RAD) - involute(Math.acos(Math.min(1, rb / R)));
-  void pitchMm;
   const flankPoints = res === 'fine' ? 10 : 5;
   const rStart = Math.max(rb, rf);
   const radii: number[] = [];
@@ -86,7 +85,7 @@ export function gearOutline(moduleMm: number, teeth: number, res: Resolution, ga
     rootArc(previous, c - startHalf, pts);
     pts.push(at(rf, c - startHalf));
     if (rf < rb) pts.push(at(rb, c - startHalf));
-    for (let i = rf < rb ? 1 : 1; i < radii.length; i++) pts.push(at(radii[i], c - halfAngle(radii[i])));
+    for (let i = 1; i < radii.length; i++) pts.push(at(radii[i], c - halfAngle(radii[i])));
     for (let i = 1; i < tipSteps; i++) pts.push(at(ra, c - tipHalf + (2 * tipHalf * i) / tipSteps));
     for (let i = radii.length - 1; i >= 1; i--) pts.push(at(radii[i], c + halfAngle(radii[i])));
     if (rf < rb) pts.push(at(rb, c + startHalf));

@@ -10,7 +10,7 @@ import { fitGauge } from './fit-gauge';
 
 export * from './types';
 export { toStl, to3mf } from './files';
-export { circleSides, RESOLUTIONS, type Resolution } from './params';
+export { circleSides, correctionsSchema, RESOLUTIONS, type Resolution } from './params';
 export { CLEARANCE_HOLE_MM, CLEARANCES, SCREWS, SCREW_LABELS, type Clearance, type Screw } from './fasteners';
 export { washer, washerSchema } from './washer';
 export { rodClamp, rodClampSchema, ROD_CENTRES } from './rod-clamp';

@@ -1,7 +1,7 @@
 import { unzipSync } from 'fflate';
 import { describe, expect, it } from 'vitest';
 import { analyseModelFile, analyseTriangles } from '../../shared/mesh/index';
-import { correctionFromGauge, GENERATOR_KINDS, GENERATORS, gaugeSteps, rodClamp, to3mf, toStl, type GeneratorKind } from '../../shared/make/index';
+import { correctionFromGauge, correctionsSchema, GENERATOR_KINDS, GENERATORS, gaugeSteps, rodClamp, to3mf, toStl, type GeneratorKind } from '../../shared/make/index';
 
 // Soundness is judged by shared/mesh (edge-sharing watertightness, orientable winding, shells), and the
 // file outputs by reading them back through the same analysis: JSCAD's own STL and 3MF serializers
@@ -34,8 +34,8 @@ const SAMPLERS: Record<GeneratorKind, (rng: Rng) => Record<string, unknown>> = {
   }),
   'gear-ring': (rng) => ({
     module: pick(rng, [0.5, 0.6, 0.8, 1.0]),
-    // Barrels up to 60 mm keep this run quick; large barrels are measured in make-gear-ring.test.ts.
-    barrelDiameterMm: between(rng, 20, 60),
+    // Barrels up to 45 mm keep this run quick; large barrels are measured in make-gear-ring.test.ts.
+    barrelDiameterMm: between(rng, 20, 45),
     widthMm: between(rng, 3, 14),
     wallMm: between(rng, 0.8, 4),
     fit: pick(rng, ['press', 'press', 'clamp']),
@@ -165,5 +165,10 @@ describe('calibration · a recorded gauge step', () => {
     const b = GENERATORS['fit-gauge'].generate({}, { holeMm: 0.3 });
     expect(Buffer.from(a.mesh.positions.buffer).equals(Buffer.from(b.mesh.positions.buffer))).toBe(true);
     expect(() => correctionFromGauge({}, 9)).toThrow(/not on this gauge/);
+  });
+
+  it('corrections schema · accepts ±1 mm, refuses more with a message', () => {
+    expect(correctionsSchema.parse({ holeMm: 0.25 })).toEqual({ holeMm: 0.25 });
+    expect(correctionsSchema.safeParse({ outerMm: -1.5 }).error?.issues[0].message).toBe('Outer-size correction must be between -1 and 1 mm.');
   });
 });
