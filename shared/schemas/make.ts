@@ -6,8 +6,8 @@ import { recipeSchema } from './recipe';
 
 const recipe = recipeSchema.shape;
 
-/** A correction beyond this is a wrong step or a wrong gauge, not a printer (our own bound). */
-export const MAX_CORRECTION_MM = 1.5;
+/** A correction beyond this is a wrong step or a wrong gauge, not a printer (our own bound, as correctionsSchema in shared/make). */
+export const MAX_CORRECTION_MM = 1;
 
 const positiveId = (what: string) =>
   z.number({ error: `Give the ${what} as a number.` }).int(`Give the ${what} as a whole number.`).positive(`Give the ${what} as a positive number.`);
