@@ -6,14 +6,13 @@ import { writeFile } from 'node:fs/promises';
 import { join } from 'node:path';
 import type { PartSubmission } from '@shared/schemas/part';
 import { INVITATION_LIFETIME_DAYS } from '@shared/schemas/crews';
-import { hashPassword } from '../../security/password';
 import { inspectUploads } from '../../modules/files/inspect';
 import { randomStoredName } from '../../modules/files/storage';
 import { newToken } from '../../modules/auth/tokens';
 import type { MigrationFn } from '../migrator';
 import { Crew, CrewInvitation, CrewMember, Kit, KitCrewShare, User } from '../models';
 import { transact } from '../transaction';
-import { DEMO_ACCOUNTS, DEMO_PASSWORD } from './0001-demo-crew';
+import { DEMO_ACCOUNTS } from './0001-demo-crew';
 import { box, toBinaryStl } from './demo-meshes';
 import { demoPhoto } from './demo-photos';
 
@@ -56,9 +55,10 @@ export const up: MigrationFn = async ({ context: { sequelize, services } }) => {
   const admin = await account('admin');
   if (await Crew.findOne({ where: { name: DEMO_CREW_NAME } })) return;
 
+  // same demo password as the lead's: their hash is reused rather than worked out again
   const [second] = await User.findOrCreate({
     where: { email: DEMO_SECOND_MEMBER.email },
-    defaults: { ...DEMO_SECOND_MEMBER, passwordHash: await hashPassword(DEMO_PASSWORD, 15), emailVerifiedAt: new Date() },
+    defaults: { ...DEMO_SECOND_MEMBER, passwordHash: lead.passwordHash, emailVerifiedAt: new Date() },
   });
 
   const crew = await transact(sequelize, async (transaction) => {
