@@ -43,7 +43,6 @@ export async function startServer(config: Config): Promise<RunningServer> {
   }
   const built = createApp({ config, sequelize, mailer });
   const payFake = await built.services.payments.fake();
-  if (payFake) console.log(`rigshelf: local payments fake on ${payFake.url} (the SDK talks to it; webhooks go to ${config.PAYMENTS_WEBHOOK_URL})`);
   const recovered = await built.services.parts.recover();
   if (recovered.removed || recovered.resumed) {
     console.log(`rigshelf: upload sweep removed ${recovered.removed} orphaned file(s), resumed ${recovered.resumed} photo(s)`);
@@ -78,6 +77,7 @@ export async function startServer(config: Config): Promise<RunningServer> {
   // on a free port (PORT=0) the default public address is only known now
   if (config.PUBLIC_URL.endsWith(':0')) built.services.printRequests.useBaseUrl(url);
   if (payFake && config.PAYMENTS_WEBHOOK_URL.includes(':0/')) payFake.webhookUrl = `${url}/api/payments/webhook`;
+  if (payFake) console.log(`rigshelf: local payments fake on ${payFake.url} (the SDK talks to it; webhooks go to ${payFake.webhookUrl})`);
 
   const shutdownTimeoutMs = config.SHUTDOWN_TIMEOUT_S * 1000;
 
