@@ -53,7 +53,8 @@ describe('browser · shoot kit', () => {
     await page.locator('[data-test="save-kit"]').click();
     const heat = page.locator('[data-test="kit-heat"]');
     await heat.waitFor();
-    expect(await heat.textContent()).toContain('69.4 °C');
+    // Vanos et al. 2018: 69.4 °C, shown to the whole degree
+    expect(await heat.textContent()).toContain('about 69 °C (157 °F)');
 
     // three published demo parts from the shelf
     await addPart(page, 'yoke', 'Dashboard monitor yoke', 0);
