@@ -13,7 +13,7 @@ async function demo(email: string) {
 
 // seeding the whole demo shelf (meshes, photos, password hashes) is slow on a busy machine
 beforeAll(async () => {
-  t = await createTestApp({}, { demo: true });
+  t = await createTestApp({}, { demo: 'full' });
   await t.services.search.idle();
 }, 240_000);
 afterAll(async () => {

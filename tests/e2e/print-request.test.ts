@@ -39,6 +39,9 @@ describe('browser · print request', () => {
     await page.locator('[data-test="ask-print"]').click();
     const dialog = page.locator('[data-test="ask-print-dialog"]');
     await dialog.locator('[data-test="ask-printer"]').waitFor();
+    // other crew members have printers too: choose one of the 1st AC's
+    await dialog.locator('[data-test="ask-printer"]').click();
+    await page.getByRole('option', { name: new RegExp(`· ${owner.displayName} ·`) }).first().click();
     await dialog.locator('#ask-note').fill('For the A camera’s follow focus.');
     await dialog.locator('[data-test="ask-print-send"]').click();
     await page.waitForURL((url) => /^\/print-requests\/\d+$/.test(url.pathname));

@@ -58,7 +58,7 @@ describe('browser · shoot kit', () => {
 
     // three published demo parts from the shelf
     await addPart(page, 'yoke', 'Dashboard monitor yoke', 0);
-    await addPart(page, 'gear ring', 'Lens gear ring', 1);
+    await addPart(page, 'gear ring', 'Lens gear ring, module 0.8, for 80 mm barrels', 1);
     await addPart(page, 'receiver cradle', 'Receiver cradle for 15 mm rods', 2);
     expect(await page.locator('[data-test="kit-items"] > li').count()).toBe(3);
 

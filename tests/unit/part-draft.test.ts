@@ -75,6 +75,7 @@ function partOnShelf(over: Record<string, unknown> = {}) {
     files: [],
     licence: { id: 'CC-BY-4.0', adaptation: { allowed: true, allowedChildIds: ['CC-BY-4.0'], reason: '' } },
     safety: { carriesLoad: true, overhead: true, vehicle: false, heat: false, testedLoadKg: 1.2 },
+    visibility: 'everyone',
     ...over,
   } as unknown as Parameters<ReturnType<typeof usePartDraftStore>['startAdapt']>[0];
 }
