@@ -1,21 +1,11 @@
 import { DataTypes } from 'sequelize';
 import type { MigrationFn } from '../migrator';
+import { id, ref, timestamps } from '../migration-columns';
 
-const id = { type: DataTypes.INTEGER.UNSIGNED, autoIncrement: true, primaryKey: true };
-const ref = (model: string, onDelete: 'CASCADE' | 'SET NULL' = 'CASCADE', allowNull = false) => ({
-  type: DataTypes.INTEGER.UNSIGNED,
-  allowNull,
-  references: { model, key: 'id' },
-  onDelete,
-});
 const hiding = {
   hidden_at: { type: DataTypes.DATE, allowNull: true },
   hidden_by: { type: DataTypes.INTEGER.UNSIGNED, allowNull: true },
   hidden_reason: { type: DataTypes.TEXT, allowNull: true },
-};
-const timestamps = {
-  created_at: { type: DataTypes.DATE, allowNull: false },
-  updated_at: { type: DataTypes.DATE, allowNull: false },
 };
 
 export const up: MigrationFn = async ({ context: { queryInterface: q } }) => {

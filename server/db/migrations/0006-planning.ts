@@ -2,19 +2,9 @@
 // shared with.
 import { DataTypes } from 'sequelize';
 import type { MigrationFn } from '../migrator';
+import { id, ref, timestamps } from '../migration-columns';
 
-const id = { type: DataTypes.INTEGER.UNSIGNED, autoIncrement: true, primaryKey: true };
-const ref = (model: string, onDelete: 'CASCADE' | 'SET NULL' = 'CASCADE', allowNull = false) => ({
-  type: DataTypes.INTEGER.UNSIGNED,
-  allowNull,
-  references: { model, key: 'id' },
-  onDelete,
-});
 const amount = { type: DataTypes.DECIMAL(10, 2), allowNull: true };
-const timestamps = {
-  created_at: { type: DataTypes.DATE, allowNull: false },
-  updated_at: { type: DataTypes.DATE, allowNull: false },
-};
 
 export const up: MigrationFn = async ({ context: { queryInterface: q } }) => {
   await q.createTable('printers', {

@@ -2,18 +2,8 @@
 // put on the shelf yet, their photos or sketches, and the parts offered in answer.
 import { DataTypes } from 'sequelize';
 import type { MigrationFn } from '../migrator';
+import { id, ref, timestamps } from '../migration-columns';
 
-const id = { type: DataTypes.INTEGER.UNSIGNED, autoIncrement: true, primaryKey: true };
-const ref = (model: string, onDelete: 'CASCADE' | 'SET NULL' = 'CASCADE', allowNull = false) => ({
-  type: DataTypes.INTEGER.UNSIGNED,
-  allowNull,
-  references: { model, key: 'id' },
-  onDelete,
-});
-const timestamps = {
-  created_at: { type: DataTypes.DATE, allowNull: false },
-  updated_at: { type: DataTypes.DATE, allowNull: false },
-};
 
 export const up: MigrationFn = async ({ context: { queryInterface: q } }) => {
   await q.createTable('builds', {

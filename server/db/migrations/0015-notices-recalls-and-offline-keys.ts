@@ -3,14 +3,8 @@
 // filed once.
 import { DataTypes } from 'sequelize';
 import type { MigrationFn } from '../migrator';
+import { id, ref } from '../migration-columns';
 
-const id = { type: DataTypes.INTEGER.UNSIGNED, autoIncrement: true, primaryKey: true };
-const ref = (model: string, onDelete: 'CASCADE' | 'SET NULL' = 'CASCADE', allowNull = false) => ({
-  type: DataTypes.INTEGER.UNSIGNED,
-  allowNull,
-  references: { model, key: 'id' },
-  onDelete,
-});
 
 export const up: MigrationFn = async ({ context: { queryInterface: q } }) => {
   await q.createTable('notice_preferences', {
