@@ -1,4 +1,4 @@
-import { formatDate } from '@/format';
+import { formatDate } from '@/lib/format';
 
 /** "04:31 on 3 Dec 2026": when a stored copy was saved, in the device's time and the app's date style. */
 export function formatAsOf(iso: string): string {

@@ -8,7 +8,7 @@ import type { KitItemInput, KitItemPatch, KitPatch, KitSharesInput } from '@shar
 import type { PartSummary } from '@shared/types';
 import { DEFAULT_CURRENCY } from '@shared/money';
 import { crewsApi, isApiError, partsApi, planningApi } from '@/api';
-import { formatMoney } from '@/format';
+import { formatMoney } from '@/lib/format';
 
 export const useKitStore = defineStore('kit', () => {
   const kit = ref<KitDetail | null>(null);

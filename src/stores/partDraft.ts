@@ -9,13 +9,13 @@ import type { PartDetail } from '@shared/api/parts';
 import type { CategorySlug, MountSlug, SafetyFlags } from '@shared/catalogue';
 import { checkAdaptationLicence, isLicenceId, type LicenceId } from '@shared/licences';
 import { MeshError, type ModelFileAnalysis } from '@shared/mesh';
-import { analyseModel } from '@/meshAnalysis';
+import { analyseModel } from '@/lib/meshAnalysis';
 import { partSubmissionSchema, partUpdateSchema, type PartSubmission, type PartUpdate } from '@shared/schemas/part';
 import type { RecipeInput } from '@shared/schemas/recipe';
 import type { FileKind, PartFileInfo } from '@shared/types';
 import { parseLength } from '@shared/units';
 import { fieldErrors } from '@shared/validation';
-import { formatBytes } from '@/format';
+import { formatBytes } from '@/lib/format';
 
 export const STEPS = [
   { key: 'details', label: 'What it is', short: 'About' },
@@ -139,7 +139,7 @@ const LENGTH_HINT = 'Write a length such as 15, 15 mm or 5/8 in.';
 
 export type DraftMode = 'new' | 'adapt' | 'edit';
 
-/** What a draft keeps between visits (src/draftStorage.ts): the typed fields and the chosen files. */
+/** What a draft keeps between visits (src/lib/draftStorage.ts): the typed fields and the chosen files. */
 export interface PartDraftSnapshot {
   fields: {
     title: string;

@@ -3,7 +3,7 @@
 import { GENERATORS, toStl, type Generator } from '@shared/make';
 import { analyseTriangles } from '@shared/mesh';
 import { fieldErrors } from '@shared/validation';
-import type { MakeJob, MakeReply } from '@/makePreview';
+import type { MakeJob, MakeReply } from '@/lib/makePreview';
 
 const reply = (message: MakeReply, transfer: Transferable[] = []) =>
   (globalThis as unknown as { postMessage(m: MakeReply, t: Transferable[]): void }).postMessage(message, transfer);

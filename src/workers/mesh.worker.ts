@@ -1,6 +1,6 @@
 // Measures a model file off the page's main thread, so a large STL does not freeze the submit form.
 import { analyseModelFile, MeshError } from '@shared/mesh';
-import type { MeshJob, MeshReply } from '@/meshAnalysis';
+import type { MeshJob, MeshReply } from '@/lib/meshAnalysis';
 
 const reply = (message: MeshReply) => (globalThis as unknown as { postMessage(m: MeshReply): void }).postMessage(message);
 

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { formatCelsius, formatDate, formatDateTime, formatDay, formatHeldUp, formatMoney, formatShootDays } from '@/format';
+import { formatCelsius, formatDate, formatDateTime, formatDay, formatHeldUp, formatMoney, formatShootDays } from '@/lib/format';
 
 describe('format · dates', () => {
   it('format · a moment and a calendar day on one page · read in the same day month year order', () => {

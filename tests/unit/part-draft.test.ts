@@ -1,7 +1,7 @@
 import { createPinia, setActivePinia } from 'pinia';
 import { beforeEach, describe, expect, it } from 'vitest';
 import { stepOfField, usePartDraftStore } from '@/stores/partDraft';
-import { formatSizeIn, formatSizeMm } from '@/format';
+import { formatSizeIn, formatSizeMm } from '@/lib/format';
 
 beforeEach(() => setActivePinia(createPinia()));
 
