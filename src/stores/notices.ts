@@ -1,5 +1,6 @@
 import { defineStore } from 'pinia';
 import { ref } from 'vue';
+import { useIntervalFn } from '@vueuse/core';
 import type { NoticeInfo } from '@shared/types';
 import { noticesApi } from '@/api';
 
@@ -9,7 +10,7 @@ const POLL_MS = 60_000;
 export const useNoticesStore = defineStore('notices', () => {
   const items = ref<NoticeInfo[]>([]);
   const unread = ref(0);
-  let timer: ReturnType<typeof setInterval> | null = null;
+  const poll = useIntervalFn(() => void refresh(), POLL_MS, { immediate: false });
 
   async function refresh() {
     try {
@@ -22,14 +23,13 @@ export const useNoticesStore = defineStore('notices', () => {
   }
 
   function start() {
-    if (timer) return;
+    if (poll.isActive.value) return;
     void refresh();
-    timer = setInterval(() => void refresh(), POLL_MS);
+    poll.resume();
   }
 
   function stop() {
-    if (timer) clearInterval(timer);
-    timer = null;
+    poll.pause();
     items.value = [];
     unread.value = 0;
   }

@@ -1,5 +1,6 @@
 import { defineStore } from 'pinia';
-import { computed, ref } from 'vue';
+import { computed, ref, watch } from 'vue';
+import { useIntervalFn, useOnline } from '@vueuse/core';
 import type { RatingInput, SetReportInput } from '@shared/schemas/evidence';
 import { isApiError, queuedApi } from '@/api';
 import { onStoredCopy } from '@/api/http';
@@ -15,14 +16,20 @@ const RETRY_MS = 30_000;
  * (one run at a time); an entry the server refuses stays, with the reason, until the member drops it.
  */
 export const useOfflineStore = defineStore('offline', () => {
-  const online = ref(typeof navigator === 'undefined' ? true : navigator.onLine);
+  const online = useOnline();
   /** The oldest stored copy shown since the page changed, ISO time. */
   const asOf = ref<string | null>(null);
   const entries = ref<queue.QueuedEntry[]>([]);
   const sending = ref(false);
   const lastSent = ref(0);
   let running: Promise<void> | null = null;
-  let timer: ReturnType<typeof setInterval> | null = null;
+  const retry = useIntervalFn(
+    () => {
+      if (online.value && waiting.value) void flush();
+    },
+    RETRY_MS,
+    { immediate: false },
+  );
 
   const waiting = computed(() => entries.value.filter((e) => !e.problem).length);
   const refused = computed(() => entries.value.filter((e) => e.problem));
@@ -126,16 +133,10 @@ export const useOfflineStore = defineStore('offline', () => {
     onStoredCopy((_path, storedAt) => {
       if (!asOf.value || storedAt < asOf.value) asOf.value = storedAt;
     });
-    window.addEventListener('online', () => {
-      online.value = true;
-      void flush();
+    watch(online, (isOnline) => {
+      if (isOnline) void flush();
     });
-    window.addEventListener('offline', () => {
-      online.value = false;
-    });
-    timer ??= setInterval(() => {
-      if (online.value && waiting.value) void flush();
-    }, RETRY_MS);
+    retry.resume();
     void useAuthStore()
       .ensureLoaded()
       .then(reload)

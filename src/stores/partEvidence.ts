@@ -5,6 +5,7 @@ import { defineStore } from 'pinia';
 import { computed, ref } from 'vue';
 import type { Evidence, PartRatings, SetReportItem } from '@shared/api/evidence';
 import { evidenceApi } from '@/api';
+import { usePollWhilePending } from '@/composables/usePollWhilePending';
 
 // report photos are cleaned on the server after upload: look again a few times while any is pending
 const PHOTO_POLL_MS = 2500;
@@ -20,12 +21,23 @@ export const usePartEvidenceStore = defineStore('partEvidence', () => {
   const failed = ref('');
   /** Bumped on every load, so a late answer for another part is dropped. */
   let generation = 0;
-  let pollTimer: ReturnType<typeof setTimeout> | undefined;
+  const photoPoll = usePollWhilePending(
+    async () => {
+      const id = partId.value;
+      if (id === null) return;
+      const mine = generation;
+      const list = await evidenceApi.reports(id);
+      if (mine === generation) reports.value = list;
+    },
+    () => reports.value.some((r) => r.photos.some((p) => p.processing === 'pending')),
+    PHOTO_POLL_MS,
+    PHOTO_POLL_TRIES,
+  );
 
   const warnings = computed(() => proven.value?.warnings ?? []);
 
   function clear() {
-    clearTimeout(pollTimer);
+    photoPoll.stop();
     generation += 1;
     partId.value = null;
     proven.value = null;
@@ -35,7 +47,7 @@ export const usePartEvidenceStore = defineStore('partEvidence', () => {
   }
 
   async function load(id: number) {
-    clearTimeout(pollTimer);
+    photoPoll.stop();
     const mine = ++generation;
     if (partId.value !== id) {
       proven.value = null;
@@ -51,28 +63,12 @@ export const usePartEvidenceStore = defineStore('partEvidence', () => {
       proven.value = p;
       ratings.value = r;
       reports.value = list;
-      pollPhotos(id, PHOTO_POLL_TRIES);
+      photoPoll.start();
     } catch {
       if (mine === generation) failed.value = 'What the crew said about this part could not be loaded. Reload the page to try again.';
     } finally {
       if (mine === generation) loading.value = false;
     }
-  }
-
-  function pollPhotos(id: number, triesLeft: number) {
-    clearTimeout(pollTimer);
-    if (!triesLeft || !reports.value.some((r) => r.photos.some((p) => p.processing === 'pending'))) return;
-    const mine = generation;
-    pollTimer = setTimeout(async () => {
-      try {
-        const list = await evidenceApi.reports(id);
-        if (mine !== generation) return;
-        reports.value = list;
-        pollPhotos(id, triesLeft - 1);
-      } catch {
-        // the list keeps what it has; a reload shows the photos
-      }
-    }, PHOTO_POLL_MS);
   }
 
   /** Loads again what the current part has (after rating, flagging or hiding). */
