@@ -1,141 +1,24 @@
 // The part being put on the shelf (or changed) in the submit flow: every field of every step, the
 // chosen files with their measurements, and the inline messages. Kept in a store so a contributor who
-// leaves the flow to look something up comes back to what they typed.
+// leaves the flow to look something up comes back to what they typed. The field shapes are in
+// partDraftFields.ts, the files in composables/usePartDraftFiles.ts, the step checks in partDraftSteps.ts.
 import { UPLOAD_LIMITS } from '@shared/uploads';
 import { defineStore } from 'pinia';
-import { computed, markRaw, reactive, ref, toRaw } from 'vue';
-import type { z } from 'zod';
+import { computed, reactive, ref, toRaw } from 'vue';
 import type { PartDetail } from '@shared/api/parts';
 import type { CategorySlug, MountSlug, SafetyFlags } from '@shared/catalogue';
-import { checkAdaptationLicence, isLicenceId, type LicenceId } from '@shared/licences';
-import { MeshError, type ModelFileAnalysis } from '@shared/mesh';
-import { analyseModel } from '@/lib/meshAnalysis';
+import { isLicenceId, type LicenceId } from '@shared/licences';
 import { partSubmissionSchema, partUpdateSchema, type PartSubmission, type PartUpdate } from '@shared/schemas/part';
-import type { RecipeInput } from '@shared/schemas/recipe';
-import type { FileKind, PartFileInfo } from '@shared/types';
-import { parseLength } from '@shared/units';
-import { fieldErrors } from '@shared/validation';
-import { formatBytes } from '@/lib/format';
+import type { FileKind } from '@shared/types';
+import { usePartDraftFiles } from '@/composables/usePartDraftFiles';
+import { blankRecipe, blankSafety, lengthOf, recipeFormOf, recipeInput, uid, type KeyDimensionRow, type RecipeForm } from './partDraftFields';
+import { issuesOf, STEPS, stepOfField, type StepKey } from './partDraftSteps';
 
-export const STEPS = [
-  { key: 'details', label: 'What it is', short: 'About' },
-  { key: 'files', label: 'Files and photos', short: 'Files' },
-  { key: 'fit', label: 'What it fits', short: 'Fit' },
-  { key: 'recipes', label: 'Print recipes', short: 'Recipes' },
-  { key: 'licence', label: 'Licence and safety', short: 'Licence' },
-  { key: 'review', label: 'Check and send', short: 'Send' },
-] as const;
-export type StepKey = (typeof STEPS)[number]['key'];
-
-/** Which step shows a field, by the first segment of its key ("recipes.0.layerMm" → recipes). */
-const STEP_FIELDS: Record<StepKey, readonly string[]> = {
-  details: ['title', 'summary', 'description', 'category'],
-  files: ['model', 'photo', 'source', 'drawnInInches'],
-  fit: ['bodies', 'mounts', 'keyDimensions'],
-  recipes: ['recipes'],
-  licence: ['licence', 'safety', 'testedLoadKg', 'parentId', 'visibility'],
-  review: [],
-};
-
-export function stepOfField(key: string): StepKey {
-  const head = key.split('.')[0];
-  return STEPS.find((s) => STEP_FIELDS[s.key].includes(head))?.key ?? 'review';
-}
-
-// The server's upload limits (server/modules/files/upload.ts), checked here first so nobody waits
-// for a 150 MB upload to be refused.
+export { STEPS, stepOfField, type StepKey } from './partDraftSteps';
+export { blankRecipe, type KeyDimensionRow, type RecipeForm } from './partDraftFields';
+export type { DraftFile, ExistingFile } from '@/composables/usePartDraftFiles';
+// The server's upload limits (server/modules/files/upload.ts), checked here first.
 export { UPLOAD_LIMITS };
-const PHOTO_TYPES = ['image/jpeg', 'image/png', 'image/webp'];
-
-export interface DraftFile {
-  uid: string;
-  kind: FileKind;
-  file: File;
-  /** Photos: an object URL for the thumbnail. */
-  previewUrl: string | null;
-  analysing: boolean;
-  analysis: ModelFileAnalysis | null;
-  /** Why the file cannot be sent (wrong type, too big, not a mesh). */
-  error: string | null;
-}
-
-export interface ExistingFile {
-  info: PartFileInfo;
-  remove: boolean;
-}
-
-export interface KeyDimensionRow {
-  uid: string;
-  name: string;
-  /** As typed: "15", "15 mm", "5/8 in". */
-  value: string;
-  tol: string;
-}
-
-export interface RecipeForm {
-  uid: string;
-  purpose: RecipeInput['purpose'];
-  material: RecipeInput['material'];
-  nozzleMm: number | null;
-  layerMm: number | null;
-  walls: number | null;
-  topBottomLayers: number | null;
-  infillPct: number | null;
-  infillPattern: RecipeInput['infillPattern'];
-  hotendC: number | null;
-  bedC: number | null;
-  speedMmS: number | null;
-  supports: RecipeInput['supports'];
-  orientationNote: string;
-  printerBedMm: [number | null, number | null, number | null];
-  resultNotes: string;
-}
-
-let uidCounter = 0;
-const uid = () => `d${++uidCounter}`;
-
-export function blankRecipe(purpose: RecipeInput['purpose'] = 'set-ready'): RecipeForm {
-  return {
-    uid: uid(),
-    purpose,
-    material: 'PLA',
-    nozzleMm: 0.4,
-    layerMm: 0.2,
-    walls: 3,
-    topBottomLayers: 4,
-    infillPct: null,
-    infillPattern: 'gyroid',
-    hotendC: null,
-    bedC: null,
-    speedMmS: null,
-    supports: 'none',
-    orientationNote: '',
-    printerBedMm: [null, null, null],
-    resultNotes: '',
-  };
-}
-
-function recipeFormOf(r: RecipeInput): RecipeForm {
-  return {
-    ...blankRecipe(r.purpose),
-    ...r,
-    orientationNote: r.orientationNote ?? '',
-    resultNotes: r.resultNotes ?? '',
-    printerBedMm: r.printerBedMm ? [...r.printerBedMm] : [null, null, null],
-  };
-}
-
-function blankSafety(): SafetyFlags {
-  return { carriesLoad: false, overhead: false, vehicle: false, heat: false };
-}
-
-/** A typed length in mm; NaN when it is not one (so the schema reports it), undefined when empty. */
-function lengthOf(text: string): number | undefined {
-  if (!text.trim()) return undefined;
-  return parseLength(text) ?? Number.NaN;
-}
-
-const LENGTH_HINT = 'Write a length such as 15, 15 mm or 5/8 in.';
 
 export type DraftMode = 'new' | 'adapt' | 'edit';
 
@@ -179,9 +62,6 @@ export const usePartDraftStore = defineStore('partDraft', () => {
   const description = ref('');
   const category = ref<CategorySlug | null>(null);
 
-  const files = ref<DraftFile[]>([]);
-  const existing = ref<ExistingFile[]>([]);
-  const drawnInInches = ref(false);
 
   const bodies = ref<string[]>([]);
   const mounts = ref<{ slug: MountSlug; note: string }[]>([]);
@@ -203,11 +83,9 @@ export const usePartDraftStore = defineStore('partDraft', () => {
   /** Steps the contributor has tried to leave: their messages update as they type. */
   const checked = ref<StepKey[]>([]);
 
-  function clearFiles() {
-    for (const f of files.value) if (f.previewUrl) URL.revokeObjectURL(f.previewUrl);
-    files.value = [];
-    existing.value = [];
-  }
+  const draftFiles = usePartDraftFiles(errors);
+  const { files, existing, drawnInInches, modelFiles, photoFiles, sourceFiles, keptModels } = draftFiles;
+  const { clearFiles, addFiles, removeFile, makeCover, setDrawnInInches, filesSaved, fileRemoved } = draftFiles;
 
   function reset(newKey = '') {
     clearFiles();
@@ -304,107 +182,7 @@ export const usePartDraftStore = defineStore('partDraft', () => {
     parent.value = from;
   }
 
-  // ---- files -------------------------------------------------------------------------------
-
-  const modelFiles = computed(() => files.value.filter((f) => f.kind === 'model'));
-  const photoFiles = computed(() => files.value.filter((f) => f.kind === 'photo'));
-  const sourceFiles = computed(() => files.value.filter((f) => f.kind === 'source'));
-
-  async function measure(entry: DraftFile) {
-    entry.analysing = true;
-    entry.error = null;
-    try {
-      entry.analysis = markRaw(await analyseModel(entry.file, { drawnInInches: drawnInInches.value }));
-    } catch (err) {
-      entry.analysis = null;
-      entry.error = err instanceof MeshError ? err.message : 'This file could not be read. Export it again as STL or 3MF.';
-    } finally {
-      entry.analysing = false;
-    }
-  }
-
-  function tooBig(kind: FileKind, file: File): string | null {
-    const limit = UPLOAD_LIMITS[kind];
-    if (file.size === 0) return 'The file is empty (0 bytes). Export it again.';
-    if (file.size > limit) return `${kind === 'photo' ? 'Photos' : 'Files'} may be at most ${formatBytes(limit)}; this one is ${formatBytes(file.size)}.`;
-    return null;
-  }
-
-  function addFiles(kind: FileKind, list: FileList | File[]) {
-    for (const file of Array.from(list)) {
-      let error = tooBig(kind, file);
-      if (!error && kind === 'photo' && !PHOTO_TYPES.includes(file.type)) error = 'Photos must be JPEG, PNG or WebP images.';
-      if (!error && kind === 'model' && !/\.(stl|3mf)$/i.test(file.name)) error = 'Model files must be STL or 3MF. Put CAD files (STEP and the like) under source files.';
-      const entry = reactive<DraftFile>({
-        uid: uid(),
-        kind,
-        file: markRaw(file),
-        previewUrl: kind === 'photo' && !error ? URL.createObjectURL(file) : null,
-        analysing: false,
-        analysis: null,
-        error,
-      });
-      files.value.push(entry);
-      if (kind === 'model' && !error) void measure(entry);
-    }
-    delete errors.value[kind];
-  }
-
-  function removeFile(entryUid: string) {
-    const entry = files.value.find((f) => f.uid === entryUid);
-    if (entry?.previewUrl) URL.revokeObjectURL(entry.previewUrl);
-    files.value = files.value.filter((f) => f.uid !== entryUid);
-  }
-
-  /** Puts a photo first: the first photo is the one the shelf shows on cards. */
-  function makeCover(entryUid: string) {
-    const i = files.value.findIndex((f) => f.uid === entryUid);
-    if (i < 0) return;
-    const [entry] = files.value.splice(i, 1);
-    files.value.unshift(entry);
-  }
-
-  function setDrawnInInches(on: boolean) {
-    drawnInInches.value = on;
-    for (const f of modelFiles.value) if (!f.error || f.analysis) void measure(f);
-  }
-
-  /** Editing: the files just uploaded are now on the part; later retries must not send them again. */
-  function filesSaved(part: PartDetail) {
-    for (const f of files.value) if (f.previewUrl) URL.revokeObjectURL(f.previewUrl);
-    files.value = [];
-    const removing = new Set(existing.value.filter((e) => e.remove).map((e) => e.info.id));
-    existing.value = part.files.map((info) => ({ info, remove: removing.has(info.id) }));
-  }
-
-  function fileRemoved(fileId: number) {
-    existing.value = existing.value.filter((e) => e.info.id !== fileId);
-  }
-
-  const keptModels = computed(() => existing.value.filter((e) => e.info.kind === 'model' && !e.remove));
-
   // ---- the payload ---------------------------------------------------------------------------
-
-  function recipeInput(r: RecipeForm) {
-    const bed = r.printerBedMm.some((v) => v !== null) ? r.printerBedMm : undefined;
-    return {
-      purpose: r.purpose,
-      material: r.material,
-      nozzleMm: r.nozzleMm,
-      layerMm: r.layerMm,
-      walls: r.walls,
-      topBottomLayers: r.topBottomLayers,
-      infillPct: r.infillPct,
-      infillPattern: r.infillPattern,
-      hotendC: r.hotendC,
-      bedC: r.bedC,
-      speedMmS: r.speedMmS,
-      supports: r.supports,
-      orientationNote: r.orientationNote.trim() || undefined,
-      printerBedMm: bed,
-      resultNotes: r.resultNotes.trim() || undefined,
-    };
-  }
 
   /** Everything but the files, as the schemas expect it (not yet validated). */
   function fields() {
@@ -436,78 +214,22 @@ export const usePartDraftStore = defineStore('partDraft', () => {
 
   // ---- checking ------------------------------------------------------------------------------
 
-  const PICKS = {
-    details: { title: true, summary: true, description: true, category: true },
-    fit: { bodies: true, mounts: true, keyDimensions: true },
-    recipes: { recipes: true },
-    licence: { licence: true, safety: true, testedLoadKg: true },
-  } as const;
-
-  function schemaIssues<S extends z.ZodType>(schema: S, value: unknown): Record<string, string> {
-    const result = schema.safeParse(value);
-    return result.success ? {} : fieldErrors(result.error);
-  }
-
-  function fileIssues(): Record<string, string> {
-    const out: Record<string, string> = {};
-    const models = modelFiles.value;
-    if (models.some((f) => f.analysing)) out.model = 'Wait until every model file is measured.';
-    else if (files.value.some((f) => f.error)) {
-      const bad = files.value.find((f) => f.error)!;
-      out[bad.kind] = `${bad.file.name} cannot be sent (see above): remove it or replace it.`;
-    } else if (!models.length && !keptModels.value.length) out.model = 'Add at least one model file (STL or 3MF).';
-    if (files.value.length > UPLOAD_LIMITS.filesPerRequest) {
-      out.source ??= `Send at most ${UPLOAD_LIMITS.filesPerRequest} files at once; add the rest after it is on the shelf.`;
-    }
-    return out;
-  }
-
-  function licenceIssues(): Record<string, string> {
-    const from = parent.value;
-    if (!from || !licence.value || !isLicenceId(from.licence.id)) return {};
-    const check = checkAdaptationLicence(from.licence.id, licence.value);
-    return check.ok ? {} : { licence: check.reason };
-  }
-
-  function safetyIssues(): Record<string, string> {
-    if (mode.value !== 'adapt' || safetyStated.value) return {};
-    return { safety: 'Say where your adaptation is used: tick what applies (or nothing) and confirm it below. Nothing is copied from the original.' };
-  }
-
-  function dimensionIssues(): Record<string, string> {
-    const out: Record<string, string> = {};
-    keyDimensions.value.forEach((d, i) => {
-      if (d.value.trim() && parseLength(d.value) === null) out[`keyDimensions.${i}.valueMm`] = LENGTH_HINT;
-      if (d.tol.trim() && parseLength(d.tol) === null) out[`keyDimensions.${i}.tolMm`] = LENGTH_HINT;
+  function issuesOfStep(step: StepKey): Record<string, string> {
+    return issuesOf(step, {
+      mode: mode.value,
+      fields: fields(),
+      submission: submission(),
+      keyDimensions: keyDimensions.value,
+      licence: licence.value,
+      parentLicenceId: parent.value?.licence.id ?? null,
+      safetyStated: safetyStated.value,
+      fileIssues: draftFiles.fileIssues,
     });
-    return out;
-  }
-
-  function issuesOf(step: StepKey): Record<string, string> {
-    const data = fields();
-    switch (step) {
-      case 'details':
-        return schemaIssues(partSubmissionSchema.pick(PICKS.details), data);
-      case 'files':
-        return fileIssues();
-      case 'fit':
-        return { ...schemaIssues(partSubmissionSchema.pick(PICKS.fit), data), ...dimensionIssues() };
-      case 'recipes':
-        return schemaIssues(partSubmissionSchema.pick(PICKS.recipes), data);
-      case 'licence':
-        return { ...schemaIssues(partSubmissionSchema.pick(PICKS.licence), data), ...licenceIssues(), ...safetyIssues() };
-      case 'review': {
-        const whole = mode.value === 'edit' ? schemaIssues(partUpdateSchema, data) : schemaIssues(partSubmissionSchema, submission());
-        const all: Record<string, string> = { ...whole };
-        for (const s of STEPS) if (s.key !== 'review') Object.assign(all, issuesOf(s.key));
-        return all;
-      }
-    }
   }
 
   /** Replaces the messages of one step; true when it has none. */
   function checkStep(step: StepKey): boolean {
-    const found = issuesOf(step);
+    const found = issuesOfStep(step);
     const kept = Object.fromEntries(Object.entries(errors.value).filter(([k]) => step !== 'review' && stepOfField(k) !== step));
     errors.value = { ...kept, ...found };
     if (!checked.value.includes(step)) checked.value.push(step);
