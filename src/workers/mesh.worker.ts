@@ -1,14 +1,19 @@
 // Measures a model file off the page's main thread, so a large STL does not freeze the submit form.
-import { analyseModelFile, MeshError } from '@shared/mesh';
-import type { MeshJob, MeshReply } from '@/lib/meshAnalysis';
+// Called through comlink (lib/meshAnalysis.ts); a mesh error comes back as a value, with its code.
+import { expose } from 'comlink';
+import { analyseModelFile, MeshError, type MeshErrorCode, type ModelFileAnalysis } from '@shared/mesh';
 
-const reply = (message: MeshReply) => (globalThis as unknown as { postMessage(m: MeshReply): void }).postMessage(message);
+export type MeshOutcome = { ok: true; analysis: ModelFileAnalysis } | { ok: false; code: MeshErrorCode | null; message: string };
 
-addEventListener('message', (event) => {
-  const { id, bytes, drawnInInches } = (event as MessageEvent<MeshJob>).data;
-  try {
-    reply({ id, ok: true, analysis: analyseModelFile(new Uint8Array(bytes), { drawnInInches }) });
-  } catch (err) {
-    reply({ id, ok: false, code: err instanceof MeshError ? err.code : null, message: (err as Error).message });
-  }
-});
+const api = {
+  analyse(bytes: ArrayBuffer, drawnInInches: boolean): MeshOutcome {
+    try {
+      return { ok: true, analysis: analyseModelFile(new Uint8Array(bytes), { drawnInInches }) };
+    } catch (err) {
+      return { ok: false, code: err instanceof MeshError ? err.code : null, message: (err as Error).message };
+    }
+  },
+};
+export type MeshWorker = typeof api;
+
+expose(api);
