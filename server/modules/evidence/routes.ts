@@ -27,7 +27,7 @@ function clientKeyOf(req: Request): string | undefined {
   const parsed = clientKeySchema.safeParse(raw);
   if (!parsed.success) {
     const message = parsed.error.issues[0]?.message ?? 'The Idempotency-Key header is malformed.';
-    throw new AppError(422, 'validation_failed', message, { idempotencyKey: message });
+    throw AppError.field('idempotencyKey', message);
   }
   return parsed.data;
 }

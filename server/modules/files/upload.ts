@@ -175,7 +175,7 @@ export function multipartFields(req: Request, structured: readonly string[]): un
     try {
       out[key] = /^[[{]/.test(text) ? JSON.parse(text) : text ? text.split(',').map((v) => v.trim()) : [];
     } catch {
-      throw new AppError(422, 'validation_failed', 'Some fields need another look.', { [key]: `"${key}" must be JSON.` });
+      throw AppError.field(key, `"${key}" must be JSON.`, 'Some fields need another look.');
     }
   }
   return out;

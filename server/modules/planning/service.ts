@@ -63,10 +63,6 @@ export interface PlanningDeps {
   alerts?: Alerts;
 }
 
-function fieldError(field: string, message: string) {
-  return new AppError(422, 'validation_failed', message, { [field]: message });
-}
-
 /** Empty text means "none". */
 function textOrNull(value: string | null | undefined): string | null {
   return value === undefined || value === null || value === '' ? null : value;
@@ -103,9 +99,9 @@ async function visibleModelFile(viewer: User | undefined, fileId: number): Promi
   const linked = await RevisionFile.count({ where: { fileId, revisionId: { [Op.in]: revisionIds } } });
   if (!linked) throw noFile();
   if (file.kind !== 'model') {
-    throw fieldError('fileId', `That file is a ${file.kind === 'photo' ? 'photo' : 'source file'}, not a model; choose the part’s STL or 3MF file.`);
+    throw AppError.field('fileId', `That file is a ${file.kind === 'photo' ? 'photo' : 'source file'}, not a model; choose the part’s STL or 3MF file.`);
   }
-  if (!file.analysis) throw fieldError('fileId', 'That model file has no mesh figures, so there is nothing to estimate from.');
+  if (!file.analysis) throw AppError.field('fileId', 'That model file has no mesh figures, so there is nothing to estimate from.');
   return file;
 }
 
@@ -113,7 +109,7 @@ async function visibleModelFile(viewer: User | undefined, fileId: number): Promi
 async function shelfPart(viewer: User, partId: number, transaction?: Transaction): Promise<Part> {
   const part = await Part.findByPk(partId, { transaction });
   if (!part || !isOnShelfForKits(part) || !crewAllows(await audienceOf(viewer, transaction), part)) {
-    throw fieldError('partId', 'Only parts that are on the shelf can go in a kit; that one is not. Pick a part from the shelf.');
+    throw AppError.field('partId', 'Only parts that are on the shelf can go in a kit; that one is not. Pick a part from the shelf.');
   }
   return part;
 }
@@ -126,19 +122,19 @@ function defaultRecipe(recipes: Recipe[]): Recipe | null {
 async function publishedRecipe(part: Part, recipeId: number | null | undefined, transaction?: Transaction): Promise<Recipe> {
   if (recipeId) {
     const recipe = await Recipe.findOne({ where: { id: recipeId, revisionId: part.publishedRevisionId! }, transaction });
-    if (!recipe) throw fieldError('recipeId', 'That recipe is not one of this part’s published recipes; pick one from the part’s page.');
+    if (!recipe) throw AppError.field('recipeId', 'That recipe is not one of this part’s published recipes; pick one from the part’s page.');
     return recipe;
   }
   const recipes = await Recipe.findAll({ where: { revisionId: part.publishedRevisionId! }, order: [['position', 'ASC']], transaction });
   const recipe = defaultRecipe(recipes);
-  if (!recipe) throw fieldError('recipeId', 'This part has no published recipe to print it with.');
+  if (!recipe) throw AppError.field('recipeId', 'This part has no published recipe to print it with.');
   return recipe;
 }
 
 async function ownersPrinter(kit: Kit, printerId: number | null | undefined, transaction?: Transaction): Promise<number | null> {
   if (printerId === null || printerId === undefined) return null;
   const printer = await Printer.findOne({ where: { id: printerId, ownerId: kit.ownerId }, transaction });
-  if (!printer) throw fieldError('printerId', 'That printer is not one of the kit owner’s printers; pick one of theirs or none.');
+  if (!printer) throw AppError.field('printerId', 'That printer is not one of the kit owner’s printers; pick one of theirs or none.');
   return printer.id;
 }
 
@@ -170,7 +166,7 @@ function madePlan(item: KitItem): KitPlanItem {
 }
 
 function checkDates(startsOn: string | null, endsOn: string | null) {
-  if (startsOn && endsOn && startsOn > endsOn) throw fieldError('endsOn', 'The last shoot day cannot be before the first.');
+  if (startsOn && endsOn && startsOn > endsOn) throw AppError.field('endsOn', 'The last shoot day cannot be before the first.');
 }
 
 type FileWithPosition = PartFile & { RevisionFile?: { position: number } };
@@ -457,7 +453,7 @@ export function createPlanningService({ sequelize, evidence, dirs, slicer, alert
         const { kit } = await findKit(viewer, kitId, 'edit', undefined, t);
         const item = await itemOf(kit, itemId, t, viewer);
         if (!item.partId && (patch.partId !== undefined || patch.recipeId !== undefined)) {
-          throw fieldError(patch.partId !== undefined ? 'partId' : 'recipeId', 'A made item keeps its maker and sizes; make it again and add the new one instead.');
+          throw AppError.field(patch.partId !== undefined ? 'partId' : 'recipeId', 'A made item keeps its maker and sizes; make it again and add the new one instead.');
         }
         const changes: Partial<KitItem> = defined({
           quantity: patch.quantity,
@@ -515,7 +511,7 @@ export function createPlanningService({ sequelize, evidence, dirs, slicer, alert
         }
         const problems = Object.values(fields);
         if (problems.length) {
-          throw new AppError(422, 'validation_failed', problems.length === 1 ? problems[0] : 'Some of these members cannot be added; see each entry.', fields);
+          throw AppError.fields(problems.length === 1 ? problems[0] : 'Some of these members cannot be added; see each entry.', fields);
         }
         const before = new Set((await KitShare.findAll({ where: { kitId: kit.id }, attributes: ['userId'], transaction: t })).map((s) => s.userId));
         await KitShare.destroy({ where: { kitId: kit.id }, transaction: t });
@@ -555,7 +551,7 @@ export function createPlanningService({ sequelize, evidence, dirs, slicer, alert
           seen.add(share.crewId);
         }
         const problems = Object.values(fields);
-        if (problems.length) throw new AppError(422, 'validation_failed', problems.length === 1 ? problems[0] : 'Some of these crews cannot be added; see each entry.', fields);
+        if (problems.length) throw AppError.fields(problems.length === 1 ? problems[0] : 'Some of these crews cannot be added; see each entry.', fields);
         await KitCrewShare.destroy({ where: { kitId: kit.id }, transaction: t });
         await KitCrewShare.bulkCreate(input.crewShares.map((s) => ({ kitId: kit.id, crewId: s.crewId, access: s.access })), { transaction: t });
         await touch(kit, t);

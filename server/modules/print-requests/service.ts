@@ -55,10 +55,6 @@ export interface PrintRequestsDeps {
 
 const notFound = () => AppError.notFound('There is no print request with that id among yours.');
 
-function fieldError(field: string, message: string) {
-  return new AppError(422, 'validation_failed', message, { [field]: message });
-}
-
 function person(user: User | undefined, id: number) {
   return { id, displayName: user?.displayName ?? 'A former member' };
 }
@@ -231,19 +227,19 @@ export function createPrintRequestsService({ sequelize, mail, publicUrl: configu
     if (input.partId !== undefined) {
       const part = await findVisiblePart(viewer, input.partId).catch(() => null);
       if (!part || part.status !== 'published' || !part.publishedRevisionId) {
-        throw fieldError('partId', 'Only parts on the shelf can be asked for; pick one from the shelf.');
+        throw AppError.field('partId', 'Only parts on the shelf can be asked for; pick one from the shelf.');
       }
       // a crew-only part stays inside its crew: the printer's owner must be in it too
       if (part.crewId && part.crewId !== input.crewId) {
-        throw fieldError('crewId', 'This part is published to one crew only; ask a member of that crew to print it.');
+        throw AppError.field('crewId', 'This part is published to one crew only; ask a member of that crew to print it.');
       }
       const revision = await PartRevision.findByPk(part.publishedRevisionId, { include: [{ model: PartFile, as: 'files', through: { attributes: ['position'] } }] });
       const recipes = await Recipe.findAll({ where: { revisionId: part.publishedRevisionId }, order: [['position', 'ASC']] });
       const recipe = input.recipeId ? recipes.find((x) => x.id === input.recipeId) : (recipes.find((x) => x.purpose === 'set-ready') ?? recipes[0]);
-      if (!recipe) throw fieldError('recipeId', input.recipeId ? 'That recipe is not one of this part’s published recipes.' : 'This part has no published recipe to print it with.');
+      if (!recipe) throw AppError.field('recipeId', input.recipeId ? 'That recipe is not one of this part’s published recipes.' : 'This part has no published recipe to print it with.');
       const files = [...((revision?.files ?? []) as FileWithPosition[])].sort((a, b) => (a.RevisionFile?.position ?? 0) - (b.RevisionFile?.position ?? 0));
       const model = files.find((f) => f.kind === 'model' && f.analysis && f.analysis.volumeMm3 > 0);
-      if (!model) throw fieldError('partId', 'This part has no analysed model file, so there is nothing to estimate the print from.');
+      if (!model) throw AppError.field('partId', 'This part has no analysed model file, so there is nothing to estimate the print from.');
       const material = (input.material ?? recipe.material) as MaterialId;
       const e = await planning.estimate(viewer, {
         fileId: model.id,
@@ -272,7 +268,7 @@ export function createPrintRequestsService({ sequelize, mail, publicUrl: configu
     const summary = await planning.summary(viewer, input.kitId!);
     const itemParts = summary.items.length ? await Part.findAll({ where: { id: { [Op.in]: summary.items.flatMap((i) => (i.part ? [i.part.id] : [])) } }, attributes: ['id', 'crewId'] }) : [];
     if (itemParts.some((p) => p.crewId && p.crewId !== input.crewId)) {
-      throw fieldError('crewId', 'This kit holds parts published to another crew only; ask a member of that crew, or take those items out first.');
+      throw AppError.field('crewId', 'This kit holds parts published to another crew only; ask a member of that crew, or take those items out first.');
     }
     const byMaterial = new Map<string, number>();
     let minutes = 0;
@@ -285,7 +281,7 @@ export function createPrintRequestsService({ sequelize, mail, publicUrl: configu
       byMaterial.set(item.material, (byMaterial.get(item.material) ?? 0) + item.total.massG * input.quantity);
       minutes += item.total.hours * 60 * input.quantity;
     }
-    if (!byMaterial.size) throw fieldError('kitId', 'No item of this kit has an estimate, so there is nothing to price; add parts with model files first.');
+    if (!byMaterial.size) throw AppError.field('kitId', 'No item of this kit has an estimate, so there is nothing to price; add parts with model files first.');
     const filament = [...byMaterial].map(([material, grams]) => ({ material, grams }));
     return {
       kind: 'kit' as const,
@@ -355,13 +351,13 @@ export function createPrintRequestsService({ sequelize, mail, publicUrl: configu
 
     async create(viewer: User, input: PrintRequestInput): Promise<PrintRequestDetail> {
       const crew = await Crew.findByPk(input.crewId);
-      if (!crew || !(await membershipOf(viewer.id, crew.id))) throw fieldError('crewId', 'You are not in that crew; ask a member of one of your crews.');
+      if (!crew || !(await membershipOf(viewer.id, crew.id))) throw AppError.field('crewId', 'You are not in that crew; ask a member of one of your crews.');
       const printer = await Printer.findByPk(input.printerId);
       const owner = printer ? await User.findByPk(printer.ownerId) : null;
       if (!printer || !owner || owner.status !== 'active' || !(await membershipOf(owner.id, crew.id))) {
-        throw fieldError('printerId', 'That printer does not belong to a member of this crew; pick one from the crew’s printers.');
+        throw AppError.field('printerId', 'That printer does not belong to a member of this crew; pick one from the crew’s printers.');
       }
-      if (owner.id === viewer.id) throw fieldError('printerId', 'That is your own printer; print it yourself, or ask a crew mate.');
+      if (owner.id === viewer.id) throw AppError.field('printerId', 'That is your own printer; print it yourself, or ask a crew mate.');
       const e = await estimateFor(viewer, input);
       const id = await transact(sequelize, async (t) => {
         const r = await PrintRequest.create(
