@@ -1,3 +1,4 @@
+// Over 350 lines because most of it is data: the SHELF table of invented parts, one entry each.
 // The rest of the demo shelf: parts in every category and for every mount standard, modelled with
 // a CAD library (demo-solids.ts), most shown by the picture the server draws from the model and a few
 // with stand-in photos. Adaptations carry licences their parents allow; ratings and set reports cover

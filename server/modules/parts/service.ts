@@ -1,3 +1,5 @@
+// Over 350 lines on purpose: create, update, resubmit and addFiles share the service's transaction
+// and moved-file undo helpers; access, presenter, revisions and part-files are already files of their own.
 // The catalogue's core record: submitting, reading, editing parts and their files.
 import { Op, UniqueConstraintError, type CreationAttributes, type Sequelize, type Transaction } from 'sequelize';
 import { slugify } from '@shared/catalogue';
