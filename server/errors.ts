@@ -33,6 +33,14 @@ export class AppError extends Error {
   static conflict(message: string) {
     return new AppError(409, 'conflict', message);
   }
+  /** A 422 about one field; `summary` is the message above the form when it differs from the field's own. */
+  static field(name: string, message: string, summary = message) {
+    return new AppError(422, 'validation_failed', summary, { [name]: message });
+  }
+  /** A 422 about several fields at once. */
+  static fields(message: string, fields: Record<string, string>) {
+    return new AppError(422, 'validation_failed', message, fields);
+  }
   static validation(error: ZodError, message = 'Some fields need another look.') {
     return new AppError(422, 'validation_failed', message, fieldErrors(error));
   }

@@ -1,3 +1,5 @@
+// Over 350 lines: much of it is the formulas and their sources in comments; the estimate and the bed fit
+// share the settings and geometry types.
 // Print estimates for shoot planning: filament, time, cost, and whether a part fits a bed.
 //
 // Material comes from layer figures (shared/slice.ts): per layer of thickness t,

@@ -1,3 +1,5 @@
+// Over 350 lines: a quarter of it is the rules stated in comments; the per-item figures, totals and
+// buy-or-print comparison share one pass over the items.
 // The arithmetic of a shoot kit: what every item costs in filament, time and money, whether it fits
 // its printer and survives the shoot's heat, the totals per material and per printer, and whether
 // printing beats buying. Pure: the server loads the figures, this adds them up.

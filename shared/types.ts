@@ -59,8 +59,13 @@ export interface HealthStatus {
 
 export const PART_STATUSES = ['draft', 'in_review', 'published', 'sent_back', 'rejected', 'retired'] as const;
 export type PartStatus = (typeof PART_STATUSES)[number];
-export type RevisionStatus = 'draft' | 'in_review' | 'published' | 'sent_back' | 'rejected' | 'superseded';
-export type FileKind = 'model' | 'photo' | 'source';
+export const REVISION_STATUSES = ['draft', 'in_review', 'published', 'sent_back', 'rejected', 'superseded'] as const;
+export type RevisionStatus = (typeof REVISION_STATUSES)[number];
+export const FILE_KINDS = ['model', 'photo', 'source'] as const;
+export type FileKind = (typeof FILE_KINDS)[number];
+/** Where a stored picture (a cleaned photo, a drawn model) is: waiting for its worker, done, or given up on. */
+export const PROCESSING_STATES = ['ready', 'pending', 'failed'] as const;
+export type ProcessingState = (typeof PROCESSING_STATES)[number];
 
 export interface CameraBodyInfo {
   slug: string;

@@ -1,67 +1,50 @@
-// Versioned migrations and seeders through umzug. Each file exports `up` (and `down` for
-// migrations); the database records which ran, so every step runs once.
+// Versioned migrations through umzug. Each file exports `up` and `down`; the database records which
+// ran, so every step runs once. The demo seeders (server/demo/) run through `runSteps` too.
 import { readdirSync } from 'node:fs';
 import { resolve } from 'node:path';
 import type { QueryInterface, Sequelize } from 'sequelize';
 import { SequelizeStorage, Umzug } from 'umzug';
-import type { UploadDirs } from '../modules/files/storage';
-import type { EvidenceService } from '../modules/evidence/service';
-import type { PartsService } from '../modules/parts/service';
-import type { ReviewService } from '../modules/review/service';
-import type { PrintRequestsService } from '../modules/print-requests/service';
 
 export interface MigrationContext {
   queryInterface: QueryInterface;
   sequelize: Sequelize;
-  /** Seeders only: the running app's services, for demo data that goes through the real rules. */
-  services?: SeedServices;
 }
 
-export interface SeedServices {
-  parts: PartsService;
-  review: ReviewService;
-  evidence: EvidenceService;
-  dirs: UploadDirs;
-  printRequests?: PrintRequestsService;
-}
+export type MigrationFn<C extends MigrationContext = MigrationContext> = (ctx: { context: C }) => Promise<void>;
 
-export type MigrationFn = (ctx: { context: MigrationContext }) => Promise<void>;
-
-function stepsIn(folder: string) {
-  const dir = resolve(import.meta.dirname, folder);
+function stepsIn<C extends MigrationContext>(dir: string) {
   return readdirSync(dir)
     .filter((f) => /^\d{4}-[\w-]+\.ts$/.test(f))
     .sort()
     .map((file) => {
-      const load = () => import(resolve(dir, file)) as Promise<{ up: MigrationFn; down?: MigrationFn }>;
+      const load = () => import(resolve(dir, file)) as Promise<{ up: MigrationFn<C>; down?: MigrationFn<C> }>;
       return {
         name: file.replace(/\.ts$/, ''),
-        up: async (params: { context: MigrationContext }) => (await load()).up(params),
-        down: async (params: { context: MigrationContext }) => (await load()).down?.(params),
+        up: async (params: { context: C }) => (await load()).up(params),
+        down: async (params: { context: C }) => (await load()).down?.(params),
       };
     });
 }
 
-function umzug(sequelize: Sequelize, folder: string, tableName: string, services?: SeedServices) {
-  return new Umzug<MigrationContext>({
-    migrations: stepsIn(folder),
-    context: { queryInterface: sequelize.getQueryInterface(), sequelize, services },
-    storage: new SequelizeStorage({ sequelize, tableName, modelName: tableName }),
+/** The numbered steps (`NNNN-name.ts`) in `dir`, recorded in `tableName`, run with `context`. */
+export function runSteps<C extends MigrationContext>(dir: string, tableName: string, context: C) {
+  return new Umzug<C>({
+    migrations: stepsIn<C>(dir),
+    context,
+    storage: new SequelizeStorage({ sequelize: context.sequelize, tableName, modelName: tableName }),
     logger: undefined,
   });
 }
 
+function migrations(sequelize: Sequelize) {
+  return runSteps(resolve(import.meta.dirname, 'migrations'), 'schema_migrations', { queryInterface: sequelize.getQueryInterface(), sequelize });
+}
+
 export async function migrate(sequelize: Sequelize): Promise<string[]> {
-  const done = await umzug(sequelize, 'migrations', 'schema_migrations').up();
+  const done = await migrations(sequelize).up();
   return done.map((m) => m.name);
 }
 
 export async function rollbackAll(sequelize: Sequelize): Promise<void> {
-  await umzug(sequelize, 'migrations', 'schema_migrations').down({ to: 0 });
-}
-
-/** Runs the demo seeders that have not run on this database yet (up to and including `to`, a seeder's name). */
-export async function seedDemo(sequelize: Sequelize, services: SeedServices, options: { to?: string } = {}): Promise<string[]> {
-  const done = await umzug(sequelize, 'seeders', 'schema_seeds', services).up(options.to ? { to: options.to } : {});
-  return done.map((m) => m.name);
+  await migrations(sequelize).down({ to: 0 });
 }

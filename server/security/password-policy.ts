@@ -23,5 +23,5 @@ export function passwordRefusal(password: string, email?: string): string | null
 /** Throws a 422 with a field message on `password` when the password is refused. */
 export async function assertPasswordAllowed(password: string, email?: string): Promise<void> {
   const problem = passwordRefusal(password, email);
-  if (problem) throw new AppError(422, 'validation_failed', problem, { password: problem });
+  if (problem) throw AppError.field('password', problem);
 }

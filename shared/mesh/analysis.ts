@@ -1,3 +1,5 @@
+// Over 350 lines on purpose: the facet accumulator and the checks that read its typed arrays
+// (welding, edge use, shells, orientation) share those arrays; bench:mesh measures them as one path.
 import { MODEL_LIMITS } from '../uploads';
 import { detectStlFormat, declaredFacetCount, nonFiniteFacet, readAsciiStl, readBinaryStl } from './stl';
 import { isZip, read3mf } from './threemf';

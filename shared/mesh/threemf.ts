@@ -1,3 +1,5 @@
+// Over 350 lines on purpose: the whole 3MF reader (a bounded ZIP reader, the XML scan, the object and
+// build resolution), each step guarding the limits of the next; nothing else reads ZIP or model XML.
 import { Inflate } from 'fflate';
 import { MODEL_LIMITS } from '../uploads';
 import { describeNonMeshBytes, PositionCollector } from './stl';

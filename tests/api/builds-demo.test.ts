@@ -1,8 +1,8 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { BuildInfo, BuildSearchResponse } from '@shared/api/builds';
 import type { WantedListItem } from '@shared/api/wanted';
-import { DEMO_ACCOUNTS, DEMO_PASSWORD } from '../../server/db/seeders/0001-demo-crew';
-import { DEMO_BUILD_NAME } from '../../server/db/seeders/0011-demo-builds-and-wanted';
+import { DEMO_ACCOUNTS, DEMO_PASSWORD } from '../../server/demo/0001-demo-crew';
+import { DEMO_BUILD_NAME } from '../../server/demo/0011-demo-builds-and-wanted';
 import { agentFor, createTestApp, type TestApp } from '../helpers/app';
 
 let t: TestApp;

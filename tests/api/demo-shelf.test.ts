@@ -4,7 +4,7 @@ import { CATEGORY_SLUGS, MOUNT_SLUGS } from '@shared/catalogue';
 import { checkAdaptationLicence, isLicenceId } from '@shared/licences';
 import { SET_REPORT_OUTCOMES } from '@shared/ranking';
 import { Kit, Part, PartFile, PartRevision, SetReport, WantedRequest } from '../../server/db/models';
-import { SHELF } from '../../server/db/seeders/0014-demo-shelf';
+import { SHELF } from '../../server/demo/0014-demo-shelf';
 import { createTestApp, type TestApp } from '../helpers/app';
 
 let t: TestApp;

@@ -1,6 +1,6 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { KitSummaryResponse } from '@shared/api/planning';
-import { DEMO_ACCOUNTS, DEMO_PASSWORD } from '../../server/db/seeders/0001-demo-crew';
+import { DEMO_ACCOUNTS, DEMO_PASSWORD } from '../../server/demo/0001-demo-crew';
 import { agentFor, createTestApp, type TestApp } from '../helpers/app';
 
 let t: TestApp;

@@ -1,5 +1,5 @@
 // The demo shelf searched the way a new crew member types: each query names the part it means.
-// The demo shelf (server/db/seeders/0003-demo-parts.ts) has a receiver cradle for 15 mm rods, a
+// The demo shelf (server/demo/0003-demo-parts.ts) has a receiver cradle for 15 mm rods, a
 // V-style plate spacer, a lens gear ring, a rod cable clip, a dashboard monitor yoke and a
 // cold-shoe cover (waiting in review, so not found).
 import request from 'supertest';

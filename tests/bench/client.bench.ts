@@ -23,7 +23,7 @@ import { loadavg } from 'node:os';
 import { join } from 'node:path';
 import { gzipSync } from 'node:zlib';
 import { chromium, type BrowserContext } from 'playwright-core';
-import { DEMO_PASSWORD } from '../../server/db/seeders/0001-demo-crew';
+import { DEMO_PASSWORD } from '../../server/demo/0001-demo-crew';
 import { Member, ROOT, scratchDb, spawnServer } from '../helpers/system';
 
 function flag(name: string, fallback: string): string {

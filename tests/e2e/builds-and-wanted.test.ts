@@ -1,5 +1,5 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { DEMO_ACCOUNTS, DEMO_PASSWORD } from '../../server/db/seeders/0001-demo-crew';
+import { DEMO_ACCOUNTS, DEMO_PASSWORD } from '../../server/demo/0001-demo-crew';
 import { signInThroughForm, startBrowserRig, type BrowserRig } from '../helpers/browser';
 import { plainPng } from '../helpers/photos';
 

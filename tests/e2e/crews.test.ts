@@ -1,6 +1,6 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { DEMO_ACCOUNTS, DEMO_PASSWORD } from '../../server/db/seeders/0001-demo-crew';
-import { DEMO_CREW_NAME, DEMO_CREW_PART_TITLE } from '../../server/db/seeders/0017-demo-crew-shelf';
+import { DEMO_ACCOUNTS, DEMO_PASSWORD } from '../../server/demo/0001-demo-crew';
+import { DEMO_CREW_NAME, DEMO_CREW_PART_TITLE } from '../../server/demo/0017-demo-crew-shelf';
 import { forgetSession, signInThroughForm, startBrowserRig, type BrowserRig } from '../helpers/browser';
 
 let rig: BrowserRig;

@@ -2,7 +2,7 @@ import { readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { analyseModelFile } from '@shared/mesh';
-import { DEMO_ACCOUNTS, DEMO_PASSWORD } from '../../server/db/seeders/0001-demo-crew';
+import { DEMO_ACCOUNTS, DEMO_PASSWORD } from '../../server/demo/0001-demo-crew';
 import { ARTIFACTS, signInThroughForm, startBrowserRig, type BrowserRig } from '../helpers/browser';
 
 let rig: BrowserRig;

@@ -1,6 +1,6 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { Kit, KitItem, KitRecall, SetReport, User } from '../../server/db/models';
-import { DEMO_ACCOUNTS, DEMO_PASSWORD } from '../../server/db/seeders/0001-demo-crew';
+import { DEMO_ACCOUNTS, DEMO_PASSWORD } from '../../server/demo/0001-demo-crew';
 import { signInThroughForm, startBrowserRig, type BrowserRig } from '../helpers/browser';
 
 let rig: BrowserRig;

@@ -4,7 +4,7 @@ import { join } from 'node:path';
 import { Jimp } from 'jimp';
 import type { Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { DEMO_ACCOUNTS, DEMO_PASSWORD } from '../../server/db/seeders/0001-demo-crew';
+import { DEMO_ACCOUNTS, DEMO_PASSWORD } from '../../server/demo/0001-demo-crew';
 import { signInThroughForm, startBrowserRig, type BrowserRig } from '../helpers/browser';
 import { boxStl } from '../helpers/meshes';
 

@@ -1,8 +1,8 @@
 import type { Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { Part, PartRevision } from '../../server/db/models';
-import { DEMO_ACCOUNTS, DEMO_PASSWORD } from '../../server/db/seeders/0001-demo-crew';
-import { DEMO_SECOND_MEMBER } from '../../server/db/seeders/0017-demo-crew-shelf';
+import { DEMO_ACCOUNTS, DEMO_PASSWORD } from '../../server/demo/0001-demo-crew';
+import { DEMO_SECOND_MEMBER } from '../../server/demo/0017-demo-crew-shelf';
 import { forgetSession, signInThroughForm, startBrowserRig, type BrowserRig } from '../helpers/browser';
 
 let rig: BrowserRig;

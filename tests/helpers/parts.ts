@@ -1,7 +1,7 @@
 // Building part submissions for API tests.
 import type { PartSubmission } from '@shared/schemas/part';
 import { Part, PartRevision } from '../../server/db/models';
-import { DEMO_BODIES } from '../../server/db/seeders/0002-demo-camera-bodies';
+import { DEMO_BODIES } from '../../server/demo/0002-demo-camera-bodies';
 import { CameraBody } from '../../server/db/models';
 
 export const setReadyRecipe = {

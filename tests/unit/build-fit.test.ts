@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { fitPartToBuild, rangesOverlap, sameSizeName, type FitBuild, type FitPart } from '@shared/build-fit';
 
-// The demo member's build and three demo-like parts (server/db/seeders/0003-demo-parts.ts).
+// The demo member's build and three demo-like parts (server/demo/0003-demo-parts.ts).
 const carWeek: FitBuild = {
   body: 'korvel-kx8',
   mounts: ['rods-15-60', 'screw-1-4-20'],

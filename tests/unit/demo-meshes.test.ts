@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { analyseModelFile } from '@shared/mesh';
-import { box, clip, ring, toBinaryStl } from '../../server/db/seeders/demo-meshes';
+import { box, clip, ring, toBinaryStl } from '../../server/demo/demo-meshes';
 
 // The demo shapes must be closed and wound outward, or the demo shelf would show warnings.
 describe('demo meshes · closed prisms', () => {

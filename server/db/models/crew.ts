@@ -1,7 +1,7 @@
 // Crews, their members (crew role lead or member), invitations by mail, and kits shared with a crew.
 import { DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes, type NonAttribute, type Sequelize } from 'sequelize';
-import type { CrewRole } from '@shared/schemas/crews';
-import type { KitShareAccess } from '@shared/schemas/planning';
+import { CREW_ROLES, type CrewRole } from '@shared/schemas/crews';
+import { KIT_ACCESS, type KitShareAccess } from '@shared/schemas/planning';
 import { decimalColumn } from './columns';
 import type { User } from './user';
 
@@ -62,7 +62,7 @@ export class KitCrewShare extends Model<InferAttributes<KitCrewShare>, InferCrea
 }
 
 const pk = { type: DataTypes.INTEGER.UNSIGNED, autoIncrement: true, primaryKey: true };
-const role = { type: DataTypes.ENUM('lead', 'member'), allowNull: false };
+const role = { type: DataTypes.ENUM(...CREW_ROLES), allowNull: false };
 
 export function initCrews(sequelize: Sequelize) {
   Crew.init(
@@ -111,7 +111,7 @@ export function initCrews(sequelize: Sequelize) {
       id: pk,
       kitId: { type: DataTypes.INTEGER.UNSIGNED, allowNull: false },
       crewId: { type: DataTypes.INTEGER.UNSIGNED, allowNull: false },
-      access: { type: DataTypes.ENUM('read', 'edit'), allowNull: false },
+      access: { type: DataTypes.ENUM(...KIT_ACCESS), allowNull: false },
       createdAt: DataTypes.DATE,
       updatedAt: DataTypes.DATE,
     },

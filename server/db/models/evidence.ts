@@ -1,5 +1,7 @@
 // After the shoot: ratings, set reports (with photos) and flags on either.
 import { DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes, type NonAttribute, type Sequelize } from 'sequelize';
+import { PROCESSING_STATES, type ProcessingState } from '@shared/types';
+import { SET_REPORT_OUTCOMES } from '@shared/evidence-terms';
 import type { SetCondition } from '@shared/evidence';
 import type { SetReportOutcome } from '@shared/ranking';
 import { decimalColumn, jsonColumn } from './columns';
@@ -54,7 +56,7 @@ export class ReportPhoto extends Model<InferAttributes<ReportPhoto>, InferCreati
   declare originalName: string;
   declare sizeBytes: number;
   declare sha256: string;
-  declare processing: CreationOptional<'ready' | 'pending' | 'failed'>;
+  declare processing: CreationOptional<ProcessingState>;
   declare processingAttempts: CreationOptional<number>;
   declare width: number | null;
   declare height: number | null;
@@ -96,7 +98,7 @@ export function initEvidence(sequelize: Sequelize) {
       material: { type: DataTypes.STRING(20), allowNull: false },
       infillPct: decimalColumn('infillPct', 5, 2, true),
       walls: { type: DataTypes.INTEGER.UNSIGNED, allowNull: true },
-      outcome: { type: DataTypes.ENUM('held-up', 'worn-but-working', 'deformed', 'cracked', 'failed'), allowNull: false },
+      outcome: { type: DataTypes.ENUM(...SET_REPORT_OUTCOMES), allowNull: false },
       notes: { type: DataTypes.TEXT, allowNull: true },
       ...hidingColumns,
       createdAt: DataTypes.DATE,
@@ -118,7 +120,7 @@ export function initEvidence(sequelize: Sequelize) {
         },
       },
       sha256: { type: DataTypes.CHAR(64), allowNull: false },
-      processing: { type: DataTypes.ENUM('ready', 'pending', 'failed'), allowNull: false, defaultValue: 'pending' },
+      processing: { type: DataTypes.ENUM(...PROCESSING_STATES), allowNull: false, defaultValue: 'pending' },
       processingAttempts: { type: DataTypes.TINYINT.UNSIGNED, allowNull: false, defaultValue: 0 },
       width: { type: DataTypes.INTEGER.UNSIGNED, allowNull: true },
       height: { type: DataTypes.INTEGER.UNSIGNED, allowNull: true },

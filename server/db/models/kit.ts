@@ -9,7 +9,7 @@ import {
   type Sequelize,
 } from 'sequelize';
 import type { HeatExposure, MaterialId } from '@shared/materials';
-import type { KitShareAccess } from '@shared/schemas/planning';
+import { KIT_ACCESS, type KitShareAccess } from '@shared/schemas/planning';
 import { decimalColumn, jsonColumn } from './columns';
 import type { Part } from './part';
 import type { Printer } from './printer';
@@ -108,7 +108,7 @@ export function initKits(sequelize: Sequelize) {
       id: { type: DataTypes.INTEGER.UNSIGNED, autoIncrement: true, primaryKey: true },
       kitId: { type: DataTypes.INTEGER.UNSIGNED, allowNull: false },
       userId: { type: DataTypes.INTEGER.UNSIGNED, allowNull: false },
-      access: { type: DataTypes.ENUM('read', 'edit'), allowNull: false },
+      access: { type: DataTypes.ENUM(...KIT_ACCESS), allowNull: false },
       createdAt: DataTypes.DATE,
       updatedAt: DataTypes.DATE,
     },

@@ -1,5 +1,5 @@
 import { DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes, type Sequelize } from 'sequelize';
-import type { MailStatus, OutboxItem } from '@shared/types';
+import { MAIL_STATUSES, type MailStatus, type OutboxItem } from '@shared/types';
 
 /** One mail to one recipient in the outbox (table mail_outbox). Bodies are cleared once it is sent. */
 export class MailMessage extends Model<InferAttributes<MailMessage>, InferCreationAttributes<MailMessage>> {
@@ -38,7 +38,7 @@ export function initMailMessage(sequelize: Sequelize) {
       subject: { type: DataTypes.STRING(255), allowNull: false },
       textBody: { type: DataTypes.TEXT('medium'), allowNull: true },
       htmlBody: { type: DataTypes.TEXT('medium'), allowNull: true },
-      status: { type: DataTypes.ENUM('queued', 'sent', 'failed'), allowNull: false, defaultValue: 'queued' },
+      status: { type: DataTypes.ENUM(...MAIL_STATUSES), allowNull: false, defaultValue: 'queued' },
       attempts: { type: DataTypes.INTEGER.UNSIGNED, allowNull: false, defaultValue: 0 },
       lastError: { type: DataTypes.STRING(1000), allowNull: true },
       nextAttemptAt: { type: DataTypes.DATE, allowNull: false },

@@ -1,6 +1,6 @@
 import { DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes, type Sequelize } from 'sequelize';
 import type { MeshAnalysis } from '@shared/mesh';
-import type { FileKind } from '@shared/types';
+import { FILE_KINDS, type FileKind, PROCESSING_STATES, type ProcessingState } from '@shared/types';
 import { jsonColumn } from './columns';
 
 export class PartFile extends Model<InferAttributes<PartFile>, InferCreationAttributes<PartFile>> {
@@ -14,10 +14,10 @@ export class PartFile extends Model<InferAttributes<PartFile>, InferCreationAttr
   declare sha256: string;
   declare format: string | null;
   declare analysis: MeshAnalysis | null;
-  declare processing: CreationOptional<'ready' | 'pending' | 'failed'>;
+  declare processing: CreationOptional<ProcessingState>;
   declare processingAttempts: CreationOptional<number>;
   /** Models only: the shaded preview picture (null for other kinds). */
-  declare renderStatus: CreationOptional<'pending' | 'ready' | 'failed' | null>;
+  declare renderStatus: CreationOptional<ProcessingState | null>;
   declare renderAttempts: CreationOptional<number>;
   declare width: number | null;
   declare height: number | null;
@@ -31,7 +31,7 @@ export function initPartFile(sequelize: Sequelize) {
     {
       id: { type: DataTypes.INTEGER.UNSIGNED, autoIncrement: true, primaryKey: true },
       partId: { type: DataTypes.INTEGER.UNSIGNED, allowNull: false },
-      kind: { type: DataTypes.ENUM('model', 'photo', 'source'), allowNull: false },
+      kind: { type: DataTypes.ENUM(...FILE_KINDS), allowNull: false },
       storedName: { type: DataTypes.STRING(80), allowNull: false, unique: true },
       originalName: { type: DataTypes.STRING(200), allowNull: false },
       mime: { type: DataTypes.STRING(100), allowNull: false },
@@ -45,9 +45,9 @@ export function initPartFile(sequelize: Sequelize) {
       sha256: { type: DataTypes.CHAR(64), allowNull: false },
       format: { type: DataTypes.STRING(20), allowNull: true },
       analysis: jsonColumn<MeshAnalysis>('analysis', true),
-      processing: { type: DataTypes.ENUM('ready', 'pending', 'failed'), allowNull: false, defaultValue: 'ready' },
+      processing: { type: DataTypes.ENUM(...PROCESSING_STATES), allowNull: false, defaultValue: 'ready' },
       processingAttempts: { type: DataTypes.TINYINT.UNSIGNED, allowNull: false, defaultValue: 0 },
-      renderStatus: { type: DataTypes.ENUM('pending', 'ready', 'failed'), allowNull: true, defaultValue: null },
+      renderStatus: { type: DataTypes.ENUM(...PROCESSING_STATES), allowNull: true, defaultValue: null },
       renderAttempts: { type: DataTypes.TINYINT.UNSIGNED, allowNull: false, defaultValue: 0 },
       width: { type: DataTypes.INTEGER.UNSIGNED, allowNull: true },
       height: { type: DataTypes.INTEGER.UNSIGNED, allowNull: true },

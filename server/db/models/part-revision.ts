@@ -8,7 +8,7 @@ import {
   type Sequelize,
 } from 'sequelize';
 import type { KeyDimension, MountRef } from '@shared/schemas/part';
-import type { RevisionStatus } from '@shared/types';
+import { REVISION_STATUSES, type RevisionStatus } from '@shared/types';
 import type { CameraBody } from './camera-body';
 import type { PartFile } from './part-file';
 import type { Recipe } from './recipe';
@@ -52,7 +52,7 @@ export function initPartRevision(sequelize: Sequelize) {
       partId: { type: DataTypes.INTEGER.UNSIGNED, allowNull: false },
       number: { type: DataTypes.INTEGER.UNSIGNED, allowNull: false },
       status: {
-        type: DataTypes.ENUM('draft', 'in_review', 'published', 'sent_back', 'rejected', 'superseded'),
+        type: DataTypes.ENUM(...REVISION_STATUSES),
         allowNull: false,
       },
       title: { type: DataTypes.STRING(120), allowNull: false },

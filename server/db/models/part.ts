@@ -8,7 +8,7 @@ import {
   type NonAttribute,
   type Sequelize,
 } from 'sequelize';
-import type { PartStatus } from '@shared/types';
+import { PART_STATUSES, type PartStatus } from '@shared/types';
 import type { PartRevision } from './part-revision';
 import type { User } from './user';
 
@@ -41,7 +41,7 @@ export function initPart(sequelize: Sequelize) {
       slug: { type: DataTypes.STRING(100), allowNull: false, unique: true },
       parentId: { type: DataTypes.INTEGER.UNSIGNED, allowNull: true },
       status: {
-        type: DataTypes.ENUM('draft', 'in_review', 'published', 'sent_back', 'rejected', 'retired'),
+        type: DataTypes.ENUM(...PART_STATUSES),
         allowNull: false,
       },
       publishedRevisionId: { type: DataTypes.INTEGER.UNSIGNED, allowNull: true },

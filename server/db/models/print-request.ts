@@ -8,7 +8,7 @@ import {
   type NonAttribute,
   type Sequelize,
 } from 'sequelize';
-import type { PaymentState, PrintRequestState } from '@shared/print-requests';
+import { PAYMENT_STATES, type PaymentState, PRINT_REQUEST_STATES, type PrintRequestState } from '@shared/print-requests';
 import type { PrintPrice } from '@shared/print-price';
 import { decimalColumn, jsonColumn } from './columns';
 import type { User } from './user';
@@ -106,14 +106,14 @@ export function initPrintRequests(sequelize: Sequelize) {
       estimateNotes: jsonColumn<string[]>('estimateNotes', false, []),
       currency: { type: DataTypes.CHAR(3), allowNull: false },
       status: {
-        type: DataTypes.ENUM('requested', 'accepted', 'declined', 'cancelled', 'fit_tested', 'printed', 'handed_over'),
+        type: DataTypes.ENUM(...PRINT_REQUEST_STATES),
         allowNull: false,
         defaultValue: 'requested',
       },
       priceMinor: { type: DataTypes.INTEGER.UNSIGNED, allowNull: true },
       frozenPrice: jsonColumn<PrintPrice>('frozenPrice', true),
       pricedAt: { type: DataTypes.DATE, allowNull: true },
-      paymentStatus: { type: DataTypes.ENUM('unpaid', 'pending', 'paid', 'refund_due', 'refunded'), allowNull: false, defaultValue: 'unpaid' },
+      paymentStatus: { type: DataTypes.ENUM(...PAYMENT_STATES), allowNull: false, defaultValue: 'unpaid' },
       paidMinor: { type: DataTypes.INTEGER.UNSIGNED, allowNull: false, defaultValue: 0 },
       checkoutId: { type: DataTypes.STRING(120), allowNull: true },
       paymentRef: { type: DataTypes.STRING(120), allowNull: true },

@@ -1,5 +1,5 @@
 import { DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes, type Sequelize } from 'sequelize';
-import type { RecipeInput } from '@shared/schemas/recipe';
+import { RECIPE_PURPOSES, type RecipeInput, SUPPORT_MODES } from '@shared/schemas/recipe';
 import { decimalColumn, jsonColumn } from './columns';
 
 export class Recipe extends Model<InferAttributes<Recipe>, InferCreationAttributes<Recipe>> {
@@ -39,7 +39,7 @@ export function initRecipe(sequelize: Sequelize) {
       id: { type: DataTypes.INTEGER.UNSIGNED, autoIncrement: true, primaryKey: true },
       revisionId: { type: DataTypes.INTEGER.UNSIGNED, allowNull: false },
       position: { type: DataTypes.INTEGER.UNSIGNED, allowNull: false },
-      purpose: { type: DataTypes.ENUM('fit-test', 'set-ready'), allowNull: false },
+      purpose: { type: DataTypes.ENUM(...RECIPE_PURPOSES), allowNull: false },
       material: { type: DataTypes.STRING(20), allowNull: false },
       nozzleMm: decimalColumn('nozzleMm', 4, 2),
       layerMm: decimalColumn('layerMm', 4, 3),
@@ -50,7 +50,7 @@ export function initRecipe(sequelize: Sequelize) {
       hotendC: { type: DataTypes.INTEGER.UNSIGNED, allowNull: false },
       bedC: { type: DataTypes.INTEGER.UNSIGNED, allowNull: false },
       speedMmS: { type: DataTypes.INTEGER.UNSIGNED, allowNull: false },
-      supports: { type: DataTypes.ENUM('none', 'bed-only', 'everywhere'), allowNull: false },
+      supports: { type: DataTypes.ENUM(...SUPPORT_MODES), allowNull: false },
       orientationNote: { type: DataTypes.STRING(500), allowNull: true },
       printerBedMm: jsonColumn<[number, number, number]>('printerBedMm', true),
       resultNotes: { type: DataTypes.TEXT, allowNull: true },

@@ -1,5 +1,5 @@
 import { DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes, type Sequelize } from 'sequelize';
-import type { AccountStatus, PublicUser, Role } from '@shared/types';
+import { ACCOUNT_STATUSES, type AccountStatus, type PublicUser, type Role, ROLES } from '@shared/types';
 
 export class User extends Model<InferAttributes<User>, InferCreationAttributes<User>> {
   declare id: CreationOptional<number>;
@@ -34,8 +34,8 @@ export function initUser(sequelize: Sequelize) {
       email: { type: DataTypes.STRING(254), allowNull: false, unique: true },
       displayName: { type: DataTypes.STRING(80), allowNull: false },
       passwordHash: { type: DataTypes.STRING(255), allowNull: false },
-      role: { type: DataTypes.ENUM('member', 'moderator', 'admin'), allowNull: false, defaultValue: 'member' },
-      status: { type: DataTypes.ENUM('active', 'suspended'), allowNull: false, defaultValue: 'active' },
+      role: { type: DataTypes.ENUM(...ROLES), allowNull: false, defaultValue: 'member' },
+      status: { type: DataTypes.ENUM(...ACCOUNT_STATUSES), allowNull: false, defaultValue: 'active' },
       crewRole: { type: DataTypes.STRING(80), allowNull: true },
       emailVerifiedAt: { type: DataTypes.DATE, allowNull: true },
       createdAt: DataTypes.DATE,

@@ -1,7 +1,8 @@
 // Wanted parts: a request for a part, its photos or sketches, and the parts offered in answer.
 import { DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes, type NonAttribute, type Sequelize } from 'sequelize';
+import { PROCESSING_STATES, type ProcessingState } from '@shared/types';
 import type { BuildSize } from '@shared/schemas/builds';
-import type { WantedCloseReason, WantedStatus } from '@shared/schemas/wanted';
+import { WANTED_CLOSE_REASONS, WANTED_STATUSES, type WantedCloseReason, type WantedStatus } from '@shared/schemas/wanted';
 import type { CameraBody } from './camera-body';
 import { jsonColumn } from './columns';
 import type { Part } from './part';
@@ -40,7 +41,7 @@ export class WantedPhoto extends Model<InferAttributes<WantedPhoto>, InferCreati
   declare originalName: string;
   declare sizeBytes: number;
   declare sha256: string;
-  declare processing: CreationOptional<'ready' | 'pending' | 'failed'>;
+  declare processing: CreationOptional<ProcessingState>;
   declare processingAttempts: CreationOptional<number>;
   declare width: number | null;
   declare height: number | null;
@@ -75,8 +76,8 @@ export function initWanted(sequelize: Sequelize) {
       keySizes: jsonColumn<BuildSize[]>('keySizes', false, []),
       neededBy: { type: DataTypes.DATEONLY, allowNull: true },
       searchedFor: { type: DataTypes.STRING(200), allowNull: true },
-      status: { type: DataTypes.ENUM('open', 'closed'), allowNull: false, defaultValue: 'open' },
-      closeReason: { type: DataTypes.ENUM('solved', 'withdrawn', 'spam'), allowNull: true },
+      status: { type: DataTypes.ENUM(...WANTED_STATUSES), allowNull: false, defaultValue: 'open' },
+      closeReason: { type: DataTypes.ENUM(...WANTED_CLOSE_REASONS), allowNull: true },
       closeNote: { type: DataTypes.STRING(500), allowNull: true },
       closedAt: { type: DataTypes.DATE, allowNull: true },
       closedBy: { type: DataTypes.INTEGER.UNSIGNED, allowNull: true },
@@ -99,7 +100,7 @@ export function initWanted(sequelize: Sequelize) {
         },
       },
       sha256: { type: DataTypes.CHAR(64), allowNull: false },
-      processing: { type: DataTypes.ENUM('ready', 'pending', 'failed'), allowNull: false, defaultValue: 'pending' },
+      processing: { type: DataTypes.ENUM(...PROCESSING_STATES), allowNull: false, defaultValue: 'pending' },
       processingAttempts: { type: DataTypes.TINYINT.UNSIGNED, allowNull: false, defaultValue: 0 },
       width: { type: DataTypes.INTEGER.UNSIGNED, allowNull: true },
       height: { type: DataTypes.INTEGER.UNSIGNED, allowNull: true },

@@ -1,8 +1,8 @@
 import { Router } from 'express';
-import { adminUserPatchSchema, idParamSchema, type AdminUserPatch } from '@shared/schemas/auth';
+import { adminUserPatchSchema, idParamSchema } from '@shared/schemas/auth';
 import { currentUser, requireRole } from '../../middleware/auth';
-import { validate } from '../../middleware/validate';
-import { cameraBodyPatchSchema, cameraBodySchema, slugParamSchema, type CameraBodyInput } from '@shared/schemas/vocab';
+import { handler } from '../../middleware/validate';
+import { cameraBodyPatchSchema, cameraBodySchema, slugParamSchema } from '@shared/schemas/vocab';
 import { cameraBodies } from '../vocab/service';
 import { adminService } from './service';
 
@@ -20,29 +20,28 @@ export function adminRoutes({ onBodiesChanged }: AdminDeps = {}) {
     res.json({ users: users.map((u) => u.toPublic()) });
   });
 
-  router.patch('/users/:id', validate('params', idParamSchema), validate('body', adminUserPatchSchema), async (req, res) => {
-    const { id } = res.locals.params as { id: number };
-    const user = await adminService.updateUser(currentUser(req)!, id, res.locals.body as AdminUserPatch);
+  router.patch('/users/:id', handler({ params: idParamSchema, body: adminUserPatchSchema }, async ({ params, body }, req, res) => {
+    const user = await adminService.updateUser(currentUser(req)!, params.id, body);
     res.json({ user: user.toPublic() });
-  });
+  }));
 
-  router.post('/bodies', validate('body', cameraBodySchema), async (_req, res) => {
-    const body = await cameraBodies.create(res.locals.body as CameraBodyInput);
+  router.post('/bodies', handler({ body: cameraBodySchema }, async ({ body: input }, _req, res) => {
+    const body = await cameraBodies.create(input);
     onBodiesChanged?.();
     res.status(201).json({ body: body.toInfo() });
-  });
+  }));
 
-  router.patch('/bodies/:slug', validate('params', slugParamSchema), validate('body', cameraBodyPatchSchema), async (req, res) => {
-    const body = await cameraBodies.update(req.params.slug as string, res.locals.body as Partial<CameraBodyInput>);
+  router.patch('/bodies/:slug', handler({ params: slugParamSchema, body: cameraBodyPatchSchema }, async ({ params, body: patch }, _req, res) => {
+    const body = await cameraBodies.update(params.slug, patch);
     onBodiesChanged?.();
     res.json({ body: body.toInfo() });
-  });
+  }));
 
-  router.delete('/bodies/:slug', validate('params', slugParamSchema), async (req, res) => {
-    await cameraBodies.remove(req.params.slug as string);
+  router.delete('/bodies/:slug', handler({ params: slugParamSchema }, async ({ params }, _req, res) => {
+    await cameraBodies.remove(params.slug);
     onBodiesChanged?.();
     res.status(204).end();
-  });
+  }));
 
   return router;
 }

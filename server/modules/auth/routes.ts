@@ -8,17 +8,12 @@ import {
   passwordResetSchema,
   registerSchema,
   verifyEmailSchema,
-  type LoginInput,
-  type PasswordResetInput,
-  type PasswordResetRequestInput,
-  type RegisterInput,
-  type VerifyEmailInput,
 } from '@shared/schemas/auth';
 import type { Config } from '../../config';
 import type { User } from '../../db/models';
 import { AppError } from '../../errors';
 import { currentUser, requireAuth } from '../../middleware/auth';
-import { validate } from '../../middleware/validate';
+import { handler, validate, validatedBody } from '../../middleware/validate';
 import type { AuthService } from './service';
 import { ACCOUNT_ANSWER_FLOOR_MS, evenTiming, registrationMessage } from './service';
 import { RESET_REQUESTED_MESSAGE, TOKEN_LIFETIME_MS, type TokenService } from './tokens';
@@ -83,7 +78,10 @@ export function authRoutes({ config, auth, passport, csrfToken, tokens }: Deps) 
       handler: options.handler ?? tooMany(message),
     });
   // the address as the shared schema normalised it (trimmed, lower case), so " Name@x" and "name@x" share a counter
-  const emailOf = (res: Response) => String((res.locals.body as Partial<LoginInput> | undefined)?.email ?? '');
+  const emailOf = (res: Response) => {
+    const body = validatedBody(res);
+    return body && typeof body === 'object' && 'email' in body ? String(body.email) : '';
+  };
 
   // Sign-in. Per account: strict, failures only. Per network address: failures only, generous and
   // progressive: past a tenth of the limit each further failure waits longer (up to a few seconds);
@@ -127,14 +125,15 @@ export function authRoutes({ config, auth, passport, csrfToken, tokens }: Deps) 
     response.json({ csrfToken: csrfToken(req) });
   });
 
-  router.post('/register', registerPerIp, validate('body', registerSchema), registerPerAddress, async (_req, response) => {
-    const input = response.locals.body as RegisterInput;
+  const register = validate({ body: registerSchema });
+  router.post('/register', registerPerIp, register, registerPerAddress, async (_req, response) => {
+    const input = register.input(response).body;
     await evenTiming(ACCOUNT_ANSWER_FLOOR_MS, () => auth.register(input));
     // the same answer whether the address is new or already has an account (its owner gets a mail saying so)
     response.status(202).json({ message: registrationMessage(input.email) });
   });
 
-  router.post('/login', validate('body', loginSchema), perIpDelay, perIp, perAccount, async (req, response, next) => {
+  router.post('/login', validate({ body: loginSchema }), perIpDelay, perIp, perAccount, async (req, response, next) => {
     const overLimit = response.locals.ipOverLimit === true;
     if (overLimit && (await accountUnderAttack(response))) return next(new AppError(429, 'too_many_attempts', signInRefused));
     passport.authenticate('local', { session: false }, (err: unknown, user: User | false, info?: { message?: string }) => {
@@ -152,11 +151,10 @@ export function authRoutes({ config, auth, passport, csrfToken, tokens }: Deps) 
     })(req, response, next);
   });
 
-  router.post('/verify-email', validate('body', verifyEmailSchema), async (_req, response) => {
-    const { token } = response.locals.body as VerifyEmailInput;
-    const user = await tokens.verifyEmail(token);
+  router.post('/verify-email', handler({ body: verifyEmailSchema }, async ({ body }, _req, response) => {
+    const user = await tokens.verifyEmail(body.token);
     response.json({ user: user.toPublic() });
-  });
+  }));
 
   router.post('/verify-email/resend', requireAuth, resendPerAccount, async (req, response) => {
     const user = currentUser(req)!;
@@ -165,19 +163,19 @@ export function authRoutes({ config, auth, passport, csrfToken, tokens }: Deps) 
     response.status(202).json({ message: `A new confirmation link is on its way to ${user.email}. It works for ${hours} hours.` });
   });
 
-  router.post('/password-reset/request', resetPerIp, validate('body', passwordResetRequestSchema), resetPerAddress, async (_req, response) => {
-    const { email } = response.locals.body as PasswordResetRequestInput;
+  const resetRequest = validate({ body: passwordResetRequestSchema });
+  router.post('/password-reset/request', resetPerIp, resetRequest, resetPerAddress, async (_req, response) => {
+    const { email } = resetRequest.input(response).body;
     await evenTiming(ACCOUNT_ANSWER_FLOOR_MS, () => tokens.requestPasswordReset(email));
     // the same answer whether or not an account uses the address
     response.status(202).json({ message: RESET_REQUESTED_MESSAGE });
   });
 
-  router.post('/password-reset', resetPerIp, validate('body', passwordResetSchema), async (req, response) => {
-    const { token, password } = response.locals.body as PasswordResetInput;
-    const user = await tokens.resetPassword(token, password);
+  router.post('/password-reset', resetPerIp, handler({ body: passwordResetSchema }, async ({ body }, req, response) => {
+    const user = await tokens.resetPassword(body.token, body.password);
     if (currentUser(req)?.id === user.id) await endSession(req, response);
     response.json({ message: 'Your password is changed and you are signed out everywhere. Sign in with the new password.' });
-  });
+  }));
 
   router.get('/me', requireAuth, (req, response) => {
     response.json({ user: currentUser(req)!.toPublic() });

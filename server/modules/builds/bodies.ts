@@ -12,9 +12,11 @@ export async function resolveBody(name: string | null, field = 'body', transacti
   const bodies = await CameraBody.findAll({ order: [['maker', 'ASC'], ['model', 'ASC']], transaction });
   const found = resolveBodyName(name, bodies);
   if (found.ok) return bodies.find((b) => b.slug === found.slug)!;
-  throw new AppError(422, 'validation_failed', 'Some fields need another look.', {
-    [field]: found.closest.length ? `No camera body is called "${name}". Did you mean ${found.closest.join(', ')}?` : `No camera body is called "${name}"; an admin adds bodies to the list.`,
-  });
+  throw AppError.field(
+    field,
+    found.closest.length ? `No camera body is called "${name}". Did you mean ${found.closest.join(', ')}?` : `No camera body is called "${name}"; an admin adds bodies to the list.`,
+    'Some fields need another look.',
+  );
 }
 
 export function bodyInfo(b: CameraBody | null | undefined) {

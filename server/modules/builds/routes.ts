@@ -2,32 +2,31 @@ import { Router } from 'express';
 import { idParamSchema } from '@shared/schemas/auth';
 import { buildPatchSchema, buildSchema } from '@shared/schemas/builds';
 import { currentUser, requireAuth } from '../../middleware/auth';
-import { parsed, validate } from '../../middleware/validate';
+import { handler } from '../../middleware/validate';
 import { buildsService } from './service';
 
 /** /api/builds: a member's own camera builds. */
 export function buildRoutes() {
   const router = Router();
   router.use(requireAuth);
-  const id = (res: { locals: Record<string, unknown> }) => (res.locals.params as { id: number }).id;
-  const params = validate('params', idParamSchema);
+  const params = idParamSchema;
 
   router.get('/', async (req, res) => {
     res.json({ items: await buildsService.list(currentUser(req)!) });
   });
-  router.post('/', validate('body', buildSchema), async (req, res) => {
-    const build = await buildsService.create(currentUser(req)!, parsed(res, 'body', buildSchema));
+  router.post('/', handler({ body: buildSchema }, async ({ body }, req, res) => {
+    const build = await buildsService.create(currentUser(req)!, body);
     res.status(201).location(`/api/builds/${build.id}`).json(build);
-  });
-  router.get('/:id', params, async (req, res) => {
-    res.json(await buildsService.get(currentUser(req)!, id(res)));
-  });
-  router.patch('/:id', params, validate('body', buildPatchSchema), async (req, res) => {
-    res.json(await buildsService.update(currentUser(req)!, id(res), parsed(res, 'body', buildPatchSchema)));
-  });
-  router.delete('/:id', params, async (req, res) => {
-    await buildsService.remove(currentUser(req)!, id(res));
+  }));
+  router.get('/:id', handler({ params }, async ({ params }, req, res) => {
+    res.json(await buildsService.get(currentUser(req)!, params.id));
+  }));
+  router.patch('/:id', handler({ params, body: buildPatchSchema }, async ({ params, body }, req, res) => {
+    res.json(await buildsService.update(currentUser(req)!, params.id, body));
+  }));
+  router.delete('/:id', handler({ params }, async ({ params }, req, res) => {
+    await buildsService.remove(currentUser(req)!, params.id);
     res.status(204).end();
-  });
+  }));
   return router;
 }

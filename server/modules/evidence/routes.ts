@@ -1,15 +1,15 @@
 import { Router, type Request } from 'express';
 import { z } from 'zod';
-import { flagSchema, ratingSchema, reportFilterSchema, setReportSchema, type RatingInput } from '@shared/schemas/evidence';
+import { flagSchema, ratingSchema, reportFilterSchema, setReportSchema } from '@shared/schemas/evidence';
 import { idParamSchema } from '@shared/schemas/auth';
 import { noteRequiredSchema } from '@shared/schemas/review';
 import { clientKeySchema } from '@shared/schemas/notices';
 import { AppError } from '../../errors';
 import { currentUser, requireAuth, requireRole } from '../../middleware/auth';
-import { validate } from '../../middleware/validate';
+import { handler } from '../../middleware/validate';
 import { inspectUploads } from '../files/inspect';
 import type { UploadDirs } from '../files/storage';
-import { multipartFields, parseOrThrow, uploadedFiles, uploadMiddleware, withUploads } from '../files/upload';
+import { multipartFields, uploadedFiles, uploadMiddleware, withUploads } from '../files/upload';
 import type { EvidenceService } from './service';
 
 const partParam = z.object({ id: z.string().min(1).max(100) });
@@ -27,7 +27,7 @@ function clientKeyOf(req: Request): string | undefined {
   const parsed = clientKeySchema.safeParse(raw);
   if (!parsed.success) {
     const message = parsed.error.issues[0]?.message ?? 'The Idempotency-Key header is malformed.';
-    throw new AppError(422, 'validation_failed', message, { idempotencyKey: message });
+    throw AppError.field('idempotencyKey', message);
   }
   return parsed.data;
 }
@@ -35,47 +35,47 @@ function clientKeyOf(req: Request): string | undefined {
 /** /api/parts/:id/ratings, /reports, /proven */
 export function partEvidenceRoutes(evidence: EvidenceService, dirs: UploadDirs) {
   const router = Router();
+  const params = partParam;
 
-  router.post('/:id/ratings', requireAuth, validate('params', partParam), validate('body', ratingSchema), async (req, res) => {
-    const result = await evidence.rate(currentUser(req)!, req.params.id as string, res.locals.body as RatingInput, clientKeyOf(req));
+  router.post('/:id/ratings', requireAuth, handler({ params, body: ratingSchema }, async ({ params, body }, req, res) => {
+    const result = await evidence.rate(currentUser(req)!, params.id, body, clientKeyOf(req));
     if (result.replayed) res.setHeader('Idempotent-Replayed', 'true');
     res.status(result.created ? 201 : 200).json(result.rating);
-  });
+  }));
 
-  router.get('/:id/ratings', validate('params', partParam), async (req, res) => {
-    res.json(await evidence.ratings(currentUser(req), req.params.id as string));
-  });
+  router.get('/:id/ratings', handler({ params }, async ({ params }, req, res) => {
+    res.json(await evidence.ratings(currentUser(req), params.id));
+  }));
 
   router.post(
     '/:id/reports',
     requireAuth,
-    validate('params', partParam),
     ...uploadMiddleware(dirs),
     withUploads(async (req, res) => {
       const clientKey = clientKeyOf(req);
-      const input = parseOrThrow(setReportSchema, multipartFields(req, ['conditions']));
-      const files = await inspectUploads(uploadedFiles(req), { drawnInInches: false });
-      const filed = await evidence.fileReport(currentUser(req)!, req.params.id as string, input, files, clientKey);
-      if (filed.replayed) res.setHeader('Idempotent-Replayed', 'true');
-      res.status(filed.replayed ? 200 : 201).json({ id: filed.id });
+      await handler({ params, body: setReportSchema, fields: (r) => multipartFields(r, ['conditions']) }, async ({ params, body }) => {
+        const files = await inspectUploads(uploadedFiles(req), { drawnInInches: false });
+        const filed = await evidence.fileReport(currentUser(req)!, params.id, body, files, clientKey);
+        if (filed.replayed) res.setHeader('Idempotent-Replayed', 'true');
+        res.status(filed.replayed ? 200 : 201).json({ id: filed.id });
+      })(req, res);
     }),
   );
 
-  router.get('/:id/reports', validate('params', partParam), validate('query', reportFilterSchema), async (req, res) => {
-    res.json(await evidence.reports(currentUser(req), req.params.id as string, res.locals.query as z.output<typeof reportFilterSchema>));
-  });
+  router.get('/:id/reports', handler({ params, query: reportFilterSchema }, async ({ params, query }, req, res) => {
+    res.json(await evidence.reports(currentUser(req), params.id, query));
+  }));
 
-  router.get('/:id/reports/:reportId/photos/:photoId/:size', validate('params', photoParams), async (req, res) => {
-    const p = res.locals.params as z.output<typeof photoParams>;
+  router.get('/:id/reports/:reportId/photos/:photoId/:size', handler({ params: photoParams }, async ({ params: p }, req, res) => {
     const path = await evidence.reportPhotoPath(currentUser(req), p.id, p.reportId, p.photoId, p.size);
     res.setHeader('Cache-Control', 'private, max-age=3600');
     res.type('image/jpeg').sendFile(path);
-  });
+  }));
 
-  router.get('/:id/proven', validate('params', partParam), async (req, res) => {
-    const e = await evidence.proven(currentUser(req), req.params.id as string);
+  router.get('/:id/proven', handler({ params }, async ({ params }, req, res) => {
+    const e = await evidence.proven(currentUser(req), params.id);
     res.json(e);
-  });
+  }));
 
   return router;
 }
@@ -83,10 +83,9 @@ export function partEvidenceRoutes(evidence: EvidenceService, dirs: UploadDirs) 
 /** /api/ratings/:id/flag and /api/reports/:id/flag */
 export function flagRoutes(evidence: EvidenceService, type: 'rating' | 'report') {
   const router = Router();
-  router.post('/:id/flag', requireAuth, validate('params', idParamSchema), validate('body', flagSchema), async (req, res) => {
-    const { id } = res.locals.params as { id: number };
-    res.status(201).json(await evidence.flag(currentUser(req)!, type, id, (res.locals.body as { reason: string }).reason));
-  });
+  router.post('/:id/flag', requireAuth, handler({ params: idParamSchema, body: flagSchema }, async ({ params, body }, req, res) => {
+    res.status(201).json(await evidence.flag(currentUser(req)!, type, params.id, body.reason));
+  }));
   return router;
 }
 
@@ -97,10 +96,9 @@ export function evidenceModerationRoutes(evidence: EvidenceService) {
     res.json({ items: await evidence.flagged(currentUser(req)!) });
   });
   for (const type of ['rating', 'report'] as const) {
-    router.post(`/${type}s/:id/hide`, requireRole('moderator'), validate('params', idParamSchema), validate('body', noteRequiredSchema), async (req, res) => {
-      const { id } = res.locals.params as { id: number };
-      res.json(await evidence.hide(currentUser(req)!, type, id, (res.locals.body as { note: string }).note));
-    });
+    router.post(`/${type}s/:id/hide`, requireRole('moderator'), handler({ params: idParamSchema, body: noteRequiredSchema }, async ({ params, body }, req, res) => {
+      res.json(await evidence.hide(currentUser(req)!, type, params.id, body.note));
+    }));
   }
   return router;
 }
@@ -108,8 +106,8 @@ export function evidenceModerationRoutes(evidence: EvidenceService) {
 /** /api/users/:id/profile */
 export function profileRoutes(evidence: EvidenceService) {
   const router = Router();
-  router.get('/:id/profile', validate('params', idParamSchema), async (req, res) => {
-    res.json(await evidence.profile(currentUser(req), (res.locals.params as { id: number }).id));
-  });
+  router.get('/:id/profile', handler({ params: idParamSchema }, async ({ params }, req, res) => {
+    res.json(await evidence.profile(currentUser(req), params.id));
+  }));
   return router;
 }

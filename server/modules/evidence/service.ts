@@ -147,13 +147,13 @@ export function createEvidenceService({ sequelize, dirs, photos, onChanged, aler
 
     async fileReport(actor: User, partId: string, input: SetReportInput, files: InspectedFile[], clientKey?: string) {
       const part = await partOnShelf(actor, partId);
-      if (files.some((f) => f.field !== 'photo')) throw new AppError(422, 'validation_failed', 'A set report takes photos only.', { photo: 'Attach photos (JPEG, PNG or WebP) only.' });
+      if (files.some((f) => f.field !== 'photo')) throw AppError.field('photo', 'Attach photos (JPEG, PNG or WebP) only.', 'A set report takes photos only.');
       let material = input.material;
       if (input.recipeId) {
         const recipe = await Recipe.findByPk(input.recipeId);
         const revision = recipe ? await PartRevision.findByPk(recipe.revisionId) : null;
         if (!recipe || revision?.partId !== part.id) {
-          throw new AppError(422, 'validation_failed', 'Some fields need another look.', { recipeId: 'That recipe does not belong to this part.' });
+          throw AppError.field('recipeId', 'That recipe does not belong to this part.', 'Some fields need another look.');
         }
         material ??= recipe.material;
       }

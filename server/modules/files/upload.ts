@@ -7,7 +7,6 @@ import { join } from 'node:path';
 import type { ErrorRequestHandler, Request, RequestHandler, Response } from 'express';
 import multer from 'multer';
 import { UPLOAD_LIMITS } from '@shared/uploads';
-import type { z } from 'zod';
 import { AppError } from '../../errors';
 import { displayName } from './sniff';
 import { randomStoredName } from './storage';
@@ -176,15 +175,8 @@ export function multipartFields(req: Request, structured: readonly string[]): un
     try {
       out[key] = /^[[{]/.test(text) ? JSON.parse(text) : text ? text.split(',').map((v) => v.trim()) : [];
     } catch {
-      throw new AppError(422, 'validation_failed', 'Some fields need another look.', { [key]: `"${key}" must be JSON.` });
+      throw AppError.field(key, `"${key}" must be JSON.`, 'Some fields need another look.');
     }
   }
   return out;
-}
-
-/** Parses with a shared schema and answers 422 with per-field messages when that fails. */
-export function parseOrThrow<S extends z.ZodType>(schema: S, value: unknown): z.output<S> {
-  const result = schema.safeParse(value);
-  if (!result.success) throw AppError.validation(result.error);
-  return result.data;
 }

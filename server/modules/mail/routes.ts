@@ -1,7 +1,7 @@
 import { Router } from 'express';
 import { idParamSchema } from '@shared/schemas/auth';
 import { requireRole } from '../../middleware/auth';
-import { validate } from '../../middleware/validate';
+import { handler } from '../../middleware/validate';
 import type { FakeSmtp } from './fake-smtp';
 import type { Mailer } from './outbox';
 import { outboxService } from './service';
@@ -16,12 +16,11 @@ export function mailAdminRoutes(mailer: Mailer) {
     res.json({ items: rows.map((r) => r.toItem()) });
   });
 
-  router.post('/:id/retry', validate('params', idParamSchema), async (_req, res) => {
-    const { id } = res.locals.params as { id: number };
-    const row = await outboxService.retry(id);
+  router.post('/:id/retry', handler({ params: idParamSchema }, async ({ params }, _req, res) => {
+    const row = await outboxService.retry(params.id);
     mailer.kick();
     res.json({ item: row.toItem() });
-  });
+  }));
 
   return router;
 }

@@ -3,31 +3,29 @@ import type { Sequelize } from 'sequelize';
 import { calibrationSchema, madeKitItemSchema, makeFileQuerySchema, makeKindParamsSchema, makeRequestSchema } from '@shared/schemas/make';
 import { kitParamsSchema, printerParamsSchema } from '@shared/schemas/planning';
 import { currentUser, requireAuth } from '../../middleware/auth';
-import { parsed, validate } from '../../middleware/validate';
+import { handler } from '../../middleware/validate';
 import type { MakeService } from './service';
 
 /** /api/make: the makers, previews and files. Open to visitors; a printer's calibration needs its owner. */
 export function makeRoutes(make: MakeService) {
   const router = Router();
-  const kind = validate('params', makeKindParamsSchema);
-  const body = validate('body', makeRequestSchema);
+  const input = { params: makeKindParamsSchema, body: makeRequestSchema };
 
   router.get('/', (_req, res) => {
     res.json(make.list());
   });
-  router.post('/:kind/preview', kind, body, async (req, res) => {
+  router.post('/:kind/preview', handler(input, async ({ params, body }, req, res) => {
     res.set('Cache-Control', 'no-store');
-    res.json(await make.preview(currentUser(req), parsed(res, 'params', makeKindParamsSchema).kind, parsed(res, 'body', makeRequestSchema)));
-  });
-  router.post('/:kind/file', kind, validate('query', makeFileQuerySchema), body, async (req, res) => {
-    const { format } = parsed(res, 'query', makeFileQuerySchema);
-    const file = await make.file(currentUser(req), parsed(res, 'params', makeKindParamsSchema).kind, parsed(res, 'body', makeRequestSchema), format);
+    res.json(await make.preview(currentUser(req), params.kind, body));
+  }));
+  router.post('/:kind/file', handler({ ...input, query: makeFileQuerySchema }, async ({ params, query, body }, req, res) => {
+    const file = await make.file(currentUser(req), params.kind, body, query.format);
     res.attachment(file.fileName);
     res.type(file.mime);
     res.set('X-Content-Type-Options', 'nosniff');
     res.set('Cache-Control', 'no-store');
     res.send(file.body);
-  });
+  }));
   return router;
 }
 
@@ -35,23 +33,23 @@ export function makeRoutes(make: MakeService) {
 export function calibrationRoutes(make: MakeService) {
   const router = Router();
   router.use(requireAuth);
-  const printer = validate('params', printerParamsSchema);
-  router.get('/:id/calibrations', printer, async (req, res) => {
-    res.json(await make.calibrations(currentUser(req)!, parsed(res, 'params', printerParamsSchema).id));
-  });
-  router.post('/:id/calibrations', printer, validate('body', calibrationSchema), async (req, res) => {
-    const created = await make.calibrate(currentUser(req)!, parsed(res, 'params', printerParamsSchema).id, parsed(res, 'body', calibrationSchema));
+  const params = printerParamsSchema;
+  router.get('/:id/calibrations', handler({ params }, async ({ params }, req, res) => {
+    res.json(await make.calibrations(currentUser(req)!, params.id));
+  }));
+  router.post('/:id/calibrations', handler({ params, body: calibrationSchema }, async ({ params, body }, req, res) => {
+    const created = await make.calibrate(currentUser(req)!, params.id, body);
     res.status(201).json(created);
-  });
+  }));
   return router;
 }
 
 /** /api/kits/:id/made: a made part into a kit (anyone who may edit the kit). */
 export function madeKitRoutes(make: MakeService, sequelize: Sequelize) {
   const router = Router();
-  router.post('/:id/made', requireAuth, validate('params', kitParamsSchema), validate('body', madeKitItemSchema), async (req, res) => {
-    const item = await make.addToKit(currentUser(req)!, parsed(res, 'params', kitParamsSchema).id, parsed(res, 'body', madeKitItemSchema), sequelize);
+  router.post('/:id/made', requireAuth, handler({ params: kitParamsSchema, body: madeKitItemSchema }, async ({ params, body }, req, res) => {
+    const item = await make.addToKit(currentUser(req)!, params.id, body, sequelize);
     res.status(201).json(item);
-  });
+  }));
   return router;
 }

@@ -51,7 +51,7 @@ export function parseParams(kind: string, raw: unknown): Record<string, unknown>
   if (!result.success) {
     const fields = Object.fromEntries(Object.entries(fieldErrors(result.error)).map(([k, v]) => [k === '_' ? 'params' : `params.${k}`, v]));
     const first = Object.values(fields)[0];
-    throw new AppError(422, 'validation_failed', Object.keys(fields).length === 1 ? first : 'Some sizes need another look.', fields);
+    throw AppError.fields(Object.keys(fields).length === 1 ? first : 'Some sizes need another look.', fields);
   }
   return result.data as Record<string, unknown>;
 }
@@ -145,7 +145,7 @@ export function createMakeService() {
       }
       // a generator refuses a combination its schema let through (e.g. a hole wider than the part)
       if (err instanceof RangeError || (err instanceof Error && err.name === 'MakeError')) {
-        throw new AppError(422, 'validation_failed', err.message, { params: err.message });
+        throw AppError.field('params', err.message);
       }
       throw err;
     }
@@ -156,7 +156,7 @@ export function createMakeService() {
     const printer = viewer ? await Printer.findOne({ where: { id: printerId, ownerId: viewer.id } }) : null;
     if (!printer) {
       const message = viewer ? 'That printer is not one of yours; pick one of your printers or none.' : 'Sign in to make parts for one of your printers.';
-      throw new AppError(422, 'validation_failed', message, { printerId: message });
+      throw AppError.field('printerId', message);
     }
     return printer;
   }
@@ -198,7 +198,7 @@ export function createMakeService() {
       const s = { ...MADE_PART_RECIPE, ...input.recipe, nozzleMm };
       if (s.layerMm > Math.round(s.nozzleMm * MAX_LAYER_TO_NOZZLE * 1000) / 1000) {
         const message = `A ${s.layerMm} mm layer is too thick for a ${s.nozzleMm} mm nozzle; use at most ${round(s.nozzleMm * MAX_LAYER_TO_NOZZLE, 3)} mm.`;
-        throw new AppError(422, 'validation_failed', message, { 'recipe.layerMm': message });
+        throw AppError.field('recipe.layerMm', message);
       }
       // the quick estimate from the mesh's figures, as a kit plans a made item: slicing a toothed ring
       // takes seconds, and the preview answers while the member types
@@ -273,7 +273,7 @@ export function createMakeService() {
         printer = await Printer.findOne({ where: { id: input.printerId, ownerId: kit.ownerId } });
         if (!printer) {
           const message = 'That printer is not one of the kit owner’s printers; pick one of theirs or none.';
-          throw new AppError(422, 'validation_failed', message, { printerId: message });
+          throw AppError.field('printerId', message);
         }
       }
       const corrections = await correctionsFor(printer, input.material);

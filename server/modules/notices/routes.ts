@@ -1,8 +1,8 @@
 import { Router } from 'express';
 import { idParamSchema } from '@shared/schemas/auth';
-import { noticePreferencesSchema, type NoticePreferencesInput } from '@shared/schemas/notices';
+import { noticePreferencesSchema } from '@shared/schemas/notices';
 import { currentUser, requireAuth } from '../../middleware/auth';
-import { validate } from '../../middleware/validate';
+import { handler } from '../../middleware/validate';
 import type { Alerts } from './alerts';
 import { notices } from './service';
 
@@ -18,19 +18,19 @@ export function noticesRoutes(alerts: Alerts) {
     res.json({ preferences: await alerts.preferences(currentUser(req)!.id) });
   });
 
-  router.put('/settings', validate('body', noticePreferencesSchema), async (req, res) => {
-    res.json({ preferences: await alerts.setPreferences(currentUser(req)!.id, res.locals.body as NoticePreferencesInput) });
-  });
+  router.put('/settings', handler({ body: noticePreferencesSchema }, async ({ body }, req, res) => {
+    res.json({ preferences: await alerts.setPreferences(currentUser(req)!.id, body) });
+  }));
 
   router.post('/read-all', async (req, res) => {
     await notices.markAllRead(currentUser(req)!.id);
     res.status(204).end();
   });
 
-  router.post('/:id/read', validate('params', idParamSchema), async (req, res) => {
-    await notices.markRead(currentUser(req)!.id, (res.locals.params as { id: number }).id);
+  router.post('/:id/read', handler({ params: idParamSchema }, async ({ params }, req, res) => {
+    await notices.markRead(currentUser(req)!.id, params.id);
     res.status(204).end();
-  });
+  }));
 
   return router;
 }

@@ -19,9 +19,7 @@ export const MAX_DESCRIPTION_HTML_BYTES = 4 * 1024 * 1024;
 export function renderDescription(source: string, maxBytes = MAX_DESCRIPTION_HTML_BYTES): string {
   const html = renderMarkdown(source);
   if (Buffer.byteLength(html, 'utf8') > maxBytes) {
-    throw new AppError(422, 'validation_failed', 'Some fields need another look.', {
-      description: 'This description becomes too long once formatted. Shorten it, or use less markup.',
-    });
+    throw AppError.field('description', 'This description becomes too long once formatted. Shorten it, or use less markup.', 'Some fields need another look.');
   }
   return html;
 }
@@ -47,9 +45,7 @@ export async function bodyIdsFor(slugs: string[], transaction?: Transaction): Pr
   const bodies = await CameraBody.findAll({ where: { slug: { [Op.in]: unique } }, transaction });
   const unknown = unique.filter((s) => !bodies.some((b) => b.slug === s));
   if (unknown.length) {
-    throw new AppError(422, 'validation_failed', 'Some fields need another look.', {
-      bodies: `Unknown camera body: ${unknown.join(', ')}. Pick bodies from the list.`,
-    });
+    throw AppError.field('bodies', `Unknown camera body: ${unknown.join(', ')}. Pick bodies from the list.`, 'Some fields need another look.');
   }
   return bodies.map((b) => b.id);
 }

@@ -1,13 +1,13 @@
 import { Router } from 'express';
 import { z } from 'zod';
-import { fileUploadOptionsSchema, partFileParamsSchema, partSubmissionSchema, partUpdateSchema, type PartUpdate } from '@shared/schemas/part';
+import { fileUploadOptionsSchema, partFileParamsSchema, partSubmissionSchema, partUpdateSchema } from '@shared/schemas/part';
 import { boolish } from '@shared/validation';
 import { AppError } from '../../errors';
 import { currentUser, requireAuth } from '../../middleware/auth';
-import { validate } from '../../middleware/validate';
+import { handler } from '../../middleware/validate';
 import { inspectUploads } from '../files/inspect';
 import { EXTENSION, modelFileName } from '../files/sniff';
-import { multipartFields, parseOrThrow, uploadedFiles, uploadMiddleware, withUploads } from '../files/upload';
+import { multipartFields, uploadedFiles, uploadMiddleware, withUploads } from '../files/upload';
 import type { UploadDirs } from '../files/storage';
 import type { PartsService } from './service';
 
@@ -20,71 +20,70 @@ const imageParamsSchema = partFileParamsSchema.extend({ size: z.enum(['thumb', '
 export function partsRoutes(parts: PartsService, dirs: UploadDirs) {
   const router = Router();
   const upload = uploadMiddleware(dirs);
+  const params = idParamSchema;
 
-  router.get('/', validate('query', listQuerySchema), async (req, res) => {
-    const query = res.locals.query as z.output<typeof listQuerySchema>;
+  router.get('/', handler({ query: listQuerySchema }, async ({ query }, req, res) => {
     res.json({ items: await parts.list(currentUser(req), { mine: query.mine }) });
-  });
+  }));
 
   router.post(
     '/',
     requireAuth,
     ...upload,
-    withUploads(async (req, res) => {
-      const input = parseOrThrow(partSubmissionSchema, multipartFields(req, STRUCTURED));
-      const files = await inspectUploads(uploadedFiles(req), { drawnInInches: input.drawnInInches });
-      const created = await parts.create(currentUser(req)!, input, files);
-      res.status(201).location(`/api/parts/${created.id}`).json(created);
-    }),
+    withUploads(
+      handler({ body: partSubmissionSchema, fields: (req) => multipartFields(req, STRUCTURED) }, async ({ body: input }, req, res) => {
+        const files = await inspectUploads(uploadedFiles(req), { drawnInInches: input.drawnInInches });
+        const created = await parts.create(currentUser(req)!, input, files);
+        res.status(201).location(`/api/parts/${created.id}`).json(created);
+      }),
+    ),
   );
 
-  router.get('/:id', validate('params', idParamSchema), async (req, res) => {
-    res.json(await parts.get(currentUser(req), req.params.id as string));
-  });
+  router.get('/:id', handler({ params }, async ({ params }, req, res) => {
+    res.json(await parts.get(currentUser(req), params.id));
+  }));
 
-  router.patch('/:id', requireAuth, validate('params', idParamSchema), validate('body', partUpdateSchema), async (req, res) => {
-    res.json(await parts.update(currentUser(req)!, req.params.id as string, res.locals.body as PartUpdate));
-  });
+  router.patch('/:id', requireAuth, handler({ params, body: partUpdateSchema }, async ({ params, body }, req, res) => {
+    res.json(await parts.update(currentUser(req)!, params.id, body));
+  }));
 
-  router.post('/:id/submit', requireAuth, validate('params', idParamSchema), async (req, res) => {
-    res.json(await parts.resubmit(currentUser(req)!, req.params.id as string));
-  });
+  router.post('/:id/submit', requireAuth, handler({ params }, async ({ params }, req, res) => {
+    res.json(await parts.resubmit(currentUser(req)!, params.id));
+  }));
 
   router.post(
     '/:id/files',
     requireAuth,
-    validate('params', idParamSchema),
     ...upload,
-    withUploads(async (req, res) => {
-      const options = parseOrThrow(fileUploadOptionsSchema, req.body ?? {});
-      const files = await inspectUploads(uploadedFiles(req), options);
-      res.status(201).json(await parts.addFiles(currentUser(req)!, req.params.id as string, files));
-    }),
+    withUploads(
+      handler({ params, body: fileUploadOptionsSchema }, async ({ params, body: options }, req, res) => {
+        const files = await inspectUploads(uploadedFiles(req), options);
+        res.status(201).json(await parts.addFiles(currentUser(req)!, params.id, files));
+      }),
+    ),
   );
 
-  router.delete('/:id/files/:fileId', requireAuth, validate('params', partFileParamsSchema), async (req, res) => {
-    const { id, fileId } = res.locals.params as z.output<typeof partFileParamsSchema>;
-    res.json(await parts.removeFile(currentUser(req)!, String(id), fileId));
-  });
+  router.delete('/:id/files/:fileId', requireAuth, handler({ params: partFileParamsSchema }, async ({ params }, req, res) => {
+    res.json(await parts.removeFile(currentUser(req)!, String(params.id), params.fileId));
+  }));
 
-  router.get('/:id/files/:fileId/download', validate('params', partFileParamsSchema), async (req, res) => {
+  router.get('/:id/files/:fileId/download', handler({ params: partFileParamsSchema }, async ({ params }, req, res) => {
     if (!req.user) throw AppError.unauthorized('Sign in to download files from the shelf.');
-    const { id, fileId } = res.locals.params as z.output<typeof partFileParamsSchema>;
-    const { file, path } = await parts.storedFile(currentUser(req), String(id), fileId, 'original');
+    const { file, path } = await parts.storedFile(currentUser(req), String(params.id), params.fileId, 'original');
     res.setHeader('X-Content-Type-Options', 'nosniff');
     const name = file.kind === 'model' ? modelFileName(file.originalName, EXTENSION[file.format === '3mf' ? '3mf' : 'stl']) : file.originalName;
     res.attachment(file.kind === 'photo' ? file.originalName.replace(/\.[^.]+$/, '') + '.jpg' : name);
     res.type(file.mime);
     res.sendFile(path);
-  });
+  }));
 
-  router.get('/:id/files/:fileId/image/:size', validate('params', imageParamsSchema), async (req, res) => {
-    const { id, fileId, size } = res.locals.params as z.output<typeof imageParamsSchema>;
+  router.get('/:id/files/:fileId/image/:size', handler({ params: imageParamsSchema }, async ({ params }, req, res) => {
+    const { id, fileId, size } = params;
     const { path } = await parts.storedFile(currentUser(req), String(id), fileId, size === 'thumb' ? 'thumbnail' : 'display');
     res.setHeader('Cache-Control', 'private, max-age=3600');
     res.type('image/jpeg');
     res.sendFile(path);
-  });
+  }));
 
   return router;
 }

@@ -1,3 +1,5 @@
+// Over 350 lines on purpose: create, update, resubmit and addFiles share the service's transaction
+// and moved-file undo helpers; access, presenter, revisions and part-files are already files of their own.
 // The catalogue's core record: submitting, reading, editing parts and their files.
 import { Op, UniqueConstraintError, type CreationAttributes, type Sequelize, type Transaction } from 'sequelize';
 import { slugify } from '@shared/catalogue';
@@ -54,24 +56,20 @@ export interface PartsDeps {
   onVisibilityChanged?: () => void;
 }
 
-function fieldError(field: string, message: string) {
-  return new AppError(422, 'validation_failed', message, { [field]: message });
-}
-
 /** A part made on the make pages records its maker and sizes; it carries no tested load (nobody tested these sizes). */
 function madeWithColumns(input: PartSubmission): { makeKind: string | null; makeParams: Record<string, unknown> | null } {
   if (!input.make) return { makeKind: null, makeParams: null };
   if (input.testedLoadKg != null) {
-    throw fieldError('testedLoadKg', 'A part made to size has no tested load: leave the tested load empty. Set reports tell the crew how it holds up.');
+    throw AppError.field('testedLoadKg', 'A part made to size has no tested load: leave the tested load empty. Set reports tell the crew how it holds up.');
   }
   try {
     return { makeKind: input.make.kind, makeParams: parseParams(input.make.kind, input.make.params) };
   } catch (err) {
     if (err instanceof AppError && err.fields) {
       const fields = Object.fromEntries(Object.entries(err.fields).map(([k, v]) => [`make.${k}`, v]));
-      throw new AppError(422, 'validation_failed', err.message, fields);
+      throw AppError.fields(err.message, fields);
     }
-    if (err instanceof AppError && err.status === 404) throw fieldError('make.kind', err.message);
+    if (err instanceof AppError && err.status === 404) throw AppError.field('make.kind', err.message);
     throw err;
   }
 }
@@ -111,25 +109,25 @@ export function createPartsService({ sequelize, dirs, photos, renders, onSubmitt
     if (!parentId) return;
     const parent = await Part.findByPk(parentId);
     if (!parent || !crewAllows(await audienceOf(viewer), parent) || (!parent.publishedRevisionId && !seesUnpublished(viewer, parent))) {
-      throw fieldError('parentId', 'The part you are adapting is not on the shelf.');
+      throw AppError.field('parentId', 'The part you are adapting is not on the shelf.');
     }
     const parentRev = await PartRevision.findByPk(parent.publishedRevisionId ?? parent.latestRevisionId!);
     if (!parentRev || !isLicenceId(parentRev.licence) || !isLicenceId(licence)) return;
     const check = checkAdaptationLicence(parentRev.licence, licence);
-    if (!check.ok) throw fieldError('licence', check.reason);
+    if (!check.ok) throw AppError.field('licence', check.reason);
   }
 
   /** The crew id a visibility choice stands for; only a crew the actor is in (moderators too). */
   async function crewIdFor(actor: User, visibility: PartVisibility | undefined, t?: Transaction): Promise<number | null> {
     if (!visibility || visibility === 'everyone') return null;
     const member = await CrewMember.findOne({ where: { crewId: visibility.crewId, userId: actor.id }, transaction: t });
-    if (!member) throw fieldError('visibility', 'You can publish a part only to a crew you are in. Choose one of your crews, or everyone.');
+    if (!member) throw AppError.field('visibility', 'You can publish a part only to a crew you are in. Choose one of your crews, or everyone.');
     return visibility.crewId;
   }
 
   function requireModel(files: InspectedFile[]) {
     if (!files.some((f) => f.field === 'model')) {
-      throw fieldError('model', 'Add at least one model file (STL or 3MF).');
+      throw AppError.field('model', 'Add at least one model file (STL or 3MF).');
     }
   }
 
@@ -276,7 +274,7 @@ export function createPartsService({ sequelize, dirs, photos, renders, onSubmitt
     },
 
     async addFiles(actor: User, id: string, files: InspectedFile[]) {
-      if (!files.length) throw fieldError('model', 'Choose at least one file to add.');
+      if (!files.length) throw AppError.field('model', 'Choose at least one file to add.');
       await writeWithFiles(async (t, attempt) => {
         const part = await findVisiblePart(actor, id, t);
         assertCanEdit(actor, part);

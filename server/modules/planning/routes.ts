@@ -1,5 +1,4 @@
 import { Router } from 'express';
-import type { z } from 'zod';
 import {
   estimateSchema,
   kitItemParamsSchema,
@@ -16,15 +15,15 @@ import {
   printerSchema,
 } from '@shared/schemas/planning';
 import { currentUser, requireAuth } from '../../middleware/auth';
-import { parsed, validate } from '../../middleware/validate';
+import { handler } from '../../middleware/validate';
 import type { PlanningService } from './service';
 
 /** /api/estimate: open to visitors too; a signed-in member's price sheet fills in missing prices. */
 export function estimateRoutes(planning: PlanningService) {
   const router = Router();
-  router.post('/', validate('body', estimateSchema), async (req, res) => {
-    res.json(await planning.estimate(currentUser(req), parsed(res, 'body', estimateSchema)));
-  });
+  router.post('/', handler({ body: estimateSchema }, async ({ body }, req, res) => {
+    res.json(await planning.estimate(currentUser(req), body));
+  }));
   return router;
 }
 
@@ -32,25 +31,25 @@ export function estimateRoutes(planning: PlanningService) {
 export function printerRoutes(planning: PlanningService) {
   const router = Router();
   router.use(requireAuth);
-  const id = (res: { locals: Record<string, unknown> }) => (res.locals.params as z.output<typeof printerParamsSchema>).id;
+  const params = printerParamsSchema;
 
   router.get('/', async (req, res) => {
     res.json(await planning.listPrinters(currentUser(req)!));
   });
-  router.post('/', validate('body', printerSchema), async (req, res) => {
-    const printer = await planning.createPrinter(currentUser(req)!, parsed(res, 'body', printerSchema));
+  router.post('/', handler({ body: printerSchema }, async ({ body }, req, res) => {
+    const printer = await planning.createPrinter(currentUser(req)!, body);
     res.status(201).location(`/api/printers/${printer.id}`).json(printer);
-  });
-  router.get('/:id', validate('params', printerParamsSchema), async (req, res) => {
-    res.json(await planning.getPrinter(currentUser(req)!, id(res)));
-  });
-  router.patch('/:id', validate('params', printerParamsSchema), validate('body', printerPatchSchema), async (req, res) => {
-    res.json(await planning.updatePrinter(currentUser(req)!, id(res), parsed(res, 'body', printerPatchSchema)));
-  });
-  router.delete('/:id', validate('params', printerParamsSchema), async (req, res) => {
-    await planning.deletePrinter(currentUser(req)!, id(res));
+  }));
+  router.get('/:id', handler({ params }, async ({ params }, req, res) => {
+    res.json(await planning.getPrinter(currentUser(req)!, params.id));
+  }));
+  router.patch('/:id', handler({ params, body: printerPatchSchema }, async ({ params, body }, req, res) => {
+    res.json(await planning.updatePrinter(currentUser(req)!, params.id, body));
+  }));
+  router.delete('/:id', handler({ params }, async ({ params }, req, res) => {
+    await planning.deletePrinter(currentUser(req)!, params.id);
     res.status(204).end();
-  });
+  }));
   return router;
 }
 
@@ -61,9 +60,9 @@ export function priceRoutes(planning: PlanningService) {
   router.get('/', async (req, res) => {
     res.json(await planning.prices(currentUser(req)!));
   });
-  router.put('/', validate('body', priceSheetSchema), async (req, res) => {
-    res.json(await planning.setPrices(currentUser(req)!, parsed(res, 'body', priceSheetSchema)));
-  });
+  router.put('/', handler({ body: priceSheetSchema }, async ({ body }, req, res) => {
+    res.json(await planning.setPrices(currentUser(req)!, body));
+  }));
   return router;
 }
 
@@ -71,64 +70,61 @@ export function priceRoutes(planning: PlanningService) {
 export function kitRoutes(planning: PlanningService) {
   const router = Router();
   router.use(requireAuth);
-  const kitId = (res: { locals: Record<string, unknown> }) => (res.locals.params as { id: number }).id;
-  const itemId = (res: { locals: Record<string, unknown> }) => (res.locals.params as z.output<typeof kitItemParamsSchema>).itemId;
-  const kitParams = validate('params', kitParamsSchema);
-  const itemParams = validate('params', kitItemParamsSchema);
+  const params = kitParamsSchema;
 
   router.get('/', async (req, res) => {
     res.json(await planning.listKits(currentUser(req)!));
   });
-  router.post('/', validate('body', kitSchema), async (req, res) => {
-    const kit = await planning.createKit(currentUser(req)!, parsed(res, 'body', kitSchema));
+  router.post('/', handler({ body: kitSchema }, async ({ body }, req, res) => {
+    const kit = await planning.createKit(currentUser(req)!, body);
     res.status(201).location(`/api/kits/${kit.id}`).json(kit);
-  });
-  router.get('/:id', kitParams, async (req, res) => {
-    res.json(await planning.getKit(currentUser(req)!, kitId(res)));
-  });
-  router.patch('/:id', kitParams, validate('body', kitPatchSchema), async (req, res) => {
-    res.json(await planning.updateKit(currentUser(req)!, kitId(res), parsed(res, 'body', kitPatchSchema)));
-  });
-  router.delete('/:id', kitParams, async (req, res) => {
-    await planning.deleteKit(currentUser(req)!, kitId(res));
+  }));
+  router.get('/:id', handler({ params }, async ({ params }, req, res) => {
+    res.json(await planning.getKit(currentUser(req)!, params.id));
+  }));
+  router.patch('/:id', handler({ params, body: kitPatchSchema }, async ({ params, body }, req, res) => {
+    res.json(await planning.updateKit(currentUser(req)!, params.id, body));
+  }));
+  router.delete('/:id', handler({ params }, async ({ params }, req, res) => {
+    await planning.deleteKit(currentUser(req)!, params.id);
     res.status(204).end();
-  });
+  }));
 
-  router.post('/:id/items', kitParams, validate('body', kitItemSchema), async (req, res) => {
-    const item = await planning.addItem(currentUser(req)!, kitId(res), parsed(res, 'body', kitItemSchema));
+  router.post('/:id/items', handler({ params, body: kitItemSchema }, async ({ params, body }, req, res) => {
+    const item = await planning.addItem(currentUser(req)!, params.id, body);
     res.status(201).json(item);
-  });
-  router.patch('/:id/items/:itemId', itemParams, validate('body', kitItemPatchSchema), async (req, res) => {
-    res.json(await planning.updateItem(currentUser(req)!, kitId(res), itemId(res), parsed(res, 'body', kitItemPatchSchema)));
-  });
-  router.delete('/:id/items/:itemId', itemParams, async (req, res) => {
-    await planning.deleteItem(currentUser(req)!, kitId(res), itemId(res));
+  }));
+  router.patch('/:id/items/:itemId', handler({ params: kitItemParamsSchema, body: kitItemPatchSchema }, async ({ params, body }, req, res) => {
+    res.json(await planning.updateItem(currentUser(req)!, params.id, params.itemId, body));
+  }));
+  router.delete('/:id/items/:itemId', handler({ params: kitItemParamsSchema }, async ({ params }, req, res) => {
+    await planning.deleteItem(currentUser(req)!, params.id, params.itemId);
     res.status(204).end();
-  });
+  }));
 
-  router.put('/:id/shares', kitParams, validate('body', kitSharesSchema), async (req, res) => {
-    res.json(await planning.setShares(currentUser(req)!, kitId(res), parsed(res, 'body', kitSharesSchema)));
-  });
+  router.put('/:id/shares', handler({ params, body: kitSharesSchema }, async ({ params, body }, req, res) => {
+    res.json(await planning.setShares(currentUser(req)!, params.id, body));
+  }));
 
-  router.put('/:id/crew-shares', kitParams, validate('body', kitCrewSharesSchema), async (req, res) => {
-    res.json(await planning.setCrewShares(currentUser(req)!, kitId(res), parsed(res, 'body', kitCrewSharesSchema)));
-  });
+  router.put('/:id/crew-shares', handler({ params, body: kitCrewSharesSchema }, async ({ params, body }, req, res) => {
+    res.json(await planning.setCrewShares(currentUser(req)!, params.id, body));
+  }));
 
-  router.delete('/:id/shares/me', kitParams, async (req, res) => {
-    await planning.leave(currentUser(req)!, kitId(res));
+  router.delete('/:id/shares/me', handler({ params }, async ({ params }, req, res) => {
+    await planning.leave(currentUser(req)!, params.id);
     res.status(204).end();
-  });
+  }));
 
-  router.get('/:id/summary', kitParams, async (req, res) => {
-    res.json(await planning.summary(currentUser(req)!, kitId(res)));
-  });
-  router.get('/:id/export.csv', kitParams, async (req, res) => {
-    const { fileName, body } = await planning.exportCsv(currentUser(req)!, kitId(res));
+  router.get('/:id/summary', handler({ params }, async ({ params }, req, res) => {
+    res.json(await planning.summary(currentUser(req)!, params.id));
+  }));
+  router.get('/:id/export.csv', handler({ params }, async ({ params }, req, res) => {
+    const { fileName, body } = await planning.exportCsv(currentUser(req)!, params.id);
     res.attachment(fileName);
     res.set('Content-Type', 'text/csv; charset=utf-8');
     res.set('X-Content-Type-Options', 'nosniff');
     res.set('Cache-Control', 'no-store');
     res.send(body);
-  });
+  }));
   return router;
 }

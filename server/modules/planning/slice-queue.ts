@@ -1,75 +1,45 @@
-// Slicing for estimates happens off the request path: one worker thread takes jobs in order (a
-// million-facet mesh takes seconds), and recent results are kept so asking again is instant.
-import { Worker } from 'node:worker_threads';
+// Slicing for estimates happens off the request path, in the worker pool (files/worker-pool.ts): one
+// thread takes jobs in order (a million-facet mesh takes seconds), and recent results are kept so
+// asking again is instant.
 import type { SliceProfile } from '@shared/slice';
-import type { SliceJob, SliceResult } from './slice-worker';
+import { WorkerPool, type WorkerPoolOptions } from '../files/worker-pool';
+import type { SliceJob } from './slice-worker';
 
-const WORKER_URL = new URL('./slice-worker.ts', import.meta.url).href;
-// The worker is TypeScript: load it through tsx's loader, which works under tsx and vitest alike.
-const BOOT = `import('tsx/esm/api').then(({ register }) => { register(); return import(${JSON.stringify(WORKER_URL)}); })`;
+export const SLICE_POOL: WorkerPoolOptions = {
+  name: 'slicing',
+  maxThreads: 1,
+  // jobs are paths and settings; the model files wait on disk
+  maxQueue: Number.MAX_SAFE_INTEGER,
+  // a million-facet mesh is 36 MB of positions (outside the heap) plus the layer outlines
+  memoryMb: 1024,
+  // our choice: far beyond the seconds bench:estimate measures for a million facets
+  timeoutMs: 300_000,
+  nice: 5,
+  tasks: new URL('./slice-worker.ts', import.meta.url).href,
+};
 /** Profiles kept, newest last (our choice: a few recipes of a few parts). */
 const CACHE_SIZE = 32;
 
 export class SliceQueue {
-  private worker: Worker | null = null;
-  private waiting = new Map<number, { resolve: (p: SliceProfile) => void; reject: (e: Error) => void }>();
+  private pool: WorkerPool<typeof import('./slice-worker')> | null = null;
   private cache = new Map<string, Promise<SliceProfile>>();
-  private idleTimer: NodeJS.Timeout | null = null;
-  private nextId = 0;
 
-  /** Rejects with the worker's message when the file cannot be sliced. */
-  slice(job: Omit<SliceJob, 'id'>, cacheKey: string): Promise<SliceProfile> {
+  /** Rejects with the task's message when the file cannot be sliced. */
+  slice(job: SliceJob, cacheKey: string): Promise<SliceProfile> {
     const key = `${cacheKey}|${job.stlUnitScale}|${JSON.stringify(job.settings)}`;
     const cached = this.cache.get(key);
     if (cached) return cached;
-    const worker = this.ensureWorker();
-    const id = ++this.nextId;
-    const result = new Promise<SliceProfile>((resolve, reject) => {
-      this.waiting.set(id, { resolve, reject });
-      worker.postMessage({ id, ...job } satisfies SliceJob);
-    });
+    this.pool ??= new WorkerPool<typeof import('./slice-worker')>(SLICE_POOL);
+    const result = this.pool.run('sliceFile', job);
     this.cache.set(key, result);
     result.catch(() => this.cache.delete(key));
     while (this.cache.size > CACHE_SIZE) this.cache.delete(this.cache.keys().next().value!);
     return result;
   }
 
-  private ensureWorker(): Worker {
-    if (this.idleTimer) clearTimeout(this.idleTimer);
-    if (this.worker) return this.worker;
-    const worker = new Worker(BOOT, { eval: true });
-    worker.on('message', (result: SliceResult) => {
-      const waiter = this.waiting.get(result.id);
-      this.waiting.delete(result.id);
-      if (result.ok) waiter?.resolve(result.profile);
-      else waiter?.reject(new Error(result.error));
-      if (this.waiting.size === 0) this.stopWhenIdle();
-    });
-    worker.on('error', (err) => this.failAll(err.message));
-    worker.on('exit', () => {
-      if (this.worker === worker) this.worker = null;
-      this.failAll('the slicing worker stopped');
-    });
-    worker.unref();
-    this.worker = worker;
-    return worker;
-  }
-
-  private failAll(error: string) {
-    for (const { reject } of this.waiting.values()) reject(new Error(error));
-    this.waiting.clear();
-  }
-
-  private stopWhenIdle() {
-    this.idleTimer = setTimeout(() => void this.close(), 30_000);
-    this.idleTimer.unref();
-  }
-
   async close(): Promise<void> {
-    if (this.idleTimer) clearTimeout(this.idleTimer);
-    const worker = this.worker;
-    this.worker = null;
-    if (worker) await worker.terminate();
-    this.failAll('the server is shutting down');
+    const pool = this.pool;
+    this.pool = null;
+    await pool?.close();
   }
 }

@@ -40,7 +40,7 @@ async function crewFor(viewer: User, kit: Kit, crewId: number | undefined): Prom
   const owners = (await CrewMember.findAll({ where: { userId: kit.ownerId }, attributes: ['crewId'], order: [['crewId', 'ASC']] })).map((m) => m.crewId);
   const pick = [...shared, ...owners, ...mine].find((id) => mine.includes(id));
   if (!pick) {
-    throw new AppError(422, 'validation_failed', 'A statement is billed through a crew (its currency and tax rate); join or create a crew first.', { crewId: 'Choose a crew of yours.' });
+    throw AppError.field('crewId', 'Choose a crew of yours.', 'A statement is billed through a crew (its currency and tax rate); join or create a crew first.');
   }
   return (await Crew.findByPk(pick))!;
 }

@@ -1,15 +1,14 @@
 import express, { Router } from 'express';
-import type { z } from 'zod';
 import { printRequestActionParamsSchema, printRequestParamsSchema, printRequestSchema, printRequestStepSchema } from '@shared/schemas/print-requests';
 import { currentUser, requireAuth } from '../../middleware/auth';
-import { parsed, validate } from '../../middleware/validate';
+import { handler } from '../../middleware/validate';
 import type { PrintRequestsService } from './service';
 
 /** /api/print-requests: asking crew mates for prints, the steps, paying back. Only the two sides see a request. */
 export function printRequestRoutes(service: PrintRequestsService) {
   const router = Router();
   router.use(requireAuth);
-  const id = (res: { locals: Record<string, unknown> }) => (res.locals.params as z.output<typeof printRequestParamsSchema>).id;
+  const params = printRequestParamsSchema;
 
   router.get('/', async (req, res) => {
     res.json(await service.list(currentUser(req)!));
@@ -17,20 +16,19 @@ export function printRequestRoutes(service: PrintRequestsService) {
   router.get('/printers', async (req, res) => {
     res.json({ items: await service.printers(currentUser(req)!) });
   });
-  router.post('/', validate('body', printRequestSchema), async (req, res) => {
-    const created = await service.create(currentUser(req)!, parsed(res, 'body', printRequestSchema));
+  router.post('/', handler({ body: printRequestSchema }, async ({ body }, req, res) => {
+    const created = await service.create(currentUser(req)!, body);
     res.status(201).location(`/api/print-requests/${created.id}`).json(created);
-  });
-  router.get('/:id', validate('params', printRequestParamsSchema), async (req, res) => {
-    res.json(await service.get(currentUser(req)!, id(res)));
-  });
-  router.post('/:id/checkout', validate('params', printRequestParamsSchema), async (req, res) => {
-    res.json(await service.checkout(currentUser(req)!, id(res)));
-  });
-  router.post('/:id/:action', validate('params', printRequestActionParamsSchema), validate('body', printRequestStepSchema), async (req, res) => {
-    const { action } = res.locals.params as z.output<typeof printRequestActionParamsSchema>;
-    res.json(await service.step(currentUser(req)!, id(res), action, parsed(res, 'body', printRequestStepSchema).note));
-  });
+  }));
+  router.get('/:id', handler({ params }, async ({ params }, req, res) => {
+    res.json(await service.get(currentUser(req)!, params.id));
+  }));
+  router.post('/:id/checkout', handler({ params }, async ({ params }, req, res) => {
+    res.json(await service.checkout(currentUser(req)!, params.id));
+  }));
+  router.post('/:id/:action', handler({ params: printRequestActionParamsSchema, body: printRequestStepSchema }, async ({ params, body }, req, res) => {
+    res.json(await service.step(currentUser(req)!, params.id, params.action, body.note));
+  }));
   return router;
 }
 

@@ -2,11 +2,9 @@
 // or a whole kit; the owner accepts (the price freezes) or declines, then marks the fit test, the
 // print and the hand-over; the requester may cancel until printing starts. Every step is on record
 // with who and when, and the other side gets a notice and a mail. Paying back goes through the
-// payments SDK: a request is paid only when a verified webhook says so, each event id once.
-import { Op, UniqueConstraintError, type Sequelize, type Transaction } from 'sequelize';
-import type Stripe from 'stripe';
+// payments SDK (paying-back.ts): a request is paid only when a verified webhook says so, each event id once.
+import { Op, type Sequelize, type Transaction } from 'sequelize';
 import type { CrewPrinter, MoneyByCurrency, PrintRequestDetail, PrintRequestInfo, PrintRequestList } from '@shared/api/print-requests';
-import type { MaterialId } from '@shared/materials';
 import { computePrintPrice, sumMinor, type PrintPrice } from '@shared/print-price';
 import {
   allowedPrintActions,
@@ -14,24 +12,17 @@ import {
   isOwed,
   printTransition,
   refundDue,
-  STATE_LABELS,
   type PrintRequestAction,
   type PrintRequestRole,
-  type PrintRequestState,
 } from '@shared/print-requests';
 import type { PrintRequestInput } from '@shared/schemas/print-requests';
 import {
   Crew,
   CrewMember,
-  Part,
-  PartFile,
-  PartRevision,
-  PaymentEvent,
   PriceSheet,
   Printer,
   PrintRequest,
   PrintRequestEvent,
-  Recipe,
   User,
 } from '../../db/models';
 import { transact } from '../../db/transaction';
@@ -44,6 +35,8 @@ import { findVisiblePart } from '../parts/access';
 import type { PlanningService } from '../planning/service';
 import { effectivePrices } from '../planning/presenter';
 import type { Payments } from '../payments/client';
+import { estimateRequest } from './estimate';
+import { payingBack } from './paying-back';
 
 export interface PrintRequestsDeps {
   sequelize: Sequelize;
@@ -55,15 +48,9 @@ export interface PrintRequestsDeps {
 
 const notFound = () => AppError.notFound('There is no print request with that id among yours.');
 
-function fieldError(field: string, message: string) {
-  return new AppError(422, 'validation_failed', message, { [field]: message });
-}
-
 function person(user: User | undefined, id: number) {
   return { id, displayName: user?.displayName ?? 'A former member' };
 }
-
-type FileWithPosition = PartFile & { RevisionFile?: { position: number } };
 
 /** What happens at each step, in the words the other side reads. */
 const STEP_WORDS: Record<PrintRequestAction | 'asked' | 'paid' | 'refunded', { to: PrintRequestRole; subject: string; text: (actor: string, title: string) => string }> = {
@@ -191,119 +178,7 @@ export function createPrintRequestsService({ sequelize, mail, publicUrl: configu
     );
   }
 
-  /** Refunds a request whose refund is due, once (the idempotency key holds across retries). */
-  async function settleRefund(id: number): Promise<void> {
-    const r = await PrintRequest.findByPk(id);
-    if (!r || r.paymentStatus !== 'refund_due' || !r.paymentRef) return;
-    let refund: { id: string; status: string | null };
-    try {
-      refund = await payments.refund(r.paymentRef, `rigshelf-refund-${r.id}-${r.paymentRef}`);
-    } catch (err) {
-      console.error(`rigshelf: refund of print request ${r.id} failed, will retry at start-up: ${(err as Error).message}`);
-      return;
-    }
-    await transact(sequelize, async (t) => {
-      const locked = await PrintRequest.findByPk(id, { transaction: t, lock: t.LOCK.UPDATE });
-      if (!locked || locked.paymentStatus !== 'refund_due') return;
-      await locked.update({ paymentStatus: 'refunded', refundRef: refund.id, refundedAt: new Date() }, { transaction: t });
-      await record(locked, 'refunded', null, locked.status, { refund: refund.id, amountMinor: locked.paidMinor, currency: locked.currency }, t);
-    });
-  }
-
-  /** A second payment for a request already paid is refunded in full (the key holds across retries). */
-  async function refundExtra(x: { requestId: number; paymentRef: string; amountMinor: number }) {
-    try {
-      const refund = await payments.refund(x.paymentRef, `rigshelf-refund-extra-${x.paymentRef}`);
-      await transact(sequelize, async (t) => {
-        const r = await PrintRequest.findByPk(x.requestId, { transaction: t });
-        if (!r) return;
-        await PrintRequestEvent.create(
-          { requestId: r.id, actorId: null, action: 'refunded-extra', fromStatus: r.status, toStatus: r.status, details: { refund: refund.id, amountMinor: x.amountMinor, currency: r.currency } },
-          { transaction: t },
-        );
-      });
-    } catch (err) {
-      console.error(`rigshelf: refund of a second payment for print request ${x.requestId} failed: ${(err as Error).message}`);
-    }
-  }
-
-  async function estimateFor(viewer: User, input: PrintRequestInput) {
-    if (input.partId !== undefined) {
-      const part = await findVisiblePart(viewer, input.partId).catch(() => null);
-      if (!part || part.status !== 'published' || !part.publishedRevisionId) {
-        throw fieldError('partId', 'Only parts on the shelf can be asked for; pick one from the shelf.');
-      }
-      // a crew-only part stays inside its crew: the printer's owner must be in it too
-      if (part.crewId && part.crewId !== input.crewId) {
-        throw fieldError('crewId', 'This part is published to one crew only; ask a member of that crew to print it.');
-      }
-      const revision = await PartRevision.findByPk(part.publishedRevisionId, { include: [{ model: PartFile, as: 'files', through: { attributes: ['position'] } }] });
-      const recipes = await Recipe.findAll({ where: { revisionId: part.publishedRevisionId }, order: [['position', 'ASC']] });
-      const recipe = input.recipeId ? recipes.find((x) => x.id === input.recipeId) : (recipes.find((x) => x.purpose === 'set-ready') ?? recipes[0]);
-      if (!recipe) throw fieldError('recipeId', input.recipeId ? 'That recipe is not one of this part’s published recipes.' : 'This part has no published recipe to print it with.');
-      const files = [...((revision?.files ?? []) as FileWithPosition[])].sort((a, b) => (a.RevisionFile?.position ?? 0) - (b.RevisionFile?.position ?? 0));
-      const model = files.find((f) => f.kind === 'model' && f.analysis && f.analysis.volumeMm3 > 0);
-      if (!model) throw fieldError('partId', 'This part has no analysed model file, so there is nothing to estimate the print from.');
-      const material = (input.material ?? recipe.material) as MaterialId;
-      const e = await planning.estimate(viewer, {
-        fileId: model.id,
-        material,
-        nozzleMm: recipe.nozzleMm,
-        layerMm: recipe.layerMm,
-        walls: recipe.walls,
-        topBottomLayers: recipe.topBottomLayers,
-        infillPct: recipe.infillPct,
-        speedMmS: recipe.speedMmS,
-      });
-      const grams = e.massG * input.quantity;
-      return {
-        kind: 'part' as const,
-        partId: part.id,
-        recipeId: recipe.id,
-        kitId: null,
-        title: revision?.title ?? part.slug,
-        material,
-        filament: [{ material, grams }],
-        grams,
-        minutes: e.timeMin * input.quantity,
-        notes: [`Estimated from ${model.originalName} with its ${recipe.purpose} recipe (${recipe.material}, ${recipe.layerMm} mm layers, ${recipe.infillPct} % infill), ${input.quantity} × one piece.`, ...e.assumptions.filter((a) => !/price/i.test(a))],
-      };
-    }
-    const summary = await planning.summary(viewer, input.kitId!);
-    const itemParts = summary.items.length ? await Part.findAll({ where: { id: { [Op.in]: summary.items.flatMap((i) => (i.part ? [i.part.id] : [])) } }, attributes: ['id', 'crewId'] }) : [];
-    if (itemParts.some((p) => p.crewId && p.crewId !== input.crewId)) {
-      throw fieldError('crewId', 'This kit holds parts published to another crew only; ask a member of that crew, or take those items out first.');
-    }
-    const byMaterial = new Map<string, number>();
-    let minutes = 0;
-    const notes: string[] = [];
-    for (const item of summary.items) {
-      if (!item.total) {
-        notes.push(`${item.title} has no estimate and is not priced.`);
-        continue;
-      }
-      byMaterial.set(item.material, (byMaterial.get(item.material) ?? 0) + item.total.massG * input.quantity);
-      minutes += item.total.hours * 60 * input.quantity;
-    }
-    if (!byMaterial.size) throw fieldError('kitId', 'No item of this kit has an estimate, so there is nothing to price; add parts with model files first.');
-    const filament = [...byMaterial].map(([material, grams]) => ({ material, grams }));
-    return {
-      kind: 'kit' as const,
-      partId: null,
-      recipeId: null,
-      kitId: summary.kit.id,
-      title: `Kit: ${summary.kit.name}`,
-      material: filament.length === 1 ? filament[0].material : 'mixed',
-      filament,
-      grams: filament.reduce((s, f) => s + f.grams, 0),
-      minutes,
-      notes: [
-        `Estimated from the kit’s ${summary.items.length} item(s) with each item’s recipe${input.quantity > 1 ? `, ${input.quantity} times over` : ''}.`,
-        `Items: ${summary.items.map((i) => `${i.quantity * input.quantity} × ${i.title} (${i.material})`).join('; ')}.`,
-        ...notes,
-      ],
-    };
-  }
+  const paying = payingBack({ sequelize, payments, record, visible, link, publicUrl: () => publicUrl });
 
   function totalsBy(rows: { currency: string; minor: number }[]): MoneyByCurrency[] {
     const by = new Map<string, number[]>();
@@ -355,14 +230,14 @@ export function createPrintRequestsService({ sequelize, mail, publicUrl: configu
 
     async create(viewer: User, input: PrintRequestInput): Promise<PrintRequestDetail> {
       const crew = await Crew.findByPk(input.crewId);
-      if (!crew || !(await membershipOf(viewer.id, crew.id))) throw fieldError('crewId', 'You are not in that crew; ask a member of one of your crews.');
+      if (!crew || !(await membershipOf(viewer.id, crew.id))) throw AppError.field('crewId', 'You are not in that crew; ask a member of one of your crews.');
       const printer = await Printer.findByPk(input.printerId);
       const owner = printer ? await User.findByPk(printer.ownerId) : null;
       if (!printer || !owner || owner.status !== 'active' || !(await membershipOf(owner.id, crew.id))) {
-        throw fieldError('printerId', 'That printer does not belong to a member of this crew; pick one from the crew’s printers.');
+        throw AppError.field('printerId', 'That printer does not belong to a member of this crew; pick one from the crew’s printers.');
       }
-      if (owner.id === viewer.id) throw fieldError('printerId', 'That is your own printer; print it yourself, or ask a crew mate.');
-      const e = await estimateFor(viewer, input);
+      if (owner.id === viewer.id) throw AppError.field('printerId', 'That is your own printer; print it yourself, or ask a crew mate.');
+      const e = await estimateRequest(planning, viewer, input);
       const id = await transact(sequelize, async (t) => {
         const r = await PrintRequest.create(
           {
@@ -425,92 +300,8 @@ export function createPrintRequestsService({ sequelize, mail, publicUrl: configu
         await record(r, action, viewer, from, Object.keys(details).length ? details : null, t);
         return r.paymentStatus === 'refund_due';
       });
-      if (refund) await settleRefund(id);
+      if (refund) await paying.settleRefund(id);
       return loadDetail(viewer, id);
-    },
-
-    async checkout(viewer: User, id: number): Promise<{ url: string | null; clientSecret: string | null }> {
-      const r = await visible(viewer, id);
-      if (r.requesterId !== viewer.id) throw AppError.forbidden('Only the member who asked pays a print back.');
-      if (!canPay(r.status, r.paymentStatus)) {
-        throw AppError.conflict(
-          r.paymentStatus === 'paid' || r.paymentStatus === 'refunded' || r.paymentStatus === 'refund_due'
-            ? 'This request is paid already.'
-            : `This request is ${STATE_LABELS[r.status as PrintRequestState].toLowerCase()}; it can be paid once the printer’s owner accepts it.`,
-        );
-      }
-      const session = await payments.createCheckout({
-        requestId: r.id,
-        title: `Print: ${r.title} (${r.quantity} ×, ${r.printerName})`,
-        amountMinor: r.priceMinor!,
-        currency: r.currency,
-        successUrl: `${publicUrl}${link(r.id)}?paid=1`,
-        cancelUrl: `${publicUrl}${link(r.id)}`,
-      });
-      await transact(sequelize, async (t) => {
-        const locked = await visible(viewer, id, t);
-        if (locked.paymentStatus === 'unpaid' || locked.paymentStatus === 'pending') {
-          await locked.update({ paymentStatus: 'pending', checkoutId: session.id }, { transaction: t });
-          await PrintRequestEvent.create({ requestId: r.id, actorId: viewer.id, action: 'checkout', fromStatus: r.status, toStatus: r.status, details: { checkout: session.id } }, { transaction: t });
-        }
-      });
-      return { url: session.url, clientSecret: session.clientSecret };
-    },
-
-    /**
-     * A webhook from the payments service. Verified with the SDK or refused (400, nothing changes);
-     * each event id is taken in once; a payment for a request that ended is refunded.
-     */
-    async webhook(rawBody: Buffer, signature: string | undefined): Promise<{ received: true; duplicate?: true }> {
-      let event: Stripe.Event;
-      try {
-        event = payments.verify(rawBody, signature);
-      } catch {
-        throw new AppError(400, 'bad_signature', 'The webhook signature does not verify; nothing was changed.');
-      }
-      let refundId: number | null | 'duplicate' = null;
-      let extra: { requestId: number; paymentRef: string; amountMinor: number } | null = null;
-      try {
-        refundId = await transact(sequelize, async (t) => {
-          if (await PaymentEvent.findByPk(event.id, { transaction: t })) return 'duplicate' as const;
-          const taken = { eventId: event.id, type: event.type, requestId: null as number | null, outcome: 'ignored' };
-          let due: number | null = null;
-          if (event.type === 'checkout.session.completed') {
-            const s = event.data.object as Stripe.Checkout.Session;
-            const requestId = Number(s.metadata?.printRequestId ?? s.client_reference_id);
-            const r = Number.isInteger(requestId) && requestId > 0 ? await PrintRequest.findByPk(requestId, { transaction: t, lock: t.LOCK.UPDATE }) : null;
-            const paymentRef = typeof s.payment_intent === 'string' ? s.payment_intent : (s.payment_intent?.id ?? null);
-            taken.requestId = r?.id ?? null;
-            if (!r) taken.outcome = 'unknown_request';
-            else if (s.payment_status !== 'paid' || !paymentRef) taken.outcome = 'not_paid';
-            else if (r.priceMinor === null || s.amount_total !== r.priceMinor || s.currency?.toUpperCase() !== r.currency) taken.outcome = 'amount_mismatch';
-            else if (r.paymentStatus === 'paid' || r.paymentStatus === 'refund_due' || r.paymentStatus === 'refunded') {
-              taken.outcome = r.paymentRef === paymentRef ? 'already_paid' : 'second_payment';
-              // paid twice through two checkouts: the later payment goes back
-              if (taken.outcome === 'second_payment') extra = { requestId: r.id, paymentRef, amountMinor: s.amount_total ?? 0 };
-            } else {
-              const from = r.status;
-              const settled = refundDue(r.status, 'paid') ? ('refund_due' as const) : ('paid' as const);
-              await r.update(
-                { paymentStatus: settled, paidMinor: s.amount_total!, paymentRef, paidAt: new Date(), checkoutId: s.id },
-                { transaction: t },
-              );
-              await record(r, 'paid', null, from, { amountMinor: s.amount_total, currency: r.currency, event: event.id }, t);
-              taken.outcome = 'paid';
-              if (settled === 'refund_due') due = r.id;
-            }
-          }
-          await PaymentEvent.create(taken, { transaction: t });
-          return due;
-        });
-      } catch (err) {
-        if (err instanceof UniqueConstraintError) return { received: true, duplicate: true };
-        throw err;
-      }
-      if (refundId === 'duplicate') return { received: true, duplicate: true };
-      if (refundId) await settleRefund(refundId);
-      if (extra) await refundExtra(extra);
-      return { received: true };
     },
 
     /** Links in mails and the payment page's way back start here (set once a free port is known). */
@@ -518,12 +309,9 @@ export function createPrintRequestsService({ sequelize, mail, publicUrl: configu
       publicUrl = url.replace(/\/+$/, '');
     },
 
-    /** At start-up: refunds that were due when the service last stopped. */
-    async resumeRefunds(): Promise<number> {
-      const due = await PrintRequest.findAll({ where: { paymentStatus: 'refund_due' }, attributes: ['id'] });
-      for (const r of due) await settleRefund(r.id);
-      return due.length;
-    },
+    checkout: paying.checkout,
+    webhook: paying.webhook,
+    resumeRefunds: paying.resumeRefunds,
   };
 }
 

@@ -1,56 +1,57 @@
 import { Router } from 'express';
 import { idParamSchema } from '@shared/schemas/auth';
 import { wantedAnswerSchema, wantedCloseSchema, wantedListSchema, wantedPhotoParamsSchema, wantedSchema } from '@shared/schemas/wanted';
-import type { z } from 'zod';
 import { currentUser, requireAuth } from '../../middleware/auth';
-import { parsed, validate } from '../../middleware/validate';
+import { handler } from '../../middleware/validate';
 import { inspectUploads } from '../files/inspect';
 import type { UploadDirs } from '../files/storage';
-import { multipartFields, parseOrThrow, uploadedFiles, uploadMiddleware, withUploads } from '../files/upload';
+import { multipartFields, uploadedFiles, uploadMiddleware, withUploads } from '../files/upload';
 import type { WantedService } from './service';
 
 /** /api/wanted: the crew's board of parts people are looking for. Members only. */
 export function wantedRoutes(wanted: WantedService, dirs: UploadDirs) {
   const router = Router();
   router.use(requireAuth);
-  const params = validate('params', idParamSchema);
-  const id = (res: { locals: Record<string, unknown> }) => (res.locals.params as { id: number }).id;
+  const params = idParamSchema;
 
-  router.get('/', validate('query', wantedListSchema), async (req, res) => {
-    res.json({ items: await wanted.list(currentUser(req)!, parsed(res, 'query', wantedListSchema)) });
-  });
+  router.get('/', handler({ query: wantedListSchema }, async ({ query }, req, res) => {
+    res.json({ items: await wanted.list(currentUser(req)!, query) });
+  }));
 
   // JSON, or multipart with the fields (or one `data` field) and up to three photos or sketches
   router.post(
     '/',
     ...uploadMiddleware(dirs),
-    withUploads(async (req, res) => {
-      const input = parseOrThrow(wantedSchema, req.is('multipart/form-data') ? multipartFields(req, ['mounts', 'keySizes']) : req.body);
-      const files = await inspectUploads(uploadedFiles(req), { drawnInInches: false });
-      const created = await wanted.create(currentUser(req)!, input, files);
-      res.status(201).location(`/api/wanted/${created.id}`).json(await wanted.detail(currentUser(req)!, created.id));
-    }),
+    withUploads(
+      handler(
+        { body: wantedSchema, fields: (req) => (req.is('multipart/form-data') ? multipartFields(req, ['mounts', 'keySizes']) : req.body) },
+        async ({ body }, req, res) => {
+          const files = await inspectUploads(uploadedFiles(req), { drawnInInches: false });
+          const created = await wanted.create(currentUser(req)!, body, files);
+          res.status(201).location(`/api/wanted/${created.id}`).json(await wanted.detail(currentUser(req)!, created.id));
+        },
+      ),
+    ),
   );
 
-  router.get('/:id', params, async (req, res) => {
-    res.json(await wanted.detail(currentUser(req)!, id(res)));
-  });
+  router.get('/:id', handler({ params }, async ({ params }, req, res) => {
+    res.json(await wanted.detail(currentUser(req)!, params.id));
+  }));
 
-  router.post('/:id/answers', params, validate('body', wantedAnswerSchema), async (req, res) => {
-    const result = await wanted.answer(currentUser(req)!, id(res), parsed(res, 'body', wantedAnswerSchema));
+  router.post('/:id/answers', handler({ params, body: wantedAnswerSchema }, async ({ params, body }, req, res) => {
+    const result = await wanted.answer(currentUser(req)!, params.id, body);
     res.status(201).json(result);
-  });
+  }));
 
-  router.post('/:id/close', params, validate('body', wantedCloseSchema), async (req, res) => {
-    res.json(await wanted.close(currentUser(req)!, id(res), parsed(res, 'body', wantedCloseSchema)));
-  });
+  router.post('/:id/close', handler({ params, body: wantedCloseSchema }, async ({ params, body }, req, res) => {
+    res.json(await wanted.close(currentUser(req)!, params.id, body));
+  }));
 
-  router.get('/:id/photos/:photoId/:size', validate('params', wantedPhotoParamsSchema), async (req, res) => {
-    const p = res.locals.params as z.output<typeof wantedPhotoParamsSchema>;
+  router.get('/:id/photos/:photoId/:size', handler({ params: wantedPhotoParamsSchema }, async ({ params: p }, req, res) => {
     const path = await wanted.photoPath(currentUser(req)!, p.id, p.photoId, p.size);
     res.setHeader('Cache-Control', 'private, max-age=3600');
     res.type('image/jpeg').sendFile(path);
-  });
+  }));
 
   return router;
 }

@@ -115,10 +115,10 @@ export function createWantedService({ sequelize, dirs, photos, mail, publicUrl, 
   return {
     async create(actor: User, input: WantedData, files: InspectedFile[]): Promise<{ id: number }> {
       if (files.some((f) => f.field !== 'photo')) {
-        throw new AppError(422, 'validation_failed', 'A wanted request takes photos or sketches only.', { photo: 'Attach a photo or a sketch as JPEG, PNG or WebP.' });
+        throw AppError.field('photo', 'Attach a photo or a sketch as JPEG, PNG or WebP.', 'A wanted request takes photos or sketches only.');
       }
       if (files.length > MAX_WANTED_PHOTOS) {
-        throw new AppError(422, 'validation_failed', 'Some fields need another look.', { photo: `Attach at most ${MAX_WANTED_PHOTOS} photos or sketches.` });
+        throw AppError.field('photo', `Attach at most ${MAX_WANTED_PHOTOS} photos or sketches.`, 'Some fields need another look.');
       }
       const body = await resolveBody(input.body);
       const t = await sequelize.transaction();
@@ -245,22 +245,18 @@ export function createWantedService({ sequelize, dirs, photos, mail, publicUrl, 
         const onShelf = !!part && part.publishedRevisionId !== null && part.status === 'published';
         const own = !!part && part.authorId === actor.id;
         if (!part || !crewAllows(await audienceOf(actor, t), part) || (!onShelf && !own && !isModerator(actor))) {
-          throw new AppError(422, 'validation_failed', 'Some fields need another look.', { part: 'There is no part with that id or address on the shelf. Link a published part, or one of yours that is in review.' });
+          throw AppError.field('part', 'There is no part with that id or address on the shelf. Link a published part, or one of yours that is in review.', 'Some fields need another look.');
         }
         if (!onShelf && part.status !== 'in_review') {
-          throw new AppError(422, 'validation_failed', 'Some fields need another look.', {
-            part: part.status === 'draft' || part.status === 'sent_back' ? 'That part is not with the review desk yet. Submit it for review, then link it here.' : 'That part is not on the shelf and will not be; link another one.',
-          });
+          throw AppError.field('part', part.status === 'draft' || part.status === 'sent_back' ? 'That part is not with the review desk yet. Submit it for review, then link it here.' : 'That part is not on the shelf and will not be; link another one.', 'Some fields need another look.');
         }
         if (!onShelf && !own) {
-          throw new AppError(422, 'validation_failed', 'Some fields need another look.', { part: 'A part in review can be linked by its author only. Link a published part instead.' });
+          throw AppError.field('part', 'A part in review can be linked by its author only. Link a published part instead.', 'Some fields need another look.');
         }
         if (part.crewId != null) {
           const requester = await User.findByPk(request.authorId, { transaction: t });
           if (!requester || !crewAllows(await audienceOf(requester, t), part)) {
-            throw new AppError(422, 'validation_failed', 'Some fields need another look.', {
-              part: 'That part is published to a crew the person who asked is not in, so they could not open it. Link a part published to everyone, or ask them to join the crew.',
-            });
+            throw AppError.field('part', 'That part is published to a crew the person who asked is not in, so they could not open it. Link a part published to everyone, or ask them to join the crew.', 'Some fields need another look.');
           }
         }
         let answer: WantedAnswer;

@@ -1,7 +1,7 @@
 // The demo scenario: an invented crew prepping an invented production. Demo-only accounts.
-import { hashPassword } from '../../security/password';
-import type { MigrationFn } from '../migrator';
-import { User } from '../models';
+import { hashPassword } from '../security/password';
+import type { SeedFn } from './seed';
+import { User } from '../db/models';
 
 export const DEMO_PASSWORD = 'rigshelf-demo';
 
@@ -11,7 +11,7 @@ export const DEMO_ACCOUNTS = [
   { email: 'demo-member@rigshelf.test', displayName: 'Wren Halloway', role: 'member', crewRole: '1st AC, Halfmoon Unit' },
 ] as const;
 
-export const up: MigrationFn = async () => {
+export const up: SeedFn = async () => {
   const passwordHash = await hashPassword(DEMO_PASSWORD, 15);
   for (const account of DEMO_ACCOUNTS) {
     await User.findOrCreate({

@@ -2,9 +2,9 @@
 // invented crew members from another unit, so the shelf shows proven figures and an outcome warning.
 import { randomBytes } from 'node:crypto';
 import type { SetReportInput } from '@shared/schemas/evidence';
-import { hashPassword } from '../../security/password';
-import type { MigrationFn } from '../migrator';
-import { Part, User } from '../models';
+import { hashPassword } from '../security/password';
+import type { SeedFn } from './seed';
+import { Part, User } from '../db/models';
 import { DEMO_ACCOUNTS } from './0001-demo-crew';
 
 const EXTRA_CREW = [
@@ -59,7 +59,7 @@ const EVIDENCE: { slug: string; ratings: [Who, number, string?][]; reports: Repo
   },
 ];
 
-export const up: MigrationFn = async ({ context: { services } }) => {
+export const up: SeedFn = async ({ context: { services } }) => {
   if (!services) throw new Error('the demo evidence seeder needs the app services');
   const passwordHash = await hashPassword(randomBytes(24).toString('base64url'), 12);
   const extras = [];

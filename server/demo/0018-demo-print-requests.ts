@@ -1,8 +1,8 @@
 // The demo crew's print requests: the 2nd AC asks the 1st AC (who has the cart printer) for parts.
 // One waits for an answer, one is accepted and owed, one is handed over and still owed. None is paid:
 // payments happen only through the payments service's webhook (try it on the local fake).
-import type { MigrationFn } from '../migrator';
-import { Crew, CrewMember, Part, PartRevision, PrintRequest, Printer, User } from '../models';
+import type { SeedFn } from './seed';
+import { Crew, CrewMember, Part, PartRevision, PrintRequest, Printer, User } from '../db/models';
 import { DEMO_ACCOUNTS } from './0001-demo-crew';
 import { DEMO_SECOND_MEMBER } from './0017-demo-crew-shelf';
 
@@ -27,7 +27,7 @@ async function sharedCrew(a: User, b: User): Promise<Crew> {
   return (await Crew.findByPk(Math.min(...both)))!;
 }
 
-export const up: MigrationFn = async ({ context: { services } }) => {
+export const up: SeedFn = async ({ context: { services } }) => {
   const printRequests = services?.printRequests;
   if (!printRequests) throw new Error('the demo print-request seeder needs the print-request service');
   const owner = await demoUser(DEMO_ACCOUNTS.find((a) => a.role === 'member')!.email);

@@ -1,6 +1,6 @@
 // Invented camera bodies for the demo scenario (no real makers or models).
-import type { MigrationFn } from '../migrator';
-import { CameraBody } from '../models';
+import type { SeedFn } from './seed';
+import { CameraBody } from '../db/models';
 
 export const DEMO_BODIES = [
   { slug: 'korvel-kx8', maker: 'Korvel', model: 'KX-8', aliases: ['KX8', 'Korvel 8'] },
@@ -12,6 +12,6 @@ export const DEMO_BODIES = [
   { slug: 'peregrine-p1', maker: 'Peregrine Digital', model: 'P1 Documentary', aliases: ['P1', 'Peregrine doc'] },
 ];
 
-export const up: MigrationFn = async () => {
+export const up: SeedFn = async () => {
   for (const body of DEMO_BODIES) await CameraBody.findOrCreate({ where: { slug: body.slug }, defaults: body });
 };

@@ -1,9 +1,9 @@
 // The demo member's prep day for the invented production "The Salt Road": two printers, their
 // filament prices, and a car-unit kit of three shelf parts, shared read-only with the key grip.
 // One item is printed in PLA on a car rig in sun, so the kit's summary shows a heat warning.
-import type { MigrationFn } from '../migrator';
-import { Kit, KitItem, KitShare, Part, PartRevision, PriceSheet, Printer, Recipe, User } from '../models';
-import { transact } from '../transaction';
+import type { SeedFn } from './seed';
+import { Kit, KitItem, KitShare, Part, PartRevision, PriceSheet, Printer, Recipe, User } from '../db/models';
+import { transact } from '../db/transaction';
 import { DEMO_ACCOUNTS } from './0001-demo-crew';
 
 const KIT_NAME = 'The Salt Road — car unit';
@@ -25,7 +25,7 @@ async function shelfPart(title: string, material: string) {
   return { part, recipe };
 }
 
-export const up: MigrationFn = async ({ context: { sequelize } }) => {
+export const up: SeedFn = async ({ context: { sequelize } }) => {
   const member = await demoUser('member');
   const keyGrip = await demoUser('moderator');
   if (await Kit.findOne({ where: { ownerId: member.id, name: KIT_NAME } })) return;

@@ -3,10 +3,10 @@
 import { writeFile } from 'node:fs/promises';
 import { join } from 'node:path';
 import type { PartSubmission } from '@shared/schemas/part';
-import { inspectUploads } from '../../modules/files/inspect';
-import { randomStoredName } from '../../modules/files/storage';
-import type { MigrationFn } from '../migrator';
-import { User } from '../models';
+import { inspectUploads } from '../modules/files/inspect';
+import { randomStoredName } from '../modules/files/storage';
+import type { SeedFn } from './seed';
+import { User } from '../db/models';
 import { DEMO_ACCOUNTS } from './0001-demo-crew';
 import { box, clip, ring, toBinaryStl } from './demo-meshes';
 import { demoPhoto, type Outline } from './demo-photos';
@@ -112,7 +112,7 @@ const DEMO_PARTS: DemoPart[] = [
   },
 ];
 
-export const up: MigrationFn = async ({ context: { services } }) => {
+export const up: SeedFn = async ({ context: { services } }) => {
   if (!services) throw new Error('the demo parts seeder needs the app services');
   const byRole = async (role: string) => (await User.findOne({ where: { email: DEMO_ACCOUNTS.find((a) => a.role === role)!.email } }))!;
   const moderator = await byRole('moderator');

@@ -1,3 +1,4 @@
+// Over 350 lines because most of it is data: the SHELF table of invented parts, one entry each.
 // The rest of the demo shelf: parts in every category and for every mount standard, modelled with
 // a CAD library (demo-solids.ts), most shown by the picture the server draws from the model and a few
 // with stand-in photos. Adaptations carry licences their parents allow; ratings and set reports cover
@@ -9,12 +10,12 @@ import { writeFile } from 'node:fs/promises';
 import { join } from 'node:path';
 import type { SetReportInput } from '@shared/schemas/evidence';
 import type { PartSubmission } from '@shared/schemas/part';
-import { inspectUploads } from '../../modules/files/inspect';
-import { hashPassword } from '../../security/password';
-import { randomStoredName } from '../../modules/files/storage';
-import type { MigrationFn } from '../migrator';
-import { CameraBody, Kit, KitItem, KitShare, Part, Printer, Recipe, User, WantedAnswer, WantedRequest } from '../models';
-import { transact } from '../transaction';
+import { inspectUploads } from '../modules/files/inspect';
+import { hashPassword } from '../security/password';
+import { randomStoredName } from '../modules/files/storage';
+import type { SeedFn } from './seed';
+import { CameraBody, Kit, KitItem, KitShare, Part, Printer, Recipe, User, WantedAnswer, WantedRequest } from '../db/models';
+import { transact } from '../db/transaction';
 import { DEMO_ACCOUNTS } from './0001-demo-crew';
 import { demoPhoto, type Outline } from './demo-photos';
 import * as S from './demo-solids';
@@ -301,7 +302,7 @@ function slugOf(title: string) {
   return title.toLowerCase().replace(/[^a-z0-9]+/g, '-').replace(/^-|-$/g, '');
 }
 
-export const up: MigrationFn = async ({ context: { services, sequelize } }) => {
+export const up: SeedFn = async ({ context: { services, sequelize } }) => {
   if (!services) throw new Error('the demo shelf seeder needs the app services');
   const byEmail = async (email: string) => {
     const user = await User.findOne({ where: { email } });
@@ -380,7 +381,7 @@ async function recipeOf(partId: number, material: string) {
 
 const KIT_NAME = 'Night Ferry — process trailer';
 
-async function seedNightFerryKit(sequelize: Parameters<MigrationFn>[0]['context']['sequelize'], people: Record<Who, User>, ids: Map<string, number>) {
+async function seedNightFerryKit(sequelize: Parameters<SeedFn>[0]['context']['sequelize'], people: Record<Who, User>, ids: Map<string, number>) {
   const keyGrip = people.moderator;
   if (await Kit.findOne({ where: { ownerId: keyGrip.id, name: KIT_NAME } })) return;
   const lines = [
@@ -433,7 +434,7 @@ async function seedNightFerryKit(sequelize: Parameters<MigrationFn>[0]['context'
   });
 }
 
-async function seedWanted(sequelize: Parameters<MigrationFn>[0]['context']['sequelize'], people: Record<Who, User>, ids: Map<string, number>) {
+async function seedWanted(sequelize: Parameters<SeedFn>[0]['context']['sequelize'], people: Record<Who, User>, ids: Map<string, number>) {
   const title = 'Matte box flag holder for 19 mm rods';
   if (await WantedRequest.findOne({ where: { title } })) return;
   const body = await CameraBody.findOne({ where: { slug: 'halden-h6' } });

@@ -6,12 +6,12 @@ import { writeFile } from 'node:fs/promises';
 import { join } from 'node:path';
 import type { PartSubmission } from '@shared/schemas/part';
 import { INVITATION_LIFETIME_DAYS } from '@shared/schemas/crews';
-import { inspectUploads } from '../../modules/files/inspect';
-import { randomStoredName } from '../../modules/files/storage';
-import { newToken } from '../../modules/auth/tokens';
-import type { MigrationFn } from '../migrator';
-import { Crew, CrewInvitation, CrewMember, Kit, KitCrewShare, User } from '../models';
-import { transact } from '../transaction';
+import { inspectUploads } from '../modules/files/inspect';
+import { randomStoredName } from '../modules/files/storage';
+import { newToken } from '../modules/auth/tokens';
+import type { SeedFn } from './seed';
+import { Crew, CrewInvitation, CrewMember, Kit, KitCrewShare, User } from '../db/models';
+import { transact } from '../db/transaction';
 import { DEMO_ACCOUNTS } from './0001-demo-crew';
 import { box, toBinaryStl } from './demo-meshes';
 import { demoPhoto } from './demo-photos';
@@ -48,7 +48,7 @@ async function account(role: 'member' | 'moderator' | 'admin'): Promise<User> {
   return user;
 }
 
-export const up: MigrationFn = async ({ context: { sequelize, services } }) => {
+export const up: SeedFn = async ({ context: { sequelize, services } }) => {
   if (!services) throw new Error('the demo crew seeder needs the app services');
   const lead = await account('member');
   const keyGrip = await account('moderator');

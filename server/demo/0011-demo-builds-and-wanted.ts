@@ -1,8 +1,8 @@
 // The demo member's camera build for the car unit of "The Salt Road", and two open wanted requests
 // on the board: one from the member (a receiver plate nobody has shared yet), one from the key grip,
 // already answered with a shelf part. Everything here is invented.
-import type { MigrationFn } from '../migrator';
-import { Build, CameraBody, Part, PartRevision, User, WantedAnswer, WantedRequest } from '../models';
+import type { SeedFn } from './seed';
+import { Build, CameraBody, Part, PartRevision, User, WantedAnswer, WantedRequest } from '../db/models';
 import { DEMO_ACCOUNTS } from './0001-demo-crew';
 
 export const DEMO_BUILD_NAME = 'A-camera, car week';
@@ -20,7 +20,7 @@ async function body(slug: string): Promise<CameraBody> {
   return found;
 }
 
-export const up: MigrationFn = async ({ context: { sequelize } }) => {
+export const up: SeedFn = async ({ context: { sequelize } }) => {
   const member = await demoUser('member');
   const keyGrip = await demoUser('moderator');
   const dit = await demoUser('admin');
