@@ -1,42 +1,27 @@
-// The make pages' live preview: the part is generated in a Web Worker (workers/make.worker.ts). Only
-// the newest request matters: a reply to an older one is dropped, so fast typing never queues up work
-// on the page.
+// The make pages' live preview: the part is generated in a Web Worker (workers/make.worker.ts, called
+// through comlink). Only the newest request matters: an older one resolves with null as soon as a
+// newer one is asked, and its reply is dropped, so the page never shows a stale preview.
+import { wrap, type Remote } from 'comlink';
 import type { Corrections, Drawn } from '@shared/make';
 import type { MeshAnalysis } from '@shared/mesh';
-
-export interface MakeJob {
-  id: number;
-  kind: string;
-  params: Record<string, unknown>;
-  corrections: Corrections;
-}
+import type { MakeWorkerApi } from './workers/make.worker';
 
 export type MakeReply =
-  | { id: number; ok: true; analysis: MeshAnalysis; drawn: Drawn; warnings: string[]; loadBearing: boolean; stl: ArrayBuffer }
-  | { id: number; ok: false; fields: Record<string, string>; message: string };
+  | { ok: true; analysis: MeshAnalysis; drawn: Drawn; warnings: string[]; loadBearing: boolean; stl: ArrayBuffer }
+  | { ok: false; fields: Record<string, string>; message: string };
 
 export type MadePreview = Extract<MakeReply, { ok: true }>;
 
-let worker: Worker | null = null;
-let nextId = 0;
-let latest: ((reply: MakeReply | null) => void) | null = null;
-
-function makeWorker(): Worker {
-  if (!worker) {
-    worker = new Worker(new URL('./workers/make.worker.ts', import.meta.url), { type: 'module' });
-    worker.addEventListener('message', (event: MessageEvent<MakeReply>) => {
-      if (event.data.id === nextId) latest?.(event.data);
-    });
-  }
-  return worker;
-}
+let worker: Remote<MakeWorkerApi> | null = null;
+let newest = 0;
+let overtaken: (() => void) | null = null;
 
 /** Makes the part in the worker; resolves with null when a newer request overtook this one. */
 export function makeInWorker(kind: string, params: Record<string, unknown>, corrections: Corrections): Promise<MakeReply | null> {
-  latest?.(null);
-  const id = ++nextId;
-  return new Promise((resolve) => {
-    latest = resolve;
-    makeWorker().postMessage({ id, kind, params: JSON.parse(JSON.stringify(params)), corrections } satisfies MakeJob);
-  });
+  overtaken?.();
+  const id = ++newest;
+  worker ??= wrap<MakeWorkerApi>(new Worker(new URL('./workers/make.worker.ts', import.meta.url), { type: 'module' }));
+  const made = worker.make(kind, JSON.parse(JSON.stringify(params)), corrections).then((reply) => (id === newest ? reply : null));
+  const dropped = new Promise<null>((resolve) => (overtaken = () => resolve(null)));
+  return Promise.race([made, dropped]);
 }

@@ -1,14 +1,17 @@
 // Measures a model file off the page's main thread, so a large STL does not freeze the submit form.
+import { expose } from 'comlink';
 import { analyseModelFile, MeshError } from '@shared/mesh';
-import type { MeshJob, MeshReply } from '@/meshAnalysis';
+import type { MeshReply } from '@/meshAnalysis';
 
-const reply = (message: MeshReply) => (globalThis as unknown as { postMessage(m: MeshReply): void }).postMessage(message);
+const api = {
+  analyse(bytes: ArrayBuffer, drawnInInches: boolean): MeshReply {
+    try {
+      return { ok: true, analysis: analyseModelFile(new Uint8Array(bytes), { drawnInInches }) };
+    } catch (err) {
+      return { ok: false, code: err instanceof MeshError ? err.code : null, message: (err as Error).message };
+    }
+  },
+};
+export type MeshWorkerApi = typeof api;
 
-addEventListener('message', (event) => {
-  const { id, bytes, drawnInInches } = (event as MessageEvent<MeshJob>).data;
-  try {
-    reply({ id, ok: true, analysis: analyseModelFile(new Uint8Array(bytes), { drawnInInches }) });
-  } catch (err) {
-    reply({ id, ok: false, code: err instanceof MeshError ? err.code : null, message: (err as Error).message });
-  }
-});
+expose(api);
