@@ -4,7 +4,7 @@ import { createReadStream } from 'node:fs';
 import { copyFile, readdir, readFile, rename, rm, stat, writeFile } from 'node:fs/promises';
 import { join } from 'node:path';
 import type { Readable } from 'node:stream';
-import { assertKey, goneFromStorage, MissingObjectError, uploadDirs, type FileStorage, type StoredObject, type UploadDirs } from './storage';
+import { assertKey, dropFileHeaders, goneFromStorage, MissingObjectError, uploadDirs, type FileStorage, type StoredObject, type UploadDirs } from './storage';
 
 const isMissing = (err: unknown) => (err as NodeJS.ErrnoException)?.code === 'ENOENT';
 
@@ -115,6 +115,7 @@ export function createLocalStorage(dirsOrRoot: UploadDirs | string): FileStorage
       await new Promise<void>((resolve, reject) => {
         res.sendFile(path, (err?: Error) => {
           if (!err || res.headersSent) return resolve();
+          dropFileHeaders(res);
           reject(isMissing(err) ? goneFromStorage() : err);
         });
       });

@@ -22,6 +22,7 @@ import {
 import { Upload } from '@aws-sdk/lib-storage';
 import {
   assertKey,
+  dropFileHeaders,
   goneFromStorage,
   MissingObjectError,
   randomStoredName,
@@ -89,18 +90,20 @@ export function createS3Storage(options: S3Options): FileStorage & { client: S3C
   }
 
   async function getObject(key: string, extra: { Range?: string } = {}): Promise<GetObjectCommandOutput> {
+    const Key = assertKey(key);
     try {
-      return await call(`get ${key}`, () => client.send(new GetObjectCommand({ Bucket, Key: assertKey(key), ...extra })));
+      return await call(`get ${key}`, () => client.send(new GetObjectCommand({ Bucket, Key, ...extra })));
     } catch (err) {
       throw isMissing(err) ? new MissingObjectError(key) : err;
     }
   }
 
   async function putFile(key: string, path: string, contentType?: string) {
+    const Key = assertKey(key);
     await call(`put ${key}`, async () => {
       const upload = new Upload({
         client,
-        params: { Bucket, Key: assertKey(key), Body: createReadStream(path), ContentType: contentType },
+        params: { Bucket, Key, Body: createReadStream(path), ContentType: contentType },
         partSize: PART_BYTES,
         queueSize: 2,
         leavePartsOnError: false,
@@ -110,6 +113,7 @@ export function createS3Storage(options: S3Options): FileStorage & { client: S3C
   }
 
   async function remove(keys: string[]) {
+    keys.forEach(assertKey);
     for (let i = 0; i < keys.length; i += 1000) {
       const batch = keys.slice(i, i + 1000).map((k) => ({ Key: assertKey(k) }));
       if (batch.length === 1) {
@@ -133,7 +137,8 @@ export function createS3Storage(options: S3Options): FileStorage & { client: S3C
     putFile,
 
     async put(key, body, contentType) {
-      await call(`put ${key}`, () => client.send(new PutObjectCommand({ Bucket, Key: assertKey(key), Body: body, ContentType: contentType })));
+      const Key = assertKey(key);
+      await call(`put ${key}`, () => client.send(new PutObjectCommand({ Bucket, Key, Body: body, ContentType: contentType })));
     },
 
     async get(key) {
@@ -152,8 +157,9 @@ export function createS3Storage(options: S3Options): FileStorage & { client: S3C
     },
 
     async exists(key) {
+      const Key = assertKey(key);
       try {
-        await call(`head ${key}`, () => client.send(new HeadObjectCommand({ Bucket, Key: assertKey(key) })));
+        await call(`head ${key}`, () => client.send(new HeadObjectCommand({ Bucket, Key })));
         return true;
       } catch (err) {
         if (isMissing(err)) return false;
@@ -175,8 +181,10 @@ export function createS3Storage(options: S3Options): FileStorage & { client: S3C
     },
 
     async move(from, to) {
+      const Key = assertKey(to);
+      const CopySource = `${Bucket}/${assertKey(from)}`;
       try {
-        await call(`copy ${from}`, () => client.send(new CopyObjectCommand({ Bucket, Key: assertKey(to), CopySource: `${Bucket}/${assertKey(from)}` })));
+        await call(`copy ${from}`, () => client.send(new CopyObjectCommand({ Bucket, Key, CopySource })));
       } catch (err) {
         throw isMissing(err) ? new MissingObjectError(from) : err;
       }
@@ -229,6 +237,7 @@ export function createS3Storage(options: S3Options): FileStorage & { client: S3C
     },
 
     async send(req, res, key) {
+      const Key = assertKey(key);
       const wanted = req.get('if-range') ? undefined : singleRange(req.get('range'));
       const since = req.get('if-modified-since');
       let out: GetObjectCommandOutput;
@@ -237,7 +246,7 @@ export function createS3Storage(options: S3Options): FileStorage & { client: S3C
           client.send(
             new GetObjectCommand({
               Bucket,
-              Key: assertKey(key),
+              Key,
               Range: wanted,
               IfNoneMatch: req.get('if-none-match'),
               IfModifiedSince: since && !req.get('if-none-match') ? new Date(since) : undefined,
@@ -257,6 +266,7 @@ export function createS3Storage(options: S3Options): FileStorage & { client: S3C
           res.end();
           return;
         }
+        dropFileHeaders(res);
         if (isMissing(err)) throw goneFromStorage();
         throw err;
       }

@@ -62,6 +62,15 @@ export class MissingObjectError extends Error {
 /** A row whose file has gone from storage: the same 404 as a file that is not there. */
 export const goneFromStorage = () => AppError.notFound('That file is no longer in storage.');
 
+/**
+ * An error before any byte went out: the route's file headers (type, attachment) go, so the error
+ * handler's JSON is read as JSON rather than saved as the file.
+ */
+export function dropFileHeaders(res: Response): void {
+  if (res.headersSent) return;
+  for (const h of ['Content-Type', 'Content-Disposition', 'Content-Length', 'ETag', 'Last-Modified', 'Accept-Ranges', 'Content-Range']) res.removeHeader(h);
+}
+
 /** The object store did not answer (or answered 5xx): a clean 503 the person can act on. */
 export class StorageUnavailableError extends AppError {
   constructor(detail: string) {
