@@ -126,10 +126,12 @@ const schema = z
       });
     }
     if (env.STORAGE === 's3') {
-      const missing = (['S3_BUCKET', 'S3_ACCESS_KEY_ID', 'S3_SECRET_ACCESS_KEY'] as const).filter((k) => !env[k]);
-      for (const key of missing) {
-        ctx.addIssue({ code: 'custom', path: [key], message: `STORAGE=s3 needs ${key} (set ${missing.join(', ')}, or use STORAGE=local)` });
-      }
+      const needs = {
+        S3_BUCKET: "STORAGE=s3 needs the bucket's name",
+        S3_ACCESS_KEY_ID: 'STORAGE=s3 needs the access key id of an account that may read and write the bucket',
+        S3_SECRET_ACCESS_KEY: 'STORAGE=s3 needs the secret access key that goes with S3_ACCESS_KEY_ID',
+      } as const;
+      for (const [key, message] of Object.entries(needs)) if (!env[key as keyof typeof needs]) ctx.addIssue({ code: 'custom', path: [key], message });
     }
     if (!fake && env.SMTP_PORT === 0) {
       ctx.addIssue({ code: 'custom', path: ['SMTP_PORT'], message: 'give the port of the SMTP server (0 only works with SMTP_FAKE=1)' });
