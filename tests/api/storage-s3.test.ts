@@ -2,7 +2,7 @@
 // serving through the permission checks, refusals, roll-backs and the start-up sweep.
 import { readdirSync } from 'node:fs';
 import request from 'supertest';
-import { afterAll, beforeAll, describe, expect, it, vi } from 'vitest';
+import { afterAll, beforeAll, beforeEach, describe, expect, it, vi } from 'vitest';
 import { Jimp } from 'jimp';
 import { Part, PartFile, RevisionFile } from '../../server/db/models';
 import { sweepUploads } from '../../server/modules/parts/part-files';
@@ -73,7 +73,8 @@ async function filesOf(a: Agent, partId: number) {
   return { model: files.find((f) => f.kind === 'model')!, photo: files.find((f) => f.kind === 'photo'), all: files };
 }
 
-describe('s3 storage · a part with a model and a photo', () => {
+// a model picture takes seconds of CPU on a loaded machine: these wait for them
+describe('s3 storage · a part with a model and a photo', { timeout: 180_000 }, () => {
   let partId: number;
   const model = boxStl(24, 30, 12);
 
@@ -138,7 +139,10 @@ describe('s3 storage · a part with a model and a photo', () => {
   });
 });
 
-describe('s3 storage · nothing left behind', () => {
+describe('s3 storage · nothing left behind', { timeout: 180_000 }, () => {
+  // pictures still being drawn for earlier parts would show up between the snapshots
+  beforeEach(settled);
+
   it('refused upload · a cut-off JPEG is refused with 422 and leaves no object and no temp file', async () => {
     const before = await objects();
     const res = await submit(author, 'Refused bracket', { photo: await truncatedJpeg(), photoName: 'cut.jpg' });
@@ -199,8 +203,9 @@ describe('s3 storage · nothing left behind', () => {
   });
 });
 
-describe('s3 storage · start-up sweep', () => {
+describe('s3 storage · start-up sweep', { timeout: 180_000 }, () => {
   it('objects without rows are removed and those with rows kept; young objects wait out the grace time', async () => {
+    await settled();
     const kept = (await PartFile.findOne({ where: { kind: 'model' } }))!;
     await storage().put('store/deadbeefdeadbeefdeadbeefdeadbeef.stl', 'x');
     await storage().put('incoming/nobody-waits-for-me', 'x');
@@ -217,7 +222,7 @@ describe('s3 storage · start-up sweep', () => {
   });
 });
 
-describe('s3 storage · set report and wanted photos', () => {
+describe('s3 storage · set report and wanted photos', { timeout: 180_000 }, () => {
   it('a set report photo is cleaned into the bucket and served to members', async () => {
     const id = (await submit(author, 'Reported bracket').expect(201)).body.id;
     await moderator.post(`/api/review/${id}/approve`).send({}).expect(200);
