@@ -9,7 +9,7 @@ export function createStorage(config: Pick<Config, 'UPLOADS_DIR' | 'STORAGE' | '
   /** The local folders; with s3 only `tmp` is used. */
   dirs: UploadDirs;
 } {
-  const dirs = uploadDirs(config.UPLOADS_DIR);
+  const dirs = uploadDirs(config.UPLOADS_DIR, { tmpOnly: config.STORAGE === 's3' });
   if (config.STORAGE === 'local') return { storage: createLocalStorage(dirs), dirs };
   const storage = createS3Storage({
     endpoint: config.S3_ENDPOINT,

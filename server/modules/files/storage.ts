@@ -18,9 +18,10 @@ export interface UploadDirs {
   store: string;
 }
 
-export function uploadDirs(root: string): UploadDirs {
+/** The local folders under `root`, made if missing; `tmpOnly` when files are kept elsewhere (S3). */
+export function uploadDirs(root: string, options: { tmpOnly?: boolean } = {}): UploadDirs {
   const dirs = { root: resolve(root), tmp: resolve(root, 'tmp'), incoming: resolve(root, 'incoming'), store: resolve(root, 'store') };
-  for (const dir of Object.values(dirs)) mkdirSync(dir, { recursive: true });
+  for (const dir of options.tmpOnly ? [dirs.tmp] : Object.values(dirs)) mkdirSync(dir, { recursive: true });
   return dirs;
 }
 
