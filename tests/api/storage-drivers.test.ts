@@ -179,7 +179,7 @@ describe.each(['local', 's3'] as const)('storage · %s driver', (driver) => {
     await expect(s().remove(['tmp/x'])).rejects.toThrow(/not a storage key/);
   });
 
-  it('send · 200 with length and ETag, 206 for a range, 304 for a matching ETag, 404 JSON for a missing object', async () => {
+  it('send · 200 with length and ETag, 206 for a range, 304 for a matching ETag or an unchanged date, 404 JSON for a missing object', async () => {
     await s().put('store/w1.jpg', 'abcdefghij');
     const app = serving(s());
     const whole = await request(app).get('/file/w1.jpg').expect(200);
@@ -191,6 +191,8 @@ describe.each(['local', 's3'] as const)('storage · %s driver', (driver) => {
     expect(part.headers['content-range']).toBe('bytes 2-5/10');
     expect(Buffer.from(part.body).toString()).toBe('cdef');
     await request(app).get('/file/w1.jpg').set('If-None-Match', whole.headers.etag).expect(304);
+    await request(app).get('/file/w1.jpg').set('If-Modified-Since', whole.headers['last-modified']).expect(304);
+    await request(app).get('/file/w1.jpg').set('If-Modified-Since', 'not a date').expect(200);
     const missing = await request(app).get('/file/w-missing.jpg').expect(404);
     expect(missing.body.error.code).toBe('not_found');
   });

@@ -239,7 +239,7 @@ export function createS3Storage(options: S3Options): FileStorage & { client: S3C
     async send(req, res, key) {
       const Key = assertKey(key);
       const wanted = req.get('if-range') ? undefined : singleRange(req.get('range'));
-      const since = req.get('if-modified-since');
+      const since = req.get('if-none-match') ? undefined : new Date(req.get('if-modified-since') ?? NaN);
       let out: GetObjectCommandOutput;
       try {
         out = await call(`get ${key}`, () =>
@@ -249,7 +249,7 @@ export function createS3Storage(options: S3Options): FileStorage & { client: S3C
               Key,
               Range: wanted,
               IfNoneMatch: req.get('if-none-match'),
-              IfModifiedSince: since && !req.get('if-none-match') ? new Date(since) : undefined,
+              IfModifiedSince: since && !Number.isNaN(since.getTime()) ? since : undefined,
             }),
           ),
         );
