@@ -7,6 +7,7 @@ import { request as httpRequest } from 'node:http';
 import { join } from 'node:path';
 import { boxStl } from '../helpers/meshes';
 import { plainPng } from '../helpers/photos';
+import { checkStoredFiles } from '../helpers/stored-files-check';
 import { addMembers, loadSubmission, Member, publishedParts, scratchDb, sleep, spawnServer, waitFor, type ScratchDb, type ServerProcess } from '../helpers/system';
 
 export interface ChaosOptions {
@@ -349,47 +350,17 @@ export async function runChaos(options: ChaosOptions): Promise<ChaosSummary> {
     const files = await sql('SELECT kind, stored_name, processing, render_status FROM rigshelf.part_files');
     const reportPhotos = await sql('SELECT stored_name, processing FROM rigshelf.report_photos');
     const list = (dir: string) => (existsSync(join(srv.uploadsDir, dir)) ? readdirSync(join(srv.uploadsDir, dir)) : []);
-    const store = new Set(list('store'));
-    const incoming = new Set(list('incoming'));
-    const diskOrphans: string[] = [];
-    const expectedStore = new Set<string>();
-    const expectedIncoming = new Set<string>();
-    // a photo still waiting (cleaning cut off by shutdown) may already have its sizes written; the
-    // next start cleans it again over them, so they belong to its row
-    const pendingSizes = new Set<string>();
-    const expectPhoto = (name: string, processing: string) => {
-      if (processing === 'ready') {
-        expectedStore.add(`${name}-display.jpg`);
-        expectedStore.add(`${name}-thumb.jpg`);
-      } else if (processing === 'pending') {
-        expectedIncoming.add(name);
-        pendingSizes.add(`${name}-display.jpg`);
-        pendingSizes.add(`${name}-thumb.jpg`);
-      }
+    const rows = {
+      partFiles: files.map(([kind, storedName, processing, renderStatus]) => ({ kind, storedName, processing, renderStatus })),
+      photos: reportPhotos.map(([storedName, processing]) => ({ storedName, processing })),
     };
-    for (const [kind, name, processing, picture] of files) {
-      if (kind === 'photo') expectPhoto(name, processing);
-      else expectedStore.add(name);
-      // a model's drawn picture: there once ready; a picture still waiting may be half-written
-      if (kind === 'model' && picture === 'ready') {
-        expectedStore.add(`${name}-display.jpg`);
-        expectedStore.add(`${name}-thumb.jpg`);
-      } else if (kind === 'model' && picture === 'pending') {
-        pendingSizes.add(`${name}-display.jpg`);
-        pendingSizes.add(`${name}-thumb.jpg`);
-      }
-    }
-    for (const [name, processing] of reportPhotos) expectPhoto(name, processing);
+    const storedCheck = () => checkStoredFiles(rows, [...list('store').map((n) => `store/${n}`), ...list('incoming').map((n) => `incoming/${n}`)]);
+    const diskOrphans: string[] = [];
     // rows without their files are lost work, whatever happens next
-    for (const n of expectedStore) if (!store.has(n)) diskOrphans.push(`store/${n} (row without its file)`);
-    for (const n of expectedIncoming) if (!incoming.has(n)) diskOrphans.push(`incoming/${n} (pending row without its file)`);
+    diskOrphans.push(...storedCheck().missing);
     // Files without rows are what a commit cut off without an answer leaves on purpose (it may have
     // landed); the next start's sweep must remove them, so start the server once more and look again.
-    const unclaimed = () => [
-      ...list('tmp').map((n) => `tmp/${n} (an upload nobody finished)`),
-      ...list('store').filter((n) => !expectedStore.has(n) && !pendingSizes.has(n)).map((n) => `store/${n} (no row)`),
-      ...list('incoming').filter((n) => !expectedIncoming.has(n)).map((n) => `incoming/${n} (no pending row)`),
-    ];
+    const unclaimed = () => [...list('tmp').map((n) => `tmp/${n} (an upload nobody finished)`), ...storedCheck().unclaimed];
     const leftForSweep = unclaimed().length;
     if (leftForSweep) {
       log(`${leftForSweep} file(s) without rows; starting the server again so its start-up sweep settles them`);

@@ -7,7 +7,7 @@ import type { SliceProfile } from '@shared/slice';
 import type { EstimateInput } from '@shared/schemas/planning';
 import { Part, PartFile, PartRevision, PriceSheet, RevisionFile, type User } from '../../db/models';
 import { AppError } from '../../errors';
-import { pathsOf } from '../parts/part-files';
+import { keysOf } from '../files/stored-files';
 import { findVisiblePart, seesUnpublished } from '../parts/access';
 import type { PlanningDeps } from './service';
 import { soundnessNotes } from './values';
@@ -36,7 +36,7 @@ async function visibleModelFile(viewer: User | undefined, fileId: number): Promi
   return file;
 }
 
-export function estimateService({ dirs, slicer }: Pick<PlanningDeps, 'dirs' | 'slicer'>) {
+export function estimateService({ storage, slicer }: Pick<PlanningDeps, 'storage' | 'slicer'>) {
   return {
     async estimate(viewer: User | undefined, input: EstimateInput): Promise<EstimateResult> {
       const notes: string[] = [];
@@ -49,7 +49,7 @@ export function estimateService({ dirs, slicer }: Pick<PlanningDeps, 'dirs' | 's
         const stlUnitScale = (a as Partial<ModelFileAnalysis>).unitScale ?? 1;
         sliceFor = (s) =>
           slicer.slice(
-            { path: pathsOf(dirs, file).original, stlUnitScale, settings: { layerMm: s.layerMm, walls: s.walls, lineWidthMm: lineWidthFor(s), skinLayers: s.topBottomLayers } },
+            { path: () => storage.localCopy(keysOf(file).original), stlUnitScale, settings: { layerMm: s.layerMm, walls: s.walls, lineWidthMm: lineWidthFor(s), skinLayers: s.topBottomLayers } },
             `file:${file.id}:${file.sha256}`,
           );
         geometry = { volumeMm3: a.volumeMm3, areaMm2: a.areaMm2, sizeMm: a.sizeMm };

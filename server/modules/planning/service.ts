@@ -3,7 +3,7 @@
 // estimate.ts, printers.ts, prices.ts, kits.ts, items.ts, shares.ts, summary.ts (with the CSV).
 import type { Sequelize } from 'sequelize';
 import type { EvidenceService } from '../evidence/service';
-import type { UploadDirs } from '../files/storage';
+import type { FileStorage } from '../files/storage';
 import type { Alerts } from '../notices/alerts';
 import { estimateService } from './estimate';
 import { itemService } from './items';
@@ -17,7 +17,7 @@ import { summaryService } from './summary';
 export interface PlanningDeps {
   sequelize: Sequelize;
   /** Where stored model files live, for slicing them. */
-  dirs: UploadDirs;
+  storage: FileStorage;
   /** Slices model files in a worker thread. */
   slicer: SliceQueue;
   /** Outcome warnings from set reports, per part. */

@@ -2,6 +2,7 @@
 // thread takes jobs in order (a million-facet mesh takes seconds), and recent results are kept so
 // asking again is instant.
 import type { SliceProfile } from '@shared/slice';
+import type { LocalCopy } from '../files/storage';
 import { WorkerPool, type WorkerPoolOptions } from '../files/worker-pool';
 import type { SliceJob } from './slice-worker';
 
@@ -24,13 +25,24 @@ export class SliceQueue {
   private pool: WorkerPool<typeof import('./slice-worker')> | null = null;
   private cache = new Map<string, Promise<SliceProfile>>();
 
-  /** Rejects with the task's message when the file cannot be sliced. */
-  slice(job: SliceJob, cacheKey: string): Promise<SliceProfile> {
+  /**
+   * Rejects with the task's message when the file cannot be sliced. `path` is a local file, or
+   * fetches one from storage (only when the answer is not cached) and releases it afterwards.
+   */
+  slice(job: Omit<SliceJob, 'path'> & { path: string | (() => Promise<LocalCopy>) }, cacheKey: string): Promise<SliceProfile> {
     const key = `${cacheKey}|${job.stlUnitScale}|${JSON.stringify(job.settings)}`;
     const cached = this.cache.get(key);
     if (cached) return cached;
-    this.pool ??= new WorkerPool<typeof import('./slice-worker')>(SLICE_POOL);
-    const result = this.pool.run('sliceFile', job);
+    const { path, ...rest } = job;
+    const result = (async () => {
+      const local = typeof path === 'string' ? { path, release: async () => undefined } : await path();
+      try {
+        this.pool ??= new WorkerPool<typeof import('./slice-worker')>(SLICE_POOL);
+        return await this.pool.run('sliceFile', { ...rest, path: local.path });
+      } finally {
+        await local.release();
+      }
+    })();
     this.cache.set(key, result);
     result.catch(() => this.cache.delete(key));
     while (this.cache.size > CACHE_SIZE) this.cache.delete(this.cache.keys().next().value!);

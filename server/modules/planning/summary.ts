@@ -13,7 +13,7 @@ import type { SliceProfile } from '@shared/slice';
 import { PartFile, PartRevision, PriceSheet, Recipe, type Kit, type KitItem, type Printer, type User } from '../../db/models';
 import { madeTitle } from '../make/service';
 import { audienceOf, type PartAudience } from '../parts/access';
-import { pathsOf } from '../parts/part-files';
+import { keysOf } from '../files/stored-files';
 import { findKit } from './access';
 import { kitCsv, kitCsvFileName } from './export';
 import { defaultRecipe } from './items';
@@ -56,14 +56,14 @@ function modelFilesOf(revision: PartRevision | undefined): PartFile[] {
   return files.filter((f) => f.kind === 'model');
 }
 
-export function summaryService({ dirs, slicer, evidence }: Pick<PlanningDeps, 'dirs' | 'slicer' | 'evidence'>) {
+export function summaryService({ storage, slicer, evidence }: Pick<PlanningDeps, 'storage' | 'slicer' | 'evidence'>) {
   /** The model file sliced for a recipe (cached by the queue), or null with a note when it cannot be. */
   async function slicesFor(file: PartFile, recipe: Recipe, notes: string[]): Promise<SliceProfile | null> {
     const s = { nozzleMm: recipe.nozzleMm, layerMm: recipe.layerMm, walls: recipe.walls, skinLayers: recipe.topBottomLayers };
     try {
       return await slicer.slice(
         {
-          path: pathsOf(dirs, file).original,
+          path: () => storage.localCopy(keysOf(file).original),
           stlUnitScale: (file.analysis as Partial<ModelFileAnalysis> | null)?.unitScale ?? 1,
           settings: { layerMm: s.layerMm, walls: s.walls, lineWidthMm: lineWidthFor(s), skinLayers: s.skinLayers },
         },

@@ -4,12 +4,12 @@ import { wantedAnswerSchema, wantedCloseSchema, wantedListSchema, wantedPhotoPar
 import { currentUser, requireAuth } from '../../middleware/auth';
 import { handler } from '../../middleware/validate';
 import { inspectUploads } from '../files/inspect';
-import type { UploadDirs } from '../files/storage';
+import type { FileStorage } from '../files/storage';
 import { multipartFields, uploadedFiles, uploadMiddleware, withUploads } from '../files/upload';
 import type { WantedService } from './service';
 
 /** /api/wanted: the crew's board of parts people are looking for. Members only. */
-export function wantedRoutes(wanted: WantedService, dirs: UploadDirs) {
+export function wantedRoutes(wanted: WantedService, storage: FileStorage) {
   const router = Router();
   router.use(requireAuth);
   const params = idParamSchema;
@@ -21,7 +21,7 @@ export function wantedRoutes(wanted: WantedService, dirs: UploadDirs) {
   // JSON, or multipart with the fields (or one `data` field) and up to three photos or sketches
   router.post(
     '/',
-    ...uploadMiddleware(dirs),
+    ...uploadMiddleware(storage),
     withUploads(
       handler(
         { body: wantedSchema, fields: (req) => (req.is('multipart/form-data') ? multipartFields(req, ['mounts', 'keySizes']) : req.body) },
@@ -48,9 +48,10 @@ export function wantedRoutes(wanted: WantedService, dirs: UploadDirs) {
   }));
 
   router.get('/:id/photos/:photoId/:size', handler({ params: wantedPhotoParamsSchema }, async ({ params: p }, req, res) => {
-    const path = await wanted.photoPath(currentUser(req)!, p.id, p.photoId, p.size);
+    const key = await wanted.photoKey(currentUser(req)!, p.id, p.photoId, p.size);
     res.setHeader('Cache-Control', 'private, max-age=3600');
-    res.type('image/jpeg').sendFile(path);
+    res.type('image/jpeg');
+    await storage.send(req, res, key);
   }));
 
   return router;
