@@ -37,6 +37,8 @@ export interface ClusterRunOptions {
   searchProbes: number;
   /** The stated bound for every instance's search to find a newly published part. */
   searchBoundMs: number;
+  /** Load that goes on after both are back, for the "after" figures. */
+  afterMs: number;
   storage: 's3' | 'local';
   portBase?: string;
   log?: (line: string) => void;
@@ -51,6 +53,7 @@ export const LONG_FORM: ClusterRunOptions = {
   restartNodeAt: 0.6,
   searchProbes: 3,
   searchBoundMs: 5_000,
+  afterMs: 30_000,
   storage: 's3',
 };
 
@@ -59,6 +62,7 @@ export const SHORT_FORM: ClusterRunOptions = {
   members: 6,
   durationMs: 60_000,
   searchProbes: 1,
+  afterMs: 15_000,
 };
 
 interface Event {
@@ -98,6 +102,13 @@ export interface ClusterSummary {
 }
 
 const runId = () => Date.now().toString(36);
+
+/** A word of letters only that nothing on the shelf shares, for finding one part by search. */
+function markWord(n: number): string {
+  let word = '';
+  for (let i = 0; i < 9; i++) word += String.fromCharCode(97 + Math.floor(Math.random() * 26));
+  return `${word}${String.fromCharCode(97 + (n % 26))}`;
+}
 
 /** The part of @aws-sdk/client-s3 the run uses to list the bucket. */
 interface S3Sdk {
@@ -179,7 +190,7 @@ export async function runClusterFaults(options: ClusterRunOptions): Promise<Clus
   const recorder = new Recorder();
   const events: Event[] = [];
   const recovery: Record<string, number> = {};
-  const submissions: { title: string; status: number }[] = [];
+  const submissions: { title: string; status: number; word: string }[] = [];
   const reports: { title: string; status: number }[] = [];
   const ratings: RatingAttempt[] = [];
   const kitAttempts = new Map<number, { acked: number; unclear: number }>();
@@ -214,13 +225,14 @@ export async function runClusterFaults(options: ClusterRunOptions): Promise<Clus
     const upload = (form: FormData, name: string) => form.append('photo', new Blob([new Uint8Array(png)], { type: 'image/png' }), name);
     async function submit(c: Member) {
       counter += 1;
-      const title = `Cluster plate ${run} ${counter}`;
+      const word = markWord(counter);
+      const title = `Cluster plate ${run} ${counter} ${word}`;
       const form = new FormData();
       form.append('data', JSON.stringify(loadSubmission(title)));
       form.append('model', new Blob([new Uint8Array(stl)]), 'plate.stl');
       if (counter % 2 === 0) upload(form, 'plate.png');
       const s = await recorder.timed('submit', () => c.request('POST', '/api/parts', form));
-      submissions.push({ title, status: s.status });
+      submissions.push({ title, status: s.status, word });
     }
     async function report(c: Member) {
       counter += 1;
@@ -289,6 +301,7 @@ export async function runClusterFaults(options: ClusterRunOptions): Promise<Clus
       mark(`Galera ${node.name} Synced`);
     })();
     await Promise.all([faults, at(1)]);
+    await sleep(options.afterMs);
     stopLoad = true;
     await Promise.all(load);
     mark('load stopped');
@@ -303,7 +316,7 @@ export async function runClusterFaults(options: ClusterRunOptions): Promise<Clus
       const from = Date.now();
       await Promise.all(
         cluster.instances.map(async (inst) => {
-          const q = `/api/search?q=${encodeURIComponent(probe.title)}`;
+          const q = `/api/search?q=${encodeURIComponent(probe.word)}`;
           const found = await waitFor(
             async () => {
               const res = await fetch(inst.url + q, { signal: AbortSignal.timeout(5000) }).catch(() => null);
@@ -393,7 +406,7 @@ export async function runClusterFaults(options: ClusterRunOptions): Promise<Clus
     const phases: PhaseFigures[] = [];
     for (let i = 0; i < bounds.length - 1; i++) {
       const inside = samples.filter((s) => s.at >= bounds[i].at && s.at < bounds[i + 1].at);
-      if (!inside.length && bounds[i].name === 'load stopped') continue;
+      if (!inside.length) continue;
       const errors: Record<string, number> = {};
       for (const s of inside) if (s.status <= 0 || s.status >= 400) errors[String(s.status || 'no answer')] = (errors[String(s.status || 'no answer')] ?? 0) + 1;
       const ms = inside.map((s) => s.ms);
@@ -412,6 +425,11 @@ export async function runClusterFaults(options: ClusterRunOptions): Promise<Clus
       const key = s.status === 0 ? 'no answer' : String(s.status);
       if (s.status <= 0 || s.status >= 400) errorsByStatus[key] = (errorsByStatus[key] ?? 0) + 1;
     }
+    const firstFault = events[0]?.at ?? t0;
+    const unclean = samples
+      .map((s) => ({ s, problem: uncleanError(s) }))
+      .filter((u): u is { s: Sample; problem: string } => u.problem !== null)
+      .map((u) => `${u.problem} (sent at ${((u.s.at - t0) / 1000).toFixed(1)} s, ${u.s.at < firstFault ? 'before' : 'after'} the first fault)`);
     const sessionsRecovered = events.find((e) => e.name.endsWith('killed (SIGKILL)'));
     if (sessionsRecovered) {
       // time from the first fault until requests succeed again without a 5xx for 5 s in a row
@@ -441,7 +459,7 @@ export async function runClusterFaults(options: ClusterRunOptions): Promise<Clus
       photos,
       search: searchFigures,
       sessions,
-      unclean: samples.map(uncleanError).filter((e): e is string => e !== null),
+      unclean,
       galera,
       durationMs: Date.now() - started,
     };
@@ -501,7 +519,8 @@ export function formatSummary(s: ClusterSummary): string {
     `  photo jobs: ${s.photos.total} photos, ${s.photos.notReady} waiting, ${s.photos.failed} failed, ${s.photos.ranTwice} cleaned more than once`,
     `  search (approve → found on each instance): ${s.search.map((f) => `${f.instance} ${f.ms === null ? 'never' : `${f.ms} ms`}`).join(', ') || 'no probe'}`,
     `  sessions: ${s.sessions.survived} of ${s.sessions.members} still signed in`,
-    `  unclean error answers: ${s.unclean.length}${s.unclean.length ? ` (${s.unclean.slice(0, 3).join(' | ')})` : ''}`,
+    `  unclean error answers: ${s.unclean.length}`,
+    ...s.unclean.slice(0, 10).map((u) => `    ${u}`),
     `  Galera: ${s.galera.map((g) => `${g.node} ${g.state} (size ${g.size})`).join(', ')}`,
   );
   return lines.join('\n');

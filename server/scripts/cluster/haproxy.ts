@@ -26,6 +26,8 @@ defaults
   timeout server 60s
   timeout http-request 30s
   timeout queue 10s
+  # a health check on a busy 2-core machine can take longer than the 1 s between checks
+  timeout check 3s
   # only a connection that never reached an instance is tried again (elsewhere): a request an
   # instance may have started is never sent twice
   retries 2
