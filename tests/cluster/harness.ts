@@ -97,11 +97,23 @@ export interface ClusterSummary {
   search: { instance: string; ms: number | null }[];
   sessions: { members: number; survived: number };
   unclean: string[];
+  /** Answers that took longer than SLOW_MS. */
+  slow: number;
+  /** The instances' log lines about failures (500 refs, uncaught errors), for reading the 5xx. */
+  instanceErrors: string[];
   galera: { node: string; size: number; state: string }[];
   durationMs: number;
 }
 
 const runId = () => Date.now().toString(36);
+
+/**
+ * How long a load request may take before it counts as hung: past haproxy's `timeout server` (60 s),
+ * after which the balancer itself answers a 503.
+ */
+const WAIT_MS = 65_000;
+/** Requests slower than this are counted (not failed): on a shared 2-core machine the tail is long. */
+const SLOW_MS = 30_000;
 
 /** A word of letters only that nothing on the shelf shares, for finding one part by search. */
 function markWord(n: number): string {
@@ -136,26 +148,27 @@ async function listObjects(cluster: Cluster): Promise<{ keys: string[]; source: 
   // the SDK the storage driver uses; named through a variable so this file compiles without it
   const sdkName = '@aws-sdk/client-s3';
   const sdk = (await import(sdkName)) as S3Sdk;
+  const env = cluster.s3Env;
   const client = new sdk.S3Client({
-    endpoint: cluster.s3Endpoint,
-    region: 'us-east-1',
+    endpoint: env.S3_ENDPOINT,
+    region: env.S3_REGION,
     forcePathStyle: true,
-    credentials: { accessKeyId: cluster.secrets.s3AccessKeyId, secretAccessKey: cluster.secrets.s3SecretAccessKey },
+    credentials: { accessKeyId: env.S3_ACCESS_KEY_ID, secretAccessKey: env.S3_SECRET_ACCESS_KEY },
   });
   const keys: string[] = [];
   let token: string | undefined;
   do {
-    const page = await client.send(new sdk.ListObjectsV2Command({ Bucket: 'rigshelf', ContinuationToken: token }));
+    const page = await client.send(new sdk.ListObjectsV2Command({ Bucket: env.S3_BUCKET, ContinuationToken: token }));
     for (const o of page.Contents ?? []) if (o.Key) keys.push(o.Key);
     token = page.IsTruncated ? page.NextContinuationToken : undefined;
   } while (token);
   client.destroy();
-  return { keys, source: `${cluster.s3Endpoint}/rigshelf` };
+  return { keys, source: `${env.S3_ENDPOINT}/${env.S3_BUCKET}` };
 }
 
 /** A 5xx answer is clean when it is a 503 whose JSON says what happened, with no stack trace in it. */
 export function uncleanError(s: Sample): string | null {
-  if (s.status === 0) return `${s.route}: no answer within the client's 30 s`;
+  if (s.status === 0) return `${s.route}: no answer within ${WAIT_MS / 1000} s`;
   if (s.status < 500) return null;
   if (s.status !== 503) return `${s.route}: ${s.status} ${s.body?.slice(0, 120) ?? ''}`;
   try {
@@ -231,7 +244,7 @@ export async function runClusterFaults(options: ClusterRunOptions): Promise<Clus
       form.append('data', JSON.stringify(loadSubmission(title)));
       form.append('model', new Blob([new Uint8Array(stl)]), 'plate.stl');
       if (counter % 2 === 0) upload(form, 'plate.png');
-      const s = await recorder.timed('submit', () => c.request('POST', '/api/parts', form));
+      const s = await recorder.timed('submit', () => c.request('POST', '/api/parts', form, WAIT_MS));
       submissions.push({ title, status: s.status, word });
     }
     async function report(c: Member) {
@@ -240,11 +253,11 @@ export async function runClusterFaults(options: ClusterRunOptions): Promise<Clus
       const form = new FormData();
       form.append('data', JSON.stringify({ production, daysInUse: 3, material: 'PETG', outcome: 'held-up', conditions: [] }));
       if (counter % 2 === 0) upload(form, 'on-set.png');
-      const s = await recorder.timed('report', () => c.request('POST', `/api/parts/${pick(partIds)}/reports`, form));
+      const s = await recorder.timed('report', () => c.request('POST', `/api/parts/${pick(partIds)}/reports`, form, WAIT_MS));
       reports.push({ title: production, status: s.status });
     }
     async function kitItem(m: (typeof members)[number]) {
-      const s = await recorder.timed('kit-item', () => m.client.request('POST', `/api/kits/${m.kitId}/items`, { partId: pick(partIds), quantity: 2 }));
+      const s = await recorder.timed('kit-item', () => m.client.request('POST', `/api/kits/${m.kitId}/items`, { partId: pick(partIds), quantity: 2 }, WAIT_MS));
       const entry = kitAttempts.get(m.kitId)!;
       if (s.status === 201 || s.status === 200) entry.acked += 1;
       else if (s.status <= 0 || s.status >= 500) entry.unclear += 1;
@@ -253,12 +266,12 @@ export async function runClusterFaults(options: ClusterRunOptions): Promise<Clus
       while (!stopLoad) {
         const roll = Math.random();
         const c = m.client;
-        if (roll < 0.3) await recorder.timed('search', () => c.request('GET', `/api/search?q=${encodeURIComponent(pick(SEARCH_WORDS))}`));
-        else if (roll < 0.55) await recorder.timed('part', () => c.request('GET', `/api/parts/${pick(partIds)}`));
+        if (roll < 0.3) await recorder.timed('search', () => c.request('GET', `/api/search?q=${encodeURIComponent(pick(SEARCH_WORDS))}`, undefined, WAIT_MS));
+        else if (roll < 0.55) await recorder.timed('part', () => c.request('GET', `/api/parts/${pick(partIds)}`, undefined, WAIT_MS));
         else if (roll < 0.65) {
           const partId = pick(partIds);
           const stars = 1 + Math.floor(Math.random() * 5);
-          const s = await recorder.timed('rate', () => c.request('POST', `/api/parts/${partId}/ratings`, { stars }));
+          const s = await recorder.timed('rate', () => c.request('POST', `/api/parts/${partId}/ratings`, { stars }, WAIT_MS));
           ratings.push({ member: m.email, partId, stars, status: s.status, at: s.at });
         } else if (roll < 0.75) await report(c);
         else if (roll < 0.87) await kitItem(m);
@@ -460,6 +473,10 @@ export async function runClusterFaults(options: ClusterRunOptions): Promise<Clus
       search: searchFigures,
       sessions,
       unclean,
+      slow: samples.filter((x) => x.ms > SLOW_MS).length,
+      instanceErrors: cluster.instances.flatMap((inst) =>
+        inst.lines.filter((l) => l.stream === 'err' && /\bref [0-9a-f]{6,}|Error\b/.test(l.text)).map((l) => `${inst.name} ${((l.at - t0) / 1000).toFixed(1)} s: ${l.text.slice(0, 300)}`),
+      ),
       galera,
       durationMs: Date.now() - started,
     };
@@ -519,9 +536,11 @@ export function formatSummary(s: ClusterSummary): string {
     `  photo jobs: ${s.photos.total} photos, ${s.photos.notReady} waiting, ${s.photos.failed} failed, ${s.photos.ranTwice} cleaned more than once`,
     `  search (approve → found on each instance): ${s.search.map((f) => `${f.instance} ${f.ms === null ? 'never' : `${f.ms} ms`}`).join(', ') || 'no probe'}`,
     `  sessions: ${s.sessions.survived} of ${s.sessions.members} still signed in`,
+    `  answers slower than ${SLOW_MS / 1000} s: ${s.slow}`,
     `  unclean error answers: ${s.unclean.length}`,
     ...s.unclean.slice(0, 10).map((u) => `    ${u}`),
     `  Galera: ${s.galera.map((g) => `${g.node} ${g.state} (size ${g.size})`).join(', ')}`,
   );
+  if (s.instanceErrors.length) lines.push(`  instance error log lines: ${s.instanceErrors.length}`, ...s.instanceErrors.slice(0, 8).map((l) => `    ${l}`));
   return lines.join('\n');
 }
