@@ -23,7 +23,7 @@ import { closeCheckPool } from './modules/files/inspect';
 import { PhotoJobs } from './modules/files/photo-jobs';
 import { PhotoQueue } from './modules/files/photo-queue';
 import { RenderJobs } from './modules/files/render-jobs';
-import { uploadDirs } from './modules/files/storage';
+import { createStorage } from './modules/files/storage-from-config';
 import { multerErrors } from './modules/files/upload';
 import { partsRoutes } from './modules/parts/routes';
 import { createPartsService } from './modules/parts/service';
@@ -121,10 +121,10 @@ export function createApp({ config, sequelize, mailer }: AppContext) {
     }),
   );
 
-  const dirs = uploadDirs(config.UPLOADS_DIR);
-  const photos = new PhotoJobs(dirs, new PhotoQueue());
+  const { storage, dirs } = createStorage(config);
+  const photos = new PhotoJobs(storage, new PhotoQueue());
   // a new picture can be a part's cover in search results, which the index stores
-  const renders = config.MODEL_PICTURES ? new RenderJobs({ onReady: () => search.scheduleRebuild() }) : undefined;
+  const renders = config.MODEL_PICTURES ? new RenderJobs({ storage, onReady: () => search.scheduleRebuild() }) : undefined;
   const search = createSearchService({
     sequelize,
     indexFile: config.SEARCH_INDEX_FILE,
@@ -133,7 +133,7 @@ export function createApp({ config, sequelize, mailer }: AppContext) {
   // a decision that puts a part on the shelf, replaces its published revision or retires it changes search
   const alerts = createAlerts({ mail: mailer, publicUrl: config.PUBLIC_URL });
   const recalls = createRecallService();
-  const wanted = createWantedService({ sequelize, dirs, photos, mail: mailer, publicUrl: config.PUBLIC_URL, alerts });
+  const wanted = createWantedService({ sequelize, storage, photos, mail: mailer, publicUrl: config.PUBLIC_URL, alerts });
   const review = createReviewService({
     sequelize,
     mail: mailer,
@@ -147,7 +147,8 @@ export function createApp({ config, sequelize, mailer }: AppContext) {
   });
   const parts = createPartsService({
     sequelize,
-    dirs,
+    storage,
+    sweepMinAgeMs: config.STORAGE_SWEEP_MIN_AGE_S * 1000,
     photos,
     renders,
     onSubmitted: review.submitted,
@@ -155,10 +156,10 @@ export function createApp({ config, sequelize, mailer }: AppContext) {
     onRecovered: (rows) => wanted.resume(rows),
     onVisibilityChanged: () => search.scheduleRebuild(),
   });
-  const evidence = createEvidenceService({ sequelize, dirs, photos, onChanged: () => search.rankingChanged(), alerts, recalls });
+  const evidence = createEvidenceService({ sequelize, storage, photos, onChanged: () => search.rankingChanged(), alerts, recalls });
   const crews = createCrewsService({ sequelize, mail: mailer, publicUrl: config.PUBLIC_URL });
   const slicer = new SliceQueue();
-  const planning = createPlanningService({ sequelize, evidence, dirs, slicer, alerts });
+  const planning = createPlanningService({ sequelize, evidence, storage, slicer, alerts });
   const make = createMakeService();
   const payments = createPayments(config);
   const printRequests = createPrintRequestsService({ sequelize, mail: mailer, publicUrl: config.PUBLIC_URL, planning, payments });
@@ -187,8 +188,8 @@ export function createApp({ config, sequelize, mailer }: AppContext) {
   if (!config.isProduction && mailer.fake) app.use('/api/dev', devMailboxRoutes(mailer.fake));
   app.use('/api/vocab', vocabRoutes());
   app.use('/api/parts', partHistoryRoutes(review));
-  app.use('/api/parts', partsRoutes(parts, dirs));
-  app.use('/api/parts', partEvidenceRoutes(evidence, dirs));
+  app.use('/api/parts', partsRoutes(parts, storage));
+  app.use('/api/parts', partEvidenceRoutes(evidence, storage));
   app.use('/api/ratings', flagRoutes(evidence, 'rating'));
   app.use('/api/reports', flagRoutes(evidence, 'report'));
   app.use('/api/users', profileRoutes(evidence));
@@ -198,7 +199,7 @@ export function createApp({ config, sequelize, mailer }: AppContext) {
   app.use('/api/search', buildSearchRoutes(search));
   app.use('/api/search', searchRoutes(search));
   app.use('/api/builds', buildRoutes());
-  app.use('/api/wanted', wantedRoutes(wanted, dirs));
+  app.use('/api/wanted', wantedRoutes(wanted, storage));
   app.use('/api/estimate', estimateRoutes(planning));
   app.use('/api/make', makeRoutes(make));
   app.use('/api/printers', calibrationRoutes(make));
@@ -233,7 +234,7 @@ export function createApp({ config, sequelize, mailer }: AppContext) {
 
   return {
     app,
-    services: { parts, review, evidence, dirs, search, wanted, crews, printRequests, payments },
+    services: { parts, review, evidence, dirs, storage, search, wanted, crews, printRequests, payments },
     /** Waits for photo work in hand, then stops the worker pools and the session store's expiry sweep. */
     async close() {
       // pictures waiting are left for the next start at once; photos in hand are finished meanwhile
@@ -249,6 +250,7 @@ export function createApp({ config, sequelize, mailer }: AppContext) {
       await slicer.close();
       await make.close();
       await payments.close();
+      storage.close();
       (store as unknown as { stopExpiringSessions(): void }).stopExpiringSessions();
     },
   };

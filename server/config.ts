@@ -38,6 +38,21 @@ const schema = z
     SESSION_ABSOLUTE_HOURS: z.coerce.number().positive().default(24 * 30),
     TRUST_PROXY: flag.optional(),
     UPLOADS_DIR: z.string().default(resolve(root, 'uploads')),
+    /** Where uploaded files are kept: `local` (UPLOADS_DIR) or `s3` (an S3-compatible bucket; UPLOADS_DIR keeps only uploads in progress). */
+    STORAGE: z.enum(['local', 's3'], { error: 'use local or s3' }).default('local'),
+    /** The object store's address (unset: AWS S3 itself for S3_REGION). */
+    S3_ENDPOINT: z.url({ protocol: /^https?$/, error: 'use an http(s) address like http://127.0.0.1:3425' }).optional(),
+    S3_BUCKET: z.string().min(1).optional(),
+    S3_REGION: z.string().min(1).default('us-east-1'),
+    S3_ACCESS_KEY_ID: z.string().min(1).optional(),
+    S3_SECRET_ACCESS_KEY: z.string().min(1).optional(),
+    /** Bucket in the path (http://host/bucket/key), which local fakes need; 0 for virtual-hosted names. */
+    S3_FORCE_PATH_STYLE: flag.default(true),
+    /**
+     * The start-up sweep leaves stored files younger than this alone (another instance may be about to
+     * commit their rows). Default 0 with local storage (one instance), 600 with s3.
+     */
+    STORAGE_SWEEP_MIN_AGE_S: z.coerce.number().min(0).optional(),
     CLIENT_DIST: z.string().default(resolve(root, 'dist')),
     /** The saved search index, loaded at start-up when it still matches the shelf. */
     SEARCH_INDEX_FILE: z.string().min(1).default(resolve(root, 'var/search-index.json')),
@@ -110,6 +125,12 @@ const schema = z
         message: 'set both PAYMENTS_SECRET_KEY and PAYMENTS_WEBHOOK_SECRET for the real payments service (or neither, and paying back is off)',
       });
     }
+    if (env.STORAGE === 's3') {
+      const missing = (['S3_BUCKET', 'S3_ACCESS_KEY_ID', 'S3_SECRET_ACCESS_KEY'] as const).filter((k) => !env[k]);
+      for (const key of missing) {
+        ctx.addIssue({ code: 'custom', path: [key], message: `STORAGE=s3 needs ${key} (set ${missing.join(', ')}, or use STORAGE=local)` });
+      }
+    }
     if (!fake && env.SMTP_PORT === 0) {
       ctx.addIssue({ code: 'custom', path: ['SMTP_PORT'], message: 'give the port of the SMTP server (0 only works with SMTP_FAKE=1)' });
     }
@@ -120,7 +141,7 @@ export function isLoopbackHost(host: string): boolean {
 }
 
 export type Config = Readonly<
-  Omit<z.output<typeof schema>, 'SMTP_FAKE' | 'PUBLIC_URL' | 'TRUST_PROXY' | 'PAYMENTS_FAKE' | 'PAYMENTS_WEBHOOK_URL'> & {
+  Omit<z.output<typeof schema>, 'SMTP_FAKE' | 'PUBLIC_URL' | 'TRUST_PROXY' | 'PAYMENTS_FAKE' | 'PAYMENTS_WEBHOOK_URL' | 'STORAGE_SWEEP_MIN_AGE_S'> & {
     TRUST_PROXY: boolean;
     /** Things worth saying at start-up that do not stop it (e.g. production without TRUST_PROXY). */
     warnings: string[];
@@ -134,6 +155,7 @@ export type Config = Readonly<
     /** Run the local payments fake and point the SDK at it: on by default, off in production unless PAYMENTS_FAKE=1. */
     PAYMENTS_FAKE: boolean;
     PAYMENTS_WEBHOOK_URL: string;
+    STORAGE_SWEEP_MIN_AGE_S: number;
     /** The fake, or real keys: otherwise checkout answers 503 and every webhook 400. */
     paymentsConfigured: boolean;
   }
@@ -162,6 +184,7 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): Config {
     SMTP_FAKE: c.SMTP_FAKE ?? !isProduction,
     PUBLIC_URL: (c.PUBLIC_URL ?? `http://127.0.0.1:${c.PORT}`).replace(/\/+$/, ''),
     PAYMENTS_FAKE: c.PAYMENTS_FAKE ?? !isProduction,
+    STORAGE_SWEEP_MIN_AGE_S: c.STORAGE_SWEEP_MIN_AGE_S ?? (c.STORAGE === 's3' ? 600 : 0),
     paymentsConfigured: (c.PAYMENTS_FAKE ?? !isProduction) || c.PAYMENTS_SECRET_KEY !== 'sk_test_rigshelf_local_fake',
     PAYMENTS_WEBHOOK_URL: c.PAYMENTS_WEBHOOK_URL ?? `${(c.PUBLIC_URL ?? `http://127.0.0.1:${c.PORT}`).replace(/\/+$/, '')}/api/payments/webhook`,
   });

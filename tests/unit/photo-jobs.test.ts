@@ -6,10 +6,12 @@ import { MAX_PHOTO_ATTEMPTS, PhotoJobs } from '../../server/modules/files/photo-
 import type { PhotoQueue } from '../../server/modules/files/photo-queue';
 import type { PhotoResult } from '../../server/modules/files/photo-worker';
 import { uploadDirs } from '../../server/modules/files/storage';
+import { createLocalStorage } from '../../server/modules/files/storage-local';
 
 const root = mkdtempSync(join(tmpdir(), 'rigshelf-photo-jobs-'));
 afterAll(() => rmSync(root, { recursive: true, force: true }));
 const dirs = uploadDirs(root);
+const storage = createLocalStorage(dirs);
 
 /** A stand-in for the database row: what PhotoJobs reads and writes. */
 function fakeRow(attempts = 0) {
@@ -42,7 +44,7 @@ function rawPhoto(name: string) {
 }
 
 async function run(queue: ReturnType<typeof scriptedQueue>, row: ReturnType<typeof fakeRow>, storedName: string) {
-  const jobs = new PhotoJobs(dirs, queue as unknown as PhotoQueue);
+  const jobs = new PhotoJobs(storage, queue as unknown as PhotoQueue);
   jobs.clean({ storedName }, async () => row);
   await jobs.settled();
 }
@@ -63,6 +65,7 @@ describe('photo jobs · attempts', () => {
   it('one timeout is tried again at once and may still succeed', async () => {
     const queue = scriptedQueue([timeout, { ok: true, width: 64, height: 48 }]);
     const row = fakeRow();
+    rawPhoto('second-time-lucky');
     await run(queue, row, 'second-time-lucky');
     expect(row).toMatchObject({ processing: 'ready', processingAttempts: 2 });
   });
@@ -70,6 +73,7 @@ describe('photo jobs · attempts', () => {
   it('a photo the decoder refuses is failed after one attempt (trying again would fail again)', async () => {
     const queue = scriptedQueue([{ ok: false, error: 'it cannot be decoded', permanent: true }]);
     const row = fakeRow();
+    rawPhoto('undecodable');
     await run(queue, row, 'undecodable');
     expect(queue.jobs).toBe(1);
     expect(row).toMatchObject({ processing: 'failed', processingAttempts: 1 });

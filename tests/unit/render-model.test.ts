@@ -5,6 +5,8 @@ import { afterAll, describe, expect, it } from 'vitest';
 import { Vector3 } from 'three';
 import type { PartFile } from '../../server/db/models';
 import { MAX_RENDER_ATTEMPTS, RenderJobs } from '../../server/modules/files/render-jobs';
+import { createLocalStorage } from '../../server/modules/files/storage-local';
+import { keysOf } from '../../server/modules/files/stored-files';
 import { downsample, rasterise, RENDER_COLOURS, viewBasis } from '../../server/modules/files/render-model';
 import { boxStl } from '../helpers/meshes';
 import { parseStl } from '../../shared/mesh/stl';
@@ -94,10 +96,14 @@ describe('model picture · jobs', { timeout: 60_000 }, () => {
     return row;
   }
 
+  const storage = createLocalStorage(join(root, 'uploads'));
+  const store = join(root, 'uploads', 'store');
+
   async function run(source: string, row: ReturnType<typeof fakeRow>) {
-    const jobs = new RenderJobs({ tasks, timeoutMs: 20_000 });
-    const paths = { source: join(root, source), display: join(root, `${source}-display.jpg`), thumbnail: join(root, `${source}-thumb.jpg`) };
-    jobs.render(row as unknown as PartFile, paths, async () => row as unknown as PartFile);
+    const jobs = new RenderJobs({ tasks, timeoutMs: 20_000, storage });
+    writeFileSync(join(store, source), 'solid x');
+    const paths = { source: join(store, source), display: join(store, `${source}-display.jpg`), thumbnail: join(store, `${source}-thumb.jpg`) };
+    jobs.render(row as unknown as PartFile, keysOf({ kind: 'model', storedName: source }), async () => row as unknown as PartFile);
     await jobs.settled();
     await jobs.close();
     return paths;
@@ -122,9 +128,9 @@ describe('model picture · jobs', { timeout: 60_000 }, () => {
     await run('crash.stl', row);
     expect(row).toMatchObject({ renderStatus: 'failed', renderAttempts: 2 });
     const spent = fakeRow(MAX_RENDER_ATTEMPTS);
-    writeFileSync(join(root, 'spent.stl-display.jpg'), 'old');
+    writeFileSync(join(store, 'spent.stl-display.jpg'), 'old');
     await run('spent.stl', spent);
     expect(spent).toMatchObject({ renderStatus: 'failed', renderAttempts: MAX_RENDER_ATTEMPTS });
-    expect(existsSync(join(root, 'spent.stl-display.jpg'))).toBe(false);
+    expect(existsSync(join(store, 'spent.stl-display.jpg'))).toBe(false);
   });
 });

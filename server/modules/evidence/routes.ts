@@ -8,7 +8,7 @@ import { AppError } from '../../errors';
 import { currentUser, requireAuth, requireRole } from '../../middleware/auth';
 import { validate } from '../../middleware/validate';
 import { inspectUploads } from '../files/inspect';
-import type { UploadDirs } from '../files/storage';
+import type { FileStorage } from '../files/storage';
 import { multipartFields, parseOrThrow, uploadedFiles, uploadMiddleware, withUploads } from '../files/upload';
 import type { EvidenceService } from './service';
 
@@ -33,7 +33,7 @@ function clientKeyOf(req: Request): string | undefined {
 }
 
 /** /api/parts/:id/ratings, /reports, /proven */
-export function partEvidenceRoutes(evidence: EvidenceService, dirs: UploadDirs) {
+export function partEvidenceRoutes(evidence: EvidenceService, storage: FileStorage) {
   const router = Router();
 
   router.post('/:id/ratings', requireAuth, validate('params', partParam), validate('body', ratingSchema), async (req, res) => {
@@ -50,7 +50,7 @@ export function partEvidenceRoutes(evidence: EvidenceService, dirs: UploadDirs) 
     '/:id/reports',
     requireAuth,
     validate('params', partParam),
-    ...uploadMiddleware(dirs),
+    ...uploadMiddleware(storage),
     withUploads(async (req, res) => {
       const clientKey = clientKeyOf(req);
       const input = parseOrThrow(setReportSchema, multipartFields(req, ['conditions']));
@@ -67,9 +67,10 @@ export function partEvidenceRoutes(evidence: EvidenceService, dirs: UploadDirs) 
 
   router.get('/:id/reports/:reportId/photos/:photoId/:size', validate('params', photoParams), async (req, res) => {
     const p = res.locals.params as z.output<typeof photoParams>;
-    const path = await evidence.reportPhotoPath(currentUser(req), p.id, p.reportId, p.photoId, p.size);
+    const key = await evidence.reportPhotoKey(currentUser(req), p.id, p.reportId, p.photoId, p.size);
     res.setHeader('Cache-Control', 'private, max-age=3600');
-    res.type('image/jpeg').sendFile(path);
+    res.type('image/jpeg');
+    await storage.send(req, res, key);
   });
 
   router.get('/:id/proven', validate('params', partParam), async (req, res) => {

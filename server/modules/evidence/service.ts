@@ -8,16 +8,16 @@ import { transact } from '../../db/transaction';
 import { AppError } from '../../errors';
 import type { InspectedFile } from '../files/inspect';
 import type { PhotoJobs } from '../files/photo-jobs';
-import { moveAll, randomStoredName, type UploadDirs } from '../files/storage';
+import { randomStoredName, type FileStorage } from '../files/storage';
+import { keysOf, placeFiles } from '../files/stored-files';
 import { audienceOf, crewWhere, findVisiblePart, isModerator } from '../parts/access';
-import { pathsOf } from '../parts/part-files';
 import type { Alerts } from '../notices/alerts';
 import { reportWarningTexts, type RecallService } from '../recalls/service';
 import { rememberKey, replayOf } from './client-keys';
 
 export interface EvidenceDeps {
   sequelize: Sequelize;
-  dirs: UploadDirs;
+  storage: FileStorage;
   photos: PhotoJobs;
   /** Called after evidence changed (ratings, reports, hiding), e.g. to refresh the search ranking. */
   onChanged?: (partId: number) => void;
@@ -64,7 +64,7 @@ function presentReport(r: SetReport, partId: number) {
   };
 }
 
-export function createEvidenceService({ sequelize, dirs, photos, onChanged, alerts, recalls }: EvidenceDeps) {
+export function createEvidenceService({ sequelize, storage, photos, onChanged, alerts, recalls }: EvidenceDeps) {
   async function catalogueMean(): Promise<number | null> {
     const row = (await Rating.findOne({ where: visible, attributes: [[sequelize.fn('AVG', sequelize.col('stars')), 'mean']], raw: true })) as unknown as { mean: string | null } | null;
     return row?.mean == null ? null : Number(row.mean);
@@ -217,8 +217,8 @@ export function createEvidenceService({ sequelize, dirs, photos, onChanged, aler
               actor.id,
             );
           }
-          const moved = await moveAll(rows.map((row, i) => ({ from: files[i].path, to: pathsOf(dirs, { kind: 'photo', storedName: row.storedName }).original })));
-          attempt.onRollback(moved.undo);
+          const undo = await placeFiles(storage, rows.map((row, i) => ({ from: files[i].path, key: keysOf({ kind: 'photo', storedName: row.storedName }).original })), t);
+          attempt.onRollback(undo);
           return { id: report.id, rows, replayed: false };
         });
       } catch (err) {
@@ -243,13 +243,13 @@ export function createEvidenceService({ sequelize, dirs, photos, onChanged, aler
       return { items: items.map((r) => presentReport(r, part.id)) };
     },
 
-    async reportPhotoPath(viewer: User | undefined, partId: string, reportId: number, photoId: number, size: 'thumb' | 'display') {
+    async reportPhotoKey(viewer: User | undefined, partId: string, reportId: number, photoId: number, size: 'thumb' | 'display') {
       const part = await findVisiblePart(viewer, partId);
       const report = await SetReport.findOne({ where: { id: reportId, partId: part.id, ...visible } });
       const photo = report ? await ReportPhoto.findOne({ where: { id: photoId, reportId: report.id, processing: 'ready' } }) : null;
       if (!photo) throw AppError.notFound('There is no such photo.');
-      const paths = pathsOf(dirs, { kind: 'photo', storedName: photo.storedName });
-      return size === 'thumb' ? paths.thumbnail! : paths.display!;
+      const keys = keysOf({ kind: 'photo', storedName: photo.storedName });
+      return size === 'thumb' ? keys.thumbnail! : keys.display!;
     },
 
     async proven(viewer: User | undefined, partId: string) {

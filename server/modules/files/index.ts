@@ -1,2 +1,3 @@
 export { displayName, EXTENSION, MIME, sniffBytes, sniffFile, type SniffedType } from './sniff';
-export { filesOlderThan, moveAll, randomStoredName, removeQuietly, uploadDirs, type UploadDirs } from './storage';
+export { filesOlderThan, randomStoredName, removeLocal, removeQuietly, uploadDirs, type FileStorage, type UploadDirs } from './storage';
+export { keysOf, placeFiles, type StoredKeys } from './stored-files';

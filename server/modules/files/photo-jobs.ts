@@ -1,9 +1,10 @@
 // Keeps track of photo cleaning that is under way, whoever asked for it (parts or set reports), so
 // tests and shutdown can wait until every photo is done. Each try is counted on the row before it
 // starts, so a photo that fails twice (or took the process down twice) is marked failed for good.
-import { pathsOf } from '../parts/part-files';
 import type { PhotoQueue } from './photo-queue';
-import { removeQuietly, type UploadDirs } from './storage';
+import type { PhotoResult } from './photo-worker';
+import { removeQuietly, type FileStorage, type LocalCopy } from './storage';
+import { keysOf, type StoredKeys } from './stored-files';
 
 export const MAX_PHOTO_ATTEMPTS = 2;
 
@@ -23,7 +24,7 @@ export class PhotoJobs {
   private inFlight = new Set<Promise<void>>();
 
   constructor(
-    private readonly dirs: UploadDirs,
+    private readonly storage: FileStorage,
     private readonly queue: PhotoQueue,
   ) {}
 
@@ -45,23 +46,24 @@ export class PhotoJobs {
 
   /** Cleans a stored photo in the worker and records the outcome; the raw upload is removed once it is settled. */
   private async cleanPhoto(row: PhotoRow, reload: Reload): Promise<void> {
-    const paths = pathsOf(this.dirs, { kind: 'photo', storedName: row.storedName });
-    const outputs = [paths.display, paths.thumbnail];
+    const keys = keysOf({ kind: 'photo', storedName: row.storedName });
+    const outputs = [keys.display, keys.thumbnail];
+    const remove = (...k: (string | undefined)[]) => removeQuietly(this.storage, ...k);
     for (;;) {
       const current = await reload();
       if (!current) {
-        await removeQuietly(paths.original, ...outputs);
+        await remove(keys.original, ...outputs);
         return;
       }
       if (current.processing !== 'pending') return;
       if (current.processingAttempts >= MAX_PHOTO_ATTEMPTS) {
-        await removeQuietly(paths.original, ...outputs);
+        await remove(keys.original, ...outputs);
         await current.update({ processing: 'failed' });
         console.error(`photo ${row.storedName}: marked failed after ${current.processingAttempts} attempts`);
         return;
       }
       await current.update({ processingAttempts: current.processingAttempts + 1 });
-      const result = await this.queue.process({ source: paths.original, display: paths.display!, thumbnail: paths.thumbnail! });
+      const result = await this.process(keys);
       // shutting down: the try does not count, and the start-up sweep resumes the photo
       if (!result.ok && result.interrupted) {
         await current.update({ processingAttempts: current.processingAttempts - 1 });
@@ -69,23 +71,51 @@ export class PhotoJobs {
       }
       const after = await reload();
       if (!after) {
-        await removeQuietly(paths.original, ...outputs);
+        await remove(keys.original, ...outputs);
         return;
       }
       if (result.ok) {
         // the row first: if the database fails here the raw upload is still there for the next start
         await after.update({ processing: 'ready', width: result.width, height: result.height });
-        await removeQuietly(paths.original);
+        await remove(keys.original);
         return;
       }
-      await removeQuietly(...outputs);
+      await remove(...outputs);
       console.error(`photo ${row.storedName}: ${result.error}`);
       if (result.permanent) {
-        await removeQuietly(paths.original);
+        await remove(keys.original);
         await after.update({ processing: 'failed' });
         return;
       }
       // a timeout or a worker that died: the loop tries once more, then gives up
+    }
+  }
+
+  /**
+   * The worker reads and writes local files: the raw upload is fetched to a local copy (the local
+   * driver hands out the file itself) and the sizes are stored once both are written.
+   */
+  private async process(keys: StoredKeys): Promise<PhotoResult> {
+    let source: LocalCopy;
+    try {
+      source = await this.storage.localCopy(keys.original);
+    } catch (err) {
+      return { ok: false, error: `the raw upload could not be read (${(err as Error).message})`, permanent: false };
+    }
+    const display = this.storage.localOutput(keys.display!);
+    const thumbnail = this.storage.localOutput(keys.thumbnail!);
+    try {
+      const result = await this.queue.process({ source: source.path, display: display.path, thumbnail: thumbnail.path });
+      if (result.ok) {
+        await display.save();
+        await thumbnail.save();
+      }
+      return result;
+    } catch (err) {
+      return { ok: false, error: `the cleaned sizes could not be stored (${(err as Error).message})`, permanent: false };
+    } finally {
+      await source.release();
+      await Promise.all([display.discard(), thumbnail.discard()]);
     }
   }
 }

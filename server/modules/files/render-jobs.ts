@@ -1,11 +1,12 @@
 // Draws the shaded preview of each model (render-model.ts) in its own one-thread worker pool, after
 // the model's row has committed. The state and every try are on the row (render_status,
 // render_attempts): a model that fails twice, or took the process down twice, keeps no picture and the
-// shelf shows its photos or a placeholder instead. Pictures live beside the model in store/ as
+// shelf shows its photos or a placeholder instead. Pictures live beside the model under store/ as
 // `<storedName>-display.jpg` and `-thumb.jpg`, so the start-up sweep keeps them with their row.
 import type { PartFile } from '../../db/models';
 import type { RenderJob, RenderResult } from './render-model';
-import { removeQuietly } from './storage';
+import { removeQuietly, type FileStorage, type LocalCopy } from './storage';
+import type { StoredKeys } from './stored-files';
 import { WorkerClosedError, WorkerPool, type WorkerPoolOptions } from './worker-pool';
 
 export const MAX_RENDER_ATTEMPTS = 2;
@@ -21,12 +22,6 @@ export const RENDER_POOL: WorkerPoolOptions = {
   nice: 10,
 };
 
-export interface RenderPaths {
-  source: string;
-  display: string;
-  thumbnail: string;
-}
-
 type Reload = () => Promise<PartFile | null>;
 
 export class RenderJobs {
@@ -38,18 +33,20 @@ export class RenderJobs {
   private closed = false;
 
   /** `onReady`: a picture was drawn (search's stored thumbnails are refreshed from it). */
-  constructor(options: Partial<WorkerPoolOptions> & { onReady?: (row: PartFile) => void } = {}) {
-    const { onReady, ...pool } = options;
+  constructor(options: Partial<WorkerPoolOptions> & { storage: FileStorage; onReady?: (row: PartFile) => void }) {
+    const { onReady, storage, ...pool } = options;
     this.onReady = onReady;
+    this.storage = storage;
     this.pool = new WorkerPool({ ...RENDER_POOL, ...pool });
   }
 
   private readonly onReady?: (row: PartFile) => void;
+  private readonly storage: FileStorage;
 
-  /** Queues the picture of a model whose row is waiting for one. */
-  render(row: PartFile, paths: RenderPaths, reload: Reload): void {
+  /** Queues the picture of a model whose row is waiting for one (`keys`: the model's, keysOf). */
+  render(row: PartFile, keys: StoredKeys, reload: Reload): void {
     const job: Promise<void> = this.chain
-      .then(() => (this.closed ? undefined : this.renderModel(row, paths, reload)))
+      .then(() => (this.closed ? undefined : this.renderModel(row, keys, reload)))
       .catch((err) => console.error(`model ${row.storedName}: the picture could not be drawn:`, err))
       .finally(() => this.inFlight.delete(job));
     this.chain = job;
@@ -67,7 +64,7 @@ export class RenderJobs {
     await this.settled();
   }
 
-  private async run(job: RenderJob): Promise<RenderResult> {
+  private async runTask(job: RenderJob): Promise<RenderResult> {
     try {
       return await this.pool.run('renderModel', job);
     } catch (err) {
@@ -76,30 +73,55 @@ export class RenderJobs {
     }
   }
 
-  private async renderModel(row: PartFile, paths: RenderPaths, reload: Reload): Promise<void> {
-    const outputs = [paths.display, paths.thumbnail];
+  /** The worker reads and writes local files: the model is fetched to a local copy and the pictures stored once both are drawn. */
+  private async run(keys: StoredKeys, sizeMm: RenderJob['sizeMm']): Promise<RenderResult> {
+    let source: LocalCopy;
+    try {
+      source = await this.storage.localCopy(keys.original);
+    } catch (err) {
+      return { ok: false, error: `the model could not be read from storage (${(err as Error).message})`, permanent: false };
+    }
+    const display = this.storage.localOutput(keys.display!);
+    const thumbnail = this.storage.localOutput(keys.thumbnail!);
+    try {
+      const result = await this.runTask({ source: source.path, display: display.path, thumbnail: thumbnail.path, sizeMm });
+      if (result.ok) {
+        await display.save();
+        await thumbnail.save();
+      }
+      return result;
+    } catch (err) {
+      return { ok: false, error: `the pictures could not be stored (${(err as Error).message})`, permanent: false };
+    } finally {
+      await source.release();
+      await Promise.all([display.discard(), thumbnail.discard()]);
+    }
+  }
+
+  private async renderModel(row: PartFile, keys: StoredKeys, reload: Reload): Promise<void> {
+    const outputs = [keys.display, keys.thumbnail];
     for (;;) {
       const current = await reload();
       if (!current) {
-        await removeQuietly(...outputs);
+        await removeQuietly(this.storage, ...outputs);
         return;
       }
       if (current.renderStatus !== 'pending') return;
       if (current.renderAttempts >= MAX_RENDER_ATTEMPTS) {
-        await removeQuietly(...outputs);
+        await removeQuietly(this.storage, ...outputs);
         await current.update({ renderStatus: 'failed' });
         console.error(`model ${row.storedName}: no picture after ${current.renderAttempts} attempts`);
         return;
       }
       await current.update({ renderAttempts: current.renderAttempts + 1 });
-      const result = await this.run({ ...paths, sizeMm: current.analysis?.sizeMm ?? null });
+      const result = await this.run(keys, current.analysis?.sizeMm ?? null);
       if (!result.ok && result.interrupted) {
         await current.update({ renderAttempts: current.renderAttempts - 1 });
         return;
       }
       const after = await reload();
       if (!after) {
-        await removeQuietly(...outputs);
+        await removeQuietly(this.storage, ...outputs);
         return;
       }
       if (result.ok) {
@@ -107,7 +129,7 @@ export class RenderJobs {
         this.onReady?.(after);
         return;
       }
-      await removeQuietly(...outputs);
+      await removeQuietly(this.storage, ...outputs);
       console.error(`model ${row.storedName}: ${result.error}`);
       if (result.permanent) {
         await after.update({ renderStatus: 'failed' });

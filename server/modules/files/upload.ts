@@ -11,7 +11,6 @@ import type { z } from 'zod';
 import { AppError } from '../../errors';
 import { displayName } from './sniff';
 import { randomStoredName } from './storage';
-import type { UploadDirs } from './storage';
 
 
 export const FILE_FIELDS = ['model', 'photo', 'source'] as const;
@@ -30,7 +29,8 @@ const mb = (bytes: number) => `${Math.round(bytes / 1024 / 1024)} MB`;
 // cleanup never depends on the state of multer's entries (a dropped connection leaves half-made ones).
 const started = new WeakMap<Request, Set<string>>();
 
-export function uploadMiddleware(dirs: UploadDirs): RequestHandler[] {
+/** `tmp`: the local folder uploads are received in (FileStorage.tmp). */
+export function uploadMiddleware(dirs: { tmp: string }): RequestHandler[] {
   const upload = multer({
     storage: multer.diskStorage({
       destination: dirs.tmp,

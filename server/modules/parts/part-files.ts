@@ -1,36 +1,11 @@
 // Turning inspected uploads into file rows and files in place, inside the caller's transaction.
-import { existsSync } from 'node:fs';
-import { readFile } from 'node:fs/promises';
 import { join } from 'node:path';
 import { imageSize } from 'image-size';
 import { Op, type Transaction } from 'sequelize';
 import { PartFile, ReportPhoto, RevisionFile, WantedPhoto } from '../../db/models';
 import type { InspectedFile } from '../files/inspect';
-import { filesOlderThan, moveAll, randomStoredName, removeQuietly, type UploadDirs } from '../files/storage';
-
-export interface StoredPaths {
-  /** Models and sources: the file itself. Photos: the raw upload until it is cleaned. */
-  original: string;
-  /** Photos: the cleaned sizes. Models: the shaded preview picture (render-model.ts). */
-  display?: string;
-  thumbnail?: string;
-}
-
-export function pathsOf(dirs: UploadDirs, file: Pick<PartFile, 'kind' | 'storedName'>): StoredPaths {
-  if (file.kind === 'model') {
-    return {
-      original: join(dirs.store, file.storedName),
-      display: join(dirs.store, `${file.storedName}-display.jpg`),
-      thumbnail: join(dirs.store, `${file.storedName}-thumb.jpg`),
-    };
-  }
-  if (file.kind !== 'photo') return { original: join(dirs.store, file.storedName) };
-  return {
-    original: join(dirs.incoming, file.storedName),
-    display: join(dirs.store, `${file.storedName}-display.jpg`),
-    thumbnail: join(dirs.store, `${file.storedName}-thumb.jpg`),
-  };
-}
+import { filesOlderThan, randomStoredName, removeLocal, removeQuietly, type FileStorage } from '../files/storage';
+import { keysOf, placeFiles, storedNameOf } from '../files/stored-files';
 
 const KIND = { model: 'model', photo: 'photo', source: 'source' } as const;
 
@@ -39,13 +14,13 @@ const KIND = { model: 'model', photo: 'photo', source: 'source' } as const;
  * place. Returns an undo for the moves (call it if the transaction fails) and the new photo rows.
  */
 export async function attachFiles(
-  options: { dirs: UploadDirs; partId: number; revisionId: number; createdBy: number; files: InspectedFile[] },
+  options: { storage: FileStorage; partId: number; revisionId: number; createdBy: number; files: InspectedFile[] },
   transaction: Transaction,
 ) {
-  const { dirs, partId, revisionId, createdBy, files } = options;
+  const { storage, partId, revisionId, createdBy, files } = options;
   const start = ((await RevisionFile.max<number, RevisionFile>('position', { where: { revisionId }, transaction })) ?? -1) + 1;
   const rows: PartFile[] = [];
-  const moves: { from: string; to: string }[] = [];
+  const moves: { from: string; key: string }[] = [];
   for (const [i, file] of files.entries()) {
     const kind = KIND[file.field];
     const storedName = kind === 'photo' ? randomStoredName('') : randomStoredName(file.extension);
@@ -70,50 +45,59 @@ export async function attachFiles(
     );
     await RevisionFile.create({ revisionId, fileId: row.id, position: start + i }, { transaction });
     rows.push(row);
-    moves.push({ from: file.path, to: pathsOf(dirs, row).original });
+    moves.push({ from: file.path, key: keysOf(row).original });
   }
-  const moved = await moveAll(moves);
-  return { rows, undo: () => moved.undo() };
+  const undo = await placeFiles(storage, moves, transaction);
+  return { rows, undo };
 }
 
-export async function removeStoredFiles(dirs: UploadDirs, row: Pick<PartFile, 'kind' | 'storedName'>) {
-  const p = pathsOf(dirs, row);
-  await removeQuietly(p.original, p.display, p.thumbnail);
+export async function removeStoredFiles(storage: FileStorage, row: Pick<PartFile, 'kind' | 'storedName'>) {
+  const k = keysOf(row);
+  await removeQuietly(storage, k.original, k.display, k.thumbnail);
 }
 
 /**
  * Start-up sweep after a crash: drops unfinished uploads, raw photos nobody is waiting for and stored
- * files no row refers to (a model's pictures go with the model's row). Returns the photos still waiting
- * to be cleaned and the models still waiting for their picture.
+ * files no row refers to (a model's pictures go with the model's row). Stored files younger than
+ * `minAgeMs` are left alone: with several instances on one bucket, another may be about to commit
+ * their rows. Returns the photos still waiting to be cleaned and the models still waiting for their picture.
  */
 export async function sweepUploads(
-  dirs: UploadDirs,
+  storage: FileStorage,
+  options: { minAgeMs?: number } = {},
 ): Promise<{ removed: number; pendingPhotos: PartFile[]; pendingReportPhotos: ReportPhoto[]; pendingWantedPhotos: WantedPhoto[]; pendingRenders: PartFile[] }> {
+  const minAgeMs = options.minAgeMs ?? 0;
   let removed = 0;
-  const drop = async (path: string) => {
-    await removeQuietly(path);
-    removed += 1;
+  const tmp = await filesOlderThan(storage.tmp, 0);
+  await removeLocal(...tmp.map((name) => join(storage.tmp, name)));
+  removed += tmp.length;
+  const drop = async (keys: string[]) => {
+    for (let i = 0; i < keys.length; i += 500) await removeQuietly(storage, ...keys.slice(i, i + 500));
+    removed += keys.length;
   };
-  for (const name of await filesOlderThan(dirs.tmp, 0)) await drop(join(dirs.tmp, name));
+  const now = Date.now();
+  const settled = (o: { modified: Date }) => now - o.modified.getTime() >= minAgeMs;
 
   const pendingPhotos = await PartFile.findAll({ where: { kind: 'photo', processing: 'pending' } });
   const pendingReportPhotos = await ReportPhoto.findAll({ where: { processing: 'pending' } });
   const pendingWantedPhotos = await WantedPhoto.findAll({ where: { processing: 'pending' } });
   const waiting = new Set([...pendingPhotos, ...pendingReportPhotos, ...pendingWantedPhotos].map((p) => p.storedName));
-  for (const name of await filesOlderThan(dirs.incoming, 0)) if (!waiting.has(name)) await drop(join(dirs.incoming, name));
+  const incoming = (await storage.list('incoming/')).filter(settled);
+  await drop(incoming.filter((o) => !waiting.has(storedNameOf(o.key))).map((o) => o.key));
 
-  const stored = await filesOlderThan(dirs.store, 0);
-  const baseOf = (name: string) => name.replace(/-(display|thumb)\.jpg$/, '');
-  const names = { storedName: { [Op.in]: [...new Set(stored.map(baseOf))] } };
-  const known = new Set([
-    ...(await PartFile.findAll({ where: names, attributes: ['storedName'] })).map((f) => f.storedName),
-    ...(await ReportPhoto.findAll({ where: names, attributes: ['storedName'] })).map((f) => f.storedName),
-    ...(await WantedPhoto.findAll({ where: names, attributes: ['storedName'] })).map((f) => f.storedName),
-  ]);
-  for (const name of stored) if (!known.has(baseOf(name))) await drop(join(dirs.store, name));
+  const stored = (await storage.list('store/')).filter(settled);
+  const names = [...new Set(stored.map((o) => storedNameOf(o.key)))];
+  const known = new Set<string>();
+  for (let i = 0; i < names.length; i += 1000) {
+    const where = { storedName: { [Op.in]: names.slice(i, i + 1000) } };
+    for (const model of [PartFile, ReportPhoto, WantedPhoto] as const) {
+      for (const f of await (model as typeof PartFile).findAll({ where, attributes: ['storedName'] })) known.add(f.storedName);
+    }
+  }
+  await drop(stored.filter((o) => !known.has(storedNameOf(o.key))).map((o) => o.key));
   const stillRaw = async <T extends WaitingPhoto>(rows: T[]) => {
     const raw: T[] = [];
-    for (const row of rows) if (await settleWithoutRaw(dirs, row)) raw.push(row);
+    for (const row of rows) if (await settleWithoutRaw(storage, row)) raw.push(row);
     return raw;
   };
   // models waiting for their picture (new ones cut off by a stop, and existing ones after migration 0014)
@@ -134,14 +118,15 @@ type WaitingPhoto = Pick<PartFile, 'storedName'> & { update(values: { processing
  * it is ready (its recorded size is then the display size, same proportions), otherwise it failed.
  * Returns true when the raw upload is there and the photo can be cleaned again.
  */
-async function settleWithoutRaw(dirs: UploadDirs, row: WaitingPhoto): Promise<boolean> {
-  const p = pathsOf(dirs, { kind: 'photo', storedName: row.storedName });
-  if (existsSync(p.original)) return true;
-  if (existsSync(p.display!) && existsSync(p.thumbnail!)) {
-    const size = imageSize(await readFile(p.display!));
+async function settleWithoutRaw(storage: FileStorage, row: WaitingPhoto): Promise<boolean> {
+  const k = keysOf({ kind: 'photo', storedName: row.storedName });
+  if (await storage.exists(k.original)) return true;
+  const display = await storage.get(k.display!);
+  if (display && (await storage.exists(k.thumbnail!))) {
+    const size = imageSize(display);
     await row.update({ processing: 'ready', width: size.width, height: size.height });
   } else {
-    await removeQuietly(p.display!, p.thumbnail!);
+    await removeQuietly(storage, k.display, k.thumbnail);
     await row.update({ processing: 'failed' });
   }
   return false;

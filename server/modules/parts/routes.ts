@@ -8,7 +8,7 @@ import { validate } from '../../middleware/validate';
 import { inspectUploads } from '../files/inspect';
 import { EXTENSION, modelFileName } from '../files/sniff';
 import { multipartFields, parseOrThrow, uploadedFiles, uploadMiddleware, withUploads } from '../files/upload';
-import type { UploadDirs } from '../files/storage';
+import type { FileStorage } from '../files/storage';
 import type { PartsService } from './service';
 
 const STRUCTURED = ['bodies', 'mounts', 'keyDimensions', 'safety', 'recipes', 'make'];
@@ -17,9 +17,9 @@ const listQuerySchema = z.object({ mine: boolish.optional(), status: z.enum(['pu
 const idParamSchema = z.object({ id: z.string().min(1).max(100) });
 const imageParamsSchema = partFileParamsSchema.extend({ size: z.enum(['thumb', 'display']) });
 
-export function partsRoutes(parts: PartsService, dirs: UploadDirs) {
+export function partsRoutes(parts: PartsService, storage: FileStorage) {
   const router = Router();
-  const upload = uploadMiddleware(dirs);
+  const upload = uploadMiddleware(storage);
 
   router.get('/', validate('query', listQuerySchema), async (req, res) => {
     const query = res.locals.query as z.output<typeof listQuerySchema>;
@@ -70,20 +70,20 @@ export function partsRoutes(parts: PartsService, dirs: UploadDirs) {
   router.get('/:id/files/:fileId/download', validate('params', partFileParamsSchema), async (req, res) => {
     if (!req.user) throw AppError.unauthorized('Sign in to download files from the shelf.');
     const { id, fileId } = res.locals.params as z.output<typeof partFileParamsSchema>;
-    const { file, path } = await parts.storedFile(currentUser(req), String(id), fileId, 'original');
+    const { file, key } = await parts.storedFile(currentUser(req), String(id), fileId, 'original');
     res.setHeader('X-Content-Type-Options', 'nosniff');
     const name = file.kind === 'model' ? modelFileName(file.originalName, EXTENSION[file.format === '3mf' ? '3mf' : 'stl']) : file.originalName;
     res.attachment(file.kind === 'photo' ? file.originalName.replace(/\.[^.]+$/, '') + '.jpg' : name);
     res.type(file.mime);
-    res.sendFile(path);
+    await storage.send(req, res, key);
   });
 
   router.get('/:id/files/:fileId/image/:size', validate('params', imageParamsSchema), async (req, res) => {
     const { id, fileId, size } = res.locals.params as z.output<typeof imageParamsSchema>;
-    const { path } = await parts.storedFile(currentUser(req), String(id), fileId, size === 'thumb' ? 'thumbnail' : 'display');
+    const { key } = await parts.storedFile(currentUser(req), String(id), fileId, size === 'thumb' ? 'thumbnail' : 'display');
     res.setHeader('Cache-Control', 'private, max-age=3600');
     res.type('image/jpeg');
-    res.sendFile(path);
+    await storage.send(req, res, key);
   });
 
   return router;

@@ -11,10 +11,11 @@ import { AppError } from '../../errors';
 import type { InspectedFile } from '../files/inspect';
 import type { PhotoJobs } from '../files/photo-jobs';
 import type { RenderJobs } from '../files/render-jobs';
-import type { UploadDirs } from '../files/storage';
+import type { FileStorage } from '../files/storage';
+import { keysOf } from '../files/stored-files';
 import { parseParams } from '../make/service';
 import { assertCanEdit, audienceOf, crewAllows, crewWhere, findVisiblePart, seesUnpublished } from './access';
-import { attachFiles, pathsOf, removeStoredFiles, sweepUploads } from './part-files';
+import { attachFiles, removeStoredFiles, sweepUploads } from './part-files';
 import { presentPart, presentSummaries } from './presenter';
 import {
   bodyIdsFor,
@@ -40,7 +41,9 @@ export type EditHook = (actor: User, part: Part, revision: PartRevision, record:
 
 export interface PartsDeps {
   sequelize: Sequelize;
-  dirs: UploadDirs;
+  storage: FileStorage;
+  /** The start-up sweep leaves stored files younger than this alone (STORAGE_SWEEP_MIN_AGE_S). */
+  sweepMinAgeMs?: number;
   photos: PhotoJobs;
   /** Draws each model's preview picture; without it models keep their pictures waiting. */
   renders?: RenderJobs;
@@ -84,7 +87,7 @@ async function uniqueSlug(title: string, transaction: Transaction, alsoTaken: Se
   for (let n = 2; ; n++) if (!used.has(`${base}-${n}`)) return `${base}-${n}`;
 }
 
-export function createPartsService({ sequelize, dirs, photos, renders, onSubmitted, onEdited, onRecovered, onVisibilityChanged }: PartsDeps) {
+export function createPartsService({ sequelize, storage, sweepMinAgeMs, photos, renders, onSubmitted, onEdited, onRecovered, onVisibilityChanged }: PartsDeps) {
   /** Records what an edit did: a new revision of a published part, or a resubmission after changes. */
   async function afterEdit(actor: User, part: Part, edit: { revision: PartRevision; created: boolean }, t: Transaction, record?: EditRecord) {
     // the author's own edits are on record as (re)submissions; anyone else's edit is an event of its own
@@ -102,8 +105,7 @@ export function createPartsService({ sequelize, dirs, photos, renders, onSubmitt
   function queueRenders(rows: PartFile[]) {
     if (!renders) return;
     for (const row of rows.filter((r) => r.kind === 'model' && r.renderStatus === 'pending')) {
-      const paths = pathsOf(dirs, row);
-      renders.render(row, { source: paths.original, display: paths.display!, thumbnail: paths.thumbnail! }, () => PartFile.findByPk(row.id));
+      renders.render(row, keysOf(row), () => PartFile.findByPk(row.id));
     }
   }
 
@@ -161,7 +163,7 @@ export function createPartsService({ sequelize, dirs, photos, renders, onSubmitt
   return {
     /** Clears what a crash left behind and resumes photos that were waiting to be cleaned. */
     async recover() {
-      const { removed, pendingPhotos, pendingReportPhotos, pendingWantedPhotos, pendingRenders } = await sweepUploads(dirs);
+      const { removed, pendingPhotos, pendingReportPhotos, pendingWantedPhotos, pendingRenders } = await sweepUploads(storage, { minAgeMs: sweepMinAgeMs });
       onRecovered?.(pendingWantedPhotos);
       queuePhotos(pendingPhotos);
       for (const row of pendingReportPhotos) photos.clean(row, () => ReportPhoto.findByPk(row.id));
@@ -220,7 +222,7 @@ export function createPartsService({ sequelize, dirs, photos, renders, onSubmitt
         await insertBodies(revision.id, bodyIds, t);
         await insertRecipes(revision.id, input.recipes, t);
         await part.update({ latestRevisionId: revision.id }, { transaction: t });
-        const attached = await attachFiles({ dirs, partId: part.id, revisionId: revision.id, createdBy: actor.id, files }, t);
+        const attached = await attachFiles({ storage, partId: part.id, revisionId: revision.id, createdBy: actor.id, files }, t);
         attempt.onRollback(attached.undo);
         await onSubmitted?.(actor, part, revision, 'submit', t);
         return { result: { id: part.id, slug: part.slug, status: part.status }, photos: attached.rows };
@@ -281,7 +283,7 @@ export function createPartsService({ sequelize, dirs, photos, renders, onSubmitt
         const part = await findVisiblePart(actor, id, t);
         assertCanEdit(actor, part);
         const edit = await editableRevision(part, actor, t);
-        const attached = await attachFiles({ dirs, partId: part.id, revisionId: edit.revision.id, createdBy: actor.id, files }, t);
+        const attached = await attachFiles({ storage, partId: part.id, revisionId: edit.revision.id, createdBy: actor.id, files }, t);
         attempt.onRollback(attached.undo);
         await afterEdit(actor, part, edit, t, { changes: [], filesAdded: files.map((f) => f.originalName) });
         return { result: undefined, photos: attached.rows };
@@ -309,7 +311,7 @@ export function createPartsService({ sequelize, dirs, photos, renders, onSubmitt
         await file.destroy({ transaction: t });
         return file;
       });
-      if (orphan) await removeStoredFiles(dirs, orphan);
+      if (orphan) await removeStoredFiles(storage, orphan);
       return this.get(actor, id);
     },
 
@@ -326,7 +328,7 @@ export function createPartsService({ sequelize, dirs, photos, renders, onSubmitt
       return this.get(actor, id);
     },
 
-    /** A file of the revision this viewer sees, with where it is on disk. */
+    /** A file of the revision this viewer sees, with its storage key. */
     async storedFile(viewer: User | undefined, id: string, fileId: number, want: 'original' | 'display' | 'thumbnail') {
       const part = await findVisiblePart(viewer, id);
       // a retired part's page stays up for reference (photos included), but its files are no longer
@@ -347,11 +349,11 @@ export function createPartsService({ sequelize, dirs, photos, renders, onSubmitt
       if (file.kind === 'photo' && file.processing !== 'ready') {
         throw AppError.notFound(file.processing === 'failed' ? 'This photo could not be processed.' : 'This photo is still being processed; try again in a moment.');
       }
-      const paths = pathsOf(dirs, file);
+      const keys = keysOf(file);
       // a photo's original is never kept: its download is the cleaned display image
-      const picture = want === 'thumbnail' ? paths.thumbnail! : paths.display!;
-      const path = file.kind === 'photo' || want !== 'original' ? picture : paths.original;
-      return { file, path };
+      const picture = want === 'thumbnail' ? keys.thumbnail! : keys.display!;
+      const key = file.kind === 'photo' || want !== 'original' ? picture : keys.original;
+      return { file, key };
     },
   };
 }

@@ -40,8 +40,8 @@ import {
 import { Crew, CrewMember, Kit, KitCrewShare, KitItem, KitShare, Part, PartFile, PartRevision, PriceSheet, Printer, Recipe, RevisionFile, User } from '../../db/models';
 import { transact } from '../../db/transaction';
 import { AppError } from '../../errors';
-import type { UploadDirs } from '../files/storage';
-import { pathsOf } from '../parts/part-files';
+import type { FileStorage } from '../files/storage';
+import { keysOf } from '../files/stored-files';
 import type { SliceQueue } from './slice-queue';
 import type { EvidenceService } from '../evidence/service';
 import type { Alerts } from '../notices/alerts';
@@ -54,7 +54,7 @@ import { effectivePrices, isOnShelfForKits, loadItems, presentCrewShares, presen
 export interface PlanningDeps {
   sequelize: Sequelize;
   /** Where stored model files live, for slicing them. */
-  dirs: UploadDirs;
+  storage: FileStorage;
   /** Slices model files in a worker thread. */
   slicer: SliceQueue;
   /** Outcome warnings from set reports, per part. */
@@ -181,7 +181,7 @@ function modelFilesOf(revision: PartRevision | undefined): PartFile[] {
   return files.filter((f) => f.kind === 'model');
 }
 
-export function createPlanningService({ sequelize, evidence, dirs, slicer, alerts }: PlanningDeps) {
+export function createPlanningService({ sequelize, evidence, storage, slicer, alerts }: PlanningDeps) {
   async function ownPrinter(owner: User, id: number): Promise<Printer> {
     const printer = await Printer.findOne({ where: { id, ownerId: owner.id } });
     if (!printer) throw AppError.notFound('There is no printer with that id among yours.');
@@ -218,7 +218,7 @@ export function createPlanningService({ sequelize, evidence, dirs, slicer, alert
         const stlUnitScale = (a as Partial<ModelFileAnalysis>).unitScale ?? 1;
         sliceFor = (s) =>
           slicer.slice(
-            { path: pathsOf(dirs, file).original, stlUnitScale, settings: { layerMm: s.layerMm, walls: s.walls, lineWidthMm: lineWidthFor(s), skinLayers: s.topBottomLayers } },
+            { path: () => storage.localCopy(keysOf(file).original), stlUnitScale, settings: { layerMm: s.layerMm, walls: s.walls, lineWidthMm: lineWidthFor(s), skinLayers: s.topBottomLayers } },
             `file:${file.id}:${file.sha256}`,
           );
         geometry = { volumeMm3: a.volumeMm3, areaMm2: a.areaMm2, sizeMm: a.sizeMm };
@@ -588,7 +588,7 @@ export function createPlanningService({ sequelize, evidence, dirs, slicer, alert
     try {
       return await slicer.slice(
         {
-          path: pathsOf(dirs, file).original,
+          path: () => storage.localCopy(keysOf(file).original),
           stlUnitScale: (file.analysis as Partial<ModelFileAnalysis> | null)?.unitScale ?? 1,
           settings: { layerMm: s.layerMm, walls: s.walls, lineWidthMm: lineWidthFor(s), skinLayers: s.skinLayers },
         },

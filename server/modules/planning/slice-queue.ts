@@ -2,6 +2,7 @@
 // million-facet mesh takes seconds), and recent results are kept so asking again is instant.
 import { Worker } from 'node:worker_threads';
 import type { SliceProfile } from '@shared/slice';
+import type { LocalCopy } from '../files/storage';
 import type { SliceJob, SliceResult } from './slice-worker';
 
 const WORKER_URL = new URL('./slice-worker.ts', import.meta.url).href;
@@ -17,17 +18,28 @@ export class SliceQueue {
   private idleTimer: NodeJS.Timeout | null = null;
   private nextId = 0;
 
-  /** Rejects with the worker's message when the file cannot be sliced. */
-  slice(job: Omit<SliceJob, 'id'>, cacheKey: string): Promise<SliceProfile> {
+  /**
+   * Rejects with the worker's message when the file cannot be sliced. `path` is a local file, or
+   * fetches one from storage (only when the answer is not cached) and releases it afterwards.
+   */
+  slice(job: Omit<SliceJob, 'id' | 'path'> & { path: string | (() => Promise<LocalCopy>) }, cacheKey: string): Promise<SliceProfile> {
     const key = `${cacheKey}|${job.stlUnitScale}|${JSON.stringify(job.settings)}`;
     const cached = this.cache.get(key);
     if (cached) return cached;
-    const worker = this.ensureWorker();
-    const id = ++this.nextId;
-    const result = new Promise<SliceProfile>((resolve, reject) => {
-      this.waiting.set(id, { resolve, reject });
-      worker.postMessage({ id, ...job } satisfies SliceJob);
-    });
+    const { path, ...rest } = job;
+    const result = (async () => {
+      const local = typeof path === 'string' ? { path, release: async () => undefined } : await path();
+      try {
+        const worker = this.ensureWorker();
+        const id = ++this.nextId;
+        return await new Promise<SliceProfile>((resolve, reject) => {
+          this.waiting.set(id, { resolve, reject });
+          worker.postMessage({ id, ...rest, path: local.path } satisfies SliceJob);
+        });
+      } finally {
+        await local.release();
+      }
+    })();
     this.cache.set(key, result);
     result.catch(() => this.cache.delete(key));
     while (this.cache.size > CACHE_SIZE) this.cache.delete(this.cache.keys().next().value!);

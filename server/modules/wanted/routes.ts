@@ -5,12 +5,12 @@ import type { z } from 'zod';
 import { currentUser, requireAuth } from '../../middleware/auth';
 import { parsed, validate } from '../../middleware/validate';
 import { inspectUploads } from '../files/inspect';
-import type { UploadDirs } from '../files/storage';
+import type { FileStorage } from '../files/storage';
 import { multipartFields, parseOrThrow, uploadedFiles, uploadMiddleware, withUploads } from '../files/upload';
 import type { WantedService } from './service';
 
 /** /api/wanted: the crew's board of parts people are looking for. Members only. */
-export function wantedRoutes(wanted: WantedService, dirs: UploadDirs) {
+export function wantedRoutes(wanted: WantedService, storage: FileStorage) {
   const router = Router();
   router.use(requireAuth);
   const params = validate('params', idParamSchema);
@@ -23,7 +23,7 @@ export function wantedRoutes(wanted: WantedService, dirs: UploadDirs) {
   // JSON, or multipart with the fields (or one `data` field) and up to three photos or sketches
   router.post(
     '/',
-    ...uploadMiddleware(dirs),
+    ...uploadMiddleware(storage),
     withUploads(async (req, res) => {
       const input = parseOrThrow(wantedSchema, req.is('multipart/form-data') ? multipartFields(req, ['mounts', 'keySizes']) : req.body);
       const files = await inspectUploads(uploadedFiles(req), { drawnInInches: false });
@@ -47,9 +47,10 @@ export function wantedRoutes(wanted: WantedService, dirs: UploadDirs) {
 
   router.get('/:id/photos/:photoId/:size', validate('params', wantedPhotoParamsSchema), async (req, res) => {
     const p = res.locals.params as z.output<typeof wantedPhotoParamsSchema>;
-    const path = await wanted.photoPath(currentUser(req)!, p.id, p.photoId, p.size);
+    const key = await wanted.photoKey(currentUser(req)!, p.id, p.photoId, p.size);
     res.setHeader('Cache-Control', 'private, max-age=3600');
-    res.type('image/jpeg').sendFile(path);
+    res.type('image/jpeg');
+    await storage.send(req, res, key);
   });
 
   return router;

@@ -16,17 +16,17 @@ import { AppError } from '../../errors';
 import { bodyInfo, resolveBody } from '../builds/bodies';
 import type { InspectedFile } from '../files/inspect';
 import type { PhotoJobs } from '../files/photo-jobs';
-import { moveAll, randomStoredName, type UploadDirs } from '../files/storage';
+import { randomStoredName, type FileStorage } from '../files/storage';
+import { keysOf, placeFiles } from '../files/stored-files';
 import { mailTemplates } from '../mail/templates';
 import { notices } from '../notices/service';
 import { audienceOf, crewAllows, isModerator } from '../parts/access';
-import { pathsOf } from '../parts/part-files';
 import type { MailQueue } from '../review/service';
 import type { Alerts } from '../notices/alerts';
 
 export interface WantedDeps {
   sequelize: Sequelize;
-  dirs: UploadDirs;
+  storage: FileStorage;
   photos: PhotoJobs;
   mail: MailQueue;
   publicUrl: string;
@@ -75,7 +75,7 @@ async function partTitle(part: Part, transaction?: Transaction): Promise<string>
   return rev?.title ?? part.slug;
 }
 
-export function createWantedService({ sequelize, dirs, photos, mail, publicUrl, alerts }: WantedDeps) {
+export function createWantedService({ sequelize, storage, photos, mail, publicUrl, alerts }: WantedDeps) {
   const requestLink = (id: number) => `${publicUrl}/wanted/${id}`;
 
   /** Tells the requester that an answer's part is on the shelf; once per answer, inside `t`. */
@@ -150,8 +150,7 @@ export function createWantedService({ sequelize, dirs, photos, mail, publicUrl, 
             ),
           );
         }
-        const moved = await moveAll(rows.map((row, i) => ({ from: files[i].path, to: pathsOf(dirs, { kind: 'photo', storedName: row.storedName }).original })));
-        undo = moved.undo;
+        undo = await placeFiles(storage, rows.map((row, i) => ({ from: files[i].path, key: keysOf({ kind: 'photo', storedName: row.storedName }).original })), t);
         await t.commit();
         for (const row of rows) photos.clean(row, () => WantedPhoto.findByPk(row.id));
         return { id: request.id };
@@ -319,12 +318,12 @@ export function createWantedService({ sequelize, dirs, photos, mail, publicUrl, 
       }
     },
 
-    async photoPath(viewer: User, id: number, photoId: number, size: 'thumb' | 'display'): Promise<string> {
+    async photoKey(viewer: User, id: number, photoId: number, size: 'thumb' | 'display'): Promise<string> {
       const request = await loadVisible(viewer, id);
       const photo = await WantedPhoto.findOne({ where: { id: photoId, requestId: request.id, processing: 'ready' } });
       if (!photo) throw AppError.notFound('There is no such photo.');
-      const paths = pathsOf(dirs, { kind: 'photo', storedName: photo.storedName });
-      return size === 'thumb' ? paths.thumbnail! : paths.display!;
+      const keys = keysOf({ kind: 'photo', storedName: photo.storedName });
+      return size === 'thumb' ? keys.thumbnail! : keys.display!;
     },
 
     /** Wanted photos left half-cleaned by a crash (the start-up sweep keeps their raw uploads). */
