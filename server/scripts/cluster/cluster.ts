@@ -37,11 +37,11 @@ export interface ClusterOptions {
 interface Secrets {
   dbPassword: string;
   sessionSecret: string;
-  s3AccessKeyId: string;
-  s3SecretAccessKey: string;
 }
 
 interface S3Fake {
+  /** The STORAGE and S3_* settings that point the app at the fake. */
+  env?: Record<string, string>;
   close?: () => Promise<void> | void;
   stop?: () => Promise<void> | void;
 }
@@ -74,22 +74,20 @@ function secrets(dir: string): Secrets {
   const made: Secrets = {
     dbPassword: randomBytes(18).toString('base64url'),
     sessionSecret: randomBytes(32).toString('base64url'),
-    s3AccessKeyId: `RIGSHELF${randomBytes(6).toString('hex').toUpperCase()}`,
-    s3SecretAccessKey: randomBytes(24).toString('base64url'),
   };
   writeFileSync(file, JSON.stringify(made, null, 2), { mode: 0o600 });
   return made;
 }
 
-async function startObjectStore(dir: string, port: number, s: Secrets): Promise<S3Fake> {
+async function startObjectStore(dir: string, port: number): Promise<S3Fake> {
   const modulePath = resolve(ROOT, 'server/scripts/s3-fake.ts');
   if (!existsSync(modulePath)) {
     throw new Error('STORAGE=s3 needs the S3 fake (server/scripts/s3-fake.ts); start with CLUSTER_STORAGE=local to share one folder instead');
   }
   const { startS3Fake } = (await import(modulePath)) as {
-    startS3Fake: (o: { port: number; dir: string; bucket: string; accessKeyId?: string; secretAccessKey?: string }) => Promise<S3Fake>;
+    startS3Fake: (o: { port: number; dir: string; bucket: string }) => Promise<S3Fake>;
   };
-  return startS3Fake({ port, dir, bucket: S3_BUCKET, accessKeyId: s.s3AccessKeyId, secretAccessKey: s.s3SecretAccessKey });
+  return startS3Fake({ port, dir, bucket: S3_BUCKET });
 }
 
 export class Cluster {
@@ -97,6 +95,8 @@ export class Cluster {
   readonly instances: AppInstance[] = [];
   balancer: Balancer | null = null;
   private s3: S3Fake | null = null;
+  /** What the instances get for object storage (the fake's own settings once it runs). */
+  s3Env: Record<string, string> = {};
   private readonly log: (line: string) => void;
   readonly secrets: Secrets;
 
@@ -124,17 +124,7 @@ export class Cluster {
     const { ports, dir, storage } = this.options;
     const name = `app${i + 1}`;
     const order = [i, ...ports.db.map((_, j) => j).filter((j) => j !== i)];
-    const storageEnv: Record<string, string> =
-      storage === 's3'
-        ? {
-            STORAGE: 's3',
-            S3_ENDPOINT: this.s3Endpoint,
-            S3_BUCKET,
-            S3_REGION: 'us-east-1',
-            S3_ACCESS_KEY_ID: this.secrets.s3AccessKeyId,
-            S3_SECRET_ACCESS_KEY: this.secrets.s3SecretAccessKey,
-          }
-        : { STORAGE: 'local' };
+    const storageEnv: Record<string, string> = storage === 's3' ? this.s3Env : { STORAGE: 'local' };
     return {
       NODE_ENV: 'development',
       HOST: '127.0.0.1',
@@ -175,7 +165,17 @@ export class Cluster {
     if (fresh) this.log('database rigshelf and its user created');
 
     if (storage === 's3') {
-      this.s3 = await startObjectStore(this.objectDir, ports.s3, this.secrets);
+      this.s3 = await startObjectStore(this.objectDir, ports.s3);
+      this.s3Env = this.s3.env ?? {
+        STORAGE: 's3',
+        S3_ENDPOINT: this.s3Endpoint,
+        S3_BUCKET,
+        S3_REGION: 'us-east-1',
+        // s3rver's own fixed account
+        S3_ACCESS_KEY_ID: 'S3RVER',
+        S3_SECRET_ACCESS_KEY: 'S3RVER',
+        S3_FORCE_PATH_STYLE: '1',
+      };
       this.log(`S3 fake on ${this.s3Endpoint}, bucket ${S3_BUCKET}`);
     }
 

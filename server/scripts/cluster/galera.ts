@@ -92,6 +92,9 @@ export class GaleraNode {
       // durability comes from the other nodes holding the write set; one flush a second per node
       '--innodb-flush-log-at-trx-commit=2',
       '--innodb-buffer-pool-size=96M',
+      // reads wait until this node has applied every write set committed before them anywhere: a
+      // session written through one instance is there when the member's next request reads it on another
+      '--wsrep-sync-wait=1',
     ];
   }
 
