@@ -168,7 +168,7 @@ async function listObjects(cluster: Cluster): Promise<{ keys: string[]; source: 
 
 /** A 5xx answer is clean when it is a 503 whose JSON says what happened, with no stack trace in it. */
 export function uncleanError(s: Sample): string | null {
-  if (s.status === 0) return `${s.route}: no answer within ${WAIT_MS / 1000} s`;
+  if (s.status === 0) return `${s.route}: no answer (${s.error ?? 'unknown'} after ${(s.ms / 1000).toFixed(1)} s)`;
   if (s.status < 500) return null;
   if (s.status !== 503) return `${s.route}: ${s.status} ${s.body?.slice(0, 120) ?? ''}`;
   try {

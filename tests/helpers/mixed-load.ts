@@ -15,6 +15,8 @@ export interface Sample {
   at: number;
   /** The start of the body of any answer from 500 up. */
   body?: string;
+  /** What the client saw when no answer came (the network error's code, or the timeout). */
+  error?: string;
 }
 
 /** Records every request's route, status, latency and (for 5xx) the start of its body. */
@@ -27,8 +29,10 @@ export class Recorder {
       const res = await run();
       const body = await res.text();
       return this.add({ route, status: res.status, ms: Date.now() - at, at, body: res.status >= 500 ? body.slice(0, 300) : undefined });
-    } catch {
-      return this.add({ route, status: 0, ms: Date.now() - at, at });
+    } catch (err) {
+      const cause = (err as { cause?: { code?: string; message?: string } }).cause;
+      const error = cause?.code ?? cause?.message ?? (err instanceof Error ? err.name : String(err));
+      return this.add({ route, status: 0, ms: Date.now() - at, at, error });
     }
   }
 
