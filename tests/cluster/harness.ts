@@ -337,7 +337,8 @@ export async function runClusterFaults(options: ClusterRunOptions): Promise<Clus
               const body = (await res.json()) as { results: { id: number }[] };
               return body.results.some((r) => r.id === Number(partId));
             },
-            Math.max(options.searchBoundMs * 4, 20_000),
+            // waited for well past the bound, so a late instance is measured rather than written off
+            Math.max(options.searchBoundMs * 12, 60_000),
             100,
           );
           searchFigures.push({ instance: inst.name, ms: found ? Date.now() - from : null });

@@ -21,6 +21,10 @@ global
 defaults
   mode http
   option forwardfor
+  # the request (up to a buffer, which holds the small uploads) is read before an instance is chosen:
+  # an answer given early, such as the balancer's own 503, then reaches a client that is done
+  # sending instead of cutting its upload off mid-body
+  option http-buffer-request
   timeout connect 2s
   timeout client 60s
   timeout server 60s
