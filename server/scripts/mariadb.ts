@@ -11,6 +11,12 @@ export interface InstanceOptions {
   /** Folder that holds data, socket, pid file and log. */
   dir: string;
   port: number;
+  /** More mariadbd options (the Galera settings of `npm run cluster`). */
+  extraArgs?: string[];
+  /** An option file of its own, read instead of none (Galera's state-transfer scripts read it too). */
+  defaultsFile?: string;
+  /** How long start() waits for logins (a Galera joiner copies its data first). */
+  startTimeoutMs?: number;
 }
 
 export interface Provisioning {
@@ -68,10 +74,16 @@ export class PrivateMariaDb {
   readonly socket: string;
   readonly pidFile: string;
   readonly logFile: string;
+  extraArgs: string[];
+  readonly startTimeoutMs: number;
+  readonly defaultsFile: string | undefined;
 
   constructor(options: InstanceOptions) {
     this.dir = resolve(options.dir);
     this.port = options.port;
+    this.extraArgs = options.extraArgs ?? [];
+    this.startTimeoutMs = options.startTimeoutMs ?? 30_000;
+    this.defaultsFile = options.defaultsFile;
     this.datadir = resolve(this.dir, 'data');
     this.socket = resolve(this.dir, 'mariadb.sock');
     this.pidFile = resolve(this.dir, 'mariadb.pid');
@@ -123,7 +135,7 @@ export class PrivateMariaDb {
     const child = spawn(
       sbin('mariadbd'),
       [
-        '--no-defaults',
+        this.defaultsFile ? `--defaults-file=${this.defaultsFile}` : '--no-defaults',
         '--user=root',
         `--datadir=${this.datadir}`,
         '--bind-address=127.0.0.1',
@@ -134,8 +146,10 @@ export class PrivateMariaDb {
         '--skip-name-resolve',
         '--character-set-server=utf8mb4',
         '--collation-server=utf8mb4_unicode_ci',
-        '--innodb-buffer-pool-size=128M',
+        // an option file sets its own (mariadb-backup refuses this one on the command line it is handed)
+        ...(this.defaultsFile ? [] : ['--innodb-buffer-pool-size=128M']),
         '--max-connections=300',
+        ...this.extraArgs,
       ],
       // Own process group: Ctrl-C reaches our process, which then shuts MariaDB down in order.
       { detached: true, stdio: 'ignore' },
@@ -145,7 +159,7 @@ export class PrivateMariaDb {
     child.on('exit', (code) => {
       exited = code ?? -1;
     });
-    const deadline = Date.now() + 30_000;
+    const deadline = Date.now() + this.startTimeoutMs;
     while (Date.now() < deadline) {
       if (await this.isAcceptingLogins()) {
         log(`MariaDB ready on 127.0.0.1:${this.port}`);

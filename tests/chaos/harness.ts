@@ -8,6 +8,7 @@ import { join } from 'node:path';
 import { boxStl } from '../helpers/meshes';
 import { plainPng } from '../helpers/photos';
 import { checkStoredFiles } from '../helpers/stored-files-check';
+import { countByRoute, databaseOrphans, pick, ratingProblems as checkRatings, Recorder, rowsOf, SEARCH_WORDS, submissionProblems, type RatingAttempt } from '../helpers/mixed-load';
 import { addMembers, loadSubmission, Member, publishedParts, scratchDb, sleep, spawnServer, waitFor, type ScratchDb, type ServerProcess } from '../helpers/system';
 
 export interface ChaosOptions {
@@ -57,14 +58,6 @@ export const SHORT_FORM: ChaosOptions = {
 
 type Route = 'search' | 'part' | 'download' | 'submit' | 'rate' | 'health' | 'aborted-upload' | 'burst-submit';
 
-interface Sample {
-  route: Route;
-  status: number; // 0: no answer (network error or client timeout)
-  ms: number;
-  at: number;
-  body?: string;
-}
-
 export interface ChaosSummary {
   options: ChaosOptions;
   requests: number;
@@ -90,21 +83,16 @@ export interface ChaosSummary {
   durationMs: number;
 }
 
-const SEARCH_WORDS = ['bracket', 'rod', 'plate', 'clamp', 'monitor', 'cheese', '15mm', 'arri', 'cage', 'handle'];
-
-function pick<T>(items: T[]): T {
-  return items[Math.floor(Math.random() * items.length)];
-}
-
 const submissionData = loadSubmission;
 
 export async function runChaos(options: ChaosOptions): Promise<ChaosSummary> {
   const log = options.log ?? ((line: string) => console.log(`chaos: ${line}`));
   const runId = Date.now().toString(36);
-  const samples: Sample[] = [];
+  const recorder = new Recorder();
+  const samples = recorder.samples;
   const faults: ChaosSummary['faults'] = [];
   const submissions: { title: string; status: number; at: number }[] = [];
-  const ratings: { member: string; partId: number; stars: number; status: number; at: number }[] = [];
+  const ratings: RatingAttempt[] = [];
   const started = Date.now();
   let db: ScratchDb | null = null;
   let server: ServerProcess | null = null;
@@ -129,20 +117,7 @@ export async function runChaos(options: ChaosOptions): Promise<ChaosSummary> {
     const { ids: partIds, downloads } = await publishedParts(db.db, srv.url, 5, stl);
     log(`${members.length} members signed in; ${partIds.length} published parts; load for ${options.durationMs / 1000} s`);
 
-    async function timed(route: Route, run: () => Promise<Response>): Promise<Sample> {
-      const at = Date.now();
-      try {
-        const res = await run();
-        const body = await res.text();
-        const sample: Sample = { route, status: res.status, ms: Date.now() - at, at, body: res.status >= 500 ? body.slice(0, 300) : undefined };
-        samples.push(sample);
-        return sample;
-      } catch {
-        const sample: Sample = { route, status: 0, ms: Date.now() - at, at };
-        samples.push(sample);
-        return sample;
-      }
-    }
+    const timed = (route: Route, run: () => Promise<Response>) => recorder.timed(route, run);
 
     let counter = 0;
     async function submit(client: Member, route: Route) {
@@ -288,64 +263,10 @@ export async function runChaos(options: ChaosOptions): Promise<ChaosSummary> {
     log('load stopped; checking the shelf');
 
     // ---- checks, against the database and the uploads folder the server left behind
-    const sql = async (q: string) =>
-      (await db!.db.sql(q))
-        .split('\n')
-        .filter(Boolean)
-        .map((line) => line.split('\t'));
-
-    const revisionTitles = new Map<string, number>();
-    for (const [title, n] of await sql(`SELECT title, COUNT(*) FROM rigshelf.part_revisions WHERE title LIKE 'Chaos plate ${runId} %' GROUP BY title`)) {
-      revisionTitles.set(title, Number(n));
-    }
-    const acked = submissions.filter((s) => s.status === 201);
-    const submissionsMissing = acked.filter((s) => !revisionTitles.has(s.title)).map((s) => s.title);
-    const submissionsDuplicated = [...revisionTitles].filter(([, n]) => n > 1).map(([t]) => t);
-
-    const userIds = new Map<string, string>();
-    for (const [id, email] of await sql(`SELECT id, email FROM rigshelf.users WHERE email LIKE 'chaos-${runId}-%'`)) userIds.set(email, id);
-    const stored = new Map<string, { stars: number; rows: number }>();
-    for (const [userId, partId, stars, rows] of await sql(
-      `SELECT user_id, part_id, MAX(stars), COUNT(*) FROM rigshelf.ratings WHERE user_id IN (${[...userIds.values()].join(',') || 0}) GROUP BY user_id, part_id`,
-    )) {
-      stored.set(`${userId}:${partId}`, { stars: Number(stars), rows: Number(rows) });
-    }
-    const ratingProblems: string[] = [];
-    const byPair = new Map<string, typeof ratings>();
-    for (const r of ratings) {
-      const key = `${userIds.get(r.member)}:${r.partId}`;
-      byPair.set(key, [...(byPair.get(key) ?? []), r]);
-    }
-    for (const [key, attempts] of byPair) {
-      const lastAck = attempts.map((a, i) => ({ a, i })).filter(({ a }) => a.status === 200 || a.status === 201).pop();
-      if (!lastAck) continue;
-      const row = stored.get(key);
-      if (!row) {
-        ratingProblems.push(`${key}: acknowledged rating missing`);
-        continue;
-      }
-      if (row.rows !== 1) ratingProblems.push(`${key}: ${row.rows} rows`);
-      // a later attempt with no clear answer may or may not have landed
-      const possible = new Set([lastAck.a.stars, ...attempts.slice(lastAck.i + 1).filter((a) => a.status === 0 || a.status >= 500).map((a) => a.stars)]);
-      if (!possible.has(row.stars)) ratingProblems.push(`${key}: ${row.stars} stars stored, last acknowledged ${lastAck.a.stars}`);
-    }
-
-    const count = async (q: string) => Number((await sql(q))[0]?.[0] ?? 0);
-    const dbOrphans = {
-      partsWithoutRevision: await count(
-        'SELECT COUNT(*) FROM rigshelf.parts p WHERE NOT EXISTS (SELECT 1 FROM rigshelf.part_revisions r WHERE r.part_id = p.id)',
-      ),
-      partsWithoutLatestRevision: await count('SELECT COUNT(*) FROM rigshelf.parts WHERE latest_revision_id IS NULL'),
-      filesOnNoRevision: await count(
-        'SELECT COUNT(*) FROM rigshelf.part_files f WHERE NOT EXISTS (SELECT 1 FROM rigshelf.revision_files rf WHERE rf.file_id = f.id)',
-      ),
-      revisionsWithoutModel: await count(
-        "SELECT COUNT(*) FROM rigshelf.part_revisions r WHERE NOT EXISTS (SELECT 1 FROM rigshelf.revision_files rf JOIN rigshelf.part_files f ON f.id = rf.file_id WHERE rf.revision_id = r.id AND f.kind = 'model')",
-      ),
-      revisionsWithoutRecipe: await count(
-        'SELECT COUNT(*) FROM rigshelf.part_revisions r WHERE NOT EXISTS (SELECT 1 FROM rigshelf.recipes c WHERE c.revision_id = r.id)',
-      ),
-    };
+    const sql = rowsOf((q) => db!.db.sql(q));
+    const checked = await submissionProblems(sql, 'rigshelf', `Chaos plate ${runId} %`, submissions);
+    const ratingProblems = await checkRatings(sql, 'rigshelf', `chaos-${runId}-%`, ratings);
+    const dbOrphans = await databaseOrphans(sql, 'rigshelf');
 
     const files = await sql('SELECT kind, stored_name, processing, render_status FROM rigshelf.part_files');
     const reportPhotos = await sql('SELECT stored_name, processing FROM rigshelf.report_photos');
@@ -382,13 +303,7 @@ export async function runChaos(options: ChaosOptions): Promise<ChaosSummary> {
       const inside = healthSamples.filter((s) => s.at <= f.to && s.at + s.ms >= f.from);
       during[f.name] = inside.reduce((m, s) => Math.max(m, s.ms), 0);
     }
-    const byRoute: ChaosSummary['byRoute'] = {};
-    for (const s of samples) {
-      const entry = (byRoute[s.route] ??= { count: 0, statuses: {} });
-      entry.count += 1;
-      const key = s.status === 0 ? 'no answer' : s.status === -1 ? 'cut off' : String(s.status);
-      entry.statuses[key] = (entry.statuses[key] ?? 0) + 1;
-    }
+    const byRoute = countByRoute(samples);
     const exit = srv.exit as ServerProcess['exit'];
     return {
       options,
@@ -399,9 +314,9 @@ export async function runChaos(options: ChaosOptions): Promise<ChaosSummary> {
       server500OutsideFaults: s500.filter((s) => !inFault(s.at)).length,
       deadlock500: s500.filter((s) => deadlockPattern.test(s.body ?? '')).length,
       deadlockLogLines: srv.lines.filter((l) => l.stream === 'err' && /Deadlock found|ER_LOCK_DEADLOCK/.test(l.text)).length,
-      submissionsAcknowledged: acked.length,
-      submissionsMissing,
-      submissionsDuplicated,
+      submissionsAcknowledged: checked.acknowledged,
+      submissionsMissing: checked.missing,
+      submissionsDuplicated: checked.duplicated,
       ratingsAcknowledged: ratings.filter((r) => r.status === 200 || r.status === 201).length,
       ratingProblems,
       dbOrphans,

@@ -1,0 +1,96 @@
+// haproxy in front of the app instances: round robin, a health check on /api/health every second
+// (two failures take an instance out, two successes bring it back), a refused connection retried on
+// another instance, and the balancer's own failures (an instance that died mid-request, no instance
+// up) answered as a 503 with the app's error shape instead of haproxy's HTML page.
+import { spawn, type ChildProcess } from 'node:child_process';
+import { mkdirSync, writeFileSync } from 'node:fs';
+import { resolve } from 'node:path';
+import type { ClusterPorts } from './ports';
+
+const UNAVAILABLE = JSON.stringify({
+  error: { code: 'instance_unavailable', message: 'The shelf could not answer this request just now. Try again in a moment.' },
+});
+
+export function haproxyConfig(dir: string, ports: ClusterPorts): string {
+  const errorFile = resolve(dir, '503.http');
+  const servers = ports.apps.map((p, i) => `  server app${i + 1} 127.0.0.1:${p} check`).join('\n');
+  return `# written by npm run cluster; changes are overwritten
+global
+  maxconn 4096
+
+defaults
+  mode http
+  option forwardfor
+  # the request (up to a buffer, which holds the small uploads) is read before an instance is chosen:
+  # an answer given early, such as the balancer's own 503, then reaches a client that is done
+  # sending instead of cutting its upload off mid-body
+  option http-buffer-request
+  timeout connect 2s
+  timeout client 60s
+  timeout server 60s
+  timeout http-request 30s
+  timeout queue 10s
+  # a health check on a busy 2-core machine can take longer than the 1 s between checks
+  timeout check 3s
+  # only a connection that never reached an instance is tried again (elsewhere): a request an
+  # instance may have started is never sent twice
+  retries 2
+  retry-on conn-failure
+  option redispatch 1
+  errorfile 502 ${errorFile}
+  errorfile 503 ${errorFile}
+  errorfile 504 ${errorFile}
+
+frontend rigshelf
+  bind 127.0.0.1:${ports.balancer}
+  default_backend apps
+
+backend apps
+  balance roundrobin
+  option httpchk GET /api/health
+  http-check expect status 200
+  default-server inter 1s fastinter 500ms downinter 1s fall 2 rise 2
+${servers}
+
+listen stats
+  bind 127.0.0.1:${ports.stats}
+  stats enable
+  stats uri /
+  stats refresh 2s
+`;
+}
+
+export interface Balancer {
+  child: ChildProcess;
+  stop(): Promise<void>;
+}
+
+export function startHaproxy(dir: string, ports: ClusterPorts, onLine: (line: string) => void): Balancer {
+  mkdirSync(dir, { recursive: true });
+  const body = `${UNAVAILABLE}\n`;
+  writeFileSync(
+    resolve(dir, '503.http'),
+    `HTTP/1.1 503 Service Unavailable\r\nContent-Type: application/json\r\nCache-Control: no-store\r\nRetry-After: 2\r\nContent-Length: ${Buffer.byteLength(body)}\r\nConnection: close\r\n\r\n${body}`,
+  );
+  const cfg = resolve(dir, 'haproxy.cfg');
+  writeFileSync(cfg, haproxyConfig(dir, ports));
+  // -db: stay in the foreground, so this process owns it and Ctrl-C ordering is ours
+  const child = spawn('haproxy', ['-db', '-f', cfg], { stdio: ['ignore', 'pipe', 'pipe'], detached: true });
+  for (const stream of [child.stdout!, child.stderr!]) {
+    stream.setEncoding('utf8');
+    // a soft stop reports every proxy it stopped; that is not news
+    stream.on('data', (chunk: string) => chunk.split('\n').filter((l) => l && !/stopped \(cumulated conns/.test(l)).forEach(onLine));
+  }
+  const exited = new Promise<void>((done) => child.once('exit', () => done()));
+  return {
+    child,
+    async stop() {
+      if (child.exitCode !== null || child.signalCode !== null) return;
+      // SIGUSR1: finish what is in flight, then exit
+      child.kill('SIGUSR1');
+      const late = setTimeout(() => child.kill('SIGTERM'), 5000);
+      await exited;
+      clearTimeout(late);
+    },
+  };
+}
