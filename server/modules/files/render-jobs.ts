@@ -4,6 +4,7 @@
 // shelf shows its photos or a placeholder instead. Pictures live beside the model in store/ as
 // `<storedName>-display.jpg` and `-thumb.jpg`, so the start-up sweep keeps them with their row.
 import type { PartFile } from '../../db/models';
+import { MAX_LEASE_EXPIRIES, type JobClaims } from '../jobs/claims';
 import type { RenderJob, RenderResult } from './render-model';
 import { removeQuietly } from './storage';
 import { WorkerClosedError, WorkerPool, type WorkerPoolOptions } from './worker-pool';
@@ -38,20 +39,31 @@ export class RenderJobs {
   private closed = false;
 
   /** `onReady`: a picture was drawn (search's stored thumbnails are refreshed from it). */
-  constructor(options: Partial<WorkerPoolOptions> & { onReady?: (row: PartFile) => void } = {}) {
-    const { onReady, ...pool } = options;
+  /** `claims`: with several instances on one database, a picture is drawn by the one that claims it. */
+  constructor(options: Partial<WorkerPoolOptions> & { onReady?: (row: PartFile) => void; claims?: JobClaims } = {}) {
+    const { onReady, claims, ...pool } = options;
     this.onReady = onReady;
+    this.claims = claims;
     this.pool = new WorkerPool({ ...RENDER_POOL, ...pool });
   }
 
   private readonly onReady?: (row: PartFile) => void;
+  private readonly claims?: JobClaims;
+
+  /** Pictures being drawn or waiting for their turn here. */
+  get busy(): number {
+    return this.inFlight.size;
+  }
 
   /** Queues the picture of a model whose row is waiting for one. */
   render(row: PartFile, paths: RenderPaths, reload: Reload): void {
     const job: Promise<void> = this.chain
       .then(() => (this.closed ? undefined : this.renderModel(row, paths, reload)))
       .catch((err) => console.error(`model ${row.storedName}: the picture could not be drawn:`, err))
-      .finally(() => this.inFlight.delete(job));
+      .finally(() => {
+        this.inFlight.delete(job);
+        if (this.claims) void this.claims.release('part_files', row.id).catch(() => undefined);
+      });
     this.chain = job;
     this.inFlight.add(job);
   }
@@ -85,7 +97,13 @@ export class RenderJobs {
         return;
       }
       if (current.renderStatus !== 'pending') return;
-      if (current.renderAttempts >= MAX_RENDER_ATTEMPTS) {
+      let leaseExpiries = 0;
+      if (this.claims) {
+        const claim = await this.claims.claim('render', 'part_files', row.id);
+        if (!claim.claimed) return; // another instance is drawing it
+        leaseExpiries = claim.leaseExpiries;
+      }
+      if (current.renderAttempts - leaseExpiries >= MAX_RENDER_ATTEMPTS || leaseExpiries >= MAX_LEASE_EXPIRIES) {
         await removeQuietly(...outputs);
         await current.update({ renderStatus: 'failed' });
         console.error(`model ${row.storedName}: no picture after ${current.renderAttempts} attempts`);

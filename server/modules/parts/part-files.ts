@@ -88,21 +88,23 @@ export async function removeStoredFiles(dirs: UploadDirs, row: Pick<PartFile, 'k
  */
 export async function sweepUploads(
   dirs: UploadDirs,
+  /** Only files untouched for this long are removed (another instance may be writing newer ones). */
+  minAgeMs = 0,
 ): Promise<{ removed: number; pendingPhotos: PartFile[]; pendingReportPhotos: ReportPhoto[]; pendingWantedPhotos: WantedPhoto[]; pendingRenders: PartFile[] }> {
   let removed = 0;
   const drop = async (path: string) => {
     await removeQuietly(path);
     removed += 1;
   };
-  for (const name of await filesOlderThan(dirs.tmp, 0)) await drop(join(dirs.tmp, name));
+  for (const name of await filesOlderThan(dirs.tmp, minAgeMs)) await drop(join(dirs.tmp, name));
 
   const pendingPhotos = await PartFile.findAll({ where: { kind: 'photo', processing: 'pending' } });
   const pendingReportPhotos = await ReportPhoto.findAll({ where: { processing: 'pending' } });
   const pendingWantedPhotos = await WantedPhoto.findAll({ where: { processing: 'pending' } });
   const waiting = new Set([...pendingPhotos, ...pendingReportPhotos, ...pendingWantedPhotos].map((p) => p.storedName));
-  for (const name of await filesOlderThan(dirs.incoming, 0)) if (!waiting.has(name)) await drop(join(dirs.incoming, name));
+  for (const name of await filesOlderThan(dirs.incoming, minAgeMs)) if (!waiting.has(name)) await drop(join(dirs.incoming, name));
 
-  const stored = await filesOlderThan(dirs.store, 0);
+  const stored = await filesOlderThan(dirs.store, minAgeMs);
   const baseOf = (name: string) => name.replace(/-(display|thumb)\.jpg$/, '');
   const names = { storedName: { [Op.in]: [...new Set(stored.map(baseOf))] } };
   const known = new Set([

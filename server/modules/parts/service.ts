@@ -160,13 +160,18 @@ export function createPartsService({ sequelize, dirs, photos, renders, onSubmitt
 
   return {
     /** Clears what a crash left behind and resumes photos that were waiting to be cleaned. */
-    async recover() {
-      const { removed, pendingPhotos, pendingReportPhotos, pendingWantedPhotos, pendingRenders } = await sweepUploads(dirs);
+    async recover(options: { minAgeMs?: number } = {}) {
+      const { removed, pendingPhotos, pendingReportPhotos, pendingWantedPhotos, pendingRenders } = await sweepUploads(dirs, options.minAgeMs);
       onRecovered?.(pendingWantedPhotos);
       queuePhotos(pendingPhotos);
       for (const row of pendingReportPhotos) photos.clean(row, () => ReportPhoto.findByPk(row.id));
       queueRenders(pendingRenders);
       return { removed, resumed: pendingPhotos.length + pendingReportPhotos.length + pendingWantedPhotos.length, pictures: renders ? pendingRenders.length : 0 };
+    },
+
+    /** Photos and models claimed from an instance that went away (jobs/runner.ts). */
+    takeOver(rows: PartFile[]) {
+      queuePhotos(rows);
     },
 
     /** Resolves when every model picture queued so far is drawn (or has failed). */
