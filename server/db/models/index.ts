@@ -1,5 +1,6 @@
 // Every model is initialised here and every association is declared here, in one place.
 import { DataTypes, Model, type Sequelize } from 'sequelize';
+import { logShelfChanges } from '../shelf-changes';
 import { AccountToken, initAccountToken } from './account-token';
 import { AuditEvent, initAuditEvent } from './audit-event';
 import { Build, initBuild } from './build';
@@ -81,6 +82,18 @@ export function initModels(sequelize: Sequelize) {
     },
     { sequelize, tableName: 'revision_files', modelName: 'RevisionFile', timestamps: false },
   );
+
+  // what search shows: each write also adds a shelf_changes row that every instance polls
+  logShelfChanges([
+    { model: Part, kind: 'index' },
+    { model: PartRevision, kind: 'index' },
+    { model: PartFile, kind: 'index', only: ['processing', 'renderStatus'] },
+    { model: RevisionFile, kind: 'index' },
+    { model: CameraBody, kind: 'index' },
+    { model: Rating, kind: 'ranking' },
+    { model: SetReport, kind: 'ranking' },
+    { model: ContentFlag, kind: 'ranking' },
+  ]);
 
   Part.belongsTo(User, { as: 'author', foreignKey: 'authorId' });
   AccountToken.belongsTo(User, { as: 'user', foreignKey: 'userId' });
