@@ -17,6 +17,10 @@ export interface WatchedModel {
   model: ModelStatic<Model>;
   kind: ShelfChangeKind;
   only?: string[];
+  /** A new row changes nothing search shows (drafts, files of a revision in review): not logged. */
+  skipCreate?: boolean;
+  /** For single-row updates: whether this row's change can show in search (e.g. it is published). */
+  when?: (row: Model, changed: string[]) => boolean;
 }
 
 async function record(model: ModelStatic<Model>, kind: ShelfChangeKind, transaction?: Transaction | null) {
@@ -29,15 +33,18 @@ async function record(model: ModelStatic<Model>, kind: ShelfChangeKind, transact
 
 /** Adds the hooks (again after each Model.init, which resets a model's hooks). */
 export function logShelfChanges(watched: WatchedModel[]): void {
-  for (const { model, kind, only } of watched) {
+  for (const { model, kind, only, skipCreate, when } of watched) {
     const touches = (fields: HookOptions['fields']) => !only || !fields || fields.some((f) => only.includes(String(f)));
-    model.addHook('afterCreate', 'shelfChanges', (_row: Model, options: HookOptions) => record(model, kind, options.transaction));
-    model.addHook('afterBulkCreate', 'shelfChanges', (_rows: Model[], options: HookOptions) => record(model, kind, options.transaction));
+    if (!skipCreate) {
+      model.addHook('afterCreate', 'shelfChanges', (_row: Model, options: HookOptions) => record(model, kind, options.transaction));
+      model.addHook('afterBulkCreate', 'shelfChanges', (_rows: Model[], options: HookOptions) => record(model, kind, options.transaction));
+    }
     model.addHook('afterDestroy', 'shelfChanges', (_row: Model, options: HookOptions) => record(model, kind, options.transaction));
     model.addHook('afterBulkDestroy', 'shelfChanges', (options: HookOptions) => record(model, kind, options.transaction));
     model.addHook('afterUpdate', 'shelfChanges', (row: Model, options: HookOptions) => {
-      const changed = row.changed();
-      if (only && !(changed && changed.some((f) => only.includes(f)))) return;
+      const changed = row.changed() || [];
+      if (only && !changed.some((f) => only.includes(f))) return;
+      if (when && !when(row, changed)) return;
       return record(model, kind, options.transaction);
     });
     model.addHook('afterBulkUpdate', 'shelfChanges', (options: HookOptions) => (touches(options.fields) ? record(model, kind, options.transaction) : undefined));

@@ -84,11 +84,13 @@ export function initModels(sequelize: Sequelize) {
   );
 
   // what search shows: each write also adds a shelf_changes row that every instance polls
+  // (only what can reach the published shelf: a submission, a draft's edits and its files do not)
+  const shown = (row: Model, changed: string[]) => row.get('status') === 'published' || changed.includes('status');
   logShelfChanges([
-    { model: Part, kind: 'index' },
-    { model: PartRevision, kind: 'index' },
-    { model: PartFile, kind: 'index', only: ['processing', 'renderStatus'] },
-    { model: RevisionFile, kind: 'index' },
+    { model: Part, kind: 'index', skipCreate: true, when: shown },
+    { model: PartRevision, kind: 'index', skipCreate: true, when: shown },
+    { model: PartFile, kind: 'index', skipCreate: true, only: ['processing', 'renderStatus'] },
+    { model: RevisionFile, kind: 'index', skipCreate: true },
     { model: CameraBody, kind: 'index' },
     { model: Rating, kind: 'ranking' },
     { model: SetReport, kind: 'ranking' },
