@@ -87,7 +87,7 @@ export function initModels(sequelize: Sequelize) {
   // (only what can reach the published shelf: a submission, a draft's edits and its files do not)
   const shown = (row: Model, changed: string[]) => row.get('status') === 'published' || changed.includes('status');
   logShelfChanges([
-    { model: Part, kind: 'index', skipCreate: true, when: shown },
+    { model: Part, kind: 'index', skipCreate: true, only: ['status', 'publishedRevisionId', 'publishedAt', 'crewId', 'slug'] },
     { model: PartRevision, kind: 'index', skipCreate: true, when: shown },
     { model: PartFile, kind: 'index', skipCreate: true, only: ['processing', 'renderStatus'] },
     { model: RevisionFile, kind: 'index', skipCreate: true },
