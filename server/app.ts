@@ -9,7 +9,7 @@ import { csrfSync } from 'csrf-sync';
 import helmet from 'helmet';
 import type { Sequelize } from 'sequelize';
 import type { Config } from './config';
-import { Session } from './db/models';
+import { PartFile, ReportPhoto, Session, WantedPhoto } from './db/models';
 import { apiNotFound, errorHandler } from './errors';
 import { absoluteSessionLifetime } from './middleware/auth';
 import { adminRoutes } from './modules/admin/routes';
@@ -18,6 +18,8 @@ import { authRoutes } from './modules/auth/routes';
 import { createAuthService } from './modules/auth/service';
 import { createTokenService } from './modules/auth/tokens';
 import { healthRoutes } from './modules/health/routes';
+import { createJobClaims } from './modules/jobs/claims';
+import { createJobRunner } from './modules/jobs/runner';
 import { createDatabaseWatch } from './modules/health/watch';
 import { closeCheckPool } from './modules/files/inspect';
 import { PhotoJobs } from './modules/files/photo-jobs';
@@ -122,12 +124,15 @@ export function createApp({ config, sequelize, mailer }: AppContext) {
   );
 
   const { storage, dirs } = createStorage(config);
-  const photos = new PhotoJobs(storage, new PhotoQueue());
+  // background work is claimed through the database, so several instances share it (modules/jobs)
+  const claims = createJobClaims(sequelize, { instanceId: config.INSTANCE_ID, leaseS: config.JOB_LEASE_S });
+  const photos = new PhotoJobs(storage, new PhotoQueue(), claims);
   // a new picture can be a part's cover in search results, which the index stores
-  const renders = config.MODEL_PICTURES ? new RenderJobs({ storage, onReady: () => search.scheduleRebuild() }) : undefined;
+  const renders = config.MODEL_PICTURES ? new RenderJobs({ storage, onReady: () => search.scheduleRebuild(), claims }) : undefined;
   const search = createSearchService({
     sequelize,
     indexFile: config.SEARCH_INDEX_FILE,
+    dbHosts: config.DB_HOSTS,
     ranking: (partIds) => evidence.rankFigures(partIds),
   });
   // a decision that puts a part on the shelf, replaces its published revision or retires it changes search
@@ -164,6 +169,18 @@ export function createApp({ config, sequelize, mailer }: AppContext) {
   const payments = createPayments(config);
   const printRequests = createPrintRequestsService({ sequelize, mail: mailer, publicUrl: config.PUBLIC_URL, planning, payments });
 
+  const jobs = createJobRunner({
+    sequelize,
+    claims,
+    busy: () => photos.busy + (renders?.busy ?? 0),
+    async takePhotos(table, ids) {
+      if (table === 'part_files') parts.takeOver(await PartFile.findAll({ where: { id: ids } }));
+      else if (table === 'wanted_photos') wanted.resume(await WantedPhoto.findAll({ where: { id: ids } }));
+      else for (const row of await ReportPhoto.findAll({ where: { id: ids } })) photos.clean(row, () => ReportPhoto.findByPk(row.id));
+    },
+    takeRenders: renders ? async (ids) => parts.takeOver(await PartFile.findAll({ where: { id: ids } })) : undefined,
+  });
+
   const tokens = createTokenService({ config, mailer });
   const auth = createAuthService(config, tokens);
   const passport = createPassport(auth);
@@ -181,7 +198,7 @@ export function createApp({ config, sequelize, mailer }: AppContext) {
   });
   app.use('/api', csrfSynchronisedProtection);
 
-  app.use('/api/auth', authRoutes({ config, auth, passport, csrfToken: generateToken, tokens }));
+  app.use('/api/auth', authRoutes({ config, auth, passport, csrfToken: generateToken, tokens, sequelize }));
   app.use('/api/admin/mail', mailAdminRoutes(mailer));
   app.use('/api/admin', adminRoutes({ onBodiesChanged: () => search.scheduleRebuild() }));
   // the fake's mailbox exists only in development; elsewhere it is an unknown path (404)
@@ -234,9 +251,10 @@ export function createApp({ config, sequelize, mailer }: AppContext) {
 
   return {
     app,
-    services: { parts, review, evidence, dirs, storage, search, wanted, crews, printRequests, payments },
+    services: { parts, review, evidence, dirs, storage, search, wanted, crews, printRequests, payments, jobs, claims },
     /** Waits for photo work in hand, then stops the worker pools and the session store's expiry sweep. */
     async close() {
+      await jobs.close();
       // pictures waiting are left for the next start at once; photos in hand are finished meanwhile
       await Promise.all([
         renders?.close(),

@@ -1,5 +1,6 @@
 // The one place that reads the server's environment. Validated at start-up: a bad value stops the
 // process with a message that names the variable.
+import { hostname } from 'node:os';
 import { resolve } from 'node:path';
 import { z } from 'zod';
 
@@ -16,6 +17,31 @@ const schema = z
     PORT: z.coerce.number().int().min(0).max(65535).default(3000),
     DB_HOST: z.string().default('127.0.0.1'),
     DB_PORT: z.coerce.number().int().min(1).max(65535).default(3307),
+    /**
+     * External MariaDB servers (a Galera cluster's nodes), "host:port,host:port": when set the app
+     * connects to the first that answers, fails over to the next when it goes away, and
+     * `npm start` starts no MariaDB of its own. DB_HOST/DB_PORT are then not used.
+     */
+    DB_HOSTS: z
+      .string()
+      .optional()
+      .transform((v, ctx) => {
+        if (v === undefined || v.trim() === '') return undefined;
+        const hosts = v.split(',').map((h) => h.trim()).filter(Boolean).map((h) => {
+          const m = /^(\[[^\]]+\]|[^:\s]+):(\d{1,5})$/.exec(h);
+          const port = m ? Number(m[2]) : 0;
+          if (!m || port < 1 || port > 65535) {
+            ctx.addIssue({ code: 'custom', message: `"${h}" is not host:port (e.g. 10.0.0.5:3306)` });
+            return { host: '', port: 0 };
+          }
+          return { host: m[1].replace(/^\[|\]$/g, ''), port };
+        });
+        return hosts;
+      }),
+    /** This instance's name in job claims and leases (default hostname:pid); unique per running instance. */
+    INSTANCE_ID: z.string().min(1).max(100).default(`${hostname()}:${process.pid}`),
+    /** How long a claimed background job stays with its instance without a heartbeat before another takes it over. */
+    JOB_LEASE_S: z.coerce.number().int().min(2).max(3600).default(30),
     DB_NAME: z.string().regex(/^[A-Za-z0-9_]+$/, 'letters, digits and _ only').default('rigshelf'),
     DB_USER: z.string().default('rigshelf'),
     DB_PASSWORD: z.string().min(1, 'DB_PASSWORD is required'),

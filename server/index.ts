@@ -6,7 +6,7 @@ import { createApp } from './app';
 import { loadConfig, type Config } from './config';
 import { migrate } from './db/migrator';
 import { seedDemo } from './demo/seed';
-import { createSequelize } from './db/sequelize';
+import { createSequelize, databaseAddress } from './db/sequelize';
 import { StartupError, waitForDatabase } from './db/wait';
 import { logLoopLag } from './loop-lag';
 import { trackConnections } from './shutdown';
@@ -25,6 +25,9 @@ export interface RunningServer {
   close(options?: { drainMs?: number }): Promise<void>;
 }
 
+/** With other instances up, the start-up sweep removes only files untouched for this long. */
+export const SWEEP_GRACE_WITH_OTHERS_MS = 60 * 60_000;
+
 /** Time left for requests in flight: the shutdown timeout less up to 3 s for closing the rest. */
 export function drainBudgetMs(shutdownTimeoutMs: number): number {
   return shutdownTimeoutMs - Math.min(3000, shutdownTimeoutMs * 0.3);
@@ -34,7 +37,7 @@ export async function startServer(config: Config): Promise<RunningServer> {
   for (const warning of config.warnings) console.warn(`rigshelf: warning: ${warning}`);
   keepRunningOnUnhandledRejections();
   const sequelize = createSequelize(config);
-  await waitForDatabase(sequelize, { host: config.DB_HOST, port: config.DB_PORT, waitSeconds: config.DB_WAIT_S });
+  await waitForDatabase(sequelize, { host: config.DB_HOST, port: config.DB_PORT, address: databaseAddress(config), waitSeconds: config.DB_WAIT_S });
   const migrations = await migrate(sequelize);
   if (migrations.length) console.log(`rigshelf: migrations applied: ${migrations.join(', ')}`);
 
@@ -44,7 +47,13 @@ export async function startServer(config: Config): Promise<RunningServer> {
   }
   const built = createApp({ config, sequelize, mailer });
   const payFake = await built.services.payments.fake();
-  const recovered = await built.services.parts.recover();
+  // Files another instance is writing right now are newer than this process; with other instances
+  // up, the sweep leaves anything from the last hour alone (an upload and its commit take seconds).
+  await built.services.jobs.announce();
+  const others = await built.services.claims.othersAlive();
+  const minAgeMs = others ? SWEEP_GRACE_WITH_OTHERS_MS : Math.max(0, Date.now() - performance.timeOrigin);
+  if (!others) await built.services.claims.expireOthers();
+  const recovered = await built.services.parts.recover({ minAgeMs });
   if (recovered.removed || recovered.resumed) {
     console.log(`rigshelf: upload sweep removed ${recovered.removed} orphaned file(s), resumed ${recovered.resumed} photo(s)`);
   }
@@ -69,6 +78,7 @@ export async function startServer(config: Config): Promise<RunningServer> {
     throw err;
   }
   mailer.start();
+  built.services.jobs.start();
   // refunds that were due when the server last stopped (after listen: the fake's webhook needs us up)
   void built.services.printRequests.resumeRefunds().then((n) => n && console.log(`rigshelf: ${n} due refund(s) retried`));
   const lag = config.LOOP_LAG_LOG_S ? logLoopLag(config.LOOP_LAG_LOG_S) : null;

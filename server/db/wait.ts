@@ -46,6 +46,8 @@ function brief(err: unknown): string {
 export interface WaitOptions {
   host: string;
   port: number;
+  /** How the database is named in messages (default host:port; DB_HOSTS lists several). */
+  address?: string;
   /** Give up after this many seconds. */
   waitSeconds: number;
   log?: (line: string) => void;
@@ -54,7 +56,8 @@ export interface WaitOptions {
 }
 
 export async function waitForDatabase(sequelize: Sequelize, options: WaitOptions): Promise<void> {
-  const { host, port, waitSeconds } = options;
+  const { waitSeconds } = options;
+  const where = options.address ?? `${options.host}:${options.port}`;
   const log = options.log ?? ((line) => console.log(`rigshelf: ${line}`));
   const giveUpAt = Date.now() + waitSeconds * 1000;
   let delay = options.firstDelayMs ?? 250;
@@ -62,17 +65,17 @@ export async function waitForDatabase(sequelize: Sequelize, options: WaitOptions
   for (;;) {
     try {
       await sequelize.authenticate();
-      if (waiting) log(`MariaDB at ${host}:${port} is up`);
+      if (waiting) log(`MariaDB at ${where} is up`);
       return;
     } catch (err) {
-      if (!isTransient(err)) throw new StartupError(`cannot use MariaDB at ${host}:${port}: ${brief(err)} (check DB_USER, DB_PASSWORD and DB_NAME)`);
+      if (!isTransient(err)) throw new StartupError(`cannot use MariaDB at ${where}: ${brief(err)} (check DB_USER, DB_PASSWORD and DB_NAME)`);
       if (Date.now() + delay > giveUpAt) {
         throw new StartupError(
-          `MariaDB at ${host}:${port} did not answer within ${waitSeconds} s (${brief(err)}); start it (npm start does) or check DB_HOST and DB_PORT`,
+          `MariaDB at ${where} did not answer within ${waitSeconds} s (${brief(err)}); start it (npm start does) or check DB_HOST and DB_PORT (or DB_HOSTS)`,
         );
       }
       if (!waiting) {
-        log(`waiting for MariaDB at ${host}:${port}… (giving up after ${waitSeconds} s)`);
+        log(`waiting for MariaDB at ${where}… (giving up after ${waitSeconds} s)`);
         waiting = true;
       }
       await new Promise((r) => setTimeout(r, delay * (0.75 + Math.random() * 0.5)));

@@ -2,7 +2,7 @@
 // app's services, so demo data obeys the real rules. They live outside server/db/ because they use
 // the services, and the database layer must not.
 import type { Sequelize } from 'sequelize';
-import { runSteps, type MigrationContext, type MigrationFn } from '../db/migrator';
+import { runSteps, withSchemaLock, type MigrationContext, type MigrationFn } from '../db/migrator';
 import type { EvidenceService } from '../modules/evidence/service';
 import type { UploadDirs } from '../modules/files/storage';
 import type { PartsService } from '../modules/parts/service';
@@ -27,6 +27,6 @@ export type SeedFn = MigrationFn<SeedContext>;
 /** Runs the demo seeders that have not run on this database yet (up to and including `to`, a seeder's name). */
 export async function seedDemo(sequelize: Sequelize, services: SeedServices, options: { to?: string } = {}): Promise<string[]> {
   const seeders = runSteps<SeedContext>(import.meta.dirname, 'schema_seeds', { queryInterface: sequelize.getQueryInterface(), sequelize, services });
-  const done = await seeders.up(options.to ? { to: options.to } : {});
+  const done = await withSchemaLock(sequelize, () => seeders.up(options.to ? { to: options.to } : {}));
   return done.map((m) => m.name);
 }

@@ -17,6 +17,14 @@ try {
   process.exit(1);
 }
 
+// DB_HOSTS names external servers (a Galera cluster): no MariaDB of our own is started or stopped
+if (config.DB_HOSTS) {
+  db.start = async () => undefined;
+  db.provision = async () => undefined;
+  db.stop = async () => undefined;
+  db.signalStop = () => undefined;
+}
+
 // A signal during start-up stops MariaDB too; after start-up closeOnSignals takes over.
 let serving = false;
 const duringStartup = (signal: NodeJS.Signals) => {

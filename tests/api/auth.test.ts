@@ -1,5 +1,5 @@
 import request from 'supertest';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { afterAll, beforeAll, beforeEach, describe, expect, it } from 'vitest';
 import { SESSION_COOKIE } from '../../server/app';
 import { loadConfig } from '../../server/config';
 import { Session } from '../../server/db/models';
@@ -13,6 +13,11 @@ beforeAll(async () => {
 });
 afterAll(async () => {
   await t.close();
+});
+// the counters live in the database, shared by every app built over it (as by every instance):
+// each test starts with none, whatever limits the apps of earlier tests had
+beforeEach(async () => {
+  await t.sequelize.query('DELETE FROM rate_limits');
 });
 
 function sessionCookie(res: request.Response): string | undefined {

@@ -2,7 +2,7 @@ import { createHash } from 'node:crypto';
 import { createServer, type AddressInfo } from 'node:net';
 import nodemailer from 'nodemailer';
 import request from 'supertest';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { afterAll, beforeAll, beforeEach, describe, expect, it } from 'vitest';
 import type { MailboxMessage, OutboxItem, Role } from '@shared/types';
 import { loadConfig } from '../../server/config';
 import { AccountToken, MailMessage, User } from '../../server/db/models';
@@ -18,6 +18,10 @@ beforeAll(async () => {
 });
 afterAll(async () => {
   await t.close();
+});
+// rate-limit counters live in the database, shared by every app built over it: each test starts with none
+beforeEach(async () => {
+  await t.sequelize.query('DELETE FROM rate_limits');
 });
 
 let n = 0;

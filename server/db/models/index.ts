@@ -1,5 +1,6 @@
 // Every model is initialised here and every association is declared here, in one place.
 import { DataTypes, Model, type Sequelize } from 'sequelize';
+import { logShelfChanges } from '../shelf-changes';
 import { AccountToken, initAccountToken } from './account-token';
 import { AuditEvent, initAuditEvent } from './audit-event';
 import { Build, initBuild } from './build';
@@ -81,6 +82,20 @@ export function initModels(sequelize: Sequelize) {
     },
     { sequelize, tableName: 'revision_files', modelName: 'RevisionFile', timestamps: false },
   );
+
+  // what search shows: each write also adds a shelf_changes row that every instance polls
+  // (only what can reach the published shelf: a submission, a draft's edits and its files do not)
+  const shown = (row: Model, changed: string[]) => row.get('status') === 'published' || changed.includes('status');
+  logShelfChanges([
+    { model: Part, kind: 'index', skipCreate: true, only: ['status', 'publishedRevisionId', 'publishedAt', 'crewId', 'slug'] },
+    { model: PartRevision, kind: 'index', skipCreate: true, when: shown },
+    { model: PartFile, kind: 'index', skipCreate: true, only: ['processing', 'renderStatus'] },
+    { model: RevisionFile, kind: 'index', skipCreate: true },
+    { model: CameraBody, kind: 'index' },
+    { model: Rating, kind: 'ranking' },
+    { model: SetReport, kind: 'ranking' },
+    { model: ContentFlag, kind: 'ranking' },
+  ]);
 
   Part.belongsTo(User, { as: 'author', foreignKey: 'authorId' });
   AccountToken.belongsTo(User, { as: 'user', foreignKey: 'userId' });

@@ -13,6 +13,8 @@ export class MailMessage extends Model<InferAttributes<MailMessage>, InferCreati
   declare lastError: string | null;
   declare nextAttemptAt: Date;
   declare sentAt: Date | null;
+  /** The instance delivering it now (with nextAttemptAt as its lease), null between tries. */
+  declare claimedBy: CreationOptional<string | null>;
   declare createdAt: CreationOptional<Date>;
   declare updatedAt: CreationOptional<Date>;
 
@@ -43,6 +45,7 @@ export function initMailMessage(sequelize: Sequelize) {
       lastError: { type: DataTypes.STRING(1000), allowNull: true },
       nextAttemptAt: { type: DataTypes.DATE, allowNull: false },
       sentAt: { type: DataTypes.DATE, allowNull: true },
+      claimedBy: { type: DataTypes.STRING(100), allowNull: true },
       createdAt: DataTypes.DATE,
       updatedAt: DataTypes.DATE,
     },

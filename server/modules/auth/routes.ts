@@ -1,5 +1,5 @@
 import { Router, type NextFunction, type Request, type RequestHandler, type Response } from 'express';
-import { rateLimit } from 'express-rate-limit';
+import { rateLimit, type Store } from 'express-rate-limit';
 import { slowDown } from 'express-slow-down';
 import type { createPassport } from './passport';
 import {
@@ -9,11 +9,13 @@ import {
   registerSchema,
   verifyEmailSchema,
 } from '@shared/schemas/auth';
+import type { Sequelize } from 'sequelize';
 import type { Config } from '../../config';
 import type { User } from '../../db/models';
 import { AppError } from '../../errors';
 import { currentUser, requireAuth } from '../../middleware/auth';
 import { handler, validate, validatedBody } from '../../middleware/validate';
+import { MariaDbRateStore } from './rate-store';
 import type { AuthService } from './service';
 import { ACCOUNT_ANSWER_FLOOR_MS, evenTiming, registrationMessage } from './service';
 import { RESET_REQUESTED_MESSAGE, TOKEN_LIFETIME_MS, type TokenService } from './tokens';
@@ -24,6 +26,8 @@ interface Deps {
   passport: ReturnType<typeof createPassport>;
   csrfToken: (req: Request, overwrite?: boolean) => string;
   tokens: TokenService;
+  /** Where the counters live: in MariaDB (shared by every instance) when given, else in this process. */
+  sequelize?: Sequelize;
 }
 
 /** Each failed sign-in from a network address past the free allowance waits this much longer… */
@@ -57,18 +61,22 @@ function endSession(req: Request, res: Response): Promise<void> {
   );
 }
 
-export function authRoutes({ config, auth, passport, csrfToken, tokens }: Deps) {
+export function authRoutes({ config, auth, passport, csrfToken, tokens, sequelize }: Deps) {
   const router = Router();
   const windowMs = config.LOGIN_LIMIT_WINDOW_MIN * 60_000;
   const minutes = `${config.LOGIN_LIMIT_WINDOW_MIN} minutes`;
 
+  const store = (name: string): { store?: Store } => (sequelize ? { store: new MariaDbRateStore(sequelize, `${name}:`) } : {});
+
   /** One counter per key (the IP address unless `key` says otherwise), answering 429 with `message`. */
   const limiter = (
+    name: string,
     limit: number,
     message: string,
     options: { key?: (req: Request, res: Response) => string; onlyFailures?: boolean; handler?: RequestHandler } = {},
   ) =>
     rateLimit({
+      ...store(name),
       windowMs,
       limit,
       standardHeaders: 'draft-8',
@@ -90,20 +98,21 @@ export function authRoutes({ config, auth, passport, csrfToken, tokens }: Deps) 
   // answer never tells a correct password apart from a wrong one.
   const signInRefused = `Too many sign-in attempts from this network. Wait ${minutes} and try again.`;
   const perIpDelay = slowDown({
+    ...store('login-delay'),
     windowMs,
     delayAfter: Math.max(1, Math.floor(config.LOGIN_LIMIT_PER_IP / 10)),
     delayMs: (used, req) => (used - req.slowDown.limit) * LOGIN_DELAY_STEP_MS,
     maxDelayMs: LOGIN_DELAY_MAX_MS,
     skipSuccessfulRequests: true,
   });
-  const perIp = limiter(config.LOGIN_LIMIT_PER_IP, signInRefused, {
+  const perIp = limiter('login-ip', config.LOGIN_LIMIT_PER_IP, signInRefused, {
     onlyFailures: true,
     handler: (_req, res, next) => {
       res.locals.ipOverLimit = true;
       next();
     },
   });
-  const perAccount = limiter(config.LOGIN_LIMIT_PER_ACCOUNT, `Too many failed sign-ins for this account. Wait ${minutes} or reset your password.`, {
+  const perAccount = limiter('login-account', config.LOGIN_LIMIT_PER_ACCOUNT, `Too many failed sign-ins for this account. Wait ${minutes} or reset your password.`, {
     key: (_req, res) => `account:${emailOf(res)}`,
     onlyFailures: true,
   });
@@ -111,13 +120,13 @@ export function authRoutes({ config, auth, passport, csrfToken, tokens }: Deps) 
   const accountUnderAttack = async (res: Response) => ((await perAccount.getKey(`account:${emailOf(res)}`))?.totalHits ?? 0) > 1;
 
   // mail-sending routes (registration, reset requests): per network address and per target address
-  const mailPerIp = (what: string) => limiter(config.MAIL_LIMIT_PER_IP, `Too many ${what} from this network. Wait ${minutes} and try again.`);
-  const perAddress = (prefix: string, message: string) => limiter(config.LOGIN_LIMIT_PER_ACCOUNT, message, { key: (_req, res) => `${prefix}:${emailOf(res)}` });
-  const registerPerIp = mailPerIp('new accounts');
+  const mailPerIp = (name: string, what: string) => limiter(name, config.MAIL_LIMIT_PER_IP, `Too many ${what} from this network. Wait ${minutes} and try again.`);
+  const perAddress = (prefix: string, message: string) => limiter(`${prefix}-address`, config.LOGIN_LIMIT_PER_ACCOUNT, message, { key: (_req, res) => `${prefix}:${emailOf(res)}` });
+  const registerPerIp = mailPerIp('register-ip', 'new accounts');
   const registerPerAddress = perAddress('register', `Too many sign-ups were tried with this address. Wait ${minutes}, then use the newest mail.`);
-  const resetPerIp = mailPerIp('password-reset attempts');
+  const resetPerIp = mailPerIp('reset-ip', 'password-reset attempts');
   const resetPerAddress = perAddress('reset', `Too many reset links were asked for this address. Wait ${minutes}, then use the newest mail.`);
-  const resendPerAccount = limiter(config.LOGIN_LIMIT_PER_ACCOUNT, `Too many confirmation mails were asked for. Wait ${minutes}, then use the newest mail.`, {
+  const resendPerAccount = limiter('resend', config.LOGIN_LIMIT_PER_ACCOUNT, `Too many confirmation mails were asked for. Wait ${minutes}, then use the newest mail.`, {
     key: (req) => `resend:${currentUser(req)?.id ?? ''}`,
   });
 

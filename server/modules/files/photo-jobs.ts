@@ -1,6 +1,7 @@
 // Keeps track of photo cleaning that is under way, whoever asked for it (parts or set reports), so
 // tests and shutdown can wait until every photo is done. Each try is counted on the row before it
 // starts, so a photo that fails twice (or took the process down twice) is marked failed for good.
+import { jobTableOf, MAX_LEASE_EXPIRIES, type JobClaims, type JobTable } from '../jobs/claims';
 import type { PhotoQueue } from './photo-queue';
 import type { PhotoResult } from './photo-worker';
 import { removeQuietly, type FileStorage, type LocalCopy } from './storage';
@@ -26,13 +27,24 @@ export class PhotoJobs {
   constructor(
     private readonly storage: FileStorage,
     private readonly queue: PhotoQueue,
+    private readonly claims?: JobClaims,
   ) {}
 
   clean(row: PhotoRow, reload: Reload): void {
-    const job: Promise<void> = this.cleanPhoto(row, reload)
+    const table = this.claims ? jobTableOf(row) : null;
+    const id = (row as { id?: number }).id;
+    const job: Promise<void> = this.cleanPhoto(row, reload, table && id ? { table, id } : null)
       .catch((err) => console.error(`photo ${row.storedName} could not be cleaned:`, err))
-      .finally(() => this.inFlight.delete(job));
+      .finally(() => {
+        this.inFlight.delete(job);
+        if (table && id) void this.claims!.release(table, id).catch(() => undefined);
+      });
     this.inFlight.add(job);
+  }
+
+  /** Photos being cleaned or waiting for their turn here. */
+  get busy(): number {
+    return this.inFlight.size;
   }
 
   async settled(): Promise<void> {
@@ -45,10 +57,11 @@ export class PhotoJobs {
   }
 
   /** Cleans a stored photo in the worker and records the outcome; the raw upload is removed once it is settled. */
-  private async cleanPhoto(row: PhotoRow, reload: Reload): Promise<void> {
+  private async cleanPhoto(row: PhotoRow, reload: Reload, job: { table: JobTable; id: number } | null): Promise<void> {
     const keys = keysOf({ kind: 'photo', storedName: row.storedName });
     const outputs = [keys.display, keys.thumbnail];
     const remove = (...k: (string | undefined)[]) => removeQuietly(this.storage, ...k);
+    let leaseExpiries = 0;
     for (;;) {
       const current = await reload();
       if (!current) {
@@ -56,10 +69,21 @@ export class PhotoJobs {
         return;
       }
       if (current.processing !== 'pending') return;
-      if (current.processingAttempts >= MAX_PHOTO_ATTEMPTS) {
+      if (job) {
+        const claim = await this.claims!.claim('photo', job.table, job.id);
+        // another instance holds it; it is taken over here only once that instance's lease runs out
+        if (!claim.claimed) return;
+        leaseExpiries = claim.leaseExpiries;
+      }
+      // a try whose instance died is counted in both; the ones that ran and failed are the difference
+      const ranAndFailed = current.processingAttempts - leaseExpiries;
+      if (ranAndFailed >= MAX_PHOTO_ATTEMPTS || leaseExpiries >= MAX_LEASE_EXPIRIES) {
         await remove(keys.original, ...outputs);
         await current.update({ processing: 'failed' });
-        console.error(`photo ${row.storedName}: marked failed after ${current.processingAttempts} attempts`);
+        console.error(
+          `photo ${row.storedName}: marked failed after ${current.processingAttempts} attempts` +
+            (leaseExpiries ? ` (${leaseExpiries} ended with their instance)` : ''),
+        );
         return;
       }
       await current.update({ processingAttempts: current.processingAttempts + 1 });

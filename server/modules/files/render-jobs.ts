@@ -5,6 +5,7 @@
 // `<storedName>-display.jpg` and `-thumb.jpg`, so the start-up sweep keeps them with their row.
 import type { PartFile } from '../../db/models';
 import type { RenderJob, RenderResult } from './render-model';
+import { MAX_LEASE_EXPIRIES, type JobClaims } from '../jobs/claims';
 import { removeQuietly, type FileStorage, type LocalCopy } from './storage';
 import type { StoredKeys } from './stored-files';
 import { WorkerClosedError, WorkerPool, type WorkerPoolOptions } from './worker-pool';
@@ -33,8 +34,10 @@ export class RenderJobs {
   private closed = false;
 
   /** `onReady`: a picture was drawn (search's stored thumbnails are refreshed from it). */
-  constructor(options: Partial<WorkerPoolOptions> & { storage: FileStorage; onReady?: (row: PartFile) => void }) {
-    const { onReady, storage, ...pool } = options;
+  /** `claims`: with several instances on one database, a picture is drawn by the one that claims it. */
+  constructor(options: Partial<WorkerPoolOptions> & { storage: FileStorage; onReady?: (row: PartFile) => void; claims?: JobClaims }) {
+    const { onReady, storage, claims, ...pool } = options;
+    this.claims = claims;
     this.onReady = onReady;
     this.storage = storage;
     this.pool = new WorkerPool({ ...RENDER_POOL, ...pool });
@@ -42,13 +45,22 @@ export class RenderJobs {
 
   private readonly onReady?: (row: PartFile) => void;
   private readonly storage: FileStorage;
+  private readonly claims?: JobClaims;
+
+  /** Pictures being drawn or waiting for their turn here. */
+  get busy(): number {
+    return this.inFlight.size;
+  }
 
   /** Queues the picture of a model whose row is waiting for one (`keys`: the model's, keysOf). */
   render(row: PartFile, keys: StoredKeys, reload: Reload): void {
     const job: Promise<void> = this.chain
       .then(() => (this.closed ? undefined : this.renderModel(row, keys, reload)))
       .catch((err) => console.error(`model ${row.storedName}: the picture could not be drawn:`, err))
-      .finally(() => this.inFlight.delete(job));
+      .finally(() => {
+        this.inFlight.delete(job);
+        if (this.claims) void this.claims.release('part_files', row.id).catch(() => undefined);
+      });
     this.chain = job;
     this.inFlight.add(job);
   }
@@ -107,7 +119,13 @@ export class RenderJobs {
         return;
       }
       if (current.renderStatus !== 'pending') return;
-      if (current.renderAttempts >= MAX_RENDER_ATTEMPTS) {
+      let leaseExpiries = 0;
+      if (this.claims) {
+        const claim = await this.claims.claim('render', 'part_files', row.id);
+        if (!claim.claimed) return; // another instance is drawing it
+        leaseExpiries = claim.leaseExpiries;
+      }
+      if (current.renderAttempts - leaseExpiries >= MAX_RENDER_ATTEMPTS || leaseExpiries >= MAX_LEASE_EXPIRIES) {
         await removeQuietly(this.storage, ...outputs);
         await current.update({ renderStatus: 'failed' });
         console.error(`model ${row.storedName}: no picture after ${current.renderAttempts} attempts`);

@@ -76,12 +76,15 @@ export async function createMailer({ config }: MailerDeps): Promise<Mailer> {
 
   async function deliver(row: MailMessage): Promise<void> {
     const now = new Date();
-    // claim the row, so a second loop (another process) does not send it too
+    // claim the row, so a second loop (another instance) does not send it too: one conditional
+    // UPDATE, so of two loops only one changes the row; nextAttemptAt is the lease, and a mail whose
+    // instance died mid-send is sent again once it passes (delivery is at least once)
     const [claimed] = await MailMessage.update(
-      { nextAttemptAt: new Date(now.getTime() + LEASE_MS) },
+      { nextAttemptAt: new Date(now.getTime() + LEASE_MS), claimedBy: config.INSTANCE_ID },
       { where: { id: row.id, status: 'queued', nextAttemptAt: { [Op.lte]: now } } },
     );
     if (!claimed) return;
+    if (row.claimedBy) console.log(`rigshelf: mail #${row.id}: taken over from ${row.claimedBy}, whose try did not finish`);
     const attempts = row.attempts + 1;
     try {
       await transport.sendMail({
@@ -94,7 +97,7 @@ export async function createMailer({ config }: MailerDeps): Promise<Mailer> {
       });
       // the bodies may hold one-time links: keep them no longer than needed
       await MailMessage.update(
-        { status: 'sent', attempts, sentAt: new Date(), lastError: null, textBody: null, htmlBody: null },
+        { status: 'sent', attempts, sentAt: new Date(), lastError: null, textBody: null, htmlBody: null, claimedBy: null },
         { where: { id: row.id } },
       );
     } catch (err) {
@@ -107,6 +110,7 @@ export async function createMailer({ config }: MailerDeps): Promise<Mailer> {
         {
           status: failed ? 'failed' : 'queued',
           attempts,
+          claimedBy: null,
           lastError,
           nextAttemptAt: new Date(Date.now() + backoffMs(attempts)),
         },

@@ -160,13 +160,19 @@ export function createPartsService({ sequelize, storage, sweepMinAgeMs, photos, 
 
   return {
     /** Clears what a crash left behind and resumes photos that were waiting to be cleaned. */
-    async recover() {
-      const { removed, pendingPhotos, pendingReportPhotos, pendingWantedPhotos, pendingRenders } = await sweepUploads(storage, { minAgeMs: sweepMinAgeMs });
+    async recover(options: { minAgeMs?: number } = {}) {
+      const minAgeMs = Math.max(options.minAgeMs ?? 0, sweepMinAgeMs ?? 0);
+      const { removed, pendingPhotos, pendingReportPhotos, pendingWantedPhotos, pendingRenders } = await sweepUploads(storage, { minAgeMs });
       onRecovered?.(pendingWantedPhotos);
       queuePhotos(pendingPhotos);
       for (const row of pendingReportPhotos) photos.clean(row, () => ReportPhoto.findByPk(row.id));
       queueRenders(pendingRenders);
       return { removed, resumed: pendingPhotos.length + pendingReportPhotos.length + pendingWantedPhotos.length, pictures: renders ? pendingRenders.length : 0 };
+    },
+
+    /** Photos and models claimed from an instance that went away (jobs/runner.ts). */
+    takeOver(rows: PartFile[]) {
+      queuePhotos(rows);
     },
 
     /** Resolves when every model picture queued so far is drawn (or has failed). */

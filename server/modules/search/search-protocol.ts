@@ -8,6 +8,8 @@ export interface DbSettings {
   password: string;
   host: string;
   port: number;
+  /** DB_HOSTS: the worker's connections follow the same failover as the app's. */
+  hosts?: { host: string; port: number }[];
 }
 
 export interface SearchWorkerData {

@@ -8,6 +8,7 @@ import { dirname } from 'node:path';
 import { parentPort, workerData } from 'node:worker_threads';
 import lunr from 'lunr';
 import { Sequelize } from 'sequelize';
+import { createHostChooser, useHosts } from '../../db/hosts';
 import { initModels } from '../../db/models';
 import { AppError } from '../../errors';
 import { loadBodies, loadDocuments, publishedFingerprint } from './documents';
@@ -46,6 +47,7 @@ function database(): Sequelize {
       pool: { max: 2, min: 0, acquire: 10_000, idle: 5_000 },
       define: { underscored: true },
     });
+    if (db.hosts?.length) useHosts(sequelize, createHostChooser(db.hosts));
     initModels(sequelize);
   }
   return sequelize;

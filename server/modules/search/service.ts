@@ -5,7 +5,7 @@
 // one stops once its last answer is out. A search that runs past its time stops its worker, which
 // is replaced from the saved file; that search gets a 503 and everyone else goes on.
 import { Worker } from 'node:worker_threads';
-import type { Sequelize } from 'sequelize';
+import { QueryTypes, type Sequelize } from 'sequelize';
 import type { SearchResponse } from '@shared/api/search';
 import type { SearchQuery } from '@shared/schemas/search';
 import { SEARCH_LIMITS } from '@shared/search/query';
@@ -23,7 +23,17 @@ export interface SearchServiceDeps {
   ranking?: (partIds: number[]) => Promise<Ranks>;
   /** How long one search may take, the worker's round trip included, before it is stopped (ms). */
   queryTimeoutMs?: number;
+  /**
+   * How often the shelf's change log (shelf_changes, written by every instance in the transaction of
+   * each change) is read, so changes made through other instances reach this index (ms; 0 = never).
+   */
+  changePollMs?: number;
+  /** DB_HOSTS, when the database is several servers. */
+  dbHosts?: { host: string; port: number }[];
 }
+
+/** Default poll of the change log: a change made elsewhere is in this instance's index within poll + rebuild delay + one build. */
+export const CHANGE_POLL_MS = 1000;
 
 const WORKER_URL = new URL('./search-worker.ts', import.meta.url).href;
 // Same start as the photo worker: load the TypeScript worker through tsx (works under tsx and vitest).
@@ -141,8 +151,16 @@ function dbSettings(sequelize: Sequelize): DbSettings {
   return { database: c.database, username: c.username, password: c.password ?? '', host: c.host ?? '127.0.0.1', port: Number(c.port) };
 }
 
-export function createSearchService({ sequelize, indexFile, rebuildDelayMs = 250, ranking, queryTimeoutMs = SEARCH_LIMITS.budgetMs * 3 }: SearchServiceDeps) {
-  const workerData: SearchWorkerData = { file: indexFile, db: dbSettings(sequelize) };
+export function createSearchService({
+  sequelize,
+  indexFile,
+  rebuildDelayMs = 250,
+  ranking,
+  queryTimeoutMs = SEARCH_LIMITS.budgetMs * 3,
+  changePollMs = CHANGE_POLL_MS,
+  dbHosts,
+}: SearchServiceDeps) {
+  const workerData: SearchWorkerData = { file: indexFile, db: { ...dbSettings(sequelize), ...(dbHosts && { hosts: dbHosts }) } };
   let ranks: Ranks = new Map();
   let rankRefresh: Promise<void> | null = null;
   let rankAgain = false;
@@ -157,6 +175,53 @@ export function createSearchService({ sequelize, indexFile, rebuildDelayMs = 250
   let idleWaiters: (() => void)[] = [];
   const starting = new Set<SearchWorker>();
   const stats: Omit<SearchStats, 'documents' | 'fingerprint' | 'builtAt'> = { builds: 0, loadsFromFile: 0, source: null, lastError: null };
+
+  // The change log as last seen, per kind: row count and highest id. Both, because on a Galera
+  // cluster ids from different nodes interleave, so a change can commit with an id below the highest.
+  const seen: Record<'index' | 'ranking', string | null> = { index: null, ranking: null };
+  let seenVersion = 0;
+  let pollTimer: NodeJS.Timeout | null = null;
+  let polling = false;
+  let pollFailing = false;
+
+  async function readChangeLog(): Promise<Record<'index' | 'ranking', string>> {
+    const rows = await sequelize.query<{ kind: 'index' | 'ranking'; n: number; top: number | null }>(
+      "SELECT kind, COUNT(*) AS n, MAX(id) AS top FROM shelf_changes WHERE kind IN ('index', 'ranking') GROUP BY kind",
+      { type: QueryTypes.SELECT },
+    );
+    const out = { index: '0:0', ranking: '0:0' };
+    for (const r of rows) out[r.kind] = `${Number(r.n)}:${r.top ?? 0}`;
+    return out;
+  }
+
+  /** One read of the change log: a move since the last read asks for a rebuild (or new ranking figures). */
+  async function pollChanges(): Promise<void> {
+    if (polling || closed) return;
+    polling = true;
+    const asOf = seenVersion;
+    try {
+      const now = await readChangeLog();
+      // a rebuild that started meanwhile read the log after this poll did: its reading stands
+      if (asOf !== seenVersion) return;
+      if (seen.index !== null && now.index !== seen.index) service.scheduleRebuild();
+      if (seen.ranking !== null && now.ranking !== seen.ranking) void refreshRanks();
+      seen.index = now.index;
+      seen.ranking = now.ranking;
+      if (pollFailing) console.log('rigshelf: the search change log is readable again');
+      pollFailing = false;
+    } catch (err) {
+      if (!pollFailing && !closed) console.error(`rigshelf: the search change log could not be read: ${(err as Error).message}`);
+      pollFailing = true;
+    } finally {
+      polling = false;
+    }
+  }
+
+  function startPolling() {
+    if (pollTimer || closed || changePollMs <= 0) return;
+    pollTimer = setInterval(() => void pollChanges(), changePollMs);
+    pollTimer.unref();
+  }
 
   /** Reloads the ranking figures for the parts the current index holds; calls close together share one. */
   function refreshRanks(): Promise<void> {
@@ -227,6 +292,15 @@ export function createSearchService({ sequelize, indexFile, rebuildDelayMs = 250
 
   /** Builds in a new worker unless the shelf is unchanged, then swaps it in. */
   async function rebuild() {
+    // the build reads the shelf after this, so it covers every change logged so far (this
+    // instance's own ones included, which then do not come back through the poll)
+    if (changePollMs > 0) {
+      const log = await readChangeLog().catch(() => null);
+      if (log) {
+        seen.index = log.index;
+        seenVersion += 1;
+      }
+    }
     const worker = spawn();
     try {
       const reply = await worker.run({ type: 'build', unless: current?.ready?.fingerprint ?? null });
@@ -262,6 +336,9 @@ export function createSearchService({ sequelize, indexFile, rebuildDelayMs = 250
           stats.lastError = null;
         } catch (err) {
           stats.lastError = (err as Error).message;
+          // the next poll that reads the change log asks again
+          seen.index = 'failed';
+          seenVersion += 1;
           if (!closed) console.error('rigshelf: search index rebuild failed; searches keep the previous index:', err);
         }
       }
@@ -279,6 +356,8 @@ export function createSearchService({ sequelize, indexFile, rebuildDelayMs = 250
      */
     start() {
       startup ??= (async () => {
+        // read before the build: a change committed while it runs shows up at the first poll
+        if (changePollMs > 0) await pollChanges();
         const worker = spawn();
         let reply: WorkerReply;
         try {
@@ -292,6 +371,7 @@ export function createSearchService({ sequelize, indexFile, rebuildDelayMs = 250
           throw new Error(`The search index could not be built: ${reply.type === 'failed' ? reply.error : reply.type}`);
         }
         swapIn(worker, reply);
+        startPolling();
         return { ...service.stats(), rebuiltBecause: reply.reason };
       })();
       return startup;
@@ -335,6 +415,8 @@ export function createSearchService({ sequelize, indexFile, rebuildDelayMs = 250
     /** Stops pending rebuilds and every worker thread. */
     async close(): Promise<void> {
       closed = true;
+      if (pollTimer) clearInterval(pollTimer);
+      pollTimer = null;
       if (timer) clearTimeout(timer);
       timer = null;
       const workers = [current, ...starting].filter((w): w is SearchWorker => !!w);
