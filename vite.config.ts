@@ -1,17 +1,44 @@
 /// <reference types="vitest/config" />
 import { fileURLToPath, URL } from 'node:url';
 import vue from '@vitejs/plugin-vue';
-import { defineConfig } from 'vite';
+import { defineConfig, type Plugin } from 'vite';
 import { VitePWA } from 'vite-plugin-pwa';
 
 const alias = {
   '@': fileURLToPath(new URL('./src', import.meta.url)),
   '@shared': fileURLToPath(new URL('./shared', import.meta.url)),
+  // virtual scrolling is never on: its slots only (src/theme/virtualscroller-off.ts)
+  'primevue/virtualscroller': fileURLToPath(new URL('./src/theme/virtualscroller-off.ts', import.meta.url)),
 };
+
+/**
+ * Moves the built stylesheet from <head> to the end of <body>: a stylesheet in the head holds back
+ * every paint until it arrives, one in the body only what follows it, so the header bar index.html
+ * draws is painted at once. The app's script still runs after the stylesheet has loaded (module
+ * scripts wait for the document's pending stylesheets), so the app never shows unstyled.
+ */
+function stylesheetAfterBootBar(): Plugin {
+  return {
+    name: 'rigshelf:stylesheet-after-boot-bar',
+    apply: 'build',
+    transformIndexHtml: {
+      order: 'post',
+      handler(html) {
+        const links: string[] = [];
+        const head = html.replace(/\s*<link rel="stylesheet"[^>]*>/g, (tag) => {
+          links.push(tag.trim());
+          return '';
+        });
+        return links.length ? head.replace('</body>', `  ${links.join('\n    ')}\n  </body>`) : html;
+      },
+    },
+  };
+}
 
 export default defineConfig({
   plugins: [
     vue(),
+    stylesheetAfterBootBar(),
     // installable app and the service worker for no signal on set (src/sw.ts, src/offline/)
     VitePWA({
       strategies: 'injectManifest',
