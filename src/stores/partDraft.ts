@@ -8,8 +8,7 @@ import type { z } from 'zod';
 import type { PartDetail } from '@shared/api/parts';
 import type { CategorySlug, MountSlug, SafetyFlags } from '@shared/catalogue';
 import { checkAdaptationLicence, isLicenceId, type LicenceId } from '@shared/licences';
-import { MeshError, type ModelFileAnalysis } from '@shared/mesh';
-import { analyseModel } from '@/meshAnalysis';
+import { MeshError, type ModelFileAnalysis } from '@shared/mesh/types';
 import { partSubmissionSchema, partUpdateSchema, type PartSubmission, type PartUpdate } from '@shared/schemas/part';
 import type { RecipeInput } from '@shared/schemas/recipe';
 import type { FileKind, PartFileInfo } from '@shared/types';
@@ -314,6 +313,7 @@ export const usePartDraftStore = defineStore('partDraft', () => {
     entry.analysing = true;
     entry.error = null;
     try {
+      const { analyseModel } = await import('@/meshAnalysis');
       entry.analysis = markRaw(await analyseModel(entry.file, { drawnInInches: drawnInInches.value }));
     } catch (err) {
       entry.analysis = null;

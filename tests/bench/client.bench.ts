@@ -144,7 +144,9 @@ try {
 
   const cookieFor = { visitor, member, moderator, admin };
   async function freshContext(as: Route['as']): Promise<BrowserContext> {
-    const context = await browser.newContext({ baseURL: base, viewport: { width: 1366, height: 800 } });
+    // no service worker: its install fetches every asset for offline use (not the page's first load),
+    // and once it controls the page the page's own fetches come from it and are not all reported
+    const context = await browser.newContext({ baseURL: base, viewport: { width: 1366, height: 800 }, serviceWorkers: 'block' });
     const cookie = cookieFor[as].cookie;
     if (cookie) {
       const [name, value] = cookie.split(/=(.*)/s);
