@@ -4,12 +4,14 @@ import vue from '@vitejs/plugin-vue';
 import { defineConfig, type Plugin } from 'vite';
 import { VitePWA } from 'vite-plugin-pwa';
 
-const alias = {
-  '@': fileURLToPath(new URL('./src', import.meta.url)),
-  '@shared': fileURLToPath(new URL('./shared', import.meta.url)),
-  // virtual scrolling is never on: its slots only (src/theme/virtualscroller-off.ts)
-  'primevue/virtualscroller': fileURLToPath(new URL('./src/theme/virtualscroller-off.ts', import.meta.url)),
-};
+const alias = [
+  { find: '@', replacement: fileURLToPath(new URL('./src', import.meta.url)) },
+  { find: '@shared', replacement: fileURLToPath(new URL('./shared', import.meta.url)) },
+  // parts of PrimeVue that are never switched on here, replaced by what they do when off
+  // (src/theme/virtualscroller-off.ts, src/theme/ripple-off.ts)
+  { find: /^primevue\/virtualscroller$/, replacement: fileURLToPath(new URL('./src/theme/virtualscroller-off.ts', import.meta.url)) },
+  { find: /^primevue\/ripple$/, replacement: fileURLToPath(new URL('./src/theme/ripple-off.ts', import.meta.url)) },
+];
 
 /**
  * Moves the built stylesheet from <head> to the end of <body>: a stylesheet in the head holds back

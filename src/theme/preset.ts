@@ -14,7 +14,6 @@ import menu from '@primeuix/themes/aura/menu';
 import message from '@primeuix/themes/aura/message';
 import multiselect from '@primeuix/themes/aura/multiselect';
 import password from '@primeuix/themes/aura/password';
-import ripple from '@primeuix/themes/aura/ripple';
 import select from '@primeuix/themes/aura/select';
 import selectbutton from '@primeuix/themes/aura/selectbutton';
 import skeleton from '@primeuix/themes/aura/skeleton';
@@ -75,7 +74,7 @@ const slateInk = {
 const Aura = {
   ...base,
   components: {
-    button, checkbox, chip, confirmdialog, dialog, iconfield, inputnumber, inputtext, menu, message, multiselect, password, ripple, select, selectbutton, skeleton, tabs, tag, textarea, toast, togglebutton, toggleswitch,
+    button, checkbox, chip, confirmdialog, dialog, iconfield, inputnumber, inputtext, menu, message, multiselect, password, select, selectbutton, skeleton, tabs, tag, textarea, toast, togglebutton, toggleswitch,
   },
   css,
 } as unknown as Parameters<typeof definePreset>[0]; // aura/css is typed as a named export but ships as the default
