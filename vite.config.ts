@@ -80,6 +80,9 @@ export default defineConfig({
   },
   build: {
     chunkSizeWarningLimit: 900,
+    // browsers without <link rel="modulepreload"> still load every chunk, only later; the polyfill would
+    // ride on every first load
+    modulePreload: { polyfill: false },
   },
   test: {
     projects: [
