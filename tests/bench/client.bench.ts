@@ -81,7 +81,7 @@ const browser = await chromium.launch({
 try {
   console.log('starting the server with the demo shelf…');
   // seeding the whole demo shelf takes minutes when other work shares the machine
-  server = await spawnServer(db.env, { CLIENT_DIST: join(ROOT, 'dist'), RIGSHELF_DEMO: '1' }, 'bench-client', 600_000);
+  server = await spawnServer(db.env, { CLIENT_DIST: join(ROOT, 'dist'), RIGSHELF_DEMO: '1' }, 'bench-client', 1_500_000);
   const base = server.url;
 
   const member = new Member(base);
@@ -220,7 +220,10 @@ try {
     await loadOnce(route); // warms the server (first query of a route, search worker), not the browser
     const loads: LoadFigures[] = [];
     for (let i = 0; i < (route.fcpTarget ? LOADS : OTHER_LOADS); i++) loads.push(await loadOnce(route));
-    const first = loads[0];
+    // on a busy machine a load now and then stops before the app has drawn the route (no heading):
+    // the figures come from the load that fetched the most, which is the route's whole first load
+    const first = loads.reduce((a, b) => (b.scripts.reduce((t, x) => t + x.gzip, 0) > a.scripts.reduce((t, x) => t + x.gzip, 0) ? b : a));
+    const unfinished = loads.filter((l) => l.headingMs === null).length;
     const raw = first.scripts.reduce((a, s) => a + s.raw, 0);
     const gzip = first.scripts.reduce((a, s) => a + s.gzip, 0);
     const wire = first.scripts.reduce((a, s) => a + s.wire, 0);
@@ -238,7 +241,7 @@ try {
       encodings,
       fcp.toFixed(0) + (route.fcpTarget && fcp > 600 ? ' (over 600)' : ''),
       `${Math.min(...fcps).toFixed(0)}–${Math.max(...fcps).toFixed(0)}`,
-      median(loads.map((l) => l.headingMs).filter((x): x is number => x !== null)).toFixed(0),
+      median(loads.map((l) => l.headingMs).filter((x): x is number => x !== null)).toFixed(0) + (unfinished ? ` (${unfinished} without)` : ''),
     ]);
     notes.push(`${route.name}: page Cache-Control "${first.documentCacheControl}", hashed asset Cache-Control "${first.assetCacheControl}"`);
     if (process.argv.includes('--files')) {
