@@ -1,17 +1,46 @@
 /// <reference types="vitest/config" />
 import { fileURLToPath, URL } from 'node:url';
 import vue from '@vitejs/plugin-vue';
-import { defineConfig } from 'vite';
+import { defineConfig, type Plugin } from 'vite';
 import { VitePWA } from 'vite-plugin-pwa';
 
-const alias = {
-  '@': fileURLToPath(new URL('./src', import.meta.url)),
-  '@shared': fileURLToPath(new URL('./shared', import.meta.url)),
-};
+const alias = [
+  { find: '@', replacement: fileURLToPath(new URL('./src', import.meta.url)) },
+  { find: '@shared', replacement: fileURLToPath(new URL('./shared', import.meta.url)) },
+  // parts of PrimeVue that are never switched on here, replaced by what they do when off
+  // (src/theme/virtualscroller-off.ts, src/theme/ripple-off.ts)
+  { find: /^primevue\/virtualscroller$/, replacement: fileURLToPath(new URL('./src/theme/virtualscroller-off.ts', import.meta.url)) },
+  { find: /^primevue\/ripple$/, replacement: fileURLToPath(new URL('./src/theme/ripple-off.ts', import.meta.url)) },
+];
+
+/**
+ * Moves the built stylesheet from <head> to the end of <body>: a stylesheet in the head holds back
+ * every paint until it arrives, one in the body only what follows it, so the header bar index.html
+ * draws is painted at once. The app's script still runs after the stylesheet has loaded (module
+ * scripts wait for the document's pending stylesheets), so the app never shows unstyled.
+ */
+function stylesheetAfterBootBar(): Plugin {
+  return {
+    name: 'rigshelf:stylesheet-after-boot-bar',
+    apply: 'build',
+    transformIndexHtml: {
+      order: 'post',
+      handler(html) {
+        const links: string[] = [];
+        const head = html.replace(/\s*<link rel="stylesheet"[^>]*>/g, (tag) => {
+          links.push(tag.trim());
+          return '';
+        });
+        return links.length ? head.replace('</body>', `  ${links.join('\n    ')}\n  </body>`) : html;
+      },
+    },
+  };
+}
 
 export default defineConfig({
   plugins: [
     vue(),
+    stylesheetAfterBootBar(),
     // installable app and the service worker for no signal on set (src/sw.ts, src/offline/)
     VitePWA({
       strategies: 'injectManifest',
@@ -51,6 +80,9 @@ export default defineConfig({
   },
   build: {
     chunkSizeWarningLimit: 900,
+    // browsers without <link rel="modulepreload"> still load every chunk, only later; the polyfill would
+    // ride on every first load
+    modulePreload: { polyfill: false },
   },
   test: {
     projects: [

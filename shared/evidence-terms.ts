@@ -1,5 +1,5 @@
 // The words of a set report (outcomes, conditions), apart from the statistics of shared/ranking.ts
-// and shared/evidence.ts, so the client's forms and lists load them without jStat.
+// and shared/evidence.ts, so the client's forms and lists load them without the statistics package.
 
 export const SET_REPORT_OUTCOMES = ['held-up', 'worn-but-working', 'deformed', 'cracked', 'failed'] as const;
 export type SetReportOutcome = (typeof SET_REPORT_OUTCOMES)[number];

@@ -1,11 +1,11 @@
 // Ranking parts by how they held up on set and by their star ratings.
-import jStat from 'jstat';
+import normalQuantile from '@stdlib/stats-base-dists-normal-quantile';
 import type { SetReportOutcome } from './evidence-terms';
 
 /** z such that a two-sided interval at `confidence` covers the standard normal between −z and z. */
 export function normalQuantileTwoSided(confidence: number): number {
   if (!(confidence > 0 && confidence < 1)) throw new RangeError('Confidence must be between 0 and 1.');
-  return jStat.normal.inv(1 - (1 - confidence) / 2, 0, 1);
+  return normalQuantile(1 - (1 - confidence) / 2, 0, 1);
 }
 
 /**

@@ -25,8 +25,7 @@ export const makeRecipeSchema = z
   .partial();
 export type MakeRecipe = z.infer<typeof makeRecipeSchema>;
 
-/** Print settings a made part is planned with unless the member picks others (common practice for sturdy small parts). */
-export const MADE_PART_RECIPE = { nozzleMm: 0.4, layerMm: 0.2, walls: 4, topBottomLayers: 5, infillPct: 40, speedMmS: 60 } as const;
+export { MADE_PART_RECIPE } from '../form-limits';
 
 export const makeRequestSchema = z.object({
   params: z.record(z.string(), z.unknown(), { error: 'Send the part’s sizes as "params", an object of fields.' }).default({}),

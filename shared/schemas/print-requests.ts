@@ -1,12 +1,13 @@
 // Print requests between crew members: asking, the steps, statements.
 import { z } from 'zod';
+import { MAX_REQUEST_QUANTITY, MAX_STATEMENT_FEES } from '../form-limits';
 import { MATERIAL_IDS } from '../materials';
 import { PRINT_REQUEST_ACTIONS } from '../print-requests';
 
 const positiveId = (what: string) =>
   z.number({ error: `Give the ${what} as a number.` }).int(`Give the ${what} as a whole number.`).positive(`Give the ${what} as a positive number.`);
 
-export const MAX_REQUEST_QUANTITY = 50;
+export { MAX_REQUEST_QUANTITY };
 
 export const printRequestSchema = z
   .object({
@@ -49,7 +50,7 @@ export const printRequestActionParamsSchema = printRequestParamsSchema.extend({
 
 // ---- statement -------------------------------------------------------------------------------
 
-export const MAX_STATEMENT_FEES = 20;
+export { MAX_STATEMENT_FEES };
 
 export const statementDetailsSchema = z.object({
   purchaseOrder: z.string({ error: 'The purchase-order number must be text.' }).trim().max(60, 'Keep the purchase-order number to 60 characters or fewer.').nullable().optional(),

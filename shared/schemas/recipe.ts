@@ -1,12 +1,8 @@
 import { z } from 'zod';
+import { INFILL_PATTERNS, MAX_LAYER_TO_NOZZLE, RECIPE_PURPOSES, SUPPORT_MODES } from '../form-limits';
 import { MATERIAL_IDS } from '../materials';
 
-export const RECIPE_PURPOSES = ['fit-test', 'set-ready'] as const;
-export const INFILL_PATTERNS = ['grid', 'lines', 'triangles', 'gyroid', 'honeycomb', 'cubic', 'concentric'] as const;
-export const SUPPORT_MODES = ['none', 'bed-only', 'everywhere'] as const;
-
-/** Layers thicker than about 80 % of the nozzle bond poorly (common practice). */
-export const MAX_LAYER_TO_NOZZLE = 0.8;
+export { INFILL_PATTERNS, MAX_LAYER_TO_NOZZLE, RECIPE_PURPOSES, SUPPORT_MODES };
 
 function maxLayerFor(nozzleMm: number): number {
   // Rounded to the micrometre so 0.4 mm gives 0.32, not 0.32000000000000006.

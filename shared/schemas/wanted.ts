@@ -7,7 +7,7 @@ export type WantedStatus = (typeof WANTED_STATUSES)[number];
 /** solved: an answer did it; withdrawn: no longer needed; spam: closed by a moderator as abuse. */
 export const WANTED_CLOSE_REASONS = ['solved', 'withdrawn', 'spam'] as const;
 export type WantedCloseReason = (typeof WANTED_CLOSE_REASONS)[number];
-export const MAX_WANTED_PHOTOS = 3;
+export { MAX_WANTED_PHOTOS } from '../form-limits';
 
 const isoDay = /^\d{4}-\d{2}-\d{2}$/;
 

@@ -1,5 +1,5 @@
 import { ref } from 'vue';
-import { kitItemPatchSchema, type KitItemPatch } from '@shared/schemas/planning';
+import type { KitItemPatch } from '@shared/schemas/planning';
 import type { KitRecipeRef } from '@shared/api/planning';
 import { useErrorToast } from '@/composables/useErrorToast';
 import { useFormErrors } from '@/composables/useFormErrors';
@@ -20,6 +20,8 @@ export function useKitItemPatch(itemId: () => number) {
   const busy = ref(false);
 
   async function apply(patch: KitItemPatch, what: string): Promise<boolean> {
+    // the schema (and zod) is fetched with the first change, not with the kit page
+    const { kitItemPatchSchema } = await import('@shared/schemas/planning');
     const valid = check(kitItemPatchSchema, patch);
     if (!valid) return false;
     busy.value = true;

@@ -3,10 +3,9 @@
 // (revoked when a file leaves), and, when editing, the files already on the part.
 import { computed, markRaw, reactive, ref, type Ref } from 'vue';
 import type { PartDetail } from '@shared/api/parts';
-import { MeshError, type ModelFileAnalysis } from '@shared/mesh';
+import { MeshError, type ModelFileAnalysis } from '@shared/mesh/types';
 import type { FileKind, PartFileInfo } from '@shared/types';
 import { UPLOAD_LIMITS } from '@shared/uploads';
-import { analyseModel } from '@/lib/meshAnalysis';
 import { formatBytes } from '@/lib/format';
 import { uid } from '@/stores/partDraftFields';
 
@@ -51,6 +50,7 @@ export function usePartDraftFiles(errors: Ref<Record<string, string>>) {
     entry.analysing = true;
     entry.error = null;
     try {
+      const { analyseModel } = await import('@/lib/meshAnalysis');
       entry.analysis = markRaw(await analyseModel(entry.file, { drawnInInches: drawnInInches.value }));
     } catch (err) {
       entry.analysis = null;

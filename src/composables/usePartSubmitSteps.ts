@@ -6,7 +6,8 @@ import { plural } from '@/lib/format';
 import { STEPS, usePartDraftStore, type StepKey } from '@/stores/partDraft';
 import { useVocabStore } from '@/stores/vocab';
 
-export function usePartSubmitSteps() {
+/** `prepare`: fetches a step's form before the flow moves to it (so the step never shows empty). */
+export function usePartSubmitSteps(prepare: (step: StepKey) => Promise<unknown> = async () => undefined) {
   const route = useRoute();
   const router = useRouter();
   const draft = usePartDraftStore();
@@ -36,6 +37,7 @@ export function usePartSubmitSteps() {
 
   async function go(step: StepKey) {
     if (step === current.value) return;
+    await prepare(step).catch(() => undefined);
     await router.push({ query: { ...route.query, step } });
   }
 

@@ -4,11 +4,14 @@ import { useIntervalFn, useOnline } from '@vueuse/core';
 import type { RatingInput, SetReportInput } from '@shared/schemas/evidence';
 import { isApiError, queuedApi } from '@/api';
 import { onStoredCopy } from '@/api/http';
-import * as queue from '@/offline/queue';
+import type * as Queue from '@/offline/queue';
 import { OFFLINE_CACHE, OFFLINE_IMAGE_CACHE } from '@/offline/routes';
 import { useAuthStore } from '@/stores/auth';
 
 const RETRY_MS = 30_000;
+
+// IndexedDB (idb) is opened only when a member's queue is read or written: a visitor's page never loads it
+const openQueue = () => import('@/offline/queue');
 
 /**
  * No signal on set: whether the browser is online, how old the copy on screen is ("as of"), and the
@@ -19,7 +22,7 @@ export const useOfflineStore = defineStore('offline', () => {
   const online = useOnline();
   /** The oldest stored copy shown since the page changed, ISO time. */
   const asOf = ref<string | null>(null);
-  const entries = ref<queue.QueuedEntry[]>([]);
+  const entries = ref<Queue.QueuedEntry[]>([]);
   const sending = ref(false);
   const lastSent = ref(0);
   let running: Promise<void> | null = null;
@@ -35,9 +38,9 @@ export const useOfflineStore = defineStore('offline', () => {
   const refused = computed(() => entries.value.filter((e) => e.problem));
 
   /** The signed-in member's entries: another member's wait for them to sign in again. */
-  async function mine(): Promise<queue.QueuedEntry[]> {
+  async function mine(): Promise<Queue.QueuedEntry[]> {
     const me = useAuthStore().user?.id;
-    return me === undefined ? [] : (await queue.all()).filter((e) => e.userId === me);
+    return me === undefined ? [] : (await (await openQueue()).all()).filter((e) => e.userId === me);
   }
 
   async function reload() {
@@ -52,7 +55,8 @@ export const useOfflineStore = defineStore('offline', () => {
     asOf.value = null;
   }
 
-  async function sendOne(entry: queue.QueuedEntry): Promise<'sent' | 'offline' | 'refused'> {
+  async function sendOne(entry: Queue.QueuedEntry): Promise<'sent' | 'offline' | 'refused'> {
+    const queue = await openQueue();
     try {
       if (entry.kind === 'report') await queuedApi.fileReport(entry.partId, entry.input, entry.photos, entry.key);
       else await queuedApi.rate(entry.partId, entry.input, entry.key);
@@ -97,6 +101,7 @@ export const useOfflineStore = defineStore('offline', () => {
   }
 
   async function queueReport(part: { id: number; slug: string; title: string }, input: SetReportInput, photos: File[]) {
+    const queue = await openQueue();
     await queue.put({
       key: queue.newKey(),
       userId: me(),
@@ -114,12 +119,13 @@ export const useOfflineStore = defineStore('offline', () => {
   }
 
   async function queueRating(part: { id: number; slug: string; title: string }, input: RatingInput) {
+    const queue = await openQueue();
     await queue.put({ key: queue.newKey(), userId: me(), kind: 'rating', partId: part.id, partSlug: part.slug, partTitle: part.title, input, writtenAt: new Date().toISOString(), problem: null });
     await reload();
   }
 
   async function drop(key: string) {
-    await queue.remove(key);
+    await (await openQueue()).remove(key);
     await reload();
   }
 

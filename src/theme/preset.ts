@@ -6,7 +6,6 @@ import button from '@primeuix/themes/aura/button';
 import checkbox from '@primeuix/themes/aura/checkbox';
 import chip from '@primeuix/themes/aura/chip';
 import confirmdialog from '@primeuix/themes/aura/confirmdialog';
-import datatable from '@primeuix/themes/aura/datatable';
 import dialog from '@primeuix/themes/aura/dialog';
 import iconfield from '@primeuix/themes/aura/iconfield';
 import inputnumber from '@primeuix/themes/aura/inputnumber';
@@ -14,10 +13,7 @@ import inputtext from '@primeuix/themes/aura/inputtext';
 import menu from '@primeuix/themes/aura/menu';
 import message from '@primeuix/themes/aura/message';
 import multiselect from '@primeuix/themes/aura/multiselect';
-import paginator from '@primeuix/themes/aura/paginator';
 import password from '@primeuix/themes/aura/password';
-import radiobutton from '@primeuix/themes/aura/radiobutton';
-import ripple from '@primeuix/themes/aura/ripple';
 import select from '@primeuix/themes/aura/select';
 import selectbutton from '@primeuix/themes/aura/selectbutton';
 import skeleton from '@primeuix/themes/aura/skeleton';
@@ -27,7 +23,6 @@ import textarea from '@primeuix/themes/aura/textarea';
 import toast from '@primeuix/themes/aura/toast';
 import togglebutton from '@primeuix/themes/aura/togglebutton';
 import toggleswitch from '@primeuix/themes/aura/toggleswitch';
-import virtualscroller from '@primeuix/themes/aura/virtualscroller';
 import { definePreset } from '@primeuix/themes';
 
 export const cycGreen = {
@@ -79,7 +74,7 @@ const slateInk = {
 const Aura = {
   ...base,
   components: {
-    button, checkbox, chip, confirmdialog, datatable, dialog, iconfield, inputnumber, inputtext, menu, message, multiselect, paginator, password, radiobutton, ripple, select, selectbutton, skeleton, tabs, tag, textarea, toast, togglebutton, toggleswitch, virtualscroller,
+    button, checkbox, chip, confirmdialog, dialog, iconfield, inputnumber, inputtext, menu, message, multiselect, password, select, selectbutton, skeleton, tabs, tag, textarea, toast, togglebutton, toggleswitch,
   },
   css,
 } as unknown as Parameters<typeof definePreset>[0]; // aura/css is typed as a named export but ships as the default

@@ -110,7 +110,7 @@ export interface ServerProcess {
  * Starts `node --import tsx server/index.ts` (the server started directly) against `dbEnv`,
  * and resolves once it says it is serving.
  */
-export async function spawnServer(dbEnv: Record<string, string>, extra: Record<string, string> = {}, label = 'server'): Promise<ServerProcess> {
+export async function spawnServer(dbEnv: Record<string, string>, extra: Record<string, string> = {}, label = 'server', startTimeoutMs = 120_000): Promise<ServerProcess> {
   const port = await freePort();
   const scratch = mkdtempSync(join(tmpdir(), `rigshelf-${label}-`));
   const uploadsDir = join(scratch, 'uploads');
@@ -166,7 +166,7 @@ export async function spawnServer(dbEnv: Record<string, string>, extra: Record<s
       if (process.env.RIGSHELF_SERVER_LOG) for (const text of parts) console.log(`[${label}] ${text}`);
     });
   }
-  const serving = await waitFor(() => proc.exit !== null || proc.lines.some((l) => l.text.startsWith('rigshelf: serving')), 120_000, 50);
+  const serving = await waitFor(() => proc.exit !== null || proc.lines.some((l) => l.text.startsWith('rigshelf: serving')), startTimeoutMs, 50);
   if (!serving || proc.exit) {
     const tail = proc.lines.slice(-20).map((l) => l.text).join('\n');
     await proc.dispose();

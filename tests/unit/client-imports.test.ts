@@ -58,6 +58,12 @@ describe('client imports', () => {
     }
   });
 
+  it('client import graph · zod · only with the submit flow, whose store checks each step as it is left', () => {
+    // forms import their schema in the submit handler (await import('@shared/schemas/…'))
+    const chain = reached.get('zod');
+    if (chain) expect(chain, `zod is imported through ${chain.join(' → ')}`).toContain('src/stores/partDraft.ts');
+  });
+
   it('client import graph · three.js and chart.js · only behind import()', () => {
     for (const lazy of ['three', 'chart.js']) {
       expect(reached.get(lazy), `${lazy} is imported through ${reached.get(lazy)?.join(' → ')}`).toBeUndefined();

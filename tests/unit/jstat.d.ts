@@ -1,4 +1,4 @@
-// The part of jStat (npm `jstat`, which ships no types) that Rigshelf uses.
+// The part of jStat (npm `jstat`, which ships no types) the tests use as a reference.
 declare module 'jstat' {
   interface NormalDistribution {
     /** Quantile function: the x with P(X ≤ x) = p. */
