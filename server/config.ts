@@ -2,8 +2,7 @@
 // process with a message that names the variable.
 import { resolve } from 'node:path';
 import { z } from 'zod';
-
-const root = resolve(import.meta.dirname, '..');
+import { root } from './root';
 
 const flag = z
   .enum(['0', '1', 'true', 'false', 'yes', 'no'])

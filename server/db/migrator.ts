@@ -30,12 +30,12 @@ export type MigrationFn = (ctx: { context: MigrationContext }) => Promise<void>;
 function stepsIn(folder: string) {
   const dir = resolve(import.meta.dirname, folder);
   return readdirSync(dir)
-    .filter((f) => /^\d{4}-[\w-]+\.ts$/.test(f))
+    .filter((f) => /^\d{4}-[\w-]+\.(ts|js)$/.test(f))
     .sort()
     .map((file) => {
       const load = () => import(resolve(dir, file)) as Promise<{ up: MigrationFn; down?: MigrationFn }>;
       return {
-        name: file.replace(/\.ts$/, ''),
+        name: file.replace(/\.(ts|js)$/, ''), // the same name from the sources and from dist-server/
         up: async (params: { context: MigrationContext }) => (await load()).up(params),
         down: async (params: { context: MigrationContext }) => (await load()).down?.(params),
       };

@@ -3,10 +3,9 @@
 import { Worker } from 'node:worker_threads';
 import type { SliceProfile } from '@shared/slice';
 import type { SliceJob, SliceResult } from './slice-worker';
+import { workerBootSource, workerModuleUrl } from '../../worker-module';
 
-const WORKER_URL = new URL('./slice-worker.ts', import.meta.url).href;
-// The worker is TypeScript: load it through tsx's loader, which works under tsx and vitest alike.
-const BOOT = `import('tsx/esm/api').then(({ register }) => { register(); return import(${JSON.stringify(WORKER_URL)}); })`;
+const BOOT = workerBootSource(workerModuleUrl('./slice-worker', import.meta.url));
 /** Profiles kept, newest last (our choice: a few recipes of a few parts). */
 const CACHE_SIZE = 32;
 
