@@ -76,7 +76,9 @@ export async function ensureServerBuilt({ force = false } = {}) {
   // a worker module still named by its .ts URL would fail only when its first task runs
   const stray = walk(out).filter((f) => f.endsWith('.js') && /\.ts["'`]\s*,\s*import\.meta\.url/.test(readFileSync(f, 'utf8')));
   if (stray.length > 0) {
-    throw new Error(`these compiled files name a .ts module beside them; use workerModuleUrl (server/worker-module.ts): ${stray.map((f) => relative(root, f)).join(', ')}`);
+    throw new Error(
+      `these compiled files name a .ts module beside them; use workerModuleUrl (server/worker-module.ts): ${stray.map((f) => relative(root, f)).join(', ')}`,
+    );
   }
   writeFileSync(stamp, new Date().toISOString());
   return true;
