@@ -58,5 +58,19 @@ export default defineConfig(
       'vue/no-mutating-props': ['error', { shallowOnly: true }],
     },
   },
+  {
+    files: ['tests/**/*.test.ts'],
+    rules: {
+      // test names read "unit · scenario · expectation" (titles written as plain strings; template
+      // titles of it.each tables are left to review)
+      'no-restricted-syntax': [
+        'error',
+        {
+          selector: "CallExpression[callee.name=/^(it|test)$/] > Literal.arguments:first-child:not([value=/^(?:(?! · ).)+ · (?:(?! · ).)+ · (?:(?! · ).)+$/])",
+          message: 'Name the test "unit · scenario · expectation".',
+        },
+      ],
+    },
+  },
   prettier,
 );
