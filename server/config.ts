@@ -3,8 +3,7 @@
 import { hostname } from 'node:os';
 import { resolve } from 'node:path';
 import { z } from 'zod';
-
-const root = resolve(import.meta.dirname, '..');
+import { root } from './root';
 
 const flag = z
   .enum(['0', '1', 'true', 'false', 'yes', 'no'])

@@ -18,12 +18,12 @@ export type MigrationFn<C extends MigrationContext = MigrationContext> = (ctx: {
 
 function stepsIn<C extends MigrationContext>(dir: string) {
   return readdirSync(dir)
-    .filter((f) => /^\d{4}-[\w-]+\.ts$/.test(f))
+    .filter((f) => /^\d{4}-[\w-]+\.(ts|js)$/.test(f))
     .sort()
     .map((file) => {
       const load = () => import(resolve(dir, file)) as Promise<{ up: MigrationFn<C>; down?: MigrationFn<C> }>;
       return {
-        name: file.replace(/\.ts$/, ''),
+        name: file.replace(/\.(ts|js)$/, ''), // the same name from the sources and from dist-server/
         up: async (params: { context: C }) => (await load()).up(params),
         down: async (params: { context: C }) => (await load()).down?.(params),
       };

@@ -3,9 +3,10 @@
 import { randomBytes } from 'node:crypto';
 import { existsSync, mkdirSync, readFileSync, writeFileSync } from 'node:fs';
 import { resolve } from 'node:path';
+import { root } from '../root';
 import { PrivateMariaDb } from './mariadb';
 
-export const root = resolve(import.meta.dirname, '../..');
+export { root };
 const varDir = resolve(root, 'var');
 
 interface LocalSecrets {

@@ -18,7 +18,7 @@ export function mountToken(slug: string): string {
  * written one way: number and unit fused, unit as mm, cm or in. Applied to the query and to the
  * indexed text alike, so "15mm" and "15 mm" are the same word.
  */
-const NUMBER_WITH_UNIT = /(?<![\w.\/-])(\d+(?:\.\d+)?(?:\/\d+)?)[ -]?(?:(mm|millimet(?:er|re)s?|cm|centimet(?:er|re)s?|inch(?:es)?|in)(?![a-z0-9])|("))/g;
+const NUMBER_WITH_UNIT = /(?<![\w./-])(\d+(?:\.\d+)?(?:\/\d+)?)[ -]?(?:(mm|millimet(?:er|re)s?|cm|centimet(?:er|re)s?|inch(?:es)?|in)(?![a-z0-9])|("))/g;
 const UNIT: Record<string, string> = { mm: 'mm', cm: 'cm', in: 'in', inch: 'in', '"': 'in' };
 
 export function fuseUnits(text: string): string {

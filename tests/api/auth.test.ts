@@ -62,7 +62,7 @@ describe('auth · register, sign in, me, sign out', () => {
     }
   });
 
-  it('signs in, answers me, signs out (204) and then me is 401', async () => {
+  it('auth · sign in, me, sign out · 204 and then me is 401', async () => {
     const { email, password } = await makeUser();
     const a = await agentFor(t.app);
     const login = await a.login(email, password);
@@ -85,7 +85,7 @@ describe('auth · register, sign in, me, sign out', () => {
     expect((await a.get('/api/auth/me')).status).toBe(401);
   });
 
-  it('answers a wrong password and an unknown e-mail with the same generic 401', async () => {
+  it('auth · a wrong password or an unknown e-mail · the same generic 401', async () => {
     const { email } = await makeUser();
     const a = await agentFor(t.app);
     const wrong = await a.login(email, 'not the password');
@@ -96,7 +96,7 @@ describe('auth · register, sign in, me, sign out', () => {
     expect(wrong.body.error.code).toBe('invalid_credentials');
   });
 
-  it('changes the session id at sign-in', async () => {
+  it('auth · sign-in · the session id changes', async () => {
     const { email, password } = await makeUser();
     const a = await agentFor(t.app);
     const before = sessionCookie(await a.agent.get('/api/auth/csrf'));
@@ -108,7 +108,7 @@ describe('auth · register, sign in, me, sign out', () => {
 });
 
 describe('auth · suspended accounts', () => {
-  it('refuses sign-in to a suspended account with a clear 403', async () => {
+  it('auth · sign-in to a suspended account · a clear 403', async () => {
     const { email, password } = await makeUser('member', { status: 'suspended' });
     const a = await agentFor(t.app);
     const res = await a.login(email, password);
@@ -116,7 +116,7 @@ describe('auth · suspended accounts', () => {
     expect(res.body.error.code).toBe('account_suspended');
   });
 
-  it('ends the open sessions of an account when an admin suspends it', async () => {
+  it('auth · an admin suspends an account · its open sessions end', async () => {
     const member = await makeUser();
     const admin = await makeUser('admin');
     const m = await agentFor(t.app);
@@ -128,7 +128,7 @@ describe('auth · suspended accounts', () => {
     expect((await m.get('/api/auth/me')).status).toBe(401);
   });
 
-  it('stops a session when the account is suspended behind its back (e.g. directly in the database)', async () => {
+  it('auth · account suspended behind its back (e.g. directly in the database) · the session stops', async () => {
     const member = await makeUser();
     const m = await agentFor(t.app);
     await m.login(member.email, member.password);
@@ -138,7 +138,7 @@ describe('auth · suspended accounts', () => {
 });
 
 describe('auth · sessions live in MariaDB', () => {
-  it('keeps a session across an app restart', async () => {
+  it('sessions · an app restart · the session is kept', async () => {
     const { email, password } = await makeUser();
     const a = await agentFor(t.app);
     const login = await a.login(email, password);
@@ -156,7 +156,7 @@ describe('auth · sessions live in MariaDB', () => {
 });
 
 describe('auth · CSRF', () => {
-  it('refuses a state-changing request without the token with 403 and a clear message', async () => {
+  it('CSRF · a state-changing request without the token · 403 with a clear message', async () => {
     const { email, password } = await makeUser();
     const a = await agentFor(t.app);
     const res = await a.agent.post('/api/auth/login').send({ email, password });
@@ -165,14 +165,14 @@ describe('auth · CSRF', () => {
     expect(res.body.error.message).toMatch(/X-CSRF-Token/);
   });
 
-  it('refuses a wrong token', async () => {
+  it('CSRF · a wrong token · refused', async () => {
     const a = await agentFor(t.app);
     const res = await a.agent.post('/api/auth/logout').set('X-CSRF-Token', 'not-the-token');
     expect(res.status).toBe(403);
     expect(res.body.error.code).toBe('csrf_invalid');
   });
 
-  it('refuses a token that belongs to another session', async () => {
+  it('CSRF · a token of another session · refused', async () => {
     const a = await agentFor(t.app);
     const b = await agentFor(t.app);
     const res = await a.agent.post('/api/auth/logout').set('X-CSRF-Token', b.token);
@@ -181,7 +181,7 @@ describe('auth · CSRF', () => {
 });
 
 describe('auth · rate limits', () => {
-  it('limits failed sign-ins per account with a clear 429', async () => {
+  it('sign-in limits · failed sign-ins on one account · a clear 429', async () => {
     const limited = await createTestApp({ LOGIN_LIMIT_PER_ACCOUNT: '3', LOGIN_LIMIT_PER_IP: '100' });
     try {
       const { email } = await makeUser();
@@ -380,7 +380,7 @@ describe('auth · session lifetime', () => {
 
 describe('config · start-up warnings', () => {
   const base = { ...process.env, SESSION_SECRET: 'x'.repeat(40), DB_PASSWORD: 'p', SMTP_FAKE: '1' };
-  it('TRUST_PROXY · unset in production · warns that cookies go out without Secure; set or not production · no warning', () => {
+  it('TRUST_PROXY · unset in production · warns that cookies go out without Secure; set or not production: no warning', () => {
     const prod = loadConfig({ ...base, NODE_ENV: 'production', TRUST_PROXY: undefined });
     expect(prod.TRUST_PROXY).toBe(false);
     expect(prod.warnings.join(' ')).toMatch(/TRUST_PROXY.*Secure/);
@@ -388,7 +388,7 @@ describe('config · start-up warnings', () => {
     expect(loadConfig({ ...base, NODE_ENV: 'development', TRUST_PROXY: undefined }).warnings).toEqual([]);
   });
 
-  it('defaults · the sign-in limit per network address is generous and sessions have an absolute end', () => {
+  it('config · defaults · the sign-in limit per network address is generous and sessions have an absolute end', () => {
     const c = loadConfig({ ...base, LOGIN_LIMIT_PER_IP: undefined, SESSION_ABSOLUTE_HOURS: undefined });
     expect(c.LOGIN_LIMIT_PER_IP).toBe(300);
     expect(c.SESSION_ABSOLUTE_HOURS).toBe(720);
@@ -396,7 +396,7 @@ describe('config · start-up warnings', () => {
 });
 
 describe('API errors', () => {
-  it('answers validation failures with 422 and a message per field', async () => {
+  it('API errors · a validation failure · 422 with a message per field', async () => {
     const a = await agentFor(t.app);
     const res = await a.post('/api/auth/register').send({ email: 'not-an-email', password: 'short' });
     expect(res.status).toBe(422);
@@ -409,13 +409,13 @@ describe('API errors', () => {
     });
   });
 
-  it('answers unknown API paths with a 404 JSON error', async () => {
+  it('API errors · an unknown API path · 404 JSON error', async () => {
     const res = await request(t.app).get('/api/no-such-thing');
     expect(res.status).toBe(404);
     expect(res.body).toEqual({ error: { code: 'not_found', message: 'There is no API endpoint GET /api/no-such-thing.' } });
   });
 
-  it('answers malformed JSON with 400', async () => {
+  it('API errors · malformed JSON · 400', async () => {
     const a = await agentFor(t.app);
     const res = await a.post('/api/auth/login').set('Content-Type', 'application/json').send('{"email":');
     expect(res.status).toBe(400);

@@ -26,7 +26,7 @@ describe('demo scenario · builds and wanted parts', () => {
     expect(carWeek.mounts.map((m) => m.slug)).toEqual(['rods-15-60', 'battery-v-style', 'screw-1-4-20', 'accessory-shoe', 'gear-0-8']);
   });
 
-  it('demo shelf · searched with the car-week build · best proven first · the receiver cradle (made for the KX-8) fits and leads, every fitting part before any other', async () => {
+  it('demo shelf · searched with the car-week build · best proven first: the receiver cradle (made for the KX-8) fits and leads, every fitting part before any other', async () => {
     const items = (await member.get('/api/builds').expect(200)).body.items as BuildInfo[];
     const id = items.find((b) => b.name === DEMO_BUILD_NAME)!.id;
     const res = (await member.get(`/api/search?build=${id}&sort=proven`).expect(200)).body as BuildSearchResponse;

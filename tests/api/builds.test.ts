@@ -159,7 +159,7 @@ describe('search · build=', () => {
     expect(res.body.results.map((r: { id: number }) => r.id).sort()).toEqual([shoeCover, cap].sort());
   });
 
-  it('GET /api/search?build= · another member’s build · 404; a visitor · 401; not a number · 422', async () => {
+  it('GET /api/search?build= · another member’s build · 404; a visitor: 401; not a number: 422', async () => {
     await other.get(`/api/search?q=clip&build=${id}`).expect(404);
     await moderator.get(`/api/search?q=clip&build=${id}`).expect(404);
     const visitor = await agentFor(t.app);

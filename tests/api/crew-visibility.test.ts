@@ -139,7 +139,7 @@ afterAll(async () => {
 });
 
 describe('crew-only parts · role matrix', () => {
-  it('part page by id and by slug · seen by the crew and moderators, 404 for everyone else', async () => {
+  it('crew-only parts · part page by id and by slug · seen by the crew and moderators, 404 for everyone else', async () => {
     for (const [who, agent, sees] of everyone()) {
       for (const key of [secret.id, secret.slug]) {
         const res = await agent.get(`/api/parts/${key}`);
@@ -149,7 +149,7 @@ describe('crew-only parts · role matrix', () => {
     }
   });
 
-  it('shelf list and search, with counts and facets · crew-only parts only for those who see them', async () => {
+  it('crew-only parts · shelf list and search, with counts and facets · crew-only parts only for those who see them', async () => {
     const totals = new Map<string, number>();
     for (const [who, agent, sees] of everyone()) {
       const list = await agent.get('/api/parts').expect(200);
@@ -176,13 +176,13 @@ describe('crew-only parts · role matrix', () => {
     expect(JSON.stringify(await facetsOf(outsider))).not.toBe(JSON.stringify(await facetsOf(crewMate)));
   });
 
-  it('search by camera build · the outsider never gets the crew part', async () => {
+  it('crew-only parts · search by camera build · the outsider never gets the crew part', async () => {
     const res = await outsider.get(`/api/search?build=${outsiderBuild}&q=receiver`).expect(200);
     expect(res.body.results.map((r: { id: number }) => r.id)).toContain(publicId);
     expect(leaks(res.body)).toBe(false);
   });
 
-  it('files: download, photo sizes and estimate by file id · 404 (or 401) outside the crew', async () => {
+  it('crew-only parts · files: download, photo sizes and estimate by file id · 404 (or 401) outside the crew', async () => {
     for (const [who, agent, sees] of everyone()) {
       const download = await agent.get(`/api/parts/${secret.id}/files/${secret.modelId}/download`);
       expect(download.status, `${who} download`).toBe(sees ? 200 : who === 'anonymous' ? 401 : 404);
@@ -199,7 +199,7 @@ describe('crew-only parts · role matrix', () => {
     }
   });
 
-  it('evidence, history and profiles · nothing about the crew part outside the crew', async () => {
+  it('crew-only parts · evidence, history and profiles · nothing about the crew part outside the crew', async () => {
     for (const [who, agent, sees] of everyone()) {
       for (const path of ['ratings', 'reports', 'proven']) {
         const res = await agent.get(`/api/parts/${secret.id}/${path}`);
@@ -214,7 +214,7 @@ describe('crew-only parts · role matrix', () => {
     }
   });
 
-  it('kits · the crew reads the whole kit, the outsider it was shared with sees only the open part', async () => {
+  it('crew-only parts · kits · the crew reads the whole kit, the outsider it was shared with sees only the open part', async () => {
     for (const [who, agent, sees] of everyone()) {
       if (who === 'anonymous') {
         expect((await agent.get(`/api/kits/${kitId}`)).status).toBe(401);
@@ -246,7 +246,7 @@ describe('crew-only parts · role matrix', () => {
     expect((await outsider.delete(`/api/kits/${kitId}/items/${hiddenItem}`)).status).toBe(404);
   });
 
-  it('wanted answers and notices · the crew part shows to the crew only', async () => {
+  it('crew-only parts · wanted answers and notices · the crew part shows to the crew only', async () => {
     for (const [who, agent, sees] of everyone()) {
       if (who === 'anonymous') continue;
       const res = await agent.get(`/api/wanted/${crewWanted}`).expect(200);
@@ -265,7 +265,7 @@ describe('crew-only parts · role matrix', () => {
     expect(outsiderMail.some((m) => leaks(m.text) || leaks(m.subject))).toBe(false);
   });
 
-  it('visibility · the author publishes to everyone and outsiders find it; back to the crew and they lose it', async () => {
+  it('crew-only parts · visibility · the author publishes to everyone and outsiders find it; back to the crew and they lose it', async () => {
     expect((await outsider.patch(`/api/parts/${secret.id}`).send({ visibility: 'everyone' })).status).toBe(404);
     expect((await crewMate.patch(`/api/parts/${secret.id}`).send({ visibility: 'everyone' })).status).toBe(403);
     const open = await author.patch(`/api/parts/${secret.id}`).send({ visibility: 'everyone' });
@@ -284,14 +284,14 @@ describe('crew-only parts · role matrix', () => {
     expect(gone.status).toBe(409);
   });
 
-  it('leaving the crew · a member who leaves loses the crew parts at once', async () => {
+  it('crew-only parts · leaving the crew · a member who leaves loses the crew parts at once', async () => {
     await crewMate.delete(`/api/crews/${crewId}/members/${crewMate.userId}`).expect(204);
     expect((await crewMate.get(`/api/parts/${secret.id}`)).status).toBe(404);
     expect((await crewMate.get(`/api/search?q=${SECRET_WORD}`).expect(200)).body.total).toBe(0);
     expect((await crewMate.get(`/api/kits/${kitId}`)).status).toBe(404);
   });
 
-  it('a moderator edits the crew part through the form · the unchanged visibility it sends is accepted', async () => {
+  it('crew-only parts · a moderator edits the crew part through the form · the unchanged visibility it sends is accepted', async () => {
     const res = await moderator.patch(`/api/parts/${secret.id}`).send({ summary: 'Holds the zephyrwick receiver on the Varrow rig’s 15 mm rods.', visibility: { crewId } });
     expect(res.status).toBe(200);
     expect(res.body.visibility).toMatchObject({ crewId });

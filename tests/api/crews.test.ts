@@ -153,7 +153,7 @@ describe('crews · lifecycle', () => {
 });
 
 describe('kits · shared with a whole crew', () => {
-  it('kit crew shares · only crews the owner is in; edit lets every member change items, read does not', async () => {
+  it('kits · kit crew shares · only crews the owner is in; edit lets every member change items, read does not', async () => {
     const owner = await signedIn();
     const crewId = (await owner.post('/api/crews').send({ name: 'Prep crew', currency: 'EUR' }).expect(201)).body.id;
     const mate = await signedIn();

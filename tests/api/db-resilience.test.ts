@@ -72,7 +72,7 @@ afterAll(async () => {
 });
 
 describe('parts · concurrent submissions', () => {
-  it('12 submissions at once, most with the same title · all 201, each stored exactly once', async () => {
+  it('parts · 12 submissions at once, most with the same title · all 201, each stored exactly once', async () => {
     const members = await Promise.all([1, 2, 3, 4].map(() => signedIn()));
     const before = { parts: await Part.count(), recipes: await Recipe.count(), bodies: await RevisionBody.count() };
     const titles = Array.from({ length: 12 }, (_, i) => (i < 9 ? 'Cheese plate for a follow focus' : `Rod clamp variant ${i}`));
@@ -95,7 +95,7 @@ describe('parts · concurrent submissions', () => {
 });
 
 describe('transactions · a deadlock is retried as a whole', () => {
-  it('a real InnoDB deadlock (two transactions locking two rows in opposite order) · the loser runs again, both commit', async () => {
+  it('transactions · a real InnoDB deadlock (two transactions locking two rows in opposite order) · the loser runs again, both commit', async () => {
     const [a, b] = [(await makeUser()).user.id, (await makeUser()).user.id];
     let arrived = 0;
     let release!: () => void;
@@ -118,7 +118,7 @@ describe('transactions · a deadlock is retried as a whole', () => {
     expect((await User.findByPk(a))!.displayName).toBe('Locked by the second');
   });
 
-  it('deadlock after the files were moved · 201, each file stored once, nothing left in tmp or orphaned', async () => {
+  it('transactions · deadlock after the files were moved · 201, each file stored once, nothing left in tmp or orphaned', async () => {
     const { agent } = await signedIn();
     const partsBefore = await Part.count();
     const spy = vi.spyOn(AuditEvent, 'create').mockRejectedValueOnce(deadlock());
@@ -134,7 +134,7 @@ describe('transactions · a deadlock is retried as a whole', () => {
     expect(actual).toEqual(expected);
   });
 
-  it('deadlock after the moderators\' mail was queued · the mail is queued once', async () => {
+  it('transactions · deadlock after the moderators\' mail was queued · the mail is queued once', async () => {
     const { agent } = await signedIn();
     const title = 'Monitor arm knuckle with a retried mail';
     const real = MailMessage.bulkCreate.bind(MailMessage);
@@ -152,7 +152,7 @@ describe('transactions · a deadlock is retried as a whole', () => {
     expect(queued).toBe(Number((moderators as { n: number }).n));
   });
 
-  it('a deadlock that keeps coming back · 503 after the bounded retries, nothing stored', async () => {
+  it('transactions · a deadlock that keeps coming back · 503 after the bounded retries, nothing stored', async () => {
     const { agent } = await signedIn();
     const partsBefore = await Part.count();
     const spy = vi.spyOn(AuditEvent, 'create').mockImplementation(async () => {
@@ -173,7 +173,7 @@ describe('transactions · a deadlock is retried as a whole', () => {
 });
 
 describe('errors · 500 answers', () => {
-  it('an unexpected database error · 500 without SQL, quoting a reference the log also has', async () => {
+  it('errors · an unexpected database error · 500 without SQL, quoting a reference the log also has', async () => {
     const logged: string[] = [];
     const log = vi.spyOn(console, 'error').mockImplementation((...args: unknown[]) => void logged.push(args.map(String).join(' ')));
     const sqlError = new DatabaseError(Object.assign(new Error("Unknown column 'secret_col' in 'field list'"), { sql: 'SELECT secret_col FROM parts' }));
@@ -193,7 +193,7 @@ describe('errors · 500 answers', () => {
     expect(logged.some((line) => line.includes(ref!) && line.includes('secret_col'))).toBe(true);
   });
 
-  it('a file-system error in any route · 500 with a plain sentence and a ref, no path or error code', async () => {
+  it('errors · a file-system error in any route · 500 with a plain sentence and a ref, no path or error code', async () => {
     const log = vi.spyOn(console, 'error').mockImplementation(() => undefined);
     const app = express();
     app.get('/boom', () => {
@@ -209,7 +209,7 @@ describe('errors · 500 answers', () => {
 });
 
 describe('evidence · one member rating twice at once', () => {
-  it('the second request finds the row created meanwhile · both succeed, one row with the later stars', async () => {
+  it('evidence · the second request finds the row created meanwhile · both succeed, one row with the later stars', async () => {
     const author = await signedIn();
     const rater = await signedIn();
     const created = await submit(author.agent, submission({ title: 'Matte box clamp rated twice' })).expect(201);
@@ -228,7 +228,7 @@ describe('evidence · one member rating twice at once', () => {
     expect(rows.map((r) => r.stars)).toEqual([5]);
   });
 
-  it('six ratings fired together · all succeed and one row remains', async () => {
+  it('evidence · six ratings fired together · all succeed and one row remains', async () => {
     const author = await signedIn();
     const rater = await signedIn();
     const created = await submit(author.agent, submission({ title: 'Follow focus bracket rated at once' })).expect(201);
@@ -240,7 +240,7 @@ describe('evidence · one member rating twice at once', () => {
 });
 
 describe('parts · long descriptions', () => {
-  it('20,000 "<" (80,000 bytes once escaped) · 201 and the description comes back whole', async () => {
+  it('parts · 20,000 "<" (80,000 bytes once escaped) · 201 and the description comes back whole', async () => {
     const { agent } = await signedIn();
     const description = '<'.repeat(20_000);
     const res = await submit(agent, submission({ title: 'Bracket with a very long description', description }));
@@ -250,7 +250,7 @@ describe('parts · long descriptions', () => {
     expect(part.body.descriptionHtml.split('&lt;').length - 1).toBe(20_000);
   });
 
-  it('HTML that would outgrow its column · 422 naming the description', () => {
+  it('parts · HTML that would outgrow its column · 422 naming the description', () => {
     const tooLong = () => renderDescription('<'.repeat(100), 407); // 100 × '&lt;' inside <p></p> and a newline: 408 bytes
     expect(tooLong).toThrow(AppError);
     try {
@@ -262,7 +262,7 @@ describe('parts · long descriptions', () => {
     expect(renderDescription('<'.repeat(100), 408)).toContain('&lt;');
   });
 
-  it('over the source limit · 422 naming the description', async () => {
+  it('parts · over the source limit · 422 naming the description', async () => {
     const { agent } = await signedIn();
     const res = await submit(agent, submission({ description: 'x'.repeat(20_001) }));
     expect(res.status).toBe(422);
@@ -271,7 +271,7 @@ describe('parts · long descriptions', () => {
 });
 
 describe('parts · files of a retired part', () => {
-  it('the author and moderators can still download them; others get 404 as for an unknown file', async () => {
+  it('files of a retired part · download by the author, a moderator, anyone else · the first two get them, others the 404 of an unknown file', async () => {
     const author = await signedIn();
     const member = await signedIn();
     const moderator = await signedIn('moderator');
@@ -321,7 +321,7 @@ describe('database that accepts connections but never answers', () => {
     return sequelize;
   }
 
-  it('health · answers "down" from its own timeout while the query still hangs', async () => {
+  it('database that accepts connections but never answers · health · answers "down" from its own timeout while the query still hangs', async () => {
     const sequelize = silentSequelize({ DB_QUERY_TIMEOUT_MS: '0' }); // no pool timeouts: only the health check's own
     let settled = false;
     const query = sequelize.query('SELECT 1').finally(() => void (settled = true));
@@ -336,7 +336,7 @@ describe('database that accepts connections but never answers', () => {
     await sequelize.close().catch(() => undefined);
   });
 
-  it('a request · 503 database_unavailable once the socket timeout gives up; the next ones wait for a probe only', async () => {
+  it('database that accepts connections but never answers · a request · 503 database_unavailable once the socket timeout gives up; the next ones wait for a probe only', async () => {
     const sequelize = silentSequelize({ DB_QUERY_TIMEOUT_MS: '300' });
     const watch = createDatabaseWatch(sequelize, 200);
     const log = vi.spyOn(console, 'error').mockImplementation(() => undefined);
@@ -361,7 +361,7 @@ describe('database that accepts connections but never answers', () => {
 });
 
 describe('database watch · the gate in front of /api', () => {
-  it('after a failure, requests share one probe: 503 while the database is silent, through once it answers', async () => {
+  it('database watch · requests after a failure · one shared probe: 503 while the database is silent, through once it answers', async () => {
     let answering = false;
     const query = vi.fn(() => (answering ? Promise.resolve([]) : new Promise<never>(() => undefined)));
     const watch = createDatabaseWatch({ query } as unknown as Sequelize, 100);

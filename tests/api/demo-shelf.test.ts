@@ -16,7 +16,7 @@ afterAll(async () => {
 });
 
 describe('demo shelf · first start', () => {
-  it('holds at least 40 parts; the published ones cover every category and every mount standard', async () => {
+  it('demo shelf · first start · at least 40 parts; the published ones cover every category and every mount standard', async () => {
     expect(await Part.count()).toBeGreaterThanOrEqual(40);
     const published = await Part.findAll({ where: { status: 'published' }, include: [{ model: PartRevision, as: 'publishedRevision' }] });
     const revisions = published.map((p) => p.publishedRevision!);
@@ -25,7 +25,7 @@ describe('demo shelf · first start', () => {
     expect(await Part.count({ where: { status: 'in_review' } })).toBeGreaterThanOrEqual(2);
   });
 
-  it('every model of the new parts is sound (closed, consistently wound) and waits for its picture', async () => {
+  it('demo shelf · every model of the new parts · sound (closed, consistently wound) and waiting for its picture', async () => {
     const titles = SHELF.map((s) => s.data.title);
     const revisions = await PartRevision.findAll({ where: { title: titles }, include: [{ model: PartFile, as: 'files' }] });
     expect(revisions).toHaveLength(titles.length);
@@ -39,7 +39,7 @@ describe('demo shelf · first start', () => {
     }
   });
 
-  it('adaptations carry a licence their parent allows', async () => {
+  it('demo shelf · adaptations · carry a licence their parent allows', async () => {
     const children = await Part.findAll({ where: { status: 'published' }, include: [{ model: PartRevision, as: 'publishedRevision' }] });
     const adaptations = children.filter((c) => c.parentId);
     expect(adaptations.length).toBeGreaterThanOrEqual(4);
@@ -50,7 +50,7 @@ describe('demo shelf · first start', () => {
     }
   });
 
-  it('set reports cover every outcome; there are kits and open and closed wanted requests', async () => {
+  it('demo shelf · set reports, kits and wanted requests · every outcome, kits, open and closed requests', async () => {
     const outcomes = new Set((await SetReport.findAll({ attributes: ['outcome'] })).map((r) => r.outcome));
     expect(outcomes).toEqual(new Set(SET_REPORT_OUTCOMES));
     expect(await Kit.count()).toBeGreaterThanOrEqual(2);

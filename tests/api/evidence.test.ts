@@ -46,7 +46,7 @@ afterAll(async () => {
 });
 
 describe('ratings', () => {
-  it('takes one rating per member per part; a second one replaces the first', async () => {
+  it('ratings · a second rating by one member · replaces the first', async () => {
     const first = await crew[0].post(`/api/parts/${partId}/ratings`).send({ stars: 4, comment: 'Solid on a handheld week.' });
     expect(first.status).toBe(201);
     const second = await crew[0].post(`/api/parts/${partId}/ratings`).send({ stars: 5 });
@@ -57,19 +57,19 @@ describe('ratings', () => {
     expect((await crew[0].get(`/api/parts/${partId}/ratings`)).body.mine).toMatchObject({ stars: 5 });
   });
 
-  it('does not let authors rate their own part', async () => {
+  it('ratings · an author rating their own part · refused', async () => {
     const res = await author.post(`/api/parts/${partId}/ratings`).send({ stars: 5 });
     expect(res.status).toBe(403);
     expect(res.body.error.message).toMatch(/own part/);
   });
 
-  it('does not let anyone rate a part that is not on the shelf', async () => {
+  it('ratings · a part not on the shelf · cannot be rated', async () => {
     const res = await author.post('/api/parts').field('data', JSON.stringify(submission())).attach('model', boxStl(5, 5, 5), 'x.stl').expect(201);
     expect((await crew[1].post(`/api/parts/${res.body.id}/ratings`).send({ stars: 3 })).status).toBe(404);
     expect((await moderator.post(`/api/parts/${res.body.id}/ratings`).send({ stars: 3 })).status).toBe(409);
   });
 
-  it('refuses 0 or 6 stars with 422, and visitors with 403 (no session)', async () => {
+  it('ratings · 0 or 6 stars, a visitor · 422, and 403 (no session)', async () => {
     expect((await crew[1].post(`/api/parts/${partId}/ratings`).send({ stars: 0 })).status).toBe(422);
     expect((await crew[1].post(`/api/parts/${partId}/ratings`).send({ stars: 6 })).status).toBe(422);
     expect((await request(t.app).post(`/api/parts/${partId}/ratings`).send({ stars: 3 })).status).toBe(403);
@@ -77,7 +77,7 @@ describe('ratings', () => {
 });
 
 describe('set reports', () => {
-  it('files a report with the recipe it was printed with, and strips photo metadata', async () => {
+  it('set reports · filed with the recipe it was printed with · accepted, photo metadata stripped', async () => {
     const res = await report(crew[0], partId, { conditions: ['heat', 'vehicle'], recipeId, outcome: 'held-up', notes: 'Dashboard all day.' }).attach('photo', await jpegWithGps(), 'car.jpg');
     expect(res.status).toBe(201);
     await t.services.parts.photosSettled();
@@ -93,21 +93,21 @@ describe('set reports', () => {
     expect((photo.body as Buffer).includes(Buffer.from('Exif'))).toBe(false);
   });
 
-  it('takes a material of the reporter own, and asks for one when no recipe is given', async () => {
+  it('set reports · no recipe given · takes the reporter\'s own material, asks for one when missing', async () => {
     expect((await report(crew[1], partId, { outcome: 'worn-but-working', material: 'ASA', infillPct: 30, walls: 4 })).status).toBe(201);
     const missing = await report(crew[1], partId, { outcome: 'held-up' });
     expect(missing.status).toBe(422);
     expect(missing.body.error.fields.material).toMatch(/recipe/);
   });
 
-  it('refuses a recipe of another part and an unknown outcome', async () => {
+  it('set reports · a recipe of another part or an unknown outcome · refused', async () => {
     const otherPart = await publishedPart(submission({ title: 'Other part' }));
     const otherRecipe = (await crew[0].get(`/api/parts/${otherPart}`)).body.recipes[0].id;
     expect((await report(crew[1], partId, { outcome: 'held-up', recipeId: otherRecipe })).status).toBe(422);
     expect((await report(crew[1], partId, { outcome: 'exploded', material: 'PLA' })).status).toBe(422);
   });
 
-  it('filters reports by material, condition and outcome', async () => {
+  it('set reports · listed · filtered by material, condition and outcome', async () => {
     const byMaterial = await crew[3].get(`/api/parts/${partId}/reports?material=ASA`);
     expect(byMaterial.body.items.every((i: { material: string }) => i.material === 'ASA')).toBe(true);
     const byCondition = await crew[3].get(`/api/parts/${partId}/reports?condition=vehicle`);
@@ -118,7 +118,7 @@ describe('set reports', () => {
     expect((await crew[3].get(`/api/parts/${partId}/reports?condition=lava`)).status).toBe(422);
   });
 
-  it('leaves nothing behind when a report is refused', async () => {
+  it('set reports · refused · nothing left behind', async () => {
     const before = [await SetReport.count(), await ReportPhoto.count()];
     const res = await report(crew[1], partId, { outcome: 'held-up' }).attach('photo', await jpegWithGps(), 'p.jpg');
     expect(res.status).toBe(422);
@@ -127,7 +127,7 @@ describe('set reports', () => {
 });
 
 describe('proven score, warnings and hiding', () => {
-  it('reports the proven figures per material and condition with the rating summary', async () => {
+  it('proven figures · a part with reports · per material and condition, with the rating summary', async () => {
     const res = await crew[0].get(`/api/parts/${partId}/proven`);
     expect(res.status).toBe(200);
     expect(res.body).toMatchObject({ reports: 2, heldUp: 2, byMaterial: { PETG: { reports: 1, heldUp: 1 }, ASA: { reports: 1, heldUp: 1 } } });
@@ -137,7 +137,7 @@ describe('proven score, warnings and hiding', () => {
     expect(typeof res.body.rating.adjusted).toBe('number');
   });
 
-  it('shows a heat warning after two PLA failures, and drops it when a moderator hides one', async () => {
+  it('warnings · two PLA failures in heat · a heat warning; gone when a moderator hides one', async () => {
     const id = await publishedPart(submission({ title: 'Dash cam cradle' }));
     const a = await report(crew[0], id, { outcome: 'deformed', material: 'PLA', conditions: ['heat'] }).expect(201);
     await report(crew[1], id, { outcome: 'deformed', material: 'PLA', conditions: ['heat', 'vehicle'] }).expect(201);
@@ -163,7 +163,7 @@ describe('proven score, warnings and hiding', () => {
     expect(history.body.items.map((e: { action: string }) => e.action)).toContain('hide_report');
   });
 
-  it('takes a hidden rating out of the summary', async () => {
+  it('hiding · a hidden rating · out of the summary', async () => {
     const id = await publishedPart(submission({ title: 'Rated part' }));
     const low = await crew[0].post(`/api/parts/${id}/ratings`).send({ stars: 1, comment: 'abusive words' }).expect(201);
     await crew[1].post(`/api/parts/${id}/ratings`).send({ stars: 5 }).expect(201);
@@ -173,7 +173,7 @@ describe('proven score, warnings and hiding', () => {
     expect((await moderator.post(`/api/review/ratings/${low.body.id}/hide`).send({ note: 'Again please.' })).status).toBe(409);
   });
 
-  it('does not let members flag their own entries', async () => {
+  it('hiding · members flagging their own entries · refused', async () => {
     const id = await publishedPart(submission({ title: 'Own flag part' }));
     const mine = await crew[0].post(`/api/parts/${id}/ratings`).send({ stars: 2 }).expect(201);
     expect((await crew[0].post(`/api/ratings/${mine.body.id}/flag`).send({ reason: 'Oops, my own.' })).status).toBe(409);
@@ -217,7 +217,7 @@ describe('evidence about one\'s own part', () => {
 });
 
 describe('contributor profile', () => {
-  it('lists a contributor’s published parts and how they held up', async () => {
+  it('contributor profile · published parts · listed with how they held up', async () => {
     const res = await request(t.app).get(`/api/users/${author.userId}/profile`);
     expect(res.status).toBe(200);
     const part = res.body.parts.find((p: { id: number }) => p.id === partId);

@@ -26,7 +26,7 @@ afterAll(async () => {
 });
 
 describe('GET /api/health', () => {
-  it('reports up, then down while the database is stopped, then up again by itself', async () => {
+  it('GET /api/health · database stopped, then back · up, down, then up again by itself', async () => {
     const up = await request(t.app).get('/api/health');
     expect(up.status).toBe(200);
     expect(up.body).toEqual({ status: 'ok', db: 'up' });

@@ -10,7 +10,7 @@ afterAll(async () => {
 });
 
 describe('shoot kits · leaving a kit shared with you', () => {
-  it('takes a member off a kit; the owner keeps it and cannot leave it', async () => {
+  it('shoot kits · a member leaves a kit shared with them · taken off; the owner keeps it and cannot leave it', async () => {
     const owner = await makeUser();
     const crew = await makeUser();
     const o = await agentFor(t.app);

@@ -445,7 +445,7 @@ describe('mail · the local fake SMTP server', () => {
 describe('mail · who may read it', () => {
   const expected = { anonymous: 401, member: 403, moderator: 403, admin: 200 } as const;
   for (const who of Object.keys(expected) as (keyof typeof expected)[]) {
-    it(`GET /api/admin/mail, POST its retry and GET /api/dev/mailbox as ${who} → ${expected[who]}`, async () => {
+    it(`mail routes · GET /api/admin/mail, POST its retry and GET /api/dev/mailbox as ${who} · ${expected[who]}`, async () => {
       const a = await as(who);
       expect((await a.get('/api/admin/mail')).status).toBe(expected[who]);
       expect((await a.get('/api/dev/mailbox')).status).toBe(expected[who]);

@@ -52,7 +52,7 @@ async function image(a: Agent, url: string) {
 
 // pictures are drawn by a low-priority thread: on a loaded machine one can take tens of seconds
 describe('model pictures · drawn at upload', { timeout: 180_000 }, () => {
-  it('a part without photos gets a 1200 × 900 picture and a 480 × 360 thumbnail of its model; cards use it', async () => {
+  it('model pictures · a part without photos · a 1200 × 900 picture and a 480 × 360 thumbnail of its model; cards use it', async () => {
     const { body } = await submit(author).expect(201);
     await settled();
     const part = (await author.get(`/api/parts/${body.id}`).expect(200)).body;
@@ -88,7 +88,7 @@ describe('model pictures · drawn at upload', { timeout: 180_000 }, () => {
     expect((await visitor.get(model.thumbnailUrl)).status).toBe(200);
   });
 
-  it('a part with a photo shows the photo on its card; the model picture stays in its files', async () => {
+  it('model pictures · a part with a photo · its card shows the photo; the model picture stays in its files', async () => {
     const { body } = await submit(author, await plainPng()).expect(201);
     await settled();
     await publishDirectly(body.id);
@@ -100,7 +100,7 @@ describe('model pictures · drawn at upload', { timeout: 180_000 }, () => {
     expect(list.find((p: { id: number }) => p.id === body.id).thumbnailUrl).toBe(photo.thumbnailUrl);
   });
 
-  it('a source file has no picture (404); removing a model removes its pictures from the disk', async () => {
+  it('model pictures · a source file; a model removed · no picture (404); its pictures leave the disk', async () => {
     const { body } = await author
       .post('/api/parts')
       .field('data', JSON.stringify(submission()))
@@ -123,7 +123,7 @@ describe('model pictures · drawn at upload', { timeout: 180_000 }, () => {
 });
 
 describe('model pictures · start-up', { timeout: 180_000 }, () => {
-  it('models waiting for a picture (a stop cut them off, or they predate pictures) are drawn by the recovery; the sweep keeps the pictures', async () => {
+  it('model pictures · models waiting at start-up (cut off by a stop, or older than pictures) · drawn by the recovery; the sweep keeps the pictures', async () => {
     const { body } = await submit(author).expect(201);
     await settled();
     const model = (await PartFile.findOne({ where: { partId: body.id, kind: 'model' } }))!;

@@ -77,7 +77,7 @@ describe('notice settings', () => {
 });
 
 describe('contributor notices', () => {
-  it('set report · cracked on someone else’s part · the author gets a notice and a mail; held up · nothing', async () => {
+  it('set report · cracked on someone else’s part · the author gets a notice and a mail; held up: nothing', async () => {
     const part = await published(author, submission({ title: 'Cheese plate riser' }));
     await report(crew, part.id, { outcome: 'held-up' }).expect(201);
     expect(await noticesOf(author.userId, 'report_trouble')).toHaveLength(0);
@@ -107,7 +107,7 @@ describe('contributor notices', () => {
     await put({ bell: true, mail: true });
   });
 
-  it('kit shared · a new member on the list hears once; saving the same list again tells nobody', async () => {
+  it('contributor notices · kit shared · a new member on the list hears once; saving the same list again tells nobody', async () => {
     const part = await published(author, submission({ title: 'Monitor yoke' }));
     const kitId = await kitWith(crew, part.id, 'Night exteriors');
     const share = () => crew.agent.put(`/api/kits/${kitId}/shares`).set('X-CSRF-Token', crew.token).send({ shares: [{ email: crew2.email, access: 'read' }] }).expect(200);
@@ -120,7 +120,7 @@ describe('contributor notices', () => {
     expect(await noticesOf(crew2.userId, 'kit_shared')).toHaveLength(1);
   });
 
-  it('adaptation · approved for the first time · the parent’s author hears; a later revision · no second notice', async () => {
+  it('adaptation · approved for the first time · the parent’s author hears; a later revision: no second notice', async () => {
     const parent = await published(author, submission({ title: 'Rod clamp 15 mm' }));
     const child = await published(crew, submission({ title: 'Rod clamp 15 mm, low profile', parentId: parent.id, licence: 'CC-BY-4.0' }));
     const got = await noticesOf(author.userId, 'adapted');
@@ -132,7 +132,7 @@ describe('contributor notices', () => {
     expect(await noticesOf(author.userId, 'adapted')).toHaveLength(1);
   });
 
-  it('wanted request closed as solved · members who answered hear; the requester does not', async () => {
+  it('contributor notices · wanted request closed as solved · members who answered hear; the requester does not', async () => {
     const part = await published(author, submission({ title: 'V-plate receiver bracket' }));
     const req = await crew.post('/api/wanted').send({ title: 'Receiver bracket for a V-plate', details: 'Behind the top plate.', mounts: [], keySizes: [] }).expect(201);
     await author.post(`/api/wanted/${req.body.id}/answers`).send({ part: String(part.id) }).expect(201);
@@ -143,7 +143,7 @@ describe('contributor notices', () => {
     expect(await noticesOf(crew.userId, 'wanted_closed')).toHaveLength(0);
   });
 
-  it('set report refused (recipe of another part, 422) · no notice and no mail are left behind', async () => {
+  it('contributor notices · set report refused (recipe of another part, 422) · no notice and no mail are left behind', async () => {
     const part = await published(author, submission({ title: 'Matte box arm' }));
     const before = (await noticesOf(author.userId, 'report_trouble')).length;
     await report(crew, part.id, { outcome: 'failed', recipeId: 999999 }).expect(422);
@@ -153,7 +153,7 @@ describe('contributor notices', () => {
 });
 
 describe('kit recalls', () => {
-  it('retired part · every kit holding it shows the banner to owner and sharer; only the owner acknowledges', async () => {
+  it('kit recalls · retired part · every kit holding it shows the banner to owner and sharer; only the owner acknowledges', async () => {
     const part = await published(author, submission({ title: 'Top handle riser' }));
     const kitA = await kitWith(crew, part.id, 'Kit A');
     const kitB = await kitWith(crew2, part.id, 'Kit B');
@@ -192,7 +192,7 @@ describe('kit recalls', () => {
     expect(items[0].reason).toContain('New caution: On a vehicle, vibration and sun both work on the part');
   });
 
-  it('set reports raise a new warning (two PETG failures in heat) · banner on the kit, raised once', async () => {
+  it('kit recalls · set reports raise a new warning (two PETG failures in heat) · banner on the kit, raised once', async () => {
     const part = await published(author, submission({ title: 'Dash mount' }));
     const kit = await kitWith(crew, part.id, 'Desert unit');
     await report(crew, part.id, { outcome: 'deformed', conditions: ['heat'], production: 'Dune Line' }).expect(201);
@@ -213,7 +213,7 @@ describe('writes queued offline (Idempotency-Key)', () => {
     partId = (await published(author, submission({ title: 'Slate holder' }))).id;
   });
 
-  it('set report sent twice with one key · filed once; the repeat answers 200 with the same id', async () => {
+  it('writes queued offline · set report sent twice with one key · filed once; the repeat answers 200 with the same id', async () => {
     const first = await report(crew, partId, { outcome: 'held-up', notes: 'Queued on set.' }, 'offline-report-0001').expect(201);
     const again = await report(crew, partId, { outcome: 'held-up', notes: 'Queued on set.' }, 'offline-report-0001').expect(200);
     expect(again.body).toEqual({ id: first.body.id });
@@ -221,7 +221,7 @@ describe('writes queued offline (Idempotency-Key)', () => {
     expect(await SetReport.count({ where: { partId, userId: crew.userId } })).toBe(1);
   });
 
-  it('set report sent twice at once with one key · one report, both answers name it', async () => {
+  it('writes queued offline · set report sent twice at once with one key · one report, both answers name it', async () => {
     const [a, b] = await Promise.all([
       report(crew2, partId, { outcome: 'held-up' }, 'offline-report-race-1'),
       report(crew2, partId, { outcome: 'held-up' }, 'offline-report-race-1'),
@@ -231,7 +231,7 @@ describe('writes queued offline (Idempotency-Key)', () => {
     expect(await SetReport.count({ where: { partId, userId: crew2.userId } })).toBe(1);
   });
 
-  it('rating sent again after a newer one · the replay does not overwrite it', async () => {
+  it('writes queued offline · rating sent again after a newer one · the replay does not overwrite it', async () => {
     await crew.post(`/api/parts/${partId}/ratings`).set('Idempotency-Key', 'offline-rating-0001').send({ stars: 3 }).expect(201);
     await crew.post(`/api/parts/${partId}/ratings`).send({ stars: 5 }).expect(200);
     const replay = await crew.post(`/api/parts/${partId}/ratings`).set('Idempotency-Key', 'offline-rating-0001').send({ stars: 3 }).expect(200);

@@ -71,7 +71,7 @@ function binaryStl(facets: number[][], declared = facets.length): Buffer {
 }
 
 describe('parts · submit', () => {
-  it('accepts a model, a photo and a source file; the part waits in review', async () => {
+  it('submit · a model, a photo and a source file · accepted; the part waits in review', async () => {
     const res = await submit(author, {
       photos: [{ name: 'on-the-rig.jpg', bytes: await jpegWithGps() }],
       sources: [{ name: 'bracket.step', bytes: Buffer.from('ISO-10303-21;\nHEADER;\nENDSEC;\nEND-ISO-10303-21;\n') }],
@@ -95,7 +95,7 @@ describe('parts · submit', () => {
     expect(part.body.recipes[0]).toMatchObject({ purpose: 'set-ready', material: 'PETG', layerMm: 0.2, warnings: [] });
   });
 
-  it('keeps an unpublished part from other members and visitors (404), but not from moderators', async () => {
+  it('submit · an unpublished part · 404 to other members and visitors, seen by moderators', async () => {
     const { body } = await submit(author).expect(201);
     expect((await other.get(`/api/parts/${body.id}`)).status).toBe(404);
     expect((await request(t.app).get(`/api/parts/${body.id}`)).status).toBe(404);
@@ -103,12 +103,12 @@ describe('parts · submit', () => {
     expect((await author.get(`/api/parts/${body.slug}`)).status).toBe(200);
   });
 
-  it('refuses visitors who are not signed in', async () => {
+  it('submit · a visitor who is not signed in · refused', async () => {
     const res = await request(t.app).post('/api/parts');
     expect(res.status).toBe(403); // the CSRF check comes first for a request with no session
   });
 
-  it('renders the description as Markdown and removes scripts and javascript: links', async () => {
+  it('submit · a Markdown description · rendered, scripts and javascript: links removed', async () => {
     const data = submission({ description: '# Fit\n<script>alert(1)</script> [x](javascript:alert(1)) **bold** <img src=x onerror=alert(1)>' });
     const { body } = await submit(author, { data }).expect(201);
     const part = await author.get(`/api/parts/${body.id}`);
@@ -118,21 +118,21 @@ describe('parts · submit', () => {
     expect(part.body.descriptionHtml).toContain('&lt;script&gt;');
   });
 
-  it('shows a warning for a recipe outside the material window, and accepts it', async () => {
+  it('submit · a recipe outside the material window · accepted with a warning', async () => {
     const data = submission({ recipes: [{ ...setReadyRecipe, material: 'PETG', hotendC: 190 }] });
     const { body } = await submit(author, { data }).expect(201);
     const part = await author.get(`/api/parts/${body.id}`);
     expect(part.body.recipes[0].warnings[0]).toMatch(/below PETG/);
   });
 
-  it('scales an STL drawn in inches by exactly 25.4 (NIST SP 811 Appendix B)', async () => {
+  it('submit · an STL drawn in inches · scaled by exactly 25.4 (NIST SP 811 Appendix B)', async () => {
     const data = { ...submission(), drawnInInches: true };
     const { body } = await submit(author, { data, models: [{ name: 'inch-cube.stl', bytes: cubeStl(1) }] }).expect(201);
     const part = await author.get(`/api/parts/${body.id}`);
     expect(part.body.files[0].analysis.sizeMm.map((v: number) => +v.toFixed(6))).toEqual([25.4, 25.4, 25.4]);
   });
 
-  it('reads a 3MF in inches and honours its unit (3MF Core Specification §3.4)', async () => {
+  it('submit · a 3MF in inches · its unit honoured (3MF Core Specification §3.4)', async () => {
     const v = [[0, 0, 0], [1, 0, 0], [1, 1, 0], [0, 1, 0], [0, 0, 1], [1, 0, 1], [1, 1, 1], [0, 1, 1]];
     const t3 = [[0, 2, 1], [0, 3, 2], [4, 5, 6], [4, 6, 7], [0, 1, 5], [0, 5, 4], [1, 2, 6], [1, 6, 5], [2, 3, 7], [2, 7, 6], [3, 0, 4], [3, 4, 7]];
     const model = `<?xml version="1.0" encoding="UTF-8"?>
@@ -150,7 +150,7 @@ describe('parts · submit', () => {
     expect(part.body.files[0].analysis.watertight).toBe(true);
   });
 
-  it('keeps only a clean display name from a path-traversal file name and stores under a random name', async () => {
+  it('submit · a path-traversal file name · only a clean display name kept, stored under a random name', async () => {
     const { body } = await submit(author, { models: [{ name: '../../../etc/passwd.stl', bytes: boxStl(5, 5, 5) }] }).expect(201);
     const file = (await PartFile.findOne({ where: { partId: body.id } }))!;
     expect(file.originalName).toBe('passwd.stl');
@@ -158,7 +158,7 @@ describe('parts · submit', () => {
     expect(existsSync(join(uploadsDir, 'store', file.storedName))).toBe(true);
   });
 
-  it('gives two parts with the same title different slugs', async () => {
+  it('submit · two parts with the same title · different slugs', async () => {
     const data = submission({ title: 'Cable clip twin' });
     const a = await submit(author, { data }).expect(201);
     const b = await submit(author, { data }).expect(201);
@@ -186,7 +186,7 @@ describe('parts · refused uploads leave nothing behind', () => {
   ];
 
   for (const [what, build, status, message] of cases) {
-    it(`refuses ${what} with ${status} and a message, and keeps disk and database as they were`, async () => {
+    it(`refused uploads · ${what} · ${status} with a message; disk and database as they were`, async () => {
       const before = await snapshot();
       const res = await submit(author, await build());
       expect(res.status).toBe(status);
@@ -195,12 +195,12 @@ describe('parts · refused uploads leave nothing behind', () => {
     });
   }
 
-  it('names the field of a schema failure, e.g. recipes.0.layerMm', async () => {
+  it('refused uploads · a schema failure · the field named, e.g. recipes.0.layerMm', async () => {
     const res = await submit(author, { data: submission({ recipes: [{ ...setReadyRecipe, layerMm: 0.36 }] }) });
     expect(Object.keys(res.body.error.fields)).toContain('recipes.0.layerMm');
   });
 
-  it('refuses more than 12 files with 413', async () => {
+  it('refused uploads · more than 12 files · 413', async () => {
     const before = await snapshot();
     const models = Array.from({ length: 13 }, (_, i) => ({ name: `m${i}.stl`, bytes: boxStl(5, 5, 5) }));
     const res = await submit(author, { models });
@@ -209,19 +209,19 @@ describe('parts · refused uploads leave nothing behind', () => {
     expect(await snapshot()).toEqual(before);
   });
 
-  it('refuses a file in an unknown field with 422', async () => {
+  it('refused uploads · a file in an unknown field · 422', async () => {
     const before = await snapshot();
     const res = await author.post('/api/parts').field('data', JSON.stringify(submission())).attach('attachment', boxStl(5, 5, 5), 'x.stl');
     expect(res.status).toBe(422);
     expect(await snapshot()).toEqual(before);
   });
 
-  it('refuses a data field that is not JSON with 400', async () => {
+  it('refused uploads · a data field that is not JSON · 400', async () => {
     const res = await author.post('/api/parts').field('data', '{nope').attach('model', boxStl(5, 5, 5), 'x.stl');
     expect(res.status).toBe(400);
   });
 
-  it('rolls back rows and moved files when the database write fails half-way', async () => {
+  it('refused uploads · the database write fails half-way · rows and moved files rolled back', async () => {
     const before = await snapshot();
     const spy = vi.spyOn(RevisionFile, 'create').mockRejectedValueOnce(new Error('disk full'));
     try {
@@ -235,7 +235,7 @@ describe('parts · refused uploads leave nothing behind', () => {
 });
 
 describe('parts · photos', () => {
-  it('stores photos upright with all metadata (EXIF, GPS) removed', async () => {
+  it('photos · a photo with EXIF and GPS · stored upright with all metadata removed', async () => {
     const original = await jpegWithGps(64, 48, 6);
     expect(original.includes(Buffer.from('Exif\0\0', 'latin1'))).toBe(true);
     const { body } = await submit(author, { photos: [{ name: 'gps.jpg', bytes: original }] }).expect(201);
@@ -262,7 +262,7 @@ describe('parts · photos', () => {
     expect(filesOnDisk().filter((f) => f.startsWith('incoming/'))).toEqual([]);
   });
 
-  it('refuses an undecodable photo at upload with 422 instead of keeping a failed row', async () => {
+  it('photos · an undecodable photo · 422 at upload instead of a failed row', async () => {
     const before = await snapshot();
     const broken = Buffer.concat([Buffer.from([0xff, 0xd8, 0xff, 0xe0]), Buffer.alloc(200, 7)]);
     const res = await submit(author, { photos: [{ name: 'broken.jpg', bytes: broken }] });
@@ -273,14 +273,14 @@ describe('parts · photos', () => {
 });
 
 describe('parts · editing and revisions', () => {
-  it('lets only the author or a moderator change a published part (403 for others)', async () => {
+  it('editing · a published part changed by someone other than its author or a moderator · 403', async () => {
     const { body } = await submit(author).expect(201);
     await publishDirectly(body.id);
     expect((await other.patch(`/api/parts/${body.id}`).send({ title: 'Hijacked' })).status).toBe(403);
     expect((await moderator.patch(`/api/parts/${body.id}`).send({ summary: 'A moderator tidied the summary text.' })).status).toBe(200);
   });
 
-  it('keeps the published revision on the shelf until the edited one is approved', async () => {
+  it('editing · a published part edited · the published revision stays on the shelf until the edit is approved', async () => {
     const { body } = await submit(author, { data: submission({ title: 'Monitor yoke v1' }) }).expect(201);
     await publishDirectly(body.id);
     const edited = await author.patch(`/api/parts/${body.id}`).send({ title: 'Monitor yoke v2' });
@@ -298,19 +298,19 @@ describe('parts · editing and revisions', () => {
     expect(await PartRevision.count({ where: { partId: body.id } })).toBe(2);
   });
 
-  it('edits an unpublished revision in place', async () => {
+  it('editing · an unpublished revision · edited in place', async () => {
     const { body } = await submit(author).expect(201);
     await author.patch(`/api/parts/${body.id}`).send({ title: 'Renamed before review' }).expect(200);
     expect(await PartRevision.count({ where: { partId: body.id } })).toBe(1);
   });
 
-  it('answers 422 for an empty or invalid change', async () => {
+  it('editing · an empty or invalid change · 422', async () => {
     const { body } = await submit(author).expect(201);
     expect((await author.patch(`/api/parts/${body.id}`).send({})).status).toBe(422);
     expect((await author.patch(`/api/parts/${body.id}`).send({ category: 'snacks' })).status).toBe(422);
   });
 
-  it('adds and removes files; the last model cannot be removed; orphaned files leave the disk', async () => {
+  it('editing · files added and removed · the last model stays; orphaned files leave the disk', async () => {
     const { body } = await submit(author).expect(201);
     const added = await author.post(`/api/parts/${body.id}/files`).attach('photo', await plainPng(), 'detail.png');
     expect(added.status).toBe(201);
@@ -330,7 +330,7 @@ describe('parts · editing and revisions', () => {
     expect(existsSync(join(uploadsDir, 'store', `${stored.storedName}-display.jpg`))).toBe(false);
   });
 
-  it('refuses a bad model added later with 422 and leaves the part as it was', async () => {
+  it('editing · a bad model added later · 422, the part as it was', async () => {
     const { body } = await submit(author).expect(201);
     const before = await snapshot();
     const res = await author.post(`/api/parts/${body.id}/files`).attach('model', Buffer.from('not a mesh at all'), 'x.stl');
@@ -340,7 +340,7 @@ describe('parts · editing and revisions', () => {
 });
 
 describe('parts · downloads', () => {
-  it('gives published files to signed-in members only, as attachments', async () => {
+  it('downloads · published files · signed-in members only, as attachments', async () => {
     const { body } = await submit(author).expect(201);
     await publishDirectly(body.id);
     const part = await other.get(`/api/parts/${body.id}`).expect(200);
@@ -352,7 +352,7 @@ describe('parts · downloads', () => {
     expect(res.headers['content-type']).toMatch(/model\/stl/);
   });
 
-  it('answers 404 for a file of another part', async () => {
+  it('downloads · a file of another part · 404', async () => {
     const a = await submit(author).expect(201);
     const b = await submit(author).expect(201);
     const fileOfB = (await PartFile.findOne({ where: { partId: b.body.id } }))!;
@@ -367,14 +367,14 @@ describe('parts · adaptations', () => {
     return body.id as number;
   }
 
-  it('refuses any shared adaptation of a No-Derivatives part (CC BY-ND 4.0 §2(a)(1)(B))', async () => {
+  it('adaptations · of a No-Derivatives part · refused (CC BY-ND 4.0 §2(a)(1)(B))', async () => {
     const parent = await publishedWith('CC-BY-ND-4.0');
     const res = await submit(other, { data: submission({ parentId: parent, licence: 'CC-BY-ND-4.0' }) });
     expect(res.status).toBe(422);
     expect(res.body.error.fields.licence).toBeDefined();
   });
 
-  it('requires ShareAlike adaptations to keep BY-SA (CC BY-SA 4.0 §3(b)) and records the lineage', async () => {
+  it('adaptations · of a ShareAlike part · must keep BY-SA (CC BY-SA 4.0 §3(b)); the lineage is recorded', async () => {
     const parent = await publishedWith('CC-BY-SA-4.0');
     const wrong = await submit(other, { data: submission({ parentId: parent, licence: 'CC-BY-4.0' }) });
     expect(wrong.status).toBe(422);
@@ -387,7 +387,7 @@ describe('parts · adaptations', () => {
     expect(parentPage.body.lineage.adaptations.map((a: { id: number }) => a.id)).toContain(right.body.id);
   });
 
-  it('refuses a parent that is not on the shelf', async () => {
+  it('adaptations · a parent not on the shelf · refused', async () => {
     const { body } = await submit(author).expect(201);
     const res = await submit(other, { data: submission({ parentId: body.id }) });
     expect(res.status).toBe(422);
@@ -396,7 +396,7 @@ describe('parts · adaptations', () => {
 });
 
 describe('parts · lists, vocabulary and recovery', () => {
-  it('lists my submissions in any state and only published parts for the catalogue', async () => {
+  it('lists · mine and the catalogue · my submissions in any state, only published parts in the catalogue', async () => {
     const mine = await submit(other, { data: submission({ title: 'Only mine for now' }) }).expect(201);
     const list = await other.get('/api/parts?mine=1');
     expect(list.body.items.some((p: { id: number; status: string }) => p.id === mine.body.id && p.status === 'in_review')).toBe(true);
@@ -405,7 +405,7 @@ describe('parts · lists, vocabulary and recovery', () => {
     expect(shelf.body.items.some((p: { id: number }) => p.id === mine.body.id)).toBe(false);
   });
 
-  it('serves the vocabularies', async () => {
+  it('vocabularies · requested · served', async () => {
     const res = await request(t.app).get('/api/vocab').expect(200);
     expect(res.body.categories.length).toBeGreaterThanOrEqual(8);
     expect(res.body.mounts.map((m: { slug: string }) => m.slug)).toContain('screw-1-4-20');
@@ -414,7 +414,7 @@ describe('parts · lists, vocabulary and recovery', () => {
     expect(res.body.licences).toHaveLength(12);
   });
 
-  it('sweeps files a crash left behind at start-up and keeps those in use', async () => {
+  it('start-up sweep · files a crash left behind · removed; those in use kept', async () => {
     const { body } = await submit(author).expect(201);
     const kept = (await PartFile.findOne({ where: { partId: body.id } }))!;
     writeFileSync(join(uploadsDir, 'tmp', 'half-written.upload'), 'x');

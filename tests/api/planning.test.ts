@@ -195,7 +195,7 @@ describe('planning · filament prices', () => {
     expect((await request(t.app).get('/api/me/prices')).status).toBe(401);
   });
 
-  it('prices · a currency typed in lower case · is kept as its ISO 4217 code; an unknown code · 422', async () => {
+  it('prices · a currency typed in lower case · is kept as its ISO 4217 code; an unknown code: 422', async () => {
     const gbp = await editor.agent.put('/api/me/prices').set('X-CSRF-Token', editor.token).send({ prices: {}, currency: 'gbp' });
     expect(gbp.status).toBe(200);
     expect(gbp.body.currency).toBe('GBP');
@@ -252,7 +252,7 @@ describe('planning · printers', () => {
 describe('planning · kits and sharing', () => {
   let kitId: number;
 
-  it('kits · create with defaults, refuse bad dates and an unknown heat', async () => {
+  it('planning · kits · create with defaults, refuse bad dates and an unknown heat', async () => {
     const res = await owner.post('/api/kits').send({ name: 'Harbour Lights — splinter unit', production: 'Harbour Lights', startsOn: '2026-05-04', endsOn: '2026-05-08', heatExposure: 'outdoor-sun' });
     expect(res.status).toBe(201);
     expect(res.body).toMatchObject({ access: 'owner', printHoursPerDay: 8, heatExposure: 'outdoor-sun', items: [], shares: [], owner: { id: owner.userId } });

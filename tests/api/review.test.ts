@@ -54,7 +54,7 @@ afterAll(async () => {
 });
 
 describe('review · queue', () => {
-  it('lists submissions oldest first with age, contributor, category, safety flags and warnings', async () => {
+  it('review queue · submissions waiting · oldest first with age, contributor, category, safety flags and warnings', async () => {
     const first = await submitted(member, submission({ title: 'Oldest in the queue' }));
     await PartRevision.update({ submittedAt: new Date(Date.now() - 5 * 3600_000) }, { where: { partId: first } });
     const warm = await submitted(other, submission({ title: 'Cold PETG', recipes: [{ ...setReadyRecipe, hotendC: 190 }] }));
@@ -76,7 +76,7 @@ describe('review · queue', () => {
     expect(cold.warnings.join(' ')).toMatch(/Hotend 190 °C is below PETG/);
   });
 
-  it('a model with three facets wound backwards · the moderator sees it in the warnings before approving', async () => {
+  it('review · a model with three facets wound backwards · the moderator sees it in the warnings before approving', async () => {
     const res = await member
       .post('/api/parts')
       .field('data', JSON.stringify(submission({ title: 'Backwards facets' })))
@@ -92,7 +92,7 @@ describe('review · queue', () => {
     expect(part.body.files[0].analysis.volumeMm3).toBeCloseTo(6000, 6);
   });
 
-  it('is for moderators and admins only', async () => {
+  it('review queue · members · closed to them; moderators and admins only', async () => {
     const admin = await signedIn('admin');
     expect((await request(t.app).get('/api/review/queue')).status).toBe(401);
     expect((await member.get('/api/review/queue')).status).toBe(403);
@@ -102,7 +102,7 @@ describe('review · queue', () => {
 });
 
 describe('review · decisions', () => {
-  it('approves: the part goes on the shelf for everyone, with the decision on record', async () => {
+  it('review · approve · the part goes on the shelf for everyone, with the decision on record', async () => {
     const id = await submitted();
     expect((await other.get(`/api/parts/${id}`)).status).toBe(404);
     const res = await modA.post(`/api/review/${id}/approve`).send({ note: 'Fits the rods fine.' });
@@ -115,7 +115,7 @@ describe('review · decisions', () => {
     expect(history.body.items[1]).toMatchObject({ note: 'Fits the rods fine.', actor: { displayName: 'Mod Alder' } });
   });
 
-  it('refuses an illegal transition with 409 and a clear message', async () => {
+  it('review · an illegal transition · 409 with a clear message', async () => {
     const id = await submitted();
     await modA.post(`/api/review/${id}/approve`).send({}).expect(200);
     const again = await modB.post(`/api/review/${id}/reject`).send({ note: 'Too late for this.' });
@@ -126,7 +126,7 @@ describe('review · decisions', () => {
     expect(retireInReview.status).toBe(409);
   });
 
-  it('sends back with a required note; an edit puts it back in review; then it can be approved', async () => {
+  it('review · send back, edit, approve · the note is required; the edit puts it back in review; then it can be approved', async () => {
     const id = await submitted();
     const noNote = await modA.post(`/api/review/${id}/send-back`).send({});
     expect(noNote.status).toBe(422);
@@ -148,7 +148,7 @@ describe('review · decisions', () => {
     await modB.post(`/api/review/${id}/approve`).send({}).expect(200);
   });
 
-  it('lets a contributor resubmit a sent-back part unchanged', async () => {
+  it('review · a sent-back part resubmitted unchanged · accepted', async () => {
     const id = await submitted();
     await modA.post(`/api/review/${id}/send-back`).send({ note: 'Check the bore, then resubmit.' }).expect(200);
     const res = await member.post(`/api/parts/${id}/submit`);
@@ -157,7 +157,7 @@ describe('review · decisions', () => {
     expect((await member.post(`/api/parts/${id}/submit`)).status).toBe(409);
   });
 
-  it('rejects with a required reason, and a rejection is final', async () => {
+  it('review · reject · a reason is required and the rejection is final', async () => {
     const id = await submitted();
     expect((await modA.post(`/api/review/${id}/reject`).send({ note: '' })).status).toBe(422);
     await modA.post(`/api/review/${id}/reject`).send({ note: 'This is a copy of another part.' }).expect(200);
@@ -166,7 +166,7 @@ describe('review · decisions', () => {
     expect((await modB.post(`/api/review/${id}/approve`).send({})).status).toBe(409);
   });
 
-  it('retires a published part with a reason; it leaves the catalogue listing', async () => {
+  it('review · retire a published part · a reason is required; it leaves the catalogue listing', async () => {
     const id = await submitted();
     await modA.post(`/api/review/${id}/approve`).send({}).expect(200);
     const res = await modB.post(`/api/review/${id}/retire`).send({ note: 'Cracked on two shoots; see the set reports.' });
@@ -176,7 +176,7 @@ describe('review · decisions', () => {
     expect((await modA.post(`/api/review/${id}/retire`).send({ note: 'Twice is once too many.' })).status).toBe(409);
   });
 
-  it('keeps four eyes: a moderator cannot decide on their own submission', async () => {
+  it('review · a moderator deciding on their own submission · refused (four eyes)', async () => {
     const own = await submitted(modA);
     const res = await modA.post(`/api/review/${own}/approve`).send({});
     expect(res.status).toBe(403);
@@ -185,7 +185,7 @@ describe('review · decisions', () => {
     expect((await modA.post(`/api/review/${own}/retire`).send({ note: 'My own part, retiring it.' })).status).toBe(403);
   });
 
-  it('keeps four eyes when a moderator edited someone else\'s published part', async () => {
+  it('review · a moderator edited someone else\'s published part · four eyes kept', async () => {
     const id = await submitted();
     await modB.post(`/api/review/${id}/approve`).send({}).expect(200);
     await modA.patch(`/api/parts/${id}`).send({ summary: 'A moderator rewrote this summary line.' }).expect(200);
@@ -230,7 +230,7 @@ describe('review · decisions', () => {
     await modA.post(`/api/review/${id}/approve`).send({}).expect(200);
   });
 
-  it('lets exactly one of two moderators acting at once win; the other is told', async () => {
+  it('review · two moderators deciding at once · exactly one wins; the other is told', async () => {
     const id = await submitted();
     const [a, b] = await Promise.all([
       modA.post(`/api/review/${id}/approve`).send({ note: 'A' }),
@@ -241,7 +241,7 @@ describe('review · decisions', () => {
     expect(await PartRevision.count({ where: { partId: id, status: 'published' } })).toBe(1);
   });
 
-  it('is refused to members on every decision route', async () => {
+  it('review · members on every decision route · refused', async () => {
     const id = await submitted();
     for (const action of ['approve', 'send-back', 'reject', 'retire']) {
       expect((await other.post(`/api/review/${id}/${action}`).send({ note: 'Not my call to make.' })).status).toBe(403);
@@ -250,13 +250,13 @@ describe('review · decisions', () => {
     expect((await other.get(`/api/review/${id}`)).status).toBe(403);
   });
 
-  it('answers 404 for a part that does not exist', async () => {
+  it('review · a part that does not exist · 404', async () => {
     expect((await modA.post('/api/review/999999/approve').send({})).status).toBe(404);
   });
 });
 
 describe('review · revisions of a published part', () => {
-  it('shows what changed, and approving replaces the published revision', async () => {
+  it('revisions · a change to a published part · shows what changed; approving replaces the published revision', async () => {
     const id = await submitted(member, submission({ title: 'Yoke v1' }));
     await modA.post(`/api/review/${id}/approve`).send({}).expect(200);
     await member.patch(`/api/parts/${id}`).send({ title: 'Yoke v2', safety: { carriesLoad: true, overhead: true, vehicle: false, heat: false } }).expect(200);
@@ -279,7 +279,7 @@ describe('review · revisions of a published part', () => {
     expect(await PartRevision.count({ where: { partId: id, status: 'superseded' } })).toBe(1);
   });
 
-  it('keeps the published revision when a change is rejected, and lets the contributor try again', async () => {
+  it('revisions · a change rejected · the published revision stays; the contributor may try again', async () => {
     const id = await submitted(member, submission({ title: 'Stable' }));
     await modA.post(`/api/review/${id}/approve`).send({}).expect(200);
     await member.patch(`/api/parts/${id}`).send({ title: 'Risky change' }).expect(200);
@@ -293,7 +293,7 @@ describe('review · revisions of a published part', () => {
 });
 
 describe('review · history permissions', () => {
-  it('shows moderators everything, contributors their decisions, and nobody else', async () => {
+  it('review history · moderators, the contributor, anyone else · everything, their decisions, nothing', async () => {
     const id = await submitted();
     await modA.post(`/api/review/${id}/approve`).send({ note: 'ok' }).expect(200);
     expect((await modB.get(`/api/parts/${id}/history`)).status).toBe(200);
@@ -306,7 +306,7 @@ describe('review · history permissions', () => {
 });
 
 describe('review · notices and mail', () => {
-  it('tells moderators about a new submission, by notice and by mail (not the contributor)', async () => {
+  it('review notices · a new submission · moderators told by notice and mail, not the contributor', async () => {
     const before = (await modB.get('/api/notices')).body.unread;
     await submitted(member, submission({ title: 'Bell test part' }));
     const after = await modB.get('/api/notices');
@@ -318,7 +318,7 @@ describe('review · notices and mail', () => {
     expect(sent.some((m) => m.to.includes(member.user.email))).toBe(false);
   });
 
-  it('tells the contributor the decision with the note, and escapes a hostile title in the HTML', async () => {
+  it('review notices · a decision · the contributor told with the note; a hostile title escaped in the HTML', async () => {
     const hostile = '<img src=x onerror=alert(1)>';
     const id = await submitted(member, submission({ title: hostile }));
     t.mailer.fake!.clear();

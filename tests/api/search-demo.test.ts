@@ -50,12 +50,12 @@ describe('search · the demo shelf as crews type', () => {
     ['dashboard monitor', YOKE],
     ['snap-on', CLIP],
     ['snapon clip', CLIP],
-  ])('finds %j with the intended part first', async (q, slug) => {
+  ])('search on the demo shelf · %j · the intended part first', async (q, slug) => {
     const res = await search({ q });
     expect(res.results[0]?.slug, JSON.stringify(res.results.map((r) => [r.slug, r.score, r.matched, r.missing]))).toBe(slug);
   });
 
-  it('reads "15mm rod" as "15 mm rod": the two rod parts, the same answer', async () => {
+  it('search on the demo shelf · "15mm rod" · read as "15 mm rod": the two rod parts, the same answer', async () => {
     const glued = await search({ q: '15mm rod' });
     const apart = await search({ q: '15 mm rod' });
     expect(glued.results.map((r) => r.slug).sort()).toEqual([CLIP, CRADLE].sort());
@@ -63,7 +63,7 @@ describe('search · the demo shelf as crews type', () => {
     expect(glued.results[0].missing).toEqual([]);
   });
 
-  it('never ends in an empty page while some words match, and says which did not', async () => {
+  it('search on the demo shelf · some words match · never an empty page, and says which words did not', async () => {
     // no demo part is a receiver bracket for V-style plates: each half finds its part
     const res = await search({ q: 'receiver bracket for v-style' });
     expect(res.results.map((r) => r.slug).slice(0, 2).sort()).toEqual([CRADLE, SPACER].sort());
@@ -72,7 +72,7 @@ describe('search · the demo shelf as crews type', () => {
     expect(cradle.missing).toEqual(expect.arrayContaining(['bracket', 'v-style']));
   });
 
-  it('takes a camera body by maker and model or any alias, however spaced', async () => {
+  it('search on the demo shelf · a camera body by maker and model or any alias, however spaced · taken', async () => {
     for (const body of ['korvel-kx8', 'KX8', 'kx 8', 'Korvel KX-8', 'korvel 8']) {
       expect((await slugs({ body })).sort(), body).toEqual([CRADLE]);
     }
@@ -80,13 +80,13 @@ describe('search · the demo shelf as crews type', () => {
     expect((await slugs({ q: 'Halden 6 receiver' }))[0]).toBe(CRADLE);
   });
 
-  it('answers an unknown body with a 400 that names the closest known bodies', async () => {
+  it('search on the demo shelf · an unknown body · 400 naming the closest known bodies', async () => {
     const res = await request(t.app).get('/api/search?body=KX9').expect(400);
     expect(res.body.error.message).toMatch(/No camera body is called "KX9"/);
     expect(res.body.error.message).toMatch(/Korvel KX-8/);
   });
 
-  it('finds the 15.2 ± 0.2 clamp for a 15 ± 0.1 rod bore, the closest nominal first', async () => {
+  it('search on the demo shelf · a 15 ± 0.1 rod bore · the 15.2 ± 0.2 clamp found, the closest nominal first', async () => {
     // receiver cradle: rod bore 15.2 ± 0.2 → [15.0, 15.4] touches the asked [14.9, 15.1];
     // cable clip: 15.2 ± 0.3 → [14.9, 15.5] overlaps it too; both nominals are 0.2 away
     expect((await slugs({ dim: 'rod bore:15:0.1' })).sort()).toEqual([CLIP, CRADLE].sort());

@@ -54,7 +54,7 @@ afterAll(async () => {
 });
 
 describe('search · best proven', () => {
-  it('puts forty good set reports above one perfect one, and unreported parts last', async () => {
+  it('best proven · forty good set reports and one perfect one · the forty first, unreported parts last', async () => {
     const res = await search('q=ranking%20clamp&sort=proven').expect(200);
     expect(res.body.results.map((r: { id: number }) => r.id)).toEqual([ids.fortyGood, ids.onePerfect, ids.unreported]);
     const forty = res.body.results[0];
@@ -63,14 +63,14 @@ describe('search · best proven', () => {
     expect(forty.proven).toBeGreaterThan(res.body.results[1].proven);
   });
 
-  it('shows the rating with its count, and filters by minimum rating', async () => {
+  it('best proven · ratings · shown with their count; minimum rating filters', async () => {
     const all = await search('q=ranking%20clamp').expect(200);
     expect(all.body.results.find((r: { id: number }) => r.id === ids.unreported)).toMatchObject({ rating: 5, ratingCount: 1 });
     const good = await search('q=ranking%20clamp&minRating=4').expect(200);
     expect(good.body.results.map((r: { id: number }) => r.id)).toEqual([ids.unreported]);
   });
 
-  it('follows new evidence without rebuilding the text index', async () => {
+  it('best proven · new evidence · followed without rebuilding the text index', async () => {
     const builds = t.services.search.stats().builds;
     await crew.post(`/api/parts/${ids.fortyGood}/ratings`).send({ stars: 4 }).expect(201);
     await t.services.search.idle();
@@ -81,7 +81,7 @@ describe('search · best proven', () => {
 });
 
 describe('search · camera-body vocabulary', () => {
-  it('finds a part by a new alias once an admin adds it to its camera body', async () => {
+  it('camera-body vocabulary · an admin adds an alias · the part is found by it', async () => {
     const admin = await signedIn('admin');
     expect((await search('q=blackbird').expect(200)).body.total).toBe(0);
     await admin.patch('/api/admin/bodies/korvel-kx8').send({ aliases: ['KX8', 'Korvel 8', 'Blackbird'] }).expect(200);

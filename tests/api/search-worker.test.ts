@@ -16,7 +16,7 @@ afterAll(async () => {
 });
 
 describe('search service · a search past its time', () => {
-  it('answers 503, replaces its worker from the saved file, and keeps serving', async () => {
+  it('search service · a search past its time · 503, its worker replaced from the saved file, serving goes on', async () => {
     // no time at all: the first search cannot come back in time
     const service = createSearchService({ sequelize: t.sequelize, indexFile: t.config.SEARCH_INDEX_FILE, queryTimeoutMs: 0 });
     try {
@@ -33,7 +33,7 @@ describe('search service · a search past its time', () => {
     }
   });
 
-  it('answers from the worker of the app, which never shares the index with the main thread', async () => {
+  it('search service · any search · answered by the app\'s worker; the index never shares the main thread', async () => {
     const res = await t.services.search.search(searchQuerySchema.parse({ q: 'receiver plate' }));
     expect(res.results[0]).toMatchObject({ slug: 'receiver-cradle-for-15-mm-rods', matched: ['receiver'], missing: ['plate'] });
   });

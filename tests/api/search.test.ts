@@ -171,22 +171,22 @@ afterAll(async () => {
 });
 
 describe('search · relevance', () => {
-  it('puts the V-style plate adapter first for "battery plate"', async () => {
+  it('search relevance · "battery plate" · the V-style plate adapter first', async () => {
     expect((await names({ q: 'battery plate' }))[0]).toBe('plate');
   });
 
-  it('ranks a title match above a description-only match', async () => {
+  it('search relevance · a title match and a description-only match · the title match ranks higher', async () => {
     const found = await names({ q: 'battery' });
     expect(found).toEqual(['plate', 'slate']);
   });
 
-  it('finds parts by camera-body model name and alias', async () => {
+  it('search relevance · a camera-body model name or alias · finds its parts', async () => {
     expect(await names({ q: 'Vega S35' })).toEqual(['handle']);
     expect(await names({ q: 's35' })).toEqual(['handle']);
     expect(await names({ q: 'KX-8' })).toEqual(['plate']);
   });
 
-  it('finds the 1/4-20 parts by 1/4" and by quarter inch', async () => {
+  it('search relevance · 1/4" and quarter inch · find the 1/4-20 parts', async () => {
     const expected = withMount('screw-1-4-20').sort();
     expect(expected).toEqual(['clamp', 'riser']);
     expect((await names({ q: '1/4"' })).sort()).toEqual(expected);
@@ -197,7 +197,7 @@ describe('search · relevance', () => {
     expect(both.results[1]).toMatchObject({ matched: ['quarter inch'], missing: ['riser'] });
   });
 
-  it('finds 15 mm rod parts by LWS and 15mm rods', async () => {
+  it('search relevance · LWS and 15mm rods · find the 15 mm rod parts', async () => {
     const expected = withMount('rods-15-60').sort();
     expect((await names({ q: 'LWS' })).sort()).toEqual(expected);
     const found = await search({ q: '15mm rods clamp' });
@@ -206,16 +206,16 @@ describe('search · relevance', () => {
     expect(found.results.slice(1).every((r) => r.missing.length === 1)).toBe(true);
   });
 
-  it('still finds the plate through a typo', async () => {
+  it('search relevance · a typo · still finds the plate', async () => {
     expect((await names({ q: 'baterry' }))[0]).toBe('plate');
     expect((await names({ q: 'baterry plate' }))[0]).toBe('plate');
   });
 
-  it('completes the word being typed', async () => {
+  it('search relevance · a word being typed · completed', async () => {
     expect(await names({ q: 'recei' })).toEqual(['sled']);
   });
 
-  it('returns thumbnails, sizes, mounts, bodies and a score', async () => {
+  it('search relevance · a result · carries thumbnail, sizes, mounts, bodies and a score', async () => {
     const { results } = await search({ q: 'battery plate' });
     expect(results[0]).toEqual({
       id: ids.plate,
@@ -243,7 +243,7 @@ describe('search · relevance', () => {
     expect(thumb.status).toBe(200);
   });
 
-  it('runs query syntax', async () => {
+  it('search relevance · query syntax · run', async () => {
     expect(await names({ q: 'title:battery' })).toEqual(['plate']);
     // "rod" is in the plate's summary, the rod mounts' labels and the category "Rods & mounting";
     // the clamp also says "thumb screw", the clip "studio rods"
@@ -253,36 +253,36 @@ describe('search · relevance', () => {
 });
 
 describe('search · filters', () => {
-  it('lists every part without text or filters, newest first', async () => {
+  it('search filters · no text and no filters · every part, newest first', async () => {
     const all = await search({});
     expect(all.total).toBe(10);
     expect(all.results.map((r) => nameOf(r.id))).toEqual((Object.keys(CATALOGUE) as Name[]).reverse());
   });
 
-  it('filters by mount standard, by slug or by name', async () => {
+  it('search filters · mount standard by slug or by name · filtered', async () => {
     expect((await names({ mount: 'screw-1-4-20' })).sort()).toEqual(['clamp', 'riser']);
     expect((await names({ mount: '1/4"' })).sort()).toEqual(['clamp', 'riser']);
     expect((await names({ mount: ['accessory-shoe', 'gear-0-8'] })).sort()).toEqual(['gear', 'sled', 'yoke']);
   });
 
-  it('filters by camera body, category and material', async () => {
+  it('search filters · camera body, category and material · filtered', async () => {
     expect(await names({ body: 'korvel-kx8' })).toEqual(['plate']);
     expect((await names({ category: 'shoe-top' })).sort()).toEqual(['handle', 'riser']);
     expect(await names({ material: 'tpu' })).toEqual(['gear']);
     expect(await names({ material: 'ASA' })).toEqual(['plate']);
   });
 
-  it('filters by licence: adaptable or not', async () => {
+  it('search filters · licence adaptable or not · filtered', async () => {
     expect(await names({ adaptable: 'false' })).toEqual(['riser']);
     expect((await names({ adaptable: 'true' })).length).toBe(9);
   });
 
-  it('filters by rating: nothing is rated yet', async () => {
+  it('search filters · minimum rating with nothing rated yet · filtered', async () => {
     expect(await names({ minRating: '1' })).toEqual([]);
     expect((await names({ minRating: '0' })).length).toBe(10);
   });
 
-  it('fits parts in an envelope in any orientation, the edge included', async () => {
+  it('search filters · an envelope · parts fit in any orientation, the edge included', async () => {
     const fits = (await names({ fit: '120x80x40' })).sort();
     expect(fits).toEqual(['clamp', 'clip', 'dovetail', 'plate', 'riser', 'sled']);
     // the sled is drawn 40 × 120 × 80: it fits only turned
@@ -290,7 +290,7 @@ describe('search · filters', () => {
     expect(await names({ fit: '119.9x80x40', q: 'sled' })).toEqual([]);
   });
 
-  it('reads inch envelopes exactly', async () => {
+  it('search filters · an inch envelope · read exactly', async () => {
     // 4.5 in × 3.25 in × 1.6 in = 114.3 × 82.55 × 40.64 mm (1 in = 25.4 mm, NIST SP 811 Appendix B)
     expect((await names({ fit: '4.5"x3.25"x1.6"' })).sort()).toEqual(['clamp', 'clip', 'dovetail', 'plate', 'riser']);
     // the dovetail plate is 101.6 × 38 × 12 mm: 4 in × 1.5 in × 0.5 in = 101.6 × 38.1 × 12.7 mm holds it at the edge
@@ -298,7 +298,7 @@ describe('search · filters', () => {
     expect(await names({ fit: '3.99in x 1.5in x 0.5in', q: 'dovetail' })).toEqual([]);
   });
 
-  it('matches key dimensions whose ranges overlap the asked one, touching edges included', async () => {
+  it('search filters · a key dimension · ranges that overlap the asked one match, touching edges included', async () => {
     // the clamp's bore is 15.3 ± 0.1 mm: [15.2, 15.4]
     expect(await names({ dim: 'rod bore:15:0.2' })).toEqual(['clamp']);
     expect(await names({ dim: 'ROD BORE:15.6:0.2' })).toEqual(['clamp']);
@@ -313,14 +313,14 @@ describe('search · filters', () => {
     expect(await names({ dim: ['rod bore:15.3:0', 'plate width:4in:1'] })).toEqual([]);
   });
 
-  it('combines text and filters', async () => {
+  it('search filters · text and filters together · combined', async () => {
     expect(await names({ q: 'rod', mount: 'rods-15-60', material: 'PETG', fit: '60x40x30' })).toEqual(['clamp']);
     expect((await names({ q: 'holds', category: 'monitors-video' })).sort()).toEqual(['sled', 'yoke']);
     expect(await names({ mount: 'screw-1-4-20', adaptable: 'true', dim: 'bore:15.3:0.1' })).toEqual(['clamp']);
     expect(await names({ body: 'halden-h6', category: 'lens-focus' })).toEqual([]);
   });
 
-  it('counts facets over the whole result set: categories add up to the total', async () => {
+  it('search filters · facets · counted over the whole result set; categories add up to the total', async () => {
     const cases: Record<string, string>[] = [{}, { q: 'rods' }, { fit: '120x80x40' }, { mount: 'rods-15-60' }, { q: 'holds', pageSize: '1' }];
     for (const params of cases) {
       const res = await search(params);
@@ -336,7 +336,7 @@ describe('search · filters', () => {
     expect(shelf.facets.material).toEqual({ PETG: 8, ASA: 1, TPU: 1, PLA: 1 });
   });
 
-  it('pages and sorts', async () => {
+  it('search filters · page and sort · applied', async () => {
     const all = (await search({})).results.map((r) => r.id);
     const page2 = await search({ pageSize: '3', page: '2' });
     expect(page2).toMatchObject({ total: 10, page: 2, pageSize: 3 });
@@ -350,18 +350,18 @@ describe('search · filters', () => {
 
 describe('search · answers bad input', () => {
   // an outside probe's request: before the cap it held every other request for half a minute
-  it('answers the probe\'s q=abcdefghijkl~7 at once, as if ~2', async () => {
+  it('search bad input · the probe q=abcdefghijkl~7 · answered at once, as if ~2', async () => {
     const res = await request(t.app).get('/api/search?q=abcdefghijkl~7').expect(200);
     expect(res.body.total).toBe(0);
   });
 
-  it.each(['*', 'a*', 'ba* pl* ri*'])('refuses the costly wildcard search q=%j with 400', async (q) => {
+  it.each(['*', 'a*', 'ba* pl* ri*'])('search bad input · the costly wildcard search q=%j · 400', async (q) => {
     const res = await searchRaw({ q });
     expect(res.status).toBe(400);
     expect(res.body.error.message).toMatch(/\*/);
   });
 
-  it.each(['title:', '*~^', 'colour:red'])('answers q=%j with 400 and a message', async (q) => {
+  it.each(['title:', '*~^', 'colour:red'])('search bad input · q=%j · 400 with a message', async (q) => {
     const res = await searchRaw({ q });
     expect(res.status).toBe(400);
     expect(res.body.error.code).toBe('bad_request');
@@ -369,7 +369,7 @@ describe('search · answers bad input', () => {
     expect(res.body.error.message).toMatch(/field:word/);
   });
 
-  it('answers a bad fit, dim or parameter with 422 and field messages', async () => {
+  it('search bad input · a bad fit, dim or parameter · 422 with field messages', async () => {
     const fit = await searchRaw({ fit: '120x80' });
     expect(fit.status).toBe(422);
     expect(fit.body.error.fields.fit).toMatch(/three lengths separated by x/);
@@ -387,7 +387,7 @@ describe('search · answers bad input', () => {
 });
 
 describe('search · follows the shelf', () => {
-  it('finds a part once it is approved, not while it waits in review', async () => {
+  it('search follows the shelf · a part waiting in review, then approved · found only once approved', async () => {
     const id = await submitPart({ size: [20, 20, 20], data: { ...base, title: 'Lens cap keeper', category: 'protection-caps', licence: 'CC-BY-4.0', summary: 'Keeps the lens cap on a cord by the matte box.', recipes: [recipe.PETG] } });
     await t.services.search.idle();
     expect(await names({ q: 'keeper' })).toEqual([]);
@@ -396,7 +396,7 @@ describe('search · follows the shelf', () => {
     expect((await search({ q: 'keeper' })).results.map((r) => r.id)).toEqual([id]);
   });
 
-  it('keeps answering from the old index while a rebuild runs, then swaps in the new one', async () => {
+  it('search follows the shelf · a rebuild running · answers from the old index, then swaps in the new one', async () => {
     const id = await submitPart({ size: [20, 20, 20], data: { ...base, title: 'Marker pouch clip', category: 'cases-storage', licence: 'CC-BY-4.0', summary: 'Hangs a pouch of slate markers on the cart.', recipes: [recipe.PETG] } });
     await approve(id);
     // the worker that holds the old index answers until the new one is ready
@@ -407,7 +407,7 @@ describe('search · follows the shelf', () => {
     expect((await t.services.search.search(searchQuerySchema.parse({ q: 'pouch' }))).results.map((r) => r.id)).toEqual([id]);
   });
 
-  it('follows an approved edit: the new title is found, the old one no longer', async () => {
+  it('search follows the shelf · an approved edit · the new title found, the old one no longer', async () => {
     const id = await submitPart({ size: [20, 20, 20], data: { ...base, title: 'Tally light bracket', category: 'shoe-top', licence: 'CC-BY-4.0', summary: 'Puts a tally lamp on the shoe where talent sees it.', recipes: [recipe.PETG] } });
     await approve(id);
     await t.services.search.idle();
@@ -422,7 +422,7 @@ describe('search · follows the shelf', () => {
     expect(old.results.map((r) => [r.title, r.missing])).toEqual([['Tally lamp cradle', ['bracket']]]);
   });
 
-  it('drops a retired part', async () => {
+  it('search follows the shelf · a retired part · dropped', async () => {
     const id = await submitPart({ size: [20, 20, 20], data: { ...base, title: 'Filter tray wedge', category: 'protection-caps', licence: 'CC-BY-4.0', summary: 'Shims a loose filter tray in the matte box.', recipes: [recipe.PETG] } });
     await approve(id);
     await t.services.search.idle();
@@ -432,7 +432,7 @@ describe('search · follows the shelf', () => {
     expect((await search({ q: 'wedge' })).results).toEqual([]);
   });
 
-  it('does not rebuild when a decision leaves the published set as it was', async () => {
+  it('search follows the shelf · a decision that leaves the published set as it was · no rebuild', async () => {
     const id = await submitPart({ size: [20, 20, 20], data: { ...base, title: 'Unlucky draft', category: 'protection-caps', licence: 'CC-BY-4.0', summary: 'This one goes back to its author for changes.', recipes: [recipe.PETG] } });
     const before = t.services.search.stats().builds;
     await modA.post(`/api/review/${id}/send-back`).send({ note: 'Add a photo of the print, please.' }).expect(200);
@@ -442,7 +442,7 @@ describe('search · follows the shelf', () => {
 });
 
 describe('search · index file', () => {
-  it('is loaded at restart without rebuilding', async () => {
+  it('search index file · a restart · loaded without rebuilding', async () => {
     await t.services.search.idle();
     const expected = await names({ q: 'rods' });
     const again = await createTestApp({ SEARCH_INDEX_FILE: t.config.SEARCH_INDEX_FILE });
@@ -455,7 +455,7 @@ describe('search · index file', () => {
     }
   });
 
-  it('is rebuilt when corrupt, and written again', async () => {
+  it('search index file · corrupt · rebuilt and written again', async () => {
     const file = `${t.config.SEARCH_INDEX_FILE}.corrupt.json`;
     writeFileSync(file, '{"format":1,"fingerprint":"tr');
     const again = await createTestApp({ SEARCH_INDEX_FILE: file });
@@ -469,7 +469,7 @@ describe('search · index file', () => {
     }
   });
 
-  it('is rebuilt when the shelf changed since it was written, or it has another format', async () => {
+  it('search index file · the shelf changed since it was written, or another format · rebuilt', async () => {
     const stale = `${t.config.SEARCH_INDEX_FILE}.stale.json`;
     copyFileSync(t.config.SEARCH_INDEX_FILE, stale);
     const id = await submitPart({ size: [20, 20, 20], data: { ...base, title: 'Battery belt hook', category: 'power-batteries', licence: 'CC-BY-4.0', summary: 'Hangs a spare battery pouch on a belt.', recipes: [recipe.PETG] } });

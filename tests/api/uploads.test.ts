@@ -151,7 +151,7 @@ describe('uploads · a client that drops the connection mid-body', () => {
     ['part submission', 'model'],
     ['set report', 'photo'],
   ] as const) {
-    it(`${route}: the server keeps answering and the half-written file leaves uploads/tmp at once`, async () => {
+    it(`dropped uploads · ${route} cut off mid-body · the server keeps answering and the half-written file leaves uploads/tmp at once`, async () => {
       const path = route === 'part submission' ? '/api/parts' : `/api/parts/${publishedPartId}/reports`;
       const bytes = field === 'model' ? boxStl(20, 30, 10) : await jpegWithGps(64, 48);
       await abortMidUpload(member, path, field, Buffer.concat([bytes, Buffer.alloc(256 * 1024, 1)]));
@@ -169,14 +169,14 @@ describe('uploads · a client that drops the connection mid-body', () => {
 describe('uploads · malformed bodies and names are the client’s fault', () => {
   const model = () => Buffer.concat([fieldPart('data', JSON.stringify(submission())), fileHead('model', 'bracket.stl'), boxStl(10, 10, 10), Buffer.from('\r\n')]);
 
-  it('a multipart body cut off before its closing boundary gets 400 with a message, and nothing stays in uploads/tmp', async () => {
+  it('malformed uploads · a multipart body cut off before its closing boundary · 400 with a message, nothing stays in uploads/tmp', async () => {
     const res = await sendMultipart(member, '/api/parts', model());
     expect(res.status).toBe(400);
     expect(res.body.error?.message).toMatch(/incomplete|malformed/i);
     await waitFor('uploads/tmp is empty', () => tmpFiles().length === 0);
   });
 
-  it('a raw NUL byte inside a file name header gets 400 (a malformed part header), and nothing is kept', async () => {
+  it('malformed uploads · a raw NUL byte inside a file name header · 400 (a malformed part header), nothing kept', async () => {
     const body = Buffer.concat([fieldPart('data', JSON.stringify(submission())), fileHead('model', 'bracket\0.stl'), boxStl(10, 10, 10), Buffer.from('\r\n'), closing]);
     const res = await sendMultipart(member, '/api/parts', body);
     expect(res.status).toBe(400);
@@ -184,7 +184,7 @@ describe('uploads · malformed bodies and names are the client’s fault', () =>
     await waitFor('uploads/tmp is empty', () => tmpFiles().length === 0);
   });
 
-  it('a NUL written as a percent escape in an RFC 5987 file name gets 400 naming the NUL', async () => {
+  it('malformed uploads · a NUL as a percent escape in an RFC 5987 file name · 400 naming the NUL', async () => {
     const head = Buffer.from(`--${BOUNDARY}\r\nContent-Disposition: form-data; name="model"; filename*=UTF-8''bracket%00.stl\r\nContent-Type: application/octet-stream\r\n\r\n`);
     const body = Buffer.concat([fieldPart('data', JSON.stringify(submission())), head, boxStl(10, 10, 10), Buffer.from('\r\n'), closing]);
     const res = await sendMultipart(member, '/api/parts', body);
@@ -193,7 +193,7 @@ describe('uploads · malformed bodies and names are the client’s fault', () =>
     await waitFor('uploads/tmp is empty', () => tmpFiles().length === 0);
   });
 
-  it('a multipart request without a boundary gets 400', async () => {
+  it('malformed uploads · a multipart request without a boundary · 400', async () => {
     const res = await fetch(`${base}/api/parts`, {
       method: 'POST',
       headers: { cookie: member.cookie, 'x-csrf-token': member.token, 'content-type': 'multipart/form-data' },
@@ -215,7 +215,7 @@ describe('uploads · photos are checked before the 201', () => {
   const submitPhoto = (name: string, bytes: Buffer) =>
     agent.post('/api/parts').field('data', JSON.stringify(submission())).attach('model', boxStl(10, 10, 10), 'm.stl').attach('photo', bytes, name);
 
-  it('a 68-byte PNG declaring 30000 × 30000 pixels is refused with 422 naming the megapixel limit, before any decoding', async () => {
+  it('photo checks · a 68-byte PNG declaring 30000 × 30000 pixels · 422 naming the megapixel limit, before any decoding', async () => {
     const png = pngDeclaring(30000, 30000);
     expect(png.length).toBe(68);
     const before = await PartFile.count();
@@ -233,7 +233,7 @@ describe('uploads · photos are checked before the 201', () => {
     ['a PNG that goes on as an HTML page (polyglot)', 'poly.png', pngHtmlPolyglot, /cannot be decoded/],
   ];
   for (const [what, name, bytes, reason] of broken) {
-    it(`${what} is refused with 422 and nothing is kept`, async () => {
+    it(`photo checks · ${what} · 422, nothing kept`, async () => {
       const before = await PartFile.count();
       const res = await submitPhoto(name, await bytes());
       expect(res.status).toBe(422);
@@ -244,7 +244,7 @@ describe('uploads · photos are checked before the 201', () => {
     });
   }
 
-  it('a photo left pending after two attempts is marked failed at start-up instead of being resumed again', async () => {
+  it('photo checks · a photo left pending after two attempts · marked failed at start-up instead of resumed again', async () => {
     const res = await submitPhoto('again.jpg', await jpegWithGps(64, 48));
     expect(res.status).toBe(201);
     await t.services.parts.photosSettled();
@@ -260,7 +260,7 @@ describe('uploads · photos are checked before the 201', () => {
     expect(existsSync(raw)).toBe(false);
   });
 
-  it('a whole photo still goes through and is cleaned', async () => {
+  it('photo checks · a whole photo · goes through and is cleaned', async () => {
     const res = await submitPhoto('ok.jpg', await jpegWithGps(64, 48));
     expect(res.status).toBe(201);
     await t.services.parts.photosSettled();
@@ -279,14 +279,14 @@ describe('uploads · names that mislead', () => {
     await agent.login(email, password);
   });
 
-  it('bidi controls (U+202E and the rest of UAX #9 §2) are stripped from shown names', async () => {
+  it('misleading names · bidi controls (U+202E and the rest of UAX #9 §2) · stripped from shown names', async () => {
     const name = 'invoice\u202Etxt\u2066\u200F\u061C.stl';
     const res = await agent.post('/api/parts').field('data', JSON.stringify(submission())).attach('model', boxStl(10, 10, 10), name).expect(201);
     const model = await PartFile.findOne({ where: { partId: res.body.id, kind: 'model' } });
     expect(model?.originalName).toBe('invoicetxt.stl');
   });
 
-  it('a model uploaded as "….exe" downloads with its model extension', async () => {
+  it('misleading names · a model uploaded as "….exe" · downloads with its model extension', async () => {
     const res = await agent.post('/api/parts').field('data', JSON.stringify(submission())).attach('model', boxStl(10, 10, 10), 'invoice\u202Etxt.exe').expect(201);
     const part = await agent.get(`/api/parts/${res.body.id}`).expect(200);
     const model = part.body.files.find((f: { kind: string }) => f.kind === 'model');
@@ -308,24 +308,24 @@ describe('uploads · meshes no printer can build', () => {
   const submitModel = (name: string, bytes: Buffer, data: object = submission()) =>
     agent.post('/api/parts').field('data', JSON.stringify(data)).attach('model', bytes, name);
 
-  it('a cube with 3e38 mm sides is refused with 422 instead of estimating 8e114 mm³', async () => {
+  it('mesh limits · a cube with 3e38 mm sides · 422 instead of estimating 8e114 mm³', async () => {
     const res = await submitModel('huge.stl', cubeStl(3e38));
     expect(res.status).toBe(422);
     expect(res.body.error.message).toMatch(/3\.00e\+38 × 3\.00e\+38 × 3\.00e\+38 mm, larger than any printer builds \(at most 2,000 mm on a side\)/);
   });
 
-  it('a part just over 2 m on one side is refused; one just under is accepted', async () => {
+  it('mesh limits · a part just over and just under 2 m on one side · refused; accepted', async () => {
     expect((await submitModel('long.stl', boxStl(2001, 10, 10))).status).toBe(422);
     expect((await submitModel('shorter.stl', boxStl(1999, 10, 10))).status).toBe(201);
   });
 
-  it('100 units marked as drawn in inches (2,540 mm) is refused with a hint about the unit', async () => {
+  it('mesh limits · 100 units marked as drawn in inches (2,540 mm) · refused with a hint about the unit', async () => {
     const res = await submitModel('inches.stl', boxStl(100, 10, 10), submission({ drawnInInches: true }));
     expect(res.status).toBe(422);
     expect(res.body.error.message).toMatch(/do not mark it as drawn in inches/);
   });
 
-  it('a 3MF of about 490 KB whose model part inflates to 480 MiB is refused with 422 before inflating', async () => {
+  it('mesh limits · a 3MF of about 490 KB whose model part inflates to 480 MiB · 422 before inflating', async () => {
     const zip = await hugeEntry3mf(480);
     expect(zip.length).toBeLessThan(500 * 1024);
     const res = await submitModel('bomb.3mf', zip);
@@ -334,7 +334,7 @@ describe('uploads · meshes no printer can build', () => {
     await waitFor('uploads/tmp is empty', () => tmpFiles().length === 0);
   });
 
-  it('a 3MF of a few kilobytes whose nested components expand to 120 million triangles is refused with 422', async () => {
+  it('mesh limits · a 3MF of a few kilobytes whose nested components expand to 120 million triangles · 422', async () => {
     const zip = Buffer.from(nestedComponents3mf(7, 10));
     expect(zip.length).toBeLessThan(4096);
     const res = await submitModel('nested.3mf', zip);

@@ -102,7 +102,7 @@ describe('wanted · asking', () => {
     expect(body.body.error.fields.body).toMatch(/No camera body is called "Zephyr 9"/);
   });
 
-  it('GET /api/wanted · open requests, nearest needed-by first; visitors 401', async () => {
+  it('wanted · GET /api/wanted · open requests, nearest needed-by first; visitors 401', async () => {
     await asker.post('/api/wanted').send({ ...request, title: 'Monitor hood clip, needed soon', neededBy: '2026-04-01' }).expect(201);
     const res = await stranger.get('/api/wanted').expect(200);
     const items = res.body.items as WantedListItem[];
@@ -120,7 +120,7 @@ describe('wanted · answering and closing', () => {
     id = (await asker.post('/api/wanted').send({ ...request, title: 'V-style receiver plate, lifecycle' }).expect(201)).body.id;
   });
 
-  it('POST /:id/answers · someone else’s part in review · 422; their own part in review · 201, nobody told yet', async () => {
+  it('POST /:id/answers · someone else’s part in review · 422; their own part in review: 201, nobody told yet', async () => {
     const othersDraft = await submitted(stranger, 'Somebody else’s plate in review');
     const refused = await maker.post(`/api/wanted/${id}/answers`).send({ part: othersDraft }).expect(422);
     expect(refused.body.error.fields.part).toMatch(/no part with that id/);
@@ -165,14 +165,14 @@ describe('wanted · answering and closing', () => {
     expect((await mails()).filter((m) => m.to.includes(asker.email))).toHaveLength(1);
   });
 
-  it('POST /:id/close · anyone but the author or a moderator · 403; the author as spam · 403', async () => {
+  it('POST /:id/close · anyone but the author or a moderator · 403; the author as spam: 403', async () => {
     const res = await stranger.post(`/api/wanted/${id}/close`).send({ reason: 'solved' }).expect(403);
     expect(res.body.error.message).toMatch(/Only the crew member who asked/);
     const spam = await asker.post(`/api/wanted/${id}/close`).send({ reason: 'spam' }).expect(403);
     expect(spam.body.error.message).toMatch(/Only a moderator/);
   });
 
-  it('POST /:id/close · the author, solved · 200; then answers and a second close · 409', async () => {
+  it('POST /:id/close · the author, solved · 200; then answers and a second close: 409', async () => {
     const res = await asker.post(`/api/wanted/${id}/close`).send({ reason: 'solved', note: 'Printed two, both fit.' }).expect(200);
     expect(res.body).toEqual({ id, status: 'closed', closeReason: 'solved' });
     const d = (await asker.get(`/api/wanted/${id}`).expect(200)).body as WantedDetail;
@@ -223,7 +223,7 @@ describe('wanted · answering and closing', () => {
     expect(res.body.error.fields.reason).toMatch(/solved, withdrawn/);
   });
 
-  it('GET /api/wanted?status=mine · the author’s own requests, open and closed', async () => {
+  it('wanted · GET /api/wanted?status=mine · the author’s own requests, open and closed', async () => {
     const items = (await asker.get('/api/wanted?status=mine').expect(200)).body.items as WantedListItem[];
     expect(items.every((i) => i.author.id === asker.userId)).toBe(true);
     expect(items.some((i) => i.status === 'closed')).toBe(true);

@@ -3,7 +3,7 @@ import { describe, expect, it } from 'vitest';
 import { formatSummary, runChaos, SHORT_FORM, verdict } from './harness';
 
 describe('chaos', () => {
-  it('server under mixed load with aborted uploads, submission bursts, a frozen and a killed database, then SIGTERM · loses, doubles and orphans nothing and shuts down in time', async () => {
+  it('chaos · server under mixed load with aborted uploads, submission bursts, a frozen and a killed database, then SIGTERM · loses, doubles and orphans nothing and shuts down in time', async () => {
     const summary = await runChaos({ ...SHORT_FORM, log: () => undefined });
     console.log(formatSummary(summary));
     expect(verdict(summary)).toEqual([]);

@@ -32,7 +32,7 @@ async function submitAsPageUser(): Promise<number> {
 }
 
 describe('browser · the review desk', () => {
-  it('a member submits, the demo moderator approves with a note, the member sees it published and the notice', async () => {
+  it('review desk · a member submits, the demo moderator approves with a note · the member sees it published and the notice', async () => {
     const { page } = rig;
     await signInThroughForm(page, member.email, DEMO_PASSWORD);
     await page.waitForURL((u) => u.pathname === '/');

@@ -16,7 +16,7 @@ afterAll(async () => {
 const member = DEMO_ACCOUNTS.find((a) => a.role === 'member')!;
 
 describe('browser · sign-in', () => {
-  it('signs in through the form as the demo member and shows the name in the top bar', async () => {
+  it('sign-in · the demo member through the form · signed in, the name in the top bar', async () => {
     const { page } = rig;
     await signInThroughForm(page, member.email, DEMO_PASSWORD);
     await page.waitForURL((url) => url.pathname === '/');
@@ -27,7 +27,7 @@ describe('browser · sign-in', () => {
     expect(existsSync(shot)).toBe(true);
   });
 
-  it('shows the generic message for a wrong password', async () => {
+  it('sign-in · a wrong password · the generic message', async () => {
     const { page } = rig;
     await forgetSession(page);
     await signInThroughForm(page, member.email, 'not the password');
@@ -36,7 +36,7 @@ describe('browser · sign-in', () => {
     expect(await error.textContent()).toContain('do not match');
   });
 
-  it('register · a weak password · the form says why on the field; a good one · "check your mail", nobody signed in', async () => {
+  it('register · a weak password · the form says why on the field; a good one: "check your mail", nobody signed in', async () => {
     const { page } = rig;
     await forgetSession(page);
     await page.goto('/register');

@@ -206,7 +206,7 @@ export class Member {
     const headers: Record<string, string> = {};
     if (this.cookie) headers.cookie = this.cookie;
     if (method !== 'GET') headers['x-csrf-token'] = this.token;
-    let payload: BodyInit | undefined;
+    let payload: RequestInit['body'];
     if (body instanceof FormData) payload = body;
     else if (body !== undefined) {
       headers['content-type'] = 'application/json';

@@ -34,7 +34,7 @@ function fakeSequelize() {
 const quick: RetryPolicy = { attempts: 4, baseDelayMs: 1, maxDelayMs: 2 };
 
 describe('isRetriableTransactionError · what runs again', () => {
-  it('deadlock (1213), lock-wait timeout (1205) and SQLSTATE 40001 are retried', () => {
+  it('isRetriableTransactionError · deadlock (1213), lock-wait timeout (1205), SQLSTATE 40001 · retried', () => {
     expect(isRetriableTransactionError(deadlock())).toBe(true);
     expect(isRetriableTransactionError(lockWait())).toBe(true);
     expect(isRetriableTransactionError(dbError(1020, '40001', 'Record has changed since last read'))).toBe(true);
@@ -42,14 +42,14 @@ describe('isRetriableTransactionError · what runs again', () => {
     expect(isRetriableTransactionError(deadlock().original)).toBe(true);
   });
 
-  it('Galera conflict reports naming WSREP are retried, the same numbers without WSREP are not', () => {
+  it('isRetriableTransactionError · Galera conflicts naming WSREP, the same numbers without · retried; not retried', () => {
     expect(isRetriableTransactionError(dbError(1047, '08S01', 'WSREP has not yet prepared node for application use'))).toBe(true);
     expect(isRetriableTransactionError(dbError(1180, 'HY000', 'Got error 35 "WSREP replication failed" during COMMIT'))).toBe(true);
     expect(isRetriableTransactionError(dbError(1047, '08S01', 'Unknown command'))).toBe(false);
     expect(isRetriableTransactionError(dbError(1180, 'HY000', 'Got error 28 during COMMIT'))).toBe(false);
   });
 
-  it('duplicates, syntax errors, timeouts, lost connections and plain errors are not retried', () => {
+  it('isRetriableTransactionError · duplicates, syntax errors, timeouts, lost connections, plain errors · not retried', () => {
     expect(isRetriableTransactionError(dbError(1062, '23000', "Duplicate entry 'x' for key 'slug'"))).toBe(false);
     expect(isRetriableTransactionError(new UniqueConstraintError({}))).toBe(false);
     expect(isRetriableTransactionError(dbError(1064, '42000', 'You have an error in your SQL syntax'))).toBe(false);
@@ -60,7 +60,7 @@ describe('isRetriableTransactionError · what runs again', () => {
 });
 
 describe('isDatabaseUnavailable · which failures are a 503', () => {
-  it('connector timeouts and broken connections are; SQL errors are not', () => {
+  it('isDatabaseUnavailable · connector timeouts and broken connections; SQL errors · a 503; not', () => {
     // connector codes from mariadb 3.0 lib/misc/errors.js; 1969 is ER_STATEMENT_TIMEOUT (max_statement_time)
     expect(isDatabaseUnavailable(dbError(45026, '08S01', 'socket timeout', 'ER_SOCKET_TIMEOUT'))).toBe(true);
     expect(isDatabaseUnavailable(dbError(45012, '08S01', 'Connection timeout', 'ER_CONNECTION_TIMEOUT'))).toBe(true);
@@ -75,7 +75,7 @@ describe('isDatabaseUnavailable · which failures are a 503', () => {
 describe('retryDelayMs · jittered exponential pause', () => {
   const policy: RetryPolicy = { attempts: 6, baseDelayMs: 20, maxDelayMs: 500 };
 
-  it('stays between half and all of the doubled step, whatever the random draw', () => {
+  it('retryDelayMs · any random draw · between half and all of the doubled step', () => {
     for (const [attempt, step] of [[1, 20], [2, 40], [3, 80], [4, 160], [5, 320]]) {
       expect(retryDelayMs(attempt, policy, () => 0)).toBe(step / 2);
       expect(retryDelayMs(attempt, policy, () => 0.999999)).toBe(step);
@@ -87,7 +87,7 @@ describe('retryDelayMs · jittered exponential pause', () => {
     }
   });
 
-  it('never exceeds the cap, however many attempts', () => {
+  it('retryDelayMs · many attempts · never above the cap', () => {
     expect(retryDelayMs(6, policy, () => 0.999999)).toBe(500);
     expect(retryDelayMs(30, policy, () => 0.999999)).toBe(500);
     expect(retryDelayMs(30, policy, () => 0)).toBe(250);
@@ -95,7 +95,7 @@ describe('retryDelayMs · jittered exponential pause', () => {
 });
 
 describe('transact · retry policy', () => {
-  it('runs the work again after a deadlock and commits once', async () => {
+  it('transact · a deadlock · the work runs again and commits once', async () => {
     const { sequelize, log } = fakeSequelize();
     let runs = 0;
     const result = await transact(
@@ -112,7 +112,7 @@ describe('transact · retry policy', () => {
     expect(log).toEqual({ begun: 3, commits: 1, rollbacks: 2 });
   });
 
-  it('gives up after the bounded number of attempts and throws the last deadlock', async () => {
+  it('transact · deadlocks past the bounded attempts · gives up and throws the last deadlock', async () => {
     const { sequelize, log } = fakeSequelize();
     let runs = 0;
     const last = lockWait();
@@ -130,7 +130,7 @@ describe('transact · retry policy', () => {
     expect(log.rollbacks).toBe(quick.attempts);
   });
 
-  it('does not retry an error that is not a lock conflict', async () => {
+  it('transact · an error that is not a lock conflict · not retried', async () => {
     const { sequelize, log } = fakeSequelize();
     const work = vi.fn(async () => {
       throw dbError(1062, '23000', "Duplicate entry 'x' for key 'slug'");
@@ -140,7 +140,7 @@ describe('transact · retry policy', () => {
     expect(log).toEqual({ begun: 1, commits: 0, rollbacks: 1 });
   });
 
-  it('retries a commit that fails with a deadlock (a Galera certification conflict)', async () => {
+  it('transact · a commit failing with a deadlock (a Galera certification conflict) · retried', async () => {
     const { sequelize } = fakeSequelize();
     let commits = 0;
     const original = sequelize.transaction.bind(sequelize);
@@ -160,7 +160,7 @@ describe('transact · retry policy', () => {
     expect(commits).toBe(2);
   });
 
-  it('undoes each failed attempt (last step first) and never the committed one', async () => {
+  it('transact · failed attempts and a committed one · each failed one undone, last step first; the committed one never', async () => {
     const { sequelize } = fakeSequelize();
     const steps: string[] = [];
     await transact(
@@ -175,7 +175,7 @@ describe('transact · retry policy', () => {
     expect(steps).toEqual(['undo row 1', 'undo move 1']);
   });
 
-  it('undoes a failed attempt that is not retried as well', async () => {
+  it('transact · a failed attempt that is not retried · undone as well', async () => {
     const { sequelize } = fakeSequelize();
     const undo = vi.fn();
     await expect(

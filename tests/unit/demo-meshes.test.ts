@@ -4,13 +4,13 @@ import { box, clip, ring, toBinaryStl } from '../../server/demo/demo-meshes';
 
 // The demo shapes must be closed and wound outward, or the demo shelf would show warnings.
 describe('demo meshes · closed prisms', () => {
-  it('a box has the analytic volume x·y·z', () => {
+  it('demo meshes · a box · the analytic volume x·y·z', () => {
     const a = analyseModelFile(new Uint8Array(toBinaryStl(box(100, 70, 6), 'box')));
     expect(a).toMatchObject({ watertight: true, insideOut: false, shells: 1 });
     expect(a.volumeMm3).toBeCloseTo(42000, 1);
   });
 
-  it('a ring has the volume of its polygonal annulus: n/2·sin(2π/n)·(R²−r²)·h (analytic formula)', () => {
+  it('demo meshes · a ring · the volume of its polygonal annulus: n/2·sin(2π/n)·(R²−r²)·h (analytic formula)', () => {
     const n = 64;
     const a = analyseModelFile(new Uint8Array(toBinaryStl(ring(14, 7.6, 22, n), 'ring')));
     expect(a).toMatchObject({ watertight: true, insideOut: false, shells: 1 });
@@ -19,7 +19,7 @@ describe('demo meshes · closed prisms', () => {
     expect(a.sizeMm[2]).toBeCloseTo(22, 5);
   });
 
-  it('an open clip is closed by its end caps', () => {
+  it('demo meshes · an open clip · closed by its end caps', () => {
     const a = analyseModelFile(new Uint8Array(toBinaryStl(clip(11, 7.6, 10, 70), 'clip')));
     expect(a).toMatchObject({ watertight: true, insideOut: false, shells: 1 });
   });

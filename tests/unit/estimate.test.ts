@@ -18,14 +18,14 @@ const cube20: PartGeometry = { volumeMm3: 8000, areaMm2: 2400, sizeMm: [20, 20, 
 const pla: PrintSettings = { material: 'PLA', nozzleMm: 0.4, layerMm: 0.2, walls: 2, topBottomLayers: 4, infillPct: 20 };
 
 describe('estimatePrint', () => {
-  it('weighs a solid 20 mm PLA cube at 9.92 g', () => {
+  it('estimatePrint · a solid 20 mm PLA cube · weighs 9.92 g', () => {
     // Trade reference: PLA 1.24 g/cm³ (UL Prospector, ISO 1183); 8 cm³ × 1.24 g/cm³ = 9.92 g.
     const estimate = estimatePrint(cube20, { ...pla, infillPct: 100 });
     expect(estimate.volumeMm3).toBeCloseTo(8000, 9);
     expect(estimate.massG).toBeCloseTo(9.92, 9);
   });
 
-  it('gives about 335.3 m of 1.75 mm and 126.4 m of 2.85 mm filament per kg of PLA', () => {
+  it('estimatePrint · a kg of PLA · about 335.3 m of 1.75 mm and 126.4 m of 2.85 mm filament', () => {
     // Trade reference: L = m / (ρ·π·(d/2)²) with ρ = 1.24 g/cm³; the ~330 m spool is common practice.
     expect(filamentLengthM(1000, 1.75, 1.24)).toBeCloseTo(335.3, 1);
     expect(filamentLengthM(1000, 2.85, 1.24)).toBeCloseTo(126.4, 1);
@@ -55,7 +55,7 @@ describe('estimatePrint', () => {
     expect(estimate.assumptions.join(' ')).toMatch(/Electricity not included/);
   });
 
-  it('adds electricity when watts and a price per kWh are given', () => {
+  it('estimatePrint · watts and a price per kWh given · electricity added', () => {
     const plain = estimatePrint(cube20, pla);
     const estimate = estimatePrint(cube20, { ...pla, printerWatts: 120, pricePerKwh: 0.3 });
     // kWh = W × h / 1000.
@@ -85,7 +85,7 @@ describe('estimatePrint', () => {
     expect(DEFAULT_ACCELERATION_MM_S2).toBe(1000);
   });
 
-  it('the hollow tube · never charged more than its solid ring', () => {
+  it('estimatePrint · the hollow tube · never charged more than its solid ring', () => {
     // Tube 20 mm outside, 16 mm inside, 100 mm tall: cross-section π(10² − 8²) = 113.097 mm².
     const annulus = Math.PI * (100 - 64);
     const area = 2 * Math.PI * 10 * 100 + 2 * Math.PI * 8 * 100 + 2 * annulus;
@@ -94,7 +94,7 @@ describe('estimatePrint', () => {
     expect(estimate.volumeMm3).toBeLessThanOrEqual(annulus * 100);
   });
 
-  it('never exceeds the solid volume', () => {
+  it('estimatePrint · any settings · never above the solid volume', () => {
     const thinPlate: PartGeometry = { volumeMm3: 100 * 100 * 1, areaMm2: 2 * 100 * 100 + 400, sizeMm: [100, 100, 1] };
     expect(estimatePrint(thinPlate, { ...pla, walls: 4, topBottomLayers: 5 }).volumeMm3).toBe(10_000);
   });
@@ -105,7 +105,7 @@ describe('estimatePrint', () => {
     { volumeMm3: 11_309.7, areaMm2: 11_535.2, sizeMm: [20, 20, 100] },
   ];
 
-  it('never weighs less with more infill', () => {
+  it('estimatePrint · more infill · never lighter', () => {
     for (const shape of shapes) {
       let previous = -Infinity;
       for (let infillPct = 0; infillPct <= 100; infillPct += 5) {
@@ -116,7 +116,7 @@ describe('estimatePrint', () => {
     }
   });
 
-  it('never weighs less with more walls or more top and bottom layers; never slower when faster', () => {
+  it('estimatePrint · more walls or top and bottom layers; faster speeds · never lighter; never slower', () => {
     for (const shape of shapes) {
       let previous = -Infinity;
       for (let walls = 0; walls <= 6; walls++) {
@@ -139,7 +139,7 @@ describe('estimatePrint', () => {
     }
   });
 
-  it('never prints slower with a bigger nozzle at equal speed and layer height', () => {
+  it('estimatePrint · a bigger nozzle at equal speed and layer height · never slower', () => {
     for (const shape of shapes) {
       for (const infillPct of [0, 15, 40, 100]) {
         let previous = Infinity;
@@ -152,7 +152,7 @@ describe('estimatePrint', () => {
     }
   });
 
-  it('rejects impossible settings', () => {
+  it('estimatePrint · impossible settings · rejected', () => {
     expect(() => estimatePrint(cube20, { ...pla, layerMm: 0 })).toThrow(RangeError);
     expect(() => estimatePrint(cube20, { ...pla, infillPct: 120 })).toThrow(RangeError);
     expect(() => estimatePrint({ ...cube20, volumeMm3: -1 }, pla)).toThrow(RangeError);
@@ -160,7 +160,7 @@ describe('estimatePrint', () => {
 });
 
 describe('spoolsNeeded', () => {
-  it('rounds up to whole spools', () => {
+  it('spoolsNeeded · part of a spool · rounded up to whole spools', () => {
     expect(spoolsNeeded(0)).toBe(0);
     expect(spoolsNeeded(1)).toBe(1);
     expect(spoolsNeeded(1000)).toBe(1);
@@ -210,7 +210,7 @@ describe('fitOnBed', () => {
 
   const bed: Size3 = [250, 210, 60];
 
-  it('fits a part that fits as modelled', () => {
+  it('fitOnBed · a part that fits as modelled · fits', () => {
     expect(fitBare([240, 200, 50], bed)).toMatchObject({ fits: 'as-is', orientation: [240, 200, 50] });
   });
 
@@ -220,18 +220,18 @@ describe('fitOnBed', () => {
     [50, 240, 200],
     [200, 50, 240],
     [50, 200, 240],
-  ] as const)('turns %d × %d × %d to 240 × 200 × 50', (...part) => {
+  ] as const)('fitOnBed · %d × %d × %d · turned to 240 × 200 × 50', (...part) => {
     const fit = fitBare(part, bed);
     expect(fit.fits).toBe('rotated');
     expect(fit.orientation).toEqual([240, 200, 50]);
     expect(fit.message).toBe('Fits if turned to 240 × 200 × 50 mm (x × y × z).');
   });
 
-  it('fits a part exactly the size of the bed', () => {
+  it('fitOnBed · a part exactly the size of the bed · fits', () => {
     expect(fitBare([250, 210, 60], bed).fits).toBe('as-is');
   });
 
-  it('lays a long part diagonally when that is the only way', () => {
+  it('fitOnBed · a long part that fits only diagonally · laid diagonally', () => {
     // At 45° a 290 × 20 footprint spans (290 + 20)/√2 = 219.2 mm ≤ 220 mm.
     expect(sweepSlack(290, 20, 220, 220)).toBeGreaterThan(0);
     const fit = fitBare([290, 20, 10], [220, 220, 250]);
@@ -243,25 +243,25 @@ describe('fitOnBed', () => {
     expect(fit.message).toMatch(/^Fits only diagonally/);
   });
 
-  it('stands a 300 × 20 × 10 mm part on its edge to fit it diagonally', () => {
+  it('fitOnBed · a 300 × 20 × 10 mm part · stood on its edge to fit diagonally', () => {
     // Lying flat, 300 × 20 spans 320/√2 = 226.3 mm at 45°; on its 300 × 10 edge, 310/√2 = 219.2 mm.
     expect(sweepSlack(300, 20, 220, 220)).toBeLessThan(0);
     expect(sweepSlack(300, 10, 220, 220)).toBeGreaterThan(0);
     expect(fitBare([300, 20, 10], [220, 220, 250])).toMatchObject({ fits: 'diagonal', orientation: [300, 10, 20] });
   });
 
-  it('refuses a 300 × 20 × 20 mm part on a 220 × 220 × 250 mm bed', () => {
+  it('fitOnBed · a 300 × 20 × 20 mm part on a 220 × 220 × 250 mm bed · refused', () => {
     // Every face is 300 × 20 (no angle fits, as above) and 300 mm is taller than the bed.
     const fit = fitBare([300, 20, 20], [220, 220, 250]);
     expect(fit.fits).toBe('no');
     expect(fit.message).toMatch(/Too big for the 220 × 220 × 250 mm bed/);
   });
 
-  it('stands a part up when it fits no other way', () => {
+  it('fitOnBed · a part that fits no other way · stood up', () => {
     expect(fitBare([300, 20, 10], [220, 220, 320])).toMatchObject({ fits: 'rotated', orientation: [20, 10, 300] });
   });
 
-  it('agrees with a brute-force angle sweep (Carver 1956, from memory) on random footprints', () => {
+  it('fitOnBed · random footprints · agrees with a brute-force angle sweep (Carver 1956, from memory)', () => {
     let seed = 12345;
     const random = () => {
       seed = (seed * 1103515245 + 12345) % 2 ** 31; // ANSI C linear congruential generator
@@ -287,7 +287,7 @@ describe('fitOnBed', () => {
     expect(diagonalCases).toBeGreaterThan(10);
   });
 
-  it('reads an inch-sized part (1 in = 25.4 mm exactly, NIST SP 811)', () => {
+  it('fitOnBed · an inch-sized part · read as 1 in = 25.4 mm exactly (NIST SP 811)', () => {
     expect(MM_PER_INCH).toBe(25.4);
     const part: Size3 = [inchesToMm(9), inchesToMm(8), inchesToMm(2)]; // 228.6 × 203.2 × 50.8 mm
     expect(fitBare(part, bed).fits).toBe('as-is');

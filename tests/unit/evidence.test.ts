@@ -21,7 +21,7 @@ describe('evidence · proven score per part, material and condition', () => {
   ];
   const e = summariseEvidence(reports, [], null);
 
-  it('counts held up and worn-but-working as success and takes the Wilson lower bound', () => {
+  it('proven score · held up and worn-but-working · count as success; the Wilson lower bound taken', () => {
     expect(e.reports).toBe(5);
     expect(e.heldUp).toBe(3);
     expect(e.proven).toBeCloseTo(wilsonByHand(3, 5), 12);
@@ -30,14 +30,14 @@ describe('evidence · proven score per part, material and condition', () => {
     expect(e.proven).toBeCloseTo(0.2307, 3);
   });
 
-  it('splits the figures by material and by condition', () => {
+  it('proven score · reports of several materials and conditions · figures split by each', () => {
     expect(e.byMaterial.PETG).toEqual({ reports: 3, heldUp: 2, proven: wilsonByHand(2, 3) });
     expect(e.byMaterial.PLA).toEqual({ reports: 1, heldUp: 0, proven: 0 });
     expect(e.byCondition.heat).toEqual({ reports: 3, heldUp: 2, proven: wilsonByHand(2, 3) });
     expect(e.byCondition.cold).toBeUndefined();
   });
 
-  it('is 0 with no reports, and says so in plain words', () => {
+  it('proven score · no reports · 0, said in plain words', () => {
     const none = summariseEvidence([], [], null);
     expect(none.proven).toBe(0);
     expect(none.sentence).toMatch(/No set reports yet/);
@@ -61,20 +61,20 @@ describe('evidence · proven score per part, material and condition', () => {
 });
 
 describe('evidence · warnings drawn from the reports', () => {
-  it('warns when a material deformed in heat in two or more reports', () => {
+  it('evidence warnings · a material deformed in heat in two or more reports · warned', () => {
     const reports = [r('deformed', 'PLA', ['heat']), r('deformed', 'PLA', ['heat', 'vehicle']), r('deformed', 'PLA', ['heat']), r('held-up', 'PLA', ['heat'])];
     const warnings = evidenceWarnings(reports);
     expect(warnings.map((w) => w.text)).toContain('PLA deformed in heat in 3 of 4 reports');
   });
 
-  it('names mixed failures and stays quiet for a single one', () => {
+  it('evidence warnings · mixed failures; a single one · named; quiet', () => {
     expect(evidenceWarnings([r('deformed', 'PLA', ['heat']), r('failed', 'PLA', ['heat'])])[0].text).toBe('PLA deformed or failed in heat in 2 of 2 reports');
     expect(evidenceWarnings([r('deformed', 'PLA', ['heat']), r('held-up', 'PLA', ['heat'])])).toEqual([]);
   });
 });
 
 describe('evidence · ratings', () => {
-  it('reports the distribution, the mean and the Bayesian adjusted rating with the catalogue mean as prior', () => {
+  it('ratings · several ratings · distribution, mean and the Bayesian adjusted rating with the catalogue mean as prior', () => {
     const e = summariseEvidence([], [5, 5, 4], 3.5);
     expect(e.rating.distribution).toEqual({ 1: 0, 2: 0, 3: 0, 4: 1, 5: 2 });
     expect(e.rating.mean).toBeCloseTo(14 / 3, 12);
@@ -84,7 +84,7 @@ describe('evidence · ratings', () => {
 });
 
 describe('ranking · a fixed set, best proven first', () => {
-  it('puts forty good reports above one perfect one, and breaks ties by adjusted rating', () => {
+  it('ranking · forty good reports and one perfect one · the forty first; ties broken by adjusted rating', () => {
     const parts = [
       { name: 'one perfect', ...summariseEvidence([r('held-up')], [5], 4) },
       { name: 'forty good', ...summariseEvidence([...Array(38).fill(r('held-up')), r('failed'), r('cracked')], [4, 4, 5], 4) },
@@ -109,7 +109,7 @@ describe('evidence · who counts toward the proven figure', () => {
     createdAt,
   });
 
-  it('an author\'s own reports · never count toward their part\'s proven figure', () => {
+  it('evidence · an author\'s own reports · never count toward their part\'s proven figure', () => {
     // the probe's case: 25 "held up" reports by the author, one "failed" and one "held up" by crew
     const reports = [...Array.from({ length: 25 }, (_, i) => by(AUTHOR, 'held-up', `Shoot ${i}`)), by(2, 'failed'), by(3, 'held-up')];
     const e = summariseEvidence(reports, [], null, { authorId: AUTHOR });
@@ -125,7 +125,7 @@ describe('evidence · who counts toward the proven figure', () => {
     expect(summariseEvidence(reports, [], null).proven).toBeCloseTo(wilsonByHand(26, 27), 12);
   });
 
-  it('one member, one production · counts once (the latest), however the production is written', () => {
+  it('evidence · one member, one production · counts once (the latest), however the production is written', () => {
     // our rule (common practice against ballot stuffing): one voice per member per job
     const reports = [
       by(2, 'failed', 'The Salt Road', '2026-03-01T10:00:00Z'),
@@ -142,12 +142,12 @@ describe('evidence · who counts toward the proven figure', () => {
     expect(e.proven).toBeCloseTo(wilsonByHand(3, 3), 12);
   });
 
-  it('no production named · one per member per day', () => {
+  it('evidence · no production named · one per member per day', () => {
     const reports = [by(2, 'held-up', '', '2026-03-01T08:00:00Z'), by(2, 'held-up', '', '2026-03-01T18:00:00Z'), by(2, 'held-up', '', '2026-03-02T08:00:00Z')];
     expect(countedReports(reports, AUTHOR)).toEqual([reports[1], reports[2]]);
   });
 
-  it('warnings · still read the author\'s own failure reports (a caution is a caution), once per member and production', () => {
+  it('evidence · warnings · still read the author\'s own failure reports (a caution is a caution), once per member and production', () => {
     const reports = [
       { ...by(AUTHOR, 'deformed'), material: 'PLA', conditions: ['heat'] as const },
       { ...by(2, 'deformed'), material: 'PLA', conditions: ['heat'] as const },
@@ -158,7 +158,7 @@ describe('evidence · who counts toward the proven figure', () => {
     expect(e.reports).toBe(1);
   });
 
-  it('ranking · an author\'s 25 self-reports no longer lift their part above one with five crew reports', () => {
+  it('evidence · ranking · an author\'s 25 self-reports no longer lift their part above one with five crew reports', () => {
     const stuffed = summariseEvidence([...Array.from({ length: 25 }, (_, i) => by(AUTHOR, 'held-up', `Shoot ${i}`)), by(2, 'held-up')], [], null, { authorId: AUTHOR });
     const earned = summariseEvidence([2, 3, 4, 5, 6].map((u) => by(u, 'held-up')), [], null, { authorId: AUTHOR });
     // Wilson lower bounds (JASA 1927): 1 of 1 → 0.2065, 5 of 5 → 0.5655 (both by the formula above)

@@ -9,11 +9,11 @@ describe('file names · display names', () => {
     ['\u202Abracket\u202C.stl', 'bracket.stl'],
     ['\u2066plate\u2069\u2067.3mf\u2068', 'plate.3mf'],
     ['cage\u200E\u200F\u061C.stl', 'cage.stl'],
-  ])('strips bidi controls from %j', (raw, shown) => {
+  ])('display names · %j · bidi controls stripped', (raw, shown) => {
     expect(displayName(raw)).toBe(shown);
   });
 
-  it('keeps letters of right-to-left scripts, which are not controls', () => {
+  it('display names · letters of right-to-left scripts · kept (they are not controls)', () => {
     expect(displayName('מתקן.stl')).toBe('מתקן.stl');
   });
 });
@@ -25,11 +25,11 @@ describe('file names · model downloads keep their model extension', () => {
     ['invoicetxt.exe', '.stl', 'invoicetxt.exe.stl'],
     ['plate.stl', '.3mf', 'plate.3mf'],
     ['readme', '.3mf', 'readme.3mf'],
-  ])('%j as %s is saved as %j', (name, extension, saved) => {
+  ])('model downloads · %j as %s · saved as %j', (name, extension, saved) => {
     expect(modelFileName(name, extension)).toBe(saved);
   });
 
-  it('stays within the 200-character name column', () => {
+  it('model downloads · a long name · within the 200-character name column', () => {
     expect(modelFileName('a'.repeat(200), '.stl')).toHaveLength(200);
   });
 });

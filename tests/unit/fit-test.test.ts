@@ -8,7 +8,7 @@ const fit: FitTestRecipe = { purpose: 'fit-test', material: 'PLA', nozzleMm: 0.4
 const set: FitTestRecipe = { purpose: 'set-ready', material: 'PETG', nozzleMm: 0.4, layerMm: 0.2, walls: 4, topBottomLayers: 5, infillPct: 40 };
 
 describe('fit test first · quick check before the durable print', () => {
-  it('compares the two recipes with the same estimate model and reports what a wrong fit would waste', () => {
+  it('fit test first · two recipes · compared with the same estimate model, with what a wrong fit would waste', () => {
     const advice = fitTestAdvice(cube, [set, fit], 1)!;
     expect(advice.fitTest).toEqual(estimatePrint(cube, fit));
     expect(advice.setReady).toEqual(estimatePrint(cube, set));
@@ -19,7 +19,7 @@ describe('fit test first · quick check before the durable print', () => {
     expect(advice.timeShare).toBeLessThan(1);
   });
 
-  it('has no advice without both recipes or without key dimensions to check', () => {
+  it('fit test first · a recipe or the key dimensions missing · no advice', () => {
     expect(fitTestAdvice(cube, [set], 2)).toBeNull();
     expect(fitTestAdvice(cube, [fit], 2)).toBeNull();
     expect(fitTestAdvice(cube, [fit, set], 0)).toBeNull();

@@ -11,18 +11,18 @@ import {
 
 describe('licence table', () => {
   // Source: the SPDX License List as packaged in npm `spdx-license-list`.
-  it.each(LICENCE_IDS)('%s is an SPDX id with the same name and URL', (id) => {
+  it.each(LICENCE_IDS)('licence table · %s · an SPDX id with the same name and URL', (id) => {
     const entry = spdx[id];
     expect(entry, `${id} missing from spdx-license-list`).toBeDefined();
     expect(licenceInfo(id).name).toBe(entry.name);
     expect(licenceInfo(id).url).toBe(entry.url);
   });
 
-  it('has the twelve licences and no duplicates', () => {
+  it('licence table · all entries · twelve licences, no duplicates', () => {
     expect(new Set(LICENCE_IDS).size).toBe(12);
   });
 
-  it('recognises only its own ids', () => {
+  it('licence table · ids · only its own recognised', () => {
     expect(isLicenceId('CC-BY-SA-4.0')).toBe(true);
     expect(isLicenceId('GPL-3.0')).toBe(false);
     expect(isLicenceId(undefined)).toBe(false);
@@ -105,19 +105,19 @@ const PAIRS = LICENCE_IDS.flatMap((parent) =>
 );
 
 describe('adaptation licences', () => {
-  it('the matrix covers all 144 ordered pairs', () => {
+  it('adaptation licences · the matrix · covers all 144 ordered pairs', () => {
     expect(COLUMNS).toEqual(LICENCE_IDS);
     expect(PAIRS).toHaveLength(144);
   });
 
-  it.each(PAIRS)('$parent → $child: ok = $ok', ({ parent, child, ok }) => {
+  it.each(PAIRS)('adaptation licences · $parent → $child · ok = $ok', ({ parent, child, ok }) => {
     const result = checkAdaptationLicence(parent, child);
     expect(result.ok).toBe(ok);
     expect(result.reason).toMatch(/^[A-Z].+\.$/);
     expect(adaptationRule(parent).allowedChildIds.includes(child)).toBe(ok);
   });
 
-  it.each(LICENCE_IDS)('the rule for %s agrees with its flags', (parent) => {
+  it.each(LICENCE_IDS)('adaptation licences · the rule for %s · agrees with its flags', (parent) => {
     const rule = adaptationRule(parent);
     const info = licenceInfo(parent);
     expect(rule.allowed).toBe(!info.noDerivatives);
@@ -126,14 +126,14 @@ describe('adaptation licences', () => {
     expect(rule.reason).toMatch(/^[A-Z].+\.$/);
   });
 
-  it('explains refusals in terms a crew member can act on', () => {
+  it('adaptation licences · a refusal · explained in terms a crew member can act on', () => {
     expect(checkAdaptationLicence('CC-BY-ND-4.0', 'CC-BY-4.0').reason).toMatch(/only unchanged/);
     expect(checkAdaptationLicence('CC-BY-4.0', 'CC0-1.0').reason).toMatch(/drop the credit/);
     expect(checkAdaptationLicence('CC-BY-NC-4.0', 'CC-BY-4.0').reason).toMatch(/forbids commercial use/);
     expect(checkAdaptationLicence('CC-BY-SA-4.0', 'CC-BY-4.0').reason).toMatch(/CC BY-SA 4\.0 or GPL v3 or later, not CC BY 4\.0/);
   });
 
-  it('tells the adapter what credit to give when allowed', () => {
+  it('adaptation licences · an allowed adaptation · tells the adapter what credit to give', () => {
     expect(checkAdaptationLicence('CC-BY-4.0', 'CC-BY-SA-4.0').reason).toMatch(/Credit the original author/);
     expect(checkAdaptationLicence('MIT', 'MIT').reason).toMatch(/copyright and permission notice/);
   });

@@ -33,7 +33,7 @@ function measuredPitchRadius(vertices: [number, number][], teeth: number, rootR:
 }
 
 describe('gear ring · tooth count', () => {
-  it('module 0.8, 1.5 mm wall · 80 mm barrel → 107 teeth, 82 mm → 109 (root m·(z − 2.5) ≥ barrel + 2·wall, fewest teeth)', () => {
+  it('gear ring · module 0.8, 1.5 mm wall · 80 mm barrel → 107 teeth, 82 mm → 109 (root m·(z − 2.5) ≥ barrel + 2·wall, fewest teeth)', () => {
     // By hand: (80 + 3)/0.8 + 2.5 = 106.25 → 107; (82 + 3)/0.8 + 2.5 = 108.75 → 109.
     expect(toothCountFor(0.8, 80, 1.5)).toBe(107);
     expect(toothCountFor(0.8, 82, 1.5)).toBe(109);
@@ -44,7 +44,7 @@ describe('gear ring · tooth count', () => {
     }
   });
 
-  it('generated ring · echoes the tooth count and the three diameters', () => {
+  it('gear ring · generated ring · echoes the tooth count and the three diameters', () => {
     const part = gearRing.generate({ barrelDiameterMm: 82 });
     expect(part.drawn.parameters).toMatchObject({ teeth: 109, pitchDiameterMm: 87.2, outsideDiameterMm: 88.8, rootDiameterMm: 85.2 });
     expect(part.loadBearing).toBe(false);
@@ -53,7 +53,7 @@ describe('gear ring · tooth count', () => {
 
 describe('gear ring · diameters measured from the mesh', () => {
   for (const [m, barrel, resolution] of [[0.8, 82, 'default'], [0.8, 80, 'fine'], [0.5, 30, 'default'], [1.0, 20, 'default']] as const) {
-    it(`module ${m}, ${barrel} mm barrel, ${resolution} · pitch, outside and root diameters within the facet tolerance`, () => {
+    it(`gear ring · module ${m}, ${barrel} mm barrel, ${resolution} · pitch, outside and root diameters within the facet tolerance`, () => {
       const part = gearRing.generate({ module: m, barrelDiameterMm: barrel, widthMm: 6, resolution });
       const z = part.drawn.parameters.teeth as number;
       const expected = gearDiameters(m, z);
@@ -75,7 +75,7 @@ describe('gear ring · diameters measured from the mesh', () => {
 });
 
 describe('gear ring · fit', () => {
-  it('press fit · bore drawn 0.2 mm under the barrel; with a 0.15 mm hole correction 0.05 mm under', () => {
+  it('gear ring · press fit · bore drawn 0.2 mm under the barrel; with a 0.15 mm hole correction 0.05 mm under', () => {
     const plain = gearRing.generate({ barrelDiameterMm: 82, interferenceMm: 0.2 });
     expect(plain.drawn.parameters.boreMm).toBeCloseTo(81.8, 6);
     const corrected = gearRing.generate({ barrelDiameterMm: 82, interferenceMm: 0.2 }, { holeMm: 0.15 });
@@ -89,7 +89,7 @@ describe('gear ring · fit', () => {
     expect(2 * minR * Math.cos(Math.PI / n)).toBeCloseTo(81.95, 3);
   });
 
-  it('M3 clamp · watertight single shell with collar and lugs, within its stated bounds', () => {
+  it('gear ring · M3 clamp · watertight single shell with collar and lugs, within its stated bounds', () => {
     const part = gearRing.generate({ barrelDiameterMm: 82, fit: 'clamp' });
     const a = analyseTriangles(part.mesh.positions);
     expect(a.watertight && a.windingConsistent && !a.insideOut).toBe(true);
@@ -98,7 +98,7 @@ describe('gear ring · fit', () => {
     expect(part.drawn.notes.join(' ')).toMatch(/M3 screw/);
   });
 
-  it('module outside the list · clear message', () => {
+  it('gear ring · module outside the list · clear message', () => {
     const result = gearRing.schema.safeParse({ module: 0.7 });
     expect(result.error?.issues[0].message).toBe('Module: choose 0.5, 0.6, 0.8 or 1.0.');
   });

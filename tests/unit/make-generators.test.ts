@@ -86,7 +86,7 @@ function validSets(kind: GeneratorKind, count = 50): Record<string, unknown>[] {
 }
 
 describe('generators · registry', () => {
-  it('six kinds · each with title, summary, zod schema, defaults the schema accepts and form hints for every key', () => {
+  it('generators · six kinds · each with title, summary, zod schema, defaults the schema accepts and form hints for every key', () => {
     expect(Object.keys(GENERATORS).sort()).toEqual([...GENERATOR_KINDS].sort());
     for (const kind of GENERATOR_KINDS) {
       const g = GENERATORS[kind];
@@ -98,7 +98,7 @@ describe('generators · registry', () => {
     }
   });
 
-  it('same parameters twice · the same triangles and the same file bytes (deterministic)', { timeout: 120_000 }, () => {
+  it('generators · same parameters twice · the same triangles and the same file bytes (deterministic)', { timeout: 120_000 }, () => {
     for (const kind of GENERATOR_KINDS) {
       const a = GENERATORS[kind].generate(GENERATORS[kind].defaults);
       const b = GENERATORS[kind].generate(GENERATORS[kind].defaults);
@@ -110,7 +110,7 @@ describe('generators · registry', () => {
 });
 
 describe.each(GENERATOR_KINDS)('generators · %s · 50 seeded random parameter sets', (kind) => {
-  it('watertight, consistent winding, intended shells, positive volume, within bounds; STL and 3MF read back the same', { timeout: 600_000 }, () => {
+  it('generators · every registered generator · watertight, consistent winding, intended shells, positive volume, within bounds; STL and 3MF read back the same', { timeout: 600_000 }, () => {
     const sets = validSets(kind);
     expect(sets).toHaveLength(50);
     for (const params of sets) {
@@ -148,7 +148,7 @@ describe.each(GENERATOR_KINDS)('generators · %s · 50 seeded random parameter s
 });
 
 describe('calibration · a recorded gauge step', () => {
-  it('bores gauge round 15 mm · step 4 (15.2 mm) fits a 15 mm rod → holes +0.2 mm → rod clamp bore drawn 0.2 mm larger', () => {
+  it('calibration · bores gauge round 15 mm · step 4 (15.2 mm) fits a 15 mm rod → holes +0.2 mm → rod clamp bore drawn 0.2 mm larger', () => {
     const gauge = { mode: 'bores', nominalMm: 15, stepMm: 0.1, stepsBelow: 2, stepsAbove: 6 } as const;
     expect(gaugeSteps(gauge).map((s) => s.diameterMm)).toEqual([14.8, 14.9, 15, 15.1, 15.2, 15.3, 15.4, 15.5, 15.6]);
     const correction = correctionFromGauge(gauge, 4);
@@ -159,7 +159,7 @@ describe('calibration · a recorded gauge step', () => {
     expect(corrected.drawn.notes).toContain('Rod bore drawn at 15.4 mm so it prints at 15.2 mm on your printer.');
   });
 
-  it('pegs gauge · the fitting peg gives an outer-size correction, and the gauge itself ignores corrections', () => {
+  it('calibration · pegs gauge · the fitting peg gives an outer-size correction, and the gauge itself ignores corrections', () => {
     expect(correctionFromGauge({ mode: 'pegs', nominalMm: 10, stepsBelow: 3, stepsAbove: 3 }, 1)).toEqual({ outerMm: -0.2 });
     const a = GENERATORS['fit-gauge'].generate({});
     const b = GENERATORS['fit-gauge'].generate({}, { holeMm: 0.3 });
@@ -167,7 +167,7 @@ describe('calibration · a recorded gauge step', () => {
     expect(() => correctionFromGauge({}, 9)).toThrow(/not on this gauge/);
   });
 
-  it('corrections schema · accepts ±1 mm, refuses more with a message', () => {
+  it('calibration · corrections schema · accepts ±1 mm, refuses more with a message', () => {
     expect(correctionsSchema.parse({ holeMm: 0.25 })).toEqual({ holeMm: 0.25 });
     expect(correctionsSchema.safeParse({ outerMm: -1.5 }).error?.issues[0].message).toBe('Outer-size correction must be between -1 and 1 mm.');
   });

@@ -11,18 +11,18 @@ function minRadius(positions: Float32Array): number {
 }
 
 describe('washer · clearance holes', () => {
-  it('1/4-20 normal fit · 0.281 in = 7.1374 mm (ASME B18.2.8, Machinery\'s Handbook 31st ed. Table 1a)', () => {
+  it('washer · 1/4-20 normal fit · 0.281 in = 7.1374 mm (ASME B18.2.8, Machinery\'s Handbook 31st ed. Table 1a)', () => {
     expect(CLEARANCE_HOLE_MM['1/4-20'].normal).toBeCloseTo(0.281 * 25.4, 10);
     expect(CLEARANCE_HOLE_MM['3/8-16'].normal).toBeCloseTo(0.406 * 25.4, 10);
   });
 
-  it('M6 medium · 6.6 mm; M3 fine 3.2, M5 coarse 5.8 (ISO 273, secondary charts)', () => {
+  it('washer · M6 medium · 6.6 mm; M3 fine 3.2, M5 coarse 5.8 (ISO 273, secondary charts)', () => {
     expect(CLEARANCE_HOLE_MM.M6.normal).toBe(6.6);
     expect(CLEARANCE_HOLE_MM.M3.close).toBe(3.2);
     expect(CLEARANCE_HOLE_MM.M5.loose).toBe(5.8);
   });
 
-  it('generated hole · flats of the drawn polygon sit on the table diameter, so the hole is never smaller', () => {
+  it('washer · generated hole · flats of the drawn polygon sit on the table diameter, so the hole is never smaller', () => {
     const part = washer.generate({ screw: 'M6', clearance: 'normal', outerDiameterMm: 14, thicknessMm: 2 });
     const n = circleSides(6.6, 'default');
     // Inradius of a regular n-gon = circumradius · cos(π/n) (elementary geometry).
@@ -33,7 +33,7 @@ describe('washer · clearance holes', () => {
 
 describe('washer · volume', () => {
   for (const resolution of ['default', 'fine'] as const) {
-    it(`1/4-20 normal, 12 × 2 mm, ${resolution} · mesh volume = exact polygon area × t (1e-6) and within 0.5 % of π/4·(D² − d²)·t`, () => {
+    it(`washer · 1/4-20 normal, 12 × 2 mm, ${resolution} · mesh volume = exact polygon area × t (1e-6) and within 0.5 % of π/4·(D² − d²)·t`, () => {
       const D = 12;
       const d = CLEARANCE_HOLE_MM['1/4-20'].normal;
       const t = 2;
@@ -52,7 +52,7 @@ describe('washer · volume', () => {
     });
   }
 
-  it('counterbore and nut pocket · watertight, one shell, less volume than the plain washer', () => {
+  it('washer · counterbore and nut pocket · watertight, one shell, less volume than the plain washer', () => {
     const plain = analyseTriangles(washer.generate({ screw: 'M4', outerDiameterMm: 16, thicknessMm: 5 }).mesh.positions);
     for (const recess of ['counterbore', 'hex'] as const) {
       const a = analyseTriangles(washer.generate({ screw: 'M4', outerDiameterMm: 16, thicknessMm: 5, recess, recessDepthMm: 3 }).mesh.positions);
@@ -64,13 +64,13 @@ describe('washer · volume', () => {
 });
 
 describe('washer · parameters', () => {
-  it('inches typed as text · "1/2 in" outside diameter is drawn at 12.7 mm (1 in = 25.4 mm exactly)', () => {
+  it('washer · inches typed as text · "1/2 in" outside diameter is drawn at 12.7 mm (1 in = 25.4 mm exactly)', () => {
     const part = washer.generate({ outerDiameterMm: '1/2 in' });
     expect(part.drawn.parameters.outerDiameterMm).toBe(12.7);
     expect(analyseTriangles(part.mesh.positions).sizeMm[0]).toBeCloseTo(12.7, 3);
   });
 
-  it('outside diameter too small for the hole · per-field message naming the least size', () => {
+  it('washer · outside diameter too small for the hole · per-field message naming the least size', () => {
     try {
       washer.generate({ screw: 'M6', outerDiameterMm: 7 });
       expect.unreachable();
@@ -82,13 +82,13 @@ describe('washer · parameters', () => {
     }
   });
 
-  it('thickness out of range · message with the limit', () => {
+  it('washer · thickness out of range · message with the limit', () => {
     const result = washer.schema.safeParse({ thicknessMm: 100 });
     expect(result.success).toBe(false);
     expect(result.error?.issues[0].message).toBe('Thickness can be at most 60 mm.');
   });
 
-  it('calibration · holeMm 0.25 draws the hole 0.25 mm larger and says so', () => {
+  it('washer · calibration · holeMm 0.25 draws the hole 0.25 mm larger and says so', () => {
     const part = washer.generate({ screw: '1/4-20' }, { holeMm: 0.25 });
     const hole = part.drawn.sizes.find((s) => s.label === 'Hole')!;
     expect(hole.drawnMm - hole.nominalMm).toBeCloseTo(0.25, 3);

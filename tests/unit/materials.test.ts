@@ -21,7 +21,7 @@ describe('material table', () => {
     ['TPU', 1.21],
     ['PA', 1.14],
     ['PC', 1.2],
-  ] as const)('%s has density %d g/cm³', (id, density) => {
+  ] as const)('material table · %s · density %d g/cm³', (id, density) => {
     expect(materialInfo(id).densityGcm3).toBe(density);
   });
 
@@ -35,13 +35,13 @@ describe('material table', () => {
     ['TPU', [210, 240], [20, 60]],
     ['PA', [250, 280], [70, 100]],
     ['PC', [260, 300], [100, 120]],
-  ] as const)('%s prints at %j hotend, %j bed', (id, [hotMin, hotMax], [bedMin, bedMax]) => {
+  ] as const)('material table · %s · prints at %j hotend, %j bed', (id, [hotMin, hotMax], [bedMin, bedMax]) => {
     const info = materialInfo(id);
     expect(info.hotendC).toEqual({ min: hotMin, max: hotMax });
     expect(info.bedC).toEqual({ min: bedMin, max: bedMax });
   });
 
-  it('keeps softening points at or below the referenced glass transitions', () => {
+  it('material table · softening points · at or below the referenced glass transitions', () => {
     // Trade reference: PLA Tg 55–65 °C (NETZSCH), PETG Tg ≈ 80 °C / HDT ≈ 70 °C at 1.82 MPa,
     // ABS Tg ≈ 105 °C, ASA Tg ≈ 100 °C, PC Tg ≈ 147 °C.
     expect(materialInfo('PLA').softensAtC).toBeLessThanOrEqual(55);
@@ -51,7 +51,7 @@ describe('material table', () => {
     expect(materialInfo('PC').softensAtC).toBeLessThan(147);
   });
 
-  it('keeps every window ordered and every fibre-filled grade marked abrasive', () => {
+  it('material table · windows and fibre-filled grades · every window ordered, every fibre-filled grade marked abrasive', () => {
     for (const id of MATERIAL_IDS) {
       const info = materialInfo(id);
       expect(info.hotendC.min).toBeLessThan(info.hotendC.max);
@@ -61,21 +61,21 @@ describe('material table', () => {
     }
   });
 
-  it('recognises only its own ids', () => {
+  it('material table · ids · only its own recognised', () => {
     expect(isMaterialId('PETG')).toBe(true);
     expect(isMaterialId('wood')).toBe(false);
   });
 });
 
 describe('recipeWindowWarnings', () => {
-  it('warns when the hotend is below the usual window', () => {
+  it('recipeWindowWarnings · hotend below the usual window · warned', () => {
     // PETG 220–250 °C (trade reference).
     expect(recipeWindowWarnings({ material: 'PETG', hotendC: 190, bedC: 80 })).toEqual([
       "Hotend 190 °C is below PETG's usual 220–250 °C.",
     ]);
   });
 
-  it('warns about hotend and bed together', () => {
+  it('recipeWindowWarnings · hotend and bed both outside · warned together', () => {
     // PLA 180–220 / 20–60 °C (trade reference).
     expect(recipeWindowWarnings({ material: 'PLA', hotendC: 240, bedC: 90 })).toEqual([
       "Hotend 240 °C is above PLA's usual 180–220 °C.",
@@ -83,12 +83,12 @@ describe('recipeWindowWarnings', () => {
     ]);
   });
 
-  it('is silent inside the window and at its edges', () => {
+  it('recipeWindowWarnings · inside the window and at its edges · silent', () => {
     expect(recipeWindowWarnings({ material: 'ASA', hotendC: 240, bedC: 110 })).toEqual([]);
     expect(recipeWindowWarnings({ material: 'PLA', hotendC: 220, bedC: 20 })).toEqual([]);
   });
 
-  it('treats a bed at 0 °C as switched off', () => {
+  it('recipeWindowWarnings · a bed at 0 °C · treated as switched off', () => {
     expect(recipeWindowWarnings({ material: 'PLA', hotendC: 205, bedC: 0 })).toEqual([]);
     expect(recipeWindowWarnings({ material: 'ABS', hotendC: 240, bedC: 0 })).toEqual([
       'ABS usually needs a heated bed at 90–110 °C; this recipe has the bed off.',
@@ -97,7 +97,7 @@ describe('recipeWindowWarnings', () => {
 });
 
 describe('heatCheck', () => {
-  it('uses the measured car temperatures', () => {
+  it('heatCheck · a vehicle in sun · uses the measured car temperatures', () => {
     // Vanos et al., Temperature 2018, doi 10.1080/23328940.2018.1468205: dashboard 69.4 °C,
     // cabin air 46.7 °C after an hour in sun.
     expect(heatExposureInfo('vehicle-sun').temperatureC).toBe(69.4);
@@ -105,7 +105,7 @@ describe('heatCheck', () => {
     for (const id of HEAT_EXPOSURES) expect(heatExposureInfo(id).where).not.toBe('');
   });
 
-  it('flags PLA on a vehicle in sun and names safer materials', () => {
+  it('heatCheck · PLA on a vehicle in sun · flagged, safer materials named', () => {
     // Trade reference "Heat on set": PLA (Tg ≈ 60 °C) on a dashboard in sun deforms; ASA/ABS/PC hold.
     const check = heatCheck('PLA', 'vehicle-sun');
     expect(check.ok).toBe(false);
@@ -116,7 +116,7 @@ describe('heatCheck', () => {
     expect(check.message).toMatch(/Print it in ABS, ASA or PC instead\./);
   });
 
-  it('calls PETG on a vehicle in sun marginal', () => {
+  it('heatCheck · PETG on a vehicle in sun · marginal', () => {
     // Trade reference: "PETG is marginal" (HDT ≈ 70 °C vs 69.4 °C).
     const check = heatCheck('PETG', 'vehicle-sun');
     expect(check.ok).toBe(false);
@@ -127,7 +127,7 @@ describe('heatCheck', () => {
     expect(check.message).not.toMatch(/\d\.\d °C/);
   });
 
-  it('passes ASA, ABS and PC on a vehicle in sun', () => {
+  it('heatCheck · ASA, ABS and PC on a vehicle in sun · pass', () => {
     for (const id of ['ASA', 'ABS', 'PC'] as const) {
       const check = heatCheck(id, 'vehicle-sun');
       expect(check.ok).toBe(true);
@@ -136,7 +136,7 @@ describe('heatCheck', () => {
     }
   });
 
-  it('offers only flexible alternatives for TPU', () => {
+  it('heatCheck · TPU · only flexible alternatives offered', () => {
     const check = heatCheck('TPU', 'vehicle-sun');
     expect(check.ok).toBe(false);
     expect(check.saferMaterials).toEqual([]);

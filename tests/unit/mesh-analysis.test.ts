@@ -71,11 +71,11 @@ const fixtures: Record<string, () => Geometry[]> = {
 describe.each([true, false])('jscad meshes, binary=%s', (binary) => {
   const analyse = (name: string): ModelFileAnalysis => analyseModelFile(stl(binary, ...fixtures[name]()));
 
-  it('reads the format it was given', () => {
+  it('analyseStl · binary and ASCII · reads the format it was given', () => {
     expect(analyse('cube').format).toBe(binary ? 'stl-binary' : 'stl-ascii');
   });
 
-  it('cube of side 20: size 20³, volume a³ = 8000, area 6a² = 2400 (analytic formula)', () => {
+  it('analyseStl · a cube of side 20 · size 20³, volume a³ = 8000, area 6a² = 2400 (analytic formula)', () => {
     const r = analyse('cube');
     expect(r.sizeMm).toEqual([20, 20, 20]);
     expect(r.min).toEqual([-10, -10, -10]);
@@ -85,7 +85,7 @@ describe.each([true, false])('jscad meshes, binary=%s', (binary) => {
     expect(r).toMatchObject({ facets: 12, watertight: true, shells: 1, insideOut: false, degenerateFacets: 0, warnings: [] });
   });
 
-  it('cylinder r=5 h=10 with 32 segments matches the polygonal prism formula (analytic formula)', () => {
+  it('analyseStl · a cylinder r=5 h=10 with 32 segments · matches the polygonal prism formula (analytic formula)', () => {
     const r = analyse('cylinder');
     const prism = polygonalPrism(5, 10, 32);
     // jscad's serializer snaps coordinates to its epsilon, which moves the figures by ~6e-6.
@@ -110,11 +110,11 @@ describe.each([true, false])('jscad meshes, binary=%s', (binary) => {
     expect(r).toMatchObject({ shells: 1, insideOut: false, degenerateFacets: 0 });
   });
 
-  it('the extruded washer is watertight', () => {
+  it('analyseStl · the extruded washer · watertight', () => {
     expect(analyse('washer (extruded ring)').watertight).toBe(true);
   });
 
-  it('the 3D-subtracted washer is not watertight: jscad leaves hairline cracks where it snaps split faces', () => {
+  it('analyseStl · the 3D-subtracted washer · not watertight: jscad leaves hairline cracks where it snaps split faces', () => {
     // Cap and wall copies of the rim differ by ~4e-5 mm, so exact welding keeps them apart;
     // the string-keyed reference weld of three's geometry below reaches the same verdict.
     const r = analyse('washer (3D subtract)');
@@ -123,7 +123,7 @@ describe.each([true, false])('jscad meshes, binary=%s', (binary) => {
     expect(r.warnings.some((w) => w.includes('not watertight'))).toBe(true);
   });
 
-  it('two separate cubes are two shells with twice the volume (analytic formula)', () => {
+  it('analyseStl · two separate cubes · two shells with twice the volume (analytic formula)', () => {
     const r = analyse('two cubes');
     expect(r.shells).toBe(2);
     expect(r.volumeMm3).toBeCloseTo(2000, 9);
@@ -135,7 +135,7 @@ describe.each([true, false])('jscad meshes, binary=%s', (binary) => {
 
 describe('agreement with three.js STLLoader on the same files', () => {
   describe.each(Object.keys(fixtures))('%s', (name) => {
-    it.each([true, false])('binary=%s: same facet count, bounding box, volume and area', (binary) => {
+    it.each([true, false])('agreement with STLLoader · binary=%s · same facet count, bounding box, volume and area', (binary) => {
       const bytes = stl(binary, ...fixtures[name]());
       const ours = analyseModelFile(bytes);
       const three = threeFigures(threePositions(bytes));
@@ -149,7 +149,7 @@ describe('agreement with three.js STLLoader on the same files', () => {
     });
   });
 
-  it('a straightforward string-keyed weld of three’s geometry agrees on watertightness and shells', () => {
+  it('agreement with STLLoader · a string-keyed weld of three’s geometry · agrees on watertightness and shells', () => {
     for (const name of Object.keys(fixtures)) {
       const bytes = stl(true, ...fixtures[name]());
       const positions = threePositions(bytes);
@@ -176,7 +176,7 @@ describe('agreement with three.js STLLoader on the same files', () => {
 describe('orientation, holes, units and headers', () => {
   const cube = () => parseStl(stl(true, primitives.cube({ size: 20 }))).positions;
 
-  it('reversed winding is reported inside out, with the volume still positive', () => {
+  it('mesh orientation · reversed winding · reported inside out, the volume still positive', () => {
     const p = cube().slice();
     for (let i = 0; i < p.length; i += 9) {
       for (let k = 0; k < 3; k++) [p[i + 3 + k], p[i + 6 + k]] = [p[i + 6 + k], p[i + 3 + k]];
@@ -189,7 +189,7 @@ describe('orientation, holes, units and headers', () => {
     expect(r.warnings.some((w) => w.includes('inside out'))).toBe(true);
   });
 
-  it('a cube with one facet removed is not watertight: three edges border a single facet', () => {
+  it('mesh holes · a cube with one facet removed · not watertight: three edges border a single facet', () => {
     const r = analyseTriangles(cube().subarray(9));
     expect(r.facets).toBe(11);
     expect(r.watertight).toBe(false);
@@ -198,7 +198,7 @@ describe('orientation, holes, units and headers', () => {
     expect(r.warnings[0]).toMatch(/not watertight: 3 edges border only one facet/);
   });
 
-  it('a facet repeated three times makes its edges non-manifold', () => {
+  it('mesh edges · a facet repeated three times · its edges non-manifold', () => {
     const p = cube();
     const extra = new Float32Array(p.length + 18);
     extra.set(p);
@@ -209,7 +209,7 @@ describe('orientation, holes, units and headers', () => {
     expect(r.nonManifoldEdges).toBe(3);
   });
 
-  it('zero-area facets are counted and do not break watertightness', () => {
+  it('mesh facets · zero-area facets · counted, watertightness kept', () => {
     const p = cube();
     const withSliver = new Float32Array(p.length + 18);
     withSliver.set(p);
@@ -224,7 +224,7 @@ describe('orientation, holes, units and headers', () => {
     expect(r.warnings.some((w) => w.includes('1 facet has a repeated corner and 1 facet has three corners in a line, so zero area'))).toBe(true);
   });
 
-  it('drawnInInches turns a 1 × 1 × 1 cube into exactly 25.4 mm sides (1 in = 25.4 mm exactly, NIST SP 811 Appendix B)', () => {
+  it('mesh units · drawnInInches on a 1 × 1 × 1 cube · exactly 25.4 mm sides (1 in = 25.4 mm exactly, NIST SP 811 Appendix B)', () => {
     const bytes = stl(true, primitives.cube({ size: 1 }));
     const plain = analyseModelFile(bytes);
     expect(plain.unitScale).toBe(1);
@@ -237,7 +237,7 @@ describe('orientation, holes, units and headers', () => {
     expect(r.warnings).toEqual([]);
   });
 
-  it('a binary STL whose 80-byte header begins with "solid" is still read as binary (size rule)', () => {
+  it('STL headers · a binary STL whose 80-byte header begins with "solid" · still read as binary (size rule)', () => {
     const bytes = stl(true, primitives.cube({ size: 20 }));
     bytes.set(new TextEncoder().encode('solid this header lies about being text'.padEnd(80, ' ')));
     const r = analyseModelFile(bytes);
@@ -246,7 +246,7 @@ describe('orientation, holes, units and headers', () => {
     expect(r.volumeMm3).toBeCloseTo(8000, 9);
   });
 
-  it('ASCII with several solids, odd spacing, upper case and scientific notation', () => {
+  it('STL headers · ASCII with several solids, odd spacing, upper case and scientific notation · read', () => {
     const facet = (z: string) => `  FACET NORMAL 0 0 1\n\touter   loop\n vertex 0 0 ${z}\nvertex 1E1 0 ${z}\n  vertex 0 1.0e+1 ${z}\n endloop\nendfacet\n`;
     const text = `solid one\n${facet('0')}endsolid one\n\n  solid two\n${facet('2.5e0')}endsolid\n`;
     const r = analyseModelFile(new TextEncoder().encode(text));
@@ -256,7 +256,7 @@ describe('orientation, holes, units and headers', () => {
     expect(r.areaMm2).toBeCloseTo(100, 12); // two right triangles with legs 10: 2 × 10·10/2 (analytic formula)
   });
 
-  it('vertices equal as float32 are welded, and −0 equals +0', () => {
+  it('mesh welding · vertices equal as float32, −0 and +0 · welded', () => {
     const p = new Float64Array(cube());
     let zeros = 0;
     for (let i = 0; i < p.length; i++) {

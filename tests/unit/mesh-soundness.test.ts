@@ -62,7 +62,7 @@ function washer(R: number, r: number, h: number, N: number, seamY = -1.5e-15): n
 }
 
 describe('mesh soundness · winding', () => {
-  it('cube with one top facet wound backwards · warned, repaired volume a³ = 20³ = 8,000 mm³', () => {
+  it('mesh soundness · cube with one top facet wound backwards · warned, repaired volume a³ = 20³ = 8,000 mm³', () => {
     const r = analyseTriangles(new Float64Array(flip(box(20, 20, 20), 2)));
     expect(r.windingConsistent).toBe(false);
     expect(r.reversedFacets).toBe(1);
@@ -77,7 +77,7 @@ describe('mesh soundness · winding', () => {
     expect(r.insideOut).toBe(false);
   });
 
-  it('the same cube placed 100 mm up · still 8,000 mm³ and no inside-out hint', () => {
+  it('mesh soundness · the same cube placed 100 mm up · still 8,000 mm³ and no inside-out hint', () => {
     const r = analyseTriangles(new Float64Array(flip(box(20, 20, 20, [0, 0, 100]), 2)));
     expect(r.volumeMm3).toBeCloseTo(8000, 6); // a³, whatever the placement
     expect(r.reversedFacets).toBe(1);
@@ -85,14 +85,14 @@ describe('mesh soundness · winding', () => {
     expect(r.warnings.some((w) => w.includes('inside out'))).toBe(false);
   });
 
-  it('three facets wound backwards · counted as three', () => {
+  it('mesh soundness · three facets wound backwards · counted as three', () => {
     const r = analyseTriangles(new Float64Array(flip(box(20, 20, 20), 2, 5, 9)));
     expect(r.reversedFacets).toBe(3);
     expect(r.volumeMm3).toBeCloseTo(8000, 9);
     expect(r.warnings[0]).toMatch(/^3 facets are wound backwards/);
   });
 
-  it('a cube and a separate inside-out cube · warned, repaired volume 20³ + 10³ = 9,000 mm³', () => {
+  it('mesh soundness · a cube and a separate inside-out cube · warned, repaired volume 20³ + 10³ = 9,000 mm³', () => {
     const inverted = flip(box(10, 10, 10, [50, 0, 0]), ...all(box(10, 10, 10)));
     const r = analyseTriangles(new Float64Array([...box(20, 20, 20), ...inverted]));
     expect(r.shells).toBe(2);
@@ -105,7 +105,7 @@ describe('mesh soundness · winding', () => {
     expect(r.warnings[0]).toMatch(/^1 of the 2 shells is wound inside out\. The volume shown \(9,000 mm³\) counts it as solid; summed as wound in the file it reads 7,000 mm³/);
   });
 
-  it('a cube with an inward-wound cube inside it · a cavity, 20³ − 10³ = 7,000 mm³, not inside out', () => {
+  it('mesh soundness · a cube with an inward-wound cube inside it · a cavity, 20³ − 10³ = 7,000 mm³, not inside out', () => {
     const cavity = flip(box(10, 10, 10, [5, 5, 5]), ...all(box(10, 10, 10)));
     const r = analyseTriangles(new Float64Array([...box(20, 20, 20), ...cavity]));
     expect(r.insideOut).toBe(false);
@@ -113,14 +113,14 @@ describe('mesh soundness · winding', () => {
     expect(r.volumeRepaired).toBe(false);
   });
 
-  it('a wholly inside-out cube · inside out, volume 8,000 mm³ and the flip-the-normals hint', () => {
+  it('mesh soundness · a wholly inside-out cube · inside out, volume 8,000 mm³ and the flip-the-normals hint', () => {
     const r = analyseTriangles(new Float64Array(flip(box(20, 20, 20), ...all(box(20, 20, 20)))));
     expect(r).toMatchObject({ insideOut: true, insideOutShells: 1, reversedFacets: 0, windingConsistent: true, volumeRepaired: false });
     expect(r.volumeMm3).toBeCloseTo(8000, 9);
     expect(r.warnings).toContain('The facets are wound inside out (the enclosed volume comes out negative); flip the normals before exporting.');
   });
 
-  it('a sound cube · consistent, nothing repaired, nothing welded', () => {
+  it('mesh soundness · a sound cube · consistent, nothing repaired, nothing welded', () => {
     const r = analyseTriangles(new Float64Array(box(20, 20, 20)));
     expect(r).toMatchObject({ windingConsistent: true, reversedFacets: 0, misorientedEdges: 0, insideOutShells: 0, volumeRepaired: false, weldedVertices: 0, vertices: 8, warnings: [] });
   });
@@ -131,7 +131,7 @@ describe('mesh soundness · welding', () => {
   const R = 12, r = 6.5, h = 3, N = 48;
   const annulus = (N / 2) * Math.sin((2 * Math.PI) / N) * (R * R - r * r) * h;
 
-  it('washer whose ring closes at y = −1.5e-15 · watertight after welding, 4 vertices merged', () => {
+  it('mesh soundness · washer whose ring closes at y = −1.5e-15 · watertight after welding, 4 vertices merged', () => {
     const a = analyseTriangles(new Float64Array(washer(R, r, h, N)));
     expect(a.watertight).toBe(true);
     expect(a.weldedVertices).toBe(4); // the seam's outer and inner corners, top and bottom
@@ -142,7 +142,7 @@ describe('mesh soundness · welding', () => {
     expect(a.warnings.some((w) => w.includes('not watertight'))).toBe(false);
   });
 
-  it('the same washer written as binary STL (float32) · watertight after welding', () => {
+  it('mesh soundness · the same washer written as binary STL (float32) · watertight after welding', () => {
     const p = washer(R, r, h, N);
     const facets = p.length / 9;
     const bytes = new Uint8Array(84 + 50 * facets);
@@ -153,7 +153,7 @@ describe('mesh soundness · welding', () => {
     expect(a).toMatchObject({ watertight: true, weldedVertices: 4 });
   });
 
-  it('a real gap of 0.01 mm · stays open, far above the tolerance', () => {
+  it('mesh soundness · a real gap of 0.01 mm · stays open, far above the tolerance', () => {
     const a = analyseTriangles(new Float64Array(washer(R, r, h, N, -0.01)));
     expect(a.watertight).toBe(false);
     expect(a.openEdges).toBeGreaterThan(0);
@@ -177,13 +177,13 @@ describe('mesh soundness · ASCII STL line endings', () => {
     expect(r.watertight).toBe(true);
   });
 
-  it('one line, several solids with names · every facet read', () => {
+  it('mesh soundness · one line, several solids with names · every facet read', () => {
     const one = asciiStl(cube, ' ');
     const text = `${one}${one.replace('solid cube', 'solid second part').replace('endsolid cube', 'endsolid second part')}`;
     expect(analyseModelFile(new TextEncoder().encode(text)).facets).toBe(24);
   });
 
-  it('CR-only syntax error · names the right line', () => {
+  it('mesh soundness · CR-only syntax error · names the right line', () => {
     const text = asciiStl(cube, '\r').replace('outer loop\rvertex', 'outer loop\rvortex');
     expect(() => analyseModelFile(new TextEncoder().encode(text))).toThrow(/ASCII STL line 4: expected "vertex x y z" but found "vortex"/);
   });

@@ -39,11 +39,11 @@ function expectFailure(bytes: Uint8Array, code: MeshErrorCode, message: RegExp, 
 }
 
 describe('malformed STL uploads', () => {
-  it('an empty file', () => {
+  it('malformed STL · an empty file · refused', () => {
     expectFailure(new Uint8Array(0), 'empty', /empty \(0 bytes\).*export it again/);
   });
 
-  it('a truncated binary STL names the declared and the present facet counts', () => {
+  it('malformed STL · a truncated binary STL · the declared and the present facet counts named', () => {
     const whole = binaryCube();
     expectFailure(
       whole.slice(0, whole.length - 70),
@@ -52,13 +52,13 @@ describe('malformed STL uploads', () => {
     );
   });
 
-  it('a truncated binary STL whose header starts with "solid" is still called truncated, not bad ASCII', () => {
+  it('malformed STL · a truncated binary STL whose header starts with "solid" · called truncated, not bad ASCII', () => {
     const bytes = binaryCube().slice(0, 84 + 50 * 5 + 7);
     bytes.set(encode('solid exported by a CAD program'));
     expectFailure(bytes, 'truncated', /says it has 12 facets but the file holds only 5/);
   });
 
-  it('a facet count that lies (file longer than the count says)', () => {
+  it('malformed STL · a facet count that lies (file longer than the count says) · refused', () => {
     const bytes = binaryCube();
     new DataView(bytes.buffer).setUint32(80, 5, true);
     expectFailure(bytes, 'count_mismatch', /says it has 5 facets \(334 bytes\) but the file is 684 bytes.*export it again/);
@@ -68,57 +68,57 @@ describe('malformed STL uploads', () => {
     ['NaN', Number.NaN],
     ['Infinity', Number.POSITIVE_INFINITY],
     ['-Infinity', Number.NEGATIVE_INFINITY],
-  ])('a binary coordinate of %s', (_, value) => {
+  ])('malformed STL · a binary coordinate of %s · refused', (_, value) => {
     const bytes = binaryCube();
     new DataView(bytes.buffer).setFloat32(84 + 50 * 3 + 12 + 4 * 4, value, true); // facet 4, second corner, y
     expectFailure(bytes, 'non_finite', /^Facet 4 has a coordinate that is not a finite number \(NaN or infinity\)/);
   });
 
-  it.each(['nan', 'inf', '-Infinity', '1e999'])('an ASCII coordinate of %s names its line', (token) => {
+  it.each(['nan', 'inf', '-Infinity', '1e999'])('malformed STL · an ASCII coordinate of %s · its line named', (token) => {
     const lines = asciiCube().split('\n');
     lines[3] = `vertex 10 ${token} -10`;
     expectFailure(encode(lines.join('\n')), 'non_finite', new RegExp(`line 4: the coordinate "${token}" is not a finite number`));
   });
 
-  it('NaN handed straight to analyseTriangles', () => {
+  it('malformed STL · NaN handed straight to analyseTriangles · refused', () => {
     const p = new Float64Array(9);
     p[4] = Number.NaN;
     expect(() => analyseTriangles(p)).toThrow(/Facet 1 has a coordinate that is not a finite number/);
   });
 
-  it('zero facets, binary and ASCII', () => {
+  it('malformed STL · zero facets, binary and ASCII · refused', () => {
     const bytes = new Uint8Array(84);
     expectFailure(bytes, 'no_facets', /holds no facets/);
     expectFailure(encode('solid empty\nendsolid empty\n'), 'no_facets', /holds no facets/);
   });
 
-  it('an ASCII STL with a misspelt keyword names the line', () => {
+  it('malformed STL · an ASCII STL with a misspelt keyword · the line named', () => {
     const lines = asciiCube().split('\n');
     expect(lines[4]).toMatch(/^vertex /);
     lines[4] = lines[4].replace('vertex', 'vertx');
     expectFailure(encode(lines.join('\n')), 'ascii_syntax', /^ASCII STL line 5: expected "vertex x y z" but found "vertx"\. Fix that line or export the file again\.$/);
   });
 
-  it('an ASCII STL with a word where a number belongs names the line', () => {
+  it('malformed STL · an ASCII STL with a word where a number belongs · the line named', () => {
     const lines = asciiCube().split('\n');
     lines[3] = 'vertex 10 ten -10';
     expectFailure(encode(lines.join('\n')), 'ascii_syntax', /line 4: "ten" is not a number/);
   });
 
-  it('an ASCII facet with four vertices is refused', () => {
+  it('malformed STL · an ASCII facet with four vertices · refused', () => {
     const lines = asciiCube().split('\n');
     lines.splice(5, 0, 'vertex 1 2 3');
     expectFailure(encode(lines.join('\n')), 'ascii_syntax', /more than three vertices; STL facets must be triangles/);
   });
 
-  it('an ASCII STL cut off mid-facet says where the facet started', () => {
+  it('malformed STL · an ASCII STL cut off mid-facet · says where the facet started', () => {
     const text = asciiCube();
     const cut = text.slice(0, text.indexOf('vertex', text.indexOf('facet', 100)) + 10);
     const startLine = cut.split('\n').findLastIndex((line) => line.startsWith('facet')) + 1;
     expectFailure(encode(cut), 'ascii_syntax', new RegExp(`ends in the middle of the facet that starts on line ${startLine}; the upload was probably cut off`));
   });
 
-  it('a PNG renamed .stl', () => {
+  it('malformed STL · a PNG renamed .stl · refused', () => {
     const png = new Uint8Array([0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a, 0, 0, 0, 13, 0x49, 0x48, 0x44, 0x52, ...new Array(200).fill(7)]);
     expectFailure(png, 'not_a_mesh', /^This file appears to be a PNG image, not an STL mesh\. It may have been renamed by mistake/);
   });
@@ -132,16 +132,16 @@ describe('malformed STL uploads', () => {
     expectFailure(bytes, 'not_a_mesh', message as RegExp);
   });
 
-  it('a ZIP forced through the STL reader suggests the 3MF extension', () => {
+  it('malformed STL · a ZIP forced through the STL reader · suggests the 3MF extension', () => {
     const bytes = new Uint8Array([0x50, 0x4b, 0x03, 0x04, ...new Array(200).fill(0)]);
     expectFailure(bytes, 'not_a_mesh', /a ZIP archive.*upload it with the \.3mf extension/, { format: 'stl' });
   });
 
-  it('text that is not ASCII STL', () => {
+  it('malformed STL · text that is not ASCII STL · refused', () => {
     expectFailure(encode('v 0 0 0\nv 1 0 0\nv 0 1 0\nf 1 2 3\n'), 'not_a_mesh', /text file but not an ASCII STL, which must begin with the word "solid"/);
   });
 
-  it('a tiny binary fragment', () => {
+  it('malformed STL · a tiny binary fragment · refused', () => {
     expectFailure(new Uint8Array([1, 2, 3, 0, 0, 9]), 'too_short', /only 6 bytes: too short for a binary STL/);
   });
 });

@@ -52,7 +52,7 @@ async function run(queue: ReturnType<typeof scriptedQueue>, row: ReturnType<type
 const timeout: PhotoResult = { ok: false, error: 'the task took longer than 60 s and was stopped', permanent: false };
 
 describe('photo jobs · attempts', () => {
-  it(`a photo whose worker times out twice is marked failed for good after ${MAX_PHOTO_ATTEMPTS} attempts, and its raw upload is removed`, async () => {
+  it(`photo jobs · a worker timing out twice · failed for good after ${MAX_PHOTO_ATTEMPTS} attempts, the raw upload removed`, async () => {
     const queue = scriptedQueue([timeout, timeout, { ok: true, width: 1, height: 1 }]);
     const row = fakeRow();
     const raw = rawPhoto('twice-timed-out');
@@ -62,7 +62,7 @@ describe('photo jobs · attempts', () => {
     expect(existsSync(raw)).toBe(false);
   });
 
-  it('one timeout is tried again at once and may still succeed', async () => {
+  it('photo jobs · one timeout · tried again at once and may still succeed', async () => {
     const queue = scriptedQueue([timeout, { ok: true, width: 64, height: 48 }]);
     const row = fakeRow();
     rawPhoto('second-time-lucky');
@@ -70,7 +70,7 @@ describe('photo jobs · attempts', () => {
     expect(row).toMatchObject({ processing: 'ready', processingAttempts: 2 });
   });
 
-  it('a photo the decoder refuses is failed after one attempt (trying again would fail again)', async () => {
+  it('photo jobs · a photo the decoder refuses · failed after one attempt (trying again would fail again)', async () => {
     const queue = scriptedQueue([{ ok: false, error: 'it cannot be decoded', permanent: true }]);
     const row = fakeRow();
     rawPhoto('undecodable');
@@ -79,7 +79,7 @@ describe('photo jobs · attempts', () => {
     expect(row).toMatchObject({ processing: 'failed', processingAttempts: 1 });
   });
 
-  it('a photo resumed at start-up after two attempts (it took the process down) is failed without running again', async () => {
+  it('photo jobs · resumed at start-up after two attempts (it took the process down) · failed without running again', async () => {
     const queue = scriptedQueue([{ ok: true, width: 1, height: 1 }]);
     const row = fakeRow(2);
     const raw = rawPhoto('crashed-twice');
@@ -89,7 +89,7 @@ describe('photo jobs · attempts', () => {
     expect(existsSync(raw)).toBe(false);
   });
 
-  it('a photo interrupted by shutdown stays waiting, and the try does not count', async () => {
+  it('photo jobs · interrupted by shutdown · stays waiting; the try does not count', async () => {
     const queue = scriptedQueue([{ ok: false, error: 'the pool was closed', permanent: false, interrupted: true }]);
     const row = fakeRow(1);
     const raw = rawPhoto('interrupted');

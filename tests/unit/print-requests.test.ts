@@ -32,7 +32,7 @@ describe('print request state machine · every state, action and role', () => {
     for (const action of PRINT_REQUEST_ACTIONS) {
       for (const role of ROLES) {
         const key = `${from}:${action}:${role}`;
-        it(`${from} + ${action} by ${role} → ${LEGAL[key] ?? 'refused'}`, () => {
+        it(`print request state machine · ${from} + ${action} by ${role} · ${LEGAL[key] ?? 'refused'}`, () => {
           const result = printTransition(from, action, role);
           if (LEGAL[key]) expect(result).toEqual({ ok: true, to: LEGAL[key] });
           else {

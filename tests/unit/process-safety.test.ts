@@ -11,12 +11,12 @@ function run(program: string) {
 }
 
 describe('process safety · unhandled rejections', () => {
-  it('without the guard Node ends the process (the failure the guard prevents)', () => {
+  it('unhandled rejections · without the guard · Node ends the process (the failure the guard prevents)', () => {
     const result = run(`Promise.reject(new Error('lost cleanup')); setTimeout(() => process.exit(0), 200);`);
     expect(result.status).not.toBe(0);
   });
 
-  it('with the guard the rejection is logged and the process keeps running', () => {
+  it('unhandled rejections · with the guard · logged, and the process keeps running', () => {
     const result = run(
       `import('./server/process-safety.ts').then(({ keepRunningOnUnhandledRejections }) => {
          keepRunningOnUnhandledRejections();

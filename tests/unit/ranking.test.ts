@@ -12,7 +12,7 @@ import {
 } from '@shared/ranking';
 
 describe('normal quantile', () => {
-  it('is 1.959964 for a two-sided 95 % interval', () => {
+  it('normal quantile · a two-sided 95 % interval · 1.959964', () => {
     // Standard normal table: z(0.975) = 1.959964 (trade reference "Ranking").
     expect(normalQuantileTwoSided(0.95)).toBeCloseTo(1.959964, 6);
     // The same quantile from another library (npm jstat), to the last few bits.
@@ -21,14 +21,14 @@ describe('normal quantile', () => {
     expect(normalQuantileTwoSided(0.9)).toBeCloseTo(1.644854, 6);
   });
 
-  it('rejects a confidence outside (0, 1)', () => {
+  it('normal quantile · a confidence outside (0, 1) · rejected', () => {
     expect(() => normalQuantileTwoSided(1)).toThrow(RangeError);
     expect(() => normalQuantileTwoSided(0)).toThrow(RangeError);
   });
 });
 
 describe('wilsonLowerBound', () => {
-  it('matches 8 of 10 worked by hand from Wilson (JASA 1927)', () => {
+  it('wilsonLowerBound · 8 of 10 · matches the hand-worked figure from Wilson (JASA 1927)', () => {
     // z = 1.959964, z² = 3.841459, n = 10, p̂ = 0.8
     // centre  = p̂ + z²/2n          = 0.8 + 0.1920729             = 0.9920729
     // spread  = z·√((p̂(1−p̂) + z²/4n)/n) = 1.959964·√((0.16 + 0.0960365)/10)
@@ -38,23 +38,23 @@ describe('wilsonLowerBound', () => {
     expect(wilsonLowerBound(8, 10)).toBeCloseTo(0.4901624, 6);
   });
 
-  it('matches 1 of 1 worked by hand', () => {
+  it('wilsonLowerBound · 1 of 1 · matches the hand-worked figure', () => {
     // p̂ = 1: centre − spread = 1 + z²/2 − z·√(z²/4) = 1, so bound = 1 / (1 + z²) = 1 / 4.841459 = 0.2065493
     expect(wilsonLowerBound(1, 1)).toBeCloseTo(0.2065493, 6);
   });
 
-  it('is 0 with no results and 0 with no successes', () => {
+  it('wilsonLowerBound · no results, no successes · 0', () => {
     expect(wilsonLowerBound(0, 0)).toBe(0);
     expect(wilsonLowerBound(0, 25)).toBeCloseTo(0, 12);
   });
 
-  it('stays below the observed share and rises with more of the same evidence', () => {
+  it('wilsonLowerBound · more of the same evidence · stays below the observed share and rises', () => {
     expect(wilsonLowerBound(8, 10)).toBeLessThan(0.8);
     expect(wilsonLowerBound(80, 100)).toBeGreaterThan(wilsonLowerBound(8, 10));
     expect(wilsonLowerBound(80, 100)).toBeLessThan(0.8);
   });
 
-  it('rejects impossible counts', () => {
+  it('wilsonLowerBound · impossible counts · rejected', () => {
     expect(() => wilsonLowerBound(3, 2)).toThrow(RangeError);
     expect(() => wilsonLowerBound(-1, 2)).toThrow(RangeError);
     expect(() => wilsonLowerBound(1.5, 2)).toThrow(RangeError);
@@ -62,7 +62,7 @@ describe('wilsonLowerBound', () => {
 });
 
 describe('bayesianRating', () => {
-  it('matches the weighted-rating formula worked by hand', () => {
+  it('bayesianRating · a worked example · matches the weighted-rating formula worked by hand', () => {
     // v = 3 ratings averaging R = 5.0, m = 5, C = 3.8:
     // WR = 3/8 · 5.0 + 5/8 · 3.8 = 1.875 + 2.375 = 4.25
     expect(bayesianRating({ mean: 5, count: 3 }, { priorMean: 3.8, priorWeight: 5 })).toBeCloseTo(4.25, 12);
@@ -70,7 +70,7 @@ describe('bayesianRating', () => {
     expect(bayesianRating({ mean: 4.6, count: 45 }, { priorMean: 3.8 })).toBeCloseTo(4.52, 12);
   });
 
-  it('uses the documented prior weight and falls back to the catalogue mean', () => {
+  it('bayesianRating · prior · the documented weight, falling back to the catalogue mean', () => {
     expect(PRIOR_WEIGHT).toBe(5);
     expect(bayesianRating({ mean: 0, count: 0 }, { priorMean: 3.8 })).toBe(3.8);
     expect(bayesianRating({ mean: 2, count: 0 }, { priorMean: 4, priorWeight: 0 })).toBe(4);
@@ -83,13 +83,13 @@ describe('provenScore and compareProven', () => {
     ...Array<SetReportOutcome>(bad).fill('cracked'),
   ];
 
-  it('counts held-up and worn-but-working as successes', () => {
+  it('provenScore · held-up and worn-but-working · count as successes', () => {
     const mixed: SetReportOutcome[] = ['held-up', 'worn-but-working', 'deformed', 'cracked', 'failed'];
     expect(provenScore(mixed)).toBe(wilsonLowerBound(2, 5));
     expect(provenScore([])).toBe(0);
   });
 
-  it('does not let one perfect report outrank thirty-eight good ones out of forty', () => {
+  it('compareProven · one perfect report against thirty-eight good ones out of forty · does not outrank them', () => {
     // Wilson 1/1 = 0.2065 (worked above); 38/40 ≈ 0.835 (same formula).
     const one = provenScore(outcomes(1, 0));
     const forty = provenScore(outcomes(38, 2));
@@ -98,7 +98,7 @@ describe('provenScore and compareProven', () => {
     expect(forty).toBeGreaterThan(one);
   });
 
-  it('sorts by proven score, then by adjusted rating', () => {
+  it('compareProven · several parts · sorted by proven score, then adjusted rating', () => {
     const parts: (ProvenRank & { name: string })[] = [
       { name: 'new clip', provenScore: 0.21, adjustedRating: 4.9 },
       { name: 'rod clamp', provenScore: 0.83, adjustedRating: 4.1 },

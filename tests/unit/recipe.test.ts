@@ -23,7 +23,7 @@ function errorsFor(patch: Record<string, unknown>): Record<string, string> {
 }
 
 describe('recipeSchema', () => {
-  it('accepts a complete recipe and trims notes', () => {
+  it('recipeSchema · a complete recipe · accepted, notes trimmed', () => {
     const parsed = recipeSchema.parse({
       ...valid,
       orientationNote: '  Print on its back so the layers run along the clamp.  ',
@@ -42,7 +42,7 @@ describe('recipeSchema', () => {
     ['hotendC', 150, 320, 149, 321],
     ['bedC', 0, 130, -1, 131],
     ['speedMmS', 5, 600, 4.9, 601],
-  ] as const)('%s accepts %d and %d, rejects %d and %d', (field, min, max, below, above) => {
+  ] as const)('recipeSchema · %s · accepts %d and %d, rejects %d and %d', (field, min, max, below, above) => {
     // A nozzle large enough for the default layer, so only the field under test can fail.
     const base = field === 'nozzleMm' ? { layerMm: 0.08 } : {};
     expect(errorsFor({ ...base, [field]: min })).toEqual({});
@@ -51,29 +51,29 @@ describe('recipeSchema', () => {
     expect(errorsFor({ ...base, [field]: above })[field]).toMatch(/between|at most/);
   });
 
-  it('bounds the layer height on its own', () => {
+  it('recipeSchema · layer height alone · bounded', () => {
     expect(errorsFor({ layerMm: 0.04 })).toEqual({});
     expect(errorsFor({ layerMm: 0.039 }).layerMm).toBe('The layer height must be between 0.04 and 1 mm.');
   });
 
-  it('asks for whole numbers of walls and layers', () => {
+  it('recipeSchema · walls and layers · whole numbers asked for', () => {
     expect(errorsFor({ walls: 2.5 }).walls).toBe('Enter a whole number of walls.');
     expect(errorsFor({ topBottomLayers: 3.2 }).topBottomLayers).toBe('Enter a whole number of top and bottom layers.');
   });
 
-  it('names the choices when a choice is wrong', () => {
+  it('recipeSchema · a wrong choice · the choices named', () => {
     expect(errorsFor({ material: 'wood' }).material).toMatch(/^Choose the material: PLA, PETG, /);
     expect(errorsFor({ purpose: 'final' }).purpose).toBe('Choose the purpose: fit-test, set-ready.');
     expect(errorsFor({ supports: 'tree' }).supports).toBe('Choose the supports: none, bed-only, everywhere.');
     expect(errorsFor({ infillPattern: 'stars' }).infillPattern).toBe(`Choose the infill pattern: ${INFILL_PATTERNS.join(', ')}.`);
   });
 
-  it('rejects text where a number belongs', () => {
+  it('recipeSchema · text where a number belongs · rejected', () => {
     expect(errorsFor({ nozzleMm: '0.4' }).nozzleMm).toBe('Enter the nozzle diameter as a number in mm.');
   });
 
   describe('layer height against nozzle (at most 80 %, common practice)', () => {
-    it('uses 80 %', () => {
+    it('layer height against nozzle · the limit · 80 %', () => {
       expect(MAX_LAYER_TO_NOZZLE).toBe(0.8);
     });
 
@@ -82,14 +82,14 @@ describe('recipeSchema', () => {
       [0.6, 0.48, 0.49],
       [0.25, 0.2, 0.21],
       [0.8, 0.64, 0.65],
-    ])('a %d mm nozzle allows %d mm but not %d mm', (nozzleMm, largest, tooThick) => {
+    ])('layer height against nozzle · a %d mm nozzle · allows %d mm but not %d mm', (nozzleMm, largest, tooThick) => {
       expect(errorsFor({ nozzleMm, layerMm: largest })).toEqual({});
       expect(errorsFor({ nozzleMm, layerMm: tooThick })).toEqual({
         layerMm: `A ${tooThick} mm layer is too thick for a ${nozzleMm} mm nozzle; use at most ${largest} mm (80 % of the nozzle).`,
       });
     });
 
-    it('is reported alongside other field errors', () => {
+    it('layer height against nozzle · other field errors too · reported alongside them', () => {
       expect(Object.keys(errorsFor({ layerMm: 0.36, walls: 0, material: 'wood' })).sort()).toEqual([
         'layerMm',
         'material',
@@ -97,19 +97,19 @@ describe('recipeSchema', () => {
       ]);
     });
 
-    it('is not reported when the nozzle itself is invalid', () => {
+    it('layer height against nozzle · an invalid nozzle · not reported', () => {
       expect(errorsFor({ nozzleMm: 'big', layerMm: 0.36 })).toEqual({
         nozzleMm: 'Enter the nozzle diameter as a number in mm.',
       });
     });
   });
 
-  it('checks the printer bed size', () => {
+  it('recipeSchema · printer bed size · checked', () => {
     expect(errorsFor({ printerBedMm: [220, 0, 250] })['printerBedMm.1']).toBe('Each printer bed size must be more than 0 mm.');
     expect(errorsFor({ printerBedMm: [220, 220] }).printerBedMm).toBe('Give the printer bed as three sizes: x, y and z in mm.');
   });
 
-  it('limits the notes', () => {
+  it('recipeSchema · notes · limited', () => {
     expect(errorsFor({ orientationNote: 'x'.repeat(500) })).toEqual({});
     expect(errorsFor({ orientationNote: 'x'.repeat(501) }).orientationNote).toBe(
       'Keep the orientation note to 500 characters or fewer.',
@@ -118,7 +118,7 @@ describe('recipeSchema', () => {
     expect(errorsFor({ resultNotes: 'x'.repeat(2001) }).resultNotes).toBe('Keep the result notes to 2000 characters or fewer.');
   });
 
-  it('rejects a missing recipe as a whole', () => {
+  it('recipeSchema · a missing recipe · rejected as a whole', () => {
     const result = recipeSchema.safeParse(null);
     expect(result.success).toBe(false);
     expect(result.error && fieldErrors(result.error)).toEqual({ _: 'Send the print recipe with all its settings.' });

@@ -20,7 +20,7 @@ const pixel = (r: { width: number; data: Uint8Array }, x: number, y: number) => 
 };
 
 describe('model picture · view', () => {
-  it('the camera looks from 45° round to the right and 30° up: the direction to the viewer is (sin45·cos30, −cos45·cos30, sin30)', () => {
+  it('model picture view · the camera · 45° round to the right and 30° up: direction to the viewer (sin45·cos30, −cos45·cos30, sin30)', () => {
     // spherical to cartesian coordinates (any analytic geometry handbook), front = −Y, Z up
     const { toViewer, right, up } = viewBasis();
     expect(toViewer.x).toBeCloseTo(Math.SQRT1_2 * Math.cos(Math.PI / 6), 12);
@@ -32,7 +32,7 @@ describe('model picture · view', () => {
     expect(new Vector3().crossVectors(right, up).distanceTo(toViewer)).toBeCloseTo(0, 12);
   });
 
-  it('at the isometric elevation (arctan 1/√2 ≈ 35.26°) the three axes are foreshortened alike, to √(2/3) ≈ 0.8165', () => {
+  it('model picture view · the isometric elevation (arctan 1/√2 ≈ 35.26°) · the three axes foreshortened alike, to √(2/3) ≈ 0.8165', () => {
     // isometric projection: every axis scaled by √(2/3) (descriptive geometry, "isometric projection")
     const { right, up } = viewBasis({ azimuthDeg: 45, elevationDeg: (Math.atan(1 / Math.SQRT2) * 180) / Math.PI });
     for (const axis of [new Vector3(1, 0, 0), new Vector3(0, 1, 0), new Vector3(0, 0, 1)]) {
@@ -45,13 +45,13 @@ describe('model picture · pixels', () => {
   const cube = parseStl(boxStl(20, 20, 20)).positions;
   const picture = rasterise(cube, 400, 300);
 
-  it('the backdrop corners are the palette colours; the picture is the size asked for', () => {
+  it('model picture pixels · backdrop corners and size · the palette colours; the size asked for', () => {
     expect(picture.data.length).toBe(400 * 300 * 4);
     expect(pixel(picture, 0, 0)).toEqual([...RENDER_COLOURS.backdropTop]);
     expect(pixel(picture, 399, 299)).toEqual([...RENDER_COLOURS.backdropBottom]);
   });
 
-  it('flat shading: the top of a cube is lit more than its front, and every face is the part colour scaled', () => {
+  it('model picture pixels · a cube with flat shading · top lit more than front; every face the part colour scaled', () => {
     // the cube is fitted into the left 68 % of the picture; its top face is above the middle, the
     // front (−Y) face below and left of it, the right (+X) face below and right
     const { toViewer } = viewBasis();
@@ -69,11 +69,11 @@ describe('model picture · pixels', () => {
     }
   });
 
-  it('the same model gives the same pixels', () => {
+  it('model picture pixels · the same model twice · the same pixels', () => {
     expect(Buffer.from(rasterise(cube, 400, 300).data).equals(Buffer.from(picture.data))).toBe(true);
   });
 
-  it('downsampling averages each block of pixels', () => {
+  it('model picture pixels · downsampling · averages each block of pixels', () => {
     const big = { width: 2, height: 2, data: Uint8Array.from([0, 0, 0, 255, 100, 100, 100, 255, 200, 200, 200, 255, 100, 100, 100, 255]) };
     expect([...downsample(big, 2).data]).toEqual([100, 100, 100, 255]);
   });
@@ -109,21 +109,21 @@ describe('model picture · jobs', { timeout: 60_000 }, () => {
     return paths;
   }
 
-  it(`a model whose picture times out is tried ${MAX_RENDER_ATTEMPTS} times, then marked failed with nothing left on disk`, async () => {
+  it(`model picture jobs · a picture that times out · tried ${MAX_RENDER_ATTEMPTS} times, then failed with nothing left on disk`, async () => {
     const row = fakeRow();
     const paths = await run('slow.stl', row);
     expect(row).toMatchObject({ renderStatus: 'failed', renderAttempts: MAX_RENDER_ATTEMPTS });
     expect(existsSync(paths.display) || existsSync(paths.thumbnail)).toBe(false);
   });
 
-  it('a model the drawing refuses is failed at the first try, its half-written pictures removed', async () => {
+  it('model picture jobs · a model the drawing refuses · failed at the first try, half-written pictures removed', async () => {
     const row = fakeRow();
     const paths = await run('permanent.stl', row);
     expect(row).toMatchObject({ renderStatus: 'failed', renderAttempts: 1 });
     expect(existsSync(paths.display)).toBe(false);
   });
 
-  it('a thread that dies under a model counts as a try; one that already took two tries is not drawn again', async () => {
+  it('model picture jobs · a thread dying under a model · counts as a try; a model with two tries is not drawn again', async () => {
     const row = fakeRow();
     await run('crash.stl', row);
     expect(row).toMatchObject({ renderStatus: 'failed', renderAttempts: 2 });

@@ -18,7 +18,7 @@ describe('review state machine · every state and action', () => {
   for (const from of STATES) {
     for (const action of REVIEW_ACTIONS) {
       const key = `${from}:${action}`;
-      it(`${from} + ${action} → ${LEGAL[key] ?? 'refused'}`, () => {
+      it(`review state machine · ${from} + ${action} · ${LEGAL[key] ?? 'refused'}`, () => {
         const result = transition(from, action as ReviewAction);
         if (LEGAL[key]) expect(result).toEqual({ ok: true, to: LEGAL[key] });
         else {
@@ -29,7 +29,7 @@ describe('review state machine · every state and action', () => {
     }
   }
 
-  it('offers only the legal actions for each state', () => {
+  it('review state machine · each state · only the legal actions offered', () => {
     expect(allowedActions('in_review')).toEqual(['approve', 'send-back', 'reject']);
     expect(allowedActions('published')).toEqual(['retire']);
     expect(allowedActions('rejected')).toEqual([]);

@@ -25,19 +25,19 @@ describe('mount aliases · expansion', () => {
     ['quick release plate', 'dovetail-38'],
     ['0.8 mod', 'gear-0-8'],
     ['1/4-20 UNC screw', 'screw-1-4-20'],
-  ])('reads %j as %s', (typed, slug) => {
+  ])('mount aliases · %j · read as %s', (typed, slug) => {
     // aliases and labels from shared/catalogue.ts MOUNT_STANDARDS (common crew usage)
     const { mentions } = expandMountAliases(`riser ${typed} plate`);
     expect(mentions.map((m) => m.slug)).toEqual([slug]);
   });
 
-  it('takes the longest name first', () => {
+  it('mount aliases · overlapping names · the longest first', () => {
     expect(expandMountAliases('15mm studio rods').mentions.map((m) => m.slug)).toEqual(['rods-15-100']);
     expect(expandMountAliases('15 mm studio rods at 100 mm').mentions.map((m) => m.slug)).toEqual(['rods-15-100']);
     expect(expandMountAliases('3/8-16 thread').mentions.map((m) => m.phrase)).toEqual(['3/8-16']);
   });
 
-  it('matches whole words only, but lets an inch mark run into the next word', () => {
+  it('mount aliases · words and inch marks · whole words only; an inch mark may run into the next word', () => {
     expect(expandMountAliases('glwsx').mentions).toEqual([]);
     expect(expandMountAliases('dovetailed').mentions).toEqual([]);
     // plurals are the same name
@@ -45,19 +45,19 @@ describe('mount aliases · expansion', () => {
     expect(expandMountAliases('1/4"plate').mentions.map((m) => m.slug)).toEqual(['screw-1-4-20']);
   });
 
-  it('leaves the other words, and replaces names with tokens for query syntax', () => {
+  it('mount aliases · a query with other words · those kept, names replaced with tokens for query syntax', () => {
     const e = expandMountAliases('Riser for 1/4" and LWS');
     expect(e.rest).toBe('riser for and');
     expect(e.replaced).toBe(`riser for ${mountToken('screw-1-4-20')} and ${mountToken('rods-15-60')}`);
     expect(expandMountAliases('mounts:lws +v-mount').replaced).toBe(`mounts:${mountToken('rods-15-60')} +${mountToken('battery-v-style')}`);
   });
 
-  it('never turns the word "other" into the "Other (see note)" mount', () => {
+  it('mount aliases · the word "other" · never the "Other (see note)" mount', () => {
     expect(expandMountAliases('other clamp').mentions).toEqual([]);
     expect(resolveMount('other')).toBe('other'); // the slug itself still works as a filter
   });
 
-  it('resolves filter values from slugs, labels and aliases', () => {
+  it('mount aliases · filter values · resolved from slugs, labels and aliases', () => {
     expect(resolveMount('screw-1-4-20')).toBe('screw-1-4-20');
     expect(resolveMount('1/4"')).toBe('screw-1-4-20');
     expect(resolveMount('LWS')).toBe('rods-15-60');
@@ -67,7 +67,7 @@ describe('mount aliases · expansion', () => {
 });
 
 describe('mount aliases · tokens', () => {
-  it('survive lunr\'s indexing pipeline and search pipeline unchanged', () => {
+  it('mount tokens · lunr indexing and search pipelines · survive unchanged', () => {
     for (const m of MOUNT_STANDARDS) {
       const token = mountToken(m.slug);
       const indexed = lunr(function () {
@@ -81,12 +81,12 @@ describe('mount aliases · tokens', () => {
     }
   });
 
-  it('are distinct per standard', () => {
+  it('mount tokens · each standard · a distinct token', () => {
     const tokens = MOUNT_STANDARDS.map((m) => mountToken(m.slug));
     expect(new Set(tokens).size).toBe(tokens.length);
   });
 
-  it('index the label and note next to the token', () => {
+  it('mount tokens · a document · label and note indexed next to the token', () => {
     expect(mountIndexText([{ slug: 'screw-1-4-20' }, { slug: 'other', note: 'Hirose 4-pin' }])).toBe(
       `${mountToken('screw-1-4-20')} 1/4-20 UNC screw ${mountToken('other')} Hirose 4-pin`,
     );

@@ -10,18 +10,18 @@ const BODIES = [
 ];
 
 describe('camera bodies · by name', () => {
-  it.each(['korvel-kx8', 'KX8', 'kx-8', 'KX 8', 'Korvel KX-8', 'korvel kx8', 'Korvel 8', '  kx8 '])('resolves %j to the KX-8', (value) => {
+  it.each(['korvel-kx8', 'KX8', 'kx-8', 'KX 8', 'Korvel KX-8', 'korvel kx8', 'Korvel 8', '  kx8 '])('camera bodies · %j · resolved to the KX-8', (value) => {
     expect(resolveBody(value, BODIES)).toEqual({ ok: true, slug: 'korvel-kx8' });
   });
 
-  it('names the closest known bodies for an unknown name', () => {
+  it('camera bodies · an unknown name · the closest known bodies named', () => {
     const found = resolveBody('KX88', BODIES);
     expect(found.ok).toBe(false);
     expect(!found.ok && found.closest[0]).toBe('Korvel KX-8');
     expect(!found.ok && found.closest.length).toBeLessThanOrEqual(3);
   });
 
-  it('reads body names out of search text however they are spaced', () => {
+  it('camera bodies · search text however spaced · body names read out of it', () => {
     const table = new PhraseTable(bodyPhraseEntries(BODIES));
     for (const text of ['plate for the kx-8', 'plate for the kx 8', 'plate for the korvel kx8']) {
       expect(table.find(text).mentions.map((m) => m.tokens)).toEqual([[bodyToken('korvel-kx8')]]);

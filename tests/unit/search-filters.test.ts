@@ -19,7 +19,7 @@ function fitsSomeTurn(size: Triple, envelope: Triple): boolean {
 }
 
 describe('fitsWithin · envelope rule', () => {
-  it('agrees with trying all 6 axis orders, for every box and envelope on a 1..5 grid', () => {
+  it('fitsWithin · every box and envelope on a 1..5 grid · agrees with trying all 6 axis orders', () => {
     // brute force over 125 × 125 cases: the sorted-sides rule equals the 6-permutation definition
     const grid: Triple[] = [];
     for (let x = 1; x <= 5; x++) for (let y = 1; y <= 5; y++) for (let z = 1; z <= 5; z++) grid.push([x, y, z]);
@@ -36,7 +36,7 @@ describe('fitsWithin · envelope rule', () => {
     expect(fits).toBeLessThan(grid.length ** 2 - 1000);
   });
 
-  it('agrees with the 6 orders on random real-valued boxes', () => {
+  it('fitsWithin · random real-valued boxes · agrees with the 6 orders', () => {
     let seed = 7;
     const rand = () => ((seed = (seed * 1103515245 + 12345) % 2 ** 31) / 2 ** 31) * 200;
     for (let i = 0; i < 5000; i++) {
@@ -46,7 +46,7 @@ describe('fitsWithin · envelope rule', () => {
     }
   });
 
-  it('lets a part fit only when it is turned', () => {
+  it('fitsWithin · a part that fits only when turned · fits', () => {
     // 40 tall, 120 long, 80 deep goes into a 120 × 80 × 40 space lying down
     expect(fitsWithin([40, 120, 80], [120, 80, 40])).toBe(true);
     for (const p of PERMUTATIONS) {
@@ -59,14 +59,14 @@ describe('fitsWithin · envelope rule', () => {
     expect(fitsWithin([100, 100, 10], [120, 80, 40])).toBe(false);
   });
 
-  it('includes the edge and ignores float32 mesh noise below a micrometre', () => {
+  it('fitsWithin · the edge, float32 mesh noise below a micrometre · included; ignored', () => {
     expect(fitsWithin([120, 80, 40], [120, 80, 40])).toBe(true);
     // 120 mm stored as float32 reads back as 120.00000762939453
     expect(fitsWithin([Math.fround(120.0000001), 80, 40], [120, 80, 40])).toBe(true);
     expect(fitsWithin([120.002, 80, 40], [120, 80, 40])).toBe(false);
   });
 
-  it('takes inch envelopes converted exactly', () => {
+  it('fitsWithin · inch envelopes · converted exactly', () => {
     // 4.5 in × 3 in × 1 in = 114.3 × 76.2 × 25.4 mm (1 in = 25.4 mm, NIST SP 811 Appendix B)
     const envelope: Triple = [inchesToMm(4.5), inchesToMm(3), inchesToMm(1)];
     expect(envelope).toEqual([114.3, 76.2, 25.4]);
@@ -78,7 +78,7 @@ describe('fitsWithin · envelope rule', () => {
 describe('matchesKeyDimension · tolerance', () => {
   const bore = [{ name: 'Rod bore', valueMm: 15.3 }];
 
-  it('includes the edge of the tolerance despite floating point (15.3 − 15 ≤ 0.3)', () => {
+  it('matchesKeyDimension · the edge of the tolerance (15.3 − 15 ≤ 0.3) · included despite floating point', () => {
     // in doubles 15.3 - 15 = 0.3000000000000007 > 0.3, so a naive comparison would miss this part
     expect(15.3 - 15 > 0.3).toBe(true);
     expect(matchesKeyDimension(bore, { name: 'rod bore', valueMm: 15, tolMm: 0.3 })).toBe(true);
@@ -87,18 +87,18 @@ describe('matchesKeyDimension · tolerance', () => {
     expect(matchesKeyDimension(bore, { name: 'rod bore', valueMm: 14.99, tolMm: 0.3 })).toBe(false);
   });
 
-  it('matches a value given exactly when the tolerance is 0', () => {
+  it('matchesKeyDimension · tolerance 0 · the exact value matches', () => {
     expect(matchesKeyDimension(bore, { name: 'bore', valueMm: 15.3, tolMm: 0 })).toBe(true);
     expect(matchesKeyDimension(bore, { name: 'bore', valueMm: 15.3001, tolMm: 0 })).toBe(false);
   });
 
-  it('matches names case-insensitively by containment, after trimming', () => {
+  it('matchesKeyDimension · names · matched case-insensitively by containment, after trimming', () => {
     expect(matchesKeyDimension(bore, { name: '  BORE ', valueMm: 15.3, tolMm: 0 })).toBe(true);
     expect(matchesKeyDimension(bore, { name: 'rod   bore', valueMm: 15.3, tolMm: 0 })).toBe(true);
     expect(matchesKeyDimension(bore, { name: 'rod width', valueMm: 15.3, tolMm: 1 })).toBe(false);
   });
 
-  it('compares inch values and tolerances exactly', () => {
+  it('matchesKeyDimension · inch values and tolerances · compared exactly', () => {
     // plate width 4 in ± 0.05 in = 101.6 ± 1.27 mm (1 in = 25.4 mm exactly, NIST SP 811 Appendix B)
     const plate = [{ name: 'plate width', valueMm: 102.87 }];
     expect(matchesKeyDimension(plate, { name: 'plate width', valueMm: inchesToMm(4), tolMm: inchesToMm(0.05) })).toBe(true);
@@ -111,11 +111,11 @@ describe('keyDimensionDistance · range overlap', () => {
   // interval arithmetic, common practice); the worked example is the one in shared/search/filters.ts.
   const asked = { name: 'rod bore', valueMm: 15, tolMm: 0.1 };
 
-  it('matches a clamp of 15.2 ± 0.2 for a 15 ± 0.1 bore: its range covers 15.0', () => {
+  it('keyDimensionDistance · a clamp of 15.2 ± 0.2 for a 15 ± 0.1 bore · matches: its range covers 15.0', () => {
     expect(keyDimensionDistance({ name: 'rod bore', valueMm: 15.2, tolMm: 0.2 }, asked)).toBeCloseTo(0.2, 9);
   });
 
-  it('matches ranges that only touch, and not ranges a micrometre apart', () => {
+  it('keyDimensionDistance · ranges that touch, ranges a micrometre apart · match; do not', () => {
     // [15.3 − 0.2, 15.5] touches [14.9, 15.1] at 15.1
     expect(keyDimensionDistance({ name: 'rod bore', valueMm: 15.3, tolMm: 0.2 }, asked)).toBeCloseTo(0.3, 9);
     expect(keyDimensionDistance({ name: 'rod bore', valueMm: 15.301, tolMm: 0.2 }, asked)).toBeNull();
@@ -124,13 +124,13 @@ describe('keyDimensionDistance · range overlap', () => {
     expect(keyDimensionDistance({ name: 'rod bore', valueMm: 14.699, tolMm: 0.2 }, asked)).toBeNull();
   });
 
-  it('keeps disjoint ranges apart, with no tolerance on either side only the exact value', () => {
+  it('keyDimensionDistance · disjoint ranges; no tolerance on either side · apart; only the exact value', () => {
     expect(keyDimensionDistance({ name: 'rod bore', valueMm: 15.5, tolMm: 0.1 }, asked)).toBeNull();
     expect(keyDimensionDistance({ name: 'rod bore', valueMm: 15 }, { ...asked, tolMm: 0 })).toBe(0);
     expect(keyDimensionDistance({ name: 'rod bore', valueMm: 15.0001 }, { ...asked, tolMm: 0 })).toBeNull();
   });
 
-  it('ranks the closest nominal first when several match', () => {
+  it('keyDimensionDistance · several matches · the closest nominal first', () => {
     const dims = [
       { name: 'rod bore', valueMm: 15.2, tolMm: 0.2 },
       { name: 'rod bore', valueMm: 15.05, tolMm: 0 },
@@ -153,7 +153,7 @@ const doc = (over: Partial<FilterableDoc> = {}): FilterableDoc => ({
 });
 
 describe('matchesFilters', () => {
-  it('ANDs the kinds of filter and ORs the values of one kind', () => {
+  it('matchesFilters · several kinds and values · kinds ANDed, values of one kind ORed', () => {
     const d = doc({ mounts: [{ slug: 'screw-1-4-20' }], materials: ['PETG'], bodies: [{ slug: 'korvel-kx8' }] });
     expect(matchesFilters(d, { mount: ['screw-1-4-20', 'rods-15-60'] })).toBe(true);
     expect(matchesFilters(d, { mount: ['screw-1-4-20'], material: ['ASA'] })).toBe(false);
@@ -161,7 +161,7 @@ describe('matchesFilters', () => {
     expect(matchesFilters(d, { category: ['lens-focus'] })).toBe(false);
   });
 
-  it('keeps parts without a measured size out of an envelope search, and unrated parts out of minRating', () => {
+  it('matchesFilters · parts without a measured size, unrated parts · out of an envelope search; out of minRating', () => {
     expect(matchesFilters(doc(), { fit: [100, 100, 100] })).toBe(false);
     expect(matchesFilters(doc({ sizeMm: [10, 10, 10] }), { fit: [100, 100, 100] })).toBe(true);
     expect(matchesFilters(doc(), { minRating: 3 })).toBe(false);
@@ -169,14 +169,14 @@ describe('matchesFilters', () => {
     expect(matchesFilters(doc({ rating: 4.5 }), { minRating: 4 })).toBe(true);
   });
 
-  it('filters on adaptable both ways', () => {
+  it('matchesFilters · adaptable · filtered both ways', () => {
     expect(matchesFilters(doc({ adaptable: false }), { adaptable: true })).toBe(false);
     expect(matchesFilters(doc({ adaptable: false }), { adaptable: false })).toBe(true);
   });
 });
 
 describe('countFacets', () => {
-  it('counts each value once per document; categories add up to the number of documents', () => {
+  it('countFacets · documents · each value once per document; categories add up to the number of documents', () => {
     const docs = [
       doc({ category: 'rods-mounting', mounts: [{ slug: 'rods-15-60' }, { slug: 'screw-1-4-20' }], materials: ['PETG', 'PLA', 'PETG'] }),
       doc({ category: 'rods-mounting', mounts: [{ slug: 'rods-15-60' }], bodies: [{ slug: 'korvel-kx8' }] }),

@@ -44,11 +44,11 @@ const searcher = createSearcher({ index: buildIndex(docs), documents: docs });
 const ids = (input: SearchQueryInput) => searcher.search(searchQuerySchema.parse(input)).results.map((r) => r.id);
 
 describe('search index · ranking', () => {
-  it('ranks a title match above a description-only match', () => {
+  it('search index ranking · a title match and a description-only match · the title match first', () => {
     expect(ids({ q: 'battery' })).toEqual([plate.id, note.id]);
   });
 
-  it('ranks parts matching every word first, then those matching most words, never an empty page', () => {
+  it('search index ranking · several words · parts matching every word first, then most words, never an empty page', () => {
     const res = searcher.search(searchQuerySchema.parse({ q: 'battery plate adapter slate' }));
     expect(res.results.map((r) => r.id)).toEqual([plate.id, note.id]);
     expect(res.results[0]).toMatchObject({ matched: ['battery plate', 'adapter'], missing: ['slate'] });
@@ -59,11 +59,11 @@ describe('search index · ranking', () => {
     expect(ids({ q: 'battery zzzzqqq' })).toEqual([plate.id, note.id]);
   });
 
-  it('finds a camera body by model, compact model and alias', () => {
+  it('search index ranking · a camera body by model, compact model or alias · found', () => {
     for (const q of ['KX-8', 'kx8', 'korvel 8', 'Korvel']) expect(ids({ q })).toEqual([kx8.id]);
   });
 
-  it('forgives typos in words the shelf does not know', () => {
+  it('search index ranking · typos in words the shelf does not know · forgiven', () => {
     // "baterry" is two edits from the stem "batteri": allowed from 7 letters
     expect(ids({ q: 'baterry' })).toEqual([plate.id, note.id]);
     expect(ids({ q: 'adaptr' })).toEqual([plate.id]);
@@ -71,31 +71,31 @@ describe('search index · ranking', () => {
     expect(ids({ q: 'slate' })).toEqual([note.id]);
   });
 
-  it('treats the last word as a prefix', () => {
+  it('search index ranking · the last word · taken as a prefix', () => {
     expect(ids({ q: 'chee' })).toEqual([riser.id]);
     // only the last word is a prefix: "batt" matches nothing here, "plate" still does
     expect(searcher.search(searchQuerySchema.parse({ q: 'batt plate' })).results).toMatchObject([{ id: plate.id, matched: ['plate'], missing: ['batt'] }]);
     expect(ids({ q: 'plate batt' })).toEqual([plate.id, note.id]);
   });
 
-  it('finds mounts by any of their names', () => {
+  it('search index ranking · mounts by any of their names · found', () => {
     for (const q of ['1/4"', 'quarter inch', '1/4-20', 'tripod screw']) expect(ids({ q }).sort()).toEqual([plate.id, riser.id].sort());
     expect(ids({ q: 'LWS clamp' })).toEqual([clamp.id]);
   });
 
-  it('lists everything newest first without text', () => {
+  it('search index ranking · no text · everything, newest first', () => {
     expect(ids({})).toEqual([...docs].reverse().map((d) => d.id));
   });
 });
 
 describe('search index · query syntax', () => {
-  it('runs lunr query syntax', () => {
+  it('search index query syntax · lunr syntax · run', () => {
     expect(ids({ q: 'title:battery' })).toEqual([plate.id]);
     expect(ids({ q: '+battery -adapter' })).toEqual([note.id]);
     expect(ids({ q: 'mounts:LWS' })).toEqual([clamp.id]);
   });
 
-  it.each(['title:', '*~^', 'colour:red', 'plate~x'])('answers %j with a 400 that explains the syntax', (q) => {
+  it.each(['title:', '*~^', 'colour:red', 'plate~x'])('search index query syntax · %j · 400 explaining the syntax', (q) => {
     let caught: unknown;
     try {
       ids({ q });
@@ -110,7 +110,7 @@ describe('search index · query syntax', () => {
 });
 
 describe('search index · file', () => {
-  it('round-trips through its JSON form', () => {
+  it('search index file · its JSON form · round-trips', () => {
     const content = JSON.parse(indexFileContent(docs, 'abc', buildIndex(docs)));
     const again = createSearcher({ index: lunr.Index.load(content.index), documents: content.documents });
     expect(again.search(searchQuerySchema.parse({ q: 'battery' })).results.map((r) => r.id)).toEqual([plate.id, note.id]);
@@ -120,18 +120,18 @@ describe('search index · file', () => {
 
 describe('search index · limits', () => {
   // The probe's queries: 12 letters at distance 7 held the event loop for half a minute before the cap.
-  it.each(['abcdefghijkl~7', 'abcdefghijkl~6', 'abcdefghijklmnopqrstuvwxyzabcdefghij~2', 'plate~9 battery~9 riser~9'])('answers %j within its limits', (q) => {
+  it.each(['abcdefghijkl~7', 'abcdefghijkl~6', 'abcdefghijklmnopqrstuvwxyzabcdefghij~2', 'plate~9 battery~9 riser~9'])('search index limits · %j · answered within its limits', (q) => {
     expect(() => ids({ q })).not.toThrow();
   });
 
-  it('reads an edit distance above 2 as 2', () => {
+  it('search index limits · an edit distance above 2 · read as 2', () => {
     expect(ids({ q: 'title:plaet~7' })).toEqual(ids({ q: 'title:plaet~2' }));
     expect(ids({ q: 'title:plaet~2' })).toContain(plate.id);
     expect(ids({ q: 'abcdefghijkl~7' })).toEqual([]);
     expect(ids({ q: 'abcdefghijkl~7 -battery' })).toEqual([]);
   });
 
-  it('gives long words fewer edits', () => {
+  it('search index limits · long words · fewer edits', () => {
     expect(allowedEditDistance(7, 12)).toBe(2);
     expect(allowedEditDistance(2, 15)).toBe(1);
     expect(allowedEditDistance(2, 31)).toBe(0);
@@ -153,19 +153,19 @@ describe('search index · limits', () => {
     }
   });
 
-  it('keeps "starts with" working after some letters, and a required word with several expansions', () => {
+  it('search index limits · some letters typed, a required word with several expansions · "starts with" keeps working', () => {
     expect(ids({ q: 'title:ba*' })).toEqual([plate.id]);
     expect(ids({ q: '+ch* +riser' })).toEqual([riser.id]);
   });
 
-  it('stops a search that runs past its budget with a 503', () => {
+  it('search index limits · a search past its budget · stopped with a 503', () => {
     const spent = new Budget(-1);
     expect(() => spent.check()).toThrow(/took too long/);
   });
 });
 
 describe('search index · plain-word scorer', () => {
-  it('gives the same scores as lunr.Index.query for the same terms', () => {
+  it('plain-word scorer · the same terms · the same scores as lunr.Index.query', () => {
     // reference: lunr 2.3.9's own query scoring over the same index, every term optional
     const index = buildIndex(docs);
     const ours = createSearcher({ index, documents: docs });

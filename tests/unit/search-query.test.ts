@@ -30,7 +30,7 @@ describe('parseEnvelope · fit', () => {
     ['big x 80 x 40', /"big" is not a length/],
     ['0x80x40', /more than 0 mm/],
     ['6000x80x40', /more than 5 m/],
-  ])('refuses %j with a message', (text, message) => {
+  ])('parseEnvelope · %j · refused with a message', (text, message) => {
     const r = parseEnvelope(text);
     expect(r.ok).toBe(false);
     if (!r.ok) expect(r.message).toMatch(message);
@@ -38,7 +38,7 @@ describe('parseEnvelope · fit', () => {
 });
 
 describe('parseDimension · dim', () => {
-  it('reads name:value:tolerance, with units on value and tolerance', () => {
+  it('parseDimension · name:value:tolerance with units on value and tolerance · read', () => {
     expect(parseDimension('rod bore:15:0.3')).toEqual({ ok: true, value: { name: 'rod bore', valueMm: 15, tolMm: 0.3 } });
     // 4 in = 101.6 mm, 0.05 in = 1.27 mm (NIST SP 811 Appendix B, 25.4 mm per inch)
     expect(parseDimension('plate width:4in:0.05in')).toEqual({ ok: true, value: { name: 'plate width', valueMm: 101.6, tolMm: 1.27 } });
@@ -46,7 +46,7 @@ describe('parseDimension · dim', () => {
     expect(parseDimension('thread:1/4":0')).toEqual({ ok: true, value: { name: 'thread', valueMm: 6.35, tolMm: 0 } });
   });
 
-  it('takes a missing tolerance as 0 and keeps colons in the name', () => {
+  it('parseDimension · no tolerance, colons in the name · tolerance 0; the colons kept', () => {
     expect(parseDimension('rod bore:15')).toEqual({ ok: true, value: { name: 'rod bore', valueMm: 15, tolMm: 0 } });
     expect(parseDimension('slot a:b:10:1')).toEqual({ ok: true, value: { name: 'slot a:b', valueMm: 10, tolMm: 1 } });
   });
@@ -59,7 +59,7 @@ describe('parseDimension · dim', () => {
     ['rod bore:15:-1', /"-1" is not a tolerance/],
     ['rod bore:0:0.1', /more than 0 mm/],
     ['rod bore:15:60', /over 50 mm/],
-  ])('refuses %j with a message', (text, message) => {
+  ])('parseDimension · %j · refused with a message', (text, message) => {
     const r = parseDimension(text);
     expect(r.ok).toBe(false);
     if (!r.ok) expect(r.message).toMatch(message);
@@ -67,7 +67,7 @@ describe('parseDimension · dim', () => {
 });
 
 describe('search query schema', () => {
-  it('normalises a full query', () => {
+  it('search query schema · a full query · normalised', () => {
     const q = searchQuerySchema.parse({
       q: '  battery plate ',
       body: 'korvel-kx8,halden-h6',
@@ -101,12 +101,12 @@ describe('search query schema', () => {
     });
   });
 
-  it('has defaults for an empty query', () => {
+  it('search query schema · an empty query · defaults', () => {
     expect(searchQuerySchema.parse({})).toEqual({ body: [], mount: [], category: [], material: [], dim: [], sort: 'relevance', page: 1, pageSize: 20 });
     expect(searchQuerySchema.parse({ q: '   ', fit: '' }).q).toBeUndefined();
   });
 
-  it('answers bad values with one message per field', () => {
+  it('search query schema · bad values · one message per field', () => {
     const r = searchQuerySchema.safeParse({ fit: '120x80', dim: 'bore', mount: 'bayonet', category: 'hats', material: 'wood', page: '0', pageSize: '500', sort: 'best', extra: '1' });
     expect(r.success).toBe(false);
     const fields = fieldErrors(r.error!);
@@ -121,14 +121,14 @@ describe('search query schema', () => {
     expect(fields._).toMatch(/Unknown search parameter "extra"/);
   });
 
-  it('splits lists on commas and repeats, dropping blanks and duplicates', () => {
+  it('search query schema · lists by commas and repeats · split, blanks and duplicates dropped', () => {
     expect(splitList(['a,b', ' b ', '', 'c'])).toEqual(['a', 'b', 'c']);
     expect(splitList(undefined)).toEqual([]);
   });
 });
 
 describe('readQueryText', () => {
-  it('turns plain words into groups, mount names and trade phrases into one group each, the last word a prefix', () => {
+  it('readQueryText · plain words, mount names and trade phrases · groups: one per word, one per name or phrase, the last word a prefix', () => {
     expect(readQueryText('Battery plate for the KX-8 bracket')).toEqual({
       kind: 'plain',
       groups: [
@@ -143,7 +143,7 @@ describe('readQueryText', () => {
     expect(readQueryText('clamp 1/4"')).toMatchObject({ groups: [{ kind: 'word', text: 'clamp', last: false }, { kind: 'mount', text: '1/4in' }] });
   });
 
-  it('reads a number glued to its unit, or apart, as one word', () => {
+  it('readQueryText · a number glued to its unit or apart · one word', () => {
     for (const q of ['15mm', '15 mm', '15-mm', '15 MM', '15 millimetres']) expect(normaliseQueryText(q)).toBe('15mm');
     for (const q of ['1/4in', '1/4 in', '1/4"', '1/4 inch', '1/4″']) expect(normaliseQueryText(q)).toBe('1/4in');
     expect(normaliseQueryText('3/8"')).toBe('3/8in');
@@ -154,7 +154,7 @@ describe('readQueryText', () => {
     expect(readQueryText('15mm rod')).toMatchObject({ groups: [{ kind: 'mount', mount: 'rods-15-60' }] });
   });
 
-  it('reads hyphens, spaces and plurals of trade phrases alike', () => {
+  it('readQueryText · hyphens, spaces and plurals of trade phrases · read alike', () => {
     for (const q of ['v-style', 'V style', 'vstyle', 'V-STYLE']) expect(readQueryText(q)).toMatchObject({ groups: [{ kind: 'mount', mount: 'battery-v-style' }] });
     for (const q of ['cold shoe', 'cold-shoe', 'coldshoe', 'cold shoes', 'accessory shoe']) {
       expect(readQueryText(q)).toMatchObject({ groups: [{ tokens: expect.arrayContaining([synonymToken('accessory-shoe')]) }] });
@@ -167,16 +167,16 @@ describe('readQueryText', () => {
     }
   });
 
-  it('sends query syntax to the parser, with mount names replaced', () => {
+  it('readQueryText · query syntax · sent to the parser with mount names replaced', () => {
     for (const q of ['title:plate', '+korvel -tpu', 'plate~1', 'bracket^2', 'batt*', 'title:', '*~^']) expect(readQueryText(q).kind).toBe('syntax');
     expect(readQueryText('mounts:LWS')).toEqual({ kind: 'syntax', text: `mounts:${mountToken('rods-15-60')}` });
   });
 
-  it('does not take hyphens inside words, lone dashes or times for syntax', () => {
+  it('readQueryText · hyphens inside words, lone dashes, times · not taken for syntax', () => {
     for (const q of ['KX-8 v-mount', 'plate – korvel', 'plate - korvel', '1/4-20 riser', '16:9 hood']) expect(readQueryText(q).kind).toBe('plain');
   });
 
-  it('has no text for blanks and stop words only', () => {
+  it('readQueryText · blanks and stop words only · no text', () => {
     expect(readQueryText(undefined)).toEqual({ kind: 'none' });
     expect(readQueryText('  the  ')).toEqual({ kind: 'none' });
   });

@@ -54,7 +54,7 @@ function volumes(positions: number[], settings = recipe) {
 const within1pct = (actual: number, expected: number) => expect(Math.abs(actual / expected - 1)).toBeLessThan(0.01);
 
 describe('slices · shapes whose layers are known exactly', () => {
-  it('20 mm cube · walls (20² − 18.2²)·20, skins 8·0.2·18.2², infill 0.2·92·0.2·18.2²', () => {
+  it('slices · 20 mm cube · walls (20² − 18.2²)·20, skins 8·0.2·18.2², infill 0.2·92·0.2·18.2²', () => {
     const { profile, estimate } = volumes(prism(rect(0, 0, 20, 20), 0, 20));
     expect(profile.layers).toHaveLength(100);
     within1pct(estimate.partsMm3.walls, (400 - 18.2 ** 2) * 20); // 1375.2 mm³
@@ -63,7 +63,7 @@ describe('slices · shapes whose layers are known exactly', () => {
     expect(estimate.method).toBe('slices');
   });
 
-  it('cylinder as a 64-gon, R 10, 10 tall · areas N/2·R²·sin(2π/N) and N·(a − d)²·tan(π/N), a = R·cos(π/N)', () => {
+  it('slices · cylinder as a 64-gon, R 10, 10 tall · areas N/2·R²·sin(2π/N) and N·(a − d)²·tan(π/N), a = R·cos(π/N)', () => {
     const N = 64, R = 10;
     const area = (N / 2) * R * R * Math.sin((2 * Math.PI) / N);
     const a = R * Math.cos(Math.PI / N);
@@ -74,7 +74,7 @@ describe('slices · shapes whose layers are known exactly', () => {
     within1pct(estimate.partsMm3.infill, 0.2 * 42 * 0.2 * inset);
   });
 
-  it('washer R 12 / r 6.5, 3 tall, 48 segments · ring N/2·sin(2π/N)·(R² − r²), inset N·tan(π/N)·((a_R − d)² − (a_r + d)²)', () => {
+  it('slices · washer R 12 / r 6.5, 3 tall, 48 segments · ring N/2·sin(2π/N)·(R² − r²), inset N·tan(π/N)·((a_R − d)² − (a_r + d)²)', () => {
     const N = 48, R = 12, r = 6.5;
     const t = Math.tan(Math.PI / N), c = Math.cos(Math.PI / N);
     const area = (N / 2) * Math.sin((2 * Math.PI) / N) * (R * R - r * r);
@@ -85,7 +85,7 @@ describe('slices · shapes whose layers are known exactly', () => {
     within1pct(estimate.partsMm3.infill, 0.2 * 7 * 0.2 * inset);
   });
 
-  it('flat plate 100 × 40 × 3, 0 % infill · walls (4000 − 98.2·38.2)·3, skins 8·0.2·98.2·38.2, about 9 g', () => {
+  it('slices · flat plate 100 × 40 × 3, 0 % infill · walls (4000 − 98.2·38.2)·3, skins 8·0.2·98.2·38.2, about 9 g', () => {
     const { estimate } = volumes(prism(rect(0, 0, 100, 40), 0, 3), { ...recipe, infillPct: 0 });
     within1pct(estimate.partsMm3.walls, (4000 - 98.2 * 38.2) * 3); // 746.28 mm³
     within1pct(estimate.partsMm3.skins, 8 * 0.2 * 98.2 * 38.2); // 6001.98 mm³
@@ -94,14 +94,14 @@ describe('slices · shapes whose layers are known exactly', () => {
     within1pct(estimate.massG, 6.74826 * 1.24);
   });
 
-  it('tall thin wall 40 × 0.8 × 30 · thinner than two walls, so all wall: 40·0.8·30 = 960 mm³', () => {
+  it('slices · tall thin wall 40 × 0.8 × 30 · thinner than two walls, so all wall: 40·0.8·30 = 960 mm³', () => {
     const { estimate } = volumes(prism(rect(0, 0, 40, 0.8), 0, 30));
     within1pct(estimate.partsMm3.walls, 960);
     expect(estimate.partsMm3.skins).toBe(0);
     expect(estimate.partsMm3.infill).toBe(0);
   });
 
-  it('overhang: a 30 × 10 × 5 slab on a 10 × 10 × 10 stem · skin under the overhang only', () => {
+  it('slices · overhang: a 30 × 10 × 5 slab on a 10 × 10 × 10 stem · skin under the overhang only', () => {
     const stem = prism(rect(10, 0, 20, 10), 0, 10); // layers 0–49
     const slab = prism(rect(0, 0, 30, 10), 10, 15); // layers 50–74
     const { profile, estimate } = volumes([...stem, ...slab]);
@@ -115,7 +115,7 @@ describe('slices · shapes whose layers are known exactly', () => {
     within1pct(estimate.partsMm3.infill, 0.2 * 0.2 * (46 * 67.24 + 4 * 82 + 17 * 231.24));
   });
 
-  it('a facet corner exactly on a cutting plane · loops still close', () => {
+  it('slices · a facet corner exactly on a cutting plane · loops still close', () => {
     // Layers 0.25 mm on a 1 mm cube: planes at 0.125, 0.375 …; add a vertex row at z = 0.375 by stacking.
     const loops = sliceLoops(new Float64Array([...prism(rect(0, 0, 1, 1), 0, 0.375), ...prism(rect(0, 0, 1, 1), 0.375, 1)]), 0.25);
     expect(loops.openLoops).toBe(0);
@@ -142,7 +142,7 @@ describe('slices · sanity', () => {
     times.slice(1).forEach((t, i) => expect(t).toBeLessThanOrEqual(times[i] + 1e-9));
   });
 
-  it('20 mm cube at 0.4 mm nozzle, 0.2 mm, 2 walls, 4 top/bottom, 20 %, 50 mm/s · 15–25 min and 3–5 g of PLA (common practice)', () => {
+  it('slices · 20 mm cube at 0.4 mm nozzle, 0.2 mm, 2 walls, 4 top/bottom, 20 %, 50 mm/s · 15–25 min and 3–5 g of PLA (common practice)', () => {
     const { estimate } = volumes(shapes.cube, { ...recipe, speedMmS: 50 });
     expect(estimate.timeMin).toBeGreaterThan(15);
     expect(estimate.timeMin).toBeLessThan(25);

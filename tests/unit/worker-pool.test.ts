@@ -15,23 +15,23 @@ afterAll(async () => {
 });
 
 describe('worker pool (piscina)', () => {
-  it('runs a TypeScript task in a thread and hands back its result', async () => {
+  it('worker pool · a TypeScript task · runs in a thread and hands back its result', async () => {
     expect(await pool().run('echo', { value: 21 })).toEqual({ value: 21, doubled: 42 });
   });
 
-  it('a task past its time limit is stopped with its thread, and the pool goes on with the next task', async () => {
+  it('worker pool · a task past its time limit · stopped with its thread; the next task runs', async () => {
     const p = pool();
     await expect(p.run('spin', undefined as never, 300)).rejects.toBeInstanceOf(WorkerTimeoutError);
     expect(await p.run('echo', { value: 1 })).toEqual({ value: 1, doubled: 2 });
   });
 
-  it('a task that outgrows the thread memory limit (resourceLimits) fails alone; the next task runs', async () => {
+  it('worker pool · a task outgrowing the thread memory limit (resourceLimits) · fails alone; the next task runs', async () => {
     const p = pool({ memoryMb: 32 });
     await expect(p.run('hoard', undefined as never)).rejects.toBeInstanceOf(WorkerCrashedError);
     expect(await p.run('echo', { value: 2 })).toEqual({ value: 2, doubled: 4 });
   });
 
-  it('the time limit starts when a thread takes the task, so waiting in the queue is not held against it', async () => {
+  it('worker pool · tasks waiting in the queue · the time limit starts only when a thread takes the task', async () => {
     // twelve 300 ms tasks on one thread: the last waits 3.3 s in all, each runs far inside its 3 s limit
     const p = pool({ timeoutMs: 3_000, maxQueue: 14 });
     await p.run('echo', { value: 0 }); // the thread is up
@@ -39,7 +39,7 @@ describe('worker pool (piscina)', () => {
     expect(outcomes.map((o) => o.status)).toEqual(Array(12).fill('fulfilled'));
   });
 
-  it('refuses work beyond its queue bound instead of piling it up', async () => {
+  it('worker pool · work beyond its queue bound · refused instead of piling up', async () => {
     // one thread and one place in the queue: the third task at once is refused
     const p = pool({ maxQueue: 1, timeoutMs: 1_500 });
     const outcomes = await Promise.all(Array.from({ length: 3 }, () => p.run('spin', undefined as never).catch((e: unknown) => e)));
@@ -49,7 +49,7 @@ describe('worker pool (piscina)', () => {
     expect(p.pending).toBe(0);
   });
 
-  it('closing the pool rejects running and waiting tasks as closed, not as failures of the task', async () => {
+  it('worker pool · closing with running and waiting tasks · rejected as closed, not as failures of the task', async () => {
     const p = pool({ timeoutMs: 10_000 });
     await p.run('echo', { value: 0 });
     const running = p.run('busy', { ms: 5_000 }).catch((e: unknown) => e);

@@ -1,9 +1,12 @@
-// The first module of every worker-pool thread. The tasks are TypeScript: this loads them through
-// tsx's loader, which the thread lacks under vitest (and re-registering under tsx is harmless).
+// The first module of every worker-pool thread. From the sources the tasks are TypeScript: they load
+// through tsx's loader, which the thread lacks under vitest (and re-registering under tsx is
+// harmless). The compiled server (dist-server/) hands over a .js module and needs no loader.
 import { workerData } from 'node:worker_threads';
-import { register } from 'tsx/esm/api';
 
-register();
+if (workerData.tasks.endsWith('.ts')) {
+  const { register } = await import('tsx/esm/api');
+  register();
+}
 let tasks;
 
 /** Piscina calls this with { task, input }: the name of an export of the tasks module and its argument. */

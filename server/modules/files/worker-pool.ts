@@ -1,11 +1,12 @@
 // The one way Rigshelf runs heavy work off the event loop: a piscina pool of worker threads with a
 // bound on threads and queue, a memory limit per thread and a time limit per task. Tasks are the
-// exports of a TypeScript module (worker-tasks.ts unless a test passes its own).
+// exports of a module (worker-tasks unless a test passes its own).
 import { fileURLToPath } from 'node:url';
 import Piscina from 'piscina';
+import { workerModuleUrl } from '../../worker-module';
 
 const BOOT = fileURLToPath(new URL('./worker-boot.mjs', import.meta.url));
-const DEFAULT_TASKS = new URL('./worker-tasks.ts', import.meta.url).href;
+const DEFAULT_TASKS = workerModuleUrl('./worker-tasks', import.meta.url);
 
 /** The task ran longer than its pool allows; its thread was stopped. */
 export class WorkerTimeoutError extends Error {
@@ -38,7 +39,7 @@ export interface WorkerPoolOptions {
   idleTimeoutMs?: number;
   /** Lower scheduling priority of the threads (Linux nice), so the event loop wins the CPU. */
   nice?: number;
-  /** URL of the TypeScript module whose exports are the tasks. */
+  /** URL of the module whose exports are the tasks (workerModuleUrl). */
   tasks?: string;
 }
 

@@ -6,7 +6,7 @@ import nodemailer from 'nodemailer';
 import { Op, type Sequelize, type Transaction } from 'sequelize';
 import type { Config } from '../../config';
 import { MailMessage } from '../../db/models';
-import { startFakeSmtp, type FakeSmtp } from './fake-smtp';
+import type { FakeSmtp } from './fake-smtp';
 import type { MailContent } from './templates';
 
 export interface Mailer {
@@ -51,7 +51,10 @@ export interface MailerDeps {
 }
 
 export async function createMailer({ config }: MailerDeps): Promise<Mailer> {
-  const fake = config.SMTP_FAKE ? await startFakeSmtp({ host: config.SMTP_HOST, port: config.SMTP_PORT }) : null;
+  // loaded only when used: the fake's packages (smtp-server, mailparser) are development dependencies
+  const fake = config.SMTP_FAKE
+    ? await (await import('./fake-smtp')).startFakeSmtp({ host: config.SMTP_HOST, port: config.SMTP_PORT })
+    : null;
   // one pooled connection, reused across a batch (a fresh connection per mail costs ~100 ms)
   const transport = nodemailer.createTransport({
     pool: true,

@@ -23,6 +23,7 @@ import { loadItems, presentItem } from '../planning/presenter';
 import { AppError } from '../../errors';
 import { WorkerBusyError, WorkerCrashedError, WorkerPool, WorkerTimeoutError, type WorkerPoolOptions } from '../files/worker-pool';
 import type { MakeJob, MakeResult } from './make-tasks';
+import { workerModuleUrl } from '../../worker-module';
 
 export const MAKE_POOL: WorkerPoolOptions = {
   name: 'make',
@@ -33,7 +34,7 @@ export const MAKE_POOL: WorkerPoolOptions = {
   // a preview takes well under a second at the finest resolution; more means something is wrong
   timeoutMs: 15_000,
   nice: 5,
-  tasks: new URL('./make-tasks.ts', import.meta.url).href,
+  tasks: workerModuleUrl('./make-tasks', import.meta.url),
 };
 
 const makers = GENERATORS as Record<string, Generator>;

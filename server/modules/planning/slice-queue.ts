@@ -4,6 +4,7 @@
 import type { SliceProfile } from '@shared/slice';
 import type { LocalCopy } from '../files/storage';
 import { WorkerPool, type WorkerPoolOptions } from '../files/worker-pool';
+import { workerModuleUrl } from '../../worker-module';
 import type { SliceJob } from './slice-worker';
 
 export const SLICE_POOL: WorkerPoolOptions = {
@@ -16,7 +17,7 @@ export const SLICE_POOL: WorkerPoolOptions = {
   // our choice: far beyond the seconds bench:estimate measures for a million facets
   timeoutMs: 300_000,
   nice: 5,
-  tasks: new URL('./slice-worker.ts', import.meta.url).href,
+  tasks: workerModuleUrl('./slice-worker', import.meta.url),
 };
 /** Profiles kept, newest last (our choice: a few recipes of a few parts). */
 const CACHE_SIZE = 32;

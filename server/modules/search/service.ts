@@ -10,6 +10,7 @@ import type { SearchResponse } from '@shared/api/search';
 import type { SearchQuery } from '@shared/schemas/search';
 import { SEARCH_LIMITS } from '@shared/search/query';
 import { AppError } from '../../errors';
+import { workerBootSource, workerModuleUrl } from '../../worker-module';
 import { PUBLIC_ONLY, type CrewVisibility, type Ranks } from './searcher';
 import { packRanks, type DbSettings, type SearchWorkerData, type WorkerReply, type WorkerRequest } from './search-protocol';
 
@@ -35,9 +36,7 @@ export interface SearchServiceDeps {
 /** Default poll of the change log: a change made elsewhere is in this instance's index within poll + rebuild delay + one build. */
 export const CHANGE_POLL_MS = 1000;
 
-const WORKER_URL = new URL('./search-worker.ts', import.meta.url).href;
-// Same start as the photo worker: load the TypeScript worker through tsx (works under tsx and vitest).
-const BOOT = `import('tsx/esm/api').then(({ register }) => { register(); return import(${JSON.stringify(WORKER_URL)}); })`;
+const BOOT = workerBootSource(workerModuleUrl('./search-worker', import.meta.url));
 
 type Ready = Extract<WorkerReply, { type: 'ready' }>;
 type Answer = Extract<WorkerReply, { type: 'answer' }>;
