@@ -66,7 +66,7 @@ export default defineConfig(
       'no-restricted-syntax': [
         'error',
         {
-          selector: "CallExpression[callee.name=/^(it|test)$/] > Literal.arguments:first-child:not([value=/^(?:(?! · ).)+ · (?:(?! · ).)+ · (?:(?! · ).)+$/])",
+          selector: 'CallExpression[callee.name=/^(it|test)$/] > Literal.arguments:first-child:not([value=/^(?:(?! · ).)+ · (?:(?! · ).)+ · (?:(?! · ).)+$/])',
           message: 'Name the test "unit · scenario · expectation".',
         },
       ],

@@ -91,7 +91,10 @@ export function createApp({ config, sequelize, mailer }: AppContext) {
   app.use('/api/health', healthRoutes(sequelize, { check: database.check }));
   app.use('/api', database.gate());
   // raw bytes for the signature check, no session or CSRF: the payments service calls it
-  app.use('/api/payments/webhook', paymentWebhookRoutes(() => printRequests));
+  app.use(
+    '/api/payments/webhook',
+    paymentWebhookRoutes(() => printRequests),
+  );
   app.use(express.json({ limit: '1mb' }));
 
   const SequelizeStore = connectSessionSequelize(session.Store);

@@ -5,9 +5,7 @@ import { resolve } from 'node:path';
 import { z } from 'zod';
 import { root } from './root';
 
-const flag = z
-  .enum(['0', '1', 'true', 'false', 'yes', 'no'])
-  .transform((v) => v === '1' || v === 'true' || v === 'yes');
+const flag = z.enum(['0', '1', 'true', 'false', 'yes', 'no']).transform((v) => v === '1' || v === 'true' || v === 'yes');
 
 const schema = z
   .object({
@@ -26,22 +24,29 @@ const schema = z
       .optional()
       .transform((v, ctx) => {
         if (v === undefined || v.trim() === '') return undefined;
-        const hosts = v.split(',').map((h) => h.trim()).filter(Boolean).map((h) => {
-          const m = /^(\[[^\]]+\]|[^:\s]+):(\d{1,5})$/.exec(h);
-          const port = m ? Number(m[2]) : 0;
-          if (!m || port < 1 || port > 65535) {
-            ctx.addIssue({ code: 'custom', message: `"${h}" is not host:port (e.g. 10.0.0.5:3306)` });
-            return { host: '', port: 0 };
-          }
-          return { host: m[1].replace(/^\[|\]$/g, ''), port };
-        });
+        const hosts = v
+          .split(',')
+          .map((h) => h.trim())
+          .filter(Boolean)
+          .map((h) => {
+            const m = /^(\[[^\]]+\]|[^:\s]+):(\d{1,5})$/.exec(h);
+            const port = m ? Number(m[2]) : 0;
+            if (!m || port < 1 || port > 65535) {
+              ctx.addIssue({ code: 'custom', message: `"${h}" is not host:port (e.g. 10.0.0.5:3306)` });
+              return { host: '', port: 0 };
+            }
+            return { host: m[1].replace(/^\[|\]$/g, ''), port };
+          });
         return hosts;
       }),
     /** This instance's name in job claims and leases (default hostname:pid); unique per running instance. */
     INSTANCE_ID: z.string().min(1).max(100).default(`${hostname()}:${process.pid}`),
     /** How long a claimed background job stays with its instance without a heartbeat before another takes it over. */
     JOB_LEASE_S: z.coerce.number().int().min(2).max(3600).default(30),
-    DB_NAME: z.string().regex(/^[A-Za-z0-9_]+$/, 'letters, digits and _ only').default('rigshelf'),
+    DB_NAME: z
+      .string()
+      .regex(/^[A-Za-z0-9_]+$/, 'letters, digits and _ only')
+      .default('rigshelf'),
     DB_USER: z.string().default('rigshelf'),
     DB_PASSWORD: z.string().min(1, 'DB_PASSWORD is required'),
     DB_POOL_MAX: z.coerce.number().int().min(1).default(10),
@@ -58,9 +63,15 @@ const schema = z
     LOOP_LAG_LOG_S: z.coerce.number().positive().optional(),
     SESSION_SECRET: z.string().min(16, 'SESSION_SECRET must be at least 16 characters'),
     /** A session ends after this long without use (each request moves it on)… */
-    SESSION_MAX_AGE_HOURS: z.coerce.number().positive().default(24 * 14),
+    SESSION_MAX_AGE_HOURS: z.coerce
+      .number()
+      .positive()
+      .default(24 * 14),
     /** …and this long after sign-in, however busy it is. */
-    SESSION_ABSOLUTE_HOURS: z.coerce.number().positive().default(24 * 30),
+    SESSION_ABSOLUTE_HOURS: z.coerce
+      .number()
+      .positive()
+      .default(24 * 30),
     TRUST_PROXY: flag.optional(),
     UPLOADS_DIR: z.string().default(resolve(root, 'uploads')),
     /** Where uploaded files are kept: `local` (UPLOADS_DIR) or `s3` (an S3-compatible bucket; UPLOADS_DIR keeps only uploads in progress). */

@@ -41,7 +41,8 @@ export interface FitPart {
   keyDimensions: readonly FitSize[];
 }
 
-export type FitReasonKind = 'body-listed' | 'body-agnostic' | 'body-other' | 'body-unknown' | 'mounts-shared' | 'mounts-none-shared' | 'mounts-unknown' | 'size-within' | 'size-clash';
+export type FitReasonKind =
+  'body-listed' | 'body-agnostic' | 'body-other' | 'body-unknown' | 'mounts-shared' | 'mounts-none-shared' | 'mounts-unknown' | 'size-within' | 'size-clash';
 
 export interface FitReason {
   kind: FitReasonKind;
@@ -74,12 +75,26 @@ const plainName = (name: string) => name.trim().replace(/\s+/g, ' ').toLowerCase
 
 // Words that say which measure of a thing a size is; a bore and a diameter measure the same way.
 const MEASURES: Record<string, string> = {
-  bore: 'diameter', diameter: 'diameter', dia: 'diameter', od: 'diameter', id: 'diameter',
-  width: 'width', wide: 'width', height: 'height', tall: 'height', depth: 'depth', length: 'length', long: 'length', thickness: 'thickness', thick: 'thickness',
+  bore: 'diameter',
+  diameter: 'diameter',
+  dia: 'diameter',
+  od: 'diameter',
+  id: 'diameter',
+  width: 'width',
+  wide: 'width',
+  height: 'height',
+  tall: 'height',
+  depth: 'depth',
+  length: 'length',
+  long: 'length',
+  thickness: 'thickness',
+  thick: 'thickness',
 };
 
 function nameParts(name: string) {
-  const words = plainName(name).split(/[^a-z0-9]+/).filter(Boolean);
+  const words = plainName(name)
+    .split(/[^a-z0-9]+/)
+    .filter(Boolean);
   const subject = new Set(words.filter((w) => !(w in MEASURES)).map((w) => w.replace(/s$/, '')));
   const measure = new Set(words.filter((w) => w in MEASURES).map((w) => MEASURES[w]));
   return { subject, measure };
@@ -123,7 +138,11 @@ export function fitPartToBuild(part: FitPart, build: FitBuild, labels: FitLabels
   const shared = part.mounts.filter((m, i) => build.mounts.includes(m) && part.mounts.indexOf(m) === i);
   if (shared.length) reasons.push({ kind: 'mounts-shared', weight: 1, text: `Shares ${shared.map(mountName).join(', ')}` });
   else if (part.mounts.length && build.mounts.length) {
-    reasons.push({ kind: 'mounts-none-shared', weight: -1, text: `Needs ${[...new Set(part.mounts)].map(mountName).join(' or ')}, which the build does not have` });
+    reasons.push({
+      kind: 'mounts-none-shared',
+      weight: -1,
+      text: `Needs ${[...new Set(part.mounts)].map(mountName).join(' or ')}, which the build does not have`,
+    });
   } else reasons.push({ kind: 'mounts-unknown', weight: 0, text: part.mounts.length ? 'The build lists no mounts' : 'The part lists no mounts' });
 
   for (const size of build.keySizes) {

@@ -23,15 +23,50 @@ export interface MountStandard {
 }
 
 export const MOUNT_STANDARDS = [
-  { slug: 'screw-1-4-20', label: '1/4-20 UNC screw', standard: 'ISO 1222 (thread per ASME B1.1)', aliases: ['1/4-20', '1/4"', '1/4 inch', 'quarter inch', 'quarter-inch', 'tripod screw'] },
+  {
+    slug: 'screw-1-4-20',
+    label: '1/4-20 UNC screw',
+    standard: 'ISO 1222 (thread per ASME B1.1)',
+    aliases: ['1/4-20', '1/4"', '1/4 inch', 'quarter inch', 'quarter-inch', 'tripod screw'],
+  },
   { slug: 'screw-3-8-16', label: '3/8-16 UNC screw', standard: 'ISO 1222 (thread per ASME B1.1)', aliases: ['3/8-16', '3/8"', '3/8 inch', 'three-eighths'] },
   { slug: 'accessory-shoe', label: 'Accessory shoe', standard: 'ISO 518', aliases: ['cold shoe', 'coldshoe', 'hot shoe', 'shoe mount'] },
-  { slug: 'rods-15-60', label: '15 mm rods at 60 mm', standard: 'Lightweight rod convention: 15 mm rods, 60 mm centres', aliases: ['15mm rods', '15 mm', 'lightweight rods', 'LWS', 'lightweight support'] },
-  { slug: 'rods-15-100', label: '15 mm studio rods at 100 mm', standard: 'Studio rod convention: 15 mm rods, 100 mm centres', aliases: ['15mm studio', 'studio rods 15'] },
-  { slug: 'rods-19-104', label: '19 mm rods at 104 mm', standard: 'Studio rod convention: 19 mm rods, 104 mm centres', aliases: ['19mm rods', '19 mm', 'studio rods'] },
-  { slug: 'rail-1913', label: 'MIL-STD-1913 / NATO accessory rail', standard: 'MIL-STD-1913; STANAG 4694', aliases: ['picatinny', 'NATO rail', '1913 rail', 'accessory rail'] },
-  { slug: 'dovetail-38', label: '38 mm dovetail clamp', standard: 'Common 38 mm (1.5 in) V-groove dovetail', aliases: ['dovetail', '38mm plate', 'quick release plate'] },
-  { slug: 'battery-v-style', label: 'V-style battery plate', standard: 'V-style battery plate convention', aliases: ['v-mount', 'v mount', 'v plate', 'v-style'] },
+  {
+    slug: 'rods-15-60',
+    label: '15 mm rods at 60 mm',
+    standard: 'Lightweight rod convention: 15 mm rods, 60 mm centres',
+    aliases: ['15mm rods', '15 mm', 'lightweight rods', 'LWS', 'lightweight support'],
+  },
+  {
+    slug: 'rods-15-100',
+    label: '15 mm studio rods at 100 mm',
+    standard: 'Studio rod convention: 15 mm rods, 100 mm centres',
+    aliases: ['15mm studio', 'studio rods 15'],
+  },
+  {
+    slug: 'rods-19-104',
+    label: '19 mm rods at 104 mm',
+    standard: 'Studio rod convention: 19 mm rods, 104 mm centres',
+    aliases: ['19mm rods', '19 mm', 'studio rods'],
+  },
+  {
+    slug: 'rail-1913',
+    label: 'MIL-STD-1913 / NATO accessory rail',
+    standard: 'MIL-STD-1913; STANAG 4694',
+    aliases: ['picatinny', 'NATO rail', '1913 rail', 'accessory rail'],
+  },
+  {
+    slug: 'dovetail-38',
+    label: '38 mm dovetail clamp',
+    standard: 'Common 38 mm (1.5 in) V-groove dovetail',
+    aliases: ['dovetail', '38mm plate', 'quick release plate'],
+  },
+  {
+    slug: 'battery-v-style',
+    label: 'V-style battery plate',
+    standard: 'V-style battery plate convention',
+    aliases: ['v-mount', 'v mount', 'v plate', 'v-style'],
+  },
   { slug: 'battery-3-stud', label: '3-stud battery plate', standard: '3-stud battery plate convention', aliases: ['3 stud', 'three stud', '3-stud'] },
   // Not 32 DP: 32 diametral pitch is module 25.4 / 32 = 0.79375, close to 0.8 but not equal, so
   // "32 pitch" is not an alias of this gear (see moduleOfDiametralPitch in units.ts).

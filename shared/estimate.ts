@@ -142,7 +142,10 @@ function pathTimeS(total: number, moves: number, speed: number, accel: number): 
 }
 
 /** The quick estimate's layers: a prism of the mean cross-section, with solid skins at its top and bottom. */
-export function prismProfile(geometry: PartGeometry, settings: Pick<PrintSettings, 'layerMm' | 'walls' | 'topBottomLayers'> & { lineWidthMm: number }): SliceProfile {
+export function prismProfile(
+  geometry: PartGeometry,
+  settings: Pick<PrintSettings, 'layerMm' | 'walls' | 'topBottomLayers'> & { lineWidthMm: number },
+): SliceProfile {
   const height = geometry.sizeMm[2];
   if (!(height > 0) || !(geometry.volumeMm3 > 0)) return { layers: [], layerMm: settings.layerMm, heightMm: 0, openLoops: 0 };
   const n = layerCount(height, settings.layerMm);
@@ -217,7 +220,10 @@ function fromProfile(profile: SliceProfile, settings: PrintSettings, method: Pri
   const share = settings.infillPct / 100;
   const t = profile.layerMm;
 
-  let walls = 0, skins = 0, infill = 0, seconds = 0;
+  let walls = 0,
+    skins = 0,
+    infill = 0,
+    seconds = 0;
   for (const layer of profile.layers) {
     walls += layer.wallArea * t;
     skins += layer.skinArea * t;
@@ -423,7 +429,8 @@ export function fitOnBed(partSizeMm: Size3, fullBedMm: Size3, options: BedFitOpt
   const marginMm = options.marginMm ?? DEFAULT_BED_MARGIN_MM;
   [...partSizeMm, ...fullBedMm, marginMm].forEach((side) => requireAtLeast('Each size', side, 0));
   const bedMm: Size3 = [Math.max(0, fullBedMm[0] - 2 * marginMm), Math.max(0, fullBedMm[1] - 2 * marginMm), fullBedMm[2]];
-  const bedText = marginMm > 0 ? `${formatMm(fullBedMm)} bed (keeping ${round(marginMm, 1)} mm round the edge for a brim or skirt)` : `${formatMm(fullBedMm)} bed`;
+  const bedText =
+    marginMm > 0 ? `${formatMm(fullBedMm)} bed (keeping ${round(marginMm, 1)} mm round the edge for a brim or skirt)` : `${formatMm(fullBedMm)} bed`;
   const pose = statedPose(options.orientationNote);
   if (pose) return fitAsStated(partSizeMm, bedMm, bedText, pose, options.orientationNote!.trim());
   return fitAnyWay(partSizeMm, bedMm, bedText);
@@ -434,7 +441,10 @@ function fitAsStated(part: Size3, bedMm: Size3, bedText: string, pose: StatedPos
   const words = note.length > 80 ? `${note.slice(0, 77)}…` : note;
   const up = verticalAxisFor(pose, part);
   const [i, j] = ([0, 1, 2] as const).filter((axis) => axis !== up);
-  for (const placed of [[part[i], part[j], part[up]], [part[j], part[i], part[up]]] as [number, number, number][]) {
+  for (const placed of [
+    [part[i], part[j], part[up]],
+    [part[j], part[i], part[up]],
+  ] as [number, number, number][]) {
     if (!fitsAligned(placed, bedMm)) continue;
     const asModelled = placed.every((side, axis) => side === part[axis]);
     return {
@@ -446,15 +456,22 @@ function fitAsStated(part: Size3, bedMm: Size3, bedText: string, pose: StatedPos
   }
   const diagonal = diagonalFit(part, bedMm, [up]);
   if (diagonal) {
-    return { ...diagonal, message: `Laid as the recipe says (“${words}”), it ${diagonal.message.charAt(0).toLowerCase()}${diagonal.message.slice(1)}`, recipe: { words, followed: true } };
+    return {
+      ...diagonal,
+      message: `Laid as the recipe says (“${words}”), it ${diagonal.message.charAt(0).toLowerCase()}${diagonal.message.slice(1)}`,
+      recipe: { words, followed: true },
+    };
   }
   const other = fitAnyWay(part, bedMm, bedText);
   const needs = `Laid as the recipe says (“${words}”), it needs ${formatMm([part[i], part[j]])} of bed and ${round(part[up], 1)} mm of height`;
-  if (other.fits === 'no') return { ...other, message: `${needs}; ${other.message.charAt(0).toLowerCase()}${other.message.slice(1)}`, recipe: { words, followed: false } };
+  if (other.fits === 'no')
+    return { ...other, message: `${needs}; ${other.message.charAt(0).toLowerCase()}${other.message.slice(1)}`, recipe: { words, followed: false } };
   const how =
     other.fits === 'as-is'
       ? `as modelled, ${formatMm(part)} (x × y × z)`
-      : other.fits === 'rotated' ? `turned to ${formatMm(other.orientation!)} (x × y × z)` : other.message.replace(/^Fits only diagonally: /, 'diagonally: ').replace(/\.$/, '');
+      : other.fits === 'rotated'
+        ? `turned to ${formatMm(other.orientation!)} (x × y × z)`
+        : other.message.replace(/^Fits only diagonally: /, 'diagonally: ').replace(/\.$/, '');
   return {
     ...other,
     message: `${needs}, more than this bed has. Here it must lie another way than the recipe says: ${how}. Check that the layer lines still suit the load before printing it so.`,

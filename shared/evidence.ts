@@ -23,7 +23,11 @@ export interface ReportFacts {
 
 /** "The Salt Road", "the salt road " and "THE SALT-ROAD" are one production. */
 export function productionKey(production: string | null | undefined): string {
-  return (production ?? '').normalize('NFKC').toLowerCase().replace(/[^\p{L}\p{N}]+/gu, ' ').trim();
+  return (production ?? '')
+    .normalize('NFKC')
+    .toLowerCase()
+    .replace(/[^\p{L}\p{N}]+/gu, ' ')
+    .trim();
 }
 
 const time = (r: ReportFacts) => (r.createdAt === undefined ? 0 : new Date(r.createdAt).getTime());

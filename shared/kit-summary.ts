@@ -36,7 +36,6 @@ export const DEFAULT_PRINT_HOURS_PER_DAY = 8;
 /** The usual spool of filament (common practice). */
 export const SPOOL_G = 1000;
 
-
 /** Days of printing for `hours` at `hoursPerDay`, rounded up to whole days. */
 export function printingDays(hours: number, hoursPerDay: number): number {
   if (!Number.isFinite(hours) || hours < 0) throw new RangeError('Hours must be a number ≥ 0.');
@@ -231,7 +230,9 @@ function summariseItem(item: KitPlanItem, plan: KitPlan): KitItemSummary {
     notes.push('No analysed model file: this item is left out of the totals.');
   }
   if (item.printer && Math.abs(item.printer.nozzleMm - item.settings.nozzleMm) > 1e-6) {
-    notes.push(`The recipe is for a ${item.settings.nozzleMm} mm nozzle; ${item.printer.name} has ${item.printer.nozzleMm} mm. Change one or expect other figures.`);
+    notes.push(
+      `The recipe is for a ${item.settings.nozzleMm} mm nozzle; ${item.printer.name} has ${item.printer.nozzleMm} mm. Change one or expect other figures.`,
+    );
   }
   const bought = item.boughtPriceEach !== null ? { each: item.boughtPriceEach, total: item.boughtPriceEach * item.quantity } : null;
   const printService =
@@ -250,7 +251,10 @@ function summariseItem(item: KitPlanItem, plan: KitPlan): KitItemSummary {
     printer: item.printer ? { id: item.printer.id, name: item.printer.name } : null,
     each,
     total,
-    fit: item.printer && item.geometry ? fitOnBed(item.geometry.sizeMm, item.printer.bedMm, { marginMm: item.printer.bedMarginMm, orientationNote: item.orientationNote }) : null,
+    fit:
+      item.printer && item.geometry
+        ? fitOnBed(item.geometry.sizeMm, item.printer.bedMm, { marginMm: item.printer.bedMarginMm, orientationNote: item.orientationNote })
+        : null,
     heat: plan.heatExposure ? heatCheck(material, plan.heatExposure) : null,
     cautions: safetyCautions(item.safety, item.testedLoadKg),
     evidenceWarnings: item.evidenceWarnings.map((w) => ({ material: w.material, text: w.text, matchesMaterial: w.material === material })),
@@ -341,7 +345,7 @@ export function summariseKit(plan: KitPlan): KitSummary {
     'Each item is estimated for one piece from its model file and recipe, then multiplied by the quantity: from the model cut into layers at the recipe’s layer height, or, where it could not be sliced, from its volume, area and size alone (the quick estimate).',
     `Filament at the kit owner's price per kg for each material; spools of ${SPOOL_G / 1000} kg, rounded up per material.`,
     plan.pricePerKwh === null
-      ? "Electricity not included: the kit owner has no price per kWh."
+      ? 'Electricity not included: the kit owner has no price per kWh.'
       : `Electricity at ${plan.pricePerKwh} per kWh for items on a printer with known watts.`,
     `Days of printing at ${plan.printHoursPerDay} h a day, printers side by side: the busiest printer sets the days (items without a printer count as one more printer).`,
     'Buy or print compares only items with that price; the payback uses, item by item, the cheaper of buying and a print service.',

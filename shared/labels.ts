@@ -17,7 +17,16 @@ export interface LabelSheet {
   description: string;
 }
 
-function sheet(paper: LabelPaper, pageSize: LabelSheet['pageSize'], pageMm: [number, number], labelMm: [number, number], columns: number, rows: number, gapMm: [number, number], description: string): LabelSheet {
+function sheet(
+  paper: LabelPaper,
+  pageSize: LabelSheet['pageSize'],
+  pageMm: [number, number],
+  labelMm: [number, number],
+  columns: number,
+  rows: number,
+  gapMm: [number, number],
+  description: string,
+): LabelSheet {
   return { paper, pageSize, pageMm, labelMm, columns, rows, gapMm, description };
 }
 
@@ -57,7 +66,15 @@ export function labelPages(items: readonly LabelItem[], s: LabelSheet): Label[][
   const labels: Label[] = [];
   items.forEach((item, i) => {
     for (let n = 1; n <= item.quantity; n++) {
-      labels.push({ key: `${i}-${n}`, partSlug: item.partSlug, partTitle: item.partTitle, material: item.material, recipeId: item.recipeId, copy: n, of: item.quantity });
+      labels.push({
+        key: `${i}-${n}`,
+        partSlug: item.partSlug,
+        partTitle: item.partTitle,
+        material: item.material,
+        recipeId: item.recipeId,
+        copy: n,
+        of: item.quantity,
+      });
     }
   });
   const perPage = s.columns * s.rows;

@@ -34,11 +34,7 @@ export const LICENCE_IDS = [
 export type LicenceId = (typeof LICENCE_IDS)[number];
 
 /** How an adaptation's licence is constrained by the parent's. */
-export type AdaptationPolicy =
-  | { kind: 'not-shareable' }
-  | { kind: 'only'; childIds: readonly LicenceId[] }
-  | { kind: 'keep-conditions' }
-  | { kind: 'any' };
+export type AdaptationPolicy = { kind: 'not-shareable' } | { kind: 'only'; childIds: readonly LicenceId[] } | { kind: 'keep-conditions' } | { kind: 'any' };
 
 export interface LicenceInfo {
   id: LicenceId;

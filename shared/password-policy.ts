@@ -19,7 +19,8 @@ const SERVICE_WORDS = ['rigshelf'];
 export const PASSWORD_MESSAGES = {
   short: `Use at least ${PASSWORD_MIN} characters. A short phrase of a few unrelated words works well.`,
   long: `Use at most ${PASSWORD_MAX} characters.`,
-  repetitive: 'That password is mostly repeated or consecutive characters (like "aaaa" or "1234"), which are guessed first. Choose another; a few unrelated words work well.',
+  repetitive:
+    'That password is mostly repeated or consecutive characters (like "aaaa" or "1234"), which are guessed first. Choose another; a few unrelated words work well.',
   personal: 'Do not use your e-mail address, its name part or the name of the shelf in your password. Choose another.',
   common: 'That password is on a list of common passwords that attackers try first. Choose another; a few unrelated words work well.',
 } as const;
@@ -45,7 +46,10 @@ function letters(s: string): string {
 
 /** The password without leading and trailing digits and symbols ("Sunshine!2024" → "sunshine"). */
 export function passwordCore(password: string): string {
-  return password.toLowerCase().trim().replace(/^[^\p{L}]+|[^\p{L}]+$/gu, '');
+  return password
+    .toLowerCase()
+    .trim()
+    .replace(/^[^\p{L}]+|[^\p{L}]+$/gu, '');
 }
 
 /** Why a password is refused by the shared rules, or null when they accept it. */

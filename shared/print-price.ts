@@ -122,7 +122,12 @@ export function computePrintPrice(figures: PrintFigures, terms: PriceSheetTerms,
     if (pricePerKg === undefined) throw new RangeError(`There is no price per kg for ${material}.`);
     // decigrams × 10⁻⁴ = kilograms
     const filament = multiply(priceAmount(pricePerKg, code), { amount: decigrams, scale: 4 });
-    lines.push({ kind: 'filament', label: `Filament (${material})`, basis: `${(decigrams / 10).toFixed(1)} g at ${pricePerKg} ${code}/kg`, amountMinor: minorOf(filament) });
+    lines.push({
+      kind: 'filament',
+      label: `Filament (${material})`,
+      basis: `${(decigrams / 10).toFixed(1)} g at ${pricePerKg} ${code}/kg`,
+      amountMinor: minorOf(filament),
+    });
   }
 
   let wattHours: number | null = null;
@@ -130,20 +135,37 @@ export function computePrintPrice(figures: PrintFigures, terms: PriceSheetTerms,
     wattHours = Math.round((figures.watts * figures.minutes) / 60);
     // watt-hours × 10⁻³ = kilowatt-hours
     const energy = multiply(priceAmount(terms.pricePerKwh, code), { amount: wattHours, scale: 3 });
-    lines.push({ kind: 'energy', label: 'Electricity', basis: `${(wattHours / 1000).toFixed(3)} kWh (${figures.watts} W × ${(centiHours / 100).toFixed(2)} h) at ${terms.pricePerKwh} ${code}/kWh`, amountMinor: minorOf(energy) });
+    lines.push({
+      kind: 'energy',
+      label: 'Electricity',
+      basis: `${(wattHours / 1000).toFixed(3)} kWh (${figures.watts} W × ${(centiHours / 100).toFixed(2)} h) at ${terms.pricePerKwh} ${code}/kWh`,
+      amountMinor: minorOf(energy),
+    });
   } else {
-    notes.push(figures.watts === null ? 'The printer’s power is not set, so electricity is not charged.' : 'The owner has no price per kWh, so electricity is not charged.');
+    notes.push(
+      figures.watts === null
+        ? 'The printer’s power is not set, so electricity is not charged.'
+        : 'The owner has no price per kWh, so electricity is not charged.',
+    );
   }
 
   if (terms.machineHourRate !== null && terms.machineHourRate > 0) {
     const machine = multiply(priceAmount(terms.machineHourRate, code), { amount: centiHours, scale: 2 });
-    lines.push({ kind: 'machine', label: 'Machine time', basis: `${(centiHours / 100).toFixed(2)} h at ${terms.machineHourRate} ${code}/h`, amountMinor: minorOf(machine) });
+    lines.push({
+      kind: 'machine',
+      label: 'Machine time',
+      basis: `${(centiHours / 100).toFixed(2)} h at ${terms.machineHourRate} ${code}/h`,
+      amountMinor: minorOf(machine),
+    });
   }
 
   return {
     currency: code,
     lines,
-    totalMinor: sumMinor(lines.map((l) => l.amountMinor), code),
+    totalMinor: sumMinor(
+      lines.map((l) => l.amountMinor),
+      code,
+    ),
     figures: { grams: totalDecigrams / 10, hours: centiHours / 100, wattHours },
     notes,
   };

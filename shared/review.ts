@@ -50,7 +50,11 @@ export function allowedActions(from: ReviewState): ReviewAction[] {
 export const NOTE_REQUIRED: ReadonlySet<ReviewAction> = new Set(['send-back', 'reject', 'retire']);
 
 export const REVIEW_CHECKLIST = [
-  { key: 'files', label: 'Model files analyse cleanly', hint: 'watertight, no facets wound backwards, no shell inside out, one shell unless the part is meant to be several' },
+  {
+    key: 'files',
+    label: 'Model files analyse cleanly',
+    hint: 'watertight, no facets wound backwards, no shell inside out, one shell unless the part is meant to be several',
+  },
   { key: 'photos', label: 'Photos show a real print', hint: 'not a render; the part as printed, ideally on the rig' },
   { key: 'recipe', label: 'A set-ready recipe is complete', hint: 'material, nozzle, layers, walls, infill and temperatures that make sense together' },
   { key: 'fit', label: 'Compatibility and key dimensions are plausible', hint: 'against the measured size: a 15 mm rod bore cannot sit in a 10 mm part' },

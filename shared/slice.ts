@@ -74,7 +74,8 @@ export type LayerPaths = Paths64[];
 export function sliceLoops(positions: ArrayLike<number>, layerMm: number): { layers: LayerPaths; layerMm: number; heightMm: number; openLoops: number } {
   if (!(layerMm > 0)) throw new RangeError('Layer height must be a number > 0.');
   const facets = Math.floor(positions.length / 9);
-  let zMin = Infinity, zMax = -Infinity;
+  let zMin = Infinity,
+    zMax = -Infinity;
   for (let i = 2; i < facets * 9; i += 3) {
     const z = positions[i];
     if (z < zMin) zMin = z;
@@ -95,7 +96,9 @@ export function sliceLoops(positions: ArrayLike<number>, layerMm: number): { lay
   const counts = new Int32Array(n + 1);
   for (let f = 0; f < facets; f++) {
     const o = f * 9;
-    const za = positions[o + 2], zb = positions[o + 5], zc = positions[o + 8];
+    const za = positions[o + 2],
+      zb = positions[o + 5],
+      zc = positions[o + 8];
     const [from, to] = range(Math.min(za, zb, zc), Math.max(za, zb, zc));
     for (let i = from; i < to; i++) counts[i]++;
   }
@@ -103,21 +106,29 @@ export function sliceLoops(positions: ArrayLike<number>, layerMm: number): { lay
   for (let i = 0; i < n; i++) starts[i + 1] = starts[i] + counts[i];
   const total = starts[n];
   const fill = starts.slice(0, n);
-  const sx = new Int32Array(total), sy = new Int32Array(total), ex = new Int32Array(total), ey = new Int32Array(total);
+  const sx = new Int32Array(total),
+    sy = new Int32Array(total),
+    ex = new Int32Array(total),
+    ey = new Int32Array(total);
 
   // Pass 2: the segment of each facet in each layer it crosses.
-  const px = [0, 0], py = [0, 0];
+  const px = [0, 0],
+    py = [0, 0];
   for (let f = 0; f < facets; f++) {
     const o = f * 9;
-    const za = positions[o + 2], zb = positions[o + 5], zc = positions[o + 8];
+    const za = positions[o + 2],
+      zb = positions[o + 5],
+      zc = positions[o + 8];
     const [from, to] = range(Math.min(za, zb, zc), Math.max(za, zb, zc));
     for (let i = from; i < to; i++) {
       const z = planeOf(i);
       let k = 0;
       for (let e = 0; e < 3 && k < 2; e++) {
-        const p = o + e * 3, q = o + ((e + 1) % 3) * 3;
-        const zp = positions[p + 2], zq = positions[q + 2];
-        if ((zp >= z) === (zq >= z)) continue;
+        const p = o + e * 3,
+          q = o + ((e + 1) % 3) * 3;
+        const zp = positions[p + 2],
+          zq = positions[q + 2];
+        if (zp >= z === zq >= z) continue;
         const [lo, hi] = zp < zq ? [p, q] : [q, p];
         const s = (z - positions[lo + 2]) / (positions[hi + 2] - positions[lo + 2]);
         px[k] = Math.round((positions[lo] + s * (positions[hi] - positions[lo])) * UNITS_PER_MM);
@@ -141,7 +152,8 @@ export function sliceLoops(positions: ArrayLike<number>, layerMm: number): { lay
   let partner = new Int32Array(1024);
   let visited = new Uint8Array(512);
   for (let i = 0; i < n; i++) {
-    const first = starts[i], count = fill[i] - first;
+    const first = starts[i],
+      count = fill[i] - first;
     const capacity = nextPowerOfTwo(Math.max(16, count * 4));
     if (table.length < capacity) table = new Int32Array(capacity);
     if (partner.length < count * 2) partner = new Int32Array(count * 2);
@@ -153,7 +165,8 @@ export function sliceLoops(positions: ArrayLike<number>, layerMm: number): { lay
     const xOf = (end: number) => ((end & 1) === 0 ? sx : ex)[first + (end >> 1)];
     const yOf = (end: number) => ((end & 1) === 0 ? sy : ey)[first + (end >> 1)];
     for (let end = 0; end < count * 2; end++) {
-      const x = xOf(end), y = yOf(end);
+      const x = xOf(end),
+        y = yOf(end);
       let slot = hash2(x, y) & mask;
       for (;;) {
         const other = table[slot];
@@ -162,7 +175,7 @@ export function sliceLoops(positions: ArrayLike<number>, layerMm: number): { lay
           break;
         }
         if (xOf(other) === x && yOf(other) === y) {
-          if (partner[other] < 0 && (other >> 1) !== (end >> 1)) {
+          if (partner[other] < 0 && other >> 1 !== end >> 1) {
             partner[other] = end;
             partner[end] = other;
           } else {
@@ -193,7 +206,8 @@ export function sliceLoops(positions: ArrayLike<number>, layerMm: number): { lay
         visited[seg] = 1;
         end = next ^ 1;
       }
-      if (closed) path.pop(); // the last point repeats the first
+      if (closed)
+        path.pop(); // the last point repeats the first
       else openLoops++;
       if (path.length >= 3) loops.push(path);
     }
@@ -229,8 +243,13 @@ function corners(paths: Paths64): number {
   for (const path of paths) {
     const m = path.length;
     for (let i = 0; i < m; i++) {
-      const a = path[(i + m - 1) % m], b = path[i], c = path[(i + 1) % m];
-      const ux = b.x - a.x, uy = b.y - a.y, vx = c.x - b.x, vy = c.y - b.y;
+      const a = path[(i + m - 1) % m],
+        b = path[i],
+        c = path[(i + 1) % m];
+      const ux = b.x - a.x,
+        uy = b.y - a.y,
+        vx = c.x - b.x,
+        vy = c.y - b.y;
       const turn = Math.abs(Math.atan2(ux * vy - uy * vx, ux * vx + uy * vy));
       if (turn > CORNER_TURN_RAD) count++;
     }
@@ -241,7 +260,8 @@ function corners(paths: Paths64): number {
 function samePaths(a: Paths64, b: Paths64): boolean {
   if (a.length !== b.length) return false;
   for (let i = 0; i < a.length; i++) {
-    const p = a[i], q = b[i];
+    const p = a[i],
+      q = b[i];
     if (p.length !== q.length) return false;
     for (let k = 0; k < p.length; k++) if (p[k].x !== q[k].x || p[k].y !== q[k].y) return false;
   }

@@ -71,11 +71,32 @@ export function buildStatement(input: StatementInput): StatementFigures {
     if (caution) cautions.push(caution);
     if (item.grams === null || item.minutes === null) {
       notes.push(`${item.title} has no estimate and is listed without a cost.`);
-      lines.push({ kind: 'item', title: item.title, quantity: item.quantity, material: item.material, grams: null, hours: null, filamentMinor: 0, energyMinor: 0, machineMinor: 0, amountMinor: 0, licence: item.licence, caution });
+      lines.push({
+        kind: 'item',
+        title: item.title,
+        quantity: item.quantity,
+        material: item.material,
+        grams: null,
+        hours: null,
+        filamentMinor: 0,
+        energyMinor: 0,
+        machineMinor: 0,
+        amountMinor: 0,
+        licence: item.licence,
+        caution,
+      });
       continue;
     }
-    const price = computePrintPrice({ filament: [{ material: item.material, grams: item.grams }], minutes: item.minutes, watts: item.watts }, input.terms, currency);
-    const of = (kind: string) => sumMinor(price.lines.filter((l) => l.kind === kind).map((l) => l.amountMinor), currency);
+    const price = computePrintPrice(
+      { filament: [{ material: item.material, grams: item.grams }], minutes: item.minutes, watts: item.watts },
+      input.terms,
+      currency,
+    );
+    const of = (kind: string) =>
+      sumMinor(
+        price.lines.filter((l) => l.kind === kind).map((l) => l.amountMinor),
+        currency,
+      );
     lines.push({
       kind: 'item',
       title: item.title,
@@ -93,9 +114,25 @@ export function buildStatement(input: StatementInput): StatementFigures {
   }
   for (const fee of input.fees) {
     const amount = toMinor(fee.amount, currency);
-    lines.push({ kind: 'fee', title: fee.label, quantity: null, material: null, grams: null, hours: null, filamentMinor: 0, energyMinor: 0, machineMinor: 0, amountMinor: amount, licence: null, caution: null });
+    lines.push({
+      kind: 'fee',
+      title: fee.label,
+      quantity: null,
+      material: null,
+      grams: null,
+      hours: null,
+      filamentMinor: 0,
+      energyMinor: 0,
+      machineMinor: 0,
+      amountMinor: amount,
+      licence: null,
+      caution: null,
+    });
   }
-  const subtotalMinor = sumMinor(lines.map((l) => l.amountMinor), currency);
+  const subtotalMinor = sumMinor(
+    lines.map((l) => l.amountMinor),
+    currency,
+  );
   const taxMinor = input.taxRatePct ? percentOf(subtotalMinor, input.taxRatePct, currency) : 0;
   return {
     currency,

@@ -51,7 +51,11 @@ const MIGRATION_LEASE_S = 120;
  * of them gets a deadlock error, which counts as "not taken". The lease is renewed while the work
  * runs and taken over when its holder stops renewing it.
  */
-export async function withSchemaLock<T>(sequelize: Sequelize, work: () => Promise<T>, log: (line: string) => void = (l) => console.log(`rigshelf: ${l}`)): Promise<T> {
+export async function withSchemaLock<T>(
+  sequelize: Sequelize,
+  work: () => Promise<T>,
+  log: (line: string) => void = (l) => console.log(`rigshelf: ${l}`),
+): Promise<T> {
   await sequelize.query(
     'CREATE TABLE IF NOT EXISTS schema_migration_lock (id TINYINT UNSIGNED NOT NULL PRIMARY KEY, holder VARCHAR(100) NULL, lease_until DATETIME(3) NULL)',
   );

@@ -24,7 +24,12 @@ export function createSequelize(config: Config): Sequelize {
     },
     timezone: '+00:00',
     // idle connections leave the pool well before socketTimeout would end them there
-    pool: { max: config.DB_POOL_MAX, min: 0, acquire: 5000, idle: config.DB_QUERY_TIMEOUT_MS > 0 ? Math.min(10_000, Math.max(1000, config.DB_QUERY_TIMEOUT_MS / 2)) : 10_000 },
+    pool: {
+      max: config.DB_POOL_MAX,
+      min: 0,
+      acquire: 5000,
+      idle: config.DB_QUERY_TIMEOUT_MS > 0 ? Math.min(10_000, Math.max(1000, config.DB_QUERY_TIMEOUT_MS / 2)) : 10_000,
+    },
     define: { underscored: true },
   });
   // several servers: each new connection goes to the one in use, or the next that answers

@@ -47,6 +47,8 @@ export function logShelfChanges(watched: WatchedModel[]): void {
       if (when && !when(row, changed)) return;
       return record(model, kind, options.transaction);
     });
-    model.addHook('afterBulkUpdate', 'shelfChanges', (options: HookOptions) => (touches(options.fields) ? record(model, kind, options.transaction) : undefined));
+    model.addHook('afterBulkUpdate', 'shelfChanges', (options: HookOptions) =>
+      touches(options.fields) ? record(model, kind, options.transaction) : undefined,
+    );
   }
 }

@@ -19,7 +19,8 @@ async function demoUser(role: 'member' | 'moderator'): Promise<User> {
 async function shelfPart(title: string, material: string) {
   const revision = await PartRevision.findOne({ where: { title, status: 'published' } });
   const part = revision ? await Part.findByPk(revision.partId) : null;
-  if (!revision || !part || part.publishedRevisionId !== revision.id) throw new Error(`the demo kit seeder needs the published demo part "${title}" (seeder 0003)`);
+  if (!revision || !part || part.publishedRevisionId !== revision.id)
+    throw new Error(`the demo kit seeder needs the published demo part "${title}" (seeder 0003)`);
   const recipe = await Recipe.findOne({ where: { revisionId: revision.id, material } });
   if (!recipe) throw new Error(`the demo part "${title}" has no ${material} recipe`);
   return { part, recipe };
@@ -36,11 +37,29 @@ export const up: SeedFn = async ({ context: { sequelize } }) => {
 
   await transact(sequelize, async (transaction) => {
     const cart = await Printer.create(
-      { ownerId: member.id, name: 'Cart printer', bedXMm: 220, bedYMm: 220, bedZMm: 250, nozzleMm: 0.4, watts: 120, notes: 'Rides on the camera cart; enclosure panels in the blue case.' },
+      {
+        ownerId: member.id,
+        name: 'Cart printer',
+        bedXMm: 220,
+        bedYMm: 220,
+        bedZMm: 250,
+        nozzleMm: 0.4,
+        watts: 120,
+        notes: 'Rides on the camera cart; enclosure panels in the blue case.',
+      },
       { transaction },
     );
     const bigBox = await Printer.create(
-      { ownerId: member.id, name: 'Big box', bedXMm: 300, bedYMm: 300, bedZMm: 300, nozzleMm: 0.4, watts: 350, notes: 'Stays at the unit base; enclosed, for ASA and ABS.' },
+      {
+        ownerId: member.id,
+        name: 'Big box',
+        bedXMm: 300,
+        bedYMm: 300,
+        bedZMm: 300,
+        nozzleMm: 0.4,
+        watts: 350,
+        notes: 'Stays at the unit base; enclosed, for ASA and ABS.',
+      },
       { transaction },
     );
     await PriceSheet.upsert({ userId: member.id, pricesPerKg: { PLA: 21, PETG: 24, ASA: 30 }, pricePerKwh: 0.32 }, { transaction });

@@ -18,11 +18,23 @@ type Report = Omit<SetReportInput, 'conditions'> & { by: Who; conditions?: SetRe
 const EVIDENCE: { slug: string; ratings: [Who, number, string?][]; reports: Report[] }[] = [
   {
     slug: 'receiver-cradle-for-15-mm-rods',
-    ratings: [['moderator', 5, 'Slid on first time, no play.'], [0, 4], [1, 5]],
+    ratings: [
+      ['moderator', 5, 'Slid on first time, no play.'],
+      [0, 4],
+      [1, 5],
+    ],
     reports: [
       { by: 'moderator', production: 'The Salt Road', daysInUse: 18, outcome: 'held-up', material: 'PETG', conditions: ['vehicle'] },
       { by: 0, production: 'Night Ferry', daysInUse: 9, outcome: 'held-up', material: 'PETG', conditions: ['wet'] },
-      { by: 1, production: 'Night Ferry', daysInUse: 9, outcome: 'worn-but-working', material: 'PETG', conditions: ['dust'], notes: 'Thumb screw thread wore; swapped for a metal insert.' },
+      {
+        by: 1,
+        production: 'Night Ferry',
+        daysInUse: 9,
+        outcome: 'worn-but-working',
+        material: 'PETG',
+        conditions: ['dust'],
+        notes: 'Thumb screw thread wore; swapped for a metal insert.',
+      },
       { by: 'admin', production: 'The Salt Road', daysInUse: 12, outcome: 'held-up', material: 'PETG' },
     ],
   },
@@ -39,14 +51,35 @@ const EVIDENCE: { slug: string; ratings: [Who, number, string?][]; reports: Repo
     ratings: [[1, 4]],
     reports: [
       { by: 1, production: 'Night Ferry', daysInUse: 4, outcome: 'held-up', material: 'PETG' },
-      { by: 'moderator', production: 'The Salt Road', daysInUse: 7, outcome: 'cracked', material: 'PETG', conditions: ['impacts'], notes: 'Dropped from the focus puller’s belt onto concrete.' },
+      {
+        by: 'moderator',
+        production: 'The Salt Road',
+        daysInUse: 7,
+        outcome: 'cracked',
+        material: 'PETG',
+        conditions: ['impacts'],
+        notes: 'Dropped from the focus puller’s belt onto concrete.',
+      },
     ],
   },
   {
     slug: 'dashboard-monitor-yoke',
-    ratings: [['member', 5], [0, 4]],
+    ratings: [
+      ['member', 5],
+      [0, 4],
+    ],
     reports: [
-      { by: 0, production: 'Night Ferry', daysInUse: 3, outcome: 'deformed', material: 'PLA', infillPct: 30, walls: 3, conditions: ['heat', 'vehicle'], notes: 'Printed in PLA to save time; sagged on the dash by lunch.' },
+      {
+        by: 0,
+        production: 'Night Ferry',
+        daysInUse: 3,
+        outcome: 'deformed',
+        material: 'PLA',
+        infillPct: 30,
+        walls: 3,
+        conditions: ['heat', 'vehicle'],
+        notes: 'Printed in PLA to save time; sagged on the dash by lunch.',
+      },
       { by: 1, production: 'Night Ferry', daysInUse: 2, outcome: 'deformed', material: 'PLA', infillPct: 40, walls: 4, conditions: ['heat'] },
       { by: 'member', production: 'The Salt Road', daysInUse: 11, outcome: 'held-up', material: 'ASA', conditions: ['heat', 'vehicle'] },
       { by: 'admin', production: 'The Salt Road', daysInUse: 11, outcome: 'held-up', material: 'ASA', conditions: ['heat', 'vehicle'] },
@@ -65,7 +98,13 @@ export const up: SeedFn = async ({ context: { services } }) => {
   const extras = [];
   for (const c of EXTRA_CREW) extras.push((await User.findOrCreate({ where: { email: c.email }, defaults: { ...c, passwordHash } }))[0]);
   const demo = async (role: string) => (await User.findOne({ where: { email: DEMO_ACCOUNTS.find((a) => a.role === role)!.email } }))!;
-  const people: Record<string, User> = { member: await demo('member'), moderator: await demo('moderator'), admin: await demo('admin'), 0: extras[0], 1: extras[1] };
+  const people: Record<string, User> = {
+    member: await demo('member'),
+    moderator: await demo('moderator'),
+    admin: await demo('admin'),
+    0: extras[0],
+    1: extras[1],
+  };
 
   for (const entry of EVIDENCE) {
     const part = await Part.findOne({ where: { slug: entry.slug } });

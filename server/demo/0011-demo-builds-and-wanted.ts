@@ -86,7 +86,13 @@ export const up: SeedFn = async ({ context: { sequelize } }) => {
     );
     if (clip) {
       await WantedAnswer.create(
-        { requestId: cables.id, partId: clip.id, userId: dit.id, note: 'Takes one cable as drawn; two fit if you print the 8 mm variant of the slot.', notifiedAt: new Date() },
+        {
+          requestId: cables.id,
+          partId: clip.id,
+          userId: dit.id,
+          note: 'Takes one cable as drawn; two fit if you print the 8 mm variant of the slot.',
+          notifiedAt: new Date(),
+        },
         { transaction },
       );
     }

@@ -18,7 +18,12 @@ import { demoPhoto } from './demo-photos';
 
 export const DEMO_CREW_NAME = 'Halfmoon Unit camera';
 /** A second demo member, so two members of one crew can work with each other. */
-export const DEMO_SECOND_MEMBER = { email: 'demo-second-ac@rigshelf.test', displayName: 'Ossian Brightwater', role: 'member', crewRole: '2nd AC, Halfmoon Unit' } as const;
+export const DEMO_SECOND_MEMBER = {
+  email: 'demo-second-ac@rigshelf.test',
+  displayName: 'Ossian Brightwater',
+  role: 'member',
+  crewRole: '2nd AC, Halfmoon Unit',
+} as const;
 export const DEMO_CREW_PART_TITLE = 'Halfmoon slate holder for the dolly';
 
 const crewPart: PartSubmission = {
@@ -34,8 +39,19 @@ const crewPart: PartSubmission = {
   licence: 'CC-BY-4.0',
   recipes: [
     {
-      purpose: 'set-ready', material: 'PETG', nozzleMm: 0.4, layerMm: 0.2, walls: 3, topBottomLayers: 4, infillPct: 25,
-      infillPattern: 'gyroid', hotendC: 240, bedC: 80, speedMmS: 60, supports: 'none', orientationNote: 'Slot opening up',
+      purpose: 'set-ready',
+      material: 'PETG',
+      nozzleMm: 0.4,
+      layerMm: 0.2,
+      walls: 3,
+      topBottomLayers: 4,
+      infillPct: 25,
+      infillPattern: 'gyroid',
+      hotendC: 240,
+      bedC: 80,
+      speedMmS: 60,
+      supports: 'none',
+      orientationNote: 'Slot opening up',
     },
   ],
   parentId: null,
@@ -62,10 +78,7 @@ export const up: SeedFn = async ({ context: { sequelize, services } }) => {
   });
 
   const crew = await transact(sequelize, async (transaction) => {
-    const made = await Crew.create(
-      { name: DEMO_CREW_NAME, production: 'The Salt Road', currency: 'EUR', taxRatePct: 19, createdBy: lead.id },
-      { transaction },
-    );
+    const made = await Crew.create({ name: DEMO_CREW_NAME, production: 'The Salt Road', currency: 'EUR', taxRatePct: 19, createdBy: lead.id }, { transaction });
     await CrewMember.bulkCreate(
       [
         { crewId: made.id, userId: lead.id, role: 'lead' },

@@ -52,7 +52,16 @@ function circle(r: number, n: number, from = 0, to = 2 * Math.PI, includeEnd = f
 
 /** A box x × y × z with one corner at the origin. */
 export function box(x: number, y: number, z: number): Tri[] {
-  return prismBetweenLoops([[0, 0], [x, 0], [x, y], [0, y]], null, z);
+  return prismBetweenLoops(
+    [
+      [0, 0],
+      [x, 0],
+      [x, y],
+      [0, y],
+    ],
+    null,
+    z,
+  );
 }
 
 /** A ring (rod clamp, gear blank): outer and inner radius, height. */
@@ -63,12 +72,7 @@ export function ring(rOuter: number, rInner: number, h: number, segments = 64): 
 /** An open ring, e.g. a snap-on cable clip, from `gapDeg / 2` to `360 - gapDeg / 2`. */
 export function clip(rOuter: number, rInner: number, h: number, gapDeg: number, segments = 48): Tri[] {
   const half = (gapDeg / 2) * (Math.PI / 180);
-  return prismBetweenLoops(
-    circle(rOuter, segments, half, 2 * Math.PI - half, true),
-    circle(rInner, segments, half, 2 * Math.PI - half, true),
-    h,
-    false,
-  );
+  return prismBetweenLoops(circle(rOuter, segments, half, 2 * Math.PI - half, true), circle(rInner, segments, half, 2 * Math.PI - half, true), h, false);
 }
 
 export function toBinaryStl(tris: Tri[], name: string): Buffer {

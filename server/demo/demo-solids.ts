@@ -66,7 +66,13 @@ export function gearRing(bore: number, teeth: number, m: number, width: number):
     const a = (2 * Math.PI * i) / teeth;
     const step = (2 * Math.PI) / teeth;
     // a trapezoid tooth: root, flank, tip, flank
-    for (const [f, r] of [[0, rootR], [0.2, rootR], [0.35, outerR], [0.65, outerR], [0.8, rootR]] as const) {
+    for (const [f, r] of [
+      [0, rootR],
+      [0.2, rootR],
+      [0.35, outerR],
+      [0.65, outerR],
+      [0.8, rootR],
+    ] as const) {
       points.push([r * Math.cos(a + f * step), r * Math.sin(a + f * step)]);
     }
   }
@@ -82,7 +88,16 @@ export function tube(outer: number, inner: number, h: number): Geom3 {
 /** A cap: a closed disc with a skirt that slips over a barrel or a port (its section turned round the axis). */
 export function cap(inner: number, wall: number, depth: number, top = 2): Geom3 {
   const r = inner / 2;
-  const section = primitives.polygon({ points: [[0, 0], [r + wall, 0], [r + wall, depth + top], [r, depth + top], [r, top], [0, top]] });
+  const section = primitives.polygon({
+    points: [
+      [0, 0],
+      [r + wall, 0],
+      [r + wall, depth + top],
+      [r, depth + top],
+      [r, top],
+      [0, top],
+    ],
+  });
   return extrusions.extrudeRotate({ segments: 64 }, section);
 }
 
@@ -103,19 +118,41 @@ export function clip(d: number, wall: number, h: number, cables = 1): Geom3 {
       rect(d * 0.8, d, [x, d / 2 + wall / 2]),
     );
   const shapes = Array.from({ length: cables }, (_, i) => one(i * (d + wall)));
-  return up(h, cables > 1 ? booleans.union(...shapes, rect((cables - 1) * (d + wall), wall * 2, [((cables - 1) * (d + wall)) / 2, -d / 2 - wall / 2])) : shapes[0]);
+  return up(
+    h,
+    cables > 1 ? booleans.union(...shapes, rect((cables - 1) * (d + wall), wall * 2, [((cables - 1) * (d + wall)) / 2, -d / 2 - wall / 2])) : shapes[0],
+  );
 }
 
 /** A dovetail: a V-grooved bar of the given width across its flats, cut to length. */
 export function dovetail(width: number, length: number, t = 8): Geom3 {
   const w = width / 2;
-  const outline = primitives.polygon({ points: [[-w + t * 0.6, 0], [w - t * 0.6, 0], [w, t], [-w, t]] });
+  const outline = primitives.polygon({
+    points: [
+      [-w + t * 0.6, 0],
+      [w - t * 0.6, 0],
+      [w, t],
+      [-w, t],
+    ],
+  });
   return transforms.rotateX(Math.PI / 2, up(length, booleans.subtract(outline, circle(HOLE_1_4, [0, t / 2]))));
 }
 
 /** A rail clamp: a block with a channel across its underside (for a MIL-STD-1913 rail, 21.2 mm over the top). */
 export function railClamp(length: number): Geom3 {
-  const outline = booleans.subtract(rounded(32, 16, 2, [0, 8]), primitives.polygon({ points: [[-11, -0.01], [11, -0.01], [10.6, 3], [8, 6], [-8, 6], [-10.6, 3]] }));
+  const outline = booleans.subtract(
+    rounded(32, 16, 2, [0, 8]),
+    primitives.polygon({
+      points: [
+        [-11, -0.01],
+        [11, -0.01],
+        [10.6, 3],
+        [8, 6],
+        [-8, 6],
+        [-10.6, 3],
+      ],
+    }),
+  );
   return transforms.rotateX(Math.PI / 2, up(length, outline));
 }
 
@@ -140,11 +177,6 @@ export function tray(x: number, y: number, h: number, pockets: [number, number][
 export function batteryPlate(x: number, y: number, t: number, slots: [number, number][]): Geom3 {
   return up(
     t,
-    booleans.subtract(
-      rounded(x, y, 5),
-      ...slots.map(([sx, sy]) => rounded(6, 14, 2.9, [sx, sy])),
-      circle(HOLE_1_4, [-x / 4, 0]),
-      circle(HOLE_1_4, [x / 4, 0]),
-    ),
+    booleans.subtract(rounded(x, y, 5), ...slots.map(([sx, sy]) => rounded(6, 14, 2.9, [sx, sy])), circle(HOLE_1_4, [-x / 4, 0]), circle(HOLE_1_4, [x / 4, 0])),
   );
 }

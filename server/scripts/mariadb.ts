@@ -57,9 +57,7 @@ function spawnChecked(cmd: string, args: string[], env: NodeJS.ProcessEnv): Prom
   return new Promise((resolvePromise, reject) => {
     const child = spawn(cmd, args, { stdio: 'inherit', env });
     child.on('error', reject);
-    child.on('exit', (code) =>
-      code === 0 ? resolvePromise() : reject(new Error(`${cmd} ${args.join(' ')} exited with ${code}`)),
-    );
+    child.on('exit', (code) => (code === 0 ? resolvePromise() : reject(new Error(`${cmd} ${args.join(' ')} exited with ${code}`))));
   });
 }
 

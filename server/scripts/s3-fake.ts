@@ -64,7 +64,11 @@ if (process.argv[1] && resolve(process.argv[1]) === fileURLToPath(import.meta.ur
   });
   const fake = await startS3Fake({ port: Number(values.port), dir: values.dir!, bucket: values.bucket });
   console.log(`S3 fake on ${fake.endpoint}, bucket ${fake.bucket}, objects under ${resolve(values.dir!)}`);
-  console.log(Object.entries(fake.env).map(([k, v]) => `${k}=${v}`).join(' '));
+  console.log(
+    Object.entries(fake.env)
+      .map(([k, v]) => `${k}=${v}`)
+      .join(' '),
+  );
   const stop = () => void fake.close().then(() => process.exit(0));
   process.once('SIGINT', stop);
   process.once('SIGTERM', stop);

@@ -8,9 +8,7 @@ const P = 1;
 
 function scrypt(password: string, salt: Buffer, N: number): Promise<Buffer> {
   const options: ScryptOptions = { N, r: R, p: P, maxmem: 256 * N * R + 1024 * 1024 };
-  return new Promise((resolve, reject) =>
-    scryptCb(password.normalize('NFKC'), salt, KEY_LENGTH, options, (err, key) => (err ? reject(err) : resolve(key))),
-  );
+  return new Promise((resolve, reject) => scryptCb(password.normalize('NFKC'), salt, KEY_LENGTH, options, (err, key) => (err ? reject(err) : resolve(key))));
 }
 
 export async function hashPassword(password: string, logN: number): Promise<string> {

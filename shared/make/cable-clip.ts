@@ -44,10 +44,27 @@ export const cableClip: Generator<typeof cableClipSchema> = {
   fields: [
     { key: 'cableMm', label: 'Cable diameter', kind: 'length', unit: 'mm', min: 2, max: 20, step: 0.1 },
     { key: 'secondCableMm', label: 'Second cable diameter', kind: 'length', unit: 'mm', min: 0, max: 20, step: 0.1, help: '0 for a single cable.' },
-    { key: 'mount', label: 'Mounting', kind: 'choice', options: [{ value: 'rod15', label: 'snaps on a 15 mm rod' }, { value: 'rod19', label: 'snaps on a 19 mm rod' }, { value: 'screw', label: '1/4-20 screw' }] },
+    {
+      key: 'mount',
+      label: 'Mounting',
+      kind: 'choice',
+      options: [
+        { value: 'rod15', label: 'snaps on a 15 mm rod' },
+        { value: 'rod19', label: 'snaps on a 19 mm rod' },
+        { value: 'screw', label: '1/4-20 screw' },
+      ],
+    },
     { key: 'widthMm', label: 'Clip width', kind: 'length', unit: 'mm', min: 6, max: 30, step: 0.5 },
     { key: 'wallMm', label: 'Wall', kind: 'length', unit: 'mm', min: 1.2, max: 4, step: 0.1 },
-    { key: 'resolution', label: 'Resolution', kind: 'choice', options: [{ value: 'default', label: 'default' }, { value: 'fine', label: 'fine' }] },
+    {
+      key: 'resolution',
+      label: 'Resolution',
+      kind: 'choice',
+      options: [
+        { value: 'default', label: 'default' },
+        { value: 'fine', label: 'fine' },
+      ],
+    },
   ],
   generate(input, corrections) {
     const p = cableClipSchema.parse(input);
@@ -98,7 +115,16 @@ export const cableClip: Generator<typeof cableClipSchema> = {
     let mesh;
     if (p.mount === 'screw') {
       const hole = book.hole('1/4-20 hole', CLEARANCE_HOLE_MM['1/4-20'].normal);
-      const ear = blockWithHoleAlongY(slabRight, slabRight + extraRight, 0, SLAB_MM, 0, p.widthMm, { diameterMm: hole, x: slabRight + extraRight / 2, z: p.widthMm / 2 }, res);
+      const ear = blockWithHoleAlongY(
+        slabRight,
+        slabRight + extraRight,
+        0,
+        SLAB_MM,
+        0,
+        p.widthMm,
+        { diameterMm: hole, x: slabRight + extraRight / 2, z: p.widthMm / 2 },
+        res,
+      );
       mesh = meshOf(glue([extrude(profile, p.widthMm), ear], [{ axis: 0, at: slabRight }]));
       book.notes.push('The 1/4-20 hole runs through the tab beside the cables.');
     } else {

@@ -31,13 +31,22 @@ export const fitGaugeSchema = z
     resolution: resolution.default('default'),
   })
   .superRefine((p, ctx) => {
-    if (p.stepsBelow + p.stepsAbove < 1) ctx.addIssue({ code: 'custom', path: ['stepsAbove'], message: 'A gauge needs at least two steps: add a step above or below.' });
+    if (p.stepsBelow + p.stepsAbove < 1)
+      ctx.addIssue({ code: 'custom', path: ['stepsAbove'], message: 'A gauge needs at least two steps: add a step above or below.' });
     const { width, pitch } = layout(p);
     if (width > GAUGE_MAX_LENGTH_MM) {
-      ctx.addIssue({ code: 'custom', path: ['stepsAbove'], message: `The coupon would be ${formatMm(width)} long; use at most ${Math.floor(GAUGE_MAX_LENGTH_MM / pitch)} steps in all for this size.` });
+      ctx.addIssue({
+        code: 'custom',
+        path: ['stepsAbove'],
+        message: `The coupon would be ${formatMm(width)} long; use at most ${Math.floor(GAUGE_MAX_LENGTH_MM / pitch)} steps in all for this size.`,
+      });
     }
     if (p.nominalMm - p.stepsBelow * p.stepMm < 2) {
-      ctx.addIssue({ code: 'custom', path: ['stepsBelow'], message: `The smallest step would be under 2 mm; use at most ${Math.floor((p.nominalMm - 2) / p.stepMm)} steps below.` });
+      ctx.addIssue({
+        code: 'custom',
+        path: ['stepsBelow'],
+        message: `The smallest step would be under 2 mm; use at most ${Math.floor((p.nominalMm - 2) / p.stepMm)} steps below.`,
+      });
     }
   });
 
@@ -60,7 +69,12 @@ export function gaugeSteps(input: z.input<typeof fitGaugeSchema>): GaugeStep[] {
       index: k + p.stepsBelow,
       offset: k,
       diameterMm: roundMm(p.nominalMm + k * p.stepMm),
-      mark: k === 0 ? 'one wide notch on the front edge' : k > 0 ? `${k} notch${k > 1 ? 'es' : ''} on the front edge` : `${-k} notch${k < -1 ? 'es' : ''} on the back edge`,
+      mark:
+        k === 0
+          ? 'one wide notch on the front edge'
+          : k > 0
+            ? `${k} notch${k > 1 ? 'es' : ''} on the front edge`
+            : `${-k} notch${k < -1 ? 'es' : ''} on the back edge`,
     });
   }
   return steps;
@@ -108,18 +122,35 @@ function notchedEdge(centres: { x: number; offset: number }[], width: number, he
 export const fitGauge: Generator<typeof fitGaugeSchema> = {
   kind: 'fit-gauge',
   title: 'Fit-test gauge',
-  summary: 'A small coupon of stepped bores (or pegs) round one key dimension, each step marked by notches, to find how much your printer needs added to holes or outer sizes.',
+  summary:
+    'A small coupon of stepped bores (or pegs) round one key dimension, each step marked by notches, to find how much your printer needs added to holes or outer sizes.',
   schema: fitGaugeSchema,
   defaults: { mode: 'bores', nominalMm: 15, stepMm: 0.1, stepsBelow: 2, stepsAbove: 6, thicknessMm: 3, pegHeightMm: 5, resolution: 'default' },
   fields: [
-    { key: 'mode', label: 'Gauge', kind: 'choice', options: [{ value: 'bores', label: 'bores (hole correction)' }, { value: 'pegs', label: 'pegs (outer-size correction)' }] },
+    {
+      key: 'mode',
+      label: 'Gauge',
+      kind: 'choice',
+      options: [
+        { value: 'bores', label: 'bores (hole correction)' },
+        { value: 'pegs', label: 'pegs (outer-size correction)' },
+      ],
+    },
     { key: 'nominalMm', label: 'Key dimension', kind: 'length', unit: 'mm', min: 3, max: 40, step: 0.1, help: 'For example 15 for a 15 mm rod.' },
     { key: 'stepMm', label: 'Step', kind: 'length', unit: 'mm', min: 0.05, max: 0.5, step: 0.05 },
     { key: 'stepsBelow', label: 'Steps below', kind: 'number', unit: 'count', min: 0, max: 6, step: 1 },
     { key: 'stepsAbove', label: 'Steps above', kind: 'number', unit: 'count', min: 0, max: 8, step: 1 },
     { key: 'thicknessMm', label: 'Plate thickness', kind: 'length', unit: 'mm', min: 2, max: 10, step: 0.5 },
     { key: 'pegHeightMm', label: 'Peg height', kind: 'length', unit: 'mm', min: 3, max: 15, step: 0.5 },
-    { key: 'resolution', label: 'Resolution', kind: 'choice', options: [{ value: 'default', label: 'default' }, { value: 'fine', label: 'fine' }] },
+    {
+      key: 'resolution',
+      label: 'Resolution',
+      kind: 'choice',
+      options: [
+        { value: 'default', label: 'default' },
+        { value: 'fine', label: 'fine' },
+      ],
+    },
   ],
   generate(input, corrections) {
     const p = fitGaugeSchema.parse(input);
@@ -139,7 +170,15 @@ export const fitGauge: Generator<typeof fitGaugeSchema> = {
     let mesh;
     let top = p.thicknessMm;
     if (p.mode === 'bores') {
-      mesh = meshOf(extrude(region(outline, centres.map((c, i) => holePath(c.d, p.resolution, [c.x, height / 2], phaseOf(i)))), p.thicknessMm));
+      mesh = meshOf(
+        extrude(
+          region(
+            outline,
+            centres.map((c, i) => holePath(c.d, p.resolution, [c.x, height / 2], phaseOf(i))),
+          ),
+          p.thicknessMm,
+        ),
+      );
     } else {
       const pegs = centres.map((c, i) => circlePath(c.d, p.resolution, [c.x, height / 2], phaseOf(i)));
       top = p.thicknessMm + p.pegHeightMm;

@@ -18,24 +18,21 @@ const LUG_LENGTH_MM = 8;
 const LUG_WIDTH_MM = 5;
 const M3_HOLE_MM = CLEARANCE_HOLE_MM.M3.normal;
 
-export const gearRingSchema = z
-  .object({
-    module: z
-      .union([z.literal(0.5), z.literal(0.6), z.literal(0.8), z.literal(1.0)], { error: 'Module: choose 0.5, 0.6, 0.8 or 1.0.' })
-      .default(0.8),
-    barrelDiameterMm: lengthMm('Barrel diameter', 20, 200).default(82),
-    widthMm: lengthMm('Ring width', 3, 30).default(8),
-    wallMm: lengthMm('Wall under the teeth', 0.8, 8).default(1.5),
-    fit: choiceOf('Fit', ['press', 'clamp'] as const).default('press'),
-    interferenceMm: lengthMm('Press-fit interference', 0, 1).default(0.2),
-    resolution: resolution.default('default'),
-  });
+export const gearRingSchema = z.object({
+  module: z.union([z.literal(0.5), z.literal(0.6), z.literal(0.8), z.literal(1.0)], { error: 'Module: choose 0.5, 0.6, 0.8 or 1.0.' }).default(0.8),
+  barrelDiameterMm: lengthMm('Barrel diameter', 20, 200).default(82),
+  widthMm: lengthMm('Ring width', 3, 30).default(8),
+  wallMm: lengthMm('Wall under the teeth', 0.8, 8).default(1.5),
+  fit: choiceOf('Fit', ['press', 'clamp'] as const).default('press'),
+  interferenceMm: lengthMm('Press-fit interference', 0, 1).default(0.2),
+  resolution: resolution.default('default'),
+});
 
 export type GearRingParams = z.output<typeof gearRingSchema>;
 
 /** Fewest teeth whose root circle m·(z − 2.5) clears the barrel plus the wall on both sides. */
 export function toothCountFor(moduleMm: number, barrelMm: number, wallMm: number): number {
-  return Math.ceil(((barrelMm + 2 * wallMm) / moduleMm + DEDENDUM * 2 - 1e-9));
+  return Math.ceil((barrelMm + 2 * wallMm) / moduleMm + DEDENDUM * 2 - 1e-9);
 }
 
 export function gearDiameters(moduleMm: number, teeth: number) {
@@ -109,7 +106,8 @@ export function rootGapHalfWidth(moduleMm: number, teeth: number): number {
 export const gearRing: Generator<typeof gearRingSchema> = {
   kind: 'gear-ring',
   title: 'Lens gear ring',
-  summary: 'A gear ring for a lens barrel as measured: involute teeth on the ISO 53 basic rack, tooth count chosen so the root clears the barrel and the wall, held by a press fit or an M3 clamp screw.',
+  summary:
+    'A gear ring for a lens barrel as measured: involute teeth on the ISO 53 basic rack, tooth count chosen so the root clears the barrel and the wall, held by a press fit or an M3 clamp screw.',
   schema: gearRingSchema,
   defaults: { module: 0.8, barrelDiameterMm: 82, widthMm: 8, wallMm: 1.5, fit: 'press', interferenceMm: 0.2, resolution: 'default' },
   fields: [
@@ -117,9 +115,34 @@ export const gearRing: Generator<typeof gearRingSchema> = {
     { key: 'barrelDiameterMm', label: 'Barrel diameter (measured)', kind: 'length', unit: 'mm', min: 20, max: 200, step: 0.1 },
     { key: 'widthMm', label: 'Ring width', kind: 'length', unit: 'mm', min: 3, max: 30, step: 0.5 },
     { key: 'wallMm', label: 'Wall under the teeth', kind: 'length', unit: 'mm', min: 0.8, max: 8, step: 0.1 },
-    { key: 'fit', label: 'Held by', kind: 'choice', options: [{ value: 'press', label: 'press fit' }, { value: 'clamp', label: 'clamp slot with an M3 screw' }] },
-    { key: 'interferenceMm', label: 'Press-fit interference', kind: 'length', unit: 'mm', min: 0, max: 1, step: 0.05, help: 'How much smaller than the barrel the bore is drawn (press fit only).' },
-    { key: 'resolution', label: 'Resolution', kind: 'choice', options: [{ value: 'default', label: 'default' }, { value: 'fine', label: 'fine' }] },
+    {
+      key: 'fit',
+      label: 'Held by',
+      kind: 'choice',
+      options: [
+        { value: 'press', label: 'press fit' },
+        { value: 'clamp', label: 'clamp slot with an M3 screw' },
+      ],
+    },
+    {
+      key: 'interferenceMm',
+      label: 'Press-fit interference',
+      kind: 'length',
+      unit: 'mm',
+      min: 0,
+      max: 1,
+      step: 0.05,
+      help: 'How much smaller than the barrel the bore is drawn (press fit only).',
+    },
+    {
+      key: 'resolution',
+      label: 'Resolution',
+      kind: 'choice',
+      options: [
+        { value: 'default', label: 'default' },
+        { value: 'fine', label: 'fine' },
+      ],
+    },
   ],
   generate(input, corrections) {
     const p = gearRingSchema.parse(input);
@@ -180,7 +203,8 @@ export const gearRing: Generator<typeof gearRingSchema> = {
       book.notes.push(
         `Clamp: a ${formatMm(2 * gap)} slot through a tooth space, a ${formatMm(COLLAR_HEIGHT_MM)} collar under the teeth with lugs for an M3 screw and nut (${formatMm(M3_HOLE_MM)} hole, ISO 273 medium). Print collar down.`,
       );
-      if (2 * gap < 0.8) warnings.push(`The clamp slot is only ${formatMm(2 * gap)} wide (it must fit between two teeth); clear it with a blade after printing.`);
+      if (2 * gap < 0.8)
+        warnings.push(`The clamp slot is only ${formatMm(2 * gap)} wide (it must fit between two teeth); clear it with a blade after printing.`);
     } else {
       const outline = gearOutline(p.module, teeth, p.resolution);
       mesh = meshOf(extrude(region(outline, [holePath(boreDrawn, p.resolution)]), p.widthMm));
@@ -191,7 +215,14 @@ export const gearRing: Generator<typeof gearRingSchema> = {
     return {
       mesh,
       drawn: {
-        parameters: { ...p, teeth, boreMm: roundMm(bore), pitchDiameterMm: roundMm(d.pitchMm), outsideDiameterMm: roundMm(d.outsideMm), rootDiameterMm: roundMm(d.rootMm) },
+        parameters: {
+          ...p,
+          teeth,
+          boreMm: roundMm(bore),
+          pitchDiameterMm: roundMm(d.pitchMm),
+          outsideDiameterMm: roundMm(d.outsideMm),
+          rootDiameterMm: roundMm(d.rootMm),
+        },
         sizes: book.sizes,
         notes: book.notes,
       },

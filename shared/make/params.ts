@@ -66,6 +66,14 @@ export function formatMm(mm: number): string {
 
 /** A printer calibration as stored and sent: millimetres added to drawn holes and outer sizes. */
 export const correctionsSchema = z.object({
-  holeMm: z.number({ error: 'Hole correction: enter a number of millimetres.' }).min(-1, { message: 'Hole correction must be between -1 and 1 mm.' }).max(1, { message: 'Hole correction must be between -1 and 1 mm.' }).optional(),
-  outerMm: z.number({ error: 'Outer-size correction: enter a number of millimetres.' }).min(-1, { message: 'Outer-size correction must be between -1 and 1 mm.' }).max(1, { message: 'Outer-size correction must be between -1 and 1 mm.' }).optional(),
+  holeMm: z
+    .number({ error: 'Hole correction: enter a number of millimetres.' })
+    .min(-1, { message: 'Hole correction must be between -1 and 1 mm.' })
+    .max(1, { message: 'Hole correction must be between -1 and 1 mm.' })
+    .optional(),
+  outerMm: z
+    .number({ error: 'Outer-size correction: enter a number of millimetres.' })
+    .min(-1, { message: 'Outer-size correction must be between -1 and 1 mm.' })
+    .max(1, { message: 'Outer-size correction must be between -1 and 1 mm.' })
+    .optional(),
 });

@@ -69,11 +69,19 @@ export function weldAndSplit(positions: ArrayLike<number>): Float32Array {
   const solid: number[] = [];
   for (let i = 0; i < tris.length; i += 3) {
     const [a, b, c] = [tris[i], tris[i + 1], tris[i + 2]];
-    const ux = xyz[3 * b] - xyz[3 * a], uy = xyz[3 * b + 1] - xyz[3 * a + 1], uz = xyz[3 * b + 2] - xyz[3 * a + 2];
-    const vx = xyz[3 * c] - xyz[3 * a], vy = xyz[3 * c + 1] - xyz[3 * a + 1], vz = xyz[3 * c + 2] - xyz[3 * a + 2];
-    const cx = uy * vz - uz * vy, cy = uz * vx - ux * vz, cz = ux * vy - uy * vx;
+    const ux = xyz[3 * b] - xyz[3 * a],
+      uy = xyz[3 * b + 1] - xyz[3 * a + 1],
+      uz = xyz[3 * b + 2] - xyz[3 * a + 2];
+    const vx = xyz[3 * c] - xyz[3 * a],
+      vy = xyz[3 * c + 1] - xyz[3 * a + 1],
+      vz = xyz[3 * c + 2] - xyz[3 * a + 2];
+    const cx = uy * vz - uz * vy,
+      cy = uz * vx - ux * vz,
+      cz = ux * vy - uy * vx;
     const cross2 = cx * cx + cy * cy + cz * cz;
-    const wx = vx - ux, wy = vy - uy, wz = vz - uz;
+    const wx = vx - ux,
+      wy = vy - uy,
+      wz = vz - uz;
     const longest2 = Math.max(ux * ux + uy * uy + uz * uz, vx * vx + vy * vy + vz * vz, wx * wx + wy * wy + wz * wz);
     // Height = 2·area / longest edge; below the on-edge tolerance the middle corner lies on that edge.
     if (cross2 > ON_EDGE_MM * ON_EDGE_MM * longest2 * 0.25) solid.push(a, b, c);
@@ -97,22 +105,32 @@ export function weldAndSplit(positions: ArrayLike<number>): Float32Array {
 
   const onEdge = (a: number, b: number): number[] => {
     const grid = cellsOf();
-    const ax = xyz[3 * a], ay = xyz[3 * a + 1], az = xyz[3 * a + 2];
-    const dx = xyz[3 * b] - ax, dy = xyz[3 * b + 1] - ay, dz = xyz[3 * b + 2] - az;
+    const ax = xyz[3 * a],
+      ay = xyz[3 * a + 1],
+      az = xyz[3 * a + 2];
+    const dx = xyz[3 * b] - ax,
+      dy = xyz[3 * b + 1] - ay,
+      dz = xyz[3 * b + 2] - az;
     const len2 = dx * dx + dy * dy + dz * dz;
     const found: { v: number; t: number }[] = [];
     const lo = [Math.min(ax, ax + dx), Math.min(ay, ay + dy), Math.min(az, az + dz)].map((n) => Math.floor((n - ON_EDGE_MM) / CELL_MM));
     const hi = [Math.max(ax, ax + dx), Math.max(ay, ay + dy), Math.max(az, az + dz)].map((n) => Math.floor((n + ON_EDGE_MM) / CELL_MM));
-    for (let i = lo[0]; i <= hi[0]; i++) for (let j = lo[1]; j <= hi[1]; j++) for (let k = lo[2]; k <= hi[2]; k++) {
-      for (const v of grid.get(`${i},${j},${k}`) ?? []) {
-        if (v === a || v === b) continue;
-        const px = xyz[3 * v] - ax, py = xyz[3 * v + 1] - ay, pz = xyz[3 * v + 2] - az;
-        const t = (px * dx + py * dy + pz * dz) / len2;
-        if (t <= 0 || t >= 1) continue;
-        const ex = px - t * dx, ey = py - t * dy, ez = pz - t * dz;
-        if (ex * ex + ey * ey + ez * ez <= ON_EDGE_MM * ON_EDGE_MM) found.push({ v, t });
-      }
-    }
+    for (let i = lo[0]; i <= hi[0]; i++)
+      for (let j = lo[1]; j <= hi[1]; j++)
+        for (let k = lo[2]; k <= hi[2]; k++) {
+          for (const v of grid.get(`${i},${j},${k}`) ?? []) {
+            if (v === a || v === b) continue;
+            const px = xyz[3 * v] - ax,
+              py = xyz[3 * v + 1] - ay,
+              pz = xyz[3 * v + 2] - az;
+            const t = (px * dx + py * dy + pz * dz) / len2;
+            if (t <= 0 || t >= 1) continue;
+            const ex = px - t * dx,
+              ey = py - t * dy,
+              ez = pz - t * dz;
+            if (ex * ex + ey * ey + ez * ez <= ON_EDGE_MM * ON_EDGE_MM) found.push({ v, t });
+          }
+        }
     return found.sort((p, q) => p.t - q.t).map((f) => f.v);
   };
 
@@ -189,18 +207,27 @@ function flipSlivers(input: number[], xyz: number[]): number[] {
   if (count === 0) return tris;
   const lo = [Infinity, Infinity, Infinity];
   const hi = [-Infinity, -Infinity, -Infinity];
-  for (let i = 0; i < xyz.length; i += 3) for (let k = 0; k < 3; k++) {
-    lo[k] = Math.min(lo[k], xyz[i + k]);
-    hi[k] = Math.max(hi[k], xyz[i + k]);
-  }
+  for (let i = 0; i < xyz.length; i += 3)
+    for (let k = 0; k < 3; k++) {
+      lo[k] = Math.min(lo[k], xyz[i + k]);
+      hi[k] = Math.max(hi[k], xyz[i + k]);
+    }
   const snapGrid = (1e-5 * (hi[0] - lo[0] + hi[1] - lo[1] + hi[2] - lo[2])) / 3;
   const minHeight = 4 * snapGrid;
   /** Smallest height of triangle t, without allocating. */
   const heightOf = (a: number, b: number, c: number) => {
-    const ux = xyz[3 * b] - xyz[3 * a], uy = xyz[3 * b + 1] - xyz[3 * a + 1], uz = xyz[3 * b + 2] - xyz[3 * a + 2];
-    const vx = xyz[3 * c] - xyz[3 * a], vy = xyz[3 * c + 1] - xyz[3 * a + 1], vz = xyz[3 * c + 2] - xyz[3 * a + 2];
-    const wx = vx - ux, wy = vy - uy, wz = vz - uz;
-    const cx = uy * vz - uz * vy, cy = uz * vx - ux * vz, cz = ux * vy - uy * vx;
+    const ux = xyz[3 * b] - xyz[3 * a],
+      uy = xyz[3 * b + 1] - xyz[3 * a + 1],
+      uz = xyz[3 * b + 2] - xyz[3 * a + 2];
+    const vx = xyz[3 * c] - xyz[3 * a],
+      vy = xyz[3 * c + 1] - xyz[3 * a + 1],
+      vz = xyz[3 * c + 2] - xyz[3 * a + 2];
+    const wx = vx - ux,
+      wy = vy - uy,
+      wz = vz - uz;
+    const cx = uy * vz - uz * vy,
+      cy = uz * vx - ux * vz,
+      cz = ux * vy - uy * vx;
     const longest2 = Math.max(ux * ux + uy * uy + uz * uz, vx * vx + vy * vy + vz * vz, wx * wx + wy * wy + wz * wz);
     return Math.sqrt((cx * cx + cy * cy + cz * cz) / longest2);
   };
@@ -214,7 +241,9 @@ function flipSlivers(input: number[], xyz: number[]): number[] {
   const len = (a: number[]) => Math.sqrt(dot(a, a));
   /** Smallest height of a triangle and its normal (unnormalised). */
   const shape = (a: number, b: number, c: number) => {
-    const pa = P(a), pb = P(b), pc = P(c);
+    const pa = P(a),
+      pb = P(b),
+      pc = P(c);
     return { height: heightOf(a, b, c), n: cross(sub(pb, pa), sub(pc, pa)) };
   };
   const vertexCount = xyz.length / 3;
@@ -241,13 +270,16 @@ function flipSlivers(input: number[], xyz: number[]): number[] {
           best = e;
         }
       }
-      const a = v[best], b = v[(best + 1) % 3], c = v[(best + 2) % 3];
+      const a = v[best],
+        b = v[(best + 1) % 3],
+        c = v[(best + 2) % 3];
       const u = edgeOwner.get(b * vertexCount + a);
       if (u === undefined) continue;
       const w = [tris[3 * u], tris[3 * u + 1], tris[3 * u + 2]];
       const d = w.find((x) => x !== a && x !== b)!;
       const other = shape(w[0], w[1], w[2]);
-      const n1 = mine.n, n2 = other.n;
+      const n1 = mine.n,
+        n2 = other.n;
       if (len(cross(n1, n2)) > 1e-9 * len(n1) * len(n2) || dot(n1, n2) <= 0) continue;
       if (edgeOwner.has(c * vertexCount + d) || edgeOwner.has(d * vertexCount + c)) continue;
       const first = shape(a, d, c);
@@ -255,8 +287,12 @@ function flipSlivers(input: number[], xyz: number[]): number[] {
       if (dot(first.n, n1) <= 0 || dot(second.n, n1) <= 0) continue;
       if (Math.min(first.height, second.height) <= Math.min(mine.height, other.height)) continue;
       for (const x of [t, u]) for (let e = 0; e < 3; e++) edgeOwner.delete(tris[3 * x + e] * vertexCount + tris[3 * x + ((e + 1) % 3)]);
-      tris[3 * t] = a; tris[3 * t + 1] = d; tris[3 * t + 2] = c;
-      tris[3 * u] = d; tris[3 * u + 1] = b; tris[3 * u + 2] = c;
+      tris[3 * t] = a;
+      tris[3 * t + 1] = d;
+      tris[3 * t + 2] = c;
+      tris[3 * u] = d;
+      tris[3 * u + 1] = b;
+      tris[3 * u + 2] = c;
       own(t);
       own(u);
       next.push(t, u);

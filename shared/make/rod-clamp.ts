@@ -26,12 +26,20 @@ export const rodClampSchema = z
   .superRefine((p, ctx) => {
     const hole = CLEARANCE_HOLE_MM[p.mount].normal;
     if (p.lengthMm < hole + 4) {
-      ctx.addIssue({ code: 'custom', path: ['lengthMm'], message: `Clamp length must be at least ${formatMm(hole + 4)} to fit the ${SCREW_LABELS[p.mount]} hole with 2 mm around it.` });
+      ctx.addIssue({
+        code: 'custom',
+        path: ['lengthMm'],
+        message: `Clamp length must be at least ${formatMm(hole + 4)} to fit the ${SCREW_LABELS[p.mount]} hole with 2 mm around it.`,
+      });
     }
     if (p.layout === 'pair') {
       const middle = p.centresMm - p.rodMm - p.clearanceMm - 2 * p.wallMm;
       if (middle < hole + 4) {
-        ctx.addIssue({ code: 'custom', path: ['wallMm'], message: `With ${p.rodMm} mm rods at ${p.centresMm} mm the wall can be at most ${formatMm((p.centresMm - p.rodMm - p.clearanceMm - hole - 4) / 2)} to leave room for the mounting hole.` });
+        ctx.addIssue({
+          code: 'custom',
+          path: ['wallMm'],
+          message: `With ${p.rodMm} mm rods at ${p.centresMm} mm the wall can be at most ${formatMm((p.centresMm - p.rodMm - p.clearanceMm - hole - 4) / 2)} to leave room for the mounting hole.`,
+        });
       }
     }
   });
@@ -55,14 +63,52 @@ export const rodClamp: Generator<typeof rodClampSchema> = {
   schema: rodClampSchema,
   defaults: { rodMm: 15, layout: 'pair', centresMm: 60, clearanceMm: 0.2, mount: '1/4-20', lengthMm: 20, wallMm: 4, resolution: 'default' },
   fields: [
-    { key: 'rodMm', label: 'Rod diameter', kind: 'choice', options: [{ value: 15, label: '15 mm' }, { value: 19, label: '19 mm' }] },
-    { key: 'layout', label: 'Rods', kind: 'choice', options: [{ value: 'single', label: 'single rod' }, { value: 'pair', label: 'pair' }] },
-    { key: 'centresMm', label: 'Rod centres', kind: 'choice', options: [60, 100, 104].map((c) => ({ value: c, label: `${c} mm` })), help: 'Pair only: 60 mm lightweight, 100 mm 15 mm studio, 104 mm 19 mm studio.' },
+    {
+      key: 'rodMm',
+      label: 'Rod diameter',
+      kind: 'choice',
+      options: [
+        { value: 15, label: '15 mm' },
+        { value: 19, label: '19 mm' },
+      ],
+    },
+    {
+      key: 'layout',
+      label: 'Rods',
+      kind: 'choice',
+      options: [
+        { value: 'single', label: 'single rod' },
+        { value: 'pair', label: 'pair' },
+      ],
+    },
+    {
+      key: 'centresMm',
+      label: 'Rod centres',
+      kind: 'choice',
+      options: [60, 100, 104].map((c) => ({ value: c, label: `${c} mm` })),
+      help: 'Pair only: 60 mm lightweight, 100 mm 15 mm studio, 104 mm 19 mm studio.',
+    },
     { key: 'clearanceMm', label: 'Bore clearance', kind: 'length', unit: 'mm', min: 0, max: 1, step: 0.05 },
-    { key: 'mount', label: 'Mounting hole', kind: 'choice', options: [{ value: '1/4-20', label: '1/4-20' }, { value: '3/8-16', label: '3/8-16' }] },
+    {
+      key: 'mount',
+      label: 'Mounting hole',
+      kind: 'choice',
+      options: [
+        { value: '1/4-20', label: '1/4-20' },
+        { value: '3/8-16', label: '3/8-16' },
+      ],
+    },
     { key: 'lengthMm', label: 'Length along the rod', kind: 'length', unit: 'mm', min: 14, max: 60, step: 1 },
     { key: 'wallMm', label: 'Wall', kind: 'length', unit: 'mm', min: 3, max: 10, step: 0.5 },
-    { key: 'resolution', label: 'Resolution', kind: 'choice', options: [{ value: 'default', label: 'default' }, { value: 'fine', label: 'fine' }] },
+    {
+      key: 'resolution',
+      label: 'Resolution',
+      kind: 'choice',
+      options: [
+        { value: 'default', label: 'default' },
+        { value: 'fine', label: 'fine' },
+      ],
+    },
   ],
   generate(input, corrections) {
     const p = rodClampSchema.parse(input);
@@ -90,7 +136,10 @@ export const rodClamp: Generator<typeof rodClampSchema> = {
         blockWithHoleAlongY(half, half + ear, -half, half, 0, L, { diameterMm: mountHole, x: half + ear / 2, z: L / 2 }, res),
         ...jaw(-half, -1),
       ];
-      planes = [{ axis: 0, at: half }, { axis: 0, at: -half }];
+      planes = [
+        { axis: 0, at: half },
+        { axis: 0, at: -half },
+      ];
       width = JAW_LENGTH_MM + 2 * half + ear;
       book.notes.push(`Single ${p.rodMm} mm rod; the ${SCREW_LABELS[p.mount]} hole runs through the ear beside it, square to the rod.`);
     } else {
@@ -105,7 +154,9 @@ export const rodClamp: Generator<typeof rodClampSchema> = {
       planes = [-c - half, -c + half, c - half, c + half].map((at) => ({ axis: 0 as const, at }));
       width = 2 * (c + half + JAW_LENGTH_MM);
       book.plain('Rod centres', p.centresMm);
-      book.notes.push(`Pair of ${p.rodMm} mm rods at ${formatMm(p.centresMm)} centres; the ${SCREW_LABELS[p.mount]} hole runs through the middle, square to the rods.`);
+      book.notes.push(
+        `Pair of ${p.rodMm} mm rods at ${formatMm(p.centresMm)} centres; the ${SCREW_LABELS[p.mount]} hole runs through the middle, square to the rods.`,
+      );
       if (!ROD_CENTRES[p.rodMm].includes(p.centresMm)) {
         warnings.push(`${p.rodMm} mm rods are not usually set at ${p.centresMm} mm (the trade uses ${ROD_CENTRES[p.rodMm].join(' or ')} mm); check your rig.`);
       }

@@ -16,18 +16,22 @@ const NECK_MARGIN_MM = 0.5;
 const ROD_WALL_MM = 3;
 const ROD_OPENING_RATIO = 0.85;
 
-export const shoeFootSchema = z
-  .object({
-    mount: choiceOf('Mounting', ['1/4-20', '3/8-16', 'rod15', 'rod19'] as const).default('1/4-20'),
-    playMm: lengthMm('Play in the shoe', 0, 0.6).default(0.2),
-    baseSizeMm: lengthMm('Base size', 20, 40).default(24),
-    baseHeightMm: lengthMm('Base height', 4, 20).default(6),
-    resolution: resolution.default('default'),
-  });
+export const shoeFootSchema = z.object({
+  mount: choiceOf('Mounting', ['1/4-20', '3/8-16', 'rod15', 'rod19'] as const).default('1/4-20'),
+  playMm: lengthMm('Play in the shoe', 0, 0.6).default(0.2),
+  baseSizeMm: lengthMm('Base size', 20, 40).default(24),
+  baseHeightMm: lengthMm('Base height', 4, 20).default(6),
+  resolution: resolution.default('default'),
+});
 
 export type ShoeFootParams = z.output<typeof shoeFootSchema>;
 
-const rectPath = (x0: number, y0: number, x1: number, y1: number): Vec2[] => [[x0, y0], [x1, y0], [x1, y1], [x0, y1]];
+const rectPath = (x0: number, y0: number, x1: number, y1: number): Vec2[] => [
+  [x0, y0],
+  [x1, y0],
+  [x1, y1],
+  [x0, y1],
+];
 
 export const shoeFoot: Generator<typeof shoeFootSchema> = {
   kind: 'shoe-foot',
@@ -36,11 +40,38 @@ export const shoeFoot: Generator<typeof shoeFootSchema> = {
   schema: shoeFootSchema,
   defaults: { mount: '1/4-20', playMm: 0.2, baseSizeMm: 24, baseHeightMm: 6, resolution: 'default' },
   fields: [
-    { key: 'mount', label: 'Mounting', kind: 'choice', options: [{ value: '1/4-20', label: '1/4-20 hole' }, { value: '3/8-16', label: '3/8-16 hole' }, { value: 'rod15', label: 'clip for a 15 mm rod' }, { value: 'rod19', label: 'clip for a 19 mm rod' }] },
-    { key: 'playMm', label: 'Play in the shoe', kind: 'length', unit: 'mm', min: 0, max: 0.6, step: 0.05, help: 'Taken off the foot width; half of it off the thickness.' },
+    {
+      key: 'mount',
+      label: 'Mounting',
+      kind: 'choice',
+      options: [
+        { value: '1/4-20', label: '1/4-20 hole' },
+        { value: '3/8-16', label: '3/8-16 hole' },
+        { value: 'rod15', label: 'clip for a 15 mm rod' },
+        { value: 'rod19', label: 'clip for a 19 mm rod' },
+      ],
+    },
+    {
+      key: 'playMm',
+      label: 'Play in the shoe',
+      kind: 'length',
+      unit: 'mm',
+      min: 0,
+      max: 0.6,
+      step: 0.05,
+      help: 'Taken off the foot width; half of it off the thickness.',
+    },
     { key: 'baseSizeMm', label: 'Base size', kind: 'length', unit: 'mm', min: 20, max: 40, step: 1 },
     { key: 'baseHeightMm', label: 'Base height', kind: 'length', unit: 'mm', min: 4, max: 20, step: 0.5 },
-    { key: 'resolution', label: 'Resolution', kind: 'choice', options: [{ value: 'default', label: 'default' }, { value: 'fine', label: 'fine' }] },
+    {
+      key: 'resolution',
+      label: 'Resolution',
+      kind: 'choice',
+      options: [
+        { value: 'default', label: 'default' },
+        { value: 'fine', label: 'fine' },
+      ],
+    },
   ],
   generate(input, corrections) {
     const p = shoeFootSchema.parse(input);
@@ -51,13 +82,18 @@ export const shoeFoot: Generator<typeof shoeFootSchema> = {
     const footL = SHOE.footLengthMm;
     const neckW = SHOE.lipOpeningMm - NECK_MARGIN_MM - p.playMm;
     book.plain('Neck width', neckW);
-    book.notes.push(`Shoe sizes after ISO 518, nominal and from memory: slot ${formatMm(SHOE.slotWidthMm)} × ${formatMm(SHOE.slotHeightMm)}, lip opening ${formatMm(SHOE.lipOpeningMm)}. Check the fit on your shoe.`);
+    book.notes.push(
+      `Shoe sizes after ISO 518, nominal and from memory: slot ${formatMm(SHOE.slotWidthMm)} × ${formatMm(SHOE.slotHeightMm)}, lip opening ${formatMm(SHOE.lipOpeningMm)}. Check the fit on your shoe.`,
+    );
     const warnings: string[] = [];
     let mesh;
     let bounds: [number, number, number];
     if (p.mount === '1/4-20' || p.mount === '3/8-16') {
       const holeD = book.hole(`${SCREW_LABELS[p.mount]} hole`, CLEARANCE_HOLE_MM[p.mount].normal);
-      if (neckW - holeD < 2 * 1.2) warnings.push(`The neck round the ${SCREW_LABELS[p.mount]} hole is only ${formatMm((neckW - holeD) / 2)} thick; it may crack when the screw is tightened.`);
+      if (neckW - holeD < 2 * 1.2)
+        warnings.push(
+          `The neck round the ${SCREW_LABELS[p.mount]} hole is only ${formatMm((neckW - holeD) / 2)} thick; it may crack when the screw is tightened.`,
+        );
       const hole = holePath(holeD, res);
       const B = p.baseSizeMm;
       const base = rectPath(-B / 2, -B / 2, B / 2, B / 2);

@@ -62,7 +62,14 @@ export function region(outline: Vec2[], holes: Vec2[][] = []): Geom2 {
 }
 
 export function rect(x0: number, y0: number, x1: number, y1: number): Geom2 {
-  return primitives.polygon({ points: [[x0, y0], [x1, y0], [x1, y1], [x0, y1]] });
+  return primitives.polygon({
+    points: [
+      [x0, y0],
+      [x1, y0],
+      [x1, y1],
+      [x0, y1],
+    ],
+  });
 }
 
 /**
@@ -86,11 +93,12 @@ function restoreCorners(result: Geom2, inputs: Geom2[]): Geom2 {
   const fix = (v: number[]): Vec2 => {
     const kx = Math.round(v[0] / CELL);
     const ky = Math.round(v[1] / CELL);
-    for (let i = -1; i <= 1; i++) for (let j = -1; j <= 1; j++) {
-      for (const c of near.get(`${kx + i},${ky + j}`) ?? []) {
-        if (Math.abs(c[0] - v[0]) < 5e-4 && Math.abs(c[1] - v[1]) < 5e-4) return c;
+    for (let i = -1; i <= 1; i++)
+      for (let j = -1; j <= 1; j++) {
+        for (const c of near.get(`${kx + i},${ky + j}`) ?? []) {
+          if (Math.abs(c[0] - v[0]) < 5e-4 && Math.abs(c[1] - v[1]) < 5e-4) return c;
+        }
       }
-    }
     return [v[0], v[1]];
   };
   const sides = geometries.geom2.toSides(result).map((side) => [fix(side[0]), fix(side[1])] as [Vec2, Vec2]);
@@ -127,9 +135,15 @@ export function meshOf(solid: Geom3): GeneratedMesh {
     for (let i = 1; i + 1 < v.length; i++) {
       const b = v[i];
       const c = v[i + 1];
-      positions[o++] = a[0]; positions[o++] = a[1]; positions[o++] = a[2];
-      positions[o++] = b[0]; positions[o++] = b[1]; positions[o++] = b[2];
-      positions[o++] = c[0]; positions[o++] = c[1]; positions[o++] = c[2];
+      positions[o++] = a[0];
+      positions[o++] = a[1];
+      positions[o++] = a[2];
+      positions[o++] = b[0];
+      positions[o++] = b[1];
+      positions[o++] = b[2];
+      positions[o++] = c[0];
+      positions[o++] = c[1];
+      positions[o++] = c[2];
     }
   }
   const repaired = weldAndSplit(positions);
@@ -173,7 +187,7 @@ export function stackLayers(layers: Layer[], steps: Step[]): GeneratedMesh {
     if (geometries.geom2.toSides(g).length === 0) return;
     for (const poly of geometries.geom3.toPolygons(extrude(g, 1, z - (up ? 1 : 0)))) {
       const n = geometries.poly3.plane(poly);
-      if (isCap(n[2]) && (n[2] > 0) === up) push(poly);
+      if (isCap(n[2]) && n[2] > 0 === up) push(poly);
     }
   };
   layers.forEach((layer, i) => {
@@ -232,8 +246,7 @@ export function glue(parts: Geom3[], planes: GluePlane[]): Geom3 {
     Math.abs(Math.abs(n[plane.axis]) - 1) < 1e-9 &&
     poly.vertices.every(
       (v) =>
-        Math.abs(v[plane.axis] - plane.at) < 1e-7 &&
-        (!plane.within || v.every((c, i) => c >= plane.within!.min[i] - 1e-7 && c <= plane.within!.max[i] + 1e-7)),
+        Math.abs(v[plane.axis] - plane.at) < 1e-7 && (!plane.within || v.every((c, i) => c >= plane.within!.min[i] - 1e-7 && c <= plane.within!.max[i] + 1e-7)),
     );
   const kept = parts.flatMap((part) =>
     geometries.geom3.toPolygons(part).filter((poly) => {
@@ -249,19 +262,41 @@ export function glue(parts: Geom3[], planes: GluePlane[]): Geom3 {
  * extrusion along y so the hole needs no 3D boolean.
  */
 export function blockWithHoleAlongY(
-  x0: number, x1: number, y0: number, y1: number, z0: number, z1: number,
-  hole: { diameterMm: number; x: number; z: number } | null, res: Resolution,
+  x0: number,
+  x1: number,
+  y0: number,
+  y1: number,
+  z0: number,
+  z1: number,
+  hole: { diameterMm: number; x: number; z: number } | null,
+  res: Resolution,
 ): Geom3 {
-  const outline: Vec2[] = [[x0, z0], [x1, z0], [x1, z1], [x0, z1]];
+  const outline: Vec2[] = [
+    [x0, z0],
+    [x1, z0],
+    [x1, z1],
+    [x0, z1],
+  ];
   return extrudeAlongY(region(outline, hole ? [holePath(hole.diameterMm, res, [hole.x, hole.z])] : []), y0, y1);
 }
 
 /** Same along x: a block with a round hole along x through (holeY, holeZ). */
 export function blockWithHoleAlongX(
-  x0: number, x1: number, y0: number, y1: number, z0: number, z1: number,
-  hole: { diameterMm: number; y: number; z: number } | null, res: Resolution,
+  x0: number,
+  x1: number,
+  y0: number,
+  y1: number,
+  z0: number,
+  z1: number,
+  hole: { diameterMm: number; y: number; z: number } | null,
+  res: Resolution,
 ): Geom3 {
-  const outline: Vec2[] = [[y0, z0], [y1, z0], [y1, z1], [y0, z1]];
+  const outline: Vec2[] = [
+    [y0, z0],
+    [y1, z0],
+    [y1, z1],
+    [y0, z1],
+  ];
   return extrudeAlongX(region(outline, hole ? [holePath(hole.diameterMm, res, [hole.y, hole.z])] : []), x0, x1);
 }
 
@@ -290,7 +325,11 @@ export function solidOfMesh(mesh: GeneratedMesh): Geom3 {
   const p = mesh.positions;
   const faces: [number, number, number][][] = [];
   for (let i = 0; i + 8 < p.length; i += 9) {
-    faces.push([[p[i], p[i + 1], p[i + 2]], [p[i + 3], p[i + 4], p[i + 5]], [p[i + 6], p[i + 7], p[i + 8]]]);
+    faces.push([
+      [p[i], p[i + 1], p[i + 2]],
+      [p[i + 3], p[i + 4], p[i + 5]],
+      [p[i + 6], p[i + 7], p[i + 8]],
+    ]);
   }
   return geometries.geom3.fromPoints(faces);
 }

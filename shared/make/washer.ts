@@ -50,17 +50,41 @@ function recessDiameter(screw: WasherParams['screw'], recess: 'counterbore' | 'h
 export const washer: Generator<typeof washerSchema> = {
   kind: 'washer',
   title: 'Washer or spacer',
-  summary: 'A flat ring for one screw, with the clearance hole from the standard table, any outside size and thickness, and an optional counterbore or nut pocket.',
+  summary:
+    'A flat ring for one screw, with the clearance hole from the standard table, any outside size and thickness, and an optional counterbore or nut pocket.',
   schema: washerSchema,
   defaults: { screw: '1/4-20', clearance: 'normal', outerDiameterMm: 12, thicknessMm: 2, recess: 'none', recessDepthMm: 2, resolution: 'default' },
   fields: [
     { key: 'screw', label: 'Screw', kind: 'choice', options: SCREWS.map((s) => ({ value: s, label: SCREW_LABELS[s] })) },
-    { key: 'clearance', label: 'Clearance', kind: 'choice', options: CLEARANCES.map((c) => ({ value: c, label: c })), help: 'ASME B18.2.8 for inch screws, ISO 273 fine / medium / coarse for metric.' },
+    {
+      key: 'clearance',
+      label: 'Clearance',
+      kind: 'choice',
+      options: CLEARANCES.map((c) => ({ value: c, label: c })),
+      help: 'ASME B18.2.8 for inch screws, ISO 273 fine / medium / coarse for metric.',
+    },
     { key: 'outerDiameterMm', label: 'Outside diameter', kind: 'length', unit: 'mm', min: 4, max: 120, step: 0.1 },
     { key: 'thicknessMm', label: 'Thickness', kind: 'length', unit: 'mm', min: 0.4, max: 60, step: 0.1 },
-    { key: 'recess', label: 'Recess', kind: 'choice', options: [{ value: 'none', label: 'none' }, { value: 'counterbore', label: 'counterbore for a socket head' }, { value: 'hex', label: 'hex nut pocket' }] },
+    {
+      key: 'recess',
+      label: 'Recess',
+      kind: 'choice',
+      options: [
+        { value: 'none', label: 'none' },
+        { value: 'counterbore', label: 'counterbore for a socket head' },
+        { value: 'hex', label: 'hex nut pocket' },
+      ],
+    },
     { key: 'recessDepthMm', label: 'Recess depth', kind: 'length', unit: 'mm', min: 0.4, max: 40, step: 0.1 },
-    { key: 'resolution', label: 'Resolution', kind: 'choice', options: [{ value: 'default', label: 'default' }, { value: 'fine', label: 'fine' }] },
+    {
+      key: 'resolution',
+      label: 'Resolution',
+      kind: 'choice',
+      options: [
+        { value: 'default', label: 'default' },
+        { value: 'fine', label: 'fine' },
+      ],
+    },
   ],
   generate(input, corrections) {
     const p = washerSchema.parse(input);
@@ -85,10 +109,13 @@ export const washer: Generator<typeof washerSchema> = {
       } else {
         pocket = holePath(book.hole('Counterbore', recessDiameter(p.screw, 'counterbore')), p.resolution);
       }
-      mesh = stackLayers([
-        { region: region(outline, [holeLoop]), z0: 0, z1: p.thicknessMm - depth },
-        { region: region(outline, [pocket]), z0: p.thicknessMm - depth, z1: p.thicknessMm },
-      ], [{ up: region(reversed(pocket), [holeLoop]) }]);
+      mesh = stackLayers(
+        [
+          { region: region(outline, [holeLoop]), z0: 0, z1: p.thicknessMm - depth },
+          { region: region(outline, [pocket]), z0: p.thicknessMm - depth, z1: p.thicknessMm },
+        ],
+        [{ up: region(reversed(pocket), [holeLoop]) }],
+      );
       book.notes.push(`${p.recess === 'hex' ? 'Nut pocket' : 'Counterbore'} ${formatMm(depth)} deep on the top face.`);
     }
     const warnings: string[] = [];

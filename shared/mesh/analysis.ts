@@ -3,15 +3,7 @@
 import { MODEL_LIMITS } from '../uploads';
 import { detectStlFormat, declaredFacetCount, nonFiniteFacet, readAsciiStl, readBinaryStl } from './stl';
 import { isZip, read3mf } from './threemf';
-import {
-  type AnalyseFileOptions,
-  type AnalyseOptions,
-  type FacetSink,
-  type MeshAnalysis,
-  MeshError,
-  type ModelFileAnalysis,
-  type Vec3,
-} from './types';
+import { type AnalyseFileOptions, type AnalyseOptions, type FacetSink, type MeshAnalysis, MeshError, type ModelFileAnalysis, type Vec3 } from './types';
 
 export const MM_PER_INCH = 25.4;
 
@@ -27,7 +19,14 @@ const U32 = new Uint32Array(F32.buffer);
 const NEGATIVE_ZERO_BITS = 0x80000000;
 
 // Slots in MeshAccumulator.sums.
-const MIN_X = 0, MIN_Y = 1, MIN_Z = 2, MAX_X = 3, MAX_Y = 4, MAX_Z = 5, DOUBLE_AREA = 6, SIX_VOLUME = 7;
+const MIN_X = 0,
+  MIN_Y = 1,
+  MIN_Z = 2,
+  MAX_X = 3,
+  MAX_Y = 4,
+  MAX_Z = 5,
+  DOUBLE_AREA = 6,
+  SIX_VOLUME = 7;
 
 /**
  * Welds vertices whose float32 coordinates are equal, with an open-addressing hash table keyed
@@ -159,9 +158,15 @@ export class MeshAccumulator implements FacetSink {
     const f = this.facets;
     if (f === this.flags.length) this.grow();
 
-    const ux = bx - ax, uy = by - ay, uz = bz - az;
-    const vx = cx - ax, vy = cy - ay, vz = cz - az;
-    const nx = uy * vz - uz * vy, ny = uz * vx - ux * vz, nz = ux * vy - uy * vx;
+    const ux = bx - ax,
+      uy = by - ay,
+      uz = bz - az;
+    const vx = cx - ax,
+      vy = cy - ay,
+      vz = cz - az;
+    const nx = uy * vz - uz * vy,
+      ny = uz * vx - ux * vz,
+      nz = ux * vy - uy * vx;
     const cross2 = nx * nx + ny * ny + nz * nz;
     if (!(cross2 < Infinity)) throw nonFiniteFacet(f);
     const s = this.sums;
@@ -280,7 +285,14 @@ export class MeshAccumulator implements FacetSink {
  * apart when a rounding boundary falls between them; the chance is their distance over the
  * tolerance, so hairline seams (1e-15 mm from trigonometry) almost always close.
  */
-function weldWithinTolerance(coords: Float32Array, vertices: number, tolerance: number, ox: number, oy: number, oz: number): { remap: Uint32Array; merged: number } {
+function weldWithinTolerance(
+  coords: Float32Array,
+  vertices: number,
+  tolerance: number,
+  ox: number,
+  oy: number,
+  oz: number,
+): { remap: Uint32Array; merged: number } {
   const remap = new Uint32Array(vertices);
   if (!(tolerance > 0)) {
     for (let v = 0; v < vertices; v++) remap[v] = v;
@@ -338,7 +350,9 @@ function countEdgeUse(ids: Uint32Array, flags: Uint8Array, vertices: number): { 
   let halfEdges = 0;
   for (let f = 0, k = 0; f < flags.length; f++, k += 3) {
     if (flags[f]) continue;
-    const a = ids[k], b = ids[k + 1], c = ids[k + 2];
+    const a = ids[k],
+      b = ids[k + 1],
+      c = ids[k + 2];
     offsets[a < b ? a : b]++;
     offsets[b < c ? b : c]++;
     offsets[c < a ? c : a]++;
@@ -354,10 +368,15 @@ function countEdgeUse(ids: Uint32Array, flags: Uint8Array, vertices: number): { 
   const partners = new Uint32Array(halfEdges);
   for (let f = 0, k = 0; f < flags.length; f++, k += 3) {
     if (flags[f]) continue;
-    const a = ids[k], b = ids[k + 1], c = ids[k + 2];
-    if (a < b) partners[--offsets[a]] = b * 2; else partners[--offsets[b]] = a * 2 + 1;
-    if (b < c) partners[--offsets[b]] = c * 2; else partners[--offsets[c]] = b * 2 + 1;
-    if (c < a) partners[--offsets[c]] = a * 2; else partners[--offsets[a]] = c * 2 + 1;
+    const a = ids[k],
+      b = ids[k + 1],
+      c = ids[k + 2];
+    if (a < b) partners[--offsets[a]] = b * 2;
+    else partners[--offsets[b]] = a * 2 + 1;
+    if (b < c) partners[--offsets[b]] = c * 2;
+    else partners[--offsets[c]] = b * 2 + 1;
+    if (c < a) partners[--offsets[c]] = a * 2;
+    else partners[--offsets[a]] = c * 2 + 1;
   }
   // offsets[v] now marks the start of vertex v's bucket.
 
@@ -368,7 +387,7 @@ function countEdgeUse(ids: Uint32Array, flags: Uint8Array, vertices: number): { 
     const start = offsets[v];
     const stop = offsets[v + 1];
     if (stop - start > 1) sortRange(partners, start, stop);
-    for (let i = start; i < stop; ) {
+    for (let i = start; i < stop;) {
       const partner = partners[i] >>> 1;
       let j = i + 1;
       while (j < stop && partners[j] >>> 1 === partner) j++;
@@ -403,7 +422,9 @@ function countShells(ids: Uint32Array, flags: Uint8Array, vertices: number): num
   const parent = new Int32Array(vertices).fill(-1); // -1: not used by any solid facet
   for (let f = 0, k = 0; f < flags.length; f++, k += 3) {
     if (flags[f]) continue;
-    const a = ids[k], b = ids[k + 1], c = ids[k + 2];
+    const a = ids[k],
+      b = ids[k + 1],
+      c = ids[k + 2];
     if (parent[a] < 0) parent[a] = a;
     if (parent[b] < 0) parent[b] = b;
     if (parent[c] < 0) parent[c] = c;
@@ -456,7 +477,9 @@ function orientShells(ids: Uint32Array, flags: Uint8Array, coords: Float32Array,
   const offsets = new Uint32Array(vertices + 1);
   for (let f = 0, k = 0; f < facets; f++, k += 3) {
     if (flags[f]) continue;
-    const a = ids[k], b = ids[k + 1], c = ids[k + 2];
+    const a = ids[k],
+      b = ids[k + 1],
+      c = ids[k + 2];
     offsets[a < b ? a : b]++;
     offsets[b < c ? b : c]++;
     offsets[c < a ? c : a]++;
@@ -469,7 +492,8 @@ function orientShells(ids: Uint32Array, flags: Uint8Array, coords: Float32Array,
   for (let f = 0, k = 0; f < facets; f++, k += 3) {
     if (flags[f]) continue;
     for (let h = k; h < k + 3; h++) {
-      const a = ids[h], b = ids[next(h)];
+      const a = ids[h],
+        b = ids[next(h)];
       halves[--offsets[a < b ? a : b]] = h;
     }
   }
@@ -501,7 +525,8 @@ function orientShells(ids: Uint32Array, flags: Uint8Array, coords: Float32Array,
 
   let unorientable = 0;
   for (let v = 0; v < vertices; v++) {
-    const start = offsets[v], stop = offsets[v + 1];
+    const start = offsets[v],
+      stop = offsets[v + 1];
     // Insertion sort by the other end: buckets are small.
     for (let i = start + 1; i < stop; i++) {
       const h = halves[i];
@@ -513,16 +538,20 @@ function orientShells(ids: Uint32Array, flags: Uint8Array, coords: Float32Array,
       }
       halves[j + 1] = h;
     }
-    for (let i = start; i < stop; ) {
+    for (let i = start; i < stop;) {
       let j = i + 1;
       while (j < stop && higher(halves[j]) === higher(halves[i])) j++;
       if (j - i === 2) {
-        const h1 = halves[i], h2 = halves[i + 1];
+        const h1 = halves[i],
+          h2 = halves[i + 1];
         // Same direction along the edge: one of the two facets must be flipped.
         const flip = ids[h1] === ids[h2] ? 1 : 0;
-        const f1 = (h1 / 3) | 0, f2 = (h2 / 3) | 0;
-        const r1 = root(f1), r2 = root(f2);
-        const p1 = parity[f1] & (f1 === r1 ? 0 : 1), p2 = parity[f2] & (f2 === r2 ? 0 : 1);
+        const f1 = (h1 / 3) | 0,
+          f2 = (h2 / 3) | 0;
+        const r1 = root(f1),
+          r2 = root(f2);
+        const p1 = parity[f1] & (f1 === r1 ? 0 : 1),
+          p2 = parity[f2] & (f2 === r2 ? 0 : 1);
         if (r1 === r2) {
           if ((p1 ^ p2) !== flip) unorientable++;
         } else {
@@ -548,10 +577,18 @@ function orientShells(ids: Uint32Array, flags: Uint8Array, coords: Float32Array,
     const p = f === r ? 0 : parity[f];
     patchOf[f] = r;
     camp[r] += p ? 1 : -1;
-    const a = ids[k] * 3, b = ids[k + 1] * 3, c = ids[k + 2] * 3;
-    const ax = coords[a] - ox, ay = coords[a + 1] - oy, az = coords[a + 2] - oz;
-    const bx = coords[b] - ox, by = coords[b + 1] - oy, bz = coords[b + 2] - oz;
-    const cx = coords[c] - ox, cy = coords[c + 1] - oy, cz = coords[c + 2] - oz;
+    const a = ids[k] * 3,
+      b = ids[k + 1] * 3,
+      c = ids[k + 2] * 3;
+    const ax = coords[a] - ox,
+      ay = coords[a + 1] - oy,
+      az = coords[a + 2] - oz;
+    const bx = coords[b] - ox,
+      by = coords[b + 1] - oy,
+      bz = coords[b + 2] - oz;
+    const cx = coords[c] - ox,
+      cy = coords[c + 1] - oy,
+      cz = coords[c + 2] - oz;
     const v6 = ax * (by * cz - bz * cy) + ay * (bz * cx - bx * cz) + az * (bx * cy - by * cx);
     sixVolume[r] += p ? -v6 : v6;
   }
@@ -585,25 +622,41 @@ function orientShells(ids: Uint32Array, flags: Uint8Array, coords: Float32Array,
 /** Casts a ray from a corner of the patch and counts crossings of other patches' facets (odd means inside). */
 function insideAnotherPatch(patch: number, ids: Uint32Array, coords: Float32Array, patchOf: Int32Array): boolean {
   const p = ids[patch * 3] * 3;
-  const px = coords[p], py = coords[p + 1], pz = coords[p + 2];
+  const px = coords[p],
+    py = coords[p + 1],
+    pz = coords[p + 2];
   // An oblique direction, so the ray is unlikely to graze an edge of an axis-aligned mesh.
-  const dx = 0.5773502691896258, dy = 0.5776502691896258, dz = 0.5770502691896258;
+  const dx = 0.5773502691896258,
+    dy = 0.5776502691896258,
+    dz = 0.5770502691896258;
   let crossings = 0;
   for (let f = 0, k = 0; f < patchOf.length; f++, k += 3) {
     const other = patchOf[f];
     if (other < 0 || other === patch) continue;
     // Möller–Trumbore ray–triangle intersection.
-    const a = ids[k] * 3, b = ids[k + 1] * 3, c = ids[k + 2] * 3;
-    const e1x = coords[b] - coords[a], e1y = coords[b + 1] - coords[a + 1], e1z = coords[b + 2] - coords[a + 2];
-    const e2x = coords[c] - coords[a], e2y = coords[c + 1] - coords[a + 1], e2z = coords[c + 2] - coords[a + 2];
-    const hx = dy * e2z - dz * e2y, hy = dz * e2x - dx * e2z, hz = dx * e2y - dy * e2x;
+    const a = ids[k] * 3,
+      b = ids[k + 1] * 3,
+      c = ids[k + 2] * 3;
+    const e1x = coords[b] - coords[a],
+      e1y = coords[b + 1] - coords[a + 1],
+      e1z = coords[b + 2] - coords[a + 2];
+    const e2x = coords[c] - coords[a],
+      e2y = coords[c + 1] - coords[a + 1],
+      e2z = coords[c + 2] - coords[a + 2];
+    const hx = dy * e2z - dz * e2y,
+      hy = dz * e2x - dx * e2z,
+      hz = dx * e2y - dy * e2x;
     const det = e1x * hx + e1y * hy + e1z * hz;
     if (det === 0) continue;
     const inv = 1 / det;
-    const sx = px - coords[a], sy = py - coords[a + 1], sz = pz - coords[a + 2];
+    const sx = px - coords[a],
+      sy = py - coords[a + 1],
+      sz = pz - coords[a + 2];
     const u = (sx * hx + sy * hy + sz * hz) * inv;
     if (u < 0 || u > 1) continue;
-    const qx = sy * e1z - sz * e1y, qy = sz * e1x - sx * e1z, qz = sx * e1y - sy * e1x;
+    const qx = sy * e1z - sz * e1y,
+      qy = sz * e1x - sx * e1z,
+      qz = sx * e1y - sy * e1x;
     const w = (dx * qx + dy * qy + dz * qz) * inv;
     if (w < 0 || u + w > 1) continue;
     if ((e2x * qx + e2y * qy + e2z * qz) * inv > 0) crossings++;
@@ -656,9 +709,7 @@ function describeProblems(m: MeshAnalysis, unorientable: number): string[] {
     warnings.push(`${parts.join(' and ')}, so zero area; they add nothing to the shape and can upset repair tools.`);
   }
   if (m.shells > 1) {
-    warnings.push(
-      `The model is made of ${m.shells} separate shells. That is fine for a kit of parts; if it should print as one piece, join them.`,
-    );
+    warnings.push(`The model is made of ${m.shells} separate shells. That is fine for a kit of parts; if it should print as one piece, join them.`);
   }
   const largest = Math.max(...m.sizeMm);
   if (largest < TINY_PART_MM) {

@@ -158,9 +158,15 @@ export function readBinaryStlFacets(records: Uint8Array, firstFacet: number, sin
   // Start at the first vertex: the stored normal is ignored because the winding defines it.
   let o = 12;
   for (let f = 0; f < facets; f++, o += FACET_BYTES) {
-    const ax = view.getFloat32(o, true), ay = view.getFloat32(o + 4, true), az = view.getFloat32(o + 8, true);
-    const bx = view.getFloat32(o + 12, true), by = view.getFloat32(o + 16, true), bz = view.getFloat32(o + 20, true);
-    const cx = view.getFloat32(o + 24, true), cy = view.getFloat32(o + 28, true), cz = view.getFloat32(o + 32, true);
+    const ax = view.getFloat32(o, true),
+      ay = view.getFloat32(o + 4, true),
+      az = view.getFloat32(o + 8, true);
+    const bx = view.getFloat32(o + 12, true),
+      by = view.getFloat32(o + 16, true),
+      bz = view.getFloat32(o + 20, true);
+    const cx = view.getFloat32(o + 24, true),
+      cy = view.getFloat32(o + 28, true),
+      cz = view.getFloat32(o + 32, true);
     // One test for all nine: float32 values cannot overflow a double sum, so only NaN or ±Infinity makes s − s non-zero.
     const s = ax + ay + az + bx + by + bz + cx + cy + cz;
     if (s - s !== 0) throw nonFiniteFacet(firstFacet + f);
@@ -345,9 +351,15 @@ export class PositionCollector implements FacetSink {
     if (this.length + 9 > this.data.length) this.grow();
     const d = this.data;
     const i = this.length;
-    d[i] = ax; d[i + 1] = ay; d[i + 2] = az;
-    d[i + 3] = bx; d[i + 4] = by; d[i + 5] = bz;
-    d[i + 6] = cx; d[i + 7] = cy; d[i + 8] = cz;
+    d[i] = ax;
+    d[i + 1] = ay;
+    d[i + 2] = az;
+    d[i + 3] = bx;
+    d[i + 4] = by;
+    d[i + 5] = bz;
+    d[i + 6] = cx;
+    d[i + 7] = cy;
+    d[i + 8] = cz;
     this.length = i + 9;
   }
 

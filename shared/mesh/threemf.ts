@@ -233,7 +233,7 @@ function readCentralDirectory(bytes: Uint8Array): Map<string, ZipEntry> {
 }
 
 function readZip64Extra(view: DataView, start: number, length: number, entry: ZipEntry): void {
-  for (let at = start; at + 4 <= start + length; ) {
+  for (let at = start; at + 4 <= start + length;) {
     const id = view.getUint16(at, true);
     const size = view.getUint16(at + 2, true);
     if (id === 0x0001) {
@@ -269,7 +269,10 @@ function inflateWithin(data: Uint8Array, declared: number, name: string): Uint8A
   let length = 0;
   const inflater = new Inflate((chunk) => {
     if (length + chunk.length > declared) {
-      throw new MeshError('zip_bomb', `The 3MF entry "${name}" inflates beyond the ${mb(declared)} its directory declares, so its sizes lie; the file is refused.`);
+      throw new MeshError(
+        'zip_bomb',
+        `The 3MF entry "${name}" inflates beyond the ${mb(declared)} its directory declares, so its sizes lie; the file is refused.`,
+      );
     }
     out.set(chunk, length);
     length += chunk.length;
@@ -433,7 +436,10 @@ class ModelPartBuilder {
       const list = this.current.triangles;
       const index = list.length / 3;
       if (++this.stored.triangles > this.stored.max) {
-        throw new MeshError('too_large', `The 3MF model stores more than ${this.stored.max.toLocaleString('en-US')} triangles, the most we accept; simplify the mesh.`);
+        throw new MeshError(
+          'too_large',
+          `The 3MF model stores more than ${this.stored.max.toLocaleString('en-US')} triangles, the most we accept; simplify the mesh.`,
+        );
       }
       list.push(this.index(attrs, 'v1', index));
       list.push(this.index(attrs, 'v2', index));
@@ -548,7 +554,9 @@ function compose(first: Matrix | null, then: Matrix | null): Matrix | null {
   if (!then) return first;
   const out = new Float64Array(12);
   for (let row = 0; row < 4; row++) {
-    const x = first[row * 3], y = first[row * 3 + 1], z = first[row * 3 + 2];
+    const x = first[row * 3],
+      y = first[row * 3 + 1],
+      z = first[row * 3 + 2];
     const w = row === 3 ? 1 : 0; // the last row is a point (translation), the others directions
     for (let col = 0; col < 3; col++) {
       out[row * 3 + col] = x * then[col] + y * then[3 + col] + z * then[6 + col] + w * then[9 + col];
@@ -564,7 +572,9 @@ function determinant(m: Matrix): number {
 function transformVertices(v: Float64Array, m: Matrix): Float64Array {
   const out = new Float64Array(v.length);
   for (let i = 0; i < v.length; i += 3) {
-    const x = v[i], y = v[i + 1], z = v[i + 2];
+    const x = v[i],
+      y = v[i + 1],
+      z = v[i + 2];
     out[i] = x * m[0] + y * m[3] + z * m[6] + m[9];
     out[i + 1] = x * m[1] + y * m[4] + z * m[7] + m[10];
     out[i + 2] = x * m[2] + y * m[5] + z * m[8] + m[11];
@@ -585,9 +595,7 @@ class BuildResolver {
   /** Build items, or every object with a mesh once when the build lists none. */
   private placements(): Placement[] {
     if (this.root.items.length > 0) return this.root.items;
-    return [...this.root.objects.values()]
-      .filter((def) => def.triangles.length > 0)
-      .map((def) => ({ objectId: def.id, path: undefined, transform: null }));
+    return [...this.root.objects.values()].filter((def) => def.triangles.length > 0).map((def) => ({ objectId: def.id, path: undefined, transform: null }));
   }
 
   countTriangles(): number {
@@ -618,10 +626,16 @@ class BuildResolver {
     const known = this.counts.get(def);
     if (known !== undefined) return known;
     if (visiting.has(def)) {
-      throw new MeshError('component_cycle', `Object ${def.id} in the 3MF model contains itself through its components; the file is damaged — export it again.`);
+      throw new MeshError(
+        'component_cycle',
+        `Object ${def.id} in the 3MF model contains itself through its components; the file is damaged — export it again.`,
+      );
     }
     if (visiting.size >= MAX_COMPONENT_DEPTH) {
-      throw new MeshError('too_deep', `The 3MF model nests components more than ${MAX_COMPONENT_DEPTH} deep, which no printable part needs; flatten it and export it again.`);
+      throw new MeshError(
+        'too_deep',
+        `The 3MF model nests components more than ${MAX_COMPONENT_DEPTH} deep, which no printable part needs; flatten it and export it again.`,
+      );
     }
     visiting.add(def);
     let total = def.triangles.length / 3;

@@ -82,11 +82,7 @@ export interface AnalyseFileOptions {
 
 /** Receives triangles one at a time, so readers need not build a position array. */
 export interface FacetSink {
-  addFacet(
-    ax: number, ay: number, az: number,
-    bx: number, by: number, bz: number,
-    cx: number, cy: number, cz: number,
-  ): void;
+  addFacet(ax: number, ay: number, az: number, bx: number, by: number, bz: number, cx: number, cy: number, cz: number): void;
 }
 
 export type MeshErrorCode =

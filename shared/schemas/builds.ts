@@ -18,7 +18,11 @@ export const buildSizeSchema = z.object({
     .number({ error: 'Give the size in millimetres.' })
     .positive('A size must be more than 0 mm.')
     .max(2000, 'That is more than 2 m; check the unit (sizes are in millimetres).'),
-  tolMm: z.coerce.number({ error: 'Give the tolerance in millimetres.' }).min(0, 'A tolerance cannot be negative.').max(50, 'Keep the tolerance at 50 mm or less.').default(0),
+  tolMm: z.coerce
+    .number({ error: 'Give the tolerance in millimetres.' })
+    .min(0, 'A tolerance cannot be negative.')
+    .max(50, 'Keep the tolerance at 50 mm or less.')
+    .default(0),
 });
 export type BuildSize = z.output<typeof buildSizeSchema>;
 
@@ -30,7 +34,11 @@ export const buildMountsSchema = z
     const out: MountSlug[] = [];
     for (const value of values) {
       const slug = resolveMount(value);
-      if (!slug) ctx.addIssue({ code: 'custom', message: `Unknown mount standard "${value}". Choose one from the list (e.g. 15 mm rods at 60 mm, V-style battery plate, 1/4-20).` });
+      if (!slug)
+        ctx.addIssue({
+          code: 'custom',
+          message: `Unknown mount standard "${value}". Choose one from the list (e.g. 15 mm rods at 60 mm, V-style battery plate, 1/4-20).`,
+        });
       else if (!out.includes(slug)) out.push(slug);
     }
     return out;
@@ -67,7 +75,10 @@ export const buildPatchSchema = z
       mounts: buildMountsSchema.optional(),
       keySizes: z.array(buildSizeSchema).max(MAX_BUILD_SIZES, `List at most ${MAX_BUILD_SIZES} key sizes.`).optional(),
     },
-    { error: (issue) => (issue.code === 'unrecognized_keys' ? `A build has name, body, mounts and keySizes; "${issue.keys.join('", "')}" is not one of them.` : undefined) },
+    {
+      error: (issue) =>
+        issue.code === 'unrecognized_keys' ? `A build has name, body, mounts and keySizes; "${issue.keys.join('", "')}" is not one of them.` : undefined,
+    },
   )
   .refine((v) => Object.keys(v).length > 0, { message: 'Send at least one of name, body, mounts or keySizes to change.' });
 export type BuildPatch = z.input<typeof buildPatchSchema>;

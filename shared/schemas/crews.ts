@@ -70,7 +70,10 @@ export const crewMemberPatchSchema = z.object({ role: crewRole });
 export type CrewMemberPatch = z.output<typeof crewMemberPatchSchema>;
 
 const positive = (what: string) =>
-  z.coerce.number({ error: `The ${what} must be a number.` }).int(`The ${what} must be a whole number.`).positive(`The ${what} must be a positive number.`);
+  z.coerce
+    .number({ error: `The ${what} must be a number.` })
+    .int(`The ${what} must be a whole number.`)
+    .positive(`The ${what} must be a positive number.`);
 
 export const crewParamsSchema = z.object({ id: positive('crew id') });
 export const crewMemberParamsSchema = z.object({ id: positive('crew id'), userId: positive('member id') });
@@ -80,8 +83,7 @@ export const invitationTokenParamsSchema = z.object({
 });
 
 /** Who sees a part: everyone on the shelf, or the members of one crew (and moderators). */
-export const partVisibilitySchema = z.union(
-  [z.literal('everyone'), z.object({ crewId: positive('crew id') }).strict()],
-  { error: 'Choose who sees the part: "everyone" or { "crewId": <one of your crews> }.' },
-);
+export const partVisibilitySchema = z.union([z.literal('everyone'), z.object({ crewId: positive('crew id') }).strict()], {
+  error: 'Choose who sees the part: "everyone" or { "crewId": <one of your crews> }.',
+});
 export type PartVisibility = z.output<typeof partVisibilitySchema>;

@@ -16,8 +16,15 @@ export type RatingInput = z.infer<typeof ratingSchema>;
 export const setReportSchema = z
   .object({
     production: z.string({ error: 'Name the production or job.' }).trim().min(2, 'Name the production or job.').max(120, 'Keep it under 120 characters.'),
-    daysInUse: z.coerce.number({ error: 'Say how many days it was in use.' }).int('Use whole days.').min(1, 'At least one day.').max(3650, 'That is more than ten years.'),
-    conditions: z.array(z.enum(SET_CONDITION_KEYS, { error: 'Pick conditions from the list.' })).max(SET_CONDITION_KEYS.length).default([]),
+    daysInUse: z.coerce
+      .number({ error: 'Say how many days it was in use.' })
+      .int('Use whole days.')
+      .min(1, 'At least one day.')
+      .max(3650, 'That is more than ten years.'),
+    conditions: z
+      .array(z.enum(SET_CONDITION_KEYS, { error: 'Pick conditions from the list.' }))
+      .max(SET_CONDITION_KEYS.length)
+      .default([]),
     recipeId: z.coerce.number().int().positive().nullable().optional(),
     material: z.enum(MATERIAL_IDS, { error: 'Choose the material it was printed in.' }).optional(),
     infillPct: z.coerce.number().min(0).max(100, 'Infill is at most 100 %.').optional(),

@@ -10,7 +10,10 @@ const recipe = recipeSchema.shape;
 export const MAX_CORRECTION_MM = 1;
 
 const positiveId = (what: string) =>
-  z.number({ error: `Give the ${what} as a number.` }).int(`Give the ${what} as a whole number.`).positive(`Give the ${what} as a positive number.`);
+  z
+    .number({ error: `Give the ${what} as a number.` })
+    .int(`Give the ${what} as a whole number.`)
+    .positive(`Give the ${what} as a positive number.`);
 
 /** How the made part would be printed, for the estimate; anything left out takes the default. */
 export const makeRecipeSchema = z
@@ -32,7 +35,10 @@ export const makeRequestSchema = z.object({
   /** One of the member's printers: its calibration for the material is applied, and its bed checked. */
   printerId: positiveId('printer id').nullable().optional(),
   material: z.enum(MATERIAL_IDS, { error: `Choose the material: ${MATERIAL_IDS.join(', ')}.` }).default('PETG'),
-  exposure: z.enum(HEAT_EXPOSURES, { error: `Choose the heat it will see: ${HEAT_EXPOSURES.join(', ')}, or none.` }).nullable().optional(),
+  exposure: z
+    .enum(HEAT_EXPOSURES, { error: `Choose the heat it will see: ${HEAT_EXPOSURES.join(', ')}, or none.` })
+    .nullable()
+    .optional(),
   recipe: makeRecipeSchema.default({}),
 });
 export type MakeRequest = z.infer<typeof makeRequestSchema>;
@@ -73,7 +79,11 @@ export const calibrationSchema = z
       .min(1, 'The gauge’s size must be between 1 and 100 mm.')
       .max(100, 'The gauge’s size must be between 1 and 100 mm.'),
     holeFitMm: z.number({ error: 'Enter the size printed beside the bore that fitted, in mm.' }).positive('The bore that fitted must be more than 0 mm.'),
-    outerFitMm: z.number({ error: 'Enter the size printed beside the peg that fitted, in mm.' }).positive('The peg that fitted must be more than 0 mm.').nullable().optional(),
+    outerFitMm: z
+      .number({ error: 'Enter the size printed beside the peg that fitted, in mm.' })
+      .positive('The peg that fitted must be more than 0 mm.')
+      .nullable()
+      .optional(),
   })
   .superRefine((c, ctx) => {
     const far = (fit: number) => Math.abs(fit - c.nominalMm) > MAX_CORRECTION_MM + 1e-9;

@@ -18,7 +18,10 @@ export const noticePreferenceSchema = z.object({
 export type NoticePreferenceInput = z.infer<typeof noticePreferenceSchema>;
 
 export const noticePreferencesSchema = z.object({
-  preferences: z.array(noticePreferenceSchema).min(1, 'Send at least one kind of notice.').max(ALERT_KINDS.length * 2),
+  preferences: z
+    .array(noticePreferenceSchema)
+    .min(1, 'Send at least one kind of notice.')
+    .max(ALERT_KINDS.length * 2),
 });
 export type NoticePreferencesInput = z.infer<typeof noticePreferencesSchema>;
 

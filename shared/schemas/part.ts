@@ -6,9 +6,20 @@ import { boolish } from '../validation';
 import { partVisibilitySchema } from './crews';
 
 export const keyDimensionSchema = z.object({
-  name: z.string({ error: 'Name the dimension, e.g. "rod bore".' }).trim().min(2, 'Name the dimension, e.g. "rod bore".').max(60, 'Keep the name under 60 characters.'),
-  valueMm: z.coerce.number({ error: 'Give the value in millimetres.' }).positive('The value must be more than 0 mm.').max(2000, 'That is more than 2 m; check the unit.'),
-  tolMm: z.coerce.number({ error: 'Give the tolerance in millimetres.' }).min(0, 'A tolerance cannot be negative.').max(50, 'A tolerance over 50 mm is not a key dimension.').default(0),
+  name: z
+    .string({ error: 'Name the dimension, e.g. "rod bore".' })
+    .trim()
+    .min(2, 'Name the dimension, e.g. "rod bore".')
+    .max(60, 'Keep the name under 60 characters.'),
+  valueMm: z.coerce
+    .number({ error: 'Give the value in millimetres.' })
+    .positive('The value must be more than 0 mm.')
+    .max(2000, 'That is more than 2 m; check the unit.'),
+  tolMm: z.coerce
+    .number({ error: 'Give the tolerance in millimetres.' })
+    .min(0, 'A tolerance cannot be negative.')
+    .max(50, 'A tolerance over 50 mm is not a key dimension.')
+    .default(0),
 });
 export type KeyDimension = z.infer<typeof keyDimensionSchema>;
 
@@ -32,7 +43,11 @@ export const safetySchema = z.object({
 
 export const madeWithSchema = z.object(
   {
-    kind: z.string({ error: 'Say which maker the part was made with.' }).trim().min(1, 'Say which maker the part was made with.').max(40, 'That is not one of the makers.'),
+    kind: z
+      .string({ error: 'Say which maker the part was made with.' })
+      .trim()
+      .min(1, 'Say which maker the part was made with.')
+      .max(40, 'That is not one of the makers.'),
     params: z.record(z.string(), z.unknown(), { error: 'Send the maker’s sizes as "params".' }),
   },
   { error: 'Send the maker as { kind, params }.' },
@@ -40,8 +55,17 @@ export const madeWithSchema = z.object(
 
 /** The editable properties of a part, without defaults: an update changes only what it names. */
 const partFields = {
-  title: z.string({ error: 'Give the part a title.' }).trim().min(1, 'Give the part a title.').min(3, 'Use at least 3 characters for the title.').max(120, 'Keep the title under 120 characters.'),
-  summary: z.string({ error: 'Say in a line what the part is for.' }).trim().min(10, 'Say in a line what the part is for (at least 10 characters).').max(280, 'Keep the summary under 280 characters.'),
+  title: z
+    .string({ error: 'Give the part a title.' })
+    .trim()
+    .min(1, 'Give the part a title.')
+    .min(3, 'Use at least 3 characters for the title.')
+    .max(120, 'Keep the title under 120 characters.'),
+  summary: z
+    .string({ error: 'Say in a line what the part is for.' })
+    .trim()
+    .min(10, 'Say in a line what the part is for (at least 10 characters).')
+    .max(280, 'Keep the summary under 280 characters.'),
   description: z.string().max(20_000, 'Keep the description under 20,000 characters.'),
   category: z.enum(CATEGORY_SLUGS, { error: 'Choose a category from the list.' }),
   bodies: z.array(z.string().trim().min(1)).max(30, 'List at most 30 camera bodies.'),

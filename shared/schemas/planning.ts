@@ -33,7 +33,10 @@ function money(what: string, max = 1_000_000) {
 }
 
 function positiveId(what: string) {
-  return z.number({ error: `Give the ${what} as a number.` }).int(`Give the ${what} as a whole number.`).positive(`Give the ${what} as a positive number.`);
+  return z
+    .number({ error: `Give the ${what} as a number.` })
+    .int(`Give the ${what} as a whole number.`)
+    .positive(`Give the ${what} as a positive number.`);
 }
 
 const side = (what: string) =>
@@ -53,8 +56,16 @@ const layerMessage = `The layer is too thick for the nozzle; use at most ${MAX_L
 export const estimateSchema = z
   .object({
     fileId: positiveId('model file id').optional(),
-    volumeMm3: z.number({ error: 'Enter the volume in mm³.' }).min(0, 'The volume cannot be negative.').max(1e9, 'The volume must be at most 1 m³ (10⁹ mm³).').optional(),
-    areaMm2: z.number({ error: 'Enter the surface area in mm².' }).min(0, 'The surface area cannot be negative.').max(1e8, 'The surface area must be at most 10⁸ mm².').optional(),
+    volumeMm3: z
+      .number({ error: 'Enter the volume in mm³.' })
+      .min(0, 'The volume cannot be negative.')
+      .max(1e9, 'The volume must be at most 1 m³ (10⁹ mm³).')
+      .optional(),
+    areaMm2: z
+      .number({ error: 'Enter the surface area in mm².' })
+      .min(0, 'The surface area cannot be negative.')
+      .max(1e8, 'The surface area must be at most 10⁸ mm².')
+      .optional(),
     sizeMm: z.tuple([side('size'), side('size'), side('size')], { error: 'Give the size as three numbers: x, y and z in mm.' }).optional(),
     material: recipe.material,
     nozzleMm: recipe.nozzleMm,
@@ -74,7 +85,11 @@ export const estimateSchema = z
       .max(1000, 'The travel speed must be between 5 and 1,000 mm/s.')
       .optional(),
     pricePerKg: money('price per kg', 10_000).optional(),
-    printerWatts: z.number({ error: 'Enter the printer’s power in watts.' }).positive('The printer’s power must be more than 0 W.').max(10_000, 'The printer’s power must be at most 10,000 W.').optional(),
+    printerWatts: z
+      .number({ error: 'Enter the printer’s power in watts.' })
+      .positive('The printer’s power must be more than 0 W.')
+      .max(10_000, 'The printer’s power must be at most 10,000 W.')
+      .optional(),
     pricePerKwh: money('price per kWh', 100).optional(),
   })
   .superRefine((input, ctx) => {
@@ -86,7 +101,10 @@ export const estimateSchema = z
       ctx.addIssue({
         code: 'custom',
         path: figures === 0 ? ['fileId'] : [path],
-        message: figures === 0 ? 'Choose a model file, or give its volume, surface area and size.' : 'Give the volume (mm³), the surface area (mm²) and the size (x, y, z in mm) together.',
+        message:
+          figures === 0
+            ? 'Choose a model file, or give its volume, surface area and size.'
+            : 'Give the volume (mm³), the surface area (mm²) and the size (x, y, z in mm) together.',
       });
     }
     if (!layerFits(input)) ctx.addIssue({ code: 'custom', path: ['layerMm'], message: layerMessage });
@@ -99,12 +117,14 @@ const printerFields = {
   name: z.string({ error: 'Name the printer.' }).trim().min(1, 'Name the printer.').max(80, 'Keep the name to 80 characters or fewer.'),
   bedMm: z.tuple([side('bed size'), side('bed size'), side('bed size')], { error: 'Give the bed as three sizes: x, y and z in mm.' }),
   nozzleMm: recipe.nozzleMm,
-  bedMarginMm: z
-    .number({ error: 'Enter the margin in mm.' })
-    .min(0, 'The margin cannot be negative.')
-    .max(50, 'The margin must be at most 50 mm.')
+  bedMarginMm: z.number({ error: 'Enter the margin in mm.' }).min(0, 'The margin cannot be negative.').max(50, 'The margin must be at most 50 mm.').optional(),
+  watts: z
+    .number({ error: 'Enter the power in watts.' })
+    .int('Enter the power in whole watts.')
+    .positive('The power must be more than 0 W.')
+    .max(10_000, 'The power must be at most 10,000 W.')
+    .nullable()
     .optional(),
-  watts: z.number({ error: 'Enter the power in watts.' }).int('Enter the power in whole watts.').positive('The power must be more than 0 W.').max(10_000, 'The power must be at most 10,000 W.').nullable().optional(),
   notes: optionalText('notes', 2000),
 };
 
@@ -133,19 +153,17 @@ export const priceSheetSchema = z.object({
   pricePerKwh: money('price per kWh', 100).nullable().optional(),
   /** Charged per hour on print requests; absent keeps the saved rate, null removes it. */
   machineHourRate: money('machine-hour rate', 1000).nullable().optional(),
-  currency: z
-    .string()
-    .trim()
-    .toUpperCase()
-    .refine(isCurrency, { message: 'Give the currency as its three-letter code, such as EUR, USD or GBP.' })
-    .optional(),
+  currency: z.string().trim().toUpperCase().refine(isCurrency, { message: 'Give the currency as its three-letter code, such as EUR, USD or GBP.' }).optional(),
 });
 export type PriceSheetInput = z.infer<typeof priceSheetSchema>;
 
 // ---- kits ----------------------------------------------------------------------------------
 
 const date = (what: string) =>
-  z.iso.date({ error: `Give the ${what} as a date like 2026-03-14.` }).nullable().optional();
+  z.iso
+    .date({ error: `Give the ${what} as a date like 2026-03-14.` })
+    .nullable()
+    .optional();
 
 const kitFields = {
   name: z.string({ error: 'Name the kit.' }).trim().min(2, 'Name the kit (at least 2 characters).').max(120, 'Keep the name to 120 characters or fewer.'),
@@ -153,7 +171,10 @@ const kitFields = {
   startsOn: date('first shoot day'),
   endsOn: date('last shoot day'),
   locationNotes: optionalText('location notes', 4000),
-  heatExposure: z.enum(HEAT_EXPOSURES, { error: `Choose the heat on the shoot: ${HEAT_EXPOSURES.join(', ')}, or none.` }).nullable().optional(),
+  heatExposure: z
+    .enum(HEAT_EXPOSURES, { error: `Choose the heat on the shoot: ${HEAT_EXPOSURES.join(', ')}, or none.` })
+    .nullable()
+    .optional(),
   printHoursPerDay: z
     .number({ error: 'Enter the print hours per day as a number.' })
     .min(0.5, 'Print at least half an hour a day.')
@@ -186,7 +207,10 @@ const itemFields = {
     .min(1, 'Print at least 1.')
     .max(100, 'Use at most 100 pieces per item; add another item for more.'),
   recipeId: positiveId('recipe id').nullable().optional(),
-  material: z.enum(MATERIAL_IDS, { error: `Choose the material: ${MATERIAL_IDS.join(', ')}.` }).nullable().optional(),
+  material: z
+    .enum(MATERIAL_IDS, { error: `Choose the material: ${MATERIAL_IDS.join(', ')}.` })
+    .nullable()
+    .optional(),
   printerId: positiveId('printer id').nullable().optional(),
   boughtPriceEach: money('bought price').nullable().optional(),
   servicePriceEach: money('print-service price').nullable().optional(),
@@ -217,7 +241,9 @@ export const kitShareSchema = z
   .refine((s) => (s.email === undefined) !== (s.userId === undefined), { message: 'Give an e-mail address or a member id (one of the two).', path: ['email'] });
 
 export const kitSharesSchema = z.object({
-  shares: z.array(kitShareSchema, { error: 'Send the list of members as "shares".' }).max(MAX_KIT_SHARES, `Share a kit with at most ${MAX_KIT_SHARES} members.`),
+  shares: z
+    .array(kitShareSchema, { error: 'Send the list of members as "shares".' })
+    .max(MAX_KIT_SHARES, `Share a kit with at most ${MAX_KIT_SHARES} members.`),
 });
 export type KitSharesInput = z.infer<typeof kitSharesSchema>;
 
@@ -234,8 +260,12 @@ export const kitCrewSharesSchema = z.object({
 });
 export type KitCrewSharesInput = z.infer<typeof kitCrewSharesSchema>;
 
-export const kitParamsSchema = z.object({ id: z.coerce.number({ error: 'The kit id must be a number.' }).int().positive('The kit id must be a positive number.') });
+export const kitParamsSchema = z.object({
+  id: z.coerce.number({ error: 'The kit id must be a number.' }).int().positive('The kit id must be a positive number.'),
+});
 export const kitItemParamsSchema = kitParamsSchema.extend({
   itemId: z.coerce.number({ error: 'The item id must be a number.' }).int().positive('The item id must be a positive number.'),
 });
-export const printerParamsSchema = z.object({ id: z.coerce.number({ error: 'The printer id must be a number.' }).int().positive('The printer id must be a positive number.') });
+export const printerParamsSchema = z.object({
+  id: z.coerce.number({ error: 'The printer id must be a number.' }).int().positive('The printer id must be a positive number.'),
+});

@@ -5,7 +5,10 @@ import { MATERIAL_IDS } from '../materials';
 import { PRINT_REQUEST_ACTIONS } from '../print-requests';
 
 const positiveId = (what: string) =>
-  z.number({ error: `Give the ${what} as a number.` }).int(`Give the ${what} as a whole number.`).positive(`Give the ${what} as a positive number.`);
+  z
+    .number({ error: `Give the ${what} as a number.` })
+    .int(`Give the ${what} as a whole number.`)
+    .positive(`Give the ${what} as a positive number.`);
 
 export { MAX_REQUEST_QUANTITY };
 
@@ -22,7 +25,10 @@ export const printRequestSchema = z
       .min(1, 'Ask for at least 1.')
       .max(MAX_REQUEST_QUANTITY, `Ask for at most ${MAX_REQUEST_QUANTITY} at once; send another request for more.`)
       .default(1),
-    material: z.enum(MATERIAL_IDS, { error: `Choose the material: ${MATERIAL_IDS.join(', ')}.` }).nullable().optional(),
+    material: z
+      .enum(MATERIAL_IDS, { error: `Choose the material: ${MATERIAL_IDS.join(', ')}.` })
+      .nullable()
+      .optional(),
     neededBy: z.iso.date({ error: 'Give the date it is needed by like 2026-03-14.' }).nullable().optional(),
     note: z.string({ error: 'The note must be text.' }).trim().max(2000, 'Keep the note to 2000 characters or fewer.').nullable().optional(),
   })
@@ -53,7 +59,12 @@ export const printRequestActionParamsSchema = printRequestParamsSchema.extend({
 export { MAX_STATEMENT_FEES };
 
 export const statementDetailsSchema = z.object({
-  purchaseOrder: z.string({ error: 'The purchase-order number must be text.' }).trim().max(60, 'Keep the purchase-order number to 60 characters or fewer.').nullable().optional(),
+  purchaseOrder: z
+    .string({ error: 'The purchase-order number must be text.' })
+    .trim()
+    .max(60, 'Keep the purchase-order number to 60 characters or fewer.')
+    .nullable()
+    .optional(),
   fees: z
     .array(
       z.object({

@@ -20,12 +20,14 @@ function numberIn(what: string, unit: string, min: number, max: number) {
 
 function wholeNumberIn(what: string, min: number, max: number) {
   const range = `Use between ${min} and ${max} ${what}.`;
-  return z
-    .number({ error: `Enter the number of ${what}.` })
-    // A refine, not .int(): .int() aborts the parse, which would hide the layer/nozzle check.
-    .refine(Number.isInteger, `Enter a whole number of ${what}.`)
-    .min(min, range)
-    .max(max, range);
+  return (
+    z
+      .number({ error: `Enter the number of ${what}.` })
+      // A refine, not .int(): .int() aborts the parse, which would hide the layer/nozzle check.
+      .refine(Number.isInteger, `Enter a whole number of ${what}.`)
+      .min(min, range)
+      .max(max, range)
+  );
 }
 
 function choiceOf<const T extends readonly [string, ...string[]]>(what: string, values: T) {
@@ -52,25 +54,26 @@ const bedSide = z
   .max(2000, 'Each printer bed size must be at most 2000 mm.');
 
 export const recipeSchema = z
-  .object({
-    purpose: choiceOf('purpose', RECIPE_PURPOSES),
-    material: choiceOf('material', MATERIAL_IDS),
-    nozzleMm: numberIn('nozzle diameter', ' mm', 0.1, 1.2),
-    layerMm: numberIn('layer height', ' mm', 0.04, 1),
-    walls: wholeNumberIn('walls', 1, 20),
-    topBottomLayers: wholeNumberIn('top and bottom layers', 0, 50),
-    infillPct: numberIn('infill', ' %', 0, 100),
-    infillPattern: choiceOf('infill pattern', INFILL_PATTERNS),
-    hotendC: numberIn('hotend temperature', ' °C', 150, 320),
-    bedC: numberIn('bed temperature', ' °C', 0, 130),
-    speedMmS: numberIn('print speed', ' mm/s', 5, 600),
-    supports: choiceOf('supports', SUPPORT_MODES),
-    orientationNote: optionalText('orientation note', 500),
-    printerBedMm: z
-      .tuple([bedSide, bedSide, bedSide], { error: 'Give the printer bed as three sizes: x, y and z in mm.' })
-      .optional(),
-    resultNotes: optionalText('result notes', 2000),
-  }, { error: 'Send the print recipe with all its settings.' })
+  .object(
+    {
+      purpose: choiceOf('purpose', RECIPE_PURPOSES),
+      material: choiceOf('material', MATERIAL_IDS),
+      nozzleMm: numberIn('nozzle diameter', ' mm', 0.1, 1.2),
+      layerMm: numberIn('layer height', ' mm', 0.04, 1),
+      walls: wholeNumberIn('walls', 1, 20),
+      topBottomLayers: wholeNumberIn('top and bottom layers', 0, 50),
+      infillPct: numberIn('infill', ' %', 0, 100),
+      infillPattern: choiceOf('infill pattern', INFILL_PATTERNS),
+      hotendC: numberIn('hotend temperature', ' °C', 150, 320),
+      bedC: numberIn('bed temperature', ' °C', 0, 130),
+      speedMmS: numberIn('print speed', ' mm/s', 5, 600),
+      supports: choiceOf('supports', SUPPORT_MODES),
+      orientationNote: optionalText('orientation note', 500),
+      printerBedMm: z.tuple([bedSide, bedSide, bedSide], { error: 'Give the printer bed as three sizes: x, y and z in mm.' }).optional(),
+      resultNotes: optionalText('result notes', 2000),
+    },
+    { error: 'Send the print recipe with all its settings.' },
+  )
   .refine((recipe) => recipe.layerMm <= maxLayerFor(recipe.nozzleMm), {
     path: ['layerMm'],
     error: (issue) => {

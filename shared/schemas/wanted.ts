@@ -35,7 +35,13 @@ export const wantedSchema = z.object({
       return v;
     }),
   /** Search text that found nothing, kept so answerers see what was tried. */
-  searchedFor: z.string().trim().max(200, 'Keep the search text under 200 characters.').nullable().optional().transform((v) => v || null),
+  searchedFor: z
+    .string()
+    .trim()
+    .max(200, 'Keep the search text under 200 characters.')
+    .nullable()
+    .optional()
+    .transform((v) => v || null),
 });
 export type WantedInput = z.input<typeof wantedSchema>;
 export type WantedData = z.output<typeof wantedSchema>;
@@ -43,14 +49,22 @@ export type WantedData = z.output<typeof wantedSchema>;
 export const wantedListSchema = z.strictObject(
   {
     status: z.enum(['open', 'closed', 'mine'], { error: 'Show status=open, closed or mine.' }).default('open'),
-    limit: z.coerce.number({ error: 'Give the limit as a whole number from 1 to 100.' }).int().min(1, 'Give the limit as a whole number from 1 to 100.').max(100, 'Give the limit as a whole number from 1 to 100.').default(50),
+    limit: z.coerce
+      .number({ error: 'Give the limit as a whole number from 1 to 100.' })
+      .int()
+      .min(1, 'Give the limit as a whole number from 1 to 100.')
+      .max(100, 'Give the limit as a whole number from 1 to 100.')
+      .default(50),
   },
   { error: (issue) => (issue.code === 'unrecognized_keys' ? 'The wanted board takes status and limit only.' : undefined) },
 );
 export type WantedListQuery = z.output<typeof wantedListSchema>;
 
 export const wantedAnswerSchema = z.object({
-  part: z.union([z.string(), z.number()], { error: 'Name the part by its id or the last part of its address.' }).transform((v) => String(v).trim()).pipe(z.string().min(1, 'Name the part by its id or the last part of its address.').max(120, 'That part address is too long.')),
+  part: z
+    .union([z.string(), z.number()], { error: 'Name the part by its id or the last part of its address.' })
+    .transform((v) => String(v).trim())
+    .pipe(z.string().min(1, 'Name the part by its id or the last part of its address.').max(120, 'That part address is too long.')),
   note: z.string({ error: 'Write the note as text.' }).trim().max(1000, 'Keep the note under 1,000 characters.').default(''),
 });
 export type WantedAnswerInput = z.input<typeof wantedAnswerSchema>;

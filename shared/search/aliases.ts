@@ -74,9 +74,18 @@ function flexiblePattern(text: string): string {
       const plural = /[a-z]$/.test(word) && !/\d/.test(word) ? (word.endsWith('y') ? '' : '(?:e?s)?') : '';
       // a name given in the plural ("15mm rods") also matches the singular
       const stem =
-        letters && word.endsWith('y') ? `${escape(word.slice(0, -1))}(?:y|ies)` : letters && word.length >= 4 && /[^s]s$/.test(word) ? `${escape(word.slice(0, -1))}` : null;
+        letters && word.endsWith('y')
+          ? `${escape(word.slice(0, -1))}(?:y|ies)`
+          : letters && word.length >= 4 && /[^s]s$/.test(word)
+            ? `${escape(word.slice(0, -1))}`
+            : null;
       // letters and digits side by side may be typed apart: kx8, kx 8, kx-8
-      const inner = stem ?? word.split(/(?<=[a-z])(?=\d)|(?<=\d)(?=[a-z])/).map(escape).join('[\\s-]?');
+      const inner =
+        stem ??
+        word
+          .split(/(?<=[a-z])(?=\d)|(?<=\d)(?=[a-z])/)
+          .map(escape)
+          .join('[\\s-]?');
       return `${inner}${plural}${wi < words.length - 1 ? '[\\s-]?' : ''}`;
     })
     .join('');
@@ -201,7 +210,9 @@ const SYNONYM_PREFIXES = new Set<string>();
 let LONGEST_SYNONYM = 1;
 for (const set of TRADE_SYNONYMS) {
   for (const phrase of set.phrases) {
-    const words = normaliseQueryText(phrase).split(/[^a-z0-9]+/).filter(Boolean);
+    const words = normaliseQueryText(phrase)
+      .split(/[^a-z0-9]+/)
+      .filter(Boolean);
     LONGEST_SYNONYM = Math.max(LONGEST_SYNONYM, words.length);
     const key = phraseKey(words);
     for (let n = 1; n < words.length; n++) SYNONYM_PREFIXES.add(phraseKey(words.slice(0, n)));
@@ -218,7 +229,10 @@ for (const set of TRADE_SYNONYMS) {
  * text, which matters when 50,000 parts are indexed.
  */
 export function synonymTokensIn(normalised: string): string[] {
-  const words = normalised.split(/[^a-z0-9]+/).filter(Boolean).map(singular);
+  const words = normalised
+    .split(/[^a-z0-9]+/)
+    .filter(Boolean)
+    .map(singular);
   const found = new Set<string>();
   for (let i = 0; i < words.length; i++) {
     let key = '';

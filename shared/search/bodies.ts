@@ -17,7 +17,11 @@ export function bodyToken(slug: string): string {
 }
 
 /** Letters and digits only, lower case: how names are compared. */
-export const compactName = (text: string) => text.normalize('NFKC').toLowerCase().replace(/[^\p{L}\p{N}]+/gu, '');
+export const compactName = (text: string) =>
+  text
+    .normalize('NFKC')
+    .toLowerCase()
+    .replace(/[^\p{L}\p{N}]+/gu, '');
 
 /** Every name a body answers to. */
 export function bodyNames(b: NamedBody): string[] {

@@ -139,7 +139,12 @@ export interface FacetCounts {
  * material it lists.
  */
 export function countFacets(docs: Iterable<FilterableDoc>): FacetCounts {
-  const counts = { mount: new Map<string, number>(), body: new Map<string, number>(), category: new Map<string, number>(), material: new Map<string, number>() };
+  const counts = {
+    mount: new Map<string, number>(),
+    body: new Map<string, number>(),
+    category: new Map<string, number>(),
+    material: new Map<string, number>(),
+  };
   const bump = (into: Map<string, number>, key: string) => into.set(key, (into.get(key) ?? 0) + 1);
   // a value listed twice on one document counts once: only bump its first occurrence
   const bumpEach = <T>(into: Map<string, number>, items: readonly T[], keyOf: (item: T) => string) => {

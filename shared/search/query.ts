@@ -99,7 +99,9 @@ const MOUNT_OF_TOKEN = new Map(MOUNT_STANDARDS.map((m) => [mountToken(m.slug), m
  */
 export function readQueryText(q: string | undefined, phrases: PhraseTable = DEFAULT_PHRASES): TextQuery {
   // a dash standing alone between words is punctuation, not "leave out the next word"
-  const text = normaliseQueryText(q ?? '').replace(/(^|\s)-+(?=\s|$)/g, ' ').trim();
+  const text = normaliseQueryText(q ?? '')
+    .replace(/(^|\s)-+(?=\s|$)/g, ' ')
+    .trim();
   if (!text) return { kind: 'none' };
   if (hasQuerySyntax(text)) return { kind: 'syntax', text: phrases.find(text).replaced };
 

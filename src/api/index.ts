@@ -2,7 +2,18 @@
 import type { PartCreated, PartDetail, PartHistoryItem, PartList, Vocab } from '@shared/api/parts';
 import type { CrewInfo, CrewInvitationInfo, CrewSummary, InvitationPreview } from '@shared/api/crews';
 import type { CrewInput as CrewFormInput, CrewRole } from '@shared/schemas/crews';
-import type { CrewProfile, Evidence, EvidenceEntryType, FlaggedEntry, FlagResult, HideResult, PartRatings, RatingSaved, ReportFiled, SetReportList } from '@shared/api/evidence';
+import type {
+  CrewProfile,
+  Evidence,
+  EvidenceEntryType,
+  FlaggedEntry,
+  FlagResult,
+  HideResult,
+  PartRatings,
+  RatingSaved,
+  ReportFiled,
+  SetReportList,
+} from '@shared/api/evidence';
 import type { RatingInput, SetReportInput } from '@shared/schemas/evidence';
 import type { AdminUserPatch, LoginInput, RegisterInput } from '@shared/schemas/auth';
 import type { PartSubmission, PartUpdate } from '@shared/schemas/part';
@@ -81,8 +92,7 @@ export const authApi = {
 
 export const adminApi = {
   users: async () => (await http.get<{ users: PublicUser[] }>('/api/admin/users')).users,
-  updateUser: async (id: number, patch: AdminUserPatch) =>
-    (await http.patch<{ user: PublicUser }>(`/api/admin/users/${id}`, patch)).user,
+  updateUser: async (id: number, patch: AdminUserPatch) => (await http.patch<{ user: PublicUser }>(`/api/admin/users/${id}`, patch)).user,
   addBody: async (input: CameraBodyInput) => (await http.post<{ body: CameraBodyInfo }>('/api/admin/bodies', input)).body,
   updateBody: async (slug: string, patch: Partial<CameraBodyInput>) =>
     (await http.patch<{ body: CameraBodyInfo }>(`/api/admin/bodies/${encodeURIComponent(slug)}`, patch)).body,
@@ -130,8 +140,7 @@ export const partsApi = {
     return http.post<PartDetail>(`${partPath(id)}/files`, form);
   },
   /** The review desk's decisions on a part, oldest first (its author and moderators only). */
-  history: async (id: number): Promise<PartHistoryItem[]> =>
-    (await http.get<{ items: PartHistoryItem[] }>(`${partPath(id)}/history`)).items,
+  history: async (id: number): Promise<PartHistoryItem[]> => (await http.get<{ items: PartHistoryItem[] }>(`${partPath(id)}/history`)).items,
   removeFile: (id: number, fileId: number) => http.delete<PartDetail>(`${partPath(id)}/files/${fileId}`),
   /** The bytes behind a file's downloadUrl (signed-in only). */
   fileBytes: (downloadUrl: string) => http.bytes(downloadUrl),
@@ -302,7 +311,8 @@ export const makeApi = {
   file: (kind: string, input: Partial<MakeRequest>, format: MakeFormat) => http.postForFile(`${makePath(kind)}/file?format=${format}`, input),
   calibrations: async (printerId: number): Promise<CalibrationInfo[]> => (await http.get<CalibrationList>(`/api/printers/${printerId}/calibrations`)).items,
   calibrate: (printerId: number, input: CalibrationInput) => http.post<CalibrationInfo>(`/api/printers/${printerId}/calibrations`, input),
-  addToKit: (kitId: number, input: Partial<MadeKitItemInput> & Pick<MadeKitItemInput, 'kind' | 'params'>) => http.post<KitItemInfo>(`/api/kits/${kitId}/made`, input),
+  addToKit: (kitId: number, input: Partial<MadeKitItemInput> & Pick<MadeKitItemInput, 'kind' | 'params'>) =>
+    http.post<KitItemInfo>(`/api/kits/${kitId}/made`, input),
 };
 
 // ---- print requests and statements ---------------------------------------------------------------
@@ -316,7 +326,8 @@ export const printRequestsApi = {
   printers: async (): Promise<CrewPrinter[]> => (await http.get<{ items: CrewPrinter[] }>('/api/print-requests/printers')).items,
   get: (id: number) => http.get<PrintRequestDetail>(`/api/print-requests/${id}`),
   create: (input: PrintRequestInput) => http.post<PrintRequestDetail>('/api/print-requests', input),
-  step: (id: number, action: PrintRequestAction, note?: string | null) => http.post<PrintRequestDetail>(`/api/print-requests/${id}/${action}`, { note: note || null }),
+  step: (id: number, action: PrintRequestAction, note?: string | null) =>
+    http.post<PrintRequestDetail>(`/api/print-requests/${id}/${action}`, { note: note || null }),
   checkout: (id: number) => http.post<{ url: string | null; clientSecret: string | null }>(`/api/print-requests/${id}/checkout`),
 };
 

@@ -70,7 +70,8 @@ export function usePartDraftFiles(errors: Ref<Record<string, string>>) {
     for (const file of Array.from(list)) {
       let error = tooBig(kind, file);
       if (!error && kind === 'photo' && !PHOTO_TYPES.includes(file.type)) error = 'Photos must be JPEG, PNG or WebP images.';
-      if (!error && kind === 'model' && !/\.(stl|3mf)$/i.test(file.name)) error = 'Model files must be STL or 3MF. Put CAD files (STEP and the like) under source files.';
+      if (!error && kind === 'model' && !/\.(stl|3mf)$/i.test(file.name))
+        error = 'Model files must be STL or 3MF. Put CAD files (STEP and the like) under source files.';
       const entry = reactive<DraftFile>({
         uid: uid(),
         kind,
@@ -133,7 +134,20 @@ export function usePartDraftFiles(errors: Ref<Record<string, string>>) {
   }
 
   return {
-    files, existing, drawnInInches, modelFiles, photoFiles, sourceFiles, keptModels,
-    clearFiles, addFiles, removeFile, makeCover, setDrawnInInches, filesSaved, fileRemoved, fileIssues,
+    files,
+    existing,
+    drawnInInches,
+    modelFiles,
+    photoFiles,
+    sourceFiles,
+    keptModels,
+    clearFiles,
+    addFiles,
+    removeFile,
+    makeCover,
+    setDrawnInInches,
+    filesSaved,
+    fileRemoved,
+    fileIssues,
   };
 }

@@ -27,9 +27,10 @@ export function usePartSubmitSteps(prepare: (step: StepKey) => Promise<unknown> 
 
   const notes = computed<Partial<Record<StepKey, string>>>(() => ({
     details: draft.title.trim() ? draft.title.trim() : undefined,
-    files: draft.files.length || draft.existing.length
-      ? `${plural(draft.modelFiles.filter((f) => !f.error).length + draft.keptModels.length, 'model')}, ${plural(draft.photoFiles.filter((f) => !f.error).length + draft.existing.filter((e) => e.info.kind === 'photo' && !e.remove).length, 'photo')}`
-      : undefined,
+    files:
+      draft.files.length || draft.existing.length
+        ? `${plural(draft.modelFiles.filter((f) => !f.error).length + draft.keptModels.length, 'model')}, ${plural(draft.photoFiles.filter((f) => !f.error).length + draft.existing.filter((e) => e.info.kind === 'photo' && !e.remove).length, 'photo')}`
+        : undefined,
     fit: draft.bodies.length || draft.mounts.length ? `${plural(draft.bodies.length, 'body', 'bodies')}, ${plural(draft.mounts.length, 'mount')}` : undefined,
     recipes: plural(draft.recipes.length, 'recipe'),
     licence: vocab.vocab?.licences.find((l) => l.id === draft.licence)?.shortName,

@@ -10,13 +10,29 @@ import { FACET_KINDS, toSearchParams, type FacetKind, type SearchState } from '@
 export type SearchAnswer = Omit<SearchResponse, 'results'> & { results: (SearchResponse['results'][number] & { fit?: FitMark })[] };
 
 const FIELD_NAMES: Record<string, string> = {
-  mount: 'Mount standard', body: 'Camera body', category: 'Category', material: 'Material',
-  adaptable: 'Licence', minRating: 'Lowest rating', sort: 'Sort', page: 'Page', pageSize: 'Page size', build: 'Build',
+  mount: 'Mount standard',
+  body: 'Camera body',
+  category: 'Category',
+  material: 'Material',
+  adaptable: 'Licence',
+  minRating: 'Lowest rating',
+  sort: 'Sort',
+  page: 'Page',
+  pageSize: 'Page size',
+  build: 'Build',
 };
 /** What "Drop it" changes for a refused value that came in with a link. */
 export const RESET: Record<string, Partial<SearchState>> = {
-  mount: { mount: [] }, body: { body: [] }, category: { category: [] }, material: { material: [] },
-  adaptable: { adaptable: false }, minRating: { minRating: null }, sort: { sort: 'relevance' }, page: {}, pageSize: { pageSize: null }, build: { build: null },
+  mount: { mount: [] },
+  body: { body: [] },
+  category: { category: [] },
+  material: { material: [] },
+  adaptable: { adaptable: false },
+  minRating: { minRating: null },
+  sort: { sort: 'relevance' },
+  page: {},
+  pageSize: { pageSize: null },
+  build: { build: null },
 };
 
 export function useSearchResults(state: Ref<SearchState>) {
@@ -56,9 +72,13 @@ export function useSearchResults(state: Ref<SearchState>) {
     }
   }
 
-  watch(requestKey, () => {
-    if (route.name === 'search') void load();
-  }, { immediate: true });
+  watch(
+    requestKey,
+    () => {
+      if (route.name === 'search') void load();
+    },
+    { immediate: true },
+  );
 
   /** Where, on this page, the parts matching only some of the typed words begin (-1: none). */
   const firstPartial = computed(() => (response.value?.results ?? []).findIndex((r) => r.missing?.length));

@@ -48,7 +48,7 @@ function whole(value: Value): number | null {
 
 export function readSearchQuery(query: LocationQuery): SearchState {
   const minRating = Number(one(query.minRating));
-  const dims = query.dim === undefined ? [] : (Array.isArray(query.dim) ? query.dim : [query.dim]);
+  const dims = query.dim === undefined ? [] : Array.isArray(query.dim) ? query.dim : [query.dim];
   return {
     q: one(query.q),
     mount: many(query.mount),

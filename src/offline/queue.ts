@@ -6,8 +6,30 @@ import type { RatingInput, SetReportInput } from '@shared/schemas/evidence';
 
 /** Every entry belongs to the member who wrote it and is only ever sent with their session. */
 export type QueuedEntry =
-  | { key: string; userId: number; kind: 'report'; partId: number; partSlug: string; partTitle: string; input: SetReportInput; photos: Blob[]; photoNames: string[]; writtenAt: string; problem: string | null }
-  | { key: string; userId: number; kind: 'rating'; partId: number; partSlug: string; partTitle: string; input: RatingInput; writtenAt: string; problem: string | null };
+  | {
+      key: string;
+      userId: number;
+      kind: 'report';
+      partId: number;
+      partSlug: string;
+      partTitle: string;
+      input: SetReportInput;
+      photos: Blob[];
+      photoNames: string[];
+      writtenAt: string;
+      problem: string | null;
+    }
+  | {
+      key: string;
+      userId: number;
+      kind: 'rating';
+      partId: number;
+      partSlug: string;
+      partTitle: string;
+      input: RatingInput;
+      writtenAt: string;
+      problem: string | null;
+    };
 
 interface QueueDb extends DBSchema {
   entries: { key: string; value: QueuedEntry; indexes: { writtenAt: string } };

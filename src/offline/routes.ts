@@ -22,5 +22,8 @@ export function keepsOfflineCopy(pathname: string): boolean {
 }
 
 export function keepsOfflineImage(pathname: string): boolean {
-  return /^\/api\/parts\/[^/]+\/files\/\d+\/image\/(thumb|display)$/.test(pathname) || /^\/api\/parts\/[^/]+\/reports\/\d+\/photos\/\d+\/(thumb|display)$/.test(pathname);
+  return (
+    /^\/api\/parts\/[^/]+\/files\/\d+\/image\/(thumb|display)$/.test(pathname) ||
+    /^\/api\/parts\/[^/]+\/reports\/\d+\/photos\/\d+\/(thumb|display)$/.test(pathname)
+  );
 }

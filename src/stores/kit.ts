@@ -75,8 +75,16 @@ export const useKitStore = defineStore('kit', () => {
       kit.value = await planningApi.kit(id);
       await Promise.all([
         refreshSummary(),
-        isOwner.value ? planningApi.printers().then((p) => (ownPrinters.value = p)).catch(() => undefined) : undefined,
-        partsApi.published().then((p) => (shelf.value = p)).catch(() => undefined),
+        isOwner.value
+          ? planningApi
+              .printers()
+              .then((p) => (ownPrinters.value = p))
+              .catch(() => undefined)
+          : undefined,
+        partsApi
+          .published()
+          .then((p) => (shelf.value = p))
+          .catch(() => undefined),
       ]);
     } catch (err) {
       kit.value = null;
@@ -139,10 +147,30 @@ export const useKitStore = defineStore('kit', () => {
   const money = (amount: number) => formatMoney(amount, currency.value);
 
   return {
-    currency, money,
-    kit, summary, ownPrinters, shelf, loading, missing, summaryLoading, summaryFailed,
-    access, isOwner, canEdit, printerChoices,
-    itemSummary, shelfPart,
-    open, refreshSummary, save, addItem, updateItem, removeItem, setShares, setCrewShares, remove,
+    currency,
+    money,
+    kit,
+    summary,
+    ownPrinters,
+    shelf,
+    loading,
+    missing,
+    summaryLoading,
+    summaryFailed,
+    access,
+    isOwner,
+    canEdit,
+    printerChoices,
+    itemSummary,
+    shelfPart,
+    open,
+    refreshSummary,
+    save,
+    addItem,
+    updateItem,
+    removeItem,
+    setShares,
+    setCrewShares,
+    remove,
   };
 });

@@ -120,7 +120,17 @@ export const useOfflineStore = defineStore('offline', () => {
 
   async function queueRating(part: { id: number; slug: string; title: string }, input: RatingInput) {
     const queue = await openQueue();
-    await queue.put({ key: queue.newKey(), userId: me(), kind: 'rating', partId: part.id, partSlug: part.slug, partTitle: part.title, input, writtenAt: new Date().toISOString(), problem: null });
+    await queue.put({
+      key: queue.newKey(),
+      userId: me(),
+      kind: 'rating',
+      partId: part.id,
+      partSlug: part.slug,
+      partTitle: part.title,
+      input,
+      writtenAt: new Date().toISOString(),
+      problem: null,
+    });
     await reload();
   }
 

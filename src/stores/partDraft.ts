@@ -62,7 +62,6 @@ export const usePartDraftStore = defineStore('partDraft', () => {
   const description = ref('');
   const category = ref<CategorySlug | null>(null);
 
-
   const bodies = ref<string[]>([]);
   const mounts = ref<{ slug: MountSlug; note: string }[]>([]);
   const keyDimensions = ref<KeyDimensionRow[]>([]);
@@ -127,9 +126,7 @@ export const usePartDraftStore = defineStore('partDraft', () => {
       value: String(d.valueMm),
       tol: d.tolMm ? String(d.tolMm) : '',
     }));
-    recipes.value = part.recipes.length
-      ? part.recipes.map(({ id: _id, warnings: _w, ...r }) => recipeFormOf(r))
-      : [blankRecipe()];
+    recipes.value = part.recipes.length ? part.recipes.map(({ id: _id, warnings: _w, ...r }) => recipeFormOf(r)) : [blankRecipe()];
     if (!safetyClaims) return;
     Object.assign(safety, {
       carriesLoad: part.safety.carriesLoad,
@@ -144,7 +141,16 @@ export const usePartDraftStore = defineStore('partDraft', () => {
    * A part made on a make page, going to the shelf: the made file, a title and summary to start from,
    * the made-part print settings, and the load flag when the part can carry load. It carries no tested load.
    */
-  function startMade(input: { kind: string; params: Record<string, unknown>; label: string; title: string; summary: string; file: File; loadBearing: boolean; recipe: Partial<Pick<RecipeForm, 'material' | 'nozzleMm' | 'layerMm' | 'walls' | 'topBottomLayers' | 'infillPct' | 'speedMmS'>> }) {
+  function startMade(input: {
+    kind: string;
+    params: Record<string, unknown>;
+    label: string;
+    title: string;
+    summary: string;
+    file: File;
+    loadBearing: boolean;
+    recipe: Partial<Pick<RecipeForm, 'material' | 'nozzleMm' | 'layerMm' | 'walls' | 'topBottomLayers' | 'infillPct' | 'speedMmS'>>;
+  }) {
     reset('new');
     made.value = { kind: input.kind, params: input.params, label: input.label };
     title.value = input.title.slice(0, 120);
@@ -317,17 +323,24 @@ export const usePartDraftStore = defineStore('partDraft', () => {
     const s = snapshot();
     const blank = JSON.stringify({ ...blankRecipe(), uid: '' });
     return !!(
-      s.fields.title.trim() || s.fields.summary.trim() || s.fields.description.trim() || s.fields.category ||
-      s.files.length || s.fields.bodies.length || s.fields.mounts.length || s.fields.keyDimensions.length ||
-      s.fields.recipes.length !== 1 || JSON.stringify({ ...s.fields.recipes[0], uid: '' }) !== blank ||
-      (mode.value === 'new' && s.fields.licence) || Object.values(s.fields.safety).some(Boolean) || s.fields.safetyStated
+      s.fields.title.trim() ||
+      s.fields.summary.trim() ||
+      s.fields.description.trim() ||
+      s.fields.category ||
+      s.files.length ||
+      s.fields.bodies.length ||
+      s.fields.mounts.length ||
+      s.fields.keyDimensions.length ||
+      s.fields.recipes.length !== 1 ||
+      JSON.stringify({ ...s.fields.recipes[0], uid: '' }) !== blank ||
+      (mode.value === 'new' && s.fields.licence) ||
+      Object.values(s.fields.safety).some(Boolean) ||
+      s.fields.safetyStated
     );
   });
 
   /** Editing: whether the fields or the files differ from what was loaded. */
-  const changed = computed(
-    () => files.value.length > 0 || existing.value.some((e) => e.remove) || JSON.stringify(fields()) !== baseline.value,
-  );
+  const changed = computed(() => files.value.length > 0 || existing.value.some((e) => e.remove) || JSON.stringify(fields()) !== baseline.value);
 
   function validUpdate(): PartUpdate | null {
     if (!checkStep('review')) return null;
@@ -335,17 +348,55 @@ export const usePartDraftStore = defineStore('partDraft', () => {
   }
 
   return {
-    key, mode, parent, editing, made, startMade,
-    title, summary, description, category,
-    files, existing, drawnInInches, modelFiles, photoFiles, sourceFiles, keptModels,
-    bodies, mounts, keyDimensions,
+    key,
+    mode,
+    parent,
+    editing,
+    made,
+    startMade,
+    title,
+    summary,
+    description,
+    category,
+    files,
+    existing,
+    drawnInInches,
+    modelFiles,
+    photoFiles,
+    sourceFiles,
+    keptModels,
+    bodies,
+    mounts,
+    keyDimensions,
     recipes,
-    licence, safety, testedLoadKg, crewId, safetyStated,
-    errors, checked, changed, hasContent,
-    snapshot, restore,
-    reset, startAdapt, startEdit, setParent,
-    addFiles, removeFile, makeCover, setDrawnInInches, filesSaved, fileRemoved,
-    submission, checkStep, recheck, stepHasErrors, takeServerErrors, validSubmission, validUpdate,
+    licence,
+    safety,
+    testedLoadKg,
+    crewId,
+    safetyStated,
+    errors,
+    checked,
+    changed,
+    hasContent,
+    snapshot,
+    restore,
+    reset,
+    startAdapt,
+    startEdit,
+    setParent,
+    addFiles,
+    removeFile,
+    makeCover,
+    setDrawnInInches,
+    filesSaved,
+    fileRemoved,
+    submission,
+    checkStep,
+    recheck,
+    stepHasErrors,
+    takeServerErrors,
+    validSubmission,
+    validUpdate,
     newKeyDimension: (): KeyDimensionRow => ({ uid: uid(), name: '', value: '', tol: '' }),
   };
 });

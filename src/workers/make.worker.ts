@@ -20,7 +20,14 @@ const api = {
       const made = generator.generate(parsed.data as never, corrections);
       const stl = toStl(made.mesh);
       const buffer = stl.buffer.slice(stl.byteOffset, stl.byteOffset + stl.byteLength) as ArrayBuffer;
-      const reply: MakeReply = { ok: true, analysis: analyseTriangles(made.mesh.positions), drawn: made.drawn, warnings: made.warnings, loadBearing: made.loadBearing, stl: buffer };
+      const reply: MakeReply = {
+        ok: true,
+        analysis: analyseTriangles(made.mesh.positions),
+        drawn: made.drawn,
+        warnings: made.warnings,
+        loadBearing: made.loadBearing,
+        stl: buffer,
+      };
       return transfer(reply, [buffer]);
     } catch (err) {
       return { ok: false, fields: {}, message: (err as Error).message };

@@ -274,7 +274,9 @@ describe('auth · rate limits', () => {
       const a = await agentFor(limited.app);
       const statuses: number[] = [];
       for (let i = 0; i < 3; i++) {
-        statuses.push((await a.post('/api/auth/register').send({ email: `flood-${i}-${Date.now()}@crew.test`, password: 'long enough pass', displayName: 'Flood' })).status);
+        statuses.push(
+          (await a.post('/api/auth/register').send({ email: `flood-${i}-${Date.now()}@crew.test`, password: 'long enough pass', displayName: 'Flood' })).status,
+        );
       }
       expect(statuses).toEqual([202, 202, 429]);
     } finally {
@@ -304,7 +306,7 @@ describe('auth · passwords (NIST SP 800-63B §5.1.1.2)', () => {
   const register = async (password: string, email = `pw-${Date.now()}-${Math.random().toString(36).slice(2)}@crew.test`) =>
     (await agentFor(t.app)).post('/api/auth/register').send({ email, password, displayName: 'Pass Word' });
 
-  it('register · repeated, sequential, common, or the account\'s own address · 422 with a field message', async () => {
+  it("register · repeated, sequential, common, or the account's own address · 422 with a field message", async () => {
     // SP 800-63B §5.1.1.2: compare against breached/common values, repetitive or sequential
     // characters, and context-specific words (the service's name, the username)
     const email = `nia.loader-${Date.now()}@crew.test`;
@@ -337,7 +339,10 @@ describe('auth · passwords (NIST SP 800-63B §5.1.1.2)', () => {
     const a = await agentFor(t.app);
     await a.post('/api/auth/password-reset/request').send({ email });
     await t.mailer.flush();
-    const mail = t.mailer.fake!.messages().filter((m) => m.to.includes(email)).at(-1)!;
+    const mail = t.mailer
+      .fake!.messages()
+      .filter((m) => m.to.includes(email))
+      .at(-1)!;
     const token = /reset-password\?token=([A-Za-z0-9_-]+)/.exec(mail.text)![1];
     const weak = await a.post('/api/auth/password-reset').send({ token, password: 'password12' });
     expect(weak.status).toBe(422);

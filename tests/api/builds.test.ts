@@ -23,7 +23,10 @@ async function signedIn(role: Role = 'member'): Promise<Agent> {
 
 async function published(data: unknown) {
   const author = await signedIn();
-  const res = await author.post('/api/parts').field('data', JSON.stringify(data)).attach('model', boxStl(30, 20, 10), 'part.stl');
+  const res = await author
+    .post('/api/parts')
+    .field('data', JSON.stringify(data))
+    .attach('model', boxStl(30, 20, 10), 'part.stl');
   expect(res.status).toBe(201);
   await moderator.post(`/api/review/${res.body.id}/approve`).send({}).expect(200);
   return res.body.id as number;
@@ -44,10 +47,30 @@ beforeAll(async () => {
   // invented parts, each a clip or a holder of some kind, so "clip" finds all four
   cradle = await published(submission({ title: 'Receiver clip cradle for 15 mm rods' }));
   gear = await published(
-    submission({ title: 'Lens gear clip ring', category: 'lens-focus', bodies: [], mounts: [{ slug: 'gear-0-8' }], keyDimensions: [{ name: 'barrel bore', valueMm: 80.4, tolMm: 0.3 }], safety: none, testedLoadKg: null }),
+    submission({
+      title: 'Lens gear clip ring',
+      category: 'lens-focus',
+      bodies: [],
+      mounts: [{ slug: 'gear-0-8' }],
+      keyDimensions: [{ name: 'barrel bore', valueMm: 80.4, tolMm: 0.3 }],
+      safety: none,
+      testedLoadKg: null,
+    }),
   );
-  shoeCover = await published(submission({ title: 'Shoe clip cover', category: 'protection-caps', bodies: ['peregrine-p1'], mounts: [{ slug: 'accessory-shoe' }], keyDimensions: [], safety: none, testedLoadKg: null }));
-  cap = await published(submission({ title: 'Port clip cap', category: 'protection-caps', bodies: [], mounts: [], keyDimensions: [], safety: none, testedLoadKg: null }));
+  shoeCover = await published(
+    submission({
+      title: 'Shoe clip cover',
+      category: 'protection-caps',
+      bodies: ['peregrine-p1'],
+      mounts: [{ slug: 'accessory-shoe' }],
+      keyDimensions: [],
+      safety: none,
+      testedLoadKg: null,
+    }),
+  );
+  cap = await published(
+    submission({ title: 'Port clip cap', category: 'protection-caps', bodies: [], mounts: [], keyDimensions: [], safety: none, testedLoadKg: null }),
+  );
   t.services.search.scheduleRebuild();
   await t.services.search.idle();
 });
@@ -84,13 +107,19 @@ describe('builds · CRUD', () => {
   });
 
   it('POST /api/builds · unknown body · 422 naming the closest bodies', async () => {
-    const res = await owner.post('/api/builds').send({ ...carWeek, body: 'Korvel KX-9' }).expect(422);
+    const res = await owner
+      .post('/api/builds')
+      .send({ ...carWeek, body: 'Korvel KX-9' })
+      .expect(422);
     expect(res.body.error.fields.body).toMatch(/No camera body is called "Korvel KX-9"\. Did you mean .*Korvel KX-8/);
     expect(await Build.count({ where: { ownerId: owner.userId } })).toBe(1);
   });
 
   it('POST /api/builds · unknown mount, no name, size in metres · 422 with a message per field', async () => {
-    const res = await owner.post('/api/builds').send({ name: '', mounts: ['bayonet'], keySizes: [{ name: 'monitor width', valueMm: 2500 }] }).expect(422);
+    const res = await owner
+      .post('/api/builds')
+      .send({ name: '', mounts: ['bayonet'], keySizes: [{ name: 'monitor width', valueMm: 2500 }] })
+      .expect(422);
     expect(res.body.error.fields.name).toMatch(/Name the build/);
     expect(res.body.error.fields['mounts']).toMatch(/Unknown mount standard "bayonet"/);
     expect(res.body.error.fields['keySizes.0.valueMm']).toMatch(/more than 2 m/);

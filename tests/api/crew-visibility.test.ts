@@ -19,7 +19,10 @@ async function signedIn(role: Role = 'member'): Promise<Agent> {
 
 async function inviteLink(email: string): Promise<string> {
   await t.mailer.flush();
-  const mail = t.mailer.fake!.messages().filter((m) => m.to.includes(email)).at(-1)!;
+  const mail = t.mailer
+    .fake!.messages()
+    .filter((m) => m.to.includes(email))
+    .at(-1)!;
   return /\/invitations\/([A-Za-z0-9_-]+)/.exec(mail.text)![1];
 }
 
@@ -87,12 +90,17 @@ beforeAll(async () => {
 
   const made = await author
     .post('/api/parts')
-    .field('data', JSON.stringify(submission({ title: SECRET_TITLE, summary: 'Holds the zephyrwick receiver on the Varrow rig rods.', visibility: { crewId } })))
+    .field(
+      'data',
+      JSON.stringify(submission({ title: SECRET_TITLE, summary: 'Holds the zephyrwick receiver on the Varrow rig rods.', visibility: { crewId } })),
+    )
     .attach('model', boxStl(40, 30, 12), 'zephyrwick.stl')
     .attach('photo', await plainPng(), 'zephyrwick.png');
   expect(made.status).toBe(201);
   // crew-only parts still pass the review desk
-  expect((await moderator.get('/api/review/queue').expect(200)).body.items.map((i: { partId?: number; id?: number }) => i.partId ?? i.id)).toContain(made.body.id);
+  expect((await moderator.get('/api/review/queue').expect(200)).body.items.map((i: { partId?: number; id?: number }) => i.partId ?? i.id)).toContain(
+    made.body.id,
+  );
   await moderator.post(`/api/review/${made.body.id}/approve`).send({}).expect(200);
   await t.services.parts.photosSettled();
   const detail = (await author.get(`/api/parts/${made.body.id}`).expect(200)).body;
@@ -112,24 +120,43 @@ beforeAll(async () => {
   await moderator.post(`/api/review/${publicId}/approve`).send({}).expect(200);
 
   // a crew adaptation's parent stays hidden from outsiders; evidence on the crew part
-  await crewMate.post(`/api/parts/${secret.id}/ratings`).send({ stars: 5, comment: 'The zephyrwick holds.' }).expect((r) => expect(r.status).toBeLessThan(300));
+  await crewMate
+    .post(`/api/parts/${secret.id}/ratings`)
+    .send({ stars: 5, comment: 'The zephyrwick holds.' })
+    .expect((r) => expect(r.status).toBeLessThan(300));
 
   // a kit with both parts, shared with the outsider by hand and with the crew as a whole
   kitId = (await author.post('/api/kits').send({ name: 'Varrow prep', production: 'Varrow' }).expect(201)).body.id;
   await author.post(`/api/kits/${kitId}/items`).send({ partId: secret.id, quantity: 2 }).expect(201);
   await author.post(`/api/kits/${kitId}/items`).send({ partId: publicId, quantity: 1 }).expect(201);
-  await author.agent.put(`/api/kits/${kitId}/shares`).set('X-CSRF-Token', author.token).send({ shares: [{ userId: outsider.userId, access: 'edit' }] }).expect(200);
-  await author.agent.put(`/api/kits/${kitId}/crew-shares`).set('X-CSRF-Token', author.token).send({ crewShares: [{ crewId, access: 'read' }] }).expect(200);
+  await author.agent
+    .put(`/api/kits/${kitId}/shares`)
+    .set('X-CSRF-Token', author.token)
+    .send({ shares: [{ userId: outsider.userId, access: 'edit' }] })
+    .expect(200);
+  await author.agent
+    .put(`/api/kits/${kitId}/crew-shares`)
+    .set('X-CSRF-Token', author.token)
+    .send({ crewShares: [{ crewId, access: 'read' }] })
+    .expect(200);
 
   // wanted requests: the crew's own is answered with the crew part; an outsider's cannot be
   crewWanted = (await crewMate.post('/api/wanted').send({ title: 'Receiver holder for rods', details: 'For the car week.' }).expect(201)).body.id;
-  await author.post(`/api/wanted/${crewWanted}/answers`).send({ part: String(secret.id), note: 'This one.' }).expect(201);
+  await author
+    .post(`/api/wanted/${crewWanted}/answers`)
+    .send({ part: String(secret.id), note: 'This one.' })
+    .expect(201);
   outsiderWanted = (await outsider.post('/api/wanted').send({ title: 'Any receiver holder', details: 'Anything.' }).expect(201)).body.id;
   const blocked = await author.post(`/api/wanted/${outsiderWanted}/answers`).send({ part: String(secret.id), note: 'Try this.' });
   expect(blocked.status).toBe(422);
   expect(blocked.body.error.fields.part).toMatch(/crew the person who asked is not in/);
 
-  outsiderBuild = (await outsider.post('/api/builds').send({ name: 'Car rig', body: 'korvel-kx8', mounts: ['rods-15-60'], keySizes: [] }).expect(201)).body.id;
+  outsiderBuild = (
+    await outsider
+      .post('/api/builds')
+      .send({ name: 'Car rig', body: 'korvel-kx8', mounts: ['rods-15-60'], keySizes: [] })
+      .expect(201)
+  ).body.id;
   await t.services.search.idle();
   void secondModerator;
 });
@@ -153,7 +180,10 @@ describe('crew-only parts · role matrix', () => {
     const totals = new Map<string, number>();
     for (const [who, agent, sees] of everyone()) {
       const list = await agent.get('/api/parts').expect(200);
-      expect(list.body.items.some((p: { id: number }) => p.id === secret.id), `${who} list`).toBe(sees);
+      expect(
+        list.body.items.some((p: { id: number }) => p.id === secret.id),
+        `${who} list`,
+      ).toBe(sees);
       if (!sees) expect(leaks(list.body), `${who} list`).toBe(false);
 
       const found = await agent.get(`/api/search?q=${SECRET_WORD}`).expect(200);
@@ -190,7 +220,9 @@ describe('crew-only parts · role matrix', () => {
         const image = await agent.get(`/api/parts/${secret.id}/files/${secret.photoId}/image/${size}`);
         expect(image.status, `${who} ${size}`).toBe(sees ? 200 : 404);
       }
-      const estimate = await agent.post('/api/estimate').send({ fileId: secret.modelId, material: 'PETG', nozzleMm: 0.4, layerMm: 0.2, walls: 3, topBottomLayers: 4, infillPct: 20 });
+      const estimate = await agent
+        .post('/api/estimate')
+        .send({ fileId: secret.modelId, material: 'PETG', nozzleMm: 0.4, layerMm: 0.2, walls: 3, topBottomLayers: 4, infillPct: 20 });
       if (sees) expect(estimate.status, `${who} estimate`).toBe(200);
       else {
         expect([401, 404], `${who} estimate`).toContain(estimate.status);
@@ -209,7 +241,10 @@ describe('crew-only parts · role matrix', () => {
       const history = await agent.get(`/api/parts/${secret.id}/history`);
       if (!sees) expect([401, 404], `${who} history`).toContain(history.status);
       const profile = await agent.get(`/api/users/${author.userId}/profile`).expect(200);
-      expect(profile.body.parts.some((p: { id: number }) => p.id === secret.id), `${who} profile`).toBe(sees);
+      expect(
+        profile.body.parts.some((p: { id: number }) => p.id === secret.id),
+        `${who} profile`,
+      ).toBe(sees);
       if (!sees) expect(leaks(profile.body)).toBe(false);
     }
   });
@@ -250,7 +285,10 @@ describe('crew-only parts · role matrix', () => {
     for (const [who, agent, sees] of everyone()) {
       if (who === 'anonymous') continue;
       const res = await agent.get(`/api/wanted/${crewWanted}`).expect(200);
-      expect(res.body.answerList.some((a: { part: { id: number } }) => a.part.id === secret.id), `${who} wanted`).toBe(sees);
+      expect(
+        res.body.answerList.some((a: { part: { id: number } }) => a.part.id === secret.id),
+        `${who} wanted`,
+      ).toBe(sees);
       if (!sees) expect(leaks(res.body)).toBe(false);
       const other = await agent.get(`/api/wanted/${outsiderWanted}`).expect(200);
       expect(leaks(other.body)).toBe(false);
@@ -292,7 +330,9 @@ describe('crew-only parts · role matrix', () => {
   });
 
   it('crew-only parts · a moderator edits the crew part through the form · the unchanged visibility it sends is accepted', async () => {
-    const res = await moderator.patch(`/api/parts/${secret.id}`).send({ summary: 'Holds the zephyrwick receiver on the Varrow rig’s 15 mm rods.', visibility: { crewId } });
+    const res = await moderator
+      .patch(`/api/parts/${secret.id}`)
+      .send({ summary: 'Holds the zephyrwick receiver on the Varrow rig’s 15 mm rods.', visibility: { crewId } });
     expect(res.status).toBe(200);
     expect(res.body.visibility).toMatchObject({ crewId });
     expect((await moderator.patch(`/api/parts/${secret.id}`).send({ visibility: 'everyone' })).status).toBe(403);

@@ -16,7 +16,10 @@ async function signedIn(role: Role = 'member'): Promise<Agent> {
 
 async function inviteLink(email: string): Promise<string> {
   await t.mailer.flush();
-  const mail = t.mailer.fake!.messages().filter((m) => m.to.includes(email)).at(-1)!;
+  const mail = t.mailer
+    .fake!.messages()
+    .filter((m) => m.to.includes(email))
+    .at(-1)!;
   return /\/invitations\/([A-Za-z0-9_-]+)/.exec(mail.text)![1];
 }
 

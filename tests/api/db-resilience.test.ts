@@ -31,7 +31,10 @@ async function signedIn(role: 'member' | 'moderator' = 'member') {
 }
 
 function submit(a: Agent, data: unknown, photo?: Buffer) {
-  let req = a.post('/api/parts').field('data', JSON.stringify(data)).attach('model', boxStl(20, 30, 10), 'bracket.stl');
+  let req = a
+    .post('/api/parts')
+    .field('data', JSON.stringify(data))
+    .attach('model', boxStl(20, 30, 10), 'bracket.stl');
   if (photo) req = req.attach('photo', photo, 'on-the-rig.png');
   return req;
 }
@@ -47,7 +50,9 @@ function filesOnDisk(): string[] {
 async function diskMatchesRows() {
   await t.services.parts.photosSettled();
   const rows = await PartFile.findAll();
-  const expected = rows.flatMap((r) => (r.kind === 'photo' ? [`store/${r.storedName}-display.jpg`, `store/${r.storedName}-thumb.jpg`] : [`store/${r.storedName}`]));
+  const expected = rows.flatMap((r) =>
+    r.kind === 'photo' ? [`store/${r.storedName}-display.jpg`, `store/${r.storedName}-thumb.jpg`] : [`store/${r.storedName}`],
+  );
   return { expected: expected.sort(), actual: filesOnDisk().sort() };
 }
 
@@ -134,7 +139,7 @@ describe('transactions · a deadlock is retried as a whole', () => {
     expect(actual).toEqual(expected);
   });
 
-  it('transactions · deadlock after the moderators\' mail was queued · the mail is queued once', async () => {
+  it("transactions · deadlock after the moderators' mail was queued · the mail is queued once", async () => {
     const { agent } = await signedIn();
     const title = 'Monitor arm knuckle with a retried mail';
     const real = MailMessage.bulkCreate.bind(MailMessage);

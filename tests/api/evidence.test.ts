@@ -23,7 +23,11 @@ async function signedIn(role: Role = 'member'): Promise<Agent> {
 }
 
 async function publishedPart(data = submission()): Promise<number> {
-  const res = await author.post('/api/parts').field('data', JSON.stringify(data)).attach('model', boxStl(20, 30, 10), 'p.stl').expect(201);
+  const res = await author
+    .post('/api/parts')
+    .field('data', JSON.stringify(data))
+    .attach('model', boxStl(20, 30, 10), 'p.stl')
+    .expect(201);
   await moderator.post(`/api/review/${res.body.id}/approve`).send({}).expect(200);
   return res.body.id;
 }
@@ -64,7 +68,11 @@ describe('ratings', () => {
   });
 
   it('ratings · a part not on the shelf · cannot be rated', async () => {
-    const res = await author.post('/api/parts').field('data', JSON.stringify(submission())).attach('model', boxStl(5, 5, 5), 'x.stl').expect(201);
+    const res = await author
+      .post('/api/parts')
+      .field('data', JSON.stringify(submission()))
+      .attach('model', boxStl(5, 5, 5), 'x.stl')
+      .expect(201);
     expect((await crew[1].post(`/api/parts/${res.body.id}/ratings`).send({ stars: 3 })).status).toBe(404);
     expect((await moderator.post(`/api/parts/${res.body.id}/ratings`).send({ stars: 3 })).status).toBe(409);
   });
@@ -78,22 +86,29 @@ describe('ratings', () => {
 
 describe('set reports', () => {
   it('set reports · filed with the recipe it was printed with · accepted, photo metadata stripped', async () => {
-    const res = await report(crew[0], partId, { conditions: ['heat', 'vehicle'], recipeId, outcome: 'held-up', notes: 'Dashboard all day.' }).attach('photo', await jpegWithGps(), 'car.jpg');
+    const res = await report(crew[0], partId, { conditions: ['heat', 'vehicle'], recipeId, outcome: 'held-up', notes: 'Dashboard all day.' }).attach(
+      'photo',
+      await jpegWithGps(),
+      'car.jpg',
+    );
     expect(res.status).toBe(201);
     await t.services.parts.photosSettled();
     const list = await crew[2].get(`/api/parts/${partId}/reports`);
     const mine = list.body.items.find((i: { id: number }) => i.id === res.body.id);
     expect(mine).toMatchObject({ material: 'PETG', recipeId, outcome: 'held-up', conditions: ['heat', 'vehicle'] });
-    const photo = await crew[2].get(mine.photos[0].displayUrl).buffer(true).parse((r, cb) => {
-      const chunks: Buffer[] = [];
-      r.on('data', (c: Buffer) => chunks.push(c));
-      r.on('end', () => cb(null, Buffer.concat(chunks)));
-    });
+    const photo = await crew[2]
+      .get(mine.photos[0].displayUrl)
+      .buffer(true)
+      .parse((r, cb) => {
+        const chunks: Buffer[] = [];
+        r.on('data', (c: Buffer) => chunks.push(c));
+        r.on('end', () => cb(null, Buffer.concat(chunks)));
+      });
     expect(photo.status).toBe(200);
     expect((photo.body as Buffer).includes(Buffer.from('Exif'))).toBe(false);
   });
 
-  it('set reports · no recipe given · takes the reporter\'s own material, asks for one when missing', async () => {
+  it("set reports · no recipe given · takes the reporter's own material, asks for one when missing", async () => {
     expect((await report(crew[1], partId, { outcome: 'worn-but-working', material: 'ASA', infillPct: 30, walls: 4 })).status).toBe(201);
     const missing = await report(crew[1], partId, { outcome: 'held-up' });
     expect(missing.status).toBe(422);
@@ -180,10 +195,14 @@ describe('proven score, warnings and hiding', () => {
   });
 });
 
-describe('evidence about one\'s own part', () => {
-  it('moderation · a moderator\'s own part · they cannot hide its ratings or reports (403) nor see their flags; another moderator can', async () => {
+describe("evidence about one's own part", () => {
+  it("moderation · a moderator's own part · they cannot hide its ratings or reports (403) nor see their flags; another moderator can", async () => {
     const owner = await signedIn('moderator');
-    const res = await owner.post('/api/parts').field('data', JSON.stringify(submission({ title: 'Moderator-made clamp' }))).attach('model', boxStl(20, 30, 10), 'm.stl').expect(201);
+    const res = await owner
+      .post('/api/parts')
+      .field('data', JSON.stringify(submission({ title: 'Moderator-made clamp' })))
+      .attach('model', boxStl(20, 30, 10), 'm.stl')
+      .expect(201);
     const id = res.body.id as number;
     await moderator.post(`/api/review/${id}/approve`).send({}).expect(200);
     const failed = await report(crew[0], id, { outcome: 'failed', material: 'PLA', conditions: ['heat'] }).expect(201);
@@ -196,16 +215,19 @@ describe('evidence about one\'s own part', () => {
     expect((await owner.post(`/api/review/ratings/${low.body.id}/hide`).send({ note: 'Nor this one.' })).status).toBe(403);
     const ownQueue = (await owner.get('/api/review/flags')).body.items as { id: number; type: string }[];
     expect(ownQueue.some((f) => f.type === 'report' && f.id === failed.body.id)).toBe(false);
-    expect(((await moderator.get('/api/review/flags')).body.items as { id: number; type: string }[]).some((f) => f.type === 'report' && f.id === failed.body.id)).toBe(true);
+    expect(
+      ((await moderator.get('/api/review/flags')).body.items as { id: number; type: string }[]).some((f) => f.type === 'report' && f.id === failed.body.id),
+    ).toBe(true);
     // nothing was hidden, and the other moderator still decides
     expect((await crew[3].get(`/api/parts/${id}/reports`)).body.items.some((i: { id: number }) => i.id === failed.body.id)).toBe(true);
     await moderator.post(`/api/review/reports/${failed.body.id}/hide`).send({ note: 'Checked: a test print, not a shoot.' }).expect(200);
   });
 
-  it('proven figure · the author\'s own reports and one member\'s repeats on a production · do not inflate it', async () => {
+  it("proven figure · the author's own reports and one member's repeats on a production · do not inflate it", async () => {
     const id = await publishedPart(submission({ title: 'Self-reported bracket' }));
     for (let i = 0; i < 5; i++) await report(author, id, { outcome: 'held-up', material: 'PETG', production: `Own shoot ${i}` }).expect(201);
-    for (let i = 0; i < 3; i++) await report(crew[0], id, { outcome: 'held-up', material: 'PETG', production: i % 2 ? 'night ferry' : 'Night Ferry ' }).expect(201);
+    for (let i = 0; i < 3; i++)
+      await report(crew[0], id, { outcome: 'held-up', material: 'PETG', production: i % 2 ? 'night ferry' : 'Night Ferry ' }).expect(201);
     await report(crew[1], id, { outcome: 'failed', material: 'PETG' }).expect(201);
     const proven = (await crew[2].get(`/api/parts/${id}/proven`)).body;
     expect(proven).toMatchObject({ reports: 2, heldUp: 1, notCounted: 7 });

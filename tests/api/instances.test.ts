@@ -102,7 +102,10 @@ describe('instances · background jobs', { timeout: 180_000 }, () => {
 
   beforeAll(async () => {
     const author = await signedIn(a, 'member');
-    let req = author.post('/api/parts').field('data', JSON.stringify(submission({ title: 'Tally light shoe' }))).attach('model', boxStl(20, 20, 10), 'shoe.stl');
+    let req = author
+      .post('/api/parts')
+      .field('data', JSON.stringify(submission({ title: 'Tally light shoe' })))
+      .attach('model', boxStl(20, 20, 10), 'shoe.stl');
     for (let i = 0; i < 4; i++) req = req.attach('photo', await jpegWithGps(32 + i, 24), `p${i}.jpg`);
     const res = await req.expect(201);
     await a.services.parts.photosSettled();
@@ -121,17 +124,16 @@ describe('instances · background jobs', { timeout: 180_000 }, () => {
 
   it('jobs whose instance went away are split between instances polling at once, none claimed twice', async () => {
     await orphan(photoIds, 'gone-instance');
-    const [mineA, mineB] = await Promise.all([
-      a.services.claims.claimDue('photo', 'part_files', 4),
-      b.services.claims.claimDue('photo', 'part_files', 4),
-    ]);
+    const [mineA, mineB] = await Promise.all([a.services.claims.claimDue('photo', 'part_files', 4), b.services.claims.claimDue('photo', 'part_files', 4)]);
     expect([...mineA, ...mineB].sort((x, y) => x - y)).toEqual(photoIds);
     expect(mineA.filter((id) => mineB.includes(id))).toEqual([]);
     const rows = await query<{ leaseExpiries: number }>('SELECT lease_expiries AS leaseExpiries FROM part_files WHERE id IN (:ids)', { ids: photoIds });
     expect(rows.map((r) => Number(r.leaseExpiries))).toEqual([1, 1, 1, 1]);
     // held: the other instance can neither claim nor take them over while the lease runs
     expect((await b.services.claims.claim('photo', 'part_files', mineA[0] ?? mineB[0])).claimed).toBe(mineB.includes(mineA[0] ?? mineB[0]));
-    await a.sequelize.query("UPDATE part_files SET processing = 'ready', claimed_by = NULL, lease_until = NULL WHERE id IN (:ids)", { replacements: { ids: photoIds } });
+    await a.sequelize.query("UPDATE part_files SET processing = 'ready', claimed_by = NULL, lease_until = NULL WHERE id IN (:ids)", {
+      replacements: { ids: photoIds },
+    });
   });
 
   it('a photo whose instance died mid-clean is taken over by another instance, cleaned once, and the death is counted apart from failures', async () => {
@@ -213,12 +215,16 @@ describe('instances · migrations', { timeout: 120_000 }, () => {
       let inside = 0;
       let most = 0;
       const hold = (s: (typeof others)[number]) =>
-        withSchemaLock(s, async () => {
-          inside += 1;
-          most = Math.max(most, inside);
-          await sleep(200);
-          inside -= 1;
-        }, () => undefined);
+        withSchemaLock(
+          s,
+          async () => {
+            inside += 1;
+            most = Math.max(most, inside);
+            await sleep(200);
+            inside -= 1;
+          },
+          () => undefined,
+        );
       await Promise.all(others.map(hold));
       expect(most).toBe(1);
     } finally {
@@ -240,7 +246,8 @@ describe('galera rules', () => {
         WHERE t.table_schema = DATABASE() AND t.table_type = 'BASE TABLE'`,
     );
     const names = tables.map((t) => t.name);
-    for (const needed of ['sessions', 'schema_migrations', 'schema_migration_lock', 'job_leases', 'shelf_changes', 'rate_limits']) expect(names).toContain(needed);
+    for (const needed of ['sessions', 'schema_migrations', 'schema_migration_lock', 'job_leases', 'shelf_changes', 'rate_limits'])
+      expect(names).toContain(needed);
     expect(tables.filter((t) => Number(t.pk) !== 1).map((t) => t.name)).toEqual([]);
     expect(tables.filter((t) => t.engine !== 'InnoDB').map((t) => t.name)).toEqual([]);
   });

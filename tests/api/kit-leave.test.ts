@@ -19,7 +19,11 @@ describe('shoot kits · leaving a kit shared with you', () => {
     await c.login(crew.email, crew.password);
 
     const kit = await o.post('/api/kits').send({ name: 'Harbour Lights — splinter unit' }).expect(201);
-    await o.agent.put(`/api/kits/${kit.body.id}/shares`).set('X-CSRF-Token', o.token).send({ shares: [{ email: crew.email, access: 'read' }] }).expect(200);
+    await o.agent
+      .put(`/api/kits/${kit.body.id}/shares`)
+      .set('X-CSRF-Token', o.token)
+      .send({ shares: [{ email: crew.email, access: 'read' }] })
+      .expect(200);
     expect((await c.get(`/api/kits/${kit.body.id}`)).status).toBe(200);
 
     expect((await c.delete(`/api/kits/${kit.body.id}/shares/me`)).status).toBe(204);

@@ -36,7 +36,10 @@ beforeAll(async () => {
   member = await signedIn();
   other = await signedIn();
   visitor = await agentFor(t.app);
-  const printer = await member.post('/api/printers').send({ name: 'Bench printer', bedMm: [220, 220, 250], nozzleMm: 0.4, watts: 120 }).expect(201);
+  const printer = await member
+    .post('/api/printers')
+    .send({ name: 'Bench printer', bedMm: [220, 220, 250], nozzleMm: 0.4, watts: 120 })
+    .expect(201);
   printerId = printer.body.id;
 });
 afterAll(() => t?.close());
@@ -95,13 +98,22 @@ describe('make preview', () => {
   });
 
   it('POST preview · bad sizes · 422 with a message per field and nothing stored', async () => {
-    const res = await visitor.post('/api/make/washer/preview').send({ params: { ...washer, outerDiameterMm: 500, screw: 'M99' } }).expect(422);
+    const res = await visitor
+      .post('/api/make/washer/preview')
+      .send({ params: { ...washer, outerDiameterMm: 500, screw: 'M99' } })
+      .expect(422);
     expect(res.body.error.code).toBe('validation_failed');
     expect(res.body.error.fields['params.outerDiameterMm']).toMatch(/at most/);
     expect(res.body.error.fields['params.screw']).toMatch(/choose one of/);
-    const tooThin = await visitor.post('/api/make/washer/preview').send({ params: { ...washer, outerDiameterMm: 7 } }).expect(422);
+    const tooThin = await visitor
+      .post('/api/make/washer/preview')
+      .send({ params: { ...washer, outerDiameterMm: 7 } })
+      .expect(422);
     expect(tooThin.body.error.fields['params.outerDiameterMm']).toMatch(/at least/);
-    const layer = await visitor.post('/api/make/washer/preview').send({ params: washer, recipe: { nozzleMm: 0.4, layerMm: 0.4 } }).expect(422);
+    const layer = await visitor
+      .post('/api/make/washer/preview')
+      .send({ params: washer, recipe: { nozzleMm: 0.4, layerMm: 0.4 } })
+      .expect(422);
     expect(layer.body.error.fields['recipe.layerMm']).toMatch(/too thick/);
   });
 
@@ -143,7 +155,10 @@ describe('printer calibrations', () => {
   it('POST calibrations · owner · stored per material and applied to the drawn hole', async () => {
     const before = (await member.post('/api/make/washer/preview').send({ params: washer, printerId, material: 'PETG' }).expect(200)).body as MakePreview;
     // the 6.80 mm bore of a gauge round a 6.6 mm pin fitted: holes print 0.2 mm small
-    const res = await member.post(`/api/printers/${printerId}/calibrations`).send({ material: 'PETG', nominalMm: 6.6, holeFitMm: 6.8, outerFitMm: 6.5 }).expect(201);
+    const res = await member
+      .post(`/api/printers/${printerId}/calibrations`)
+      .send({ material: 'PETG', nominalMm: 6.6, holeFitMm: 6.8, outerFitMm: 6.5 })
+      .expect(201);
     const c = res.body as CalibrationInfo;
     expect(c.holeCorrectionMm).toBeCloseTo(0.2, 6);
     expect(c.outerCorrectionMm).toBeCloseTo(-0.1, 6);
@@ -179,7 +194,10 @@ describe('printer calibrations', () => {
 describe('made parts in kits and on the shelf', () => {
   it('POST kits/:id/made · a made washer · planned from its figures with the cautions', async () => {
     const kit = await member.post('/api/kits').send({ name: 'Tuesday unit' }).expect(201);
-    const res = await member.post(`/api/kits/${kit.body.id}/made`).send({ kind: 'washer', params: washer, material: 'PETG', printerId, quantity: 4 }).expect(201);
+    const res = await member
+      .post(`/api/kits/${kit.body.id}/made`)
+      .send({ kind: 'washer', params: washer, material: 'PETG', printerId, quantity: 4 })
+      .expect(201);
     const item = res.body as KitItemInfo;
     expect(item.part).toBeNull();
     expect(item.made).toMatchObject({ kind: 'washer', loadBearing: true });
@@ -191,25 +209,37 @@ describe('made parts in kits and on the shelf', () => {
     await member.patch(`/api/kits/${kit.body.id}/items/${item.id}`).send({ quantity: 2 }).expect(200);
     await member.patch(`/api/kits/${kit.body.id}/items/${item.id}`).send({ recipeId: 1 }).expect(422);
     await other.post(`/api/kits/${kit.body.id}/made`).send({ kind: 'washer', params: washer }).expect(404);
-    const bad = await member.post(`/api/kits/${kit.body.id}/made`).send({ kind: 'washer', params: { ...washer, thicknessMm: -1 } }).expect(422);
+    const bad = await member
+      .post(`/api/kits/${kit.body.id}/made`)
+      .send({ kind: 'washer', params: { ...washer, thicknessMm: -1 } })
+      .expect(422);
     expect(bad.body.error.fields['params.thicknessMm']).toBeTruthy();
   });
 
   it('POST parts · made with a maker · recorded on the revision and shown on the part page', async () => {
     const stl = await member.post('/api/make/washer/file?format=stl').send({ params: washer }).buffer(true).parse(binary).expect(200);
     const data = submission({ make: { kind: 'washer', params: washer }, testedLoadKg: null, title: 'M6 spacer washer 14 mm' });
-    const res = await member.post('/api/parts').field('data', JSON.stringify(data)).attach('model', stl.body as Buffer, 'washer.stl');
+    const res = await member
+      .post('/api/parts')
+      .field('data', JSON.stringify(data))
+      .attach('model', stl.body as Buffer, 'washer.stl');
     expect(res.status).toBe(201);
     const part = await member.get(`/api/parts/${res.body.id}`).expect(200);
     expect(part.body.madeWith).toMatchObject({ kind: 'washer', params: { screw: 'M6', outerDiameterMm: 14 } });
     expect(part.body.madeWith.summary).toMatch(/screw M6/);
 
     const rated = submission({ make: { kind: 'washer', params: washer }, testedLoadKg: 5 });
-    const refused = await member.post('/api/parts').field('data', JSON.stringify(rated)).attach('model', stl.body as Buffer, 'washer.stl');
+    const refused = await member
+      .post('/api/parts')
+      .field('data', JSON.stringify(rated))
+      .attach('model', stl.body as Buffer, 'washer.stl');
     expect(refused.status).toBe(422);
     expect(refused.body.error.fields.testedLoadKg).toMatch(/no tested load/);
     const wrong = submission({ make: { kind: 'washer', params: { ...washer, screw: 'M99' } }, testedLoadKg: null });
-    const wrongRes = await member.post('/api/parts').field('data', JSON.stringify(wrong)).attach('model', stl.body as Buffer, 'washer.stl');
+    const wrongRes = await member
+      .post('/api/parts')
+      .field('data', JSON.stringify(wrong))
+      .attach('model', stl.body as Buffer, 'washer.stl');
     expect(wrongRes.status).toBe(422);
     expect(wrongRes.body.error.fields['make.params.screw']).toBeTruthy();
   });

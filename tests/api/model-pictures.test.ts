@@ -29,7 +29,10 @@ afterAll(async () => {
 });
 
 function submit(a: Agent, photo?: Buffer) {
-  let req = a.post('/api/parts').field('data', JSON.stringify(submission())).attach('model', boxStl(40, 30, 12), 'plate.stl');
+  let req = a
+    .post('/api/parts')
+    .field('data', JSON.stringify(submission()))
+    .attach('model', boxStl(40, 30, 12), 'plate.stl');
   if (photo) req = req.attach('photo', photo, 'on-the-rig.png');
   return req;
 }
@@ -40,11 +43,14 @@ const settled = async () => {
 };
 
 async function image(a: Agent, url: string) {
-  const res = await a.get(url).buffer(true).parse((r, cb) => {
-    const chunks: Buffer[] = [];
-    r.on('data', (c: Buffer) => chunks.push(c));
-    r.on('end', () => cb(null, Buffer.concat(chunks)));
-  });
+  const res = await a
+    .get(url)
+    .buffer(true)
+    .parse((r, cb) => {
+      const chunks: Buffer[] = [];
+      r.on('data', (c: Buffer) => chunks.push(c));
+      r.on('end', () => cb(null, Buffer.concat(chunks)));
+    });
   expect(res.status).toBe(200);
   expect(res.headers['content-type']).toBe('image/jpeg');
   return res.body as Buffer;

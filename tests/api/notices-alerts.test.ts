@@ -21,7 +21,11 @@ async function signedIn(role: Role = 'member'): Promise<Agent> {
 }
 
 async function published(by: Agent, data = submission()): Promise<{ id: number; slug: string }> {
-  const res = await by.post('/api/parts').field('data', JSON.stringify(data)).attach('model', boxStl(20, 30, 10), 'p.stl').expect(201);
+  const res = await by
+    .post('/api/parts')
+    .field('data', JSON.stringify(data))
+    .attach('model', boxStl(20, 30, 10), 'p.stl')
+    .expect(201);
   await moderator.post(`/api/review/${res.body.id}/approve`).send({}).expect(200);
   return { id: res.body.id, slug: (await by.get(`/api/parts/${res.body.id}`)).body.slug };
 }
@@ -66,10 +70,17 @@ describe('notice settings', () => {
   });
 
   it('PUT /api/notices/settings · one kind switched off for mail · kept, others unchanged; bad kinds 422, visitors 401', async () => {
-    const res = await crew2.agent.put('/api/notices/settings').set('X-CSRF-Token', crew2.token).send({ preferences: [{ kind: 'kit_shared', bell: true, mail: false }] }).expect(200);
+    const res = await crew2.agent
+      .put('/api/notices/settings')
+      .set('X-CSRF-Token', crew2.token)
+      .send({ preferences: [{ kind: 'kit_shared', bell: true, mail: false }] })
+      .expect(200);
     expect(res.body.preferences.find((p: { kind: string }) => p.kind === 'kit_shared')).toMatchObject({ bell: true, mail: false });
     expect(res.body.preferences.find((p: { kind: string }) => p.kind === 'adapted')).toMatchObject({ bell: true, mail: true });
-    const bad = await crew2.agent.put('/api/notices/settings').set('X-CSRF-Token', crew2.token).send({ preferences: [{ kind: 'everything', bell: true, mail: false }] });
+    const bad = await crew2.agent
+      .put('/api/notices/settings')
+      .set('X-CSRF-Token', crew2.token)
+      .send({ preferences: [{ kind: 'everything', bell: true, mail: false }] });
     expect(bad.status).toBe(422);
     expect(bad.body.error.fields['preferences.0.kind']).toMatch(/kinds of notice/);
     expect((await request(t.app).get('/api/notices/settings')).status).toBe(401);
@@ -94,7 +105,12 @@ describe('contributor notices', () => {
 
   it('set report · the author switched mail off, then the bell · the other channel still arrives', async () => {
     const part = await published(author, submission({ title: 'Follow-focus whip clip' }));
-    const put = (prefs: object) => author.agent.put('/api/notices/settings').set('X-CSRF-Token', author.token).send({ preferences: [{ kind: 'report_trouble', ...prefs }] }).expect(200);
+    const put = (prefs: object) =>
+      author.agent
+        .put('/api/notices/settings')
+        .set('X-CSRF-Token', author.token)
+        .send({ preferences: [{ kind: 'report_trouble', ...prefs }] })
+        .expect(200);
     await put({ bell: true, mail: false });
     await report(crew, part.id, { outcome: 'failed' }).expect(201);
     expect((await noticesOf(author.userId, 'report_trouble')).filter((n) => n.title.includes('Follow-focus'))).toHaveLength(1);
@@ -110,7 +126,12 @@ describe('contributor notices', () => {
   it('contributor notices · kit shared · a new member on the list hears once; saving the same list again tells nobody', async () => {
     const part = await published(author, submission({ title: 'Monitor yoke' }));
     const kitId = await kitWith(crew, part.id, 'Night exteriors');
-    const share = () => crew.agent.put(`/api/kits/${kitId}/shares`).set('X-CSRF-Token', crew.token).send({ shares: [{ email: crew2.email, access: 'read' }] }).expect(200);
+    const share = () =>
+      crew.agent
+        .put(`/api/kits/${kitId}/shares`)
+        .set('X-CSRF-Token', crew.token)
+        .send({ shares: [{ email: crew2.email, access: 'read' }] })
+        .expect(200);
     await share();
     const got = await noticesOf(crew2.userId, 'kit_shared');
     expect(got.map((n) => n.title)).toEqual(['A shoot kit was shared with you: Night exteriors']);
@@ -134,8 +155,14 @@ describe('contributor notices', () => {
 
   it('contributor notices · wanted request closed as solved · members who answered hear; the requester does not', async () => {
     const part = await published(author, submission({ title: 'V-plate receiver bracket' }));
-    const req = await crew.post('/api/wanted').send({ title: 'Receiver bracket for a V-plate', details: 'Behind the top plate.', mounts: [], keySizes: [] }).expect(201);
-    await author.post(`/api/wanted/${req.body.id}/answers`).send({ part: String(part.id) }).expect(201);
+    const req = await crew
+      .post('/api/wanted')
+      .send({ title: 'Receiver bracket for a V-plate', details: 'Behind the top plate.', mounts: [], keySizes: [] })
+      .expect(201);
+    await author
+      .post(`/api/wanted/${req.body.id}/answers`)
+      .send({ part: String(part.id) })
+      .expect(201);
     await crew.post(`/api/wanted/${req.body.id}/close`).send({ reason: 'solved', note: 'Printed two, both fit.' }).expect(200);
     const got = await noticesOf(author.userId, 'wanted_closed');
     expect(got.map((n) => n.title)).toEqual(['A request you answered is closed: Receiver bracket for a V-plate']);
@@ -157,12 +184,21 @@ describe('kit recalls', () => {
     const part = await published(author, submission({ title: 'Top handle riser' }));
     const kitA = await kitWith(crew, part.id, 'Kit A');
     const kitB = await kitWith(crew2, part.id, 'Kit B');
-    await crew.agent.put(`/api/kits/${kitA}/shares`).set('X-CSRF-Token', crew.token).send({ shares: [{ email: crew2.email, access: 'edit' }] }).expect(200);
+    await crew.agent
+      .put(`/api/kits/${kitA}/shares`)
+      .set('X-CSRF-Token', crew.token)
+      .send({ shares: [{ email: crew2.email, access: 'edit' }] })
+      .expect(200);
     await moderator.post(`/api/review/${part.id}/retire`).send({ note: 'The thread insert pulls out under load.' }).expect(200);
 
     const a = await crew.get(`/api/kits/${kitA}/recalls`).expect(200);
     expect(a.body.items).toEqual([
-      expect.objectContaining({ kind: 'retired', partTitle: 'Top handle riser', partLink: `/parts/${part.slug}`, reason: 'Retired from the shelf: The thread insert pulls out under load.' }),
+      expect.objectContaining({
+        kind: 'retired',
+        partTitle: 'Top handle riser',
+        partLink: `/parts/${part.slug}`,
+        reason: 'Retired from the shelf: The thread insert pulls out under load.',
+      }),
     ]);
     expect((await crew2.get(`/api/kits/${kitB}/recalls`)).body.items).toHaveLength(1);
     expect((await crew2.get(`/api/kits/${kitA}/recalls`)).body.items).toHaveLength(1);
@@ -178,13 +214,19 @@ describe('kit recalls', () => {
   });
 
   it('a new revision that changes the cautions · banner lists the new caution; an unchanged one · no banner', async () => {
-    const part = await published(author, submission({ title: 'Monitor arm', safety: { carriesLoad: false, overhead: false, vehicle: false, heat: false }, testedLoadKg: null }));
+    const part = await published(
+      author,
+      submission({ title: 'Monitor arm', safety: { carriesLoad: false, overhead: false, vehicle: false, heat: false }, testedLoadKg: null }),
+    );
     const kit = await kitWith(crew, part.id, 'Car rig');
     await author.patch(`/api/parts/${part.id}`).send({ summary: 'The same arm with clearer photos and a longer summary.' }).expect(200);
     await moderator.post(`/api/review/${part.id}/approve`).send({}).expect(200);
     expect((await crew.get(`/api/kits/${kit}/recalls`)).body.items).toEqual([]);
 
-    await author.patch(`/api/parts/${part.id}`).send({ safety: { carriesLoad: false, overhead: false, vehicle: true, heat: false } }).expect(200);
+    await author
+      .patch(`/api/parts/${part.id}`)
+      .send({ safety: { carriesLoad: false, overhead: false, vehicle: true, heat: false } })
+      .expect(200);
     await moderator.post(`/api/review/${part.id}/approve`).send({}).expect(200);
     const items = (await crew.get(`/api/kits/${kit}/recalls`)).body.items;
     expect(items).toHaveLength(1);

@@ -133,8 +133,30 @@ describe('parts · submit', () => {
   });
 
   it('submit · a 3MF in inches · its unit honoured (3MF Core Specification §3.4)', async () => {
-    const v = [[0, 0, 0], [1, 0, 0], [1, 1, 0], [0, 1, 0], [0, 0, 1], [1, 0, 1], [1, 1, 1], [0, 1, 1]];
-    const t3 = [[0, 2, 1], [0, 3, 2], [4, 5, 6], [4, 6, 7], [0, 1, 5], [0, 5, 4], [1, 2, 6], [1, 6, 5], [2, 3, 7], [2, 7, 6], [3, 0, 4], [3, 4, 7]];
+    const v = [
+      [0, 0, 0],
+      [1, 0, 0],
+      [1, 1, 0],
+      [0, 1, 0],
+      [0, 0, 1],
+      [1, 0, 1],
+      [1, 1, 1],
+      [0, 1, 1],
+    ];
+    const t3 = [
+      [0, 2, 1],
+      [0, 3, 2],
+      [4, 5, 6],
+      [4, 6, 7],
+      [0, 1, 5],
+      [0, 5, 4],
+      [1, 2, 6],
+      [1, 6, 5],
+      [2, 3, 7],
+      [2, 7, 6],
+      [3, 0, 4],
+      [3, 4, 7],
+    ];
     const model = `<?xml version="1.0" encoding="UTF-8"?>
 <model unit="inch" xmlns="http://schemas.microsoft.com/3dmanufacturing/core/2015/02"><resources><object id="1" type="model"><mesh>
 <vertices>${v.map(([x, y, z]) => `<vertex x="${x}" y="${y}" z="${z}"/>`).join('')}</vertices>
@@ -172,13 +194,30 @@ describe('parts · refused uploads leave nothing behind', () => {
   const cases: [string, () => Promise<Upload>, number, RegExp][] = [
     ['an empty model file', async () => ({ models: [{ name: 'empty.stl', bytes: Buffer.alloc(0) }] }), 422, /empty/i],
     ['a truncated binary STL', async () => ({ models: [{ name: 'cut.stl', bytes: boxStl(10, 10, 10).subarray(0, 400) }] }), 422, /facets|cut off|truncated/i],
-    ['a binary STL whose count lies', async () => ({ models: [{ name: 'lies.stl', bytes: binaryStl([[0, 0, 0, 1, 0, 0, 0, 1, 0]], 7) }] }), 422, /facets|count|cut off/i],
+    [
+      'a binary STL whose count lies',
+      async () => ({ models: [{ name: 'lies.stl', bytes: binaryStl([[0, 0, 0, 1, 0, 0, 0, 1, 0]], 7) }] }),
+      422,
+      /facets|count|cut off/i,
+    ],
     ['NaN coordinates', async () => ({ models: [{ name: 'nan.stl', bytes: binaryStl(nan) }] }), 422, /not a number|NaN|infinite|finite/i],
     ['zero facets', async () => ({ models: [{ name: 'zero.stl', bytes: binaryStl([]) }] }), 422, /no facets|zero facets|0 facets/i],
-    ['ASCII that does not parse', async () => ({ models: [{ name: 'broken.stl', bytes: Buffer.from('solid x\nfacet normal 0 0 1\nouter loop\nvertex 0 0\nendloop\nendfacet\nendsolid x\n') }] }), 422, /line/i],
+    [
+      'ASCII that does not parse',
+      async () => ({
+        models: [{ name: 'broken.stl', bytes: Buffer.from('solid x\nfacet normal 0 0 1\nouter loop\nvertex 0 0\nendloop\nendfacet\nendsolid x\n') }],
+      }),
+      422,
+      /line/i,
+    ],
     ['a PNG renamed .stl', async () => ({ models: [{ name: 'photo.stl', bytes: await plainPng() }] }), 422, /PNG/],
     ['an STL sent as a photo', async () => ({ photos: [{ name: 'shot.jpg', bytes: boxStl(5, 5, 5) }] }), 422, /JPEG, PNG or WebP/],
-    ['a photo over 15 MB', async () => ({ photos: [{ name: 'huge.jpg', bytes: Buffer.concat([await jpegWithGps(), Buffer.alloc(15 * 1024 * 1024 + 1)]) }] }), 413, /15 MB/],
+    [
+      'a photo over 15 MB',
+      async () => ({ photos: [{ name: 'huge.jpg', bytes: Buffer.concat([await jpegWithGps(), Buffer.alloc(15 * 1024 * 1024 + 1)]) }] }),
+      413,
+      /15 MB/,
+    ],
     ['no model at all', async () => ({ models: [] }), 422, /at least one model/i],
     ['a layer height over 80 % of the nozzle', async () => ({ data: submission({ recipes: [{ ...setReadyRecipe, layerMm: 0.36 }] }) }), 422, /.+/],
     ['an unknown camera body', async () => ({ data: submission({ bodies: ['no-such-camera'] }) }), 422, /Unknown camera body/],
@@ -211,13 +250,19 @@ describe('parts · refused uploads leave nothing behind', () => {
 
   it('refused uploads · a file in an unknown field · 422', async () => {
     const before = await snapshot();
-    const res = await author.post('/api/parts').field('data', JSON.stringify(submission())).attach('attachment', boxStl(5, 5, 5), 'x.stl');
+    const res = await author
+      .post('/api/parts')
+      .field('data', JSON.stringify(submission()))
+      .attach('attachment', boxStl(5, 5, 5), 'x.stl');
     expect(res.status).toBe(422);
     expect(await snapshot()).toEqual(before);
   });
 
   it('refused uploads · a data field that is not JSON · 400', async () => {
-    const res = await author.post('/api/parts').field('data', '{nope').attach('model', boxStl(5, 5, 5), 'x.stl');
+    const res = await author
+      .post('/api/parts')
+      .field('data', '{nope')
+      .attach('model', boxStl(5, 5, 5), 'x.stl');
     expect(res.status).toBe(400);
   });
 
@@ -245,11 +290,14 @@ describe('parts · photos', () => {
     expect(photo.processing).toBe('ready');
 
     for (const url of [photo.displayUrl, photo.thumbnailUrl]) {
-      const res = await author.get(url).buffer(true).parse((r, cb) => {
-        const chunks: Buffer[] = [];
-        r.on('data', (c: Buffer) => chunks.push(c));
-        r.on('end', () => cb(null, Buffer.concat(chunks)));
-      });
+      const res = await author
+        .get(url)
+        .buffer(true)
+        .parse((r, cb) => {
+          const chunks: Buffer[] = [];
+          r.on('data', (c: Buffer) => chunks.push(c));
+          r.on('end', () => cb(null, Buffer.concat(chunks)));
+        });
       expect(res.status).toBe(200);
       const bytes = res.body as Buffer;
       expect(bytes.includes(Buffer.from('Exif', 'latin1'))).toBe(false);

@@ -74,7 +74,10 @@ beforeAll(async () => {
   cubeModel = cube.files.find((f) => f.kind === 'model')!.id;
   cubePhoto = cube.files.find((f) => f.kind === 'photo')!.id;
 
-  longPart = await published(submission({ title: 'Long rod cover', safety: { carriesLoad: false, overhead: false, vehicle: false, heat: false }, testedLoadKg: null }), boxStl(240, 20, 20));
+  longPart = await published(
+    submission({ title: 'Long rod cover', safety: { carriesLoad: false, overhead: false, vehicle: false, heat: false }, testedLoadKg: null }),
+    boxStl(240, 20, 20),
+  );
   const other = await published(submission({ title: 'Another part' }), boxStl(10, 10, 10));
   otherRecipe = (await detail(other)).recipes[0].id;
 
@@ -115,7 +118,9 @@ describe('planning · estimate', () => {
     expect(res.body.partsMm3.walls).toBeCloseTo(1375.2, 0);
     expect(res.body.partsMm3.skins).toBeCloseTo(529.984, 0);
     expect(res.body.partsMm3.infill).toBeCloseTo(1218.9632, 0);
-    const quick = await stranger.post('/api/estimate').send({ volumeMm3: 8000, areaMm2: 2400, sizeMm: [20, 20, 20], ...solidPlaFigures, infillPct: 20, walls: 2, topBottomLayers: 4 });
+    const quick = await stranger
+      .post('/api/estimate')
+      .send({ volumeMm3: 8000, areaMm2: 2400, sizeMm: [20, 20, 20], ...solidPlaFigures, infillPct: 20, walls: 2, topBottomLayers: 4 });
     expect(quick.body.method).toBe('figures');
     expect(quick.body.massG).toBeCloseTo(res.body.massG, 3); // a cube is the prism the quick estimate assumes
   });
@@ -138,8 +143,10 @@ describe('planning · estimate', () => {
   });
 
   it('estimate · watts and a price per kWh · adds electricity', async () => {
-    const res = await stranger.post('/api/estimate').send({ volumeMm3: 8000, areaMm2: 2400, sizeMm: [20, 20, 20], ...solidPlaFigures, printerWatts: 120, pricePerKwh: 0.3 });
-    expect(res.body.cost).toBeCloseTo(0.1984 + (120 * (res.body.timeMin / 60) / 1000) * 0.3, 9);
+    const res = await stranger
+      .post('/api/estimate')
+      .send({ volumeMm3: 8000, areaMm2: 2400, sizeMm: [20, 20, 20], ...solidPlaFigures, printerWatts: 120, pricePerKwh: 0.3 });
+    expect(res.body.cost).toBeCloseTo(0.1984 + ((120 * (res.body.timeMin / 60)) / 1000) * 0.3, 9);
   });
 
   it('estimate · a draft part’s file · 404 to others, 200 to a moderator', async () => {
@@ -176,7 +183,10 @@ describe('planning · filament prices', () => {
   });
 
   it('prices · PUT replaces the sheet · own prices win, the rest stay default, and the estimate uses them', async () => {
-    const put = await editor.agent.put('/api/me/prices').set('X-CSRF-Token', editor.token).send({ prices: { PLA: 30, ASA: 31.5 }, pricePerKwh: 0.3 });
+    const put = await editor.agent
+      .put('/api/me/prices')
+      .set('X-CSRF-Token', editor.token)
+      .send({ prices: { PLA: 30, ASA: 31.5 }, pricePerKwh: 0.3 });
     expect(put.status).toBe(200);
     expect(put.body).toMatchObject({ prices: { PLA: 30, ASA: 31.5, PETG: 22 }, custom: ['PLA', 'ASA'], pricePerKwh: 0.3 });
     const estimate = await editor.post('/api/estimate').send({ fileId: cubeModel, ...solidPlaFigures });
@@ -187,10 +197,16 @@ describe('planning · filament prices', () => {
   });
 
   it('prices · an unknown material or a negative price · 422; visitors 401', async () => {
-    const unknown = await editor.agent.put('/api/me/prices').set('X-CSRF-Token', editor.token).send({ prices: { WOOD: 3 } });
+    const unknown = await editor.agent
+      .put('/api/me/prices')
+      .set('X-CSRF-Token', editor.token)
+      .send({ prices: { WOOD: 3 } });
     expect(unknown.status).toBe(422);
     expect(unknown.body.error.fields['prices.WOOD']).toMatch(/not a material/);
-    const negative = await editor.agent.put('/api/me/prices').set('X-CSRF-Token', editor.token).send({ prices: { PLA: -1 } });
+    const negative = await editor.agent
+      .put('/api/me/prices')
+      .set('X-CSRF-Token', editor.token)
+      .send({ prices: { PLA: -1 } });
     expect(negative.body.error.fields['prices.PLA']).toMatch(/cannot be negative/);
     expect((await request(t.app).get('/api/me/prices')).status).toBe(401);
   });
@@ -200,7 +216,10 @@ describe('planning · filament prices', () => {
     expect(gbp.status).toBe(200);
     expect(gbp.body.currency).toBe('GBP');
     // leaving the currency out keeps the one chosen
-    const again = await editor.agent.put('/api/me/prices').set('X-CSRF-Token', editor.token).send({ prices: { PLA: 24 } });
+    const again = await editor.agent
+      .put('/api/me/prices')
+      .set('X-CSRF-Token', editor.token)
+      .send({ prices: { PLA: 24 } });
     expect(again.body.currency).toBe('GBP');
     const bad = await editor.agent.put('/api/me/prices').set('X-CSRF-Token', editor.token).send({ prices: {}, currency: 'XQQ' });
     expect(bad.status).toBe(422);
@@ -211,7 +230,9 @@ describe('planning · filament prices', () => {
 
 describe('planning · printers', () => {
   it('printers · create, list, change, delete · only for the owner', async () => {
-    const created = await stranger.post('/api/printers').send({ name: 'Bench printer', bedMm: [180, 180, 180], nozzleMm: 0.4, watts: 90, notes: 'By the window' });
+    const created = await stranger
+      .post('/api/printers')
+      .send({ name: 'Bench printer', bedMm: [180, 180, 180], nozzleMm: 0.4, watts: 90, notes: 'By the window' });
     expect(created.status).toBe(201);
     expect(created.body).toMatchObject({ name: 'Bench printer', bedMm: [180, 180, 180], bedMarginMm: 5, nozzleMm: 0.4, watts: 90, notes: 'By the window' });
     const id = created.body.id;
@@ -230,7 +251,10 @@ describe('planning · printers', () => {
   });
 
   it('printers · brim margin · 5 mm a side unless set, changeable, and a negative one refused', async () => {
-    const created = await stranger.post('/api/printers').send({ name: 'Margin printer', bedMm: [200, 200, 200], nozzleMm: 0.4, bedMarginMm: 8 }).expect(201);
+    const created = await stranger
+      .post('/api/printers')
+      .send({ name: 'Margin printer', bedMm: [200, 200, 200], nozzleMm: 0.4, bedMarginMm: 8 })
+      .expect(201);
     expect(created.body.bedMarginMm).toBe(8);
     const patched = await stranger.patch(`/api/printers/${created.body.id}`).send({ bedMarginMm: 0 }).expect(200);
     expect(patched.body.bedMarginMm).toBe(0);
@@ -243,7 +267,10 @@ describe('planning · printers', () => {
     const bad = await stranger.post('/api/printers').send({ name: 'Broken', bedMm: [0, 200], nozzleMm: 0.4 });
     expect(bad.status).toBe(422);
     expect(bad.body.error.fields.bedMm ?? bad.body.error.fields['bedMm.0']).toBeTruthy();
-    const created = await stranger.post('/api/printers').send({ name: 'Spare', bedMm: [200, 200, 200], nozzleMm: 0.6 }).expect(201);
+    const created = await stranger
+      .post('/api/printers')
+      .send({ name: 'Spare', bedMm: [200, 200, 200], nozzleMm: 0.6 })
+      .expect(201);
     expect((await stranger.patch(`/api/printers/${created.body.id}`).send({})).status).toBe(422);
     expect((await request(t.app).get('/api/printers')).status).toBe(401);
   });
@@ -253,7 +280,15 @@ describe('planning · kits and sharing', () => {
   let kitId: number;
 
   it('planning · kits · create with defaults, refuse bad dates and an unknown heat', async () => {
-    const res = await owner.post('/api/kits').send({ name: 'Harbour Lights — splinter unit', production: 'Harbour Lights', startsOn: '2026-05-04', endsOn: '2026-05-08', heatExposure: 'outdoor-sun' });
+    const res = await owner
+      .post('/api/kits')
+      .send({
+        name: 'Harbour Lights — splinter unit',
+        production: 'Harbour Lights',
+        startsOn: '2026-05-04',
+        endsOn: '2026-05-08',
+        heatExposure: 'outdoor-sun',
+      });
     expect(res.status).toBe(201);
     expect(res.body).toMatchObject({ access: 'owner', printHoursPerDay: 8, heatExposure: 'outdoor-sun', items: [], shares: [], owner: { id: owner.userId } });
     kitId = res.body.id;
@@ -268,7 +303,10 @@ describe('planning · kits and sharing', () => {
 
   it('kits · sharing with an unknown or a suspended account · the same neutral 422, naming no account', async () => {
     const share = (entry: Record<string, unknown>) =>
-      owner.agent.put(`/api/kits/${kitId}/shares`).set('X-CSRF-Token', owner.token).send({ shares: [{ ...entry, access: 'read' }] });
+      owner.agent
+        .put(`/api/kits/${kitId}/shares`)
+        .set('X-CSRF-Token', owner.token)
+        .send({ shares: [{ ...entry, access: 'read' }] });
     const suspended = await makeUser('member', { status: 'suspended' });
     const unknown = await share({ email: 'nobody-here@crew.test' });
     const gone = await share({ email: suspended.email });
@@ -284,8 +322,13 @@ describe('planning · kits and sharing', () => {
     // by id too
     const noId = await share({ userId: 987654 });
     const goneId = await share({ userId: suspended.user.id });
-    expect(goneId.body.error.fields['shares.0.userId'].replace(String(suspended.user.id), '<id>')).toBe(noId.body.error.fields['shares.0.userId'].replace('987654', '<id>'));
-    const self = await owner.agent.put(`/api/kits/${kitId}/shares`).set('X-CSRF-Token', owner.token).send({ shares: [{ userId: owner.userId, access: 'edit' }] });
+    expect(goneId.body.error.fields['shares.0.userId'].replace(String(suspended.user.id), '<id>')).toBe(
+      noId.body.error.fields['shares.0.userId'].replace('987654', '<id>'),
+    );
+    const self = await owner.agent
+      .put(`/api/kits/${kitId}/shares`)
+      .set('X-CSRF-Token', owner.token)
+      .send({ shares: [{ userId: owner.userId, access: 'edit' }] });
     expect(self.body.error.fields['shares.0.userId']).toMatch(/you own this kit/);
   });
 
@@ -293,7 +336,12 @@ describe('planning · kits and sharing', () => {
     const res = await owner.agent
       .put(`/api/kits/${kitId}/shares`)
       .set('X-CSRF-Token', owner.token)
-      .send({ shares: [{ email: editor.email.toUpperCase(), access: 'edit' }, { userId: reader.userId, access: 'read' }] });
+      .send({
+        shares: [
+          { email: editor.email.toUpperCase(), access: 'edit' },
+          { userId: reader.userId, access: 'read' },
+        ],
+      });
     expect(res.status).toBe(200);
     expect(res.body.shares).toHaveLength(2);
     expect(res.body.shares.find((s: { access: string }) => s.access === 'edit').user).toMatchObject({ id: editor.userId, email: editor.email });
@@ -309,7 +357,10 @@ describe('planning · kits and sharing', () => {
     expect((await stranger.get(`/api/kits/${kitId}`)).status).toBe(404);
     expect((await moderator.get(`/api/kits/${kitId}`)).status).toBe(404);
     expect((await request(t.app).get(`/api/kits/${kitId}`)).status).toBe(401);
-    expect((await reader.get('/api/kits')).body.items.find((k: { id: number }) => k.id === kitId)).toMatchObject({ access: 'read', owner: { id: owner.userId } });
+    expect((await reader.get('/api/kits')).body.items.find((k: { id: number }) => k.id === kitId)).toMatchObject({
+      access: 'read',
+      owner: { id: owner.userId },
+    });
     expect((await stranger.get('/api/kits')).body.items.some((k: { id: number }) => k.id === kitId)).toBe(false);
     expect((await stranger.get(`/api/kits/${kitId}/summary`)).status).toBe(404);
     expect((await reader.get(`/api/kits/${kitId}/summary`)).status).toBe(200);
@@ -326,7 +377,13 @@ describe('planning · kits and sharing', () => {
 
     const added = await editor.post(`/api/kits/${kitId}/items`).send({ partId: cubePart, quantity: 2 });
     expect(added.status).toBe(201);
-    expect(added.body).toMatchObject({ quantity: 2, part: { id: cubePart, onShelf: true }, recipe: { id: cubeRecipe, current: true }, material: 'PLA', printer: null });
+    expect(added.body).toMatchObject({
+      quantity: 2,
+      part: { id: cubePart, onShelf: true },
+      recipe: { id: cubeRecipe, current: true },
+      material: 'PLA',
+      printer: null,
+    });
     expect((await reader.post(`/api/kits/${kitId}/items`).send({ partId: cubePart })).status).toBe(403);
     expect((await stranger.post(`/api/kits/${kitId}/items`).send({ partId: cubePart })).status).toBe(404);
     expect((await reader.patch(`/api/kits/${kitId}/items/${added.body.id}`).send({ quantity: 3 })).status).toBe(403);
@@ -362,9 +419,23 @@ describe('planning · kit items', () => {
 
   beforeAll(async () => {
     kitId = (await owner.post('/api/kits').send({ name: 'Item checks' }).expect(201)).body.id;
-    await owner.agent.put(`/api/kits/${kitId}/shares`).set('X-CSRF-Token', owner.token).send({ shares: [{ userId: editor.userId, access: 'edit' }] }).expect(200);
-    ownPrinter = (await owner.post('/api/printers').send({ name: 'Owner printer', bedMm: [220, 220, 250], nozzleMm: 0.4 }).expect(201)).body.id;
-    editorsPrinter = (await editor.post('/api/printers').send({ name: 'Editor printer', bedMm: [220, 220, 250], nozzleMm: 0.4 }).expect(201)).body.id;
+    await owner.agent
+      .put(`/api/kits/${kitId}/shares`)
+      .set('X-CSRF-Token', owner.token)
+      .send({ shares: [{ userId: editor.userId, access: 'edit' }] })
+      .expect(200);
+    ownPrinter = (
+      await owner
+        .post('/api/printers')
+        .send({ name: 'Owner printer', bedMm: [220, 220, 250], nozzleMm: 0.4 })
+        .expect(201)
+    ).body.id;
+    editorsPrinter = (
+      await editor
+        .post('/api/printers')
+        .send({ name: 'Editor printer', bedMm: [220, 220, 250], nozzleMm: 0.4 })
+        .expect(201)
+    ).body.id;
   });
 
   it('items · a part that is not on the shelf · 422', async () => {
@@ -397,7 +468,9 @@ describe('planning · kit items', () => {
       expect(res.status).toBe(422);
       expect(res.body.error.fields.quantity).toBeTruthy();
     }
-    expect((await owner.post(`/api/kits/${kitId}/items`).send({ partId: cubePart, boughtPriceEach: -2 })).body.error.fields.boughtPriceEach).toMatch(/negative/);
+    expect((await owner.post(`/api/kits/${kitId}/items`).send({ partId: cubePart, boughtPriceEach: -2 })).body.error.fields.boughtPriceEach).toMatch(
+      /negative/,
+    );
   });
 
   it('items · an item of another kit · 404', async () => {
@@ -407,7 +480,12 @@ describe('planning · kit items', () => {
   });
 
   it('items · a deleted printer · leaves its items with no printer', async () => {
-    const spare = (await owner.post('/api/printers').send({ name: 'Spare', bedMm: [200, 200, 200], nozzleMm: 0.4 }).expect(201)).body.id;
+    const spare = (
+      await owner
+        .post('/api/printers')
+        .send({ name: 'Spare', bedMm: [200, 200, 200], nozzleMm: 0.4 })
+        .expect(201)
+    ).body.id;
     const item = (await owner.post(`/api/kits/${kitId}/items`).send({ partId: cubePart, printerId: spare }).expect(201)).body.id;
     await owner.delete(`/api/printers/${spare}`).expect(204);
     const kit = (await owner.get(`/api/kits/${kitId}`)).body as KitDetail;
@@ -427,13 +505,39 @@ describe('planning · summary and export', () => {
         .field('data', JSON.stringify({ production: 'Harbour Lights', daysInUse: 3, conditions: ['heat', 'vehicle'], material: 'PLA', outcome: 'deformed' }))
         .expect(201);
     }
-    await owner.agent.put('/api/me/prices').set('X-CSRF-Token', owner.token).send({ prices: { PLA: 25 }, pricePerKwh: 0.3, currency: 'CHF' }).expect(200);
-    const cart = (await owner.post('/api/printers').send({ name: 'Cart printer', bedMm: [220, 220, 250], nozzleMm: 0.4, watts: 120 }).expect(201)).body.id;
-    const mini = (await owner.post('/api/printers').send({ name: 'Mini', bedMm: [100, 100, 100], nozzleMm: 0.4 }).expect(201)).body.id;
-    const sneaky = (await owner.post('/api/printers').send({ name: '=HYPERLINK("http://evil.test","x")', bedMm: [220, 220, 250], nozzleMm: 0.4 }).expect(201)).body.id;
-    const kit = await owner.post('/api/kits').send({ name: 'Salt Flats / "car" unit; rm -rf', production: 'Salt Flats', heatExposure: 'vehicle-sun', printerPrice: 300 }).expect(201);
+    await owner.agent
+      .put('/api/me/prices')
+      .set('X-CSRF-Token', owner.token)
+      .send({ prices: { PLA: 25 }, pricePerKwh: 0.3, currency: 'CHF' })
+      .expect(200);
+    const cart = (
+      await owner
+        .post('/api/printers')
+        .send({ name: 'Cart printer', bedMm: [220, 220, 250], nozzleMm: 0.4, watts: 120 })
+        .expect(201)
+    ).body.id;
+    const mini = (
+      await owner
+        .post('/api/printers')
+        .send({ name: 'Mini', bedMm: [100, 100, 100], nozzleMm: 0.4 })
+        .expect(201)
+    ).body.id;
+    const sneaky = (
+      await owner
+        .post('/api/printers')
+        .send({ name: '=HYPERLINK("http://evil.test","x")', bedMm: [220, 220, 250], nozzleMm: 0.4 })
+        .expect(201)
+    ).body.id;
+    const kit = await owner
+      .post('/api/kits')
+      .send({ name: 'Salt Flats / "car" unit; rm -rf', production: 'Salt Flats', heatExposure: 'vehicle-sun', printerPrice: 300 })
+      .expect(201);
     kitId = kit.body.id;
-    await owner.agent.put(`/api/kits/${kitId}/shares`).set('X-CSRF-Token', owner.token).send({ shares: [{ userId: reader.userId, access: 'read' }] }).expect(200);
+    await owner.agent
+      .put(`/api/kits/${kitId}/shares`)
+      .set('X-CSRF-Token', owner.token)
+      .send({ shares: [{ userId: reader.userId, access: 'read' }] })
+      .expect(200);
     const add = (body: object) => owner.post(`/api/kits/${kitId}/items`).send(body).expect(201);
     await add({ partId: cubePart, quantity: 3, printerId: cart, boughtPriceEach: 4 });
     await add({ partId: longPart, quantity: 2, printerId: cart });
@@ -507,18 +611,34 @@ describe('planning · summary and export', () => {
   });
 
   it('export · CSV · an attachment with a safe name that papaparse reads back, totals included', async () => {
-    const res = await reader.get(`/api/kits/${kitId}/export.csv`).buffer(true).parse((r, cb) => {
-      let text = '';
-      r.setEncoding('utf8');
-      r.on('data', (c: string) => (text += c));
-      r.on('end', () => cb(null, text));
-    });
+    const res = await reader
+      .get(`/api/kits/${kitId}/export.csv`)
+      .buffer(true)
+      .parse((r, cb) => {
+        let text = '';
+        r.setEncoding('utf8');
+        r.on('data', (c: string) => (text += c));
+        r.on('end', () => cb(null, text));
+      });
     expect(res.status).toBe(200);
     expect(res.headers['content-type']).toBe('text/csv; charset=utf-8');
     expect(res.headers['content-disposition']).toMatch(/^attachment; filename="?salt-flats-car-unit-rm-rf\.csv"?$/);
     const parsed = Papa.parse<Record<string, string>>(res.body as string, { header: true, skipEmptyLines: true });
     expect(parsed.errors).toEqual([]);
-    expect(parsed.meta.fields).toEqual(['Part', 'Quantity', 'Material', 'Printer', 'Grams', 'Metres (1.75 mm)', 'Hours', 'Cost', 'Fit', 'Heat warning', 'Cautions', 'Notes']);
+    expect(parsed.meta.fields).toEqual([
+      'Part',
+      'Quantity',
+      'Material',
+      'Printer',
+      'Grams',
+      'Metres (1.75 mm)',
+      'Hours',
+      'Cost',
+      'Fit',
+      'Heat warning',
+      'Cautions',
+      'Notes',
+    ]);
     const rows = parsed.data;
     expect(rows[0]).toMatchObject({ Part: 'Solid test cube', Quantity: '3', Material: 'PLA', Printer: 'Cart printer', Grams: '29.8', Fit: 'as-is' });
     expect(Number(rows[0]['Metres (1.75 mm)'])).toBeCloseTo(3 * (8000 / (Math.PI * 0.875 ** 2) / 1000), 2);
@@ -535,12 +655,15 @@ describe('planning · summary and export', () => {
   });
 
   it('export · a printer named like a formula · the cell starts with an apostrophe', async () => {
-    const res = await owner.get(`/api/kits/${kitId}/export.csv`).buffer(true).parse((r, cb) => {
-      let text = '';
-      r.setEncoding('utf8');
-      r.on('data', (c: string) => (text += c));
-      r.on('end', () => cb(null, text));
-    });
+    const res = await owner
+      .get(`/api/kits/${kitId}/export.csv`)
+      .buffer(true)
+      .parse((r, cb) => {
+        let text = '';
+        r.setEncoding('utf8');
+        r.on('data', (c: string) => (text += c));
+        r.on('end', () => cb(null, text));
+      });
     const rows = Papa.parse<Record<string, string>>(res.body as string, { header: true, skipEmptyLines: true }).data;
     expect(rows[3].Printer).toBe(`'=HYPERLINK("http://evil.test","x")`);
     for (const row of rows) for (const cell of Object.values(row)) expect(cell).not.toMatch(/^[=+@]/);

@@ -41,7 +41,9 @@ async function published(data: unknown, model: Buffer): Promise<number> {
 }
 
 async function ask(body: Record<string, unknown> = {}): Promise<PrintRequestDetail> {
-  const res = await asker.post('/api/print-requests').send({ crewId, printerId, partId: cubePart, quantity: 3, neededBy: '2030-01-15', note: 'For the B camera.', ...body });
+  const res = await asker
+    .post('/api/print-requests')
+    .send({ crewId, printerId, partId: cubePart, quantity: 3, neededBy: '2030-01-15', note: 'For the B camera.', ...body });
   expect(res.status, JSON.stringify(res.body)).toBe(201);
   return res.body;
 }
@@ -86,7 +88,11 @@ beforeAll(async () => {
   const printer = await owner.post('/api/printers').send({ name: 'Cart printer', bedMm: [220, 220, 250], nozzleMm: 0.4, watts: 150 });
   expect(printer.status).toBe(201);
   printerId = printer.body.id;
-  await owner.agent.put('/api/me/prices').set('X-CSRF-Token', owner.token).send({ prices: { PLA: 25 }, pricePerKwh: 0.4, machineHourRate: 1.2 }).expect(200);
+  await owner.agent
+    .put('/api/me/prices')
+    .set('X-CSRF-Token', owner.token)
+    .send({ prices: { PLA: 25 }, pricePerKwh: 0.4, machineHourRate: 1.2 })
+    .expect(200);
 });
 afterAll(async () => {
   await new Promise<void>((resolve) => server.close(() => resolve()));
@@ -96,7 +102,14 @@ afterAll(async () => {
 describe('print requests · asking and the price', () => {
   it('print requests · crew printers · a crew mate’s printer is offered; an outsider sees none', async () => {
     const mine = (await asker.get('/api/print-requests/printers').expect(200)).body.items;
-    expect(mine).toEqual([expect.objectContaining({ id: printerId, name: 'Cart printer', owner: expect.objectContaining({ id: owner.userId }), crew: expect.objectContaining({ id: crewId, currency: 'EUR' }) })]);
+    expect(mine).toEqual([
+      expect.objectContaining({
+        id: printerId,
+        name: 'Cart printer',
+        owner: expect.objectContaining({ id: owner.userId }),
+        crew: expect.objectContaining({ id: crewId, currency: 'EUR' }),
+      }),
+    ]);
     expect((await outsider.get('/api/print-requests/printers').expect(200)).body.items).toEqual([]);
   });
 
@@ -107,7 +120,12 @@ describe('print requests · asking and the price', () => {
     // the same estimate the planning page gives for this file and recipe
     const cube = (await moderator.get(`/api/parts/${cubePart}`).expect(200)).body;
     const fileId = cube.files.find((f: { kind: string }) => f.kind === 'model').id;
-    const e = (await asker.post('/api/estimate').send({ fileId, material: 'PLA', nozzleMm: 0.4, layerMm: 0.2, walls: 4, topBottomLayers: 5, infillPct: 100, speedMmS: 60 }).expect(200)).body;
+    const e = (
+      await asker
+        .post('/api/estimate')
+        .send({ fileId, material: 'PLA', nozzleMm: 0.4, layerMm: 0.2, walls: 4, topBottomLayers: 5, infillPct: 100, speedMmS: 60 })
+        .expect(200)
+    ).body;
     // handbook density of PLA 1.24 g/cm³ (as in the planning tests): a solid 20 mm cube weighs 9.92 g
     expect(e.massG).toBeCloseTo(9.92, 3);
     expect(r.estimate.grams).toBeCloseTo(Math.round(3 * e.massG * 10) / 10, 6);
@@ -124,7 +142,9 @@ describe('print requests · asking and the price', () => {
     expect(r.price.totalMinor).toBe(r.price.lines.reduce((s, l) => s + l.amountMinor, 0));
     expect(r.price.currency).toBe('EUR');
     // on record, with a notice and a mail for the printer's owner
-    expect(r.history).toEqual([expect.objectContaining({ action: 'asked', to: 'requested', actor: expect.objectContaining({ id: asker.userId }), note: 'For the B camera.' })]);
+    expect(r.history).toEqual([
+      expect.objectContaining({ action: 'asked', to: 'requested', actor: expect.objectContaining({ id: asker.userId }), note: 'For the B camera.' }),
+    ]);
     expect(await Notice.count({ where: { userId: owner.userId, kind: 'print-request' } })).toBeGreaterThan(0);
     expect(await MailMessage.count({ where: { toAddress: owner.email } })).toBeGreaterThan(0);
   });
@@ -197,11 +217,19 @@ describe('print requests · asking and the price', () => {
     const accepted = (await owner.post(`/api/print-requests/${r.id}/accept`).send({ note: 'Tomorrow morning.' }).expect(200)).body as PrintRequestDetail;
     expect(accepted.priceFrozen).toBe(true);
     expect(accepted.price.totalMinor).toBe(r.price.totalMinor);
-    await owner.agent.put('/api/me/prices').set('X-CSRF-Token', owner.token).send({ prices: { PLA: 90 }, pricePerKwh: 0.4 }).expect(200);
+    await owner.agent
+      .put('/api/me/prices')
+      .set('X-CSRF-Token', owner.token)
+      .send({ prices: { PLA: 90 }, pricePerKwh: 0.4 })
+      .expect(200);
     expect((await read(r.id)).price.totalMinor).toBe(r.price.totalMinor);
     // a request not yet accepted shows the new prices
     expect((await ask()).price.totalMinor).toBeGreaterThan(r.price.totalMinor);
-    await owner.agent.put('/api/me/prices').set('X-CSRF-Token', owner.token).send({ prices: { PLA: 25 }, pricePerKwh: 0.4, machineHourRate: 1.2 }).expect(200);
+    await owner.agent
+      .put('/api/me/prices')
+      .set('X-CSRF-Token', owner.token)
+      .send({ prices: { PLA: 25 }, pricePerKwh: 0.4, machineHourRate: 1.2 })
+      .expect(200);
   });
 
   it('print requests · asked to handed over · every step on record with who, and the requester told each time', async () => {
@@ -251,7 +279,11 @@ describe('print requests · paying back through the SDK and the local fake', () 
     const sent = fake.events.at(-1)!;
     const events = await PrintRequestEvent.count({ where: { requestId: paid.id } });
     for (let i = 0; i < 2; i++) {
-      const replay = await asker.agent.post('/api/payments/webhook').set('Content-Type', 'application/json').set('Stripe-Signature', sent.signature).send(sent.payload);
+      const replay = await asker.agent
+        .post('/api/payments/webhook')
+        .set('Content-Type', 'application/json')
+        .set('Stripe-Signature', sent.signature)
+        .send(sent.payload);
       expect(replay.status).toBe(200);
       expect(replay.body).toEqual({ received: true, duplicate: true });
     }
@@ -282,7 +314,11 @@ describe('print requests · paying back through the SDK and the local fake', () 
     }
     // a real signature over different bytes
     const real = fake.events.at(-1)!;
-    const tampered = await asker.agent.post('/api/payments/webhook').set('Content-Type', 'application/json').set('Stripe-Signature', real.signature).send(payload);
+    const tampered = await asker.agent
+      .post('/api/payments/webhook')
+      .set('Content-Type', 'application/json')
+      .set('Stripe-Signature', real.signature)
+      .send(payload);
     expect(tampered.status).toBe(400);
     const after = await read(r.id);
     expect(after.payment.status).toBe('pending');
@@ -344,7 +380,9 @@ describe('print requests · paying back through the SDK and the local fake', () 
     const list = (await owner.get('/api/print-requests').expect(200)).body as PrintRequestList;
     const paidToOwner = await PrintRequest.sum('paidMinor', { where: { ownerId: owner.userId, paymentStatus: 'paid' } });
     expect(list.totals.paidToMe).toEqual([{ currency: 'EUR', minor: paidToOwner }]);
-    const owed = (await PrintRequest.findAll({ where: { ownerId: owner.userId } })).filter((r) => ['accepted', 'fit_tested', 'printed', 'handed_over'].includes(r.status) && r.paymentStatus !== 'paid');
+    const owed = (await PrintRequest.findAll({ where: { ownerId: owner.userId } })).filter(
+      (r) => ['accepted', 'fit_tested', 'printed', 'handed_over'].includes(r.status) && r.paymentStatus !== 'paid',
+    );
     expect(list.totals.owedToMe).toEqual([{ currency: 'EUR', minor: owed.reduce((s, r) => s + r.priceMinor!, 0) }]);
     expect(list.forMe.some((r) => r.id === paid.id)).toBe(true);
     const mine = (await asker.get('/api/print-requests').expect(200)).body as PrintRequestList;
@@ -361,11 +399,21 @@ describe('statement · a kit for the production office', () => {
     kitId = kit.body.id;
     await asker.post(`/api/kits/${kitId}/items`).send({ partId: cubePart, quantity: 3 }).expect(201);
     await asker.post(`/api/kits/${kitId}/items`).send({ partId: ncPart, quantity: 2 }).expect(201);
-    await asker.agent.put('/api/me/prices').set('X-CSRF-Token', asker.token).send({ prices: { PLA: 19.99 }, pricePerKwh: 0.3 }).expect(200);
+    await asker.agent
+      .put('/api/me/prices')
+      .set('X-CSRF-Token', asker.token)
+      .send({ prices: { PLA: 19.99 }, pricePerKwh: 0.3 })
+      .expect(200);
     await asker.agent
       .put(`/api/kits/${kitId}/statement`)
       .set('X-CSRF-Token', asker.token)
-      .send({ purchaseOrder: 'PO-2291', fees: [{ label: 'Prep-day handling', amount: 12.5 }, { label: 'Courier', amount: 7.35 }] })
+      .send({
+        purchaseOrder: 'PO-2291',
+        fees: [
+          { label: 'Prep-day handling', amount: 12.5 },
+          { label: 'Courier', amount: 7.35 },
+        ],
+      })
       .expect(204);
   });
 
@@ -414,11 +462,14 @@ describe('statement · a kit for the production office', () => {
   });
 
   it('statement · PDF · a PDF document; outsiders get 404', async () => {
-    const res = await asker.get(`/api/kits/${kitId}/statement.pdf`).buffer(true).parse((r, cb) => {
-      const chunks: Buffer[] = [];
-      r.on('data', (c: Buffer) => chunks.push(c));
-      r.on('end', () => cb(null, Buffer.concat(chunks)));
-    });
+    const res = await asker
+      .get(`/api/kits/${kitId}/statement.pdf`)
+      .buffer(true)
+      .parse((r, cb) => {
+        const chunks: Buffer[] = [];
+        r.on('data', (c: Buffer) => chunks.push(c));
+        r.on('end', () => cb(null, Buffer.concat(chunks)));
+      });
     expect(res.status).toBe(200);
     expect(res.headers['content-type']).toBe('application/pdf');
     expect((res.body as Buffer).subarray(0, 5).toString()).toBe('%PDF-');
@@ -428,7 +479,10 @@ describe('statement · a kit for the production office', () => {
   });
 
   it('statement · bad details · 422 and the saved details stay', async () => {
-    const res = await asker.agent.put(`/api/kits/${kitId}/statement`).set('X-CSRF-Token', asker.token).send({ fees: [{ label: '', amount: -1 }] });
+    const res = await asker.agent
+      .put(`/api/kits/${kitId}/statement`)
+      .set('X-CSRF-Token', asker.token)
+      .send({ fees: [{ label: '', amount: -1 }] });
     expect(res.status).toBe(422);
     const s = (await asker.get(`/api/kits/${kitId}/statement`).expect(200)).body as StatementInfo;
     expect(s.fees).toHaveLength(2);

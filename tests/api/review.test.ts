@@ -22,7 +22,10 @@ async function signedIn(role: Role = 'member', displayName?: string): Promise<Ag
 }
 
 function submit(a: Agent, data: unknown = submission()) {
-  return a.post('/api/parts').field('data', JSON.stringify(data)).attach('model', boxStl(20, 30, 10), 'part.stl');
+  return a
+    .post('/api/parts')
+    .field('data', JSON.stringify(data))
+    .attach('model', boxStl(20, 30, 10), 'part.stl');
 }
 
 async function submitted(a: Agent = member, data?: unknown): Promise<number> {
@@ -185,7 +188,7 @@ describe('review · decisions', () => {
     expect((await modA.post(`/api/review/${own}/retire`).send({ note: 'My own part, retiring it.' })).status).toBe(403);
   });
 
-  it('review · a moderator edited someone else\'s published part · four eyes kept', async () => {
+  it("review · a moderator edited someone else's published part · four eyes kept", async () => {
     const id = await submitted();
     await modB.post(`/api/review/${id}/approve`).send({}).expect(200);
     await modA.patch(`/api/parts/${id}`).send({ summary: 'A moderator rewrote this summary line.' }).expect(200);
@@ -193,11 +196,14 @@ describe('review · decisions', () => {
     await modB.post(`/api/review/${id}/approve`).send({}).expect(200);
   });
 
-  it('four eyes · a moderator rewrites someone else\'s submission and replaces its model · cannot approve it (403), the history says who changed what, another moderator approves', async () => {
+  it("four eyes · a moderator rewrites someone else's submission and replaces its model · cannot approve it (403), the history says who changed what, another moderator approves", async () => {
     const id = await submitted(member, submission({ summary: 'The contributor wrote this summary line.' }));
     const oldModel = (await member.get(`/api/parts/${id}`)).body.files.find((f: { kind: string }) => f.kind === 'model');
     await modA.patch(`/api/parts/${id}`).send({ summary: 'A moderator rewrote this summary line.' }).expect(200);
-    await modA.post(`/api/parts/${id}/files`).attach('model', boxStl(22, 30, 10), 'swapped.stl').expect(201);
+    await modA
+      .post(`/api/parts/${id}/files`)
+      .attach('model', boxStl(22, 30, 10), 'swapped.stl')
+      .expect(201);
     await modA.delete(`/api/parts/${id}/files/${oldModel.id}`).expect(200);
 
     const approve = await modA.post(`/api/review/${id}/approve`).send({});
@@ -232,10 +238,7 @@ describe('review · decisions', () => {
 
   it('review · two moderators deciding at once · exactly one wins; the other is told', async () => {
     const id = await submitted();
-    const [a, b] = await Promise.all([
-      modA.post(`/api/review/${id}/approve`).send({ note: 'A' }),
-      modB.post(`/api/review/${id}/approve`).send({ note: 'B' }),
-    ]);
+    const [a, b] = await Promise.all([modA.post(`/api/review/${id}/approve`).send({ note: 'A' }), modB.post(`/api/review/${id}/approve`).send({ note: 'B' })]);
     expect([a.status, b.status].sort()).toEqual([200, 409]);
     expect(await AuditEvent.count({ where: { partId: id, action: 'approve' } })).toBe(1);
     expect(await PartRevision.count({ where: { partId: id, status: 'published' } })).toBe(1);
@@ -259,7 +262,10 @@ describe('review · revisions of a published part', () => {
   it('revisions · a change to a published part · shows what changed; approving replaces the published revision', async () => {
     const id = await submitted(member, submission({ title: 'Yoke v1' }));
     await modA.post(`/api/review/${id}/approve`).send({}).expect(200);
-    await member.patch(`/api/parts/${id}`).send({ title: 'Yoke v2', safety: { carriesLoad: true, overhead: true, vehicle: false, heat: false } }).expect(200);
+    await member
+      .patch(`/api/parts/${id}`)
+      .send({ title: 'Yoke v2', safety: { carriesLoad: true, overhead: true, vehicle: false, heat: false } })
+      .expect(200);
 
     const queue = await modA.get('/api/review/queue');
     expect(queue.body.items.find((i: { partId: number }) => i.partId === id)).toMatchObject({ isRevisionOfPublished: true, revisionNumber: 2 });

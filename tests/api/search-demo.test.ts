@@ -66,7 +66,12 @@ describe('search · the demo shelf as crews type', () => {
   it('search on the demo shelf · some words match · never an empty page, and says which words did not', async () => {
     // no demo part is a receiver bracket for V-style plates: each half finds its part
     const res = await search({ q: 'receiver bracket for v-style' });
-    expect(res.results.map((r) => r.slug).slice(0, 2).sort()).toEqual([CRADLE, SPACER].sort());
+    expect(
+      res.results
+        .map((r) => r.slug)
+        .slice(0, 2)
+        .sort(),
+    ).toEqual([CRADLE, SPACER].sort());
     const cradle = res.results.find((r) => r.slug === CRADLE)!;
     expect(cradle.matched).toContain('receiver');
     expect(cradle.missing).toEqual(expect.arrayContaining(['bracket', 'v-style']));

@@ -20,7 +20,11 @@ async function signedIn(role: Role = 'member'): Promise<Agent> {
 }
 
 async function published(title: string): Promise<number> {
-  const res = await author.post('/api/parts').field('data', JSON.stringify(submission({ title }))).attach('model', boxStl(20, 20, 20), 'p.stl').expect(201);
+  const res = await author
+    .post('/api/parts')
+    .field('data', JSON.stringify(submission({ title })))
+    .attach('model', boxStl(20, 20, 20), 'p.stl')
+    .expect(201);
   await moderator.post(`/api/review/${res.body.id}/approve`).send({}).expect(200);
   return res.body.id;
 }
@@ -28,7 +32,10 @@ async function published(title: string): Promise<number> {
 // one report per job: repeats by one member on one production count once toward the proven figure
 async function reports(id: number, outcomes: string[]) {
   for (const [i, outcome] of outcomes.entries()) {
-    await crew.post(`/api/parts/${id}/reports`).field('data', JSON.stringify({ production: `Night Ferry, block ${i + 1}`, daysInUse: 3, outcome, material: 'PETG' })).expect(201);
+    await crew
+      .post(`/api/parts/${id}/reports`)
+      .field('data', JSON.stringify({ production: `Night Ferry, block ${i + 1}`, daysInUse: 3, outcome, material: 'PETG' }))
+      .expect(201);
   }
 }
 
@@ -84,7 +91,10 @@ describe('search · camera-body vocabulary', () => {
   it('camera-body vocabulary · an admin adds an alias · the part is found by it', async () => {
     const admin = await signedIn('admin');
     expect((await search('q=blackbird').expect(200)).body.total).toBe(0);
-    await admin.patch('/api/admin/bodies/korvel-kx8').send({ aliases: ['KX8', 'Korvel 8', 'Blackbird'] }).expect(200);
+    await admin
+      .patch('/api/admin/bodies/korvel-kx8')
+      .send({ aliases: ['KX8', 'Korvel 8', 'Blackbird'] })
+      .expect(200);
     await t.services.search.idle();
     const res = await search('q=blackbird').expect(200);
     expect(res.body.results.map((r: { id: number }) => r.id).sort()).toEqual(Object.values(ids).sort());

@@ -33,7 +33,7 @@ describe('search service · a search past its time', () => {
     }
   });
 
-  it('search service · any search · answered by the app\'s worker; the index never shares the main thread', async () => {
+  it("search service · any search · answered by the app's worker; the index never shares the main thread", async () => {
     const res = await t.services.search.search(searchQuerySchema.parse({ q: 'receiver plate' }));
     expect(res.results[0]).toMatchObject({ slug: 'receiver-cradle-for-15-mm-rods', matched: ['receiver'], missing: ['plate'] });
   });

@@ -33,7 +33,14 @@ interface Entry {
   photo?: boolean;
 }
 
-const base = { description: '', bodies: [], mounts: [], keyDimensions: [], safety: { carriesLoad: false, overhead: false, vehicle: false, heat: false }, testedLoadKg: null };
+const base = {
+  description: '',
+  bodies: [],
+  mounts: [],
+  keyDimensions: [],
+  safety: { carriesLoad: false, overhead: false, vehicle: false, heat: false },
+  testedLoadKg: null,
+};
 
 // An invented shelf: part names, makers and camera bodies are made up (bodies from the demo list).
 const CATALOGUE = {
@@ -41,82 +48,129 @@ const CATALOGUE = {
     photo: true,
     size: [110, 75, 20],
     data: {
-      ...base, title: 'V-style battery plate adapter', category: 'power-batteries', licence: 'CC-BY-4.0',
+      ...base,
+      title: 'V-style battery plate adapter',
+      category: 'power-batteries',
+      licence: 'CC-BY-4.0',
       summary: 'Puts a V-style battery on the back of the cage, off the rods.',
-      bodies: ['korvel-kx8'], mounts: [{ slug: 'battery-v-style' }, { slug: 'rods-15-60' }], recipes: [recipe.PETG, recipe.ASA],
+      bodies: ['korvel-kx8'],
+      mounts: [{ slug: 'battery-v-style' }, { slug: 'rods-15-60' }],
+      recipes: [recipe.PETG, recipe.ASA],
     },
   },
   riser: {
     size: [60, 40, 20],
     data: {
-      ...base, title: 'Cheese riser block', category: 'shoe-top', licence: 'CC-BY-ND-4.0',
+      ...base,
+      title: 'Cheese riser block',
+      category: 'shoe-top',
+      licence: 'CC-BY-ND-4.0',
       summary: 'Lifts a top handle by 20 mm on a quarter-twenty screw.',
-      bodies: ['halden-h6'], mounts: [{ slug: 'screw-1-4-20' }], keyDimensions: [{ name: 'screw hole', valueMm: 6.5, tolMm: 0.1 }], recipes: [recipe.PETG],
+      bodies: ['halden-h6'],
+      mounts: [{ slug: 'screw-1-4-20' }],
+      keyDimensions: [{ name: 'screw hole', valueMm: 6.5, tolMm: 0.1 }],
+      recipes: [recipe.PETG],
     },
   },
   yoke: {
     size: [150, 30, 90],
     data: {
-      ...base, title: 'Director monitor yoke', category: 'monitors-video', licence: 'CC-BY-4.0',
+      ...base,
+      title: 'Director monitor yoke',
+      category: 'monitors-video',
+      licence: 'CC-BY-4.0',
       summary: 'Holds a 7-inch director monitor on a stand or arm.',
-      mounts: [{ slug: 'screw-3-8-16' }, { slug: 'accessory-shoe' }], recipes: [recipe.PETG],
+      mounts: [{ slug: 'screw-3-8-16' }, { slug: 'accessory-shoe' }],
+      recipes: [recipe.PETG],
     },
   },
   clamp: {
     size: [50, 30, 25],
     data: {
-      ...base, title: 'Rod clamp with thumb screw', category: 'rods-mounting', licence: 'CC-BY-4.0',
+      ...base,
+      title: 'Rod clamp with thumb screw',
+      category: 'rods-mounting',
+      licence: 'CC-BY-4.0',
       summary: 'Grabs one lightweight rod and takes any small accessory.',
-      mounts: [{ slug: 'rods-15-60' }, { slug: 'screw-1-4-20' }], keyDimensions: [{ name: 'Rod bore', valueMm: 15.3, tolMm: 0.1 }], recipes: [recipe.PETG],
+      mounts: [{ slug: 'rods-15-60' }, { slug: 'screw-1-4-20' }],
+      keyDimensions: [{ name: 'Rod bore', valueMm: 15.3, tolMm: 0.1 }],
+      recipes: [recipe.PETG],
     },
   },
   gear: {
     size: [90, 90, 8],
     data: {
-      ...base, title: 'Follow-focus gear ring, 80 mm', category: 'lens-focus', licence: 'CC-BY-4.0',
+      ...base,
+      title: 'Follow-focus gear ring, 80 mm',
+      category: 'lens-focus',
+      licence: 'CC-BY-4.0',
       summary: 'A flexible gear ring that grips a lens barrel without tape.',
-      mounts: [{ slug: 'gear-0-8' }], keyDimensions: [{ name: 'inner diameter', valueMm: 80, tolMm: 0.2 }], recipes: [recipe.TPU],
+      mounts: [{ slug: 'gear-0-8' }],
+      keyDimensions: [{ name: 'inner diameter', valueMm: 80, tolMm: 0.2 }],
+      recipes: [recipe.TPU],
     },
   },
   slate: {
     size: [130, 60, 15],
     data: {
-      ...base, title: 'Slate light holder', category: 'cases-storage', licence: 'CC-BY-4.0',
+      ...base,
+      title: 'Slate light holder',
+      category: 'cases-storage',
+      licence: 'CC-BY-4.0',
       summary: 'Clips the small slate light to the side of the camera cart.',
-      description: 'Has a pocket for the spare battery of the light.', recipes: [recipe.PETG],
+      description: 'Has a pocket for the spare battery of the light.',
+      recipes: [recipe.PETG],
     },
   },
   handle: {
     size: [140, 35, 45],
     data: {
-      ...base, title: 'Short top handle', category: 'shoe-top', licence: 'CC-BY-4.0',
+      ...base,
+      title: 'Short top handle',
+      category: 'shoe-top',
+      licence: 'CC-BY-4.0',
       summary: 'A low top handle that clears the viewfinder.',
-      bodies: ['ostrava-vega-s35'], mounts: [{ slug: 'screw-3-8-16' }], recipes: [recipe.PETG],
+      bodies: ['ostrava-vega-s35'],
+      mounts: [{ slug: 'screw-3-8-16' }],
+      recipes: [recipe.PETG],
     },
   },
   clip: {
     size: [30, 20, 10],
     data: {
-      ...base, title: 'Cable clip for studio rods', category: 'cable-management', licence: 'MIT',
+      ...base,
+      title: 'Cable clip for studio rods',
+      category: 'cable-management',
+      licence: 'MIT',
       summary: 'Keeps a power cable tidy along the bottom rods.',
-      mounts: [{ slug: 'rods-19-104' }], recipes: [recipe.PLA],
+      mounts: [{ slug: 'rods-19-104' }],
+      recipes: [recipe.PLA],
     },
   },
   dovetail: {
     size: [101.6, 38, 12],
     data: {
-      ...base, title: 'Dovetail bridge plate', category: 'rods-mounting', licence: 'CC-BY-4.0',
+      ...base,
+      title: 'Dovetail bridge plate',
+      category: 'rods-mounting',
+      licence: 'CC-BY-4.0',
       summary: 'A short plate that drops into a 38 mm clamp under the body.',
-      mounts: [{ slug: 'dovetail-38' }], keyDimensions: [{ name: 'plate width', valueMm: 101.6, tolMm: 0.2 }], recipes: [recipe.PETG],
+      mounts: [{ slug: 'dovetail-38' }],
+      keyDimensions: [{ name: 'plate width', valueMm: 101.6, tolMm: 0.2 }],
+      recipes: [recipe.PETG],
     },
   },
   sled: {
     // stands 120 tall as drawn: fits a 120 × 80 × 40 space only lying down
     size: [40, 120, 80],
     data: {
-      ...base, title: 'Wireless receiver sled', category: 'monitors-video', licence: 'CC-BY-4.0',
+      ...base,
+      title: 'Wireless receiver sled',
+      category: 'monitors-video',
+      licence: 'CC-BY-4.0',
       summary: 'Holds a video receiver upright on the camera shoe.',
-      mounts: [{ slug: 'accessory-shoe' }], recipes: [recipe.PETG],
+      mounts: [{ slug: 'accessory-shoe' }],
+      recipes: [recipe.PETG],
     },
   },
 } satisfies Record<string, Entry>;
@@ -125,7 +179,10 @@ const ids = {} as Record<Name, number>;
 const nameOf = (id: number) => (Object.keys(ids) as Name[]).find((n) => ids[n] === id) ?? `#${id}`;
 
 async function submitPart(entry: Entry): Promise<number> {
-  let req = author.post('/api/parts').field('data', JSON.stringify(submission(entry.data))).attach('model', boxStl(...entry.size), 'part.stl');
+  let req = author
+    .post('/api/parts')
+    .field('data', JSON.stringify(submission(entry.data)))
+    .attach('model', boxStl(...entry.size), 'part.stl');
   if (entry.photo) req = req.attach('photo', await jpegWithGps(), 'print.jpg');
   const res = await req;
   expect(res.status, JSON.stringify(res.body)).toBe(201);
@@ -153,7 +210,8 @@ async function names(params: Record<string, string | string[]>): Promise<string[
   return (await search(params)).results.map((r) => nameOf(r.id));
 }
 
-const withMount = (slug: string) => (Object.keys(CATALOGUE) as Name[]).filter((n) => (CATALOGUE[n].data.mounts as { slug: string }[]).some((m) => m.slug === slug));
+const withMount = (slug: string) =>
+  (Object.keys(CATALOGUE) as Name[]).filter((n) => (CATALOGUE[n].data.mounts as { slug: string }[]).some((m) => m.slug === slug));
 
 beforeAll(async () => {
   t = await createTestApp();
@@ -388,7 +446,17 @@ describe('search · answers bad input', () => {
 
 describe('search · follows the shelf', () => {
   it('search follows the shelf · a part waiting in review, then approved · found only once approved', async () => {
-    const id = await submitPart({ size: [20, 20, 20], data: { ...base, title: 'Lens cap keeper', category: 'protection-caps', licence: 'CC-BY-4.0', summary: 'Keeps the lens cap on a cord by the matte box.', recipes: [recipe.PETG] } });
+    const id = await submitPart({
+      size: [20, 20, 20],
+      data: {
+        ...base,
+        title: 'Lens cap keeper',
+        category: 'protection-caps',
+        licence: 'CC-BY-4.0',
+        summary: 'Keeps the lens cap on a cord by the matte box.',
+        recipes: [recipe.PETG],
+      },
+    });
     await t.services.search.idle();
     expect(await names({ q: 'keeper' })).toEqual([]);
     await approve(id);
@@ -397,7 +465,17 @@ describe('search · follows the shelf', () => {
   });
 
   it('search follows the shelf · a rebuild running · answers from the old index, then swaps in the new one', async () => {
-    const id = await submitPart({ size: [20, 20, 20], data: { ...base, title: 'Marker pouch clip', category: 'cases-storage', licence: 'CC-BY-4.0', summary: 'Hangs a pouch of slate markers on the cart.', recipes: [recipe.PETG] } });
+    const id = await submitPart({
+      size: [20, 20, 20],
+      data: {
+        ...base,
+        title: 'Marker pouch clip',
+        category: 'cases-storage',
+        licence: 'CC-BY-4.0',
+        summary: 'Hangs a pouch of slate markers on the cart.',
+        recipes: [recipe.PETG],
+      },
+    });
     await approve(id);
     // the worker that holds the old index answers until the new one is ready
     const during = await t.services.search.search(searchQuerySchema.parse({ q: 'pouch' }));
@@ -408,7 +486,17 @@ describe('search · follows the shelf', () => {
   });
 
   it('search follows the shelf · an approved edit · the new title found, the old one no longer', async () => {
-    const id = await submitPart({ size: [20, 20, 20], data: { ...base, title: 'Tally light bracket', category: 'shoe-top', licence: 'CC-BY-4.0', summary: 'Puts a tally lamp on the shoe where talent sees it.', recipes: [recipe.PETG] } });
+    const id = await submitPart({
+      size: [20, 20, 20],
+      data: {
+        ...base,
+        title: 'Tally light bracket',
+        category: 'shoe-top',
+        licence: 'CC-BY-4.0',
+        summary: 'Puts a tally lamp on the shoe where talent sees it.',
+        recipes: [recipe.PETG],
+      },
+    });
     await approve(id);
     await t.services.search.idle();
     await author.patch(`/api/parts/${id}`).send({ title: 'Tally lamp cradle' }).expect(200);
@@ -423,7 +511,17 @@ describe('search · follows the shelf', () => {
   });
 
   it('search follows the shelf · a retired part · dropped', async () => {
-    const id = await submitPart({ size: [20, 20, 20], data: { ...base, title: 'Filter tray wedge', category: 'protection-caps', licence: 'CC-BY-4.0', summary: 'Shims a loose filter tray in the matte box.', recipes: [recipe.PETG] } });
+    const id = await submitPart({
+      size: [20, 20, 20],
+      data: {
+        ...base,
+        title: 'Filter tray wedge',
+        category: 'protection-caps',
+        licence: 'CC-BY-4.0',
+        summary: 'Shims a loose filter tray in the matte box.',
+        recipes: [recipe.PETG],
+      },
+    });
     await approve(id);
     await t.services.search.idle();
     expect((await search({ q: 'wedge' })).results.map((r) => r.id)).toEqual([id]);
@@ -433,7 +531,17 @@ describe('search · follows the shelf', () => {
   });
 
   it('search follows the shelf · a decision that leaves the published set as it was · no rebuild', async () => {
-    const id = await submitPart({ size: [20, 20, 20], data: { ...base, title: 'Unlucky draft', category: 'protection-caps', licence: 'CC-BY-4.0', summary: 'This one goes back to its author for changes.', recipes: [recipe.PETG] } });
+    const id = await submitPart({
+      size: [20, 20, 20],
+      data: {
+        ...base,
+        title: 'Unlucky draft',
+        category: 'protection-caps',
+        licence: 'CC-BY-4.0',
+        summary: 'This one goes back to its author for changes.',
+        recipes: [recipe.PETG],
+      },
+    });
     const before = t.services.search.stats().builds;
     await modA.post(`/api/review/${id}/send-back`).send({ note: 'Add a photo of the print, please.' }).expect(200);
     await t.services.search.idle();
@@ -472,7 +580,17 @@ describe('search · index file', () => {
   it('search index file · the shelf changed since it was written, or another format · rebuilt', async () => {
     const stale = `${t.config.SEARCH_INDEX_FILE}.stale.json`;
     copyFileSync(t.config.SEARCH_INDEX_FILE, stale);
-    const id = await submitPart({ size: [20, 20, 20], data: { ...base, title: 'Battery belt hook', category: 'power-batteries', licence: 'CC-BY-4.0', summary: 'Hangs a spare battery pouch on a belt.', recipes: [recipe.PETG] } });
+    const id = await submitPart({
+      size: [20, 20, 20],
+      data: {
+        ...base,
+        title: 'Battery belt hook',
+        category: 'power-batteries',
+        licence: 'CC-BY-4.0',
+        summary: 'Hangs a spare battery pouch on a belt.',
+        recipes: [recipe.PETG],
+      },
+    });
     await approve(id);
     await t.services.search.idle();
     const again = await createTestApp({ SEARCH_INDEX_FILE: stale });

@@ -88,7 +88,13 @@ describe('s3 storage · a part with a model and a photo', { timeout: 180_000 }, 
     expect(p.processing).toBe('ready');
     expect(m.renderStatus).toBe('ready');
     const keys = await objects();
-    for (const k of [`store/${m.storedName}`, `store/${m.storedName}-display.jpg`, `store/${m.storedName}-thumb.jpg`, `store/${p.storedName}-display.jpg`, `store/${p.storedName}-thumb.jpg`]) {
+    for (const k of [
+      `store/${m.storedName}`,
+      `store/${m.storedName}-display.jpg`,
+      `store/${m.storedName}-thumb.jpg`,
+      `store/${p.storedName}-display.jpg`,
+      `store/${p.storedName}-thumb.jpg`,
+    ]) {
       expect(keys).toContain(k);
     }
     expect(keys).not.toContain(`incoming/${p.storedName}`);
@@ -194,7 +200,10 @@ describe('s3 storage · nothing left behind', { timeout: 180_000 }, () => {
 
   it('removing a file · a second model removed from a part takes its object and pictures with it', async () => {
     const id = (await submit(author, 'Bracket with a spare model').expect(201)).body.id;
-    await author.post(`/api/parts/${id}/files`).attach('model', boxStl(10, 10, 10), 'spare.stl').expect(201);
+    await author
+      .post(`/api/parts/${id}/files`)
+      .attach('model', boxStl(10, 10, 10), 'spare.stl')
+      .expect(201);
     await settled();
     const spare = (await PartFile.findAll({ where: { partId: id, kind: 'model' } })).find((r) => r.originalName === 'spare.stl')!;
     expect(await objects()).toContain(`store/${spare.storedName}-thumb.jpg`);
@@ -242,7 +251,10 @@ describe('s3 storage · set report and wanted photos', { timeout: 180_000 }, () 
   it('a wanted request sketch is cleaned into the bucket and served as a thumbnail', async () => {
     const res = await member
       .post('/api/wanted')
-      .field('data', JSON.stringify({ title: 'Sketch: cable clamp for a 19 mm rod', details: 'Holds two SDI cables on a 19 mm rod.', mounts: [], keySizes: [] }))
+      .field(
+        'data',
+        JSON.stringify({ title: 'Sketch: cable clamp for a 19 mm rod', details: 'Holds two SDI cables on a 19 mm rod.', mounts: [], keySizes: [] }),
+      )
       .attach('photo', await plainPng(), 'sketch.png')
       .expect(201);
     await settled();

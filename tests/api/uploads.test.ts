@@ -102,7 +102,15 @@ beforeAll(async () => {
   const created = await fetch(`${base}/api/parts`, {
     method: 'POST',
     headers: { cookie: author.cookie, 'x-csrf-token': author.token, 'content-type': `multipart/form-data; boundary=${BOUNDARY}` },
-    body: new Uint8Array(Buffer.concat([fieldPart('data', JSON.stringify(submission({ title: 'Shelf part for set reports' }))), fileHead('model', 'p.stl'), boxStl(20, 30, 10), Buffer.from('\r\n'), closing])),
+    body: new Uint8Array(
+      Buffer.concat([
+        fieldPart('data', JSON.stringify(submission({ title: 'Shelf part for set reports' }))),
+        fileHead('model', 'p.stl'),
+        boxStl(20, 30, 10),
+        Buffer.from('\r\n'),
+        closing,
+      ]),
+    ),
   });
   expect(created.status).toBe(201);
   publishedPartId = ((await created.json()) as { id: number }).id;
@@ -159,7 +167,11 @@ describe('uploads · a client that drops the connection mid-body', () => {
       const health = await fetch(`${base}/api/health`);
       expect(health.status).toBe(200);
       // and a whole upload still goes through afterwards
-      const again = await sendMultipart(member, '/api/parts', Buffer.concat([fieldPart('data', JSON.stringify(submission())), fileHead('model', 'ok.stl'), boxStl(10, 10, 10), Buffer.from('\r\n'), closing]));
+      const again = await sendMultipart(
+        member,
+        '/api/parts',
+        Buffer.concat([fieldPart('data', JSON.stringify(submission())), fileHead('model', 'ok.stl'), boxStl(10, 10, 10), Buffer.from('\r\n'), closing]),
+      );
       expect(again.status).toBe(201);
       expect(unhandled).toEqual([]);
     });
@@ -167,7 +179,8 @@ describe('uploads · a client that drops the connection mid-body', () => {
 });
 
 describe('uploads · malformed bodies and names are the client’s fault', () => {
-  const model = () => Buffer.concat([fieldPart('data', JSON.stringify(submission())), fileHead('model', 'bracket.stl'), boxStl(10, 10, 10), Buffer.from('\r\n')]);
+  const model = () =>
+    Buffer.concat([fieldPart('data', JSON.stringify(submission())), fileHead('model', 'bracket.stl'), boxStl(10, 10, 10), Buffer.from('\r\n')]);
 
   it('malformed uploads · a multipart body cut off before its closing boundary · 400 with a message, nothing stays in uploads/tmp', async () => {
     const res = await sendMultipart(member, '/api/parts', model());
@@ -177,7 +190,13 @@ describe('uploads · malformed bodies and names are the client’s fault', () =>
   });
 
   it('malformed uploads · a raw NUL byte inside a file name header · 400 (a malformed part header), nothing kept', async () => {
-    const body = Buffer.concat([fieldPart('data', JSON.stringify(submission())), fileHead('model', 'bracket\0.stl'), boxStl(10, 10, 10), Buffer.from('\r\n'), closing]);
+    const body = Buffer.concat([
+      fieldPart('data', JSON.stringify(submission())),
+      fileHead('model', 'bracket\0.stl'),
+      boxStl(10, 10, 10),
+      Buffer.from('\r\n'),
+      closing,
+    ]);
     const res = await sendMultipart(member, '/api/parts', body);
     expect(res.status).toBe(400);
     expect(res.body.error?.message).toMatch(/malformed/i);
@@ -185,7 +204,9 @@ describe('uploads · malformed bodies and names are the client’s fault', () =>
   });
 
   it('malformed uploads · a NUL as a percent escape in an RFC 5987 file name · 400 naming the NUL', async () => {
-    const head = Buffer.from(`--${BOUNDARY}\r\nContent-Disposition: form-data; name="model"; filename*=UTF-8''bracket%00.stl\r\nContent-Type: application/octet-stream\r\n\r\n`);
+    const head = Buffer.from(
+      `--${BOUNDARY}\r\nContent-Disposition: form-data; name="model"; filename*=UTF-8''bracket%00.stl\r\nContent-Type: application/octet-stream\r\n\r\n`,
+    );
     const body = Buffer.concat([fieldPart('data', JSON.stringify(submission())), head, boxStl(10, 10, 10), Buffer.from('\r\n'), closing]);
     const res = await sendMultipart(member, '/api/parts', body);
     expect(res.status).toBe(400);
@@ -213,7 +234,11 @@ describe('uploads · photos are checked before the 201', () => {
   });
 
   const submitPhoto = (name: string, bytes: Buffer) =>
-    agent.post('/api/parts').field('data', JSON.stringify(submission())).attach('model', boxStl(10, 10, 10), 'm.stl').attach('photo', bytes, name);
+    agent
+      .post('/api/parts')
+      .field('data', JSON.stringify(submission()))
+      .attach('model', boxStl(10, 10, 10), 'm.stl')
+      .attach('photo', bytes, name);
 
   it('photo checks · a 68-byte PNG declaring 30000 × 30000 pixels · 422 naming the megapixel limit, before any decoding', async () => {
     const png = pngDeclaring(30000, 30000);
@@ -281,13 +306,21 @@ describe('uploads · names that mislead', () => {
 
   it('misleading names · bidi controls (U+202E and the rest of UAX #9 §2) · stripped from shown names', async () => {
     const name = 'invoice\u202Etxt\u2066\u200F\u061C.stl';
-    const res = await agent.post('/api/parts').field('data', JSON.stringify(submission())).attach('model', boxStl(10, 10, 10), name).expect(201);
+    const res = await agent
+      .post('/api/parts')
+      .field('data', JSON.stringify(submission()))
+      .attach('model', boxStl(10, 10, 10), name)
+      .expect(201);
     const model = await PartFile.findOne({ where: { partId: res.body.id, kind: 'model' } });
     expect(model?.originalName).toBe('invoicetxt.stl');
   });
 
   it('misleading names · a model uploaded as "….exe" · downloads with its model extension', async () => {
-    const res = await agent.post('/api/parts').field('data', JSON.stringify(submission())).attach('model', boxStl(10, 10, 10), 'invoice\u202Etxt.exe').expect(201);
+    const res = await agent
+      .post('/api/parts')
+      .field('data', JSON.stringify(submission()))
+      .attach('model', boxStl(10, 10, 10), 'invoice\u202Etxt.exe')
+      .expect(201);
     const part = await agent.get(`/api/parts/${res.body.id}`).expect(200);
     const model = part.body.files.find((f: { kind: string }) => f.kind === 'model');
     expect(model.name).toBe('invoicetxt.exe.stl');

@@ -23,7 +23,10 @@ async function signedIn(role: Role = 'member'): Promise<Agent> {
 }
 
 async function submitted(by: Agent, title: string): Promise<number> {
-  const res = await by.post('/api/parts').field('data', JSON.stringify(submission({ title }))).attach('model', boxStl(30, 20, 10), 'part.stl');
+  const res = await by
+    .post('/api/parts')
+    .field('data', JSON.stringify(submission({ title })))
+    .attach('model', boxStl(30, 20, 10), 'part.stl');
   expect(res.status).toBe(201);
   return res.body.id;
 }
@@ -88,22 +91,35 @@ describe('wanted · asking', () => {
   it('POST /api/wanted · a model file instead of a photo · 422 and nothing kept', async () => {
     const before = await WantedRequest.count();
     const photos = await WantedPhoto.count();
-    const res = await asker.post('/api/wanted').field('data', JSON.stringify(request)).attach('model', boxStl(10, 10, 10), 'x.stl').expect(422);
+    const res = await asker
+      .post('/api/wanted')
+      .field('data', JSON.stringify(request))
+      .attach('model', boxStl(10, 10, 10), 'x.stl')
+      .expect(422);
     expect(res.body.error.fields.photo).toMatch(/photo or a sketch/);
     expect(await WantedRequest.count()).toBe(before);
     expect(await WantedPhoto.count()).toBe(photos);
   });
 
   it('POST /api/wanted · no title, a bad date, an unknown body · 422 with a message per field', async () => {
-    const res = await asker.post('/api/wanted').send({ ...request, title: 'x', neededBy: '2026-02-30' }).expect(422);
+    const res = await asker
+      .post('/api/wanted')
+      .send({ ...request, title: 'x', neededBy: '2026-02-30' })
+      .expect(422);
     expect(res.body.error.fields.title).toMatch(/what part you need/);
     expect(res.body.error.fields.neededBy).toMatch(/YYYY-MM-DD/);
-    const body = await asker.post('/api/wanted').send({ ...request, body: 'Zephyr 9' }).expect(422);
+    const body = await asker
+      .post('/api/wanted')
+      .send({ ...request, body: 'Zephyr 9' })
+      .expect(422);
     expect(body.body.error.fields.body).toMatch(/No camera body is called "Zephyr 9"/);
   });
 
   it('wanted · GET /api/wanted · open requests, nearest needed-by first; visitors 401', async () => {
-    await asker.post('/api/wanted').send({ ...request, title: 'Monitor hood clip, needed soon', neededBy: '2026-04-01' }).expect(201);
+    await asker
+      .post('/api/wanted')
+      .send({ ...request, title: 'Monitor hood clip, needed soon', neededBy: '2026-04-01' })
+      .expect(201);
     const res = await stranger.get('/api/wanted').expect(200);
     const items = res.body.items as WantedListItem[];
     expect(items[0].title).toBe('Monitor hood clip, needed soon');
@@ -117,7 +133,12 @@ describe('wanted · asking', () => {
 describe('wanted · answering and closing', () => {
   let id: number;
   beforeAll(async () => {
-    id = (await asker.post('/api/wanted').send({ ...request, title: 'V-style receiver plate, lifecycle' }).expect(201)).body.id;
+    id = (
+      await asker
+        .post('/api/wanted')
+        .send({ ...request, title: 'V-style receiver plate, lifecycle' })
+        .expect(201)
+    ).body.id;
   });
 
   it('POST /:id/answers · someone else’s part in review · 422; their own part in review: 201, nobody told yet', async () => {
@@ -126,7 +147,10 @@ describe('wanted · answering and closing', () => {
     expect(refused.body.error.fields.part).toMatch(/no part with that id/);
 
     const own = await submitted(maker, 'V-style receiver plate for the KX-8 cage');
-    const res = await maker.post(`/api/wanted/${id}/answers`).send({ part: String(own), note: 'Printing a test one tonight.' }).expect(201);
+    const res = await maker
+      .post(`/api/wanted/${id}/answers`)
+      .send({ part: String(own), note: 'Printing a test one tonight.' })
+      .expect(201);
     expect(res.body.onShelf).toBe(false);
     expect(await Notice.count({ where: { userId: asker.userId, kind: 'wanted' } })).toBe(0);
     await maker.post(`/api/wanted/${id}/answers`).send({ part: own }).expect(409);
@@ -159,7 +183,10 @@ describe('wanted · answering and closing', () => {
     await moderator.post(`/api/review/${shelfPart}/approve`).send({}).expect(200);
     t.mailer.fake!.clear();
     const slug = (await maker.get(`/api/parts/${shelfPart}`).expect(200)).body.slug as string;
-    const res = await maker.post(`/api/wanted/${id}/answers`).send({ part: `http://localhost/parts/${slug}` }).expect(201);
+    const res = await maker
+      .post(`/api/wanted/${id}/answers`)
+      .send({ part: `http://localhost/parts/${slug}` })
+      .expect(201);
     expect(res.body.onShelf).toBe(true);
     expect(await Notice.count({ where: { userId: asker.userId, kind: 'wanted' } })).toBe(2);
     expect((await mails()).filter((m) => m.to.includes(asker.email))).toHaveLength(1);
@@ -189,7 +216,12 @@ describe('wanted · answering and closing', () => {
   });
 
   it('POST /:id/close · a moderator closes spam · hidden from other members (404), the author and moderators still see it, the author is told', async () => {
-    const spamId = (await stranger.post('/api/wanted').send({ ...request, title: 'Cheap plates, visit my shop' }).expect(201)).body.id;
+    const spamId = (
+      await stranger
+        .post('/api/wanted')
+        .send({ ...request, title: 'Cheap plates, visit my shop' })
+        .expect(201)
+    ).body.id;
     const res = await moderator.post(`/api/wanted/${spamId}/close`).send({ reason: 'spam', note: 'Advertising.' }).expect(200);
     expect(res.body.closeReason).toBe('spam');
     await asker.get(`/api/wanted/${spamId}`).expect(404);
@@ -202,7 +234,12 @@ describe('wanted · answering and closing', () => {
   });
 
   it('POST /:id/close · a moderator closes someone else’s request as withdrawn · 200', async () => {
-    const other = (await asker.post('/api/wanted').send({ ...request, title: 'Duplicate of an earlier request' }).expect(201)).body.id;
+    const other = (
+      await asker
+        .post('/api/wanted')
+        .send({ ...request, title: 'Duplicate of an earlier request' })
+        .expect(201)
+    ).body.id;
     await moderator.post(`/api/wanted/${other}/close`).send({ reason: 'withdrawn', note: 'Same as the earlier one.' }).expect(200);
   });
 
@@ -212,7 +249,12 @@ describe('wanted · answering and closing', () => {
     await visitor.post(`/api/wanted/${id}/answers`).send({ part: 1 }).expect(401);
     await visitor.post(`/api/wanted/${id}/close`).send({ reason: 'spam' }).expect(401);
     const admin = await signedIn('admin');
-    const spamId = (await stranger.post('/api/wanted').send({ ...request, title: 'Buy followers for your reel' }).expect(201)).body.id;
+    const spamId = (
+      await stranger
+        .post('/api/wanted')
+        .send({ ...request, title: 'Buy followers for your reel' })
+        .expect(201)
+    ).body.id;
     const detail = (await admin.get(`/api/wanted/${spamId}`).expect(200)).body as WantedDetail;
     expect(detail.can).toEqual({ answer: true, close: true, closeAsSpam: true });
     await admin.post(`/api/wanted/${spamId}/close`).send({ reason: 'spam' }).expect(200);

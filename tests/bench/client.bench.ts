@@ -76,7 +76,15 @@ let server: Awaited<ReturnType<typeof spawnServer>> | undefined;
 const browser = await chromium.launch({
   executablePath: process.env.CHROMIUM_PATH ?? '/usr/bin/chromium',
   headless: true,
-  args: ['--no-sandbox', '--disable-gpu', '--disable-quic', '--no-first-run', '--disable-background-networking', '--disable-component-update', '--disable-sync'],
+  args: [
+    '--no-sandbox',
+    '--disable-gpu',
+    '--disable-quic',
+    '--no-first-run',
+    '--disable-background-networking',
+    '--disable-component-update',
+    '--disable-sync',
+  ],
 });
 try {
   console.log('starting the server with the demo shelf…');
@@ -185,7 +193,13 @@ try {
             .sizes()
             .then((z) => z.responseBodySize)
             .catch(() => Number(response.headers()['content-length'] ?? NaN));
-          return { url: url.pathname, raw: body.length, gzip: gzipSync(body, { level: 9 }).length, wire, encoding: response.headers()['content-encoding'] ?? 'none' };
+          return {
+            url: url.pathname,
+            raw: body.length,
+            gzip: gzipSync(body, { level: 9 }).length,
+            wire,
+            encoding: response.headers()['content-encoding'] ?? 'none',
+          };
         })().catch(() => null),
       );
     });
@@ -212,9 +226,15 @@ try {
     await context.close();
   }
 
-  console.log(`\nclient bench · ${LOADS} cold loads per route with an FCP target, ${OTHER_LOADS} for the others · headless chromium · loopback · load average ${loadavg().map((l) => l.toFixed(2)).join(' ')}`);
+  console.log(
+    `\nclient bench · ${LOADS} cold loads per route with an FCP target, ${OTHER_LOADS} for the others · headless chromium · loopback · load average ${loadavg()
+      .map((l) => l.toFixed(2))
+      .join(' ')}`,
+  );
   console.log(`bare page (no script, no request): median FCP ${median(bare).toFixed(0)} ms\n`);
-  const rows: string[][] = [['route', 'path', 'as', 'scripts', 'JS raw kB', 'JS gzip kB', 'on the wire kB', 'encoding', 'FCP median ms', 'FCP min–max', 'heading median ms']];
+  const rows: string[][] = [
+    ['route', 'path', 'as', 'scripts', 'JS raw kB', 'JS gzip kB', 'on the wire kB', 'encoding', 'FCP median ms', 'FCP min–max', 'heading median ms'],
+  ];
   const notes: string[] = [];
   for (const route of routes) {
     await loadOnce(route); // warms the server (first query of a route, search worker), not the browser
@@ -245,14 +265,19 @@ try {
     ]);
     notes.push(`${route.name}: page Cache-Control "${first.documentCacheControl}", hashed asset Cache-Control "${first.assetCacheControl}"`);
     if (process.argv.includes('--files')) {
-      for (const s of [...first.scripts].sort((a, b) => b.gzip - a.gzip)) notes.push(`    ${kB(s.gzip).padStart(7)} kB gzip  ${kB(s.raw).padStart(7)} kB raw  ${s.url}`);
+      for (const s of [...first.scripts].sort((a, b) => b.gzip - a.gzip))
+        notes.push(`    ${kB(s.gzip).padStart(7)} kB gzip  ${kB(s.raw).padStart(7)} kB raw  ${s.url}`);
     }
   }
   const widths = rows[0].map((_, c) => Math.max(...rows.map((r) => r[c].length)));
   for (const r of rows) console.log(r.map((cell, c) => cell.padEnd(widths[c])).join('  '));
   console.log('');
   for (const n of notes) console.log(n);
-  console.log(`\nload average after: ${loadavg().map((l) => l.toFixed(2)).join(' ')}`);
+  console.log(
+    `\nload average after: ${loadavg()
+      .map((l) => l.toFixed(2))
+      .join(' ')}`,
+  );
 } finally {
   await browser.close();
   await server?.dispose();

@@ -20,12 +20,16 @@ export function flutedColumn(around: number, rows: number, heightMm = 100, radiu
   };
   for (let j = 0; j < rows; j++) {
     for (let i = 0; i < around; i++) {
-      const a = point(i, j), b = point(i + 1, j), c = point(i + 1, j + 1), d = point(i, j + 1);
+      const a = point(i, j),
+        b = point(i + 1, j),
+        c = point(i + 1, j + 1),
+        d = point(i, j + 1);
       put(a, b, c);
       put(a, c, d);
     }
   }
-  const bottom: [number, number, number] = [0, 0, 0], top: [number, number, number] = [0, 0, heightMm];
+  const bottom: [number, number, number] = [0, 0, 0],
+    top: [number, number, number] = [0, 0, heightMm];
   for (let i = 0; i < around; i++) {
     put(bottom, point(i + 1, 0), point(i, 0));
     put(top, point(i, rows), point(i + 1, rows));

@@ -62,7 +62,10 @@ function torusStl(u: number, v: number, majorRadius = 60, minorRadius = 20): Uin
     const i1 = (i + 1) % u;
     for (let j = 0; j < v; j++) {
       const j1 = (j + 1) % v;
-      const a = i * v + j, b = i1 * v + j, c = i1 * v + j1, d = i * v + j1;
+      const a = i * v + j,
+        b = i1 * v + j,
+        c = i1 * v + j1,
+        d = i * v + j1;
       writeFacet(a, b, c);
       writeFacet(a, c, d);
     }
@@ -79,8 +82,13 @@ const pick = <T>(items: T[]): T => items[Math.floor(Math.random() * items.length
 const WORDS = ['plate', 'rod', 'clamp', 'bracket', 'monitor', 'handle', 'cheese plate', '15 mm', 'arm', 'cradle'];
 
 async function main() {
-  const load = () => loadavg().map((l) => l.toFixed(1)).join(' ');
-  console.log(`load bench: ${cpus().length} CPU(s) (load average ${load()} before the run: other work on the machine skews every figure), levels ${LEVELS.join(' and ')} members, ${SECONDS} s each, think time 0–${2 * THINK_MS} ms`);
+  const load = () =>
+    loadavg()
+      .map((l) => l.toFixed(1))
+      .join(' ');
+  console.log(
+    `load bench: ${cpus().length} CPU(s) (load average ${load()} before the run: other work on the machine skews every figure), levels ${LEVELS.join(' and ')} members, ${SECONDS} s each, think time 0–${2 * THINK_MS} ms`,
+  );
   const db = await scratchDb('bench');
   const server = await spawnServer(db.env, { LOOP_LAG_LOG_S: '0.25' }, 'bench').catch(async (err) => {
     await db.dispose();
@@ -166,8 +174,12 @@ async function main() {
     }
 
     function report(count: number, seconds: number, samples: Sample[], lag: { p99: number; max: number }) {
-      console.log(`\n${count} members, ${seconds} s: ${samples.length} requests, ${(samples.length / seconds).toFixed(1)} req/s; event-loop lag worst p99 ${lag.p99} ms, max ${lag.max} ms`);
-      console.log(`  ${'route'.padEnd(14)} ${'count'.padStart(6)} ${'req/s'.padStart(7)} ${'p50 ms'.padStart(8)} ${'p95 ms'.padStart(8)} ${'p99 ms'.padStart(8)}  answers`);
+      console.log(
+        `\n${count} members, ${seconds} s: ${samples.length} requests, ${(samples.length / seconds).toFixed(1)} req/s; event-loop lag worst p99 ${lag.p99} ms, max ${lag.max} ms`,
+      );
+      console.log(
+        `  ${'route'.padEnd(14)} ${'count'.padStart(6)} ${'req/s'.padStart(7)} ${'p50 ms'.padStart(8)} ${'p95 ms'.padStart(8)} ${'p99 ms'.padStart(8)}  answers`,
+      );
       const routes: (Route | 'all')[] = ['search', 'part page', 'download', 'submit (STL)', 'rating', 'all'];
       for (const route of routes) {
         const rows = route === 'all' ? samples : samples.filter((s) => s.route === route);
@@ -186,7 +198,13 @@ async function main() {
     for (const count of LEVELS) {
       const { samples, lag } = await level(count, SECONDS);
       report(count, SECONDS, samples, lag);
-      results.push({ count, p95: percentile(samples.map((s) => s.ms).sort((a, b) => a - b), 95) });
+      results.push({
+        count,
+        p95: percentile(
+          samples.map((s) => s.ms).sort((a, b) => a - b),
+          95,
+        ),
+      });
     }
 
     // event-loop lag while big STL files are analysed, nothing else running
@@ -240,7 +258,9 @@ async function main() {
     const at25 = results.find((r) => r.count === 25);
     if (at25) console.log(`  p95 at 25 members: ${at25.p95.toFixed(0)} ms (target ≤ 300 ms) ${at25.p95 <= 300 ? 'met' : 'NOT met'}`);
     const single = lagRows[0];
-    console.log(`  event-loop lag while one ${STL_MB} MB STL is analysed: max ${single.lag.max} ms (target ≤ 50 ms) ${single.lag.max <= 50 ? 'met' : 'NOT met'}`);
+    console.log(
+      `  event-loop lag while one ${STL_MB} MB STL is analysed: max ${single.lag.max} ms (target ≤ 50 ms) ${single.lag.max <= 50 ? 'met' : 'NOT met'}`,
+    );
   } finally {
     server.child.kill('SIGTERM');
     await Promise.race([server.exited, sleep(20_000)]);

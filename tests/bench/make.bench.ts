@@ -18,7 +18,11 @@ const args = process.argv.slice(2);
 const runs = args.includes('--runs') ? Number(args[args.indexOf('--runs') + 1]) : 40;
 
 const CASES: Record<GeneratorKind, Record<string, unknown>[]> = {
-  washer: [{}, { screw: 'M6', outerDiameterMm: 20, thicknessMm: 5, recess: 'hex', recessDepthMm: 3 }, { screw: '3/8-16', outerDiameterMm: 30, recess: 'counterbore', thicknessMm: 8, recessDepthMm: 4 }],
+  washer: [
+    {},
+    { screw: 'M6', outerDiameterMm: 20, thicknessMm: 5, recess: 'hex', recessDepthMm: 3 },
+    { screw: '3/8-16', outerDiameterMm: 30, recess: 'counterbore', thicknessMm: 8, recessDepthMm: 4 },
+  ],
   'gear-ring': [{}, { barrelDiameterMm: 80 }, { barrelDiameterMm: 82, fit: 'clamp' }, { module: 0.5, barrelDiameterMm: 95 }],
   'rod-clamp': [{}, { layout: 'single' }, { rodMm: 19, centresMm: 104, mount: '3/8-16' }],
   'cable-clip': [{}, { mount: 'screw' }, { cableMm: 5, secondCableMm: 9, mount: 'rod19' }],
@@ -75,7 +79,11 @@ function fileTimes(kind: GeneratorKind) {
 }
 
 const ms = (n: number) => n.toFixed(1).padStart(7);
-console.log(`make-to-size preview (generate + analysis), ${runs} runs per row; node ${process.version}, ${cpus().length} cores, load average ${loadavg().map((l) => l.toFixed(2)).join(' ')}`);
+console.log(
+  `make-to-size preview (generate + analysis), ${runs} runs per row; node ${process.version}, ${cpus().length} cores, load average ${loadavg()
+    .map((l) => l.toFixed(2))
+    .join(' ')}`,
+);
 console.log('generator      resolution    p50 ms    p95 ms  cpu p50   max facets   STL ms   3MF ms');
 const misses: string[] = [];
 for (const kind of GENERATOR_KINDS) {
@@ -88,5 +96,11 @@ for (const kind of GENERATOR_KINDS) {
     if (resolution === 'default' && r.p95 > 150) misses.push(`${kind} (p95 ${r.p95.toFixed(0)} ms)`);
   }
 }
-console.log(`load average after: ${loadavg().map((l) => l.toFixed(2)).join(' ')}`);
-console.log(misses.length === 0 ? 'target met: every preview p95 ≤ 150 ms at default resolution' : `over the 150 ms p95 target at default: ${misses.join(', ')}`);
+console.log(
+  `load average after: ${loadavg()
+    .map((l) => l.toFixed(2))
+    .join(' ')}`,
+);
+console.log(
+  misses.length === 0 ? 'target met: every preview p95 ≤ 150 ms at default resolution' : `over the 150 ms p95 target at default: ${misses.join(', ')}`,
+);

@@ -32,15 +32,7 @@ const REFERENCE_BUDGET_MS = 40_000;
 const CHILD_TIMEOUT_MS = 100_000;
 
 type Contender =
-  | 'sequential-read'
-  | 'ours'
-  | 'ours-shuffled'
-  | 'server-path'
-  | 'server-path-before'
-  | 'three-ours'
-  | 'three-reference'
-  | 'three-parse'
-  | 'ours-3mf';
+  'sequential-read' | 'ours' | 'ours-shuffled' | 'server-path' | 'server-path-before' | 'three-ours' | 'three-reference' | 'three-parse' | 'ours-3mf';
 
 interface Figures {
   facets: number;
@@ -102,13 +94,16 @@ function torusTriangles(u: number, v: number, shuffled = false): Uint32Array[] {
     const i1 = (i + 1) % u;
     for (let j = 0; j < v; j++) {
       const j1 = (j + 1) % v;
-      const a = i * v + j, b = i1 * v + j, c = i1 * v + j1, d = i * v + j1;
+      const a = i * v + j,
+        b = i1 * v + j,
+        c = i1 * v + j1,
+        d = i * v + j1;
       triangles.push(Uint32Array.of(a, b, c), Uint32Array.of(a, c, d));
     }
   }
   if (shuffled) {
     let seed = 12345;
-    const random = () => ((seed = (Math.imul(seed, 1103515245) + 12345) >>> 0) / 2 ** 32);
+    const random = () => (seed = (Math.imul(seed, 1103515245) + 12345) >>> 0) / 2 ** 32;
     for (let n = triangles.length - 1; n > 0; n--) {
       const m = Math.floor(random() * (n + 1));
       [triangles[n], triangles[m]] = [triangles[m], triangles[n]];
@@ -119,7 +114,9 @@ function torusTriangles(u: number, v: number, shuffled = false): Uint32Array[] {
 
 /** The same torus as a 3MF package (3MF Core Specification: OPC ZIP, model XML with vertices and triangles). */
 function torus3mf(u: number, v: number, majorRadius = 60, minorRadius = 20): Uint8Array {
-  const parts: string[] = ['<?xml version="1.0" encoding="UTF-8"?>\n<model unit="millimeter" xmlns="http://schemas.microsoft.com/3dmanufacturing/core/2015/02"><resources><object id="1" type="model"><mesh><vertices>'];
+  const parts: string[] = [
+    '<?xml version="1.0" encoding="UTF-8"?>\n<model unit="millimeter" xmlns="http://schemas.microsoft.com/3dmanufacturing/core/2015/02"><resources><object id="1" type="model"><mesh><vertices>',
+  ];
   for (let i = 0; i < u; i++) {
     const theta = (2 * Math.PI * i) / u;
     for (let j = 0; j < v; j++) {
@@ -135,8 +132,12 @@ function torus3mf(u: number, v: number, majorRadius = 60, minorRadius = 20): Uin
   parts.push('</triangles></mesh></object></resources><build><item objectid="1"/></build></model>');
   const encode = (text: string) => new TextEncoder().encode(text);
   return zipSync({
-    '[Content_Types].xml': encode('<?xml version="1.0" encoding="UTF-8"?><Types xmlns="http://schemas.openxmlformats.org/package/2006/content-types"><Default Extension="rels" ContentType="application/vnd.openxmlformats-package.relationships+xml"/><Default Extension="model" ContentType="application/vnd.ms-package.3dmanufacturing-3dmodel+xml"/></Types>'),
-    '_rels/.rels': encode('<?xml version="1.0" encoding="UTF-8"?><Relationships xmlns="http://schemas.openxmlformats.org/package/2006/relationships"><Relationship Target="/3D/3dmodel.model" Id="rel0" Type="http://schemas.microsoft.com/3dmanufacturing/2013/01/3dmodel"/></Relationships>'),
+    '[Content_Types].xml': encode(
+      '<?xml version="1.0" encoding="UTF-8"?><Types xmlns="http://schemas.openxmlformats.org/package/2006/content-types"><Default Extension="rels" ContentType="application/vnd.openxmlformats-package.relationships+xml"/><Default Extension="model" ContentType="application/vnd.ms-package.3dmanufacturing-3dmodel+xml"/></Types>',
+    ),
+    '_rels/.rels': encode(
+      '<?xml version="1.0" encoding="UTF-8"?><Relationships xmlns="http://schemas.openxmlformats.org/package/2006/relationships"><Relationship Target="/3D/3dmodel.model" Id="rel0" Type="http://schemas.microsoft.com/3dmanufacturing/2013/01/3dmodel"/></Relationships>',
+    ),
     '3D/3dmodel.model': encode(parts.join('')),
   });
 }
@@ -163,10 +164,21 @@ function referenceAnalysis(positions: ArrayLike<number>, deadline: number): Figu
   let area = 0;
   let volume = 0;
   for (let i = 0; i < positions.length; i += 9) {
-    const ax = positions[i], ay = positions[i + 1], az = positions[i + 2];
-    const bx = positions[i + 3], by = positions[i + 4], bz = positions[i + 5];
-    const cx = positions[i + 6], cy = positions[i + 7], cz = positions[i + 8];
-    const ux = bx - ax, uy = by - ay, uz = bz - az, vx = cx - ax, vy = cy - ay, vz = cz - az;
+    const ax = positions[i],
+      ay = positions[i + 1],
+      az = positions[i + 2];
+    const bx = positions[i + 3],
+      by = positions[i + 4],
+      bz = positions[i + 5];
+    const cx = positions[i + 6],
+      cy = positions[i + 7],
+      cz = positions[i + 8];
+    const ux = bx - ax,
+      uy = by - ay,
+      uz = bz - az,
+      vx = cx - ax,
+      vy = cy - ay,
+      vz = cz - az;
     area += Math.hypot(uy * vz - uz * vy, uz * vx - ux * vz, ux * vy - uy * vx) / 2;
     volume += (ax * (by * cz - bz * cy) + ay * (bz * cx - bx * cz) + az * (bx * cy - by * cx)) / 6;
   }
@@ -361,7 +373,9 @@ async function parent(targetFacets: number): Promise<void> {
   console.log(
     `Torus ${u} × ${v}: ${(2 * u * v).toLocaleString('en-US')} facets, ${sizeMb.toFixed(1)} MB binary STL, ${(threeMf.length / MB).toFixed(1)} MB 3MF (generated in ${((performance.now() - started) / 1000).toFixed(1)} s)`,
   );
-  console.log(`Node ${process.version}; each row in its own process; MB = 10^6 bytes; peak = RSS high-water above the pre-run RSS; MB/s over the row's own file.\n`);
+  console.log(
+    `Node ${process.version}; each row in its own process; MB = 10^6 bytes; peak = RSS high-water above the pre-run RSS; MB/s over the row's own file.\n`,
+  );
 
   const plan: [Contender, string, string, number][] = [
     ['sequential-read', files.stl, files.warmStl, 7],
@@ -387,7 +401,10 @@ async function parent(targetFacets: number): Promise<void> {
   };
 
   try {
-    const reports = plan.map(([contender, file, warm, reps]) => ({ ...spawnChild(contender, file, warm, reps), fileMb: (contender === 'ours-3mf' ? threeMf.length : stl.length) / MB }));
+    const reports = plan.map(([contender, file, warm, reps]) => ({
+      ...spawnChild(contender, file, warm, reps),
+      fileMb: (contender === 'ours-3mf' ? threeMf.length : stl.length) / MB,
+    }));
     const byName = Object.fromEntries(reports.map((r) => [r.contender, r])) as Record<Contender, (typeof reports)[number]>;
     const oursMs = median(byName.ours.timesMs);
     const rows = reports.map((r) => {
@@ -421,9 +438,15 @@ async function parent(targetFacets: number): Promise<void> {
     }
     const speedup = (c: Contender) => (median(byName[c].timesMs) / oursMs).toFixed(2);
     const lowerBound = reference.unfinished ? ' (reference unfinished: a lower bound)' : '';
-    console.log(`Anchors, as multiples of our time: three + our analysis ${speedup('three-ours')}×, three + string-keyed figures ${speedup('three-reference')}×${lowerBound}.`);
-    console.log(`Sequential read is ${(median(byName['sequential-read'].timesMs) / oursMs * 100).toFixed(0)} % of our time; shuffled order takes ${speedup('ours-shuffled')}× ours.`);
-    console.log(`Server path peak: ${(Math.max(...byName['server-path'].peakRssMb) / sizeMb).toFixed(2)}× the file (target ≤ 1.5×), before: ${(Math.max(...byName['server-path-before'].peakRssMb) / sizeMb).toFixed(2)}×.`);
+    console.log(
+      `Anchors, as multiples of our time: three + our analysis ${speedup('three-ours')}×, three + string-keyed figures ${speedup('three-reference')}×${lowerBound}.`,
+    );
+    console.log(
+      `Sequential read is ${((median(byName['sequential-read'].timesMs) / oursMs) * 100).toFixed(0)} % of our time; shuffled order takes ${speedup('ours-shuffled')}× ours.`,
+    );
+    console.log(
+      `Server path peak: ${(Math.max(...byName['server-path'].peakRssMb) / sizeMb).toFixed(2)}× the file (target ≤ 1.5×), before: ${(Math.max(...byName['server-path-before'].peakRssMb) / sizeMb).toFixed(2)}×.`,
+    );
     console.log(`Total ${((performance.now() - started) / 1000).toFixed(1)} s`);
   } finally {
     rmSync(dir, { recursive: true, force: true });

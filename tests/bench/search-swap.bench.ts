@@ -86,7 +86,15 @@ async function main() {
     const [a, b] = instances;
     const user = async (role: 'member' | 'moderator') => {
       const email = `${role}-${Date.now()}-${Math.random().toString(36).slice(2)}@bench.test`;
-      await User.create({ email, displayName: `Bench ${role}`, passwordHash: await hashPassword('correct horse battery', 12), role, status: 'active', crewRole: null, emailVerifiedAt: new Date() });
+      await User.create({
+        email,
+        displayName: `Bench ${role}`,
+        passwordHash: await hashPassword('correct horse battery', 12),
+        role,
+        status: 'active',
+        crewRole: null,
+        emailVerifiedAt: new Date(),
+      });
       const agent = request.agent(a.built.app);
       const token = (await agent.get('/api/auth/csrf')).body.csrfToken as string;
       await agent.post('/api/auth/login').set('X-CSRF-Token', token).send({ email, password: 'correct horse battery' }).expect(200);
@@ -96,7 +104,13 @@ async function main() {
     const author = await user('member');
     const moderator = await user('moderator');
     const submit = async (title: string) =>
-      (await author.post('/api/parts').field('data', JSON.stringify(submission(title))).attach('model', boxStl(30, 20, 10), 'part.stl').expect(201)).body.id as number;
+      (
+        await author
+          .post('/api/parts')
+          .field('data', JSON.stringify(submission(title)))
+          .attach('model', boxStl(30, 20, 10), 'part.stl')
+          .expect(201)
+      ).body.id as number;
 
     for (let i = 0; i < shelf; i++) {
       const id = await submit(`Filler bracket ${i}`);
@@ -105,7 +119,11 @@ async function main() {
       await part.update({ status: 'published', publishedRevisionId: part.latestRevisionId, publishedAt: new Date() });
     }
     for (const x of instances) await x.built.services.search.start();
-    console.log(`Node ${process.version}; ${shelf} part(s) on the shelf besides the measured ones; change log polled every 1 s; load average ${loadavg().map((l) => l.toFixed(1)).join(' ')}`);
+    console.log(
+      `Node ${process.version}; ${shelf} part(s) on the shelf besides the measured ones; change log polled every 1 s; load average ${loadavg()
+        .map((l) => l.toFixed(1))
+        .join(' ')}`,
+    );
 
     // the instance that approved rebuilds at once: its time is the anchor (one build), the other's
     // adds the change-log poll
@@ -133,8 +151,14 @@ async function main() {
       const sorted = [...xs].sort((x, y) => x - y);
       return `p50 ${sorted[Math.floor(sorted.length / 2)].toFixed(0)} ms, max ${sorted[sorted.length - 1].toFixed(0)} ms`;
     };
-    console.log(`\napproval → found through the approving instance: ${line(times.same)}; through the other instance: ${line(times.other)} (target ≤ 5000 ms) over ${rounds} rounds`);
-    console.log(`load average ${loadavg().map((l) => l.toFixed(1)).join(' ')} on ${availableParallelism()} cores`);
+    console.log(
+      `\napproval → found through the approving instance: ${line(times.same)}; through the other instance: ${line(times.other)} (target ≤ 5000 ms) over ${rounds} rounds`,
+    );
+    console.log(
+      `load average ${loadavg()
+        .map((l) => l.toFixed(1))
+        .join(' ')} on ${availableParallelism()} cores`,
+    );
   } finally {
     for (const x of instances.reverse()) {
       await x.built.close();

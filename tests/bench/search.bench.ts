@@ -87,7 +87,10 @@ function summarise(samples: { kind: QueryKind; ms: number }[]) {
   const all = samples.map((s) => s.ms).sort((a, b) => a - b);
   const byKind = {} as Record<QueryKind, number>;
   for (const kind of ['text', 'text+filters', 'filters', 'envelope'] as QueryKind[]) {
-    const k = samples.filter((s) => s.kind === kind).map((s) => s.ms).sort((a, b) => a - b);
+    const k = samples
+      .filter((s) => s.kind === kind)
+      .map((s) => s.ms)
+      .sort((a, b) => a - b);
     byKind[kind] = percentile(k, 50);
   }
   return { latency: { p50: percentile(all, 50), p95: percentile(all, 95), p99: percentile(all, 99) }, byKind };
@@ -98,7 +101,13 @@ const parsedQueries = () => BENCH_QUERIES.map((q) => ({ kind: q.kind, query: sea
 /** Body names as slugs, for the contenders that do not read names themselves (our searcher does). */
 const BODIES = inventedBodies();
 function withBodySlugs(q: SearchQuery): SearchQuery {
-  return { ...q, body: q.body.map((b) => { const r = resolveBody(b, BODIES); return r.ok ? r.slug : b; }) };
+  return {
+    ...q,
+    body: q.body.map((b) => {
+      const r = resolveBody(b, BODIES);
+      return r.ok ? r.slug : b;
+    }),
+  };
 }
 
 /** Runs the query set once to warm up, then whole rounds until the budget is spent. */
@@ -299,10 +308,16 @@ async function createTables(db: Connection) {
     s1 DECIMAL(10,3) NULL, s2 DECIMAL(10,3) NULL, s3 DECIMAL(10,3) NULL,
     KEY (category), KEY (published_at)
   ) ENGINE=InnoDB DEFAULT CHARSET=utf8mb4 COLLATE=utf8mb4_unicode_ci`);
-  for (const [t, col] of [['bench_bodies', 'slug VARCHAR(80)'], ['bench_mounts', 'slug VARCHAR(40)'], ['bench_materials', 'slug VARCHAR(20)']]) {
+  for (const [t, col] of [
+    ['bench_bodies', 'slug VARCHAR(80)'],
+    ['bench_mounts', 'slug VARCHAR(40)'],
+    ['bench_materials', 'slug VARCHAR(20)'],
+  ]) {
     await db.query(`CREATE TABLE ${t} (part_id INT UNSIGNED NOT NULL, ${col} NOT NULL, PRIMARY KEY (part_id, slug), KEY (slug, part_id)) ENGINE=InnoDB`);
   }
-  await db.query('CREATE TABLE bench_dims (part_id INT UNSIGNED NOT NULL, name VARCHAR(60) NOT NULL, value_mm DECIMAL(12,6) NOT NULL, KEY (part_id)) ENGINE=InnoDB');
+  await db.query(
+    'CREATE TABLE bench_dims (part_id INT UNSIGNED NOT NULL, name VARCHAR(60) NOT NULL, value_mm DECIMAL(12,6) NOT NULL, KEY (part_id)) ENGINE=InnoDB',
+  );
 }
 
 async function insertBatched(db: Connection, table: string, columns: string[], rows: unknown[][]) {
@@ -391,16 +406,68 @@ async function benchMariaDb(docs: SearchDocument[]): Promise<Omit<Report, 'conte
     await insertBatched(
       db,
       'bench_parts',
-      ['id', 'title', 'bodies', 'mounts', 'summary', 'dimensions', 'category_label', 'materials', 'description', 'category', 'adaptable', 'rating', 'published_at', 's1', 's2', 's3'],
+      [
+        'id',
+        'title',
+        'bodies',
+        'mounts',
+        'summary',
+        'dimensions',
+        'category_label',
+        'materials',
+        'description',
+        'category',
+        'adaptable',
+        'rating',
+        'published_at',
+        's1',
+        's2',
+        's3',
+      ],
       records.map(({ d, r }) => {
         const s = d.sizeMm ? [...d.sizeMm].sort((a, b) => a - b).map((v) => Math.round(v * 1000) / 1000) : [null, null, null];
-        return [d.id, r.title, r.bodies, r.mounts, r.summary, r.dimensions, r.category, r.materials, r.description, d.category, d.adaptable, d.rating, new Date(d.publishedAt), ...s];
+        return [
+          d.id,
+          r.title,
+          r.bodies,
+          r.mounts,
+          r.summary,
+          r.dimensions,
+          r.category,
+          r.materials,
+          r.description,
+          d.category,
+          d.adaptable,
+          d.rating,
+          new Date(d.publishedAt),
+          ...s,
+        ];
       }),
     );
-    await insertBatched(db, 'bench_bodies', ['part_id', 'slug'], docs.flatMap((d) => [...new Set(d.bodies.map((b) => b.slug))].map((s) => [d.id, s])));
-    await insertBatched(db, 'bench_mounts', ['part_id', 'slug'], docs.flatMap((d) => [...new Set(d.mounts.map((m) => m.slug))].map((s) => [d.id, s])));
-    await insertBatched(db, 'bench_materials', ['part_id', 'slug'], docs.flatMap((d) => d.materials.map((s) => [d.id, s])));
-    await insertBatched(db, 'bench_dims', ['part_id', 'name', 'value_mm'], docs.flatMap((d) => d.keyDimensions.map((k) => [d.id, k.name.toLowerCase(), k.valueMm])));
+    await insertBatched(
+      db,
+      'bench_bodies',
+      ['part_id', 'slug'],
+      docs.flatMap((d) => [...new Set(d.bodies.map((b) => b.slug))].map((s) => [d.id, s])),
+    );
+    await insertBatched(
+      db,
+      'bench_mounts',
+      ['part_id', 'slug'],
+      docs.flatMap((d) => [...new Set(d.mounts.map((m) => m.slug))].map((s) => [d.id, s])),
+    );
+    await insertBatched(
+      db,
+      'bench_materials',
+      ['part_id', 'slug'],
+      docs.flatMap((d) => d.materials.map((s) => [d.id, s])),
+    );
+    await insertBatched(
+      db,
+      'bench_dims',
+      ['part_id', 'name', 'value_mm'],
+      docs.flatMap((d) => d.keyDimensions.map((k) => [d.id, k.name.toLowerCase(), k.valueMm])),
+    );
     // InnoDB builds one FULLTEXT index per statement
     for (const cols of [ALL_TEXT, 'title', 'bodies, mounts', 'summary']) await db.query(`ALTER TABLE bench_parts ADD FULLTEXT (${cols})`);
     await db.query('ANALYZE TABLE bench_parts, bench_bodies, bench_mounts, bench_materials, bench_dims');
@@ -478,7 +545,13 @@ function table(reports: Report[]) {
     Object.fromEntries(
       rows.map(([label, get, digits]) => [
         label,
-        { lunr: f(get(l), digits), minisearch: f(get(m), digits), 'MariaDB FT': f(get(d), digits), 'lunr/mini': ratio(get(l), get(m)), 'lunr/MariaDB': ratio(get(l), get(d)) },
+        {
+          lunr: f(get(l), digits),
+          minisearch: f(get(m), digits),
+          'MariaDB FT': f(get(d), digits),
+          'lunr/mini': ratio(get(l), get(m)),
+          'lunr/MariaDB': ratio(get(l), get(d)),
+        },
       ]),
     ),
   );
@@ -500,7 +573,9 @@ async function parent(sizes: number[]) {
   await db.provision({ database: BENCH_DB, user: env.DB_USER, password: env.DB_PASSWORD });
   const pid = readFileSync(db.pidFile, 'utf8').trim();
   const childEnv = { ...process.env, ...env, BENCH_MARIADB_PID: pid };
-  console.log(`Node ${process.version}; ${BENCH_QUERIES.length} queries (text, text + filters, filters, envelope); MB = 10^6 bytes; each contender in its own process.`);
+  console.log(
+    `Node ${process.version}; ${BENCH_QUERIES.length} queries (text, text + filters, filters, envelope); MB = 10^6 bytes; each contender in its own process.`,
+  );
   try {
     for (const size of sizes) {
       console.log(`\n${size.toLocaleString('en-US')} invented parts`);

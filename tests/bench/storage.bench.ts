@@ -56,7 +56,11 @@ const time = async (fn: () => Promise<unknown>) => {
   return performance.now() - t0;
 };
 
-console.log(`load average ${loadavg().map((l) => l.toFixed(1)).join(' ')}; ${megabytes} MB file, median of ${runs} runs`);
+console.log(
+  `load average ${loadavg()
+    .map((l) => l.toFixed(1))
+    .join(' ')}; ${megabytes} MB file, median of ${runs} runs`,
+);
 console.log('driver         place upload   local copy   serve (GET)   MB/s served');
 for (const [name, storage] of drivers) {
   const app = express();
@@ -81,18 +85,23 @@ for (const [name, storage] of drivers) {
     );
     serve.push(
       await time(async () => {
-        const res = await request(app).get(`/f/${name}`).buffer(true).parse((r, cb) => {
-          let n = 0;
-          r.on('data', (c: Buffer) => (n += c.length));
-          r.on('end', () => cb(null, n));
-        });
+        const res = await request(app)
+          .get(`/f/${name}`)
+          .buffer(true)
+          .parse((r, cb) => {
+            let n = 0;
+            r.on('data', (c: Buffer) => (n += c.length));
+            r.on('end', () => cb(null, n));
+          });
         if (res.body !== bytes.length) throw new Error(`served ${res.body} bytes of ${bytes.length}`);
       }),
     );
     await storage.remove([`store/${name}`]);
   }
   const ms = (x: number) => `${x.toFixed(0).padStart(8)} ms`;
-  console.log(`${name.padEnd(14)}${ms(median(place))}  ${ms(median(copy))}  ${ms(median(serve))}   ${(megabytes / (median(serve) / 1000)).toFixed(0).padStart(8)}`);
+  console.log(
+    `${name.padEnd(14)}${ms(median(place))}  ${ms(median(copy))}  ${ms(median(serve))}   ${(megabytes / (median(serve) / 1000)).toFixed(0).padStart(8)}`,
+  );
   storage.close();
 }
 await fake.close();

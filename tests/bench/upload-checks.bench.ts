@@ -44,7 +44,10 @@ function torusStl(facetsWanted: number): Uint8Array {
   };
   for (let i = 0; i < u; i++) {
     for (let j = 0; j < v; j++) {
-      const a = point(i, j), b = point(i + 1, j), c = point(i + 1, j + 1), d = point(i, j + 1);
+      const a = point(i, j),
+        b = point(i + 1, j),
+        c = point(i + 1, j + 1),
+        d = point(i, j + 1);
       facet(a, b, c);
       facet(a, c, d);
     }
@@ -75,7 +78,13 @@ async function measure(work: () => Promise<unknown>): Promise<Figures> {
   lag.disable();
   clearInterval(sampler);
   const ms = (ns: number) => Math.round(ns / 1e5) / 10;
-  return { wallMs: Math.round(wallMs), lagP50Ms: ms(lag.percentile(50)), lagP99Ms: ms(lag.percentile(99)), lagMaxMs: ms(lag.max), peakRssMb: Math.round(peak / 1e6) };
+  return {
+    wallMs: Math.round(wallMs),
+    lagP50Ms: ms(lag.percentile(50)),
+    lagP99Ms: ms(lag.percentile(99)),
+    lagMaxMs: ms(lag.max),
+    peakRssMb: Math.round(peak / 1e6),
+  };
 }
 
 const dir = mkdtempSync(join(tmpdir(), 'rigshelf-bench-uploads-'));
@@ -83,7 +92,9 @@ try {
   const path = join(dir, 'torus.stl');
   writeFileSync(path, torusStl(Math.floor((megabytes * 1e6 - 84) / 50)));
   const size = readFileSync(path).length;
-  console.log(`binary STL of ${(size / 1e6).toFixed(1)} MB (${((size - 84) / 50).toLocaleString('en-US')} facets); check pool: ${CHECK_POOL.maxThreads} thread(s), queue ${CHECK_POOL.maxQueue}\n`);
+  console.log(
+    `binary STL of ${(size / 1e6).toFixed(1)} MB (${((size - 84) / 50).toLocaleString('en-US')} facets); check pool: ${CHECK_POOL.maxThreads} thread(s), queue ${CHECK_POOL.maxQueue}\n`,
+  );
 
   const rows: [string, Figures][] = [];
   const pool = new WorkerPool(CHECK_POOL);
@@ -91,7 +102,7 @@ try {
   analyseModelFile(new Uint8Array(readFileSync(path)));
   await pool.run('analyseModel', { path, drawnInInches: false });
 
-  rows.push(['nothing (the machine\'s own noise)', await measure(() => new Promise((r) => setTimeout(r, 2000)))]);
+  rows.push(["nothing (the machine's own noise)", await measure(() => new Promise((r) => setTimeout(r, 2000)))]);
   rows.push([`1 file on the main thread (before)`, await measure(async () => analyseModelFile(new Uint8Array(readFileSync(path))))]);
   rows.push([`1 file through the pool`, await measure(() => pool.run('analyseModel', { path, drawnInInches: false }))]);
   rows.push([

@@ -8,8 +8,29 @@ import { join } from 'node:path';
 import { boxStl } from '../helpers/meshes';
 import { plainPng } from '../helpers/photos';
 import { checkStoredFiles } from '../helpers/stored-files-check';
-import { countByRoute, databaseOrphans, pick, ratingProblems as checkRatings, Recorder, rowsOf, SEARCH_WORDS, submissionProblems, type RatingAttempt } from '../helpers/mixed-load';
-import { addMembers, loadSubmission, Member, publishedParts, scratchDb, sleep, spawnServer, waitFor, type ScratchDb, type ServerProcess } from '../helpers/system';
+import {
+  countByRoute,
+  databaseOrphans,
+  pick,
+  ratingProblems as checkRatings,
+  Recorder,
+  rowsOf,
+  SEARCH_WORDS,
+  submissionProblems,
+  type RatingAttempt,
+} from '../helpers/mixed-load';
+import {
+  addMembers,
+  loadSubmission,
+  Member,
+  publishedParts,
+  scratchDb,
+  sleep,
+  spawnServer,
+  waitFor,
+  type ScratchDb,
+  type ServerProcess,
+} from '../helpers/system';
 
 export interface ChaosOptions {
   /** Signed-in members sending the mixed load. */
@@ -247,8 +268,7 @@ export async function runChaos(options: ChaosOptions): Promise<ChaosSummary> {
       const errLines = srv.lines.filter((l) => l.stream === 'err' && l.text.trim()).map((l) => l.text.trim());
       const last = errLines.filter((t) => /Error\b|^rigshelf:/.test(t)).pop() ?? errLines.slice(-3).join(' | ');
       unexpectedExit = `the server exited during the run after ${((srv.exit.at - t0) / 1000).toFixed(1)} s (code ${srv.exit.code}, signal ${srv.exit.signal}): ${last}`;
-    }
-    else {
+    } else {
       signalledAt = Date.now();
       log('SIGTERM to the server while the load goes on');
       srv.child.kill('SIGTERM');
@@ -359,7 +379,8 @@ export function verdict(s: ChaosSummary): string[] {
   if (s.ratingProblems.length) problems.push(`ratings: ${s.ratingProblems.slice(0, 5).join('; ')}`);
   for (const [name, n] of Object.entries(s.dbOrphans)) if (n) problems.push(`database: ${n} × ${name}`);
   if (s.diskOrphans.length) problems.push(`uploads folder: ${s.diskOrphans.length} orphan(s), e.g. ${s.diskOrphans.slice(0, 3).join(', ')}`);
-  if (s.health.overLimit) problems.push(`/api/health took longer than ${s.options.healthLimitMs} ms (or did not answer) ${s.health.overLimit} time(s), worst ${s.health.maxMs} ms`);
+  if (s.health.overLimit)
+    problems.push(`/api/health took longer than ${s.options.healthLimitMs} ms (or did not answer) ${s.health.overLimit} time(s), worst ${s.health.maxMs} ms`);
   if (!s.unexpectedExit) {
     const limit = s.options.shutdownTimeoutS * 1000;
     if (s.shutdown.exitedAfterMs === null) problems.push('the server did not exit after SIGTERM');
@@ -377,7 +398,11 @@ export function formatSummary(s: ChaosSummary): string {
     `  requests: ${s.requests}`,
   ];
   for (const [route, r] of Object.entries(s.byRoute)) {
-    lines.push(`    ${route.padEnd(15)} ${String(r.count).padStart(5)}  ${Object.entries(r.statuses).map(([k, v]) => `${k}×${v}`).join(' ')}`);
+    lines.push(
+      `    ${route.padEnd(15)} ${String(r.count).padStart(5)}  ${Object.entries(r.statuses)
+        .map(([k, v]) => `${k}×${v}`)
+        .join(' ')}`,
+    );
   }
   lines.push(
     `  faults: ${s.faults.map((f) => `${f.name} [${(f.from / 1000).toFixed(1)}–${(f.to / 1000).toFixed(1)} s]`).join('; ')}`,
@@ -385,9 +410,15 @@ export function formatSummary(s: ChaosSummary): string {
     `  500 answers: ${s.server500} (${s.server500OutsideFaults} while the database was up, ${s.deadlock500} naming a deadlock; ${s.deadlockLogLines} deadlock log lines)`,
     `  acknowledged submissions: ${s.submissionsAcknowledged} (missing ${s.submissionsMissing.length}, stored twice ${s.submissionsDuplicated.length})`,
     `  acknowledged ratings: ${s.ratingsAcknowledged} (problems ${s.ratingProblems.length})`,
-    `  database orphans: ${Object.entries(s.dbOrphans).map(([k, v]) => `${k}=${v}`).join(', ')}`,
+    `  database orphans: ${Object.entries(s.dbOrphans)
+      .map(([k, v]) => `${k}=${v}`)
+      .join(', ')}`,
     `  files left for the start-up sweep: ${s.leftForSweep}; uploads-folder orphans after it: ${s.diskOrphans.length}${s.diskOrphans.length ? ` (${s.diskOrphans.slice(0, 3).join(', ')})` : ''}`,
-    `  /api/health: ${s.health.probes} probes, worst ${s.health.maxMs} ms, ${s.health.over1s} over 1 s, ${s.health.unanswered} unanswered; worst during faults: ${Object.entries(s.health.during).map(([k, v]) => `${k.split(' (')[0]} ${v} ms`).join(', ')}`,
+    `  /api/health: ${s.health.probes} probes, worst ${s.health.maxMs} ms, ${s.health.over1s} over 1 s, ${s.health.unanswered} unanswered; worst during faults: ${Object.entries(
+      s.health.during,
+    )
+      .map(([k, v]) => `${k.split(' (')[0]} ${v} ms`)
+      .join(', ')}`,
     s.shutdown.signalledAt
       ? `  shutdown: SIGTERM at ${(s.shutdown.signalledAt / 1000).toFixed(1)} s, exited after ${s.shutdown.exitedAfterMs ?? '—'} ms with code ${s.shutdown.code} (deadline ${s.options.shutdownTimeoutS} s)`
       : '  shutdown: SIGTERM not sent (the server had already exited)',

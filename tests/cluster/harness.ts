@@ -124,7 +124,10 @@ function markWord(n: number): string {
 
 /** The part of @aws-sdk/client-s3 the run uses to list the bucket. */
 interface S3Sdk {
-  S3Client: new (config: object) => { send(command: object): Promise<{ Contents?: { Key?: string }[]; IsTruncated?: boolean; NextContinuationToken?: string }>; destroy(): void };
+  S3Client: new (config: object) => {
+    send(command: object): Promise<{ Contents?: { Key?: string }[]; IsTruncated?: boolean; NextContinuationToken?: string }>;
+    destroy(): void;
+  };
   ListObjectsV2Command: new (input: { Bucket: string; ContinuationToken?: string }) => object;
 }
 
@@ -360,7 +363,9 @@ export async function runClusterFaults(options: ClusterRunOptions): Promise<Clus
     // ---- checks
     const submitted = await submissionProblems(sql, 'rigshelf', `Cluster plate ${run} %`, submissions);
     const storedReports = new Map<string, number>();
-    for (const [production, n] of await sql(`SELECT production, COUNT(*) FROM rigshelf.set_reports WHERE production LIKE 'Cluster shoot ${run} %' GROUP BY production`)) {
+    for (const [production, n] of await sql(
+      `SELECT production, COUNT(*) FROM rigshelf.set_reports WHERE production LIKE 'Cluster shoot ${run} %' GROUP BY production`,
+    )) {
       storedReports.set(production, Number(n));
     }
     const ackedReports = reports.filter((r) => r.status === 201);
@@ -434,7 +439,8 @@ export async function runClusterFaults(options: ClusterRunOptions): Promise<Clus
       const inside = samples.filter((s) => s.at >= bounds[i].at && s.at < bounds[i + 1].at);
       if (!inside.length) continue;
       const errors: Record<string, number> = {};
-      for (const s of inside) if (s.status <= 0 || s.status >= 400) errors[String(s.status || 'no answer')] = (errors[String(s.status || 'no answer')] ?? 0) + 1;
+      for (const s of inside)
+        if (s.status <= 0 || s.status >= 400) errors[String(s.status || 'no answer')] = (errors[String(s.status || 'no answer')] ?? 0) + 1;
       const ms = inside.map((s) => s.ms);
       phases.push({
         name: i === 0 ? 'before the faults' : `after "${bounds[i].name}"`,
@@ -479,7 +485,10 @@ export async function runClusterFaults(options: ClusterRunOptions): Promise<Clus
         duplicated: [...storedReports].filter(([, n]) => n > 1).map(([t]) => t),
       },
       kitItems: { acknowledged: [...kitAttempts.values()].reduce((n, a) => n + a.acked, 0), problems: kitProblems },
-      ratings: { acknowledged: ratings.filter((r) => r.status === 200 || r.status === 201).length, problems: await ratingProblems(sql, 'rigshelf', `cluster-${run}-%`, ratings) },
+      ratings: {
+        acknowledged: ratings.filter((r) => r.status === 200 || r.status === 201).length,
+        problems: await ratingProblems(sql, 'rigshelf', `cluster-${run}-%`, ratings),
+      },
       dbOrphans: await databaseOrphans(sql, 'rigshelf'),
       objects: { listed: listed.keys.length, missing, orphans, leftForSweep, source: listed.source },
       photos,
@@ -488,7 +497,9 @@ export async function runClusterFaults(options: ClusterRunOptions): Promise<Clus
       unclean,
       slow: samples.filter((x) => x.ms > SLOW_MS).length,
       instanceErrors: cluster.instances.flatMap((inst) =>
-        inst.lines.filter((l) => l.stream === 'err' && /\bref [0-9a-f]{6,}|Error\b/.test(l.text)).map((l) => `${inst.name} ${((l.at - t0) / 1000).toFixed(1)} s: ${l.text.slice(0, 300)}`),
+        inst.lines
+          .filter((l) => l.stream === 'err' && /\bref [0-9a-f]{6,}|Error\b/.test(l.text))
+          .map((l) => `${inst.name} ${((l.at - t0) / 1000).toFixed(1)} s: ${l.text.slice(0, 300)}`),
       ),
       galera,
       durationMs: Date.now() - started,
@@ -517,11 +528,14 @@ export function verdict(s: ClusterSummary): string[] {
   if (s.kitItems.problems.length) p.push(`kit items: ${s.kitItems.problems.slice(0, 3).join('; ')}`);
   if (s.ratings.problems.length) p.push(`ratings: ${s.ratings.problems.slice(0, 3).join('; ')}`);
   for (const [name, n] of Object.entries(s.dbOrphans)) if (n) p.push(`database: ${n} × ${name}`);
-  if (s.objects.missing.length) p.push(`object store: ${s.objects.missing.length} row(s) without their object, e.g. ${s.objects.missing.slice(0, 3).join(', ')}`);
+  if (s.objects.missing.length)
+    p.push(`object store: ${s.objects.missing.length} row(s) without their object, e.g. ${s.objects.missing.slice(0, 3).join(', ')}`);
   if (s.objects.orphans.length) p.push(`object store: ${s.objects.orphans.length} object(s) without a row, e.g. ${s.objects.orphans.slice(0, 3).join(', ')}`);
   if (s.photos.notReady || s.photos.failed) p.push(`photos: ${s.photos.notReady} still waiting, ${s.photos.failed} failed`);
   if (s.photos.ranTwice) p.push(`photos: ${s.photos.ranTwice} cleaned more than once`);
-  for (const f of s.search) if (f.ms === null || f.ms > s.options.searchBoundMs) p.push(`search on ${f.instance}: ${f.ms === null ? 'never found' : `found after ${f.ms} ms`} (bound ${s.options.searchBoundMs} ms)`);
+  for (const f of s.search)
+    if (f.ms === null || f.ms > s.options.searchBoundMs)
+      p.push(`search on ${f.instance}: ${f.ms === null ? 'never found' : `found after ${f.ms} ms`} (bound ${s.options.searchBoundMs} ms)`);
   if (s.sessions.survived !== s.sessions.members) p.push(`sessions: ${s.sessions.members - s.sessions.survived} of ${s.sessions.members} lost`);
   if (s.unclean.length) p.push(`${s.unclean.length} unclean error answer(s), e.g. ${s.unclean.slice(0, 3).join(' | ')}`);
   for (const g of s.galera) if (g.size !== 3 || g.state !== 'Synced') p.push(`Galera ${g.node}: size ${g.size}, ${g.state}`);
@@ -529,7 +543,10 @@ export function verdict(s: ClusterSummary): string[] {
 }
 
 export function formatSummary(s: ClusterSummary): string {
-  const fmt = (r: Record<string, number>) => Object.entries(r).map(([k, v]) => `${k}×${v}`).join(' ') || 'none';
+  const fmt = (r: Record<string, number>) =>
+    Object.entries(r)
+      .map(([k, v]) => `${k}×${v}`)
+      .join(' ') || 'none';
   const lines = [
     `cluster fault run: ${s.options.members} members through haproxy, ${s.options.durationMs / 1000} s of load, ${(s.durationMs / 1000).toFixed(0)} s in all (storage ${s.options.storage})`,
     `  requests: ${s.requests}; errors by status: ${fmt(s.errorsByStatus)}`,
@@ -542,7 +559,9 @@ export function formatSummary(s: ClusterSummary): string {
     );
   }
   lines.push(
-    `  recovery: ${Object.entries(s.recovery).map(([k, v]) => `${k} ${(v / 1000).toFixed(1)} s`).join('; ')}`,
+    `  recovery: ${Object.entries(s.recovery)
+      .map(([k, v]) => `${k} ${(v / 1000).toFixed(1)} s`)
+      .join('; ')}`,
     `  submissions acknowledged ${s.submissions.acknowledged} (missing ${s.submissions.missing.length}, twice ${s.submissions.duplicated.length}); set reports ${s.reports.acknowledged} (missing ${s.reports.missing.length}, twice ${s.reports.duplicated.length}); kit items ${s.kitItems.acknowledged} (problems ${s.kitItems.problems.length}); ratings ${s.ratings.acknowledged} (problems ${s.ratings.problems.length})`,
     `  half records: ${fmt(s.dbOrphans)}`,
     `  object store (${s.objects.source}): ${s.objects.listed} objects; rows without object ${s.objects.missing.length}; objects without row ${s.objects.orphans.length} (${s.objects.leftForSweep} before the start-up sweep)`,

@@ -30,7 +30,10 @@ describe('browser · camera builds and wanted parts', () => {
     const results = page.locator('[data-test="search-result"]');
     await results.first().waitFor();
     const firstThree = (await results.allTextContents()).slice(0, 3);
-    expect(firstThree.some((text) => text.includes(PLATE_ADAPTER)), JSON.stringify(firstThree)).toBe(true);
+    expect(
+      firstThree.some((text) => text.includes(PLATE_ADAPTER)),
+      JSON.stringify(firstThree),
+    ).toBe(true);
     await rig.screenshot('builds-1-receiver-plate-desk');
 
     // 2. a new build, from the switch on the search page

@@ -76,7 +76,10 @@ describe('browser · submit a part', () => {
 
     // 5 · licence and a load flag, which brings up the cautions
     await page.locator('#licence').click();
-    await page.getByRole('option', { name: /CC BY 4\.0/ }).first().click();
+    await page
+      .getByRole('option', { name: /CC BY 4\.0/ })
+      .first()
+      .click();
     await page.locator('[data-test="flag-carriesLoad"]').check();
     await page.locator('#tested-load').fill('2');
     await page.locator('[data-test="cautions"]').getByText('safety cable').waitFor();

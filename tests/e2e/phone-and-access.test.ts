@@ -44,7 +44,10 @@ async function problemsOn(page: Page, label: string): Promise<string[]> {
       .filter((el) => el.getBoundingClientRect().right > window.innerWidth + 0.5)
       .filter((el) => ![...el.children].some((c) => c.getBoundingClientRect().right > window.innerWidth + 0.5))
       .slice(0, 4)
-      .map((el) => `${el.tagName.toLowerCase()}${el.className && typeof el.className === 'string' ? '.' + el.className.trim().split(/\s+/).join('.') : ''} (right ${Math.round(el.getBoundingClientRect().right)})`);
+      .map(
+        (el) =>
+          `${el.tagName.toLowerCase()}${el.className && typeof el.className === 'string' ? '.' + el.className.trim().split(/\s+/).join('.') : ''} (right ${Math.round(el.getBoundingClientRect().right)})`,
+      );
     return `${doc.scrollWidth} px wide: ${wide.join(', ')}`;
   });
   if (overflow) problems.push(`${label}: wider than ${PHONE.width} px, ${overflow}`);
@@ -57,14 +60,16 @@ async function problemsOn(page: Page, label: string): Promise<string[]> {
   )) as AxeResult;
   for (const v of result.violations) {
     if (v.impact !== 'serious' && v.impact !== 'critical') continue;
-    const where = v.nodes.slice(0, 3).map((n) => `${n.target.join(' ')}${n.failureSummary ? ` [${n.failureSummary.split('\n').slice(1).join(' ').trim()}]` : ''}`);
+    const where = v.nodes
+      .slice(0, 3)
+      .map((n) => `${n.target.join(' ')}${n.failureSummary ? ` [${n.failureSummary.split('\n').slice(1).join(' ').trim()}]` : ''}`);
     problems.push(`${label}: ${v.id} (${v.impact}) ${v.help} at ${where.join('; ')}`);
   }
   return problems;
 }
 
 async function visitAll(paths: string[], who: string): Promise<string[]> {
-    const found: string[] = [];
+  const found: string[] = [];
   for (const path of paths) {
     await page.goto(path);
     found.push(...(await problemsOn(page, `${who} ${path}`)));
@@ -86,14 +91,24 @@ describe('browser · phone width and accessibility', () => {
     await forgetSession(page);
     const search = await apiJson<{ results: { slug: string }[] }>('/api/search?q=');
     const found = await visitAll(
-      ['/', '/search?q=plate', `/parts/${search.results[0].slug}`, '/sign-in', '/register', '/forgot-password', '/verify-email', '/reset-password', '/no-such-page'],
+      [
+        '/',
+        '/search?q=plate',
+        `/parts/${search.results[0].slug}`,
+        '/sign-in',
+        '/register',
+        '/forgot-password',
+        '/verify-email',
+        '/reset-password',
+        '/no-such-page',
+      ],
       'visitor',
     );
     expect(found).toEqual([]);
   }, 240_000);
 
   it('member pages · 390 px phone · no horizontal overflow and no serious axe violation', async () => {
-        await forgetSession(page);
+    await forgetSession(page);
     await signInThroughForm(page, account('member').email, DEMO_PASSWORD);
     await page.locator('[data-test="account-button"]').waitFor();
     const search = await apiJson<{ results: { slug: string }[] }>('/api/search?q=');
@@ -101,7 +116,21 @@ describe('browser · phone width and accessibility', () => {
     const wanted = await apiJson<{ items: { id: number }[] }>('/api/wanted');
     const me = await apiJson<{ user: { id: number } }>('/api/auth/me');
     const slug = search.results[0].slug;
-    const paths = ['/', '/search?q=rod', `/parts/${slug}`, `/parts/${slug}/report`, '/parts/new', '/my/parts', '/kits', '/printers', '/builds', '/wanted', '/wanted/new', '/account', `/crew/${me.user.id}`];
+    const paths = [
+      '/',
+      '/search?q=rod',
+      `/parts/${slug}`,
+      `/parts/${slug}/report`,
+      '/parts/new',
+      '/my/parts',
+      '/kits',
+      '/printers',
+      '/builds',
+      '/wanted',
+      '/wanted/new',
+      '/account',
+      `/crew/${me.user.id}`,
+    ];
     if (kits.items[0]) paths.push(`/kits/${kits.items[0].id}`);
     if (wanted.items[0]) paths.push(`/wanted/${wanted.items[0].id}`);
     const found = await visitAll(paths, 'member');
@@ -148,7 +177,7 @@ describe('browser · phone width and accessibility', () => {
   }, 300_000);
 
   it('moderator pages · 390 px phone · no horizontal overflow and no serious axe violation', async () => {
-        await forgetSession(page);
+    await forgetSession(page);
     await signInThroughForm(page, account('moderator').email, DEMO_PASSWORD);
     await page.locator('[data-test="account-button"]').waitFor();
     const queue = await apiJson<{ items: { partId: number }[] }>('/api/review/queue');
@@ -158,7 +187,7 @@ describe('browser · phone width and accessibility', () => {
   }, 120_000);
 
   it('admin pages · 390 px phone · no horizontal overflow and no serious axe violation', async () => {
-        await forgetSession(page);
+    await forgetSession(page);
     await signInThroughForm(page, account('admin').email, DEMO_PASSWORD);
     await page.locator('[data-test="account-button"]').waitFor();
     expect(await visitAll(['/admin/users', '/admin/mail', '/admin/bodies'], 'admin')).toEqual([]);

@@ -41,7 +41,10 @@ describe('browser · print request', () => {
     await dialog.locator('[data-test="ask-printer"]').waitFor();
     // other crew members have printers too: choose one of the 1st AC's
     await dialog.locator('[data-test="ask-printer"]').click();
-    await page.getByRole('option', { name: new RegExp(`· ${owner.displayName} ·`) }).first().click();
+    await page
+      .getByRole('option', { name: new RegExp(`· ${owner.displayName} ·`) })
+      .first()
+      .click();
     await dialog.locator('#ask-note').fill('For the A camera’s follow focus.');
     await dialog.locator('[data-test="ask-print-send"]').click();
     await page.waitForURL((url) => /^\/print-requests\/\d+$/.test(url.pathname));
@@ -54,7 +57,12 @@ describe('browser · print request', () => {
     // the 1st AC takes it from asked to handed over
     await signInAs(page, owner.email);
     await page.goto(requestPath);
-    for (const [step, label] of [['accept', 'Accepted'], ['fit-tested', 'Fit test printed'], ['printed', 'Printed'], ['handed-over', 'Handed over']] as const) {
+    for (const [step, label] of [
+      ['accept', 'Accepted'],
+      ['fit-tested', 'Fit test printed'],
+      ['printed', 'Printed'],
+      ['handed-over', 'Handed over'],
+    ] as const) {
       await page.locator(`[data-test="step-${step}"]`).click();
       await statusIs(page, label);
     }

@@ -95,7 +95,11 @@ describe('browser · the review desk', () => {
     expect(await note.textContent()).toContain('Add a photo of the print on the rod.');
     await rig.screenshot('review-desk-4-edit-with-note');
     const token = await page.evaluate(async () => (await (await fetch('/api/auth/csrf')).json()).csrfToken as string);
-    expect((await page.request.patch(`/api/parts/${id}`, { headers: { 'X-CSRF-Token': token }, data: { summary: 'Now with the photo the desk asked for.' } })).status()).toBe(200);
+    expect(
+      (
+        await page.request.patch(`/api/parts/${id}`, { headers: { 'X-CSRF-Token': token }, data: { summary: 'Now with the photo the desk asked for.' } })
+      ).status(),
+    ).toBe(200);
 
     // the desk now shows the second version
     await forgetSession(page);

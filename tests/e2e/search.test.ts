@@ -101,7 +101,10 @@ describe('browser · search', () => {
 
   it('search · "receiver bracket for v-style" typed and sent with the keyboard, on a laptop and a phone · partial matches say quietly what matched', async () => {
     const { page } = rig;
-    for (const [name, viewport] of [['laptop', { width: 1366, height: 800 }], ['phone', { width: 390, height: 844 }]] as const) {
+    for (const [name, viewport] of [
+      ['laptop', { width: 1366, height: 800 }],
+      ['phone', { width: 390, height: 844 }],
+    ] as const) {
       await page.setViewportSize(viewport);
       await page.goto('/search');
       const box = page.locator('#search-q');

@@ -80,12 +80,15 @@ describe('browser · sign-in', () => {
     await asAdmin.post('/api/auth/login', { headers: { 'X-CSRF-Token': csrf }, data: { email: admin.email, password: DEMO_PASSWORD } });
     let link = '';
     await expect
-      .poll(async () => {
-        const items = ((await (await asAdmin.get('/api/dev/mailbox')).json()).items ?? []) as MailboxMessage[];
-        const newest = items.find((m) => m.to.some((to) => to.includes(email)) && /verify-email\?token=/.test(m.text));
-        link = newest ? /\/verify-email\?token=[^\s"<>]+/.exec(newest.text)![0] : '';
-        return link;
-      }, { timeout: 30_000 })
+      .poll(
+        async () => {
+          const items = ((await (await asAdmin.get('/api/dev/mailbox')).json()).items ?? []) as MailboxMessage[];
+          const newest = items.find((m) => m.to.some((to) => to.includes(email)) && /verify-email\?token=/.test(m.text));
+          link = newest ? /\/verify-email\?token=[^\s"<>]+/.exec(newest.text)![0] : '';
+          return link;
+        },
+        { timeout: 30_000 },
+      )
       .not.toBe('');
     await asAdmin.dispose();
     await page.goto(link);

@@ -17,7 +17,6 @@ export function boxStl(x: number, y: number, z: number): Buffer {
   return toBuffer(stlSerializer.serialize({ binary: true }, transforms.translate([0, 0, z / 2], primitives.cuboid({ size: [x, y, z] }))));
 }
 
-
 /** A binary STL box with the winding of its first `reversed` facets turned backwards (second and third corners swapped). */
 export function boxStlWithReversedFacets(x: number, y: number, z: number, reversed: number): Buffer {
   const bytes = Buffer.from(boxStl(x, y, z));

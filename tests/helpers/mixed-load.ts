@@ -103,7 +103,10 @@ export async function ratingProblems(sql: SqlRows, db: string, emailLike: string
     byPair.set(key, [...(byPair.get(key) ?? []), r]);
   }
   for (const [key, attempts] of byPair) {
-    const lastAck = attempts.map((a, i) => ({ a, i })).filter(({ a }) => a.status === 200 || a.status === 201).pop();
+    const lastAck = attempts
+      .map((a, i) => ({ a, i }))
+      .filter(({ a }) => a.status === 200 || a.status === 201)
+      .pop();
     if (!lastAck) continue;
     const row = stored.get(key);
     if (!row) {
@@ -111,7 +114,13 @@ export async function ratingProblems(sql: SqlRows, db: string, emailLike: string
       continue;
     }
     if (row.rows !== 1) problems.push(`${key}: ${row.rows} rows`);
-    const possible = new Set([lastAck.a.stars, ...attempts.slice(lastAck.i + 1).filter((a) => a.status <= 0 || a.status >= 500).map((a) => a.stars)]);
+    const possible = new Set([
+      lastAck.a.stars,
+      ...attempts
+        .slice(lastAck.i + 1)
+        .filter((a) => a.status <= 0 || a.status >= 500)
+        .map((a) => a.stars),
+    ]);
     if (!possible.has(row.stars)) problems.push(`${key}: ${row.stars} stars stored, last acknowledged ${lastAck.a.stars}`);
   }
   return problems;
@@ -137,9 +146,7 @@ export async function databaseOrphans(sql: SqlRows, db: string): Promise<Record<
   return {
     partsWithoutRevision: await count(`SELECT COUNT(*) FROM ${db}.parts p WHERE NOT EXISTS (SELECT 1 FROM ${db}.part_revisions r WHERE r.part_id = p.id)`),
     partsWithoutLatestRevision: await count(`SELECT COUNT(*) FROM ${db}.parts WHERE latest_revision_id IS NULL`),
-    filesOnNoRevision: await count(
-      `SELECT COUNT(*) FROM ${db}.part_files f WHERE NOT EXISTS (SELECT 1 FROM ${db}.revision_files rf WHERE rf.file_id = f.id)`,
-    ),
+    filesOnNoRevision: await count(`SELECT COUNT(*) FROM ${db}.part_files f WHERE NOT EXISTS (SELECT 1 FROM ${db}.revision_files rf WHERE rf.file_id = f.id)`),
     revisionsWithoutModel: await count(
       `SELECT COUNT(*) FROM ${db}.part_revisions r WHERE NOT EXISTS (SELECT 1 FROM ${db}.revision_files rf JOIN ${db}.part_files f ON f.id = rf.file_id WHERE rf.revision_id = r.id AND f.kind = 'model')`,
     ),

@@ -110,7 +110,12 @@ export interface ServerProcess {
  * Starts `node --import tsx server/index.ts` (the server started directly) against `dbEnv`,
  * and resolves once it says it is serving.
  */
-export async function spawnServer(dbEnv: Record<string, string>, extra: Record<string, string> = {}, label = 'server', startTimeoutMs = 120_000): Promise<ServerProcess> {
+export async function spawnServer(
+  dbEnv: Record<string, string>,
+  extra: Record<string, string> = {},
+  label = 'server',
+  startTimeoutMs = 120_000,
+): Promise<ServerProcess> {
   const port = await freePort();
   const scratch = mkdtempSync(join(tmpdir(), `rigshelf-${label}-`));
   const uploadsDir = join(scratch, 'uploads');
@@ -156,7 +161,10 @@ export async function spawnServer(dbEnv: Record<string, string>, extra: Record<s
       rmSync(scratch, { recursive: true, force: true });
     },
   };
-  for (const [stream, source] of [['out', child.stdout!], ['err', child.stderr!]] as const) {
+  for (const [stream, source] of [
+    ['out', child.stdout!],
+    ['err', child.stderr!],
+  ] as const) {
     let rest = '';
     source.setEncoding('utf8');
     source.on('data', (chunk: string) => {
@@ -168,7 +176,10 @@ export async function spawnServer(dbEnv: Record<string, string>, extra: Record<s
   }
   const serving = await waitFor(() => proc.exit !== null || proc.lines.some((l) => l.text.startsWith('rigshelf: serving')), startTimeoutMs, 50);
   if (!serving || proc.exit) {
-    const tail = proc.lines.slice(-20).map((l) => l.text).join('\n');
+    const tail = proc.lines
+      .slice(-20)
+      .map((l) => l.text)
+      .join('\n');
     await proc.dispose();
     throw new Error(`the server did not start:\n${tail}`);
   }
@@ -179,9 +190,7 @@ export async function spawnServer(dbEnv: Record<string, string>, extra: Record<s
 export async function addMembers(db: PrivateMariaDb, prefix: string, count: number, password: string): Promise<string[]> {
   const hash = await hashPassword(password, 12);
   const emails = Array.from({ length: count }, (_, i) => `${prefix}-${i + 1}@crew.test`);
-  const values = emails
-    .map((e, i) => `('${e}', 'Load member ${i + 1}', '${hash}', 'member', 'active', NULL, NOW(), NOW(), NOW())`)
-    .join(',\n');
+  const values = emails.map((e, i) => `('${e}', 'Load member ${i + 1}', '${hash}', 'member', 'active', NULL, NOW(), NOW(), NOW())`).join(',\n');
   await db.sql(
     `INSERT INTO rigshelf.users (email, display_name, password_hash, role, status, crew_role, email_verified_at, created_at, updated_at) VALUES ${values}`,
   );

@@ -19,7 +19,14 @@ const encode = (text: string) => new TextEncoder().encode(text);
 /** A 10 mm cube (12 triangles) as 3MF mesh XML. */
 function cubeMesh(size = 10): string {
   const vertices = Array.from({ length: 8 }, (_, i) => `<vertex x="${i & 1 ? size : 0}" y="${i & 2 ? size : 0}" z="${i & 4 ? size : 0}"/>`);
-  const quads = [[0, 2, 3, 1], [4, 5, 7, 6], [0, 1, 5, 4], [2, 6, 7, 3], [0, 4, 6, 2], [1, 3, 7, 5]];
+  const quads = [
+    [0, 2, 3, 1],
+    [4, 5, 7, 6],
+    [0, 1, 5, 4],
+    [2, 6, 7, 3],
+    [0, 4, 6, 2],
+    [1, 3, 7, 5],
+  ];
   const triangles = quads.flatMap(([a, b, c, d]) => [`<triangle v1="${a}" v2="${b}" v3="${c}"/>`, `<triangle v1="${a}" v2="${c}" v3="${d}"/>`]);
   return `<mesh><vertices>${vertices.join('')}</vertices><triangles>${triangles.join('')}</triangles></mesh>`;
 }
@@ -45,7 +52,8 @@ export function nestedComponents3mf(levels: number, fanout: number): Uint8Array 
 /** Components nested `depth` deep, one inside the other around a single cube. */
 export function deeplyNested3mf(depth: number): Uint8Array {
   const objects = [`<object id="1" type="model">${cubeMesh()}</object>`];
-  for (let level = 1; level <= depth; level++) objects.push(`<object id="${level + 1}" type="model"><components><component objectid="${level}"/></components></object>`);
+  for (let level = 1; level <= depth; level++)
+    objects.push(`<object id="${level + 1}" type="model"><components><component objectid="${level}"/></components></object>`);
   return modelPackage(objects.join(''), `<item objectid="${depth + 1}"/>`);
 }
 

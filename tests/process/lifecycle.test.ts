@@ -43,13 +43,17 @@ describe('npm start', () => {
     child.stderr.on('data', (d) => (output += d));
     const exited = new Promise<number | null>((done) => child.once('exit', (code) => done(code)));
     try {
-      const up = await waitFor(async () => {
-        try {
-          return (await fetch(`http://127.0.0.1:${appPort}/api/health`, { signal: AbortSignal.timeout(2000) })).status === 200;
-        } catch {
-          return false;
-        }
-      }, 150_000, 500);
+      const up = await waitFor(
+        async () => {
+          try {
+            return (await fetch(`http://127.0.0.1:${appPort}/api/health`, { signal: AbortSignal.timeout(2000) })).status === 200;
+          } catch {
+            return false;
+          }
+        },
+        150_000,
+        500,
+      );
       expect(up, output).toBe(true);
       const server = childrenOf(child.pid!)[0];
       const mariadb = Number(readFileSync(join(dbDir, 'mariadb.pid'), 'utf8').trim());
@@ -58,7 +62,11 @@ describe('npm start', () => {
 
       child.kill('SIGTERM');
       // deadline 10 s for the app, then MariaDB's own clean shutdown
-      const gone = await waitFor(async () => !processAlive(server) && !processAlive(mariadb) && !(await portOpen(appPort)) && !(await portOpen(dbPort)), 45_000, 250);
+      const gone = await waitFor(
+        async () => !processAlive(server) && !processAlive(mariadb) && !(await portOpen(appPort)) && !(await portOpen(dbPort)),
+        45_000,
+        250,
+      );
       expect(gone, output).toBe(true);
       expect(await Promise.race([exited, sleep(10_000).then(() => 'still running')])).toBe(0);
       expect(output).toContain('rigshelf: stopped in');

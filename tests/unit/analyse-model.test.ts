@@ -18,7 +18,8 @@ function torusStl(u: number, v: number, scale = 1): Uint8Array {
   const view = new DataView(bytes.buffer);
   view.setUint32(80, facets, true);
   const p = (i: number, j: number) => {
-    const t = (2 * Math.PI * (i % u)) / u, f = (2 * Math.PI * (j % v)) / v;
+    const t = (2 * Math.PI * (i % u)) / u,
+      f = (2 * Math.PI * (j % v)) / v;
     return [(60 + 20 * Math.cos(f)) * Math.cos(t) * scale, (60 + 20 * Math.cos(f)) * Math.sin(t) * scale, 20 * Math.sin(f) * scale];
   };
   let o = 84;

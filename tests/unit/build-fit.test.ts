@@ -40,11 +40,14 @@ describe('rangesOverlap · value ± tolerance', () => {
     expect(rangesOverlap({ name: 'x', valueMm: 80, tolMm: 0.099 }, { name: 'x', valueMm: 80.4, tolMm: 0.3 })).toBe(false);
   });
   it('rangesOverlap · every pair on a 0.1 mm grid · agrees with comparing the interval ends', () => {
-    for (let a = 0; a <= 20; a++) for (let ta = 0; ta <= 5; ta++) for (let b = 0; b <= 20; b++) for (let tb = 0; tb <= 5; tb++) {
-      const x = { name: 'x', valueMm: 10 + a / 10, tolMm: ta / 10 };
-      const y = { name: 'y', valueMm: 10 + b / 10, tolMm: tb / 10 };
-      expect(rangesOverlap(x, y)).toBe(overlapByEnds(x, y));
-    }
+    for (let a = 0; a <= 20; a++)
+      for (let ta = 0; ta <= 5; ta++)
+        for (let b = 0; b <= 20; b++)
+          for (let tb = 0; tb <= 5; tb++) {
+            const x = { name: 'x', valueMm: 10 + a / 10, tolMm: ta / 10 };
+            const y = { name: 'y', valueMm: 10 + b / 10, tolMm: tb / 10 };
+            expect(rangesOverlap(x, y)).toBe(overlapByEnds(x, y));
+          }
   });
 });
 

@@ -15,7 +15,12 @@ describe('csv · quoting', () => {
   });
 
   it('toCsv · several records · CRLF after each (RFC 4180 §2.1–2.2)', () => {
-    expect(toCsv([['a', 1], ['b', 2]])).toBe('a,1\r\nb,2\r\n');
+    expect(
+      toCsv([
+        ['a', 1],
+        ['b', 2],
+      ]),
+    ).toBe('a,1\r\nb,2\r\n');
   });
 
   it('toCsv · awkward text · papaparse (npm reference parser) reads back what was written', () => {

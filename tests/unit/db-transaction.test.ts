@@ -76,7 +76,13 @@ describe('retryDelayMs · jittered exponential pause', () => {
   const policy: RetryPolicy = { attempts: 6, baseDelayMs: 20, maxDelayMs: 500 };
 
   it('retryDelayMs · any random draw · between half and all of the doubled step', () => {
-    for (const [attempt, step] of [[1, 20], [2, 40], [3, 80], [4, 160], [5, 320]]) {
+    for (const [attempt, step] of [
+      [1, 20],
+      [2, 40],
+      [3, 80],
+      [4, 160],
+      [5, 320],
+    ]) {
       expect(retryDelayMs(attempt, policy, () => 0)).toBe(step / 2);
       expect(retryDelayMs(attempt, policy, () => 0.999999)).toBe(step);
       for (let i = 0; i < 50; i++) {

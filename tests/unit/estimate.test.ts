@@ -331,7 +331,11 @@ describe('fitOnBed · the recipe says how to lay it', () => {
     const small = fitOnBed([100, 70, 6], [100, 100, 100], { orientationNote: flat });
     expect(small.recipe).toEqual({ words: flat, followed: false });
     expect(small.orientation).toEqual([70, 6, 100]);
-    expect(fitOnBed([80, 70, 6], [100, 100, 100], { orientationNote: flat })).toMatchObject({ fits: 'as-is', orientation: [80, 70, 6], recipe: { followed: true } });
+    expect(fitOnBed([80, 70, 6], [100, 100, 100], { orientationNote: flat })).toMatchObject({
+      fits: 'as-is',
+      orientation: [80, 70, 6],
+      recipe: { followed: true },
+    });
   });
 
   it('fitOnBed · too big every way with a stated pose · says what the recipe pose needs and that nothing fits', () => {

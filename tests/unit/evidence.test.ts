@@ -1,5 +1,15 @@
 import { describe, expect, it } from 'vitest';
-import { countedReports, evidenceWarnings, onePerMemberAndProduction, productionKey, provenCaution, provenCounts, provenSentence, summariseEvidence, type ReportFacts } from '@shared/evidence';
+import {
+  countedReports,
+  evidenceWarnings,
+  onePerMemberAndProduction,
+  productionKey,
+  provenCaution,
+  provenCounts,
+  provenSentence,
+  summariseEvidence,
+  type ReportFacts,
+} from '@shared/evidence';
 import { compareProven, normalQuantileTwoSided } from '@shared/ranking';
 
 const r = (outcome: ReportFacts['outcome'], material = 'PETG', conditions: ReportFacts['conditions'] = []): ReportFacts => ({ outcome, material, conditions });
@@ -92,7 +102,9 @@ describe('ranking · a fixed set, best proven first', () => {
       { name: 'no reports, disliked', ...summariseEvidence([], [1, 2], 4) },
     ];
     const order = [...parts]
-      .sort((a, b) => compareProven({ provenScore: a.proven, adjustedRating: a.rating.adjusted ?? 0 }, { provenScore: b.proven, adjustedRating: b.rating.adjusted ?? 0 }))
+      .sort((a, b) =>
+        compareProven({ provenScore: a.proven, adjustedRating: a.rating.adjusted ?? 0 }, { provenScore: b.proven, adjustedRating: b.rating.adjusted ?? 0 }),
+      )
       .map((p) => p.name);
     expect(order).toEqual(['forty good', 'one perfect', 'no reports, loved', 'no reports, disliked']);
   });
@@ -109,7 +121,7 @@ describe('evidence · who counts toward the proven figure', () => {
     createdAt,
   });
 
-  it('evidence · an author\'s own reports · never count toward their part\'s proven figure', () => {
+  it("evidence · an author's own reports · never count toward their part's proven figure", () => {
     // the probe's case: 25 "held up" reports by the author, one "failed" and one "held up" by crew
     const reports = [...Array.from({ length: 25 }, (_, i) => by(AUTHOR, 'held-up', `Shoot ${i}`)), by(2, 'failed'), by(3, 'held-up')];
     const e = summariseEvidence(reports, [], null, { authorId: AUTHOR });
@@ -147,7 +159,7 @@ describe('evidence · who counts toward the proven figure', () => {
     expect(countedReports(reports, AUTHOR)).toEqual([reports[1], reports[2]]);
   });
 
-  it('evidence · warnings · still read the author\'s own failure reports (a caution is a caution), once per member and production', () => {
+  it("evidence · warnings · still read the author's own failure reports (a caution is a caution), once per member and production", () => {
     const reports = [
       { ...by(AUTHOR, 'deformed'), material: 'PLA', conditions: ['heat'] as const },
       { ...by(2, 'deformed'), material: 'PLA', conditions: ['heat'] as const },
@@ -158,9 +170,16 @@ describe('evidence · who counts toward the proven figure', () => {
     expect(e.reports).toBe(1);
   });
 
-  it('evidence · ranking · an author\'s 25 self-reports no longer lift their part above one with five crew reports', () => {
-    const stuffed = summariseEvidence([...Array.from({ length: 25 }, (_, i) => by(AUTHOR, 'held-up', `Shoot ${i}`)), by(2, 'held-up')], [], null, { authorId: AUTHOR });
-    const earned = summariseEvidence([2, 3, 4, 5, 6].map((u) => by(u, 'held-up')), [], null, { authorId: AUTHOR });
+  it("evidence · ranking · an author's 25 self-reports no longer lift their part above one with five crew reports", () => {
+    const stuffed = summariseEvidence([...Array.from({ length: 25 }, (_, i) => by(AUTHOR, 'held-up', `Shoot ${i}`)), by(2, 'held-up')], [], null, {
+      authorId: AUTHOR,
+    });
+    const earned = summariseEvidence(
+      [2, 3, 4, 5, 6].map((u) => by(u, 'held-up')),
+      [],
+      null,
+      { authorId: AUTHOR },
+    );
     // Wilson lower bounds (JASA 1927): 1 of 1 → 0.2065, 5 of 5 → 0.5655 (both by the formula above)
     expect(stuffed.proven).toBeCloseTo(wilsonByHand(1, 1), 12);
     expect(earned.proven).toBeCloseTo(0.5655, 4);

@@ -45,12 +45,7 @@ describe('kit summary · totals', () => {
     // Trade reference: PLA 1.24 g/cm³ (UL Prospector, ISO 1183); 8 cm³ × 1.24 = 9.92 g per 20 mm cube.
     // 1 in = 25.4 mm exactly (1959 agreement), so a 1-inch cube is 16.387064 cm³ → 20.31995936 g.
     expect(MM_PER_INCH).toBe(25.4);
-    const summary = summariseKit(
-      plan([
-        item({ id: 1, quantity: 3, geometry: cube(20) }),
-        item({ id: 2, quantity: 10, geometry: cube(inchesToMm(1)) }),
-      ]),
-    );
+    const summary = summariseKit(plan([item({ id: 1, quantity: 3, geometry: cube(20) }), item({ id: 2, quantity: 10, geometry: cube(inchesToMm(1)) })]));
     expect(summary.items[0].each!.massG).toBeCloseTo(9.92, 9);
     expect(summary.items[0].total!.massG).toBeCloseTo(29.76, 9);
     expect(summary.items[1].each!.massG).toBeCloseTo(16.387064 * 1.24, 9);
@@ -259,7 +254,9 @@ describe('kit summary · heat, fit and cautions', () => {
     const standing = summariseKit(plan([item({ geometry: plate, printer: cart, orientationNote: 'Stand it upright' })])).items[0].fit!;
     expect(standing.recipe).toEqual({ words: 'Stand it upright', followed: false });
     expect(standing.fits).toBe('diagonal');
-    expect(standing.message).toMatch(/needs 25.4 × 5 mm of bed and 254 mm of height, more than this bed has\. Here it must lie another way than the recipe says/);
+    expect(standing.message).toMatch(
+      /needs 25.4 × 5 mm of bed and 254 mm of height, more than this bed has\. Here it must lie another way than the recipe says/,
+    );
   });
 
   it('kit summary · a 10 × 1 inch plate · fits the cart printer only diagonally', () => {

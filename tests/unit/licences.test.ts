@@ -1,13 +1,6 @@
 import spdx from 'spdx-license-list';
 import { describe, expect, it } from 'vitest';
-import {
-  LICENCE_IDS,
-  adaptationRule,
-  checkAdaptationLicence,
-  isLicenceId,
-  licenceInfo,
-  type LicenceId,
-} from '@shared/licences';
+import { LICENCE_IDS, adaptationRule, checkAdaptationLicence, isLicenceId, licenceInfo, type LicenceId } from '@shared/licences';
 
 describe('licence table', () => {
   // Source: the SPDX License List as packaged in npm `spdx-license-list`.
@@ -100,9 +93,7 @@ const EXPECTED: Record<LicenceId, readonly number[]> = {
   MIT: /*                       */ [1, 1, 1, 1, 1, 1, 0, 1, 1, 1, 1, 1],
 };
 
-const PAIRS = LICENCE_IDS.flatMap((parent) =>
-  COLUMNS.map((child, column) => ({ parent, child, ok: EXPECTED[parent][column] === 1 })),
-);
+const PAIRS = LICENCE_IDS.flatMap((parent) => COLUMNS.map((child, column) => ({ parent, child, ok: EXPECTED[parent][column] === 1 })));
 
 describe('adaptation licences', () => {
   it('adaptation licences · the matrix · covers all 144 ordered pairs', () => {

@@ -14,7 +14,14 @@ const all: Record<string, MailContent> = {
   retired: mailTemplates.decision({ partTitle: HOSTILE, decision: 'retired', note: HOSTILE, moderator: HOSTILE, link: LINK }),
   verifyEmail: mailTemplates.verifyEmail({ displayName: HOSTILE, link: LINK, expiresHours: 48 }),
   passwordReset: mailTemplates.passwordReset({ displayName: HOSTILE, link: LINK, expiresMinutes: 60 }),
-  wantedAnswered: mailTemplates.wantedAnswered({ requestTitle: HOSTILE, partTitle: HOSTILE, answeredBy: HOSTILE, note: HOSTILE, partLink: LINK, requestLink: LINK }),
+  wantedAnswered: mailTemplates.wantedAnswered({
+    requestTitle: HOSTILE,
+    partTitle: HOSTILE,
+    answeredBy: HOSTILE,
+    note: HOSTILE,
+    partLink: LINK,
+    requestLink: LINK,
+  }),
 };
 
 describe('mail templates · escaping', () => {

@@ -37,7 +37,13 @@ describe('gear ring · tooth count', () => {
     // By hand: (80 + 3)/0.8 + 2.5 = 106.25 → 107; (82 + 3)/0.8 + 2.5 = 108.75 → 109.
     expect(toothCountFor(0.8, 80, 1.5)).toBe(107);
     expect(toothCountFor(0.8, 82, 1.5)).toBe(109);
-    for (const [m, barrel, wall] of [[0.8, 80, 1.5], [0.8, 82, 1.5], [0.5, 25, 1], [1, 120, 2], [0.6, 63.3, 0.8]] as const) {
+    for (const [m, barrel, wall] of [
+      [0.8, 80, 1.5],
+      [0.8, 82, 1.5],
+      [0.5, 25, 1],
+      [1, 120, 2],
+      [0.6, 63.3, 0.8],
+    ] as const) {
       const z = toothCountFor(m, barrel, wall);
       expect(m * (z - 2.5)).toBeGreaterThanOrEqual(barrel + 2 * wall - 1e-9);
       expect(m * (z - 1 - 2.5)).toBeLessThan(barrel + 2 * wall);
@@ -52,7 +58,12 @@ describe('gear ring · tooth count', () => {
 });
 
 describe('gear ring · diameters measured from the mesh', () => {
-  for (const [m, barrel, resolution] of [[0.8, 82, 'default'], [0.8, 80, 'fine'], [0.5, 30, 'default'], [1.0, 20, 'default']] as const) {
+  for (const [m, barrel, resolution] of [
+    [0.8, 82, 'default'],
+    [0.8, 80, 'fine'],
+    [0.5, 30, 'default'],
+    [1.0, 20, 'default'],
+  ] as const) {
     it(`gear ring · module ${m}, ${barrel} mm barrel, ${resolution} · pitch, outside and root diameters within the facet tolerance`, () => {
       const part = gearRing.generate({ module: m, barrelDiameterMm: barrel, widthMm: 6, resolution });
       const z = part.drawn.parameters.teeth as number;

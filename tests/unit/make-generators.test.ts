@@ -1,7 +1,17 @@
 import { unzipSync } from 'fflate';
 import { describe, expect, it } from 'vitest';
 import { analyseModelFile, analyseTriangles } from '../../shared/mesh/index';
-import { correctionFromGauge, correctionsSchema, GENERATOR_KINDS, GENERATORS, gaugeSteps, rodClamp, to3mf, toStl, type GeneratorKind } from '../../shared/make/index';
+import {
+  correctionFromGauge,
+  correctionsSchema,
+  GENERATOR_KINDS,
+  GENERATORS,
+  gaugeSteps,
+  rodClamp,
+  to3mf,
+  toStl,
+  type GeneratorKind,
+} from '../../shared/make/index';
 
 // Soundness is judged by shared/mesh (edge-sharing watertightness, orientable winding, shells), and the
 // file outputs by reading them back through the same analysis: JSCAD's own STL and 3MF serializers
@@ -20,7 +30,7 @@ function seeded(seed: number) {
 }
 
 type Rng = () => number;
-const pick = <T,>(rng: Rng, items: readonly T[]): T => items[Math.floor(rng() * items.length)];
+const pick = <T>(rng: Rng, items: readonly T[]): T => items[Math.floor(rng() * items.length)];
 const between = (rng: Rng, lo: number, hi: number, step = 0.1) => Math.round((lo + rng() * (hi - lo)) / step) * step;
 
 const SAMPLERS: Record<GeneratorKind, (rng: Rng) => Record<string, unknown>> = {
@@ -110,41 +120,45 @@ describe('generators · registry', () => {
 });
 
 describe.each(GENERATOR_KINDS)('generators · %s · 50 seeded random parameter sets', (kind) => {
-  it('generators · every registered generator · watertight, consistent winding, intended shells, positive volume, within bounds; STL and 3MF read back the same', { timeout: 600_000 }, () => {
-    const sets = validSets(kind);
-    expect(sets).toHaveLength(50);
-    for (const params of sets) {
-      const part = GENERATORS[kind].generate(params);
-      const a = analyseTriangles(part.mesh.positions);
-      const where = `${kind} ${JSON.stringify(params)}`;
-      expect(a.watertight, where).toBe(true);
-      expect(a.windingConsistent, where).toBe(true);
-      expect(a.insideOut, where).toBe(false);
-      expect(a.shells, where).toBe(part.shells);
-      expect(a.degenerateFacets + a.zeroAreaFacets, where).toBe(0);
-      expect(a.volumeMm3, where).toBeGreaterThan(0);
-      expect(a.signedVolumeMm3, where).toBeCloseTo(a.volumeMm3, 6);
-      a.sizeMm.forEach((s, i) => expect(s, where).toBeLessThanOrEqual(part.boundsMm[i] + 1e-3));
-      const stl = analyseModelFile(toStl(part.mesh));
-      const threeMfBytes = to3mf(part.mesh);
-      const threeMf = analyseModelFile(threeMfBytes);
-      expect(threeMf.format).toBe('3mf');
-      expect(new TextDecoder().decode(unzipSync(threeMfBytes)['3D/3dmodel.model'])).toMatch(/<model[^>]*unit="millimeter"/);
-      expect(threeMf.unitScale).toBe(1);
-      for (const file of [stl, threeMf]) {
-        expect(file.watertight, where).toBe(true);
-        expect(file.windingConsistent, where).toBe(true);
-        expect(file.shells, where).toBe(a.shells);
-        // Both serializers snap corners to a grid of about 1e-5 of the part's size before writing.
-        expect(Math.abs(file.volumeMm3 - a.volumeMm3) / a.volumeMm3, where).toBeLessThan(1e-4);
-        file.sizeMm.forEach((s, i) => expect(Math.abs(s - a.sizeMm[i]), where).toBeLessThan(1e-2));
+  it(
+    'generators · every registered generator · watertight, consistent winding, intended shells, positive volume, within bounds; STL and 3MF read back the same',
+    { timeout: 600_000 },
+    () => {
+      const sets = validSets(kind);
+      expect(sets).toHaveLength(50);
+      for (const params of sets) {
+        const part = GENERATORS[kind].generate(params);
+        const a = analyseTriangles(part.mesh.positions);
+        const where = `${kind} ${JSON.stringify(params)}`;
+        expect(a.watertight, where).toBe(true);
+        expect(a.windingConsistent, where).toBe(true);
+        expect(a.insideOut, where).toBe(false);
+        expect(a.shells, where).toBe(part.shells);
+        expect(a.degenerateFacets + a.zeroAreaFacets, where).toBe(0);
+        expect(a.volumeMm3, where).toBeGreaterThan(0);
+        expect(a.signedVolumeMm3, where).toBeCloseTo(a.volumeMm3, 6);
+        a.sizeMm.forEach((s, i) => expect(s, where).toBeLessThanOrEqual(part.boundsMm[i] + 1e-3));
+        const stl = analyseModelFile(toStl(part.mesh));
+        const threeMfBytes = to3mf(part.mesh);
+        const threeMf = analyseModelFile(threeMfBytes);
+        expect(threeMf.format).toBe('3mf');
+        expect(new TextDecoder().decode(unzipSync(threeMfBytes)['3D/3dmodel.model'])).toMatch(/<model[^>]*unit="millimeter"/);
+        expect(threeMf.unitScale).toBe(1);
+        for (const file of [stl, threeMf]) {
+          expect(file.watertight, where).toBe(true);
+          expect(file.windingConsistent, where).toBe(true);
+          expect(file.shells, where).toBe(a.shells);
+          // Both serializers snap corners to a grid of about 1e-5 of the part's size before writing.
+          expect(Math.abs(file.volumeMm3 - a.volumeMm3) / a.volumeMm3, where).toBeLessThan(1e-4);
+          file.sizeMm.forEach((s, i) => expect(Math.abs(s - a.sizeMm[i]), where).toBeLessThan(1e-2));
+        }
+        // The two files carry the same snapped triangles: the same figures.
+        expect(threeMf.facets, where).toBe(stl.facets);
+        expect(Math.abs(threeMf.volumeMm3 - stl.volumeMm3) / stl.volumeMm3, where).toBeLessThan(1e-6);
+        threeMf.sizeMm.forEach((s, i) => expect(Math.abs(s - stl.sizeMm[i]), where).toBeLessThan(1e-4));
       }
-      // The two files carry the same snapped triangles: the same figures.
-      expect(threeMf.facets, where).toBe(stl.facets);
-      expect(Math.abs(threeMf.volumeMm3 - stl.volumeMm3) / stl.volumeMm3, where).toBeLessThan(1e-6);
-      threeMf.sizeMm.forEach((s, i) => expect(Math.abs(s - stl.sizeMm[i]), where).toBeLessThan(1e-4));
-    }
-  });
+    },
+  );
 });
 
 describe('calibration · a recorded gauge step', () => {

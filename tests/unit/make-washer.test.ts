@@ -11,7 +11,7 @@ function minRadius(positions: Float32Array): number {
 }
 
 describe('washer · clearance holes', () => {
-  it('washer · 1/4-20 normal fit · 0.281 in = 7.1374 mm (ASME B18.2.8, Machinery\'s Handbook 31st ed. Table 1a)', () => {
+  it("washer · 1/4-20 normal fit · 0.281 in = 7.1374 mm (ASME B18.2.8, Machinery's Handbook 31st ed. Table 1a)", () => {
     expect(CLEARANCE_HOLE_MM['1/4-20'].normal).toBeCloseTo(0.281 * 25.4, 10);
     expect(CLEARANCE_HOLE_MM['3/8-16'].normal).toBeCloseTo(0.406 * 25.4, 10);
   });

@@ -1,14 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import {
-  HEAT_EXPOSURES,
-  HEAT_MARGIN_C,
-  MATERIAL_IDS,
-  heatCheck,
-  heatExposureInfo,
-  isMaterialId,
-  materialInfo,
-  recipeWindowWarnings,
-} from '@shared/materials';
+import { HEAT_EXPOSURES, HEAT_MARGIN_C, MATERIAL_IDS, heatCheck, heatExposureInfo, isMaterialId, materialInfo, recipeWindowWarnings } from '@shared/materials';
 
 describe('material table', () => {
   // Trade reference "Filament and materials": densities from UL Prospector (ISO 1183),
@@ -70,9 +61,7 @@ describe('material table', () => {
 describe('recipeWindowWarnings', () => {
   it('recipeWindowWarnings · hotend below the usual window · warned', () => {
     // PETG 220–250 °C (trade reference).
-    expect(recipeWindowWarnings({ material: 'PETG', hotendC: 190, bedC: 80 })).toEqual([
-      "Hotend 190 °C is below PETG's usual 220–250 °C.",
-    ]);
+    expect(recipeWindowWarnings({ material: 'PETG', hotendC: 190, bedC: 80 })).toEqual(["Hotend 190 °C is below PETG's usual 220–250 °C."]);
   });
 
   it('recipeWindowWarnings · hotend and bed both outside · warned together', () => {

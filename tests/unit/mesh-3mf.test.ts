@@ -24,7 +24,14 @@ const rels = (target: string) => `<?xml version="1.0" encoding="UTF-8"?>
 /** Axis-aligned cube from the origin with outward (counter-clockwise from outside) winding. */
 function cubeMesh(size: number): string {
   const vertices = Array.from({ length: 8 }, (_, i) => `<vertex x="${i & 1 ? size : 0}" y="${i & 2 ? size : 0}" z="${i & 4 ? size : 0}"/>`);
-  const quads = [[0, 2, 3, 1], [4, 5, 7, 6], [0, 1, 5, 4], [2, 6, 7, 3], [0, 4, 6, 2], [1, 3, 7, 5]];
+  const quads = [
+    [0, 2, 3, 1],
+    [4, 5, 7, 6],
+    [0, 1, 5, 4],
+    [2, 6, 7, 3],
+    [0, 4, 6, 2],
+    [1, 3, 7, 5],
+  ];
   const triangles = quads.flatMap(([a, b, c, d]) => [`<triangle v1="${a}" v2="${b}" v3="${c}"/>`, `<triangle v1="${a}" v2="${c}" v3="${d}"/>`]);
   return `<mesh><vertices>${vertices.join('')}</vertices><triangles>${triangles.join('')}</triangles></mesh>`;
 }
@@ -286,7 +293,8 @@ describe('refused 3MF files', () => {
   });
 
   it('refused 3MF · components that contain themselves · refused', () => {
-    const resources = '<object id="1"><components><component objectid="2"/></components></object><object id="2"><components><component objectid="1"/></components></object>';
+    const resources =
+      '<object id="1"><components><component objectid="2"/></components></object><object id="2"><components><component objectid="1"/></components></object>';
     expectFailure(package3mf(modelXml(resources, '<item objectid="1"/>')), 'component_cycle', /contains itself through its components/);
   });
 

@@ -30,7 +30,9 @@ function threePositions(bytes: Uint8Array): Float32Array {
 
 /** Volume and area from three's positions using three's own vector maths. */
 function threeFigures(positions: Float32Array) {
-  const a = new Vector3(), b = new Vector3(), c = new Vector3();
+  const a = new Vector3(),
+    b = new Vector3(),
+    c = new Vector3();
   let volume = 0;
   let area = 0;
   for (let i = 0; i < positions.length; i += 9) {
@@ -55,10 +57,7 @@ const washerSolid = () =>
   booleans.subtract(primitives.cylinder({ radius: 6, height: 2, segments: 32 }), primitives.cylinder({ radius: 3.3, height: 2, segments: 32 }));
 
 const washerExtruded = () =>
-  extrusions.extrudeLinear(
-    { height: 2 },
-    booleans.subtract(primitives.circle({ radius: 6, segments: 32 }), primitives.circle({ radius: 3.3, segments: 32 })),
-  );
+  extrusions.extrudeLinear({ height: 2 }, booleans.subtract(primitives.circle({ radius: 6, segments: 32 }), primitives.circle({ radius: 3.3, segments: 32 })));
 
 const fixtures: Record<string, () => Geometry[]> = {
   cube: () => [primitives.cube({ size: 20 })],

@@ -73,7 +73,9 @@ describe('mesh soundness · winding', () => {
     // As wound, the flipped facet counts negative: a facet in the plane z = 20 adds z·area/3 = 20·200/3,
     // so the sum is 8000 − 2·(20·200/3) = 16000/3 ≈ 5,333 mm³, the audit's figure.
     expect(r.signedVolumeMm3).toBeCloseTo(16000 / 3, 6);
-    expect(r.warnings[0]).toMatch(/^1 facet is wound backwards .* \(8,000 mm³\) is that of the mesh with it flipped; summed as wound in the file it reads 5,333 mm³/);
+    expect(r.warnings[0]).toMatch(
+      /^1 facet is wound backwards .* \(8,000 mm³\) is that of the mesh with it flipped; summed as wound in the file it reads 5,333 mm³/,
+    );
     expect(r.insideOut).toBe(false);
   });
 
@@ -102,7 +104,9 @@ describe('mesh soundness · winding', () => {
     expect(r.signedVolumeMm3).toBeCloseTo(7000, 9); // 20³ − 10³ as wound
     expect(r.volumeMm3).toBeCloseTo(9000, 9);
     expect(r.volumeRepaired).toBe(true);
-    expect(r.warnings[0]).toMatch(/^1 of the 2 shells is wound inside out\. The volume shown \(9,000 mm³\) counts it as solid; summed as wound in the file it reads 7,000 mm³/);
+    expect(r.warnings[0]).toMatch(
+      /^1 of the 2 shells is wound inside out\. The volume shown \(9,000 mm³\) counts it as solid; summed as wound in the file it reads 7,000 mm³/,
+    );
   });
 
   it('mesh soundness · a cube with an inward-wound cube inside it · a cavity, 20³ − 10³ = 7,000 mm³, not inside out', () => {
@@ -122,13 +126,25 @@ describe('mesh soundness · winding', () => {
 
   it('mesh soundness · a sound cube · consistent, nothing repaired, nothing welded', () => {
     const r = analyseTriangles(new Float64Array(box(20, 20, 20)));
-    expect(r).toMatchObject({ windingConsistent: true, reversedFacets: 0, misorientedEdges: 0, insideOutShells: 0, volumeRepaired: false, weldedVertices: 0, vertices: 8, warnings: [] });
+    expect(r).toMatchObject({
+      windingConsistent: true,
+      reversedFacets: 0,
+      misorientedEdges: 0,
+      insideOutShells: 0,
+      volumeRepaired: false,
+      weldedVertices: 0,
+      vertices: 8,
+      warnings: [],
+    });
   });
 });
 
 describe('mesh soundness · welding', () => {
   // Polygonal annulus: N/2·sin(2π/N)·(R² − r²)·h (analytic formula for a regular N-gon ring).
-  const R = 12, r = 6.5, h = 3, N = 48;
+  const R = 12,
+    r = 6.5,
+    h = 3,
+    N = 48;
   const annulus = (N / 2) * Math.sin((2 * Math.PI) / N) * (R * R - r * r) * h;
 
   it('mesh soundness · washer whose ring closes at y = −1.5e-15 · watertight after welding, 4 vertices merged', () => {

@@ -96,7 +96,11 @@ describe('malformed STL uploads', () => {
     const lines = asciiCube().split('\n');
     expect(lines[4]).toMatch(/^vertex /);
     lines[4] = lines[4].replace('vertex', 'vertx');
-    expectFailure(encode(lines.join('\n')), 'ascii_syntax', /^ASCII STL line 5: expected "vertex x y z" but found "vertx"\. Fix that line or export the file again\.$/);
+    expectFailure(
+      encode(lines.join('\n')),
+      'ascii_syntax',
+      /^ASCII STL line 5: expected "vertex x y z" but found "vertx"\. Fix that line or export the file again\.$/,
+    );
   });
 
   it('malformed STL · an ASCII STL with a word where a number belongs · the line named', () => {

@@ -32,7 +32,7 @@ describe('password policy · easy to guess (NIST SP 800-63B §5.1.1.2)', () => {
     expect(unpredictableCharacters('gaffer')).toBe(4); // g, a, f (f→f and f→e follow on), r
   });
 
-  it('password policy · context-specific words · the service name, the account\'s address and its name part are refused', () => {
+  it("password policy · context-specific words · the service name, the account's address and its name part are refused", () => {
     // §5.1.1.2 lists "Context-specific words, such as the name of the service, the username, and derivatives thereof"
     expect(passwordProblem('rigshelf2026')).toMatch(/name of the shelf/);
     expect(passwordProblem('nia.loader@crew.test', 'nia.loader@crew.test')).toMatch(/e-mail address/);
@@ -52,7 +52,7 @@ describe('password policy · easy to guess (NIST SP 800-63B §5.1.1.2)', () => {
     expect(passwordCore('!!Sunshine2024')).toBe('sunshine');
   });
 
-  it('password policy · register schema · refuses the account\'s own address on the password field (shared with the form)', () => {
+  it("password policy · register schema · refuses the account's own address on the password field (shared with the form)", () => {
     const result = registerSchema.safeParse({ email: ' Nia.Loader@Crew.test', password: 'nia.loader@crew.test', displayName: 'Nia' });
     expect(result.success).toBe(false);
     expect(result.error!.issues.find((i) => i.path[0] === 'password')?.message).toMatch(/e-mail address/);

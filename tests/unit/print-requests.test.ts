@@ -64,9 +64,7 @@ describe('print request state machine · every state, action and role', () => {
 describe('paying back · which states owe, pay and refund', () => {
   it('paying back · price frozen (accepted and later) and not paid · can pay', () => {
     const payable = PRINT_REQUEST_STATES.flatMap((s) => PAYMENT_STATES.filter((p) => canPay(s, p)).map((p) => `${s}:${p}`));
-    expect(payable.sort()).toEqual(
-      ['accepted', 'fit_tested', 'printed', 'handed_over'].flatMap((s) => [`${s}:pending`, `${s}:unpaid`]).sort(),
-    );
+    expect(payable.sort()).toEqual(['accepted', 'fit_tested', 'printed', 'handed_over'].flatMap((s) => [`${s}:pending`, `${s}:unpaid`]).sort());
   });
 
   it('paying back · cancelled or declined after paying · refund due; never otherwise', () => {

@@ -90,11 +90,7 @@ describe('recipeSchema', () => {
     });
 
     it('layer height against nozzle · other field errors too · reported alongside them', () => {
-      expect(Object.keys(errorsFor({ layerMm: 0.36, walls: 0, material: 'wood' })).sort()).toEqual([
-        'layerMm',
-        'material',
-        'walls',
-      ]);
+      expect(Object.keys(errorsFor({ layerMm: 0.36, walls: 0, material: 'wood' })).sort()).toEqual(['layerMm', 'material', 'walls']);
     });
 
     it('layer height against nozzle · an invalid nozzle · not reported', () => {
@@ -111,9 +107,7 @@ describe('recipeSchema', () => {
 
   it('recipeSchema · notes · limited', () => {
     expect(errorsFor({ orientationNote: 'x'.repeat(500) })).toEqual({});
-    expect(errorsFor({ orientationNote: 'x'.repeat(501) }).orientationNote).toBe(
-      'Keep the orientation note to 500 characters or fewer.',
-    );
+    expect(errorsFor({ orientationNote: 'x'.repeat(501) }).orientationNote).toBe('Keep the orientation note to 500 characters or fewer.');
     expect(errorsFor({ resultNotes: 'x'.repeat(2000) })).toEqual({});
     expect(errorsFor({ resultNotes: 'x'.repeat(2001) }).resultNotes).toBe('Keep the result notes to 2000 characters or fewer.');
   });

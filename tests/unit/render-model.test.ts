@@ -56,7 +56,7 @@ describe('model picture · pixels', () => {
     // front (−Y) face below and left of it, the right (+X) face below and right
     const { toViewer } = viewBasis();
     expect(toViewer.z).toBeGreaterThan(0);
-    const cx = Math.round(0.03 * 400 + 0.68 * 400 / 2);
+    const cx = Math.round(0.03 * 400 + (0.68 * 400) / 2);
     const top = pixel(picture, cx, 100);
     const front = pixel(picture, cx - 40, 190);
     const side = pixel(picture, cx + 40, 190);

@@ -9,7 +9,9 @@ describe('safety cautions · what a flagged part shows', () => {
   });
 
   it('safety cautions · a load-bearing part · asks for a safety cable, names the tested load, defers to the rigging lead (common practice)', () => {
-    const texts = safetyCautions({ ...none, carriesLoad: true }, 0.8).map((c) => c.text).join(' ');
+    const texts = safetyCautions({ ...none, carriesLoad: true }, 0.8)
+      .map((c) => c.text)
+      .join(' ');
     expect(texts).toMatch(/tested load of 0.8 kg/);
     expect(texts).toMatch(/safety cable/);
     expect(texts).toMatch(/key grip, the rigging lead and local codes/);

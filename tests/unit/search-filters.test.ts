@@ -1,5 +1,13 @@
 import { describe, expect, it } from 'vitest';
-import { countFacets, dimensionCloseness, fitsWithin, keyDimensionDistance, matchesFilters, matchesKeyDimension, type FilterableDoc } from '@shared/search/filters';
+import {
+  countFacets,
+  dimensionCloseness,
+  fitsWithin,
+  keyDimensionDistance,
+  matchesFilters,
+  matchesKeyDimension,
+  type FilterableDoc,
+} from '@shared/search/filters';
 import { inchesToMm } from '@shared/units';
 
 type Triple = [number, number, number];
@@ -102,7 +110,9 @@ describe('matchesKeyDimension · tolerance', () => {
     // plate width 4 in ± 0.05 in = 101.6 ± 1.27 mm (1 in = 25.4 mm exactly, NIST SP 811 Appendix B)
     const plate = [{ name: 'plate width', valueMm: 102.87 }];
     expect(matchesKeyDimension(plate, { name: 'plate width', valueMm: inchesToMm(4), tolMm: inchesToMm(0.05) })).toBe(true);
-    expect(matchesKeyDimension([{ name: 'plate width', valueMm: 102.871 }], { name: 'plate width', valueMm: inchesToMm(4), tolMm: inchesToMm(0.05) })).toBe(false);
+    expect(matchesKeyDimension([{ name: 'plate width', valueMm: 102.871 }], { name: 'plate width', valueMm: inchesToMm(4), tolMm: inchesToMm(0.05) })).toBe(
+      false,
+    );
   });
 });
 

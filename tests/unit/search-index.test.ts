@@ -120,9 +120,12 @@ describe('search index · file', () => {
 
 describe('search index · limits', () => {
   // The probe's queries: 12 letters at distance 7 held the event loop for half a minute before the cap.
-  it.each(['abcdefghijkl~7', 'abcdefghijkl~6', 'abcdefghijklmnopqrstuvwxyzabcdefghij~2', 'plate~9 battery~9 riser~9'])('search index limits · %j · answered within its limits', (q) => {
-    expect(() => ids({ q })).not.toThrow();
-  });
+  it.each(['abcdefghijkl~7', 'abcdefghijkl~6', 'abcdefghijklmnopqrstuvwxyzabcdefghij~2', 'plate~9 battery~9 riser~9'])(
+    'search index limits · %j · answered within its limits',
+    (q) => {
+      expect(() => ids({ q })).not.toThrow();
+    },
+  );
 
   it('search index limits · an edit distance above 2 · read as 2', () => {
     expect(ids({ q: 'title:plaet~7' })).toEqual(ids({ q: 'title:plaet~2' }));
@@ -171,7 +174,9 @@ describe('search index · plain-word scorer', () => {
     const ours = createSearcher({ index, documents: docs });
     for (const q of ['battery', 'battery holder', 'pocket light spare']) {
       const terms = q.split(' ');
-      const reference = new Map(index.query((query) => terms.forEach((t) => query.term(t, { presence: lunr.Query.presence.OPTIONAL }))).map((r) => [Number(r.ref), r.score]));
+      const reference = new Map(
+        index.query((query) => terms.forEach((t) => query.term(t, { presence: lunr.Query.presence.OPTIONAL }))).map((r) => [Number(r.ref), r.score]),
+      );
       const got = ours.search(searchQuerySchema.parse({ q: `${q} ` }));
       expect(got.results.length).toBeGreaterThan(0);
       for (const r of got.results) if (r.missing.length === 0 && reference.has(r.id)) expect(r.score).toBeCloseTo(reference.get(r.id)!, 3);

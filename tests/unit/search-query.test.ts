@@ -107,7 +107,17 @@ describe('search query schema', () => {
   });
 
   it('search query schema · bad values · one message per field', () => {
-    const r = searchQuerySchema.safeParse({ fit: '120x80', dim: 'bore', mount: 'bayonet', category: 'hats', material: 'wood', page: '0', pageSize: '500', sort: 'best', extra: '1' });
+    const r = searchQuerySchema.safeParse({
+      fit: '120x80',
+      dim: 'bore',
+      mount: 'bayonet',
+      category: 'hats',
+      material: 'wood',
+      page: '0',
+      pageSize: '500',
+      sort: 'best',
+      extra: '1',
+    });
     expect(r.success).toBe(false);
     const fields = fieldErrors(r.error!);
     expect(fields.fit).toMatch(/three lengths/);
@@ -138,9 +148,17 @@ describe('readQueryText', () => {
       ],
     });
     expect(readQueryText('quarter inch riser')).toMatchObject({
-      groups: [{ kind: 'mount', mount: 'screw-1-4-20' }, { kind: 'phrase', text: 'riser', alsoWord: true }],
+      groups: [
+        { kind: 'mount', mount: 'screw-1-4-20' },
+        { kind: 'phrase', text: 'riser', alsoWord: true },
+      ],
     });
-    expect(readQueryText('clamp 1/4"')).toMatchObject({ groups: [{ kind: 'word', text: 'clamp', last: false }, { kind: 'mount', text: '1/4in' }] });
+    expect(readQueryText('clamp 1/4"')).toMatchObject({
+      groups: [
+        { kind: 'word', text: 'clamp', last: false },
+        { kind: 'mount', text: '1/4in' },
+      ],
+    });
   });
 
   it('readQueryText · a number glued to its unit or apart · one word', () => {
@@ -155,7 +173,8 @@ describe('readQueryText', () => {
   });
 
   it('readQueryText · hyphens, spaces and plurals of trade phrases · read alike', () => {
-    for (const q of ['v-style', 'V style', 'vstyle', 'V-STYLE']) expect(readQueryText(q)).toMatchObject({ groups: [{ kind: 'mount', mount: 'battery-v-style' }] });
+    for (const q of ['v-style', 'V style', 'vstyle', 'V-STYLE'])
+      expect(readQueryText(q)).toMatchObject({ groups: [{ kind: 'mount', mount: 'battery-v-style' }] });
     for (const q of ['cold shoe', 'cold-shoe', 'coldshoe', 'cold shoes', 'accessory shoe']) {
       expect(readQueryText(q)).toMatchObject({ groups: [{ tokens: expect.arrayContaining([synonymToken('accessory-shoe')]) }] });
     }

@@ -13,19 +13,28 @@ function prism(outline: XY[], z0: number, z1: number): number[] {
   const out: number[] = [];
   const n = outline.length;
   for (let i = 0; i < n; i++) {
-    const [ax, ay] = outline[i], [bx, by] = outline[(i + 1) % n];
+    const [ax, ay] = outline[i],
+      [bx, by] = outline[(i + 1) % n];
     out.push(ax, ay, z0, bx, by, z0, bx, by, z1, ax, ay, z0, bx, by, z1, ax, ay, z1);
   }
   for (let i = 1; i < n - 1; i++) {
-    const [ax, ay] = outline[0], [bx, by] = outline[i], [cx, cy] = outline[i + 1];
+    const [ax, ay] = outline[0],
+      [bx, by] = outline[i],
+      [cx, cy] = outline[i + 1];
     out.push(ax, ay, z1, bx, by, z1, cx, cy, z1); // top, facing +z
     out.push(ax, ay, z0, cx, cy, z0, bx, by, z0); // bottom, facing −z
   }
   return out;
 }
 
-const rect = (x0: number, y0: number, x1: number, y1: number): XY[] => [[x0, y0], [x1, y0], [x1, y1], [x0, y1]];
-const ngon = (n: number, r: number): XY[] => Array.from({ length: n }, (_, i) => [r * Math.cos((2 * Math.PI * i) / n), r * Math.sin((2 * Math.PI * i) / n)] as const);
+const rect = (x0: number, y0: number, x1: number, y1: number): XY[] => [
+  [x0, y0],
+  [x1, y0],
+  [x1, y1],
+  [x0, y1],
+];
+const ngon = (n: number, r: number): XY[] =>
+  Array.from({ length: n }, (_, i) => [r * Math.cos((2 * Math.PI * i) / n), r * Math.sin((2 * Math.PI * i) / n)] as const);
 
 /** Ring of N segments between radii R and r, height h, wound outward. */
 function ring(R: number, r: number, h: number, N: number): number[] {
@@ -47,7 +56,12 @@ const slicing = { layerMm: 0.2, walls: 2, lineWidthMm: 0.45, skinLayers: 4 };
 const d = 0.9;
 
 function volumes(positions: number[], settings = recipe) {
-  const profile = sliceProfile(new Float64Array(positions), { ...slicing, layerMm: settings.layerMm, walls: settings.walls, skinLayers: settings.topBottomLayers });
+  const profile = sliceProfile(new Float64Array(positions), {
+    ...slicing,
+    layerMm: settings.layerMm,
+    walls: settings.walls,
+    skinLayers: settings.topBottomLayers,
+  });
   return { profile, estimate: estimateFromSlices(profile, settings) };
 }
 
@@ -64,7 +78,8 @@ describe('slices · shapes whose layers are known exactly', () => {
   });
 
   it('slices · cylinder as a 64-gon, R 10, 10 tall · areas N/2·R²·sin(2π/N) and N·(a − d)²·tan(π/N), a = R·cos(π/N)', () => {
-    const N = 64, R = 10;
+    const N = 64,
+      R = 10;
     const area = (N / 2) * R * R * Math.sin((2 * Math.PI) / N);
     const a = R * Math.cos(Math.PI / N);
     const inset = N * (a - d) ** 2 * Math.tan(Math.PI / N);
@@ -75,8 +90,11 @@ describe('slices · shapes whose layers are known exactly', () => {
   });
 
   it('slices · washer R 12 / r 6.5, 3 tall, 48 segments · ring N/2·sin(2π/N)·(R² − r²), inset N·tan(π/N)·((a_R − d)² − (a_r + d)²)', () => {
-    const N = 48, R = 12, r = 6.5;
-    const t = Math.tan(Math.PI / N), c = Math.cos(Math.PI / N);
+    const N = 48,
+      R = 12,
+      r = 6.5;
+    const t = Math.tan(Math.PI / N),
+      c = Math.cos(Math.PI / N);
     const area = (N / 2) * Math.sin((2 * Math.PI) / N) * (R * R - r * r);
     const inset = N * t * ((R * c - d) ** 2 - (r * c + d) ** 2);
     const { estimate } = volumes(ring(R, r, 3, N));
@@ -133,7 +151,11 @@ describe('slices · sanity', () => {
   it.each(Object.keys(shapes))('%s · more walls, infill or top/bottom layers never weigh less; faster never slower', (name) => {
     const mesh = shapes[name as keyof typeof shapes];
     const mass = (s: Partial<PrintSettings>) => volumes(mesh, { ...recipe, ...s }).estimate.massG;
-    for (const [key, values] of [['walls', [1, 2, 3, 4]], ['infillPct', [0, 10, 20, 50, 100]], ['topBottomLayers', [0, 2, 4, 6]]] as const) {
+    for (const [key, values] of [
+      ['walls', [1, 2, 3, 4]],
+      ['infillPct', [0, 10, 20, 50, 100]],
+      ['topBottomLayers', [0, 2, 4, 6]],
+    ] as const) {
       const masses = values.map((v) => mass({ [key]: v }));
       masses.slice(1).forEach((m, i) => expect(m, `${key}`).toBeGreaterThanOrEqual(masses[i] - 1e-9));
     }

@@ -3,12 +3,30 @@ import { buildStatement, nonCommercialCaution } from '@shared/statement';
 import { loadConfig } from '../../server/config';
 
 const terms = { pricesPerKg: { PLA: 19.99, PETG: 24.5 }, pricePerKwh: 0.2817, machineHourRate: null };
-const item = (title: string, grams: number, minutes: number, licence = 'CC-BY-4.0') => ({ title, quantity: 1, material: 'PLA', grams, minutes, watts: 120, licence, author: 'Ines Varga' });
+const item = (title: string, grams: number, minutes: number, licence = 'CC-BY-4.0') => ({
+  title,
+  quantity: 1,
+  material: 'PLA',
+  grams,
+  minutes,
+  watts: 120,
+  licence,
+  author: 'Ines Varga',
+});
 
 describe('statement · totals to the cent', () => {
   it('statement · 40 lines with fractions of a cent · subtotal is the sum of the lines, total = subtotal + tax', () => {
     const items = Array.from({ length: 40 }, (_, i) => item(`Part ${i}`, 3.33 + i * 1.17, 17 + i * 7));
-    const s = buildStatement({ currency: 'EUR', taxRatePct: 7.7, terms, items, fees: [{ label: 'Courier', amount: 7.35 }, { label: 'Handling', amount: 0.1 }] });
+    const s = buildStatement({
+      currency: 'EUR',
+      taxRatePct: 7.7,
+      terms,
+      items,
+      fees: [
+        { label: 'Courier', amount: 7.35 },
+        { label: 'Handling', amount: 0.1 },
+      ],
+    });
     expect(s.lines).toHaveLength(42);
     expect(s.subtotalMinor).toBe(s.lines.reduce((sum, l) => sum + l.amountMinor, 0));
     for (const l of s.lines.filter((x) => x.kind === 'item')) expect(l.amountMinor).toBe(l.filamentMinor + l.energyMinor + l.machineMinor);
@@ -45,7 +63,8 @@ describe('statement · non-commercial licences', () => {
       expect(c).toContain(id.replace('CC-BY-', 'CC BY-').replace(/-4\.0$/, ' 4.0'));
       expect(c).toMatch(/Ask the author, Ines Varga/);
     }
-    for (const id of ['CC-BY-4.0', 'CC-BY-SA-4.0', 'CC0-1.0', 'MIT', 'GPL-3.0-or-later', 'CERN-OHL-S-2.0']) expect(nonCommercialCaution('Hood clip', id, 'x')).toBeNull();
+    for (const id of ['CC-BY-4.0', 'CC-BY-SA-4.0', 'CC0-1.0', 'MIT', 'GPL-3.0-or-later', 'CERN-OHL-S-2.0'])
+      expect(nonCommercialCaution('Hood clip', id, 'x')).toBeNull();
   });
 });
 

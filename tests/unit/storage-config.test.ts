@@ -14,7 +14,10 @@ describe('config · storage', () => {
   it('STORAGE=s3 · region and path style default for a local fake; the sweep waits 10 minutes', () => {
     const c = loadConfig({ ...base, ...s3, S3_ENDPOINT: 'http://127.0.0.1:3425' });
     expect(c).toMatchObject({ STORAGE: 's3', S3_REGION: 'us-east-1', S3_FORCE_PATH_STYLE: true, STORAGE_SWEEP_MIN_AGE_S: 600 });
-    expect(loadConfig({ ...base, ...s3, S3_FORCE_PATH_STYLE: '0', STORAGE_SWEEP_MIN_AGE_S: '0' })).toMatchObject({ S3_FORCE_PATH_STYLE: false, STORAGE_SWEEP_MIN_AGE_S: 0 });
+    expect(loadConfig({ ...base, ...s3, S3_FORCE_PATH_STYLE: '0', STORAGE_SWEEP_MIN_AGE_S: '0' })).toMatchObject({
+      S3_FORCE_PATH_STYLE: false,
+      STORAGE_SWEEP_MIN_AGE_S: 0,
+    });
   });
 
   it('STORAGE=s3 without bucket or keys · one line per missing setting, each naming it', () => {

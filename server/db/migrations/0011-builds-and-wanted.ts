@@ -4,7 +4,6 @@ import { DataTypes } from 'sequelize';
 import type { MigrationFn } from '../migrator';
 import { id, ref, timestamps } from '../migration-columns';
 
-
 export const up: MigrationFn = async ({ context: { queryInterface: q } }) => {
   await q.createTable('builds', {
     id,

@@ -5,7 +5,6 @@ import { DataTypes } from 'sequelize';
 import type { MigrationFn } from '../migrator';
 import { id, ref } from '../migration-columns';
 
-
 export const up: MigrationFn = async ({ context: { queryInterface: q } }) => {
   await q.createTable('notice_preferences', {
     user_id: { ...ref('users'), primaryKey: true },

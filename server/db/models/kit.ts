@@ -1,13 +1,5 @@
 // Shoot kits: what a crew plans to print for a shoot, and who else may see or change the plan.
-import {
-  DataTypes,
-  Model,
-  type CreationOptional,
-  type InferAttributes,
-  type InferCreationAttributes,
-  type NonAttribute,
-  type Sequelize,
-} from 'sequelize';
+import { DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes, type NonAttribute, type Sequelize } from 'sequelize';
 import type { HeatExposure, MaterialId } from '@shared/materials';
 import { KIT_ACCESS, type KitShareAccess } from '@shared/schemas/planning';
 import { decimalColumn, jsonColumn } from './columns';

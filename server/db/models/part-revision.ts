@@ -1,12 +1,4 @@
-import {
-  DataTypes,
-  Model,
-  type CreationOptional,
-  type InferAttributes,
-  type InferCreationAttributes,
-  type NonAttribute,
-  type Sequelize,
-} from 'sequelize';
+import { DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes, type NonAttribute, type Sequelize } from 'sequelize';
 import type { KeyDimension, MountRef } from '@shared/schemas/part';
 import { REVISION_STATUSES, type RevisionStatus } from '@shared/types';
 import type { CameraBody } from './camera-body';

@@ -1,13 +1,5 @@
 // Print requests between crew members, each step on record, and the payments service's events.
-import {
-  DataTypes,
-  Model,
-  type CreationOptional,
-  type InferAttributes,
-  type InferCreationAttributes,
-  type NonAttribute,
-  type Sequelize,
-} from 'sequelize';
+import { DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes, type NonAttribute, type Sequelize } from 'sequelize';
 import { PAYMENT_STATES, type PaymentState, PRINT_REQUEST_STATES, type PrintRequestState } from '@shared/print-requests';
 import type { PrintPrice } from '@shared/print-price';
 import { decimalColumn, jsonColumn } from './columns';

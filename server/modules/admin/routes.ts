@@ -20,28 +20,40 @@ export function adminRoutes({ onBodiesChanged }: AdminDeps = {}) {
     res.json({ users: users.map((u) => u.toPublic()) });
   });
 
-  router.patch('/users/:id', handler({ params: idParamSchema, body: adminUserPatchSchema }, async ({ params, body }, req, res) => {
-    const user = await adminService.updateUser(currentUser(req)!, params.id, body);
-    res.json({ user: user.toPublic() });
-  }));
+  router.patch(
+    '/users/:id',
+    handler({ params: idParamSchema, body: adminUserPatchSchema }, async ({ params, body }, req, res) => {
+      const user = await adminService.updateUser(currentUser(req)!, params.id, body);
+      res.json({ user: user.toPublic() });
+    }),
+  );
 
-  router.post('/bodies', handler({ body: cameraBodySchema }, async ({ body: input }, _req, res) => {
-    const body = await cameraBodies.create(input);
-    onBodiesChanged?.();
-    res.status(201).json({ body: body.toInfo() });
-  }));
+  router.post(
+    '/bodies',
+    handler({ body: cameraBodySchema }, async ({ body: input }, _req, res) => {
+      const body = await cameraBodies.create(input);
+      onBodiesChanged?.();
+      res.status(201).json({ body: body.toInfo() });
+    }),
+  );
 
-  router.patch('/bodies/:slug', handler({ params: slugParamSchema, body: cameraBodyPatchSchema }, async ({ params, body: patch }, _req, res) => {
-    const body = await cameraBodies.update(params.slug, patch);
-    onBodiesChanged?.();
-    res.json({ body: body.toInfo() });
-  }));
+  router.patch(
+    '/bodies/:slug',
+    handler({ params: slugParamSchema, body: cameraBodyPatchSchema }, async ({ params, body: patch }, _req, res) => {
+      const body = await cameraBodies.update(params.slug, patch);
+      onBodiesChanged?.();
+      res.json({ body: body.toInfo() });
+    }),
+  );
 
-  router.delete('/bodies/:slug', handler({ params: slugParamSchema }, async ({ params }, _req, res) => {
-    await cameraBodies.remove(params.slug);
-    onBodiesChanged?.();
-    res.status(204).end();
-  }));
+  router.delete(
+    '/bodies/:slug',
+    handler({ params: slugParamSchema }, async ({ params }, _req, res) => {
+      await cameraBodies.remove(params.slug);
+      onBodiesChanged?.();
+      res.status(204).end();
+    }),
+  );
 
   return router;
 }

@@ -2,13 +2,7 @@ import { Router, type NextFunction, type Request, type RequestHandler, type Resp
 import { rateLimit, type Store } from 'express-rate-limit';
 import { slowDown } from 'express-slow-down';
 import type { createPassport } from './passport';
-import {
-  loginSchema,
-  passwordResetRequestSchema,
-  passwordResetSchema,
-  registerSchema,
-  verifyEmailSchema,
-} from '@shared/schemas/auth';
+import { loginSchema, passwordResetRequestSchema, passwordResetSchema, registerSchema, verifyEmailSchema } from '@shared/schemas/auth';
 import type { Sequelize } from 'sequelize';
 import type { Config } from '../../config';
 import type { User } from '../../db/models';
@@ -112,23 +106,35 @@ export function authRoutes({ config, auth, passport, csrfToken, tokens, sequeliz
       next();
     },
   });
-  const perAccount = limiter('login-account', config.LOGIN_LIMIT_PER_ACCOUNT, `Too many failed sign-ins for this account. Wait ${minutes} or reset your password.`, {
-    key: (_req, res) => `account:${emailOf(res)}`,
-    onlyFailures: true,
-  });
+  const perAccount = limiter(
+    'login-account',
+    config.LOGIN_LIMIT_PER_ACCOUNT,
+    `Too many failed sign-ins for this account. Wait ${minutes} or reset your password.`,
+    {
+      key: (_req, res) => `account:${emailOf(res)}`,
+      onlyFailures: true,
+    },
+  );
   /** Over the network limit: true when the account has failed sign-ins in this window (besides this attempt). */
   const accountUnderAttack = async (res: Response) => ((await perAccount.getKey(`account:${emailOf(res)}`))?.totalHits ?? 0) > 1;
 
   // mail-sending routes (registration, reset requests): per network address and per target address
-  const mailPerIp = (name: string, what: string) => limiter(name, config.MAIL_LIMIT_PER_IP, `Too many ${what} from this network. Wait ${minutes} and try again.`);
-  const perAddress = (prefix: string, message: string) => limiter(`${prefix}-address`, config.LOGIN_LIMIT_PER_ACCOUNT, message, { key: (_req, res) => `${prefix}:${emailOf(res)}` });
+  const mailPerIp = (name: string, what: string) =>
+    limiter(name, config.MAIL_LIMIT_PER_IP, `Too many ${what} from this network. Wait ${minutes} and try again.`);
+  const perAddress = (prefix: string, message: string) =>
+    limiter(`${prefix}-address`, config.LOGIN_LIMIT_PER_ACCOUNT, message, { key: (_req, res) => `${prefix}:${emailOf(res)}` });
   const registerPerIp = mailPerIp('register-ip', 'new accounts');
   const registerPerAddress = perAddress('register', `Too many sign-ups were tried with this address. Wait ${minutes}, then use the newest mail.`);
   const resetPerIp = mailPerIp('reset-ip', 'password-reset attempts');
   const resetPerAddress = perAddress('reset', `Too many reset links were asked for this address. Wait ${minutes}, then use the newest mail.`);
-  const resendPerAccount = limiter('resend', config.LOGIN_LIMIT_PER_ACCOUNT, `Too many confirmation mails were asked for. Wait ${minutes}, then use the newest mail.`, {
-    key: (req) => `resend:${currentUser(req)?.id ?? ''}`,
-  });
+  const resendPerAccount = limiter(
+    'resend',
+    config.LOGIN_LIMIT_PER_ACCOUNT,
+    `Too many confirmation mails were asked for. Wait ${minutes}, then use the newest mail.`,
+    {
+      key: (req) => `resend:${currentUser(req)?.id ?? ''}`,
+    },
+  );
 
   router.get('/csrf', (req, response) => {
     response.json({ csrfToken: csrfToken(req) });
@@ -160,10 +166,13 @@ export function authRoutes({ config, auth, passport, csrfToken, tokens, sequeliz
     })(req, response, next);
   });
 
-  router.post('/verify-email', handler({ body: verifyEmailSchema }, async ({ body }, _req, response) => {
-    const user = await tokens.verifyEmail(body.token);
-    response.json({ user: user.toPublic() });
-  }));
+  router.post(
+    '/verify-email',
+    handler({ body: verifyEmailSchema }, async ({ body }, _req, response) => {
+      const user = await tokens.verifyEmail(body.token);
+      response.json({ user: user.toPublic() });
+    }),
+  );
 
   router.post('/verify-email/resend', requireAuth, resendPerAccount, async (req, response) => {
     const user = currentUser(req)!;
@@ -180,11 +189,15 @@ export function authRoutes({ config, auth, passport, csrfToken, tokens, sequeliz
     response.status(202).json({ message: RESET_REQUESTED_MESSAGE });
   });
 
-  router.post('/password-reset', resetPerIp, handler({ body: passwordResetSchema }, async ({ body }, req, response) => {
-    const user = await tokens.resetPassword(body.token, body.password);
-    if (currentUser(req)?.id === user.id) await endSession(req, response);
-    response.json({ message: 'Your password is changed and you are signed out everywhere. Sign in with the new password.' });
-  }));
+  router.post(
+    '/password-reset',
+    resetPerIp,
+    handler({ body: passwordResetSchema }, async ({ body }, req, response) => {
+      const user = await tokens.resetPassword(body.token, body.password);
+      if (currentUser(req)?.id === user.id) await endSession(req, response);
+      response.json({ message: 'Your password is changed and you are signed out everywhere. Sign in with the new password.' });
+    }),
+  );
 
   router.get('/me', requireAuth, (req, response) => {
     response.json({ user: currentUser(req)!.toPublic() });

@@ -45,10 +45,7 @@ export function createAuthService(config: Config, tokens: Pick<TokenService, 'se
         await transact(db, async (transaction) => {
           const existing = await User.findOne({ where: { email: input.email }, transaction });
           if (existing) return tokens.sendAlreadyRegistered(existing, transaction);
-          const user = await User.create(
-            { email: input.email, displayName: input.displayName, passwordHash, crewRole: null },
-            { transaction },
-          );
+          const user = await User.create({ email: input.email, displayName: input.displayName, passwordHash, crewRole: null }, { transaction });
           await tokens.sendVerification(user, transaction);
         });
       } catch (err) {

@@ -52,10 +52,7 @@ export function newToken(): { token: string; hash: string } {
 /** Ends the unused reset links of an account (they read as expired from now on). */
 async function retireResetTokens(userId: number, transaction?: Transaction) {
   const now = new Date();
-  await AccountToken.update(
-    { expiresAt: now },
-    { where: { userId, purpose: 'password_reset', usedAt: null, expiresAt: { [Op.gt]: now } }, transaction },
-  );
+  await AccountToken.update({ expiresAt: now }, { where: { userId, purpose: 'password_reset', usedAt: null, expiresAt: { [Op.gt]: now } }, transaction });
 }
 
 async function saveToken(userId: number, purpose: TokenPurpose, made: { token: string; hash: string }, transaction?: Transaction) {

@@ -9,12 +9,20 @@ import { AppError } from '../../errors';
 /** The body a name stands for, or a 422 on `field` naming the bodies closest to what was typed. */
 export async function resolveBody(name: string | null, field = 'body', transaction?: Transaction): Promise<CameraBody | null> {
   if (!name) return null;
-  const bodies = await CameraBody.findAll({ order: [['maker', 'ASC'], ['model', 'ASC']], transaction });
+  const bodies = await CameraBody.findAll({
+    order: [
+      ['maker', 'ASC'],
+      ['model', 'ASC'],
+    ],
+    transaction,
+  });
   const found = resolveBodyName(name, bodies);
   if (found.ok) return bodies.find((b) => b.slug === found.slug)!;
   throw AppError.field(
     field,
-    found.closest.length ? `No camera body is called "${name}". Did you mean ${found.closest.join(', ')}?` : `No camera body is called "${name}"; an admin adds bodies to the list.`,
+    found.closest.length
+      ? `No camera body is called "${name}". Did you mean ${found.closest.join(', ')}?`
+      : `No camera body is called "${name}"; an admin adds bodies to the list.`,
     'Some fields need another look.',
   );
 }

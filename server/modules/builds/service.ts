@@ -26,7 +26,14 @@ const withBody = { include: [{ model: CameraBody, as: 'body' }] };
 
 export const buildsService = {
   async list(owner: User): Promise<BuildInfo[]> {
-    const rows = await Build.findAll({ where: { ownerId: owner.id }, ...withBody, order: [['updatedAt', 'DESC'], ['id', 'DESC']] });
+    const rows = await Build.findAll({
+      where: { ownerId: owner.id },
+      ...withBody,
+      order: [
+        ['updatedAt', 'DESC'],
+        ['id', 'DESC'],
+      ],
+    });
     return rows.map(presentBuild);
   },
 

@@ -3,14 +3,7 @@
 // told it does not exist (404).
 import { Op, type Sequelize, type Transaction } from 'sequelize';
 import type { CrewInfo, CrewInvitationInfo, CrewSummary, InvitationPreview, InvitationStatus } from '@shared/api/crews';
-import {
-  INVITATION_LIFETIME_DAYS,
-  MAX_CREW_MEMBERS,
-  type CrewInput,
-  type CrewInvitationInput,
-  type CrewPatch,
-  type CrewRole,
-} from '@shared/schemas/crews';
+import { INVITATION_LIFETIME_DAYS, MAX_CREW_MEMBERS, type CrewInput, type CrewInvitationInput, type CrewPatch, type CrewRole } from '@shared/schemas/crews';
 import { Crew, CrewInvitation, CrewMember, KitCrewShare, Part, User } from '../../db/models';
 import { transact } from '../../db/transaction';
 import { AppError } from '../../errors';
@@ -107,9 +100,7 @@ export function createCrewsService({ sequelize, mail, publicUrl }: CrewsDeps) {
       if (!mine.length) return [];
       const counts = await CrewMember.count({ where: { crewId: { [Op.in]: mine.map((m) => m.crewId) } }, group: ['crewId'] });
       const countOf = new Map((counts as unknown as { crewId: number; count: number }[]).map((c) => [c.crewId, Number(c.count)]));
-      return mine
-        .map((m) => summary(m.crew!, m.role, countOf.get(m.crewId) ?? 1))
-        .sort((a, b) => a.name.localeCompare(b.name) || a.id - b.id);
+      return mine.map((m) => summary(m.crew!, m.role, countOf.get(m.crewId) ?? 1)).sort((a, b) => a.name.localeCompare(b.name) || a.id - b.id);
     },
 
     async get(viewer: User, crewId: number): Promise<CrewInfo> {
@@ -117,14 +108,20 @@ export function createCrewsService({ sequelize, mail, publicUrl }: CrewsDeps) {
       const members = await CrewMember.findAll({
         where: { crewId },
         include: [{ model: User, as: 'user', attributes: ['id', 'displayName'] }],
-        order: [['createdAt', 'ASC'], ['id', 'ASC']],
+        order: [
+          ['createdAt', 'ASC'],
+          ['id', 'ASC'],
+        ],
       });
       const seesInvitations = role === 'lead' || isModerator(viewer);
       const invitations = seesInvitations
         ? await CrewInvitation.findAll({
             where: { crewId },
             include: [{ model: User, as: 'inviter', attributes: ['id', 'displayName'] }],
-            order: [['createdAt', 'DESC'], ['id', 'DESC']],
+            order: [
+              ['createdAt', 'DESC'],
+              ['id', 'DESC'],
+            ],
             limit: 100,
           })
         : [];
@@ -198,7 +195,17 @@ export function createCrewsService({ sequelize, mail, publicUrl }: CrewsDeps) {
         );
         const expiresAt = new Date(Date.now() + INVITATION_LIFETIME_DAYS * 86_400_000);
         const row = await CrewInvitation.create(
-          { crewId, email: input.email, role: input.role, tokenHash: made.hash, invitedBy: viewer.id, expiresAt, acceptedAt: null, acceptedBy: null, withdrawnAt: null },
+          {
+            crewId,
+            email: input.email,
+            role: input.role,
+            tokenHash: made.hash,
+            invitedBy: viewer.id,
+            expiresAt,
+            acceptedAt: null,
+            acceptedBy: null,
+            withdrawnAt: null,
+          },
           { transaction: t },
         );
         await mail.enqueue(
@@ -241,10 +248,18 @@ export function createCrewsService({ sequelize, mail, publicUrl }: CrewsDeps) {
         ...(transaction ? { lock: transaction.LOCK.UPDATE } : {}),
       });
       const bad = (code: string, message: string) => new AppError(400, code, message);
-      if (!inv) throw bad('invitation_invalid', 'This invitation link is not valid. Open the whole link from the newest mail, or ask the crew’s lead to invite you again.');
+      if (!inv)
+        throw bad(
+          'invitation_invalid',
+          'This invitation link is not valid. Open the whole link from the newest mail, or ask the crew’s lead to invite you again.',
+        );
       const status = invitationStatus(inv);
       if (status === 'accepted') throw bad('invitation_used', 'This invitation was already accepted. Open Crews to find the crew.');
-      if (status === 'withdrawn') throw bad('invitation_withdrawn', 'This invitation was withdrawn or replaced by a newer one. Use the newest mail, or ask the crew’s lead to invite you again.');
+      if (status === 'withdrawn')
+        throw bad(
+          'invitation_withdrawn',
+          'This invitation was withdrawn or replaced by a newer one. Use the newest mail, or ask the crew’s lead to invite you again.',
+        );
       if (status === 'expired') throw bad('invitation_expired', 'This invitation has expired. Ask the crew’s lead to invite you again.');
       return inv;
     },
@@ -265,7 +280,9 @@ export function createCrewsService({ sequelize, mail, publicUrl }: CrewsDeps) {
       const crewId = await transact(sequelize, async (t) => {
         const inv = await service.findInvitation(token, t);
         if (inv.email.toLowerCase() !== viewer.email.toLowerCase()) {
-          throw AppError.forbidden(`This invitation was sent to another e-mail address. Sign in with the account for ${inv.email}, or ask the crew’s lead to invite ${viewer.email}.`);
+          throw AppError.forbidden(
+            `This invitation was sent to another e-mail address. Sign in with the account for ${inv.email}, or ask the crew’s lead to invite ${viewer.email}.`,
+          );
         }
         const already = await membershipOf(viewer.id, inv.crewId, t);
         if (!already) await CrewMember.create({ crewId: inv.crewId, userId: viewer.id, role: inv.role }, { transaction: t });

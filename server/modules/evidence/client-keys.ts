@@ -9,7 +9,11 @@ export async function replayOf<T>(userId: number, clientKey: string, scope: stri
   const row = await ClientKey.findOne({ where: { userId, clientKey }, transaction });
   if (!row) return undefined;
   if (row.scope !== scope) {
-    throw new AppError(422, 'idempotency_key_reused', 'That Idempotency-Key was already used for another report or rating. Send a new key with each new entry.');
+    throw new AppError(
+      422,
+      'idempotency_key_reused',
+      'That Idempotency-Key was already used for another report or rating. Send a new key with each new entry.',
+    );
   }
   return JSON.parse(row.result) as T;
 }

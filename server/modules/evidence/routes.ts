@@ -37,15 +37,22 @@ export function partEvidenceRoutes(evidence: EvidenceService, storage: FileStora
   const router = Router();
   const params = partParam;
 
-  router.post('/:id/ratings', requireAuth, handler({ params, body: ratingSchema }, async ({ params, body }, req, res) => {
-    const result = await evidence.rate(currentUser(req)!, params.id, body, clientKeyOf(req));
-    if (result.replayed) res.setHeader('Idempotent-Replayed', 'true');
-    res.status(result.created ? 201 : 200).json(result.rating);
-  }));
+  router.post(
+    '/:id/ratings',
+    requireAuth,
+    handler({ params, body: ratingSchema }, async ({ params, body }, req, res) => {
+      const result = await evidence.rate(currentUser(req)!, params.id, body, clientKeyOf(req));
+      if (result.replayed) res.setHeader('Idempotent-Replayed', 'true');
+      res.status(result.created ? 201 : 200).json(result.rating);
+    }),
+  );
 
-  router.get('/:id/ratings', handler({ params }, async ({ params }, req, res) => {
-    res.json(await evidence.ratings(currentUser(req), params.id));
-  }));
+  router.get(
+    '/:id/ratings',
+    handler({ params }, async ({ params }, req, res) => {
+      res.json(await evidence.ratings(currentUser(req), params.id));
+    }),
+  );
 
   router.post(
     '/:id/reports',
@@ -62,21 +69,30 @@ export function partEvidenceRoutes(evidence: EvidenceService, storage: FileStora
     }),
   );
 
-  router.get('/:id/reports', handler({ params, query: reportFilterSchema }, async ({ params, query }, req, res) => {
-    res.json(await evidence.reports(currentUser(req), params.id, query));
-  }));
+  router.get(
+    '/:id/reports',
+    handler({ params, query: reportFilterSchema }, async ({ params, query }, req, res) => {
+      res.json(await evidence.reports(currentUser(req), params.id, query));
+    }),
+  );
 
-  router.get('/:id/reports/:reportId/photos/:photoId/:size', handler({ params: photoParams }, async ({ params: p }, req, res) => {
-    const key = await evidence.reportPhotoKey(currentUser(req), p.id, p.reportId, p.photoId, p.size);
-    res.setHeader('Cache-Control', 'private, max-age=3600');
-    res.type('image/jpeg');
-    await storage.send(req, res, key);
-  }));
+  router.get(
+    '/:id/reports/:reportId/photos/:photoId/:size',
+    handler({ params: photoParams }, async ({ params: p }, req, res) => {
+      const key = await evidence.reportPhotoKey(currentUser(req), p.id, p.reportId, p.photoId, p.size);
+      res.setHeader('Cache-Control', 'private, max-age=3600');
+      res.type('image/jpeg');
+      await storage.send(req, res, key);
+    }),
+  );
 
-  router.get('/:id/proven', handler({ params }, async ({ params }, req, res) => {
-    const e = await evidence.proven(currentUser(req), params.id);
-    res.json(e);
-  }));
+  router.get(
+    '/:id/proven',
+    handler({ params }, async ({ params }, req, res) => {
+      const e = await evidence.proven(currentUser(req), params.id);
+      res.json(e);
+    }),
+  );
 
   return router;
 }
@@ -84,9 +100,13 @@ export function partEvidenceRoutes(evidence: EvidenceService, storage: FileStora
 /** /api/ratings/:id/flag and /api/reports/:id/flag */
 export function flagRoutes(evidence: EvidenceService, type: 'rating' | 'report') {
   const router = Router();
-  router.post('/:id/flag', requireAuth, handler({ params: idParamSchema, body: flagSchema }, async ({ params, body }, req, res) => {
-    res.status(201).json(await evidence.flag(currentUser(req)!, type, params.id, body.reason));
-  }));
+  router.post(
+    '/:id/flag',
+    requireAuth,
+    handler({ params: idParamSchema, body: flagSchema }, async ({ params, body }, req, res) => {
+      res.status(201).json(await evidence.flag(currentUser(req)!, type, params.id, body.reason));
+    }),
+  );
   return router;
 }
 
@@ -97,9 +117,13 @@ export function evidenceModerationRoutes(evidence: EvidenceService) {
     res.json({ items: await evidence.flagged(currentUser(req)!) });
   });
   for (const type of ['rating', 'report'] as const) {
-    router.post(`/${type}s/:id/hide`, requireRole('moderator'), handler({ params: idParamSchema, body: noteRequiredSchema }, async ({ params, body }, req, res) => {
-      res.json(await evidence.hide(currentUser(req)!, type, params.id, body.note));
-    }));
+    router.post(
+      `/${type}s/:id/hide`,
+      requireRole('moderator'),
+      handler({ params: idParamSchema, body: noteRequiredSchema }, async ({ params, body }, req, res) => {
+        res.json(await evidence.hide(currentUser(req)!, type, params.id, body.note));
+      }),
+    );
   }
   return router;
 }
@@ -107,8 +131,11 @@ export function evidenceModerationRoutes(evidence: EvidenceService) {
 /** /api/users/:id/profile */
 export function profileRoutes(evidence: EvidenceService) {
   const router = Router();
-  router.get('/:id/profile', handler({ params: idParamSchema }, async ({ params }, req, res) => {
-    res.json(await evidence.profile(currentUser(req), params.id));
-  }));
+  router.get(
+    '/:id/profile',
+    handler({ params: idParamSchema }, async ({ params }, req, res) => {
+      res.json(await evidence.profile(currentUser(req), params.id));
+    }),
+  );
   return router;
 }

@@ -66,7 +66,9 @@ function presentReport(r: SetReport, partId: number) {
 
 export function createEvidenceService({ sequelize, storage, photos, onChanged, alerts, recalls }: EvidenceDeps) {
   async function catalogueMean(): Promise<number | null> {
-    const row = (await Rating.findOne({ where: visible, attributes: [[sequelize.fn('AVG', sequelize.col('stars')), 'mean']], raw: true })) as unknown as { mean: string | null } | null;
+    const row = (await Rating.findOne({ where: visible, attributes: [[sequelize.fn('AVG', sequelize.col('stars')), 'mean']], raw: true })) as unknown as {
+      mean: string | null;
+    } | null;
     return row?.mean == null ? null : Number(row.mean);
   }
 
@@ -139,7 +141,13 @@ export function createEvidenceService({ sequelize, storage, photos, onChanged, a
       const evidence = (await evidenceFor([part.id])).get(part.id)!;
       const mine = viewer ? rows.find((r) => r.userId === viewer.id) : undefined;
       return {
-        items: rows.map((r) => ({ id: r.id, stars: r.stars, comment: r.comment, author: { id: r.userId, displayName: r.user?.displayName ?? '' }, updatedAt: r.updatedAt.toISOString() })),
+        items: rows.map((r) => ({
+          id: r.id,
+          stars: r.stars,
+          comment: r.comment,
+          author: { id: r.userId, displayName: r.user?.displayName ?? '' },
+          updatedAt: r.updatedAt.toISOString(),
+        })),
         summary: evidence.rating,
         mine: mine ? { id: mine.id, stars: mine.stars, comment: mine.comment } : null,
       };
@@ -189,7 +197,15 @@ export function createEvidenceService({ sequelize, storage, photos, onChanged, a
           for (const f of files) {
             rows.push(
               await ReportPhoto.create(
-                { reportId: report.id, storedName: randomStoredName(''), originalName: f.originalName, sizeBytes: f.size, sha256: f.sha256, width: null, height: null },
+                {
+                  reportId: report.id,
+                  storedName: randomStoredName(''),
+                  originalName: f.originalName,
+                  sizeBytes: f.size,
+                  sha256: f.sha256,
+                  width: null,
+                  height: null,
+                },
                 { transaction: t },
               ),
             );
@@ -217,7 +233,11 @@ export function createEvidenceService({ sequelize, storage, photos, onChanged, a
               actor.id,
             );
           }
-          const undo = await placeFiles(storage, rows.map((row, i) => ({ from: files[i].path, key: keysOf({ kind: 'photo', storedName: row.storedName }).original })), t);
+          const undo = await placeFiles(
+            storage,
+            rows.map((row, i) => ({ from: files[i].path, key: keysOf({ kind: 'photo', storedName: row.storedName }).original })),
+            t,
+          );
           attempt.onRollback(undo);
           return { id: report.id, rows, replayed: false };
         });
@@ -236,8 +256,14 @@ export function createEvidenceService({ sequelize, storage, photos, onChanged, a
       const part = await findVisiblePart(viewer, partId);
       const rows = await SetReport.findAll({
         where: { partId: part.id, ...visible, ...(filter.material && { material: filter.material }), ...(filter.outcome && { outcome: filter.outcome }) },
-        include: [{ model: User, as: 'user' }, { model: ReportPhoto, as: 'photos' }],
-        order: [['createdAt', 'DESC'], ['id', 'DESC']],
+        include: [
+          { model: User, as: 'user' },
+          { model: ReportPhoto, as: 'photos' },
+        ],
+        order: [
+          ['createdAt', 'DESC'],
+          ['id', 'DESC'],
+        ],
       });
       const items = rows.filter((r) => !filter.condition || r.conditions.includes(filter.condition as SetCondition));
       return { items: items.map((r) => presentReport(r, part.id)) };
@@ -263,7 +289,10 @@ export function createEvidenceService({ sequelize, storage, photos, onChanged, a
     async rankFigures(partIds: number[]) {
       const evidence = partIds.length ? await evidenceFor(partIds) : new Map<number, Evidence>();
       return new Map(
-        [...evidence].map(([id, e]) => [id, { proven: e.proven, reports: e.reports, heldUp: e.heldUp, mean: e.rating.mean, count: e.rating.count, adjusted: e.rating.adjusted }]),
+        [...evidence].map(([id, e]) => [
+          id,
+          { proven: e.proven, reports: e.reports, heldUp: e.heldUp, mean: e.rating.mean, count: e.rating.count, adjusted: e.rating.adjusted },
+        ]),
       );
     },
 
@@ -292,7 +321,14 @@ export function createEvidenceService({ sequelize, storage, photos, onChanged, a
         await target.update({ hiddenAt: new Date(), hiddenBy: actor.id, hiddenReason: note }, { transaction: t });
         await ContentFlag.update({ resolvedAt: new Date() }, { where: { targetType: type, targetId: id }, transaction: t });
         await AuditEvent.create(
-          { partId: target.partId, revisionId: null, actorId: actor.id, action: type === 'rating' ? 'hide_rating' : 'hide_report', note, details: { [`${type}Id`]: id, author: target.userId } },
+          {
+            partId: target.partId,
+            revisionId: null,
+            actorId: actor.id,
+            action: type === 'rating' ? 'hide_rating' : 'hide_report',
+            note,
+            details: { [`${type}Id`]: id, author: target.userId },
+          },
           { transaction: t },
         );
         return { id, hidden: true, partId: target.partId };
@@ -326,13 +362,26 @@ export function createEvidenceService({ sequelize, storage, photos, onChanged, a
     async profile(viewer: User | undefined, userId: number) {
       const user = await User.findByPk(userId);
       if (!user || (user.status !== 'active' && !isModerator(viewer))) throw AppError.notFound('There is no such crew member.');
-      const parts = await Part.findAll({ where: { [Op.and]: [{ authorId: userId, status: 'published' }, crewWhere(await audienceOf(viewer))] }, include: [{ model: PartRevision, as: 'publishedRevision' }], order: [['publishedAt', 'DESC']] });
+      const parts = await Part.findAll({
+        where: { [Op.and]: [{ authorId: userId, status: 'published' }, crewWhere(await audienceOf(viewer))] },
+        include: [{ model: PartRevision, as: 'publishedRevision' }],
+        order: [['publishedAt', 'DESC']],
+      });
       const evidence = await evidenceFor(parts.map((p) => p.id));
       return {
         user: { id: user.id, displayName: user.displayName, crewRole: user.crewRole, memberSince: user.createdAt.toISOString() },
         parts: parts.map((p) => {
           const e = evidence.get(p.id)!;
-          return { id: p.id, slug: p.slug, title: p.publishedRevision?.title ?? p.slug, proven: e.proven, reports: e.reports, heldUp: e.heldUp, rating: { mean: e.rating.mean, count: e.rating.count }, warnings: e.warnings.map((w) => w.text) };
+          return {
+            id: p.id,
+            slug: p.slug,
+            title: p.publishedRevision?.title ?? p.slug,
+            proven: e.proven,
+            reports: e.reports,
+            heldUp: e.heldUp,
+            rating: { mean: e.rating.mean, count: e.rating.count },
+            warnings: e.warnings.map((w) => w.text),
+          };
         }),
       };
     },

@@ -63,7 +63,12 @@ function checkSize(file: UploadedFile) {
   const limit: Record<FileField, number> = UPLOAD_LIMITS;
   if (file.size === 0) refuse(file, 422, 'empty_file', 'the file is empty. Export it again.');
   if (file.size > limit[file.field]) {
-    refuse(file, 413, 'file_too_large', `${file.field === 'photo' ? 'photos' : 'files'} may be at most ${mb(limit[file.field])}; this one is ${mb(file.size)}.`);
+    refuse(
+      file,
+      413,
+      'file_too_large',
+      `${file.field === 'photo' ? 'photos' : 'files'} may be at most ${mb(limit[file.field])}; this one is ${mb(file.size)}.`,
+    );
   }
 }
 
@@ -75,13 +80,29 @@ async function inPool<T>(file: UploadedFile, work: (pool: WorkerPool) => Promise
     if (err instanceof WorkerBusyError) {
       throw new AppError(503, 'busy', 'Many uploads are being checked right now. Send yours again in a minute; nothing was saved.');
     }
-    if (err instanceof WorkerTimeoutError) refuse(file, 422, 'too_complex', 'checking this file took too long, so it was stopped. Simplify it (fewer facets or a smaller photo) and upload it again.');
-    if (err instanceof WorkerCrashedError) refuse(file, 422, 'too_complex', 'checking this file needed more memory than we allow. Simplify it (fewer facets or a smaller photo) and upload it again.');
+    if (err instanceof WorkerTimeoutError)
+      refuse(
+        file,
+        422,
+        'too_complex',
+        'checking this file took too long, so it was stopped. Simplify it (fewer facets or a smaller photo) and upload it again.',
+      );
+    if (err instanceof WorkerCrashedError)
+      refuse(
+        file,
+        422,
+        'too_complex',
+        'checking this file needed more memory than we allow. Simplify it (fewer facets or a smaller photo) and upload it again.',
+      );
     throw err;
   }
 }
 
-async function inspectModel(file: UploadedFile, sniffed: SniffedType, drawnInInches: boolean): Promise<{ type: SniffedType; analysis: ModelFileAnalysis; originalName: string }> {
+async function inspectModel(
+  file: UploadedFile,
+  sniffed: SniffedType,
+  drawnInInches: boolean,
+): Promise<{ type: SniffedType; analysis: ModelFileAnalysis; originalName: string }> {
   if (DESCRIBED[sniffed]) refuse(file, 422, 'not_a_model', `this is ${DESCRIBED[sniffed]}, not an STL or 3MF model.`);
   const result = await inPool(file, (pool) => pool.run('analyseModel', { path: file.path, drawnInInches }));
   if (!result.ok) refuse(file, 422, 'bad_model', result.message);

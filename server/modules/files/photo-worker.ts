@@ -41,7 +41,7 @@ export function declaredSize(bytes: Uint8Array): { width: number; height: number
   if (!width || !height) throw new PhotoRefused('its header declares no size, so it cannot be read');
   if (width * height > PHOTO_MAX_PIXELS) {
     throw new PhotoRefused(
-      `it declares ${width} × ${height} pixels (${(width * height / 1e6).toFixed(1)} megapixels); photos may have at most ${PHOTO_MAX_PIXELS / 1e6} megapixels. Scale it down and upload it again`,
+      `it declares ${width} × ${height} pixels (${((width * height) / 1e6).toFixed(1)} megapixels); photos may have at most ${PHOTO_MAX_PIXELS / 1e6} megapixels. Scale it down and upload it again`,
     );
   }
   return { width, height };

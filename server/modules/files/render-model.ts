@@ -73,7 +73,12 @@ export interface Raster {
  * Rasterises the triangles (9 numbers each) into an RGBA picture of the given size, the part fitted
  * into `area` (fractions of the picture). Pure: no files, no clock, no randomness.
  */
-export function rasterise(positions: ArrayLike<number>, width: number, height: number, area: { x: number; y: number; width: number; height: number } = MODEL_AREA): Raster {
+export function rasterise(
+  positions: ArrayLike<number>,
+  width: number,
+  height: number,
+  area: { x: number; y: number; width: number; height: number } = MODEL_AREA,
+): Raster {
   const { right, up, toViewer } = viewBasis();
   const n = Math.floor(positions.length / 9);
   // view coordinates of every vertex: sx to the right, sy up the screen, sz towards the viewer

@@ -4,7 +4,12 @@ import { createLocalStorage } from './storage-local';
 import { createS3Storage } from './storage-s3';
 import { uploadDirs, type FileStorage, type UploadDirs } from './storage';
 
-export function createStorage(config: Pick<Config, 'UPLOADS_DIR' | 'STORAGE' | 'S3_ENDPOINT' | 'S3_BUCKET' | 'S3_REGION' | 'S3_ACCESS_KEY_ID' | 'S3_SECRET_ACCESS_KEY' | 'S3_FORCE_PATH_STYLE'>): {
+export function createStorage(
+  config: Pick<
+    Config,
+    'UPLOADS_DIR' | 'STORAGE' | 'S3_ENDPOINT' | 'S3_BUCKET' | 'S3_REGION' | 'S3_ACCESS_KEY_ID' | 'S3_SECRET_ACCESS_KEY' | 'S3_FORCE_PATH_STYLE'
+  >,
+): {
   storage: FileStorage;
   /** The local folders; with s3 only `tmp` is used. */
   dirs: UploadDirs;

@@ -11,7 +11,6 @@ import { AppError } from '../../errors';
 import { displayName } from './sniff';
 import { randomStoredName } from './storage';
 
-
 export const FILE_FIELDS = ['model', 'photo', 'source'] as const;
 export type FileField = (typeof FILE_FIELDS)[number];
 
@@ -89,7 +88,11 @@ function translateUploadError(err: unknown): unknown {
   // file-system failures (a full disk, permissions) are ours: let them reach the error handler as 500
   if (err instanceof Error && 'syscall' in err) return err;
   const detail = err instanceof Error ? err.message : String(err);
-  return new AppError(400, 'upload_incomplete', `The upload arrived incomplete or malformed (${detail}). Send it again; if it keeps failing, check the connection.`);
+  return new AppError(
+    400,
+    'upload_incomplete',
+    `The upload arrived incomplete or malformed (${detail}). Send it again; if it keeps failing, check the connection.`,
+  );
 }
 
 function translateMulterError(err: multer.MulterError): AppError {
@@ -99,7 +102,7 @@ function translateMulterError(err: multer.MulterError): AppError {
     case 'LIMIT_FILE_COUNT':
       return new AppError(413, 'too_many_files', `Send at most ${UPLOAD_LIMITS.filesPerRequest} files in one upload; add the rest afterwards.`);
     case 'LIMIT_UNEXPECTED_FILE':
-      return (new AppError(422, 'unexpected_file', `Files go in the fields ${FILE_FIELDS.join(', ')}; "${err.field}" is not one of them.`));
+      return new AppError(422, 'unexpected_file', `Files go in the fields ${FILE_FIELDS.join(', ')}; "${err.field}" is not one of them.`);
     case 'LIMIT_FIELD_VALUE':
     case 'LIMIT_FIELD_COUNT':
     case 'LIMIT_FIELD_KEY':

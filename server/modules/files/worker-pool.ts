@@ -68,7 +68,11 @@ export class WorkerPool<Tasks extends TaskModule = typeof import('./worker-tasks
   }
 
   /** Runs one task; rejects with WorkerTimeoutError, WorkerBusyError or WorkerCrashedError, or the task's own error. */
-  async run<K extends keyof Tasks & string>(task: K, input: Parameters<Tasks[K]>[0], timeoutMs = this.options.timeoutMs): Promise<Awaited<ReturnType<Tasks[K]>>> {
+  async run<K extends keyof Tasks & string>(
+    task: K,
+    input: Parameters<Tasks[K]>[0],
+    timeoutMs = this.options.timeoutMs,
+  ): Promise<Awaited<ReturnType<Tasks[K]>>> {
     if (this.closed) throw new WorkerClosedError(`${this.options.name}: the pool is closed`);
     await this.takeThread();
     const signal = AbortSignal.timeout(timeoutMs);

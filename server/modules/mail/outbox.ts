@@ -52,9 +52,7 @@ export interface MailerDeps {
 
 export async function createMailer({ config }: MailerDeps): Promise<Mailer> {
   // loaded only when used: the fake's packages (smtp-server, mailparser) are development dependencies
-  const fake = config.SMTP_FAKE
-    ? await (await import('./fake-smtp')).startFakeSmtp({ host: config.SMTP_HOST, port: config.SMTP_PORT })
-    : null;
+  const fake = config.SMTP_FAKE ? await (await import('./fake-smtp')).startFakeSmtp({ host: config.SMTP_HOST, port: config.SMTP_PORT }) : null;
   // one pooled connection, reused across a batch (a fresh connection per mail costs ~100 ms)
   const transport = nodemailer.createTransport({
     pool: true,

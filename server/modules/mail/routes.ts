@@ -16,11 +16,14 @@ export function mailAdminRoutes(mailer: Mailer) {
     res.json({ items: rows.map((r) => r.toItem()) });
   });
 
-  router.post('/:id/retry', handler({ params: idParamSchema }, async ({ params }, _req, res) => {
-    const row = await outboxService.retry(params.id);
-    mailer.kick();
-    res.json({ item: row.toItem() });
-  }));
+  router.post(
+    '/:id/retry',
+    handler({ params: idParamSchema }, async ({ params }, _req, res) => {
+      const row = await outboxService.retry(params.id);
+      mailer.kick();
+      res.json({ item: row.toItem() });
+    }),
+  );
 
   return router;
 }

@@ -33,7 +33,10 @@ const FOOTER = 'Rigshelf, the crew’s shelf of vetted printable rigging parts. 
 
 /** Subjects are header lines: no line breaks or control characters, however a title was typed. */
 function oneLine(value: string): string {
-  return value.replace(/[\u0000-\u001f\u007f]+/g, ' ').replace(/\s+/g, ' ').trim();
+  return value
+    .replace(/[\u0000-\u001f\u007f]+/g, ' ')
+    .replace(/\s+/g, ' ')
+    .trim();
 }
 
 function plural(n: number, one: string, many: string) {
@@ -118,7 +121,14 @@ export interface MailTemplates {
   passwordReset(p: { displayName: string; link: string; expiresMinutes: number }): MailContent;
   alreadyRegistered(p: { displayName: string; signInLink: string; resetLink: string }): MailContent;
   wantedAnswered(p: { requestTitle: string; partTitle: string; answeredBy: string; note: string | null; partLink: string; requestLink: string }): MailContent;
-  crewInvitation(p: { crewName: string; production: string | null; invitedBy: string; role: 'lead' | 'member'; link: string; expiresDays: number }): MailContent;
+  crewInvitation(p: {
+    crewName: string;
+    production: string | null;
+    invitedBy: string;
+    role: 'lead' | 'member';
+    link: string;
+    expiresDays: number;
+  }): MailContent;
   printRequestStep(p: { subject: string; heading: string; text: string; note: string | null; noteBy: string; link: string }): MailContent;
 }
 
@@ -247,7 +257,14 @@ export const mailTemplates: MailTemplates = {
   },
 
   /** To an address a crew lead invited: join the crew on Rigshelf. */
-  crewInvitation(p: { crewName: string; production: string | null; invitedBy: string; role: 'lead' | 'member'; link: string; expiresDays: number }): MailContent {
+  crewInvitation(p: {
+    crewName: string;
+    production: string | null;
+    invitedBy: string;
+    role: 'lead' | 'member';
+    link: string;
+    expiresDays: number;
+  }): MailContent {
     const crew = p.production ? `“${p.crewName}” (${p.production})` : `“${p.crewName}”`;
     return mail(`Join ${p.crewName} on Rigshelf`, 'You are invited to a crew', [
       {
@@ -277,7 +294,15 @@ export const mailTemplates: MailTemplates = {
  * The mail beside a member's notice (a troubling set report, an adaptation, a shared kit, a closed
  * wanted request): the notice's own words, a link, and where to switch this kind off.
  */
-export function memberAlertMail(p: { subject: string; heading: string; text: string; note?: { label: string; text: string } | null; actionLabel: string; link: string; settingsLink: string }): MailContent {
+export function memberAlertMail(p: {
+  subject: string;
+  heading: string;
+  text: string;
+  note?: { label: string; text: string } | null;
+  actionLabel: string;
+  link: string;
+  settingsLink: string;
+}): MailContent {
   return mail(p.subject, p.heading, [
     { kind: 'p', text: p.text },
     ...(p.note?.text.trim() ? [{ kind: 'note', label: p.note.label, text: p.note.text.trim() } as Block] : []),

@@ -68,7 +68,6 @@ function jsonSchemaOf(schema: unknown): Record<string, unknown> {
 const round = (v: number, places = 2) => Math.round(v * 10 ** places) / 10 ** places;
 const mm = (v: number) => `${round(v, 2)} mm`;
 
-
 export function calibrationNote(c: Pick<PrinterCalibration, 'nominalMm' | 'holeCorrectionMm' | 'outerCorrectionMm'>): string {
   const hole =
     Math.abs(c.holeCorrectionMm) < 0.005
@@ -195,7 +194,8 @@ export function createMakeService() {
 
     async preview(viewer: User | undefined, kind: string, input: MakeRequest): Promise<MakePreview> {
       generatorOf(kind);
-      const nozzleMm = input.recipe.nozzleMm ?? (input.printerId != null ? (await ownPrinter(viewer, input.printerId))?.nozzleMm : undefined) ?? MADE_PART_RECIPE.nozzleMm;
+      const nozzleMm =
+        input.recipe.nozzleMm ?? (input.printerId != null ? (await ownPrinter(viewer, input.printerId))?.nozzleMm : undefined) ?? MADE_PART_RECIPE.nozzleMm;
       const s = { ...MADE_PART_RECIPE, ...input.recipe, nozzleMm };
       if (s.layerMm > Math.round(s.nozzleMm * MAX_LAYER_TO_NOZZLE * 1000) / 1000) {
         const message = `A ${s.layerMm} mm layer is too thick for a ${s.nozzleMm} mm nozzle; use at most ${round(s.nozzleMm * MAX_LAYER_TO_NOZZLE, 3)} mm.`;
@@ -222,7 +222,17 @@ export function createMakeService() {
       };
       const e = analysis.volumeMm3 > 0 ? estimatePrint({ volumeMm3: analysis.volumeMm3, areaMm2: analysis.areaMm2, sizeMm: analysis.sizeMm }, settings) : null;
       const estimate = e
-        ? { volumeMm3: e.volumeMm3, massG: e.massG, lengthM: e.lengthM, timeMin: e.timeMin, cost: e.cost, pricePerKg, partsMm3: e.partsMm3, method: e.method, assumptions: e.assumptions }
+        ? {
+            volumeMm3: e.volumeMm3,
+            massG: e.massG,
+            lengthM: e.lengthM,
+            timeMin: e.timeMin,
+            cost: e.cost,
+            pricePerKg,
+            partsMm3: e.partsMm3,
+            method: e.method,
+            assumptions: e.assumptions,
+          }
         : null;
 
       const bedFit = printer ? { ...fitOnBed(analysis.sizeMm, printer.bedMm(), { marginMm: printer.bedMarginMm }), printer: printer.name } : null;

@@ -18,19 +18,25 @@ export function noticesRoutes(alerts: Alerts) {
     res.json({ preferences: await alerts.preferences(currentUser(req)!.id) });
   });
 
-  router.put('/settings', handler({ body: noticePreferencesSchema }, async ({ body }, req, res) => {
-    res.json({ preferences: await alerts.setPreferences(currentUser(req)!.id, body) });
-  }));
+  router.put(
+    '/settings',
+    handler({ body: noticePreferencesSchema }, async ({ body }, req, res) => {
+      res.json({ preferences: await alerts.setPreferences(currentUser(req)!.id, body) });
+    }),
+  );
 
   router.post('/read-all', async (req, res) => {
     await notices.markAllRead(currentUser(req)!.id);
     res.status(204).end();
   });
 
-  router.post('/:id/read', handler({ params: idParamSchema }, async ({ params }, req, res) => {
-    await notices.markRead(currentUser(req)!.id, params.id);
-    res.status(204).end();
-  }));
+  router.post(
+    '/:id/read',
+    handler({ params: idParamSchema }, async ({ params }, req, res) => {
+      await notices.markRead(currentUser(req)!.id, params.id);
+      res.status(204).end();
+    }),
+  );
 
   return router;
 }

@@ -20,7 +20,14 @@ export const notices = {
 
   async list(userId: number) {
     const [items, unread] = await Promise.all([
-      Notice.findAll({ where: { userId }, order: [['createdAt', 'DESC'], ['id', 'DESC']], limit: 50 }),
+      Notice.findAll({
+        where: { userId },
+        order: [
+          ['createdAt', 'DESC'],
+          ['id', 'DESC'],
+        ],
+        limit: 50,
+      }),
       Notice.count({ where: { userId, readAt: null } }),
     ]);
     return { items: items.map((n) => n.toInfo()), unread };

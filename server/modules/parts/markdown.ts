@@ -5,7 +5,29 @@ import sanitizeHtml from 'sanitize-html';
 const md = new MarkdownIt({ html: false, linkify: true, typographer: false });
 
 const allowed: sanitizeHtml.IOptions = {
-  allowedTags: ['p', 'br', 'strong', 'em', 'code', 'pre', 'blockquote', 'ul', 'ol', 'li', 'h3', 'h4', 'h5', 'hr', 'a', 'table', 'thead', 'tbody', 'tr', 'th', 'td'],
+  allowedTags: [
+    'p',
+    'br',
+    'strong',
+    'em',
+    'code',
+    'pre',
+    'blockquote',
+    'ul',
+    'ol',
+    'li',
+    'h3',
+    'h4',
+    'h5',
+    'hr',
+    'a',
+    'table',
+    'thead',
+    'tbody',
+    'tr',
+    'th',
+    'td',
+  ],
   allowedAttributes: { a: ['href', 'title'], th: ['align'], td: ['align'] },
   allowedSchemes: ['http', 'https', 'mailto'],
   transformTags: {

@@ -23,11 +23,7 @@ export function fileUrls(partId: number, file: Pick<PartFile, 'id' | 'kind' | 'p
 
 /** The picture a part is shown by: its first cleaned photo, else the drawn picture of its first model. */
 export function coverFile<F extends Pick<PartFile, 'id' | 'kind' | 'processing' | 'renderStatus'>>(files: F[]): F | null {
-  return (
-    files.find((f) => f.kind === 'photo' && f.processing === 'ready') ??
-    files.find((f) => f.kind === 'model' && f.renderStatus === 'ready') ??
-    null
-  );
+  return files.find((f) => f.kind === 'photo' && f.processing === 'ready') ?? files.find((f) => f.kind === 'model' && f.renderStatus === 'ready') ?? null;
 }
 
 /** The cover's thumbnail URL, or null when the part has no picture yet. */
@@ -115,7 +111,10 @@ async function lineageOf(part: Part, viewer: User | undefined) {
   }
   const children = await Part.findAll({
     where: { [Op.and]: [{ parentId: part.id, publishedRevisionId: { [Op.ne]: null } }, crewWhere(audience)] },
-    include: [{ model: User, as: 'author' }, { model: PartRevision, as: 'publishedRevision' }],
+    include: [
+      { model: User, as: 'author' },
+      { model: PartRevision, as: 'publishedRevision' },
+    ],
     order: [['publishedAt', 'ASC']],
   });
   return {
@@ -164,7 +163,15 @@ export async function presentPart(part: Part, revisionId: number, viewer: User |
       mounts: rev.mounts.map((m) => ({ ...m, label: mountStandard(m.slug)?.label ?? m.slug, standard: mountStandard(m.slug)?.standard ?? '' })),
       keyDimensions: rev.keyDimensions,
     },
-    safety: { ...flags, testedLoadKg: rev.testedLoadKg, cautions: safetyCautions(flags, rev.testedLoadKg, (rev.recipes ?? []).map((r) => r.material)) },
+    safety: {
+      ...flags,
+      testedLoadKg: rev.testedLoadKg,
+      cautions: safetyCautions(
+        flags,
+        rev.testedLoadKg,
+        (rev.recipes ?? []).map((r) => r.material),
+      ),
+    },
     licence: { ...licence, adaptation: isLicenceId(rev.licence) ? adaptationRule(rev.licence) : null },
     recipes: (rev.recipes ?? []).map((r) => ({ id: r.id, ...r.toInput(), warnings: recipeWindowWarnings(r) })),
     files,

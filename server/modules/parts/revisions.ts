@@ -54,7 +54,10 @@ export async function bodyIdsFor(slugs: string[], transaction?: Transaction): Pr
 // at the end of the index, and two submissions doing that at once deadlock each other.
 export async function insertBodies(revisionId: number, bodyIds: number[], transaction: Transaction) {
   if (!bodyIds.length) return;
-  await RevisionBody.bulkCreate(bodyIds.map((bodyId) => ({ revisionId, bodyId })), { transaction });
+  await RevisionBody.bulkCreate(
+    bodyIds.map((bodyId) => ({ revisionId, bodyId })),
+    { transaction },
+  );
 }
 
 export async function replaceBodies(revisionId: number, bodyIds: number[], transaction: Transaction) {
@@ -85,12 +88,12 @@ export async function insertRecipes(revisionId: number, recipes: PartSubmission[
 async function cloneRevision(part: Part, from: PartRevision, actor: User, transaction: Transaction): Promise<PartRevision> {
   const max = (await PartRevision.max<number, PartRevision>('number', { where: { partId: part.id }, transaction })) ?? 0;
   const { id: _id, createdAt: _c, updatedAt: _u, ...fields } = from.get({ plain: true }) as PartRevision;
-  const next = await PartRevision.create(
-    { ...fields, number: max + 1, status: 'in_review', createdBy: actor.id, submittedAt: new Date() },
+  const next = await PartRevision.create({ ...fields, number: max + 1, status: 'in_review', createdBy: actor.id, submittedAt: new Date() }, { transaction });
+  const bodies = await RevisionBody.findAll({ where: { revisionId: from.id }, transaction });
+  await RevisionBody.bulkCreate(
+    bodies.map((b) => ({ revisionId: next.id, bodyId: b.get('bodyId') })),
     { transaction },
   );
-  const bodies = await RevisionBody.findAll({ where: { revisionId: from.id }, transaction });
-  await RevisionBody.bulkCreate(bodies.map((b) => ({ revisionId: next.id, bodyId: b.get('bodyId') })), { transaction });
   const recipes = await Recipe.findAll({ where: { revisionId: from.id }, order: [['position', 'ASC']], transaction });
   await Recipe.bulkCreate(
     recipes.map((r) => {
@@ -100,7 +103,10 @@ async function cloneRevision(part: Part, from: PartRevision, actor: User, transa
     { transaction },
   );
   const files = await RevisionFile.findAll({ where: { revisionId: from.id }, transaction });
-  await RevisionFile.bulkCreate(files.map((f) => ({ revisionId: next.id, fileId: f.fileId, position: f.position })), { transaction });
+  await RevisionFile.bulkCreate(
+    files.map((f) => ({ revisionId: next.id, fileId: f.fileId, position: f.position })),
+    { transaction },
+  );
   await part.update({ latestRevisionId: next.id }, { transaction });
   return next;
 }
@@ -139,10 +145,7 @@ export async function markChanged(part: Part, revision: PartRevision, transactio
         : revision.number;
     await revision.update({ status: 'in_review', submittedAt: new Date(), number }, { transaction });
   }
-  await part.update(
-    { status: part.publishedRevisionId ? part.status : (revision.status as PartStatus), lockVersion: part.lockVersion + 1 },
-    { transaction },
-  );
+  await part.update({ status: part.publishedRevisionId ? part.status : (revision.status as PartStatus), lockVersion: part.lockVersion + 1 }, { transaction });
   return resubmitted;
 }
 

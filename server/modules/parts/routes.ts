@@ -22,9 +22,12 @@ export function partsRoutes(parts: PartsService, storage: FileStorage) {
   const upload = uploadMiddleware(storage);
   const params = idParamSchema;
 
-  router.get('/', handler({ query: listQuerySchema }, async ({ query }, req, res) => {
-    res.json({ items: await parts.list(currentUser(req), { mine: query.mine }) });
-  }));
+  router.get(
+    '/',
+    handler({ query: listQuerySchema }, async ({ query }, req, res) => {
+      res.json({ items: await parts.list(currentUser(req), { mine: query.mine }) });
+    }),
+  );
 
   router.post(
     '/',
@@ -39,17 +42,28 @@ export function partsRoutes(parts: PartsService, storage: FileStorage) {
     ),
   );
 
-  router.get('/:id', handler({ params }, async ({ params }, req, res) => {
-    res.json(await parts.get(currentUser(req), params.id));
-  }));
+  router.get(
+    '/:id',
+    handler({ params }, async ({ params }, req, res) => {
+      res.json(await parts.get(currentUser(req), params.id));
+    }),
+  );
 
-  router.patch('/:id', requireAuth, handler({ params, body: partUpdateSchema }, async ({ params, body }, req, res) => {
-    res.json(await parts.update(currentUser(req)!, params.id, body));
-  }));
+  router.patch(
+    '/:id',
+    requireAuth,
+    handler({ params, body: partUpdateSchema }, async ({ params, body }, req, res) => {
+      res.json(await parts.update(currentUser(req)!, params.id, body));
+    }),
+  );
 
-  router.post('/:id/submit', requireAuth, handler({ params }, async ({ params }, req, res) => {
-    res.json(await parts.resubmit(currentUser(req)!, params.id));
-  }));
+  router.post(
+    '/:id/submit',
+    requireAuth,
+    handler({ params }, async ({ params }, req, res) => {
+      res.json(await parts.resubmit(currentUser(req)!, params.id));
+    }),
+  );
 
   router.post(
     '/:id/files',
@@ -63,27 +77,37 @@ export function partsRoutes(parts: PartsService, storage: FileStorage) {
     ),
   );
 
-  router.delete('/:id/files/:fileId', requireAuth, handler({ params: partFileParamsSchema }, async ({ params }, req, res) => {
-    res.json(await parts.removeFile(currentUser(req)!, String(params.id), params.fileId));
-  }));
+  router.delete(
+    '/:id/files/:fileId',
+    requireAuth,
+    handler({ params: partFileParamsSchema }, async ({ params }, req, res) => {
+      res.json(await parts.removeFile(currentUser(req)!, String(params.id), params.fileId));
+    }),
+  );
 
-  router.get('/:id/files/:fileId/download', handler({ params: partFileParamsSchema }, async ({ params }, req, res) => {
-    if (!req.user) throw AppError.unauthorized('Sign in to download files from the shelf.');
-    const { file, key } = await parts.storedFile(currentUser(req), String(params.id), params.fileId, 'original');
-    res.setHeader('X-Content-Type-Options', 'nosniff');
-    const name = file.kind === 'model' ? modelFileName(file.originalName, EXTENSION[file.format === '3mf' ? '3mf' : 'stl']) : file.originalName;
-    res.attachment(file.kind === 'photo' ? file.originalName.replace(/\.[^.]+$/, '') + '.jpg' : name);
-    res.type(file.mime);
-    await storage.send(req, res, key);
-  }));
+  router.get(
+    '/:id/files/:fileId/download',
+    handler({ params: partFileParamsSchema }, async ({ params }, req, res) => {
+      if (!req.user) throw AppError.unauthorized('Sign in to download files from the shelf.');
+      const { file, key } = await parts.storedFile(currentUser(req), String(params.id), params.fileId, 'original');
+      res.setHeader('X-Content-Type-Options', 'nosniff');
+      const name = file.kind === 'model' ? modelFileName(file.originalName, EXTENSION[file.format === '3mf' ? '3mf' : 'stl']) : file.originalName;
+      res.attachment(file.kind === 'photo' ? file.originalName.replace(/\.[^.]+$/, '') + '.jpg' : name);
+      res.type(file.mime);
+      await storage.send(req, res, key);
+    }),
+  );
 
-  router.get('/:id/files/:fileId/image/:size', handler({ params: imageParamsSchema }, async ({ params }, req, res) => {
-    const { id, fileId, size } = params;
-    const { key } = await parts.storedFile(currentUser(req), String(id), fileId, size === 'thumb' ? 'thumbnail' : 'display');
-    res.setHeader('Cache-Control', 'private, max-age=3600');
-    res.type('image/jpeg');
-    await storage.send(req, res, key);
-  }));
+  router.get(
+    '/:id/files/:fileId/image/:size',
+    handler({ params: imageParamsSchema }, async ({ params }, req, res) => {
+      const { id, fileId, size } = params;
+      const { key } = await parts.storedFile(currentUser(req), String(id), fileId, size === 'thumb' ? 'thumbnail' : 'display');
+      res.setHeader('Cache-Control', 'private, max-age=3600');
+      res.type('image/jpeg');
+      await storage.send(req, res, key);
+    }),
+  );
 
   return router;
 }

@@ -167,7 +167,11 @@ export function createPartsService({ sequelize, storage, sweepMinAgeMs, photos, 
       queuePhotos(pendingPhotos);
       for (const row of pendingReportPhotos) photos.clean(row, () => ReportPhoto.findByPk(row.id));
       queueRenders(pendingRenders);
-      return { removed, resumed: pendingPhotos.length + pendingReportPhotos.length + pendingWantedPhotos.length, pictures: renders ? pendingRenders.length : 0 };
+      return {
+        removed,
+        resumed: pendingPhotos.length + pendingReportPhotos.length + pendingWantedPhotos.length,
+        pictures: renders ? pendingRenders.length : 0,
+      };
     },
 
     /** Photos and models claimed from an instance that went away (jobs/runner.ts). */
@@ -195,7 +199,15 @@ export function createPartsService({ sequelize, storage, sweepMinAgeMs, photos, 
       return writeWithFiles(async (t, attempt) => {
         const part = await createPart(
           input.title,
-          { authorId: actor.id, parentId: input.parentId ?? null, crewId, status: 'in_review', publishedRevisionId: null, latestRevisionId: null, publishedAt: null },
+          {
+            authorId: actor.id,
+            parentId: input.parentId ?? null,
+            crewId,
+            status: 'in_review',
+            publishedRevisionId: null,
+            latestRevisionId: null,
+            publishedAt: null,
+          },
           t,
         );
         const revision = await PartRevision.create(
@@ -348,10 +360,16 @@ export function createPartsService({ sequelize, storage, sweepMinAgeMs, photos, 
       if (!file) throw AppError.notFound('That file is not part of this part.');
       if (want !== 'original' && file.kind === 'source') throw AppError.notFound('Only photos and models have pictures.');
       if (want !== 'original' && file.kind === 'model' && file.renderStatus !== 'ready') {
-        throw AppError.notFound(file.renderStatus === 'failed' ? 'No picture could be drawn from this model.' : 'The picture of this model is still being drawn; try again in a moment.');
+        throw AppError.notFound(
+          file.renderStatus === 'failed'
+            ? 'No picture could be drawn from this model.'
+            : 'The picture of this model is still being drawn; try again in a moment.',
+        );
       }
       if (file.kind === 'photo' && file.processing !== 'ready') {
-        throw AppError.notFound(file.processing === 'failed' ? 'This photo could not be processed.' : 'This photo is still being processed; try again in a moment.');
+        throw AppError.notFound(
+          file.processing === 'failed' ? 'This photo could not be processed.' : 'This photo is still being processed; try again in a moment.',
+        );
       }
       const keys = keysOf(file);
       // a photo's original is never kept: its download is the cleaned display image

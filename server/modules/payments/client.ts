@@ -54,7 +54,8 @@ export function createPayments(config: Config): Payments {
     return client;
   }
   const verifier = new Stripe(config.PAYMENTS_SECRET_KEY);
-  const notSetUp = () => new AppError(503, 'payments_not_configured', 'Paying back is not set up on this Rigshelf yet; settle it with the printer’s owner directly for now.');
+  const notSetUp = () =>
+    new AppError(503, 'payments_not_configured', 'Paying back is not set up on this Rigshelf yet; settle it with the printer’s owner directly for now.');
   if (!config.paymentsConfigured) console.warn('rigshelf: warning: PAYMENTS_SECRET_KEY and PAYMENTS_WEBHOOK_SECRET are not set, so paying back is off');
 
   function unavailable(err: unknown): AppError {
@@ -71,7 +72,9 @@ export function createPayments(config: Config): Payments {
       try {
         const session = await stripe.checkout.sessions.create({
           mode: 'payment',
-          line_items: [{ quantity: 1, price_data: { currency: input.currency.toLowerCase(), unit_amount: input.amountMinor, product_data: { name: input.title } } }],
+          line_items: [
+            { quantity: 1, price_data: { currency: input.currency.toLowerCase(), unit_amount: input.amountMinor, product_data: { name: input.title } } },
+          ],
           client_reference_id: String(input.requestId),
           metadata: { printRequestId: String(input.requestId) },
           success_url: input.successUrl,

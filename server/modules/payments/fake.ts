@@ -77,7 +77,13 @@ function formatAmount(minor: number, currency: string): string {
   }
 }
 
-export async function startPaymentsFake(options: { host: string; port: number; secretKey: string; webhookSecret: string; webhookUrl: string }): Promise<PaymentsFake> {
+export async function startPaymentsFake(options: {
+  host: string;
+  port: number;
+  secretKey: string;
+  webhookSecret: string;
+  webhookUrl: string;
+}): Promise<PaymentsFake> {
   const signer = new Stripe(options.secretKey);
   const sessions = new Map<string, FakeSession>();
   const refunds: FakeRefund[] = [];
@@ -140,7 +146,8 @@ export async function startPaymentsFake(options: { host: string; port: number; s
 
   api.post('/checkout/sessions', (req: Request, res: Response) => {
     const body = req.body as Record<string, unknown>;
-    const items = body.line_items as { price_data?: { currency?: string; unit_amount?: string; product_data?: { name?: string } }; quantity?: string }[] | undefined;
+    const items = body.line_items as
+      { price_data?: { currency?: string; unit_amount?: string; product_data?: { name?: string } }; quantity?: string }[] | undefined;
     if (body.mode !== 'payment') return apiError(res, 400, 'The fake supports mode=payment only.', 'mode');
     if (!Array.isArray(items) || !items.length) return apiError(res, 400, 'line_items is required.', 'line_items');
     const currencies = new Set(items.map((i) => i.price_data?.currency?.toLowerCase()));
@@ -149,7 +156,8 @@ export async function startPaymentsFake(options: { host: string; port: number; s
     for (const item of items) {
       const unit = Number(item.price_data?.unit_amount);
       const qty = Number(item.quantity ?? 1);
-      if (!Number.isInteger(unit) || unit < 0 || !Number.isInteger(qty) || qty < 1) return apiError(res, 400, 'unit_amount and quantity must be whole numbers.', 'line_items');
+      if (!Number.isInteger(unit) || unit < 0 || !Number.isInteger(qty) || qty < 1)
+        return apiError(res, 400, 'unit_amount and quantity must be whole numbers.', 'line_items');
       amount += unit * qty;
     }
     const session: FakeSession = {
@@ -193,7 +201,16 @@ export async function startPaymentsFake(options: { host: string; port: number; s
     if (!Number.isInteger(amount) || amount <= 0 || amount + already > session.amount_total) {
       return apiError(res, 400, 'The refund is more than what is left of the payment.', 'amount');
     }
-    const refund: FakeRefund = { id: id('re'), object: 'refund', amount, currency: session.currency, payment_intent: pi, status: 'succeeded', metadata: (body.metadata as Record<string, string>) ?? {}, created: now() };
+    const refund: FakeRefund = {
+      id: id('re'),
+      object: 'refund',
+      amount,
+      currency: session.currency,
+      payment_intent: pi,
+      status: 'succeeded',
+      metadata: (body.metadata as Record<string, string>) ?? {},
+      created: now(),
+    };
     refunds.push(refund);
     if (key) refundsByKey.set(key, refund);
     res.json(refund);

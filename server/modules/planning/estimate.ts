@@ -1,7 +1,15 @@
 // One print estimate: from a model file on the shelf (sliced in the worker) or from figures typed in.
 import { Op } from 'sequelize';
 import type { EstimateResult } from '@shared/api/planning';
-import { DEFAULT_PRICE_PER_KG, estimateFromSlices, estimatePrint, lineWidthFor, type PartGeometry, type PrintEstimate, type PrintSettings } from '@shared/estimate';
+import {
+  DEFAULT_PRICE_PER_KG,
+  estimateFromSlices,
+  estimatePrint,
+  lineWidthFor,
+  type PartGeometry,
+  type PrintEstimate,
+  type PrintSettings,
+} from '@shared/estimate';
 import type { ModelFileAnalysis } from '@shared/mesh';
 import type { SliceProfile } from '@shared/slice';
 import type { EstimateInput } from '@shared/schemas/planning';
@@ -49,7 +57,11 @@ export function estimateService({ storage, slicer }: Pick<PlanningDeps, 'storage
         const stlUnitScale = (a as Partial<ModelFileAnalysis>).unitScale ?? 1;
         sliceFor = (s) =>
           slicer.slice(
-            { path: () => storage.localCopy(keysOf(file).original), stlUnitScale, settings: { layerMm: s.layerMm, walls: s.walls, lineWidthMm: lineWidthFor(s), skinLayers: s.topBottomLayers } },
+            {
+              path: () => storage.localCopy(keysOf(file).original),
+              stlUnitScale,
+              settings: { layerMm: s.layerMm, walls: s.walls, lineWidthMm: lineWidthFor(s), skinLayers: s.topBottomLayers },
+            },
             `file:${file.id}:${file.sha256}`,
           );
         geometry = { volumeMm3: a.volumeMm3, areaMm2: a.areaMm2, sizeMm: a.sizeMm };
@@ -64,7 +76,8 @@ export function estimateService({ storage, slicer }: Pick<PlanningDeps, 'storage
       const pricePerKg = input.pricePerKg ?? ownPrice;
       const pricePerKwh = input.pricePerKwh ?? sheet?.pricePerKwh ?? undefined;
       if (input.pricePerKg === undefined && ownPrice !== undefined) notes.push('The price per kg is from your price sheet.');
-      if (input.pricePerKwh === undefined && pricePerKwh !== undefined && input.printerWatts !== undefined) notes.push('The price per kWh is from your price sheet.');
+      if (input.pricePerKwh === undefined && pricePerKwh !== undefined && input.printerWatts !== undefined)
+        notes.push('The price per kWh is from your price sheet.');
       const settings: PrintSettings = {
         material: input.material,
         nozzleMm: input.nozzleMm,
@@ -81,10 +94,12 @@ export function estimateService({ storage, slicer }: Pick<PlanningDeps, 'storage
       };
       let estimate: PrintEstimate;
       try {
-        const profile = sliceFor ? await sliceFor(settings).catch((err: Error) => {
-          notes.push(`The model could not be sliced (${err.message}); this is the quick estimate from its figures.`);
-          return null;
-        }) : null;
+        const profile = sliceFor
+          ? await sliceFor(settings).catch((err: Error) => {
+              notes.push(`The model could not be sliced (${err.message}); this is the quick estimate from its figures.`);
+              return null;
+            })
+          : null;
         estimate = profile ? estimateFromSlices(profile, settings) : estimatePrint(geometry, settings);
       } catch (err) {
         if (err instanceof RangeError) throw new AppError(422, 'validation_failed', `These figures cannot be estimated: ${err.message}`);

@@ -105,7 +105,21 @@ export function kitCsv(summary: KitSummaryResponse): string {
 
   const b = summary.buyOrPrint;
   const comparison = (label: string, c: typeof b.buying) =>
-    c && rows.push([label, null, '', '', null, null, null, round(c.total, 2), '', '', '', `${c.items} ${c.items === 1 ? 'item' : 'items'}; printing them costs ${c.printCost.toFixed(2)}, saving ${c.savings.toFixed(2)}`]);
+    c &&
+    rows.push([
+      label,
+      null,
+      '',
+      '',
+      null,
+      null,
+      null,
+      round(c.total, 2),
+      '',
+      '',
+      '',
+      `${c.items} ${c.items === 1 ? 'item' : 'items'}; printing them costs ${c.printCost.toFixed(2)}, saving ${c.savings.toFixed(2)}`,
+    ]);
   comparison('Buying instead', b.buying);
   comparison('Print service instead', b.printService);
   if (b.payback) rows.push(['Printer payback', null, '', '', null, null, null, round(b.payback.printerPrice, 2), '', '', '', b.payback.message]);

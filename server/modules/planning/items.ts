@@ -96,7 +96,10 @@ export function itemService({ sequelize }: Pick<PlanningDeps, 'sequelize'>) {
         const { kit } = await findKit(viewer, kitId, 'edit', undefined, t);
         const item = await itemOf(kit, itemId, t, viewer);
         if (!item.partId && (patch.partId !== undefined || patch.recipeId !== undefined)) {
-          throw AppError.field(patch.partId !== undefined ? 'partId' : 'recipeId', 'A made item keeps its maker and sizes; make it again and add the new one instead.');
+          throw AppError.field(
+            patch.partId !== undefined ? 'partId' : 'recipeId',
+            'A made item keeps its maker and sizes; make it again and add the new one instead.',
+          );
         }
         const changes: Partial<KitItem> = defined({
           quantity: patch.quantity,

@@ -33,7 +33,10 @@ export function kitService({ sequelize }: Pick<PlanningDeps, 'sequelize'>) {
       const shared = [...accessOf.keys()];
       const kits = await Kit.findAll({
         where: shared.length ? { [Op.or]: [{ ownerId: viewer.id }, { id: { [Op.in]: shared } }] } : { ownerId: viewer.id },
-        order: [['updatedAt', 'DESC'], ['id', 'DESC']],
+        order: [
+          ['updatedAt', 'DESC'],
+          ['id', 'DESC'],
+        ],
       });
       const items = await presentKitList(kits, (kit) => (kit.ownerId === viewer.id ? 'owner' : accessOf.get(kit.id)!), audience);
       return { items };

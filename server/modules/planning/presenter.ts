@@ -1,6 +1,16 @@
 // The JSON printers, price sheets and kits are shown as (shapes in shared/api/planning.ts).
 import { Op } from 'sequelize';
-import type { KitAccess, KitCrewShareInfo, KitDetail, KitItemInfo, KitListItem, KitRecipeRef, KitShareInfo, PrinterInfo, PriceSheetInfo } from '@shared/api/planning';
+import type {
+  KitAccess,
+  KitCrewShareInfo,
+  KitDetail,
+  KitItemInfo,
+  KitListItem,
+  KitRecipeRef,
+  KitShareInfo,
+  PrinterInfo,
+  PriceSheetInfo,
+} from '@shared/api/planning';
 import { DEFAULT_PRICE_PER_KG } from '@shared/estimate';
 import { DEFAULT_CURRENCY } from '@shared/money';
 import { MATERIAL_IDS, type MaterialId } from '@shared/materials';
@@ -91,13 +101,20 @@ export async function loadItems(kitId: number, itemId?: number, audience?: PartA
       { model: Recipe, as: 'recipe' },
       { model: Printer, as: 'printer' },
     ],
-    order: [['position', 'ASC'], ['id', 'ASC']],
+    order: [
+      ['position', 'ASC'],
+      ['id', 'ASC'],
+    ],
   });
   return audience ? items.filter((i) => !i.part || crewAllows(audience, i.part)) : items;
 }
 
 const filesInOrder = (files: PartFile[]) =>
-  [...files].sort((a, b) => ((a as unknown as { RevisionFile?: { position: number } }).RevisionFile?.position ?? 0) - ((b as unknown as { RevisionFile?: { position: number } }).RevisionFile?.position ?? 0));
+  [...files].sort(
+    (a, b) =>
+      ((a as unknown as { RevisionFile?: { position: number } }).RevisionFile?.position ?? 0) -
+      ((b as unknown as { RevisionFile?: { position: number } }).RevisionFile?.position ?? 0),
+  );
 
 export function presentItem(item: KitItem): KitItemInfo {
   const part = item.part ?? null;
@@ -175,7 +192,11 @@ export async function presentKitList(kits: Kit[], accessOf: (kit: Kit) => KitAcc
   const ids = kits.map((k) => k.id);
   const [owners, rows] = await Promise.all([
     User.findAll({ where: { id: { [Op.in]: [...new Set(kits.map((k) => k.ownerId))] } } }),
-    KitItem.findAll({ where: { kitId: { [Op.in]: ids } }, attributes: ['kitId'], include: [{ model: Part, as: 'part', attributes: ['id', 'crewId', 'authorId'] }] }),
+    KitItem.findAll({
+      where: { kitId: { [Op.in]: ids } },
+      attributes: ['kitId'],
+      include: [{ model: Part, as: 'part', attributes: ['id', 'crewId', 'authorId'] }],
+    }),
   ]);
   const counts = new Map<number, number>();
   for (const r of rows) if (!r.part || crewAllows(audience, r.part)) counts.set(r.kitId, (counts.get(r.kitId) ?? 0) + 1);
@@ -186,7 +207,10 @@ export async function presentKitList(kits: Kit[], accessOf: (kit: Kit) => KitAcc
     startsOn: kit.startsOn,
     endsOn: kit.endsOn,
     heatExposure: kit.heatExposure,
-    owner: memberRef(owners.find((o) => o.id === kit.ownerId), kit.ownerId),
+    owner: memberRef(
+      owners.find((o) => o.id === kit.ownerId),
+      kit.ownerId,
+    ),
     access: accessOf(kit),
     itemCount: counts.get(kit.id) ?? 0,
     updatedAt: kit.updatedAt.toISOString(),

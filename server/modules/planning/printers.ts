@@ -18,7 +18,13 @@ async function ownPrinter(owner: User, id: number): Promise<Printer> {
 export function printerService({ sequelize }: Pick<PlanningDeps, 'sequelize'>) {
   return {
     async listPrinters(owner: User): Promise<PrinterList> {
-      const printers = await Printer.findAll({ where: { ownerId: owner.id }, order: [['name', 'ASC'], ['id', 'ASC']] });
+      const printers = await Printer.findAll({
+        where: { ownerId: owner.id },
+        order: [
+          ['name', 'ASC'],
+          ['id', 'ASC'],
+        ],
+      });
       return { items: printers.map(presentPrinter) };
     },
 

@@ -19,7 +19,10 @@ export function shareService({ sequelize, alerts }: Pick<PlanningDeps, 'sequeliz
         const resolved: { userId: number; access: 'read' | 'edit' }[] = [];
         for (const [i, share] of input.shares.entries()) {
           const key = `shares.${i}.${share.email !== undefined ? 'email' : 'userId'}`;
-          const user = share.email !== undefined ? await User.findOne({ where: { email: share.email }, transaction: t }) : await User.findByPk(share.userId!, { transaction: t });
+          const user =
+            share.email !== undefined
+              ? await User.findOne({ where: { email: share.email }, transaction: t })
+              : await User.findByPk(share.userId!, { transaction: t });
           // an unknown and a suspended account get the same words, and neither is named
           if (!user || user.status !== 'active') {
             fields[key] =
@@ -40,7 +43,10 @@ export function shareService({ sequelize, alerts }: Pick<PlanningDeps, 'sequeliz
         }
         const before = new Set((await KitShare.findAll({ where: { kitId: kit.id }, attributes: ['userId'], transaction: t })).map((s) => s.userId));
         await KitShare.destroy({ where: { kitId: kit.id }, transaction: t });
-        await KitShare.bulkCreate(resolved.map((r) => ({ kitId: kit.id, ...r })), { transaction: t });
+        await KitShare.bulkCreate(
+          resolved.map((r) => ({ kitId: kit.id, ...r })),
+          { transaction: t },
+        );
         await touchKit(kit, t);
         const added = resolved.filter((r) => !before.has(r.userId));
         for (const r of added) {
@@ -51,7 +57,11 @@ export function shareService({ sequelize, alerts }: Pick<PlanningDeps, 'sequeliz
               title: `A shoot kit was shared with you: ${kit.name}`,
               body: `${viewer.displayName} shared the kit “${kit.name}” with you${r.access === 'edit' ? ' and lets you change it' : ' to read'}.`,
               link: `/kits/${kit.id}`,
-              mail: { subject: `${viewer.displayName} shared a shoot kit with you: ${kit.name}`, heading: 'A shoot kit is shared with you', actionLabel: 'Open the kit' },
+              mail: {
+                subject: `${viewer.displayName} shared a shoot kit with you: ${kit.name}`,
+                heading: 'A shoot kit is shared with you',
+                actionLabel: 'Open the kit',
+              },
             },
             t,
             viewer.id,
@@ -78,7 +88,10 @@ export function shareService({ sequelize, alerts }: Pick<PlanningDeps, 'sequeliz
         const problems = Object.values(fields);
         if (problems.length) throw AppError.fields(problems.length === 1 ? problems[0] : 'Some of these crews cannot be added; see each entry.', fields);
         await KitCrewShare.destroy({ where: { kitId: kit.id }, transaction: t });
-        await KitCrewShare.bulkCreate(input.crewShares.map((s) => ({ kitId: kit.id, crewId: s.crewId, access: s.access })), { transaction: t });
+        await KitCrewShare.bulkCreate(
+          input.crewShares.map((s) => ({ kitId: kit.id, crewId: s.crewId, access: s.access })),
+          { transaction: t },
+        );
         await touchKit(kit, t);
       });
       const rows = await KitCrewShare.findAll({ where: { kitId }, include: [{ model: Crew, as: 'crew' }], order: [['id', 'ASC']] });

@@ -54,7 +54,13 @@ export async function loadStatement(planning: Pick<PlanningService, 'summary'>, 
   const printers = printerIds.length ? await Printer.findAll({ where: { id: { [Op.in]: printerIds } } }) : [];
   const partIds = summary.items.flatMap((i) => (i.part ? [i.part.id] : [])); // made-to-size items have no shelf part
   const parts = partIds.length
-    ? await Part.findAll({ where: { id: { [Op.in]: partIds } }, include: [{ model: PartRevision, as: 'publishedRevision' }, { model: User, as: 'author' }] })
+    ? await Part.findAll({
+        where: { id: { [Op.in]: partIds } },
+        include: [
+          { model: PartRevision, as: 'publishedRevision' },
+          { model: User, as: 'author' },
+        ],
+      })
     : [];
   const figures = buildStatement({
     currency: crew.currency,
@@ -93,7 +99,19 @@ export async function saveStatementDetails(viewer: User, kitId: number, input: S
   });
 }
 
-export const STATEMENT_CSV_COLUMNS = ['Line', 'Quantity', 'Material', 'Grams', 'Hours', 'Filament', 'Electricity', 'Machine time', 'Amount', 'Licence', 'Caution'] as const;
+export const STATEMENT_CSV_COLUMNS = [
+  'Line',
+  'Quantity',
+  'Material',
+  'Grams',
+  'Hours',
+  'Filament',
+  'Electricity',
+  'Machine time',
+  'Amount',
+  'Licence',
+  'Caution',
+] as const;
 
 export function statementFileName(s: StatementInfo, ext: 'csv' | 'pdf'): string {
   return kitCsvFileName(`${s.kit.name} statement`, s.kit.id).replace(/\.csv$/, `.${ext}`);
@@ -138,7 +156,9 @@ export async function statementPdf(s: StatementInfo): Promise<Buffer> {
   const money = (minor: number) => `${minorToDecimal(minor, s.currency)}`;
   const right = (text: string, bold = false) => ({ text, alignment: 'right', bold });
   const body: unknown[][] = [
-    ['Line', 'Qty', 'Material', right('Grams'), right('Hours'), right(`Amount (${s.currency})`)].map((c) => (typeof c === 'string' ? { text: c, bold: true } : { ...c, bold: true })),
+    ['Line', 'Qty', 'Material', right('Grams'), right('Hours'), right(`Amount (${s.currency})`)].map((c) =>
+      typeof c === 'string' ? { text: c, bold: true } : { ...c, bold: true },
+    ),
   ];
   for (const l of s.lines) {
     body.push([

@@ -22,7 +22,9 @@ import type { PlanningDeps } from './service';
 import { soundnessNotes } from './values';
 
 function printerRef(printer: Printer | null): KitPlanItem['printer'] {
-  return printer ? { id: printer.id, name: printer.name, bedMm: printer.bedMm(), bedMarginMm: printer.bedMarginMm, nozzleMm: printer.nozzleMm, watts: printer.watts } : null;
+  return printer
+    ? { id: printer.id, name: printer.name, bedMm: printer.bedMm(), bedMarginMm: printer.bedMarginMm, nozzleMm: printer.nozzleMm, watts: printer.watts }
+    : null;
 }
 
 /** A made item is planned from the mesh figures measured when it was added, with the made-part settings. */
@@ -81,9 +83,7 @@ export function summaryService({ storage, slicer, evidence }: Pick<PlanningDeps,
 
     // a recipe that has gone is replaced by the part's default published recipe
     const orphanRevisions = [...new Set(items.filter((i) => i.part && !i.recipe && i.part.publishedRevisionId).map((i) => i.part!.publishedRevisionId!))];
-    const fallbacks = orphanRevisions.length
-      ? await Recipe.findAll({ where: { revisionId: { [Op.in]: orphanRevisions } }, order: [['position', 'ASC']] })
-      : [];
+    const fallbacks = orphanRevisions.length ? await Recipe.findAll({ where: { revisionId: { [Op.in]: orphanRevisions } }, order: [['position', 'ASC']] }) : [];
     const chosen = items.map((i) => ({
       item: i,
       recipe: i.part ? (i.recipe ?? defaultRecipe(fallbacks.filter((r) => r.revisionId === i.part!.publishedRevisionId))) : null,
@@ -116,7 +116,11 @@ export function summaryService({ storage, slicer, evidence }: Pick<PlanningDeps,
       const revision = revisions.find((r) => r.id === recipe.revisionId)!;
       const notes: string[] = [];
       if (!isOnShelfForKits(part)) {
-        notes.push(part.status === 'retired' ? 'This part was retired from the shelf; check with the rigging lead before printing it.' : 'This part is not on the shelf right now.');
+        notes.push(
+          part.status === 'retired'
+            ? 'This part was retired from the shelf; check with the rigging lead before printing it.'
+            : 'This part is not on the shelf right now.',
+        );
       }
       if (fallback) notes.push('The chosen recipe has gone; planned with the part’s first set-ready recipe.');
       else if (recipe.revisionId !== part.publishedRevisionId && part.publishedRevisionId) {

@@ -21,10 +21,16 @@ export async function estimateRequest(planning: Pick<PlanningService, 'estimate'
     if (part.crewId && part.crewId !== input.crewId) {
       throw AppError.field('crewId', 'This part is published to one crew only; ask a member of that crew to print it.');
     }
-    const revision = await PartRevision.findByPk(part.publishedRevisionId, { include: [{ model: PartFile, as: 'files', through: { attributes: ['position'] } }] });
+    const revision = await PartRevision.findByPk(part.publishedRevisionId, {
+      include: [{ model: PartFile, as: 'files', through: { attributes: ['position'] } }],
+    });
     const recipes = await Recipe.findAll({ where: { revisionId: part.publishedRevisionId }, order: [['position', 'ASC']] });
     const recipe = input.recipeId ? recipes.find((x) => x.id === input.recipeId) : (recipes.find((x) => x.purpose === 'set-ready') ?? recipes[0]);
-    if (!recipe) throw AppError.field('recipeId', input.recipeId ? 'That recipe is not one of this part’s published recipes.' : 'This part has no published recipe to print it with.');
+    if (!recipe)
+      throw AppError.field(
+        'recipeId',
+        input.recipeId ? 'That recipe is not one of this part’s published recipes.' : 'This part has no published recipe to print it with.',
+      );
     const files = [...((revision?.files ?? []) as FileWithPosition[])].sort((a, b) => (a.RevisionFile?.position ?? 0) - (b.RevisionFile?.position ?? 0));
     const model = files.find((f) => f.kind === 'model' && f.analysis && f.analysis.volumeMm3 > 0);
     if (!model) throw AppError.field('partId', 'This part has no analysed model file, so there is nothing to estimate the print from.');
@@ -50,11 +56,16 @@ export async function estimateRequest(planning: Pick<PlanningService, 'estimate'
       filament: [{ material, grams }],
       grams,
       minutes: e.timeMin * input.quantity,
-      notes: [`Estimated from ${model.originalName} with its ${recipe.purpose} recipe (${recipe.material}, ${recipe.layerMm} mm layers, ${recipe.infillPct} % infill), ${input.quantity} × one piece.`, ...e.assumptions.filter((a) => !/price/i.test(a))],
+      notes: [
+        `Estimated from ${model.originalName} with its ${recipe.purpose} recipe (${recipe.material}, ${recipe.layerMm} mm layers, ${recipe.infillPct} % infill), ${input.quantity} × one piece.`,
+        ...e.assumptions.filter((a) => !/price/i.test(a)),
+      ],
     };
   }
   const summary = await planning.summary(viewer, input.kitId!);
-  const itemParts = summary.items.length ? await Part.findAll({ where: { id: { [Op.in]: summary.items.flatMap((i) => (i.part ? [i.part.id] : [])) } }, attributes: ['id', 'crewId'] }) : [];
+  const itemParts = summary.items.length
+    ? await Part.findAll({ where: { id: { [Op.in]: summary.items.flatMap((i) => (i.part ? [i.part.id] : [])) } }, attributes: ['id', 'crewId'] })
+    : [];
   if (itemParts.some((p) => p.crewId && p.crewId !== input.crewId)) {
     throw AppError.field('crewId', 'This kit holds parts published to another crew only; ask a member of that crew, or take those items out first.');
   }

@@ -12,7 +12,14 @@ export interface PayingBackDeps {
   sequelize: Sequelize;
   payments: Payments;
   /** Records a step with its notice and mail (service.ts). */
-  record: (r: PrintRequest, step: 'paid' | 'refunded', actor: User | null, from: string | null, details: Record<string, unknown> | null, t: Transaction) => Promise<void>;
+  record: (
+    r: PrintRequest,
+    step: 'paid' | 'refunded',
+    actor: User | null,
+    from: string | null,
+    details: Record<string, unknown> | null,
+    t: Transaction,
+  ) => Promise<void>;
   /** The request if the viewer is one of its two sides (locked inside a transaction), else 404. */
   visible: (viewer: User, id: number, transaction?: Transaction) => Promise<PrintRequest>;
   link: (id: number) => string;
@@ -47,7 +54,14 @@ export function payingBack({ sequelize, payments, record, visible, link, publicU
         const r = await PrintRequest.findByPk(x.requestId, { transaction: t });
         if (!r) return;
         await PrintRequestEvent.create(
-          { requestId: r.id, actorId: null, action: 'refunded-extra', fromStatus: r.status, toStatus: r.status, details: { refund: refund.id, amountMinor: x.amountMinor, currency: r.currency } },
+          {
+            requestId: r.id,
+            actorId: null,
+            action: 'refunded-extra',
+            fromStatus: r.status,
+            toStatus: r.status,
+            details: { refund: refund.id, amountMinor: x.amountMinor, currency: r.currency },
+          },
           { transaction: t },
         );
       });
@@ -81,7 +95,10 @@ export function payingBack({ sequelize, payments, record, visible, link, publicU
         const locked = await visible(viewer, id, t);
         if (locked.paymentStatus === 'unpaid' || locked.paymentStatus === 'pending') {
           await locked.update({ paymentStatus: 'pending', checkoutId: session.id }, { transaction: t });
-          await PrintRequestEvent.create({ requestId: r.id, actorId: viewer.id, action: 'checkout', fromStatus: r.status, toStatus: r.status, details: { checkout: session.id } }, { transaction: t });
+          await PrintRequestEvent.create(
+            { requestId: r.id, actorId: viewer.id, action: 'checkout', fromStatus: r.status, toStatus: r.status, details: { checkout: session.id } },
+            { transaction: t },
+          );
         }
       });
       return { url: session.url, clientSecret: session.clientSecret };
@@ -121,10 +138,7 @@ export function payingBack({ sequelize, payments, record, visible, link, publicU
             } else {
               const from = r.status;
               const settled = refundDue(r.status, 'paid') ? ('refund_due' as const) : ('paid' as const);
-              await r.update(
-                { paymentStatus: settled, paidMinor: s.amount_total!, paymentRef, paidAt: new Date(), checkoutId: s.id },
-                { transaction: t },
-              );
+              await r.update({ paymentStatus: settled, paidMinor: s.amount_total!, paymentRef, paidAt: new Date(), checkoutId: s.id }, { transaction: t });
               await record(r, 'paid', null, from, { amountMinor: s.amount_total, currency: r.currency, event: event.id }, t);
               taken.outcome = 'paid';
               if (settled === 'refund_due') due = r.id;

@@ -16,19 +16,31 @@ export function printRequestRoutes(service: PrintRequestsService) {
   router.get('/printers', async (req, res) => {
     res.json({ items: await service.printers(currentUser(req)!) });
   });
-  router.post('/', handler({ body: printRequestSchema }, async ({ body }, req, res) => {
-    const created = await service.create(currentUser(req)!, body);
-    res.status(201).location(`/api/print-requests/${created.id}`).json(created);
-  }));
-  router.get('/:id', handler({ params }, async ({ params }, req, res) => {
-    res.json(await service.get(currentUser(req)!, params.id));
-  }));
-  router.post('/:id/checkout', handler({ params }, async ({ params }, req, res) => {
-    res.json(await service.checkout(currentUser(req)!, params.id));
-  }));
-  router.post('/:id/:action', handler({ params: printRequestActionParamsSchema, body: printRequestStepSchema }, async ({ params, body }, req, res) => {
-    res.json(await service.step(currentUser(req)!, params.id, params.action, body.note));
-  }));
+  router.post(
+    '/',
+    handler({ body: printRequestSchema }, async ({ body }, req, res) => {
+      const created = await service.create(currentUser(req)!, body);
+      res.status(201).location(`/api/print-requests/${created.id}`).json(created);
+    }),
+  );
+  router.get(
+    '/:id',
+    handler({ params }, async ({ params }, req, res) => {
+      res.json(await service.get(currentUser(req)!, params.id));
+    }),
+  );
+  router.post(
+    '/:id/checkout',
+    handler({ params }, async ({ params }, req, res) => {
+      res.json(await service.checkout(currentUser(req)!, params.id));
+    }),
+  );
+  router.post(
+    '/:id/:action',
+    handler({ params: printRequestActionParamsSchema, body: printRequestStepSchema }, async ({ params, body }, req, res) => {
+      res.json(await service.step(currentUser(req)!, params.id, params.action, body.note));
+    }),
+  );
   return router;
 }
 

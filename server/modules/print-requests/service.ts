@@ -6,25 +6,9 @@
 import { Op, type Sequelize, type Transaction } from 'sequelize';
 import type { CrewPrinter, MoneyByCurrency, PrintRequestDetail, PrintRequestInfo, PrintRequestList } from '@shared/api/print-requests';
 import { computePrintPrice, sumMinor, type PrintPrice } from '@shared/print-price';
-import {
-  allowedPrintActions,
-  canPay,
-  isOwed,
-  printTransition,
-  refundDue,
-  type PrintRequestAction,
-  type PrintRequestRole,
-} from '@shared/print-requests';
+import { allowedPrintActions, canPay, isOwed, printTransition, refundDue, type PrintRequestAction, type PrintRequestRole } from '@shared/print-requests';
 import type { PrintRequestInput } from '@shared/schemas/print-requests';
-import {
-  Crew,
-  CrewMember,
-  PriceSheet,
-  Printer,
-  PrintRequest,
-  PrintRequestEvent,
-  User,
-} from '../../db/models';
+import { Crew, CrewMember, PriceSheet, Printer, PrintRequest, PrintRequestEvent, User } from '../../db/models';
 import { transact } from '../../db/transaction';
 import { AppError } from '../../errors';
 import { membershipOf } from '../crews/service';
@@ -53,11 +37,30 @@ function person(user: User | undefined, id: number) {
 }
 
 /** What happens at each step, in the words the other side reads. */
-const STEP_WORDS: Record<PrintRequestAction | 'asked' | 'paid' | 'refunded', { to: PrintRequestRole; subject: string; text: (actor: string, title: string) => string }> = {
-  asked: { to: 'owner', subject: 'A print request for you', text: (a, t) => `${a} asks you to print “${t}”. Look at the estimate and the price, then accept or decline it.` },
-  accept: { to: 'requester', subject: 'Your print request was accepted', text: (a, t) => `${a} accepted your request for “${t}”. The price is frozen now; you can pay it back from the request.` },
-  decline: { to: 'requester', subject: 'Your print request was declined', text: (a, t) => `${a} declined your request for “${t}”. Anything you paid is refunded.` },
-  cancel: { to: 'owner', subject: 'A print request was cancelled', text: (a, t) => `${a} cancelled the request for “${t}”. There is nothing more to print for it.` },
+const STEP_WORDS: Record<
+  PrintRequestAction | 'asked' | 'paid' | 'refunded',
+  { to: PrintRequestRole; subject: string; text: (actor: string, title: string) => string }
+> = {
+  asked: {
+    to: 'owner',
+    subject: 'A print request for you',
+    text: (a, t) => `${a} asks you to print “${t}”. Look at the estimate and the price, then accept or decline it.`,
+  },
+  accept: {
+    to: 'requester',
+    subject: 'Your print request was accepted',
+    text: (a, t) => `${a} accepted your request for “${t}”. The price is frozen now; you can pay it back from the request.`,
+  },
+  decline: {
+    to: 'requester',
+    subject: 'Your print request was declined',
+    text: (a, t) => `${a} declined your request for “${t}”. Anything you paid is refunded.`,
+  },
+  cancel: {
+    to: 'owner',
+    subject: 'A print request was cancelled',
+    text: (a, t) => `${a} cancelled the request for “${t}”. There is nothing more to print for it.`,
+  },
   'fit-tested': { to: 'requester', subject: 'Fit test printed', text: (a, t) => `${a} printed a fit test of “${t}”. Check it on the rig if you can.` },
   printed: { to: 'requester', subject: 'Your print is ready', text: (a, t) => `${a} printed “${t}”. Arrange the hand-over.` },
   'handed-over': { to: 'requester', subject: 'Print handed over', text: (a, t) => `${a} marked “${t}” as handed over to you.` },
@@ -71,7 +74,11 @@ export function createPrintRequestsService({ sequelize, mail, publicUrl: configu
 
   async function ownerTerms(ownerId: number, transaction?: Transaction) {
     const sheet = await PriceSheet.findByPk(ownerId, { transaction });
-    return { pricesPerKg: effectivePrices(sheet) as Record<string, number>, pricePerKwh: sheet?.pricePerKwh ?? null, machineHourRate: sheet?.machineHourRate ?? null };
+    return {
+      pricesPerKg: effectivePrices(sheet) as Record<string, number>,
+      pricePerKwh: sheet?.pricePerKwh ?? null,
+      machineHourRate: sheet?.machineHourRate ?? null,
+    };
   }
 
   async function priceOf(r: PrintRequest, transaction?: Transaction): Promise<PrintPrice> {
@@ -156,12 +163,16 @@ export function createPrintRequestsService({ sequelize, mail, publicUrl: configu
     details: Record<string, unknown> | null,
     t: Transaction,
   ) {
-    await PrintRequestEvent.create({ requestId: r.id, actorId: actor?.id ?? null, action: step, fromStatus: from, toStatus: r.status, details }, { transaction: t });
+    await PrintRequestEvent.create(
+      { requestId: r.id, actorId: actor?.id ?? null, action: step, fromStatus: from, toStatus: r.status, details },
+      { transaction: t },
+    );
     const words = STEP_WORDS[step];
     const toId = words.to === 'owner' ? r.ownerId : r.requesterId;
     const to = await User.findByPk(toId, { transaction: t });
     if (!to) return;
-    const actorName = actor?.displayName ?? (step === 'paid' ? (await User.findByPk(r.requesterId, { transaction: t }))?.displayName ?? 'The requester' : 'Rigshelf');
+    const actorName =
+      actor?.displayName ?? (step === 'paid' ? ((await User.findByPk(r.requesterId, { transaction: t }))?.displayName ?? 'The requester') : 'Rigshelf');
     const text = words.text(actorName, r.title);
     await notices.notify([to.id], { kind: 'print-request', title: `${words.subject}: ${r.title}`, body: text, link: link(r.id) }, t);
     await mail.enqueue(
@@ -191,25 +202,47 @@ export function createPrintRequestsService({ sequelize, mail, publicUrl: configu
     async printers(viewer: User): Promise<CrewPrinter[]> {
       const mine = await CrewMember.findAll({ where: { userId: viewer.id }, include: [{ model: Crew, as: 'crew' }] });
       if (!mine.length) return [];
-      const mates = await CrewMember.findAll({ where: { crewId: { [Op.in]: mine.map((m) => m.crewId) }, userId: { [Op.ne]: viewer.id } }, include: [{ model: User, as: 'user' }] });
+      const mates = await CrewMember.findAll({
+        where: { crewId: { [Op.in]: mine.map((m) => m.crewId) }, userId: { [Op.ne]: viewer.id } },
+        include: [{ model: User, as: 'user' }],
+      });
       const active = mates.filter((m) => m.user && m.user.status === 'active');
       if (!active.length) return [];
-      const printers = await Printer.findAll({ where: { ownerId: { [Op.in]: [...new Set(active.map((m) => m.userId))] } }, order: [['name', 'ASC'], ['id', 'ASC']] });
+      const printers = await Printer.findAll({
+        where: { ownerId: { [Op.in]: [...new Set(active.map((m) => m.userId))] } },
+        order: [
+          ['name', 'ASC'],
+          ['id', 'ASC'],
+        ],
+      });
       const out: CrewPrinter[] = [];
       for (const m of active) {
         const crew = mine.find((c) => c.crewId === m.crewId)!.crew!;
         for (const p of printers.filter((x) => x.ownerId === m.userId)) {
-          out.push({ id: p.id, name: p.name, watts: p.watts, nozzleMm: p.nozzleMm, bedMm: p.bedMm(), owner: person(m.user, m.userId), crew: { id: crew.id, name: crew.name, currency: crew.currency } });
+          out.push({
+            id: p.id,
+            name: p.name,
+            watts: p.watts,
+            nozzleMm: p.nozzleMm,
+            bedMm: p.bedMm(),
+            owner: person(m.user, m.userId),
+            crew: { id: crew.id, name: crew.name, currency: crew.currency },
+          });
         }
       }
-      return out.sort((a, b) => a.crew.name.localeCompare(b.crew.name) || a.owner.displayName.localeCompare(b.owner.displayName) || a.name.localeCompare(b.name));
+      return out.sort(
+        (a, b) => a.crew.name.localeCompare(b.crew.name) || a.owner.displayName.localeCompare(b.owner.displayName) || a.name.localeCompare(b.name),
+      );
     },
 
     async list(viewer: User): Promise<PrintRequestList> {
       const rows = await PrintRequest.findAll({
         where: { [Op.or]: [{ ownerId: viewer.id }, { requesterId: viewer.id }] },
         include: withPeople,
-        order: [['updatedAt', 'DESC'], ['id', 'DESC']],
+        order: [
+          ['updatedAt', 'DESC'],
+          ['id', 'DESC'],
+        ],
         limit: 500,
       });
       const forMe = rows.filter((r) => r.ownerId === viewer.id);
@@ -219,7 +252,9 @@ export function createPrintRequestsService({ sequelize, mail, publicUrl: configu
         forMe: await Promise.all(forMe.map((r) => present(r, viewer))),
         mine: await Promise.all(mine.map((r) => present(r, viewer))),
         totals: {
-          owedToMe: totalsBy(forMe.filter((r) => isOwed(r.status, r.paymentStatus)).map((r) => ({ currency: r.currency, minor: r.frozenPrice?.totalMinor ?? 0 }))),
+          owedToMe: totalsBy(
+            forMe.filter((r) => isOwed(r.status, r.paymentStatus)).map((r) => ({ currency: r.currency, minor: r.frozenPrice?.totalMinor ?? 0 })),
+          ),
           paidToMe: totalsBy(forMe.map((r) => ({ currency: r.currency, minor: kept(r) }))),
           iPaid: totalsBy(mine.map((r) => ({ currency: r.currency, minor: kept(r) }))),
         },
@@ -316,4 +351,3 @@ export function createPrintRequestsService({ sequelize, mail, publicUrl: configu
 }
 
 export type PrintRequestsService = ReturnType<typeof createPrintRequestsService>;
-

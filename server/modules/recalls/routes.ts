@@ -9,14 +9,22 @@ import type { RecallService } from './service';
 export function kitRecallRoutes(recalls: RecallService) {
   const router = Router();
 
-  router.get('/:id/recalls', requireAuth, handler({ params: idParamSchema }, async ({ params }, req, res) => {
-    res.json({ items: await recalls.forKit(currentUser(req)!, params.id) });
-  }));
+  router.get(
+    '/:id/recalls',
+    requireAuth,
+    handler({ params: idParamSchema }, async ({ params }, req, res) => {
+      res.json({ items: await recalls.forKit(currentUser(req)!, params.id) });
+    }),
+  );
 
-  router.post('/:id/recalls/:recallId/acknowledge', requireAuth, handler({ params: recallParamsSchema }, async ({ params }, req, res) => {
-    await recalls.acknowledge(currentUser(req)!, params.id, params.recallId);
-    res.status(204).end();
-  }));
+  router.post(
+    '/:id/recalls/:recallId/acknowledge',
+    requireAuth,
+    handler({ params: recallParamsSchema }, async ({ params }, req, res) => {
+      await recalls.acknowledge(currentUser(req)!, params.id, params.recallId);
+      res.status(204).end();
+    }),
+  );
 
   return router;
 }

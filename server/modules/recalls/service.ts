@@ -21,7 +21,11 @@ async function cautionTexts(revisionId: number, t: Transaction): Promise<string[
   if (!rev) return [];
   const recipes = await Recipe.findAll({ where: { revisionId }, attributes: ['material'], transaction: t });
   const flags = { carriesLoad: rev.carriesLoad, overhead: rev.overhead, vehicle: rev.vehicle, heat: rev.heat };
-  return safetyCautions(flags, rev.testedLoadKg, recipes.map((r) => r.material)).map((c) => c.text);
+  return safetyCautions(
+    flags,
+    rev.testedLoadKg,
+    recipes.map((r) => r.material),
+  ).map((c) => c.text);
 }
 
 /** The warnings set reports raise about a part, as the part page shows them (every member's, one per production). */
@@ -32,7 +36,17 @@ export async function reportWarningTexts(partId: number, t: Transaction, extra: 
     order: [['id', 'ASC']],
     transaction: t,
   });
-  const facts: ReportFacts[] = [...rows.map((r) => ({ userId: r.userId, production: r.production, createdAt: r.createdAt, outcome: r.outcome, material: r.material, conditions: r.conditions })), ...extra];
+  const facts: ReportFacts[] = [
+    ...rows.map((r) => ({
+      userId: r.userId,
+      production: r.production,
+      createdAt: r.createdAt,
+      outcome: r.outcome,
+      material: r.material,
+      conditions: r.conditions,
+    })),
+    ...extra,
+  ];
   return evidenceWarnings(onePerMemberAndProduction(facts)).map((w) => w.text);
 }
 

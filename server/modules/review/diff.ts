@@ -18,7 +18,11 @@ const FIELDS: { field: string; label: string; show: (p: PartDetail) => string }[
   { field: 'licence', label: 'Licence', show: (p) => p.licence.id },
   { field: 'bodies', label: 'Camera bodies', show: (p) => p.compatibility.bodies.map((b) => `${b.maker} ${b.model}`).join(', ') },
   { field: 'mounts', label: 'Mount standards', show: (p) => p.compatibility.mounts.map((m) => (m.note ? `${m.label} (${m.note})` : m.label)).join(', ') },
-  { field: 'keyDimensions', label: 'Key dimensions', show: (p) => p.compatibility.keyDimensions.map((d) => `${d.name} ${d.valueMm} ± ${d.tolMm} mm`).join('; ') },
+  {
+    field: 'keyDimensions',
+    label: 'Key dimensions',
+    show: (p) => p.compatibility.keyDimensions.map((d) => `${d.name} ${d.valueMm} ± ${d.tolMm} mm`).join('; '),
+  },
   { field: 'safety.carriesLoad', label: 'Carries load', show: (p) => yesNo(p.safety.carriesLoad) },
   { field: 'safety.overhead', label: 'Used overhead', show: (p) => yesNo(p.safety.overhead) },
   { field: 'safety.vehicle', label: 'Used on a vehicle', show: (p) => yesNo(p.safety.vehicle) },
@@ -29,10 +33,21 @@ const FIELDS: { field: string; label: string; show: (p: PartDetail) => string }[
     label: 'Recipes',
     show: (p) =>
       p.recipes
-        .map((r) => `${r.purpose} ${r.material}, ${r.nozzleMm} mm nozzle, ${r.layerMm} mm layers, ${r.walls} walls, ${r.infillPct} % ${r.infillPattern}, ${r.hotendC}/${r.bedC} °C`)
+        .map(
+          (r) =>
+            `${r.purpose} ${r.material}, ${r.nozzleMm} mm nozzle, ${r.layerMm} mm layers, ${r.walls} walls, ${r.infillPct} % ${r.infillPattern}, ${r.hotendC}/${r.bedC} °C`,
+        )
         .join('\n'),
   },
-  { field: 'files', label: 'Files', show: (p) => p.files.map((f) => `${f.kind}: ${f.name}`).sort().join('\n') },
+  {
+    field: 'files',
+    label: 'Files',
+    show: (p) =>
+      p.files
+        .map((f) => `${f.kind}: ${f.name}`)
+        .sort()
+        .join('\n'),
+  },
 ];
 
 export function diffParts(before: PartDetail, after: PartDetail): Change[] {

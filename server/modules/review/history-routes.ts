@@ -7,8 +7,12 @@ import type { ReviewService } from './service';
 /** GET /api/parts/:id/history — the audit trail of one part. */
 export function partHistoryRoutes(review: ReviewService) {
   const router = Router();
-  router.get('/:id/history', requireAuth, handler({ params: idParamSchema }, async ({ params }, req, res) => {
-    res.json({ items: await review.history(currentUser(req)!, params.id) });
-  }));
+  router.get(
+    '/:id/history',
+    requireAuth,
+    handler({ params: idParamSchema }, async ({ params }, req, res) => {
+      res.json({ items: await review.history(currentUser(req)!, params.id) });
+    }),
+  );
   return router;
 }

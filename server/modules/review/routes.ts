@@ -14,18 +14,27 @@ export function reviewRoutes(review: ReviewService) {
 
   const params = partIdParamSchema;
 
-  router.get('/:partId', handler({ params }, async ({ params }, req, res) => {
-    res.json(await review.detail(currentUser(req)!, params.partId));
-  }));
+  router.get(
+    '/:partId',
+    handler({ params }, async ({ params }, req, res) => {
+      res.json(await review.detail(currentUser(req)!, params.partId));
+    }),
+  );
 
-  router.post('/:partId/approve', handler({ params, body: approveSchema }, async ({ params, body }, req, res) => {
-    res.json(await review.decide(currentUser(req)!, params.partId, 'approve', body));
-  }));
+  router.post(
+    '/:partId/approve',
+    handler({ params, body: approveSchema }, async ({ params, body }, req, res) => {
+      res.json(await review.decide(currentUser(req)!, params.partId, 'approve', body));
+    }),
+  );
 
   for (const action of ['send-back', 'reject', 'retire'] as const) {
-    router.post(`/:partId/${action}`, handler({ params, body: noteRequiredSchema }, async ({ params, body }, req, res) => {
-      res.json(await review.decide(currentUser(req)!, params.partId, action, body));
-    }));
+    router.post(
+      `/:partId/${action}`,
+      handler({ params, body: noteRequiredSchema }, async ({ params, body }, req, res) => {
+        res.json(await review.decide(currentUser(req)!, params.partId, action, body));
+      }),
+    );
   }
 
   return router;

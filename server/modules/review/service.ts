@@ -29,7 +29,12 @@ export interface ReviewDeps {
    * Called inside every decision's transaction once the part's state is written: recalls on kits and
    * the adaptation notice. `previousRevisionId` is the revision that was on the shelf before.
    */
-  onDecision?: (part: Part, action: Exclude<ReviewAction, 'submit'>, info: { previousRevisionId: number | null; note: string | null }, t: Transaction) => Promise<void>;
+  onDecision?: (
+    part: Part,
+    action: Exclude<ReviewAction, 'submit'>,
+    info: { previousRevisionId: number | null; note: string | null },
+    t: Transaction,
+  ) => Promise<void>;
 }
 
 const AUDIT_ACTION: Record<ReviewAction, AuditAction> = {
@@ -112,7 +117,15 @@ export function createReviewService({ sequelize, mail, publicUrl, onDecided, onP
   const partLink = (part: Part) => `${publicUrl}/parts/${part.slug}`;
   const deskLink = (part: Part) => `${publicUrl}/review/${part.id}`;
 
-  async function record(actor: User, part: Part, revision: PartRevision | null, action: AuditAction, note: string | null, details: Record<string, unknown>, t: Transaction) {
+  async function record(
+    actor: User,
+    part: Part,
+    revision: PartRevision | null,
+    action: AuditAction,
+    note: string | null,
+    details: Record<string, unknown>,
+    t: Transaction,
+  ) {
     await AuditEvent.create({ partId: part.id, revisionId: revision?.id ?? null, actorId: actor.id, action, note, details }, { transaction: t });
   }
 
@@ -150,11 +163,20 @@ export function createReviewService({ sequelize, mail, publicUrl, onDecided, onP
       const isRevision = revision.number > 1;
       await notices.notify(
         mods.ids,
-        { kind: 'review', title: `${isRevision ? 'Changes to review' : 'New submission'}: ${revision.title}`, body: `From ${actor.displayName}.`, link: `/review/${part.id}` },
+        {
+          kind: 'review',
+          title: `${isRevision ? 'Changes to review' : 'New submission'}: ${revision.title}`,
+          body: `From ${actor.displayName}.`,
+          link: `/review/${part.id}`,
+        },
         t,
       );
       if (mods.emails.length) {
-        await mail.enqueue(mods.emails, mailTemplates.newSubmission({ partTitle: revision.title, contributor: actor.displayName, link: deskLink(part), isRevision }), t);
+        await mail.enqueue(
+          mods.emails,
+          mailTemplates.newSubmission({ partTitle: revision.title, contributor: actor.displayName, link: deskLink(part), isRevision }),
+          t,
+        );
       }
     },
 
@@ -164,7 +186,12 @@ export function createReviewService({ sequelize, mail, publicUrl, onDecided, onP
       await record(actor, part, revision, 'edit', null, { revision: revision.number, lines, ...change }, t);
       await notices.notify(
         [part.authorId],
-        { kind: 'review', title: `Changed by ${actor.displayName}: ${revision.title}`, body: lines.join('\n') || 'No visible change.', link: `/parts/${part.slug}` },
+        {
+          kind: 'review',
+          title: `Changed by ${actor.displayName}: ${revision.title}`,
+          body: lines.join('\n') || 'No visible change.',
+          link: `/parts/${part.slug}`,
+        },
         t,
       );
     },
@@ -173,7 +200,10 @@ export function createReviewService({ sequelize, mail, publicUrl, onDecided, onP
       const revisions = await PartRevision.findAll({
         where: { status: 'in_review' },
         include: [{ model: Part, as: 'part', required: true, include: [{ model: User, as: 'author' }] }],
-        order: [['submittedAt', 'ASC'], ['id', 'ASC']],
+        order: [
+          ['submittedAt', 'ASC'],
+          ['id', 'ASC'],
+        ],
       });
       const now = Date.now();
       return Promise.all(
@@ -206,9 +236,7 @@ export function createReviewService({ sequelize, mail, publicUrl, onDecided, onP
       if (!part) throw AppError.notFound('There is no part with that id.');
       const submission = await presentPart(part, part.latestRevisionId!, actor);
       const published =
-        part.publishedRevisionId && part.publishedRevisionId !== part.latestRevisionId
-          ? await presentPart(part, part.publishedRevisionId, actor)
-          : null;
+        part.publishedRevisionId && part.publishedRevisionId !== part.latestRevisionId ? await presentPart(part, part.publishedRevisionId, actor) : null;
       const state: ReviewState = part.status === 'retired' ? 'retired' : submission.revision.status;
       const latest = await PartRevision.findByPk(part.latestRevisionId!);
       const own = part.authorId === actor.id || latest?.createdBy === actor.id;
@@ -233,13 +261,13 @@ export function createReviewService({ sequelize, mail, publicUrl, onDecided, onP
         // the row lock makes concurrent decisions on one part take turns; the loser sees the new state
         const part = await Part.findByPk(partId, { transaction: t, lock: t.LOCK.UPDATE });
         if (!part) throw AppError.notFound('There is no part with that id.');
-        const revision =
-          action === 'retire' ? null : await PartRevision.findByPk(part.latestRevisionId!, { transaction: t, lock: t.LOCK.UPDATE });
+        const revision = action === 'retire' ? null : await PartRevision.findByPk(part.latestRevisionId!, { transaction: t, lock: t.LOCK.UPDATE });
         fourEyes(actor, part, revision);
         if (action === 'approve' && revision) await notEditedBy(actor, revision, t);
 
         const previousRevisionId = part.publishedRevisionId;
-        const from: ReviewState = action === 'retire' ? (part.status === 'retired' ? 'retired' : part.publishedRevisionId ? 'published' : part.status) : revision!.status;
+        const from: ReviewState =
+          action === 'retire' ? (part.status === 'retired' ? 'retired' : part.publishedRevisionId ? 'published' : part.status) : revision!.status;
         const step = transition(from, action);
         if (!step.ok) throw await alreadyDecided(part, revision, step.message, t);
 
@@ -259,7 +287,15 @@ export function createReviewService({ sequelize, mail, publicUrl, onDecided, onP
         await onDecision?.(part, action, { previousRevisionId, note }, t);
 
         const shown = revision ?? (await PartRevision.findByPk(part.publishedRevisionId!, { transaction: t }))!;
-        await record(actor, part, revision ?? shown, AUDIT_ACTION[action], note, { from, to: step.to, revision: shown.number, checklist: input.checklist ?? [] }, t);
+        await record(
+          actor,
+          part,
+          revision ?? shown,
+          AUDIT_ACTION[action],
+          note,
+          { from, to: step.to, revision: shown.number, checklist: input.checklist ?? [] },
+          t,
+        );
 
         const author = (await User.findByPk(part.authorId, { transaction: t }))!;
         await notices.notify(
@@ -287,7 +323,10 @@ export function createReviewService({ sequelize, mail, publicUrl, onDecided, onP
       const events = await AuditEvent.findAll({
         where: { partId, ...(isModerator(viewer) ? {} : { action: { [Op.in]: CONTRIBUTOR_VISIBLE } }) },
         include: [{ model: User, as: 'actor' }],
-        order: [['createdAt', 'ASC'], ['id', 'ASC']],
+        order: [
+          ['createdAt', 'ASC'],
+          ['id', 'ASC'],
+        ],
       });
       return events.map((e) => ({
         id: e.id,

@@ -38,7 +38,12 @@ async function keyDimensionsOf(partIds: number[]): Promise<Map<number, FitSize[]
     attributes: ['id', 'publishedRevisionId'],
     include: [{ model: PartRevision, as: 'publishedRevision', attributes: ['id', 'keyDimensions'] }],
   });
-  return new Map(parts.map((p) => [p.id, (p.publishedRevision?.keyDimensions ?? []).map((d) => ({ name: d.name, valueMm: Number(d.valueMm), tolMm: Number(d.tolMm ?? 0) }))]));
+  return new Map(
+    parts.map((p) => [
+      p.id,
+      (p.publishedRevision?.keyDimensions ?? []).map((d) => ({ name: d.name, valueMm: Number(d.valueMm), tolMm: Number(d.tolMm ?? 0) })),
+    ]),
+  );
 }
 
 export function buildSearchRoutes(search: Searching) {
@@ -69,7 +74,11 @@ export function buildSearchRoutes(search: Searching) {
     const dims = await keyDimensionsOf(pool.map((r) => r.id));
     const marked: BuildSearchResultItem[] = pool.map((r) => {
       for (const b of r.bodies) if (!bodyLabel.has(b.slug)) bodyLabel.set(b.slug, `${b.maker} ${b.model}`);
-      const fit = fitPartToBuild({ bodies: r.bodies.map((b) => b.slug), mounts: r.mounts.map((m) => m.slug), keyDimensions: dims.get(r.id) ?? [] }, fitBuild, labels);
+      const fit = fitPartToBuild(
+        { bodies: r.bodies.map((b) => b.slug), mounts: r.mounts.map((m) => m.slug), keyDimensions: dims.get(r.id) ?? [] },
+        fitBuild,
+        labels,
+      );
       return { ...r, fit: { verdict: fit.verdict, summary: fit.summary, reasons: fit.reasons } };
     });
     const fitCounts: Record<FitVerdict, number> = { fits: 0, 'may-fit': 0, not: 0 };

@@ -57,19 +57,21 @@ export async function loadDocuments(): Promise<SearchDocument[]> {
   const parts = await Part.findAll({ where: PUBLISHED, order: [['id', 'ASC']] });
   const revisionIds = parts.map((p) => p.publishedRevisionId!);
 
-  const revisions = new Map(
-    (await inChunks(revisionIds, (ids) => PartRevision.findAll({ where: { id: { [Op.in]: ids } } }))).map((r) => [r.id, r]),
-  );
+  const revisions = new Map((await inChunks(revisionIds, (ids) => PartRevision.findAll({ where: { id: { [Op.in]: ids } } }))).map((r) => [r.id, r]));
   const bodyLinks = await inChunks(revisionIds, (ids) => RevisionBody.findAll({ where: { revisionId: { [Op.in]: ids } }, raw: true }));
   const bodyIds = [...new Set(bodyLinks.map((l) => (l as unknown as { bodyId: number }).bodyId))];
-  const bodies = new Map(
-    (await inChunks(bodyIds, (ids) => CameraBody.findAll({ where: { id: { [Op.in]: ids } } }))).map((b) => [b.id, b]),
-  );
+  const bodies = new Map((await inChunks(bodyIds, (ids) => CameraBody.findAll({ where: { id: { [Op.in]: ids } } }))).map((b) => [b.id, b]));
   const recipes = await inChunks(revisionIds, (ids) =>
     Recipe.findAll({ where: { revisionId: { [Op.in]: ids } }, attributes: ['revisionId', 'material', 'position'], order: [['position', 'ASC']] }),
   );
   const fileLinks = await inChunks(revisionIds, (ids) =>
-    RevisionFile.findAll({ where: { revisionId: { [Op.in]: ids } }, order: [['position', 'ASC'], ['fileId', 'ASC']] }),
+    RevisionFile.findAll({
+      where: { revisionId: { [Op.in]: ids } },
+      order: [
+        ['position', 'ASC'],
+        ['fileId', 'ASC'],
+      ],
+    }),
   );
   const files = new Map(
     (await inChunks([...new Set(fileLinks.map((l) => l.fileId))], (ids) => PartFile.findAll({ where: { id: { [Op.in]: ids } } }))).map((f) => [f.id, f]),

@@ -65,8 +65,14 @@ export function unpackRanks(data: Float64Array): Map<number, Rank> {
   const ranks = new Map<number, Rank>();
   const orNull = (v: number) => (Number.isNaN(v) ? null : v);
   for (let i = 0; i < data.length; i += RANK_FIELDS) {
-    ranks.set(data[i], { proven: data[i + 1], reports: data[i + 2], mean: orNull(data[i + 3]), count: data[i + 4], adjusted: orNull(data[i + 5]), heldUp: data[i + 6] });
+    ranks.set(data[i], {
+      proven: data[i + 1],
+      reports: data[i + 2],
+      mean: orNull(data[i + 3]),
+      count: data[i + 4],
+      adjusted: orNull(data[i + 5]),
+      heldUp: data[i + 6],
+    });
   }
   return ranks;
 }
-

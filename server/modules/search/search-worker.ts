@@ -58,7 +58,14 @@ function install(documents: SearchDocument[], bodies: SearchBody[], index: lunr.
   searcher = createSearcher({ index, documents, bodies });
 }
 
-function ready(source: 'file' | 'build', reason: string | null, fingerprint: string, builtAt: string, buildMs: number | null, writeError: string | null): WorkerReply {
+function ready(
+  source: 'file' | 'build',
+  reason: string | null,
+  fingerprint: string,
+  builtAt: string,
+  buildMs: number | null,
+  writeError: string | null,
+): WorkerReply {
   const docs = searcher!.documents;
   return { type: 'ready', source, reason, fingerprint, builtAt, documents: docs.length, ids: Int32Array.from(docs, (d) => d.id), buildMs, writeError };
 }
@@ -78,7 +85,8 @@ async function readIndexFile(fingerprint: string | null): Promise<{ file: IndexF
   }
   if (parsed?.format !== SEARCH_FORMAT) return `has format ${String(parsed?.format)}, this version writes ${SEARCH_FORMAT}`;
   if (fingerprint !== null && parsed.fingerprint !== fingerprint) return 'is out of date with the shelf';
-  if (!Array.isArray(parsed.documents) || !Array.isArray(parsed.bodies) || typeof parsed.index !== 'object' || !parsed.index) return 'is corrupt (missing parts)';
+  if (!Array.isArray(parsed.documents) || !Array.isArray(parsed.bodies) || typeof parsed.index !== 'object' || !parsed.index)
+    return 'is corrupt (missing parts)';
   try {
     return { file: parsed, index: lunr.Index.load(parsed.index) };
   } catch {
@@ -130,7 +138,8 @@ async function handle(message: WorkerRequest): Promise<WorkerReply | null> {
         if (!searcher) throw new AppError(503, 'search_starting', 'Search is still starting up. Try again in a few seconds.');
         return { type: 'answer', id: message.id, ok: true, response: searcher.search(message.query, ranks, message.visibility) };
       } catch (err) {
-        if (err instanceof AppError) return { type: 'answer', id: message.id, ok: false, error: { status: err.status, code: err.code, message: err.message, fields: err.fields } };
+        if (err instanceof AppError)
+          return { type: 'answer', id: message.id, ok: false, error: { status: err.status, code: err.code, message: err.message, fields: err.fields } };
         return { type: 'answer', id: message.id, ok: false, error: { status: 500, code: 'search_failed', message: (err as Error).message } };
       }
   }

@@ -67,7 +67,11 @@ function present(m: Match, ranks: Ranks, groupTexts: readonly string[]): SearchR
     title: doc.title,
     summary: doc.summary,
     sizeMm: doc.sizeMm ? [doc.sizeMm[0], doc.sizeMm[1], doc.sizeMm[2]] : null,
-    mounts: doc.mounts.map((mount) => ({ slug: mount.slug, label: mountStandard(mount.slug)?.label ?? mount.slug, ...(mount.note ? { note: mount.note } : {}) })),
+    mounts: doc.mounts.map((mount) => ({
+      slug: mount.slug,
+      label: mountStandard(mount.slug)?.label ?? mount.slug,
+      ...(mount.note ? { note: mount.note } : {}),
+    })),
     bodies: doc.bodies.map((b) => ({ slug: b.slug, maker: b.maker, model: b.model })),
     rating: rank.mean,
     ratingCount: rank.count,
@@ -98,12 +102,7 @@ export interface TextContext {
  * match more of the typed groups come first (coordination); by relevance, then the closest key
  * dimension, then lunr's score.
  */
-export function filterAndPage(
-  matches: Match[],
-  query: SearchQuery & SearchFilters,
-  text: TextContext | boolean,
-  ranks: Ranks = new Map(),
-): SearchResponse {
+export function filterAndPage(matches: Match[], query: SearchQuery & SearchFilters, text: TextContext | boolean, ranks: Ranks = new Map()): SearchResponse {
   const ctx: TextContext = typeof text === 'boolean' ? { ranked: text, groupTexts: [] } : text;
   const filtered = matches.filter((m) => matchesFilters(m.doc, query));
   const rankOf = (m: Match) => ranks.get(m.doc.id) ?? UNRANKED;
@@ -117,7 +116,10 @@ export function filterAndPage(
     filtered.sort(
       (a, b) =>
         coordination(a, b) ||
-        compareProven({ provenScore: rankOf(a).proven, adjustedRating: rankOf(a).adjusted ?? 0 }, { provenScore: rankOf(b).proven, adjustedRating: rankOf(b).adjusted ?? 0 }) ||
+        compareProven(
+          { provenScore: rankOf(a).proven, adjustedRating: rankOf(a).adjusted ?? 0 },
+          { provenScore: rankOf(b).proven, adjustedRating: rankOf(b).adjusted ?? 0 },
+        ) ||
         b.score - a.score ||
         newestFirst(a.doc, b.doc),
     );

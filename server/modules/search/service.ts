@@ -51,7 +51,10 @@ export class SearchWorker {
   private exited = false;
   ready: Ready | null = null;
 
-  constructor(data: SearchWorkerData, private readonly onStuck: (w: SearchWorker) => void = () => undefined) {
+  constructor(
+    data: SearchWorkerData,
+    private readonly onStuck: (w: SearchWorker) => void = () => undefined,
+  ) {
     this.worker = new Worker(BOOT, { eval: true, workerData: data });
     this.worker.unref();
     this.worker.on('message', (reply: WorkerReply) => {
@@ -97,7 +100,9 @@ export class SearchWorker {
     return new Promise<Answer>((resolve, reject) => {
       const timer = setTimeout(() => {
         this.answers.delete(id);
-        reject(new AppError(503, 'search_too_costly', 'This search took too long and was stopped. Use fewer words with wildcards (*) or typos (~), then try again.'));
+        reject(
+          new AppError(503, 'search_too_costly', 'This search took too long and was stopped. Use fewer words with wildcards (*) or typos (~), then try again.'),
+        );
         this.onStuck(this);
       }, timeoutMs);
       this.answers.set(id, { resolve, reject, timer });

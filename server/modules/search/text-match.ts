@@ -290,7 +290,9 @@ export function syntaxMatches(index: lunr.Index, text: string, original: string,
   const anyOf: string[][] = [];
   for (const clause of clauses) {
     budget.check();
-    const words = clause.usePipeline ? (internals.pipeline as unknown as { runString(s: string, meta: object): string[] }).runString(clause.term, { fields: clause.fields }) : [clause.term];
+    const words = clause.usePipeline
+      ? (internals.pipeline as unknown as { runString(s: string, meta: object): string[] }).runString(clause.term, { fields: clause.fields })
+      : [clause.term];
     const terms = new Set<string>();
     for (const word of words) {
       const automaton = clause.editDistance ? TokenSet.fromFuzzyString(word, clause.editDistance) : TokenSet.fromString(word);

@@ -7,7 +7,12 @@ import { CameraBody } from '../../db/models';
 export function vocabRoutes() {
   const router = Router();
   router.get('/', async (_req, res) => {
-    const bodies = await CameraBody.findAll({ order: [['maker', 'ASC'], ['model', 'ASC']] });
+    const bodies = await CameraBody.findAll({
+      order: [
+        ['maker', 'ASC'],
+        ['model', 'ASC'],
+      ],
+    });
     res.setHeader('Cache-Control', 'private, max-age=60');
     res.json({
       categories: CATEGORIES,
@@ -16,7 +21,16 @@ export function vocabRoutes() {
       materials: MATERIAL_IDS.map((id) => materialInfo(id)),
       licences: LICENCE_IDS.map((id) => {
         const l = licenceInfo(id);
-        return { id, name: l.name, shortName: l.shortName, url: l.url, attributionRequired: l.attributionRequired, shareAlike: l.shareAlike, nonCommercial: l.nonCommercial, noDerivatives: l.noDerivatives };
+        return {
+          id,
+          name: l.name,
+          shortName: l.shortName,
+          url: l.url,
+          attributionRequired: l.attributionRequired,
+          shareAlike: l.shareAlike,
+          nonCommercial: l.nonCommercial,
+          noDerivatives: l.noDerivatives,
+        };
       }),
       safetyFlags: SAFETY_FLAGS,
     });

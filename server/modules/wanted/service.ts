@@ -89,7 +89,12 @@ export function createWantedService({ sequelize, storage, photos, mail, publicUr
     const title = await partTitle(part, t);
     await notices.notify(
       [requester.id],
-      { kind: 'wanted', title: `A part for your request: ${request.title}`, body: `${answerer?.displayName ?? 'A crew member'} pointed to “${title}”, on the shelf now.`, link: `/wanted/${request.id}` },
+      {
+        kind: 'wanted',
+        title: `A part for your request: ${request.title}`,
+        body: `${answerer?.displayName ?? 'A crew member'} pointed to “${title}”, on the shelf now.`,
+        link: `/wanted/${request.id}`,
+      },
       t,
     );
     await mail.enqueue(
@@ -145,12 +150,24 @@ export function createWantedService({ sequelize, storage, photos, mail, publicUr
         for (const f of files) {
           rows.push(
             await WantedPhoto.create(
-              { requestId: request.id, storedName: randomStoredName(''), originalName: f.originalName, sizeBytes: f.size, sha256: f.sha256, width: null, height: null },
+              {
+                requestId: request.id,
+                storedName: randomStoredName(''),
+                originalName: f.originalName,
+                sizeBytes: f.size,
+                sha256: f.sha256,
+                width: null,
+                height: null,
+              },
               { transaction: t },
             ),
           );
         }
-        undo = await placeFiles(storage, rows.map((row, i) => ({ from: files[i].path, key: keysOf({ kind: 'photo', storedName: row.storedName }).original })), t);
+        undo = await placeFiles(
+          storage,
+          rows.map((row, i) => ({ from: files[i].path, key: keysOf({ kind: 'photo', storedName: row.storedName }).original })),
+          t,
+        );
         await t.commit();
         for (const row of rows) photos.clean(row, () => WantedPhoto.findByPk(row.id));
         return { id: request.id };
@@ -180,12 +197,23 @@ export function createWantedService({ sequelize, storage, photos, mail, publicUr
         // open requests: the nearest needed-by date first, then the newest
         order:
           query.status === 'open'
-            ? [[sequelize.literal('`WantedRequest`.`needed_by` IS NULL'), 'ASC'], ['neededBy', 'ASC'], ['createdAt', 'DESC'], ['id', 'DESC']]
-            : [['createdAt', 'DESC'], ['id', 'DESC']],
+            ? [
+                [sequelize.literal('`WantedRequest`.`needed_by` IS NULL'), 'ASC'],
+                ['neededBy', 'ASC'],
+                ['createdAt', 'DESC'],
+                ['id', 'DESC'],
+              ]
+            : [
+                ['createdAt', 'DESC'],
+                ['id', 'DESC'],
+              ],
         limit: query.limit,
       });
       const counts = rows.length
-        ? ((await WantedAnswer.count({ where: { requestId: { [Op.in]: rows.map((r) => r.id) } }, group: ['requestId'] })) as unknown as { requestId: number; count: number }[])
+        ? ((await WantedAnswer.count({ where: { requestId: { [Op.in]: rows.map((r) => r.id) } }, group: ['requestId'] })) as unknown as {
+            requestId: number;
+            count: number;
+          }[])
         : [];
       const byId = new Map(counts.map((c) => [c.requestId, Number(c.count)]));
       return rows.map((r) => listItem(r, byId.get(r.id) ?? 0));
@@ -199,9 +227,19 @@ export function createWantedService({ sequelize, storage, photos, mail, publicUr
           { model: User, as: 'closer', attributes: ['id', 'displayName'] },
           { model: CameraBody, as: 'body' },
           { model: WantedPhoto, as: 'photos' },
-          { model: WantedAnswer, as: 'answers', include: [{ model: User, as: 'user', attributes: ['id', 'displayName'] }, { model: Part, as: 'part' }] },
+          {
+            model: WantedAnswer,
+            as: 'answers',
+            include: [
+              { model: User, as: 'user', attributes: ['id', 'displayName'] },
+              { model: Part, as: 'part' },
+            ],
+          },
         ],
-        order: [[{ model: WantedPhoto, as: 'photos' }, 'id', 'ASC'], [{ model: WantedAnswer, as: 'answers' }, 'id', 'ASC']],
+        order: [
+          [{ model: WantedPhoto, as: 'photos' }, 'id', 'ASC'],
+          [{ model: WantedAnswer, as: 'answers' }, 'id', 'ASC'],
+        ],
       }))!;
       const answers = r.answers ?? [];
       const audience = await audienceOf(viewer);
@@ -231,7 +269,11 @@ export function createWantedService({ sequelize, storage, photos, mail, publicUr
         closeNote: r.closeNote,
         photos: (r.photos ?? []).map((p) => photoUrls(r.id, p)),
         answerList,
-        can: { answer: r.status === 'open', close: r.status === 'open' && (own || isModerator(viewer)), closeAsSpam: r.status === 'open' && isModerator(viewer) },
+        can: {
+          answer: r.status === 'open',
+          close: r.status === 'open' && (own || isModerator(viewer)),
+          closeAsSpam: r.status === 'open' && isModerator(viewer),
+        },
       };
     },
 
@@ -244,10 +286,20 @@ export function createWantedService({ sequelize, storage, photos, mail, publicUr
         const onShelf = !!part && part.publishedRevisionId !== null && part.status === 'published';
         const own = !!part && part.authorId === actor.id;
         if (!part || !crewAllows(await audienceOf(actor, t), part) || (!onShelf && !own && !isModerator(actor))) {
-          throw AppError.field('part', 'There is no part with that id or address on the shelf. Link a published part, or one of yours that is in review.', 'Some fields need another look.');
+          throw AppError.field(
+            'part',
+            'There is no part with that id or address on the shelf. Link a published part, or one of yours that is in review.',
+            'Some fields need another look.',
+          );
         }
         if (!onShelf && part.status !== 'in_review') {
-          throw AppError.field('part', part.status === 'draft' || part.status === 'sent_back' ? 'That part is not with the review desk yet. Submit it for review, then link it here.' : 'That part is not on the shelf and will not be; link another one.', 'Some fields need another look.');
+          throw AppError.field(
+            'part',
+            part.status === 'draft' || part.status === 'sent_back'
+              ? 'That part is not with the review desk yet. Submit it for review, then link it here.'
+              : 'That part is not on the shelf and will not be; link another one.',
+            'Some fields need another look.',
+          );
         }
         if (!onShelf && !own) {
           throw AppError.field('part', 'A part in review can be linked by its author only. Link a published part instead.', 'Some fields need another look.');
@@ -255,12 +307,19 @@ export function createWantedService({ sequelize, storage, photos, mail, publicUr
         if (part.crewId != null) {
           const requester = await User.findByPk(request.authorId, { transaction: t });
           if (!requester || !crewAllows(await audienceOf(requester, t), part)) {
-            throw AppError.field('part', 'That part is published to a crew the person who asked is not in, so they could not open it. Link a part published to everyone, or ask them to join the crew.', 'Some fields need another look.');
+            throw AppError.field(
+              'part',
+              'That part is published to a crew the person who asked is not in, so they could not open it. Link a part published to everyone, or ask them to join the crew.',
+              'Some fields need another look.',
+            );
           }
         }
         let answer: WantedAnswer;
         try {
-          answer = await WantedAnswer.create({ requestId: request.id, partId: part.id, userId: actor.id, note: input.note, notifiedAt: null }, { transaction: t });
+          answer = await WantedAnswer.create(
+            { requestId: request.id, partId: part.id, userId: actor.id, note: input.note, notifiedAt: null },
+            { transaction: t },
+          );
         } catch (err) {
           if (err instanceof UniqueConstraintError) throw AppError.conflict('That part is already linked to this request.');
           throw err;
@@ -275,13 +334,22 @@ export function createWantedService({ sequelize, storage, photos, mail, publicUr
         const request = await loadVisible(actor, id, t, true);
         const own = request.authorId === actor.id;
         if (!own && !isModerator(actor)) throw AppError.forbidden('Only the crew member who asked can close this request; moderators close spam.');
-        if (input.reason === 'spam' && !isModerator(actor)) throw AppError.forbidden('Only a moderator can close a request as spam. Close it as solved or withdrawn.');
+        if (input.reason === 'spam' && !isModerator(actor))
+          throw AppError.forbidden('Only a moderator can close a request as spam. Close it as solved or withdrawn.');
         if (request.status !== 'open') throw AppError.conflict('This request is already closed.');
-        await request.update({ status: 'closed', closeReason: input.reason, closeNote: input.note || null, closedAt: new Date(), closedBy: actor.id }, { transaction: t });
+        await request.update(
+          { status: 'closed', closeReason: input.reason, closeNote: input.note || null, closedAt: new Date(), closedBy: actor.id },
+          { transaction: t },
+        );
         if (!own) {
           await notices.notify(
             [request.authorId],
-            { kind: 'wanted', title: `Request closed by a moderator: ${request.title}`, body: input.note || (input.reason === 'spam' ? 'Closed as spam.' : 'No note from the moderator.'), link: `/wanted/${request.id}` },
+            {
+              kind: 'wanted',
+              title: `Request closed by a moderator: ${request.title}`,
+              body: input.note || (input.reason === 'spam' ? 'Closed as spam.' : 'No note from the moderator.'),
+              link: `/wanted/${request.id}`,
+            },
             t,
           );
         }

@@ -226,7 +226,9 @@ export class Cluster {
       `  the shelf (haproxy)    ${this.url}`,
       `  haproxy stats          http://127.0.0.1:${ports.stats}/`,
       ...this.instances.map((i, n) => `  ${i.name}                   ${i.url}  (Galera node${n + 1}, 127.0.0.1:${ports.db[n]})`),
-      this.options.storage === 's3' ? `  S3 fake                ${this.s3Endpoint}  bucket ${S3_BUCKET}` : `  files                  ${resolve(this.options.dir, 'files')} (STORAGE=local)`,
+      this.options.storage === 's3'
+        ? `  S3 fake                ${this.s3Endpoint}  bucket ${S3_BUCKET}`
+        : `  files                  ${resolve(this.options.dir, 'files')} (STORAGE=local)`,
       `  data                   ${this.options.dir}`,
       `Ctrl-C stops the instances, haproxy, the S3 fake, then the Galera nodes.`,
     ].join('\n');

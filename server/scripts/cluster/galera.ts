@@ -105,10 +105,7 @@ export class GaleraNode {
     // bootstrapping a new cluster is a start-up choice, never written into the option file
     const state = this.grastate();
     if (state && state.seqno < 0 && !this.startPosition) await this.recoveredSeqno();
-    this.db.extraArgs = [
-      ...(bootstrap ? ['--wsrep-new-cluster'] : []),
-      ...(this.startPosition ? [`--wsrep-start-position=${this.startPosition}`] : []),
-    ];
+    this.db.extraArgs = [...(bootstrap ? ['--wsrep-new-cluster'] : []), ...(this.startPosition ? [`--wsrep-start-position=${this.startPosition}`] : [])];
     this.startPosition = null;
     this.log(`starting Galera ${this.name} on 127.0.0.1:${this.port}${bootstrap ? ' (bootstrapping the cluster)' : ''}`);
     await this.db.start();
@@ -117,10 +114,13 @@ export class GaleraNode {
 
   async status(): Promise<NodeStatus | null> {
     try {
-      const out = await this.db.sql(
-        "SHOW GLOBAL STATUS WHERE Variable_name IN ('wsrep_cluster_size', 'wsrep_local_state_comment', 'wsrep_ready')",
+      const out = await this.db.sql("SHOW GLOBAL STATUS WHERE Variable_name IN ('wsrep_cluster_size', 'wsrep_local_state_comment', 'wsrep_ready')");
+      const values = new Map(
+        out
+          .split('\n')
+          .filter(Boolean)
+          .map((l) => l.split('\t') as [string, string]),
       );
-      const values = new Map(out.split('\n').filter(Boolean).map((l) => l.split('\t') as [string, string]));
       return {
         size: Number(values.get('wsrep_cluster_size') ?? 0),
         state: values.get('wsrep_local_state_comment') ?? '',
@@ -203,7 +203,12 @@ export class GaleraNode {
 export class GaleraCluster {
   readonly nodes: GaleraNode[];
 
-  constructor(dir: string, ports: ClusterPorts, sst: 'rsync' | 'mariabackup' = 'rsync', private readonly log: (line: string) => void = console.log) {
+  constructor(
+    dir: string,
+    ports: ClusterPorts,
+    sst: 'rsync' | 'mariabackup' = 'rsync',
+    private readonly log: (line: string) => void = console.log,
+  ) {
     this.nodes = ports.db.map((_, i) => new GaleraNode(i, resolve(dir, `node${i + 1}`), ports, sst, log));
   }
 

@@ -79,7 +79,12 @@ export function startHaproxy(dir: string, ports: ClusterPorts, onLine: (line: st
   for (const stream of [child.stdout!, child.stderr!]) {
     stream.setEncoding('utf8');
     // a soft stop reports every proxy it stopped; that is not news
-    stream.on('data', (chunk: string) => chunk.split('\n').filter((l) => l && !/stopped \(cumulated conns/.test(l)).forEach(onLine));
+    stream.on('data', (chunk: string) =>
+      chunk
+        .split('\n')
+        .filter((l) => l && !/stopped \(cumulated conns/.test(l))
+        .forEach(onLine),
+    );
   }
   const exited = new Promise<void>((done) => child.once('exit', () => done()));
   return {

@@ -54,7 +54,10 @@ export class AppInstance {
         done();
       }),
     );
-    for (const [stream, source] of [['out', child.stdout!], ['err', child.stderr!]] as const) {
+    for (const [stream, source] of [
+      ['out', child.stdout!],
+      ['err', child.stderr!],
+    ] as const) {
       let rest = '';
       source.setEncoding('utf8');
       source.on('data', (chunk: string) => {
@@ -72,7 +75,11 @@ export class AppInstance {
       if (this.exit) break;
       await sleep(100);
     }
-    const tail = this.lines.slice(from).slice(-15).map((l) => l.text).join('\n');
+    const tail = this.lines
+      .slice(from)
+      .slice(-15)
+      .map((l) => l.text)
+      .join('\n');
     if (!this.exit) child.kill('SIGKILL');
     throw new Error(`${this.name} did not start:\n${tail}`);
   }

@@ -21,7 +21,10 @@ const baseSchema = z.coerce
   .int()
   .min(1024, 'CLUSTER_PORT_BASE must be 1024 or above')
   .max(65535 - 20, 'CLUSTER_PORT_BASE leaves no room for the 18 ports the cluster uses')
-  .refine((b) => ![3306, 4444, 4567, 4568].some((p) => p >= b && p <= b + 17), 'the cluster ports must not cover the MariaDB (3306) or Galera (4444, 4567, 4568) defaults')
+  .refine(
+    (b) => ![3306, 4444, 4567, 4568].some((p) => p >= b && p <= b + 17),
+    'the cluster ports must not cover the MariaDB (3306) or Galera (4444, 4567, 4568) defaults',
+  )
   .default(3440);
 
 export function clusterPorts(base?: string | number): ClusterPorts {
