@@ -47,7 +47,7 @@ const query = <T extends object>(sql: string, replacements: Record<string, unkno
   a.sequelize.query<T>(sql, { type: QueryTypes.SELECT, replacements });
 
 describe('instances · search', { timeout: 120_000 }, () => {
-  it('a part approved through one instance is found through the other, which swaps its index from the change log', async () => {
+  it('search across instances · a part approved through one instance · is found through the other, which swaps its index from the change log', async () => {
     const author = await signedIn(a, 'member');
     const moderator = await signedIn(a, 'moderator');
     const title = 'Quillon strap anchor';
@@ -87,7 +87,7 @@ describe('instances · rate limits', { timeout: 120_000 }, () => {
     return Infinity;
   }
 
-  it('two instances together allow the same number of failed sign-ins per account as one', async () => {
+  it('rate limits across instances · failed sign-ins on two instances · together allowed as often as on one', async () => {
     const one = await attemptsUntilRefused([a]);
     const two = await attemptsUntilRefused([a, b]);
     expect(one).toBe(4);
@@ -122,7 +122,7 @@ describe('instances · background jobs', { timeout: 180_000 }, () => {
     );
   }
 
-  it('jobs whose instance went away are split between instances polling at once, none claimed twice', async () => {
+  it('job claims · orphaned jobs polled by two instances at once · split between them, none claimed twice', async () => {
     await orphan(photoIds, 'gone-instance');
     const [mineA, mineB] = await Promise.all([a.services.claims.claimDue('photo', 'part_files', 4), b.services.claims.claimDue('photo', 'part_files', 4)]);
     expect([...mineA, ...mineB].sort((x, y) => x - y)).toEqual(photoIds);
@@ -136,7 +136,7 @@ describe('instances · background jobs', { timeout: 180_000 }, () => {
     });
   });
 
-  it('a photo whose instance died mid-clean is taken over by another instance, cleaned once, and the death is counted apart from failures', async () => {
+  it('job claims · a photo whose instance died mid-clean · taken over by another instance, cleaned once, the death counted apart from failures', async () => {
     const [id] = photoIds;
     const row = (await PartFile.findByPk(id))!;
     const raw = join(uploadsDir, 'incoming', row.storedName);
@@ -153,7 +153,7 @@ describe('instances · background jobs', { timeout: 180_000 }, () => {
     expect(existsSync(raw)).toBe(false);
   });
 
-  it('a photo that took two instances down is failed for good instead of being handed on again', async () => {
+  it('job claims · a photo that took two instances down · failed for good instead of being handed on again', async () => {
     const [, id] = photoIds;
     const row = (await PartFile.findByPk(id))!;
     writeFileSync(join(uploadsDir, 'incoming', row.storedName), await jpegWithGps(40, 30));
@@ -165,7 +165,7 @@ describe('instances · background jobs', { timeout: 180_000 }, () => {
     expect(row.processing).toBe('failed');
   });
 
-  it('a job never claimed (its instance died between commit and start) is taken once it has waited a lease', async () => {
+  it('job claims · a job never claimed (its instance died between commit and start) · taken once it has waited a lease', async () => {
     const [, , id] = photoIds;
     const row = (await PartFile.findByPk(id))!;
     writeFileSync(join(uploadsDir, 'incoming', row.storedName), await jpegWithGps(40, 30));
@@ -176,7 +176,7 @@ describe('instances · background jobs', { timeout: 180_000 }, () => {
     expect(row.processing).toBe('ready');
   });
 
-  it('the start-up sweep leaves files another instance may be writing when given a grace period', async () => {
+  it('start-up sweep · files another instance may be writing · left alone during the grace period', async () => {
     const fresh = join(uploadsDir, 'tmp', 'upload-in-progress');
     writeFileSync(fresh, 'half an upload');
     await b.services.parts.recover({ minAgeMs: 60 * 60_000 });
@@ -185,7 +185,7 @@ describe('instances · background jobs', { timeout: 180_000 }, () => {
     expect(existsSync(fresh)).toBe(false);
   });
 
-  it('a named lease is held by one instance at a time and taken over once it runs out', async () => {
+  it('named leases · two instances asking · held by one at a time and taken over once it runs out', async () => {
     expect(await a.services.claims.tryLease('test-chore', 1)).toBe(true);
     expect(await b.services.claims.tryLease('test-chore', 1)).toBe(false);
     await sleep(1100);
@@ -195,7 +195,7 @@ describe('instances · background jobs', { timeout: 180_000 }, () => {
 });
 
 describe('instances · mail', { timeout: 120_000 }, () => {
-  it('two outboxes delivering at once send each mail exactly once', async () => {
+  it('mail outbox · two outboxes delivering at once · each mail sent exactly once', async () => {
     const to = Array.from({ length: 12 }, (_, i) => `crew-${i}-${Date.now()}@crew.test`);
     await a.mailer.enqueue(to, { subject: 'Call sheet', text: 'Tomorrow 07:00.', html: '<p>Tomorrow 07:00.</p>' });
     await Promise.all([a.mailer.flush(), b.mailer.flush()]);
@@ -206,7 +206,7 @@ describe('instances · mail', { timeout: 120_000 }, () => {
 });
 
 describe('instances · migrations', { timeout: 120_000 }, () => {
-  it('instances starting at once migrate one at a time; the later ones find nothing left to do', async () => {
+  it('migrations · instances starting at once · migrate one at a time; the later ones find nothing left to do', async () => {
     const config = testConfig();
     const others = [createSequelize(config), createSequelize(config)];
     try {
@@ -237,7 +237,7 @@ describe('instances · migrations', { timeout: 120_000 }, () => {
 });
 
 describe('galera rules', () => {
-  it('every table has a primary key and is InnoDB (sessions, migration records and the shared-instance tables included)', async () => {
+  it('galera rules · every table · has a primary key and is InnoDB (sessions, migration records and the shared-instance tables included)', async () => {
     const tables = await query<{ name: string; engine: string; pk: number }>(
       `SELECT t.table_name AS name, t.engine,
               (SELECT COUNT(*) FROM information_schema.table_constraints c
@@ -252,7 +252,7 @@ describe('galera rules', () => {
     expect(tables.filter((t) => t.engine !== 'InnoDB').map((t) => t.name)).toEqual([]);
   });
 
-  it('no code takes table locks or named locks (Galera shares neither between nodes)', () => {
+  it('galera rules · the server code · takes no table locks or named locks (Galera shares neither between nodes)', () => {
     const root = resolve(import.meta.dirname, '../../server');
     const offenders: string[] = [];
     const walk = (dir: string) => {
@@ -268,7 +268,7 @@ describe('galera rules', () => {
 });
 
 describe('DB_HOSTS', { timeout: 60_000 }, () => {
-  it('reads host:port lists and names a bad entry', () => {
+  it('DB_HOSTS · host:port lists · read, a bad entry named', () => {
     const base = { ...process.env, DB_PASSWORD: 'x', SESSION_SECRET: 'a'.repeat(32) };
     expect(loadConfig({ ...base, DB_HOSTS: '10.0.0.5:3306, [::1]:3307' }).DB_HOSTS).toEqual([
       { host: '10.0.0.5', port: 3306 },
@@ -278,7 +278,7 @@ describe('DB_HOSTS', { timeout: 60_000 }, () => {
     expect(() => loadConfig({ ...base, DB_HOSTS: 'db1' })).toThrow(/DB_HOSTS: "db1" is not host:port/);
   });
 
-  it('connects through the first host that answers when the first in the list is down', async () => {
+  it('DB_HOSTS · the first host in the list down · connects through the next that answers', async () => {
     const real = testConfig();
     // port 9 (discard) is closed on loopback here: nothing listens on it
     const config = testConfig({ DB_HOSTS: `127.0.0.1:9,${real.DB_HOST}:${real.DB_PORT}` });

@@ -280,15 +280,13 @@ describe('planning · kits and sharing', () => {
   let kitId: number;
 
   it('planning · kits · create with defaults, refuse bad dates and an unknown heat', async () => {
-    const res = await owner
-      .post('/api/kits')
-      .send({
-        name: 'Harbour Lights — splinter unit',
-        production: 'Harbour Lights',
-        startsOn: '2026-05-04',
-        endsOn: '2026-05-08',
-        heatExposure: 'outdoor-sun',
-      });
+    const res = await owner.post('/api/kits').send({
+      name: 'Harbour Lights — splinter unit',
+      production: 'Harbour Lights',
+      startsOn: '2026-05-04',
+      endsOn: '2026-05-08',
+      heatExposure: 'outdoor-sun',
+    });
     expect(res.status).toBe(201);
     expect(res.body).toMatchObject({ access: 'owner', printHoursPerDay: 8, heatExposure: 'outdoor-sun', items: [], shares: [], owner: { id: owner.userId } });
     kitId = res.body.id;

@@ -66,7 +66,7 @@ function serving(storage: FileStorage) {
 describe.each(['local', 's3'] as const)('storage · %s driver', (driver) => {
   const s = () => drivers[driver];
 
-  it('put, get and exists · a stored object reads back byte for byte; a missing one is null / false', async () => {
+  it('storage driver · put, get and exists · a stored object reads back byte for byte; a missing one is null / false', async () => {
     await s().put('store/a1', 'hello shelf');
     expect((await s().get('store/a1'))?.toString()).toBe('hello shelf');
     expect(await s().exists('store/a1')).toBe(true);
@@ -74,7 +74,7 @@ describe.each(['local', 's3'] as const)('storage · %s driver', (driver) => {
     expect(await s().exists('store/nothing-here')).toBe(false);
   });
 
-  it('putFile · a 12 MB file (multipart on S3: 8 MB parts) arrives whole and the local file stays', async () => {
+  it('storage driver · putFile · a 12 MB file (multipart on S3: 8 MB parts) arrives whole and the local file stays', async () => {
     const bytes = Buffer.alloc(12 * 1024 * 1024);
     for (let i = 0; i < bytes.length; i += 4096) bytes[i] = i % 251;
     const path = upload(s(), bytes);
@@ -84,7 +84,7 @@ describe.each(['local', 's3'] as const)('storage · %s driver', (driver) => {
     await s().remove(['store/big']);
   });
 
-  it('stream · whole, and a byte range (end inclusive, as HTTP ranges count); a missing object throws MissingObjectError', async () => {
+  it('storage driver · stream · whole, and a byte range (end inclusive, as HTTP ranges count); a missing object throws MissingObjectError', async () => {
     await s().put('store/s1', '0123456789');
     expect(await text(await s().stream('store/s1'))).toBe('0123456789');
     expect(await text(await s().stream('store/s1', { start: 2, end: 4 }))).toBe('234');
@@ -92,7 +92,7 @@ describe.each(['local', 's3'] as const)('storage · %s driver', (driver) => {
     await expect(s().stream('store/gone')).rejects.toBeInstanceOf(MissingObjectError);
   });
 
-  it('list · objects under a prefix with their sizes, nothing from the other area', async () => {
+  it('storage driver · list · objects under a prefix with their sizes, nothing from the other area', async () => {
     await s().put('incoming/l1', 'raw');
     await s().put('store/l1-display.jpg', 'xy');
     await s().put('store/l1-thumb.jpg', 'x');
@@ -106,7 +106,7 @@ describe.each(['local', 's3'] as const)('storage · %s driver', (driver) => {
     expect((await s().list('incoming/')).map((o) => o.key)).not.toContain('store/l1-thumb.jpg');
   });
 
-  it('move · the object is under its new key only; moving a missing one throws MissingObjectError', async () => {
+  it('storage driver · move · the object is under its new key only; moving a missing one throws MissingObjectError', async () => {
     await s().put('incoming/m1', 'moving');
     await s().move('incoming/m1', 'store/m1');
     expect(await s().exists('incoming/m1')).toBe(false);
@@ -114,7 +114,7 @@ describe.each(['local', 's3'] as const)('storage · %s driver', (driver) => {
     await expect(s().move('incoming/m-missing', 'store/m2')).rejects.toBeInstanceOf(MissingObjectError);
   });
 
-  it('remove · several at once, a missing key included, without error', async () => {
+  it('storage driver · remove · several at once, a missing key included, without error', async () => {
     await s().put('store/r1', '1');
     await s().put('store/r2', '2');
     await s().remove(['store/r1', 'store/r2', 'store/r-never']);
@@ -123,7 +123,7 @@ describe.each(['local', 's3'] as const)('storage · %s driver', (driver) => {
     await s().remove([]);
   });
 
-  it('localCopy · a local file with the bytes for a worker, dropped on release unless it is the stored file itself', async () => {
+  it('storage driver · localCopy · a local file with the bytes for a worker, dropped on release unless it is the stored file itself', async () => {
     await s().put('store/c1', 'model bytes');
     const copy = await s().localCopy('store/c1');
     expect(readFileSync(copy.path, 'utf8')).toBe('model bytes');
@@ -132,7 +132,7 @@ describe.each(['local', 's3'] as const)('storage · %s driver', (driver) => {
     await expect(s().localCopy('store/c-missing')).rejects.toBeInstanceOf(MissingObjectError);
   });
 
-  it('localOutput · saved output becomes the object; discarded output leaves nothing', async () => {
+  it('storage driver · localOutput · saved output becomes the object; discarded output leaves nothing', async () => {
     const kept = s().localOutput('store/o1-display.jpg');
     writeFileSync(kept.path, 'picture');
     await kept.save();
@@ -145,7 +145,7 @@ describe.each(['local', 's3'] as const)('storage · %s driver', (driver) => {
     expect(existsSync(dropped.path)).toBe(false);
   });
 
-  it('placeUploads · places every upload; undo takes them out and the temp files are there to place again', async () => {
+  it('storage driver · placeUploads · places every upload; undo takes them out and the temp files are there to place again', async () => {
     const a = upload(s(), 'model a');
     const b = upload(s(), 'photo b');
     const placed = await s().placeUploads([
@@ -161,7 +161,7 @@ describe.each(['local', 's3'] as const)('storage · %s driver', (driver) => {
     expect(readFileSync(b, 'utf8')).toBe('photo b');
   });
 
-  it('placeUploads · one that fails (its temp file is gone) takes the others out again and throws', async () => {
+  it('storage driver · placeUploads · one that fails (its temp file is gone) takes the others out again and throws', async () => {
     const a = upload(s(), 'first');
     await expect(
       s().placeUploads([
@@ -173,13 +173,13 @@ describe.each(['local', 's3'] as const)('storage · %s driver', (driver) => {
     expect(await s().exists('store/f2')).toBe(false);
   });
 
-  it('keys · anything but incoming/<name> or store/<name> is refused before touching storage', async () => {
+  it('storage driver · keys · anything but incoming/<name> or store/<name> is refused before touching storage', async () => {
     await expect(s().get('../etc/passwd')).rejects.toThrow(/not a storage key/);
     await expect(s().put('store/../x', 'x')).rejects.toThrow(/not a storage key/);
     await expect(s().remove(['tmp/x'])).rejects.toThrow(/not a storage key/);
   });
 
-  it('send · 200 with length and ETag, 206 for a range, 304 for a matching ETag or an unchanged date, 404 JSON for a missing object', async () => {
+  it('storage driver · send · 200 with length and ETag, 206 for a range, 304 for a matching ETag or an unchanged date, 404 JSON for a missing object', async () => {
     await s().put('store/w1.jpg', 'abcdefghij');
     const app = serving(s());
     const whole = await request(app).get('/file/w1.jpg').expect(200);
@@ -199,7 +199,7 @@ describe.each(['local', 's3'] as const)('storage · %s driver', (driver) => {
 });
 
 describe('storage · s3 driver when the store is away', () => {
-  it('a stopped object store answers a clean 503 with a message, not a 500 or a hang', async () => {
+  it('storage driver · a stopped object store · answers a clean 503 with a message, not a 500 or a hang', async () => {
     const away = createS3Storage({
       endpoint: 'http://127.0.0.1:9', // discard port: nothing listens there
       bucket: 'nowhere',

@@ -78,7 +78,7 @@ describe('s3 storage · a part with a model and a photo', { timeout: 180_000 }, 
   let partId: number;
   const model = boxStl(24, 30, 12);
 
-  it('upload · 201; the model, the cleaned photo sizes and the model pictures are objects; the raw photo and temp files are gone', async () => {
+  it('s3 storage · upload · 201; the model, the cleaned photo sizes and the model pictures are objects; the raw photo and temp files are gone', async () => {
     const res = await submit(author, 'Bracket kept in a bucket', { model, photo: await jpegWithGps(64, 48) }).expect(201);
     partId = res.body.id;
     await settled();
@@ -101,7 +101,7 @@ describe('s3 storage · a part with a model and a photo', { timeout: 180_000 }, 
     expect(tmpFiles()).toEqual([]);
   });
 
-  it('photo · cleaned upright (EXIF orientation 6 turns 64 × 48 into 48 × 64) with its metadata gone, served as JPEG', async () => {
+  it('s3 storage · photo · cleaned upright (EXIF orientation 6 turns 64 × 48 into 48 × 64) with its metadata gone, served as JPEG', async () => {
     const { photo } = await filesOf(author, partId);
     const res = await binary(author.get(photo!.displayUrl!)).expect(200);
     expect(res.headers['content-type']).toBe('image/jpeg');
@@ -110,7 +110,7 @@ describe('s3 storage · a part with a model and a photo', { timeout: 180_000 }, 
     expect((res.body as Buffer).includes(Buffer.from('Exif'))).toBe(false);
   });
 
-  it('serving · in review only the author and moderators get files; others 404, visitors 401 for downloads', async () => {
+  it('s3 storage · serving · in review only the author and moderators get files; others 404, visitors 401 for downloads', async () => {
     const { model: m, photo } = await filesOf(author, partId);
     const mine = await binary(author.get(m.downloadUrl)).expect(200);
     expect(Buffer.compare(mine.body as Buffer, model)).toBe(0);
@@ -122,7 +122,7 @@ describe('s3 storage · a part with a model and a photo', { timeout: 180_000 }, 
     await request(t.app).get(m.downloadUrl).expect(401);
   });
 
-  it('serving · once published, members download it, with byte ranges (RFC 9110 §14) and a 304 for a known ETag', async () => {
+  it('s3 storage · serving · once published, members download it, with byte ranges (RFC 9110 §14) and a 304 for a known ETag', async () => {
     await publishDirectly(partId);
     const { model: m } = await filesOf(member, partId);
     const whole = await binary(member.get(m.downloadUrl)).expect(200);
@@ -135,7 +135,7 @@ describe('s3 storage · a part with a model and a photo', { timeout: 180_000 }, 
     expect(picture.headers['content-type']).toBe('image/jpeg');
   });
 
-  it('retired · the page and photos stay; the model goes to its author and moderators only (404 for others)', async () => {
+  it('s3 storage · retired · the page and photos stay; the model goes to its author and moderators only (404 for others)', async () => {
     await Part.update({ status: 'retired' }, { where: { id: partId } });
     const { model: m, photo } = await filesOf(member, partId);
     await member.get(m.downloadUrl).expect(404);
@@ -149,7 +149,7 @@ describe('s3 storage · nothing left behind', { timeout: 180_000 }, () => {
   // pictures still being drawn for earlier parts would show up between the snapshots
   beforeEach(settled);
 
-  it('refused upload · a cut-off JPEG is refused with 422 and leaves no object and no temp file', async () => {
+  it('s3 storage · refused upload · a cut-off JPEG is refused with 422 and leaves no object and no temp file', async () => {
     const before = await objects();
     const res = await submit(author, 'Refused bracket', { photo: await truncatedJpeg(), photoName: 'cut.jpg' });
     expect(res.status).toBe(422);
@@ -157,14 +157,14 @@ describe('s3 storage · nothing left behind', { timeout: 180_000 }, () => {
     expect(tmpFiles()).toEqual([]);
   });
 
-  it('refused upload · an empty model is refused with 422 and leaves no object', async () => {
+  it('s3 storage · refused upload · an empty model is refused with 422 and leaves no object', async () => {
     const before = await objects();
     const res = await submit(author, 'Empty bracket', { model: Buffer.alloc(0) });
     expect(res.status).toBe(422);
     expect(await objects()).toEqual(before);
   });
 
-  it('roll-back · a write that fails half-way (500) takes its placed objects out of the bucket', async () => {
+  it('s3 storage · roll-back · a write that fails half-way (500) takes its placed objects out of the bucket', async () => {
     const before = await objects();
     const rows = await PartFile.count();
     const spy = vi.spyOn(RevisionFile, 'create').mockRejectedValueOnce(new Error('disk full'));
@@ -180,7 +180,7 @@ describe('s3 storage · nothing left behind', { timeout: 180_000 }, () => {
     expect(tmpFiles()).toEqual([]);
   });
 
-  it('retry · a deadlock on the first attempt (MariaDB 1213) places the files again; each row has exactly its objects', async () => {
+  it('s3 storage · retry · a deadlock on the first attempt (MariaDB 1213) places the files again; each row has exactly its objects', async () => {
     const deadlock = Object.assign(new Error('Deadlock found when trying to get lock; try restarting transaction'), { errno: 1213, sqlState: '40001' });
     const spy = vi.spyOn(RevisionFile, 'create').mockRejectedValueOnce(deadlock);
     let id: number;
@@ -198,7 +198,7 @@ describe('s3 storage · nothing left behind', { timeout: 180_000 }, () => {
     expect(tmpFiles()).toEqual([]);
   });
 
-  it('removing a file · a second model removed from a part takes its object and pictures with it', async () => {
+  it('s3 storage · removing a file · a second model removed from a part takes its object and pictures with it', async () => {
     const id = (await submit(author, 'Bracket with a spare model').expect(201)).body.id;
     await author
       .post(`/api/parts/${id}/files`)
@@ -213,7 +213,7 @@ describe('s3 storage · nothing left behind', { timeout: 180_000 }, () => {
 });
 
 describe('s3 storage · start-up sweep', { timeout: 180_000 }, () => {
-  it('objects without rows are removed and those with rows kept; young objects wait out the grace time', async () => {
+  it('s3 storage · start-up sweep · objects without rows are removed and those with rows kept; young objects wait out the grace time', async () => {
     await settled();
     const kept = (await PartFile.findOne({ where: { kind: 'model' } }))!;
     await storage().put('store/deadbeefdeadbeefdeadbeefdeadbeef.stl', 'x');
@@ -232,7 +232,7 @@ describe('s3 storage · start-up sweep', { timeout: 180_000 }, () => {
 });
 
 describe('s3 storage · set report and wanted photos', { timeout: 180_000 }, () => {
-  it('a set report photo is cleaned into the bucket and served to members', async () => {
+  it('s3 storage · a set report photo · is cleaned into the bucket and served to members', async () => {
     const id = (await submit(author, 'Reported bracket').expect(201)).body.id;
     await moderator.post(`/api/review/${id}/approve`).send({}).expect(200);
     const res = await member
@@ -248,7 +248,7 @@ describe('s3 storage · set report and wanted photos', { timeout: 180_000 }, () 
     expect((await objects()).filter((k) => k.startsWith('incoming/'))).toEqual([]);
   });
 
-  it('a wanted request sketch is cleaned into the bucket and served as a thumbnail', async () => {
+  it('s3 storage · a wanted request sketch · is cleaned into the bucket and served as a thumbnail', async () => {
     const res = await member
       .post('/api/wanted')
       .field(

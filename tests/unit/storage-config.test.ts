@@ -5,13 +5,13 @@ const base = { DB_PASSWORD: 'x', SESSION_SECRET: 'a-secret-of-twenty-chars', NOD
 const s3 = { STORAGE: 's3', S3_BUCKET: 'shelf', S3_ACCESS_KEY_ID: 'AKID', S3_SECRET_ACCESS_KEY: 'secret' };
 
 describe('config · storage', () => {
-  it('default · local disk, no S3 settings needed, the sweep waits for nothing', () => {
+  it('storage config · default · local disk, no S3 settings needed, the sweep waits for nothing', () => {
     const c = loadConfig(base);
     expect(c.STORAGE).toBe('local');
     expect(c.STORAGE_SWEEP_MIN_AGE_S).toBe(0);
   });
 
-  it('STORAGE=s3 · region and path style default for a local fake; the sweep waits 10 minutes', () => {
+  it('storage config · STORAGE=s3 · region and path style default for a local fake; the sweep waits 10 minutes', () => {
     const c = loadConfig({ ...base, ...s3, S3_ENDPOINT: 'http://127.0.0.1:3425' });
     expect(c).toMatchObject({ STORAGE: 's3', S3_REGION: 'us-east-1', S3_FORCE_PATH_STYLE: true, STORAGE_SWEEP_MIN_AGE_S: 600 });
     expect(loadConfig({ ...base, ...s3, S3_FORCE_PATH_STYLE: '0', STORAGE_SWEEP_MIN_AGE_S: '0' })).toMatchObject({
@@ -20,7 +20,7 @@ describe('config · storage', () => {
     });
   });
 
-  it('STORAGE=s3 without bucket or keys · one line per missing setting, each naming it', () => {
+  it('storage config · STORAGE=s3 without bucket or keys · one line per missing setting, each naming it', () => {
     let message = '';
     try {
       loadConfig({ ...base, STORAGE: 's3' });
@@ -34,7 +34,7 @@ describe('config · storage', () => {
     expect(lines[2]).toMatch(/^ {2}S3_SECRET_ACCESS_KEY: .*S3_ACCESS_KEY_ID/);
   });
 
-  it('bad values · an unknown driver and an endpoint that is not http(s) are refused by name', () => {
+  it('storage config · bad values · an unknown driver and an endpoint that is not http(s) are refused by name', () => {
     expect(() => loadConfig({ ...base, STORAGE: 'disk' })).toThrow(/STORAGE: use local or s3/);
     expect(() => loadConfig({ ...base, ...s3, S3_ENDPOINT: 'ftp://store' })).toThrow(/S3_ENDPOINT: use an http\(s\) address/);
   });
