@@ -40,7 +40,7 @@ describe('waitForDatabase', () => {
     const err = await waitForDatabase(db, { host: 'db.internal', port: 3399, waitSeconds: 0.05, firstDelayMs: 10, log: () => undefined }).catch((e) => e);
     expect(err).toBeInstanceOf(StartupError);
     expect(err.message).toBe(
-      'MariaDB at db.internal:3399 did not answer within 0.05 s (connect ECONNREFUSED 127.0.0.1:3307); start it (npm start does) or check DB_HOST and DB_PORT',
+      'MariaDB at db.internal:3399 did not answer within 0.05 s (connect ECONNREFUSED 127.0.0.1:3307); start it (npm start does) or check DB_HOST and DB_PORT (or DB_HOSTS)',
     );
   });
 });

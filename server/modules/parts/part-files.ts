@@ -64,11 +64,12 @@ export async function removeStoredFiles(storage: FileStorage, row: Pick<PartFile
  */
 export async function sweepUploads(
   storage: FileStorage,
-  options: { minAgeMs?: number } = {},
+  /** `tmpMinAgeMs`: the same for unfinished uploads in the temp folder, which instances may share on one disk. */
+  options: { minAgeMs?: number; tmpMinAgeMs?: number } = {},
 ): Promise<{ removed: number; pendingPhotos: PartFile[]; pendingReportPhotos: ReportPhoto[]; pendingWantedPhotos: WantedPhoto[]; pendingRenders: PartFile[] }> {
   const minAgeMs = options.minAgeMs ?? 0;
   let removed = 0;
-  const tmp = await filesOlderThan(storage.tmp, 0);
+  const tmp = await filesOlderThan(storage.tmp, options.tmpMinAgeMs ?? 0);
   await removeLocal(...tmp.map((name) => join(storage.tmp, name)));
   removed += tmp.length;
   const drop = async (keys: string[]) => {

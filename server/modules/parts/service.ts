@@ -162,7 +162,10 @@ export function createPartsService({ sequelize, storage, sweepMinAgeMs, photos, 
     /** Clears what a crash left behind and resumes photos that were waiting to be cleaned. */
     async recover(options: { minAgeMs?: number } = {}) {
       const minAgeMs = Math.max(options.minAgeMs ?? 0, sweepMinAgeMs ?? 0);
-      const { removed, pendingPhotos, pendingReportPhotos, pendingWantedPhotos, pendingRenders } = await sweepUploads(storage, { minAgeMs });
+      const { removed, pendingPhotos, pendingReportPhotos, pendingWantedPhotos, pendingRenders } = await sweepUploads(storage, {
+        minAgeMs,
+        tmpMinAgeMs: options.minAgeMs,
+      });
       onRecovered?.(pendingWantedPhotos);
       queuePhotos(pendingPhotos);
       for (const row of pendingReportPhotos) photos.clean(row, () => ReportPhoto.findByPk(row.id));
