@@ -1,3 +1,5 @@
+// Over 350 lines: the shapes every generator draws share the 2D/3D geometry types and the
+// corner-restoring step; SizeBook at the end records the drawn sizes those shapes report.
 // Solid modelling goes through @jscad/modeling; this file turns its solids into Rigshelf's flat
 // triangle arrays and back, and holds the few shapes every generator draws.
 import jscad from '@jscad/modeling';

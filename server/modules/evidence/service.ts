@@ -1,3 +1,5 @@
+// Over 350 lines: ratings, set reports and their moderation share the on-shelf check and the
+// change hooks that refresh rankings; the next split would take flag / hide / flagged into moderation.ts.
 // After the shoot: ratings and set reports, the evidence that makes a part proven, and moderation
 // of abusive entries (hidden entries stay on record but leave every score).
 import { Op, UniqueConstraintError, type Sequelize } from 'sequelize';

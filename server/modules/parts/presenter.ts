@@ -7,7 +7,7 @@ import { safetyCautions } from '@shared/safety';
 import type { PartFileInfo, PartSummary } from '@shared/types';
 import type { PartVisibilityInfo } from '@shared/api/crews';
 import { CameraBody, Crew, Part, PartFile, PartRevision, Recipe, RevisionFile, User } from '../../db/models';
-import { madeWith } from '../make/service';
+import { madeWith } from '../make/made';
 import { audienceOf, crewAllows, crewWhere, seesUnpublished } from './access';
 
 export function fileUrls(partId: number, file: Pick<PartFile, 'id' | 'kind' | 'processing' | 'renderStatus'>) {

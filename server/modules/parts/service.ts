@@ -15,7 +15,7 @@ import type { PhotoJobs } from '../files/photo-jobs';
 import type { RenderJobs } from '../files/render-jobs';
 import type { FileStorage } from '../files/storage';
 import { keysOf } from '../files/stored-files';
-import { parseParams } from '../make/service';
+import { parseParams } from '../make/made';
 import { assertCanEdit, audienceOf, crewAllows, crewWhere, findVisiblePart, seesUnpublished } from './access';
 import { attachFiles, removeStoredFiles, sweepUploads } from './part-files';
 import { presentPart, presentSummaries } from './presenter';

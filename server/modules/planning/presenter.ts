@@ -15,7 +15,7 @@ import { DEFAULT_PRICE_PER_KG } from '@shared/estimate';
 import { DEFAULT_CURRENCY } from '@shared/money';
 import { MATERIAL_IDS, type MaterialId } from '@shared/materials';
 import { MADE_PART_RECIPE } from '@shared/schemas/make';
-import { madeTitle, madeWith } from '../make/service';
+import { madeTitle, madeWith } from '../make/made';
 import { Crew, Kit, KitCrewShare, KitItem, KitShare, Part, PartFile, PartRevision, Printer, Recipe, User, type PriceSheet } from '../../db/models';
 import { crewAllows, type PartAudience } from '../parts/access';
 import { coverThumbnail } from '../parts/presenter';

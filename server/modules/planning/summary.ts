@@ -11,7 +11,7 @@ import { DEFAULT_CURRENCY } from '@shared/money';
 import { MADE_PART_RECIPE } from '@shared/schemas/make';
 import type { SliceProfile } from '@shared/slice';
 import { PartFile, PartRevision, PriceSheet, Recipe, type Kit, type KitItem, type Printer, type User } from '../../db/models';
-import { madeTitle } from '../make/service';
+import { madeTitle } from '../make/made';
 import { audienceOf, type PartAudience } from '../parts/access';
 import { keysOf } from '../files/stored-files';
 import { findKit } from './access';

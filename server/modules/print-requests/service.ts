@@ -1,3 +1,5 @@
+// Over 350 lines: the request's steps share one state table (STEP_WORDS) and one notify-both-sides
+// path; estimate.ts and paying-back.ts are already apart.
 // Print requests between crew members: a member asks a crew mate with a printer to print a shelf part
 // or a whole kit; the owner accepts (the price freezes) or declines, then marks the fit test, the
 // print and the hand-over; the requester may cancel until printing starts. Every step is on record

@@ -1,3 +1,5 @@
+// Over 350 lines: one service whose seven operations share the visibility rule and the answer's
+// notice-and-mail path; the next split would take the answers (answer, partPublished) into answers.ts.
 // Wanted parts. Any member asks for a part nobody has put on the shelf yet (what it must fit, a photo
 // or sketch, a needed-by date); members browse open requests and answer one by linking a part:
 //   - any part on the shelf, whoever made it (pointing a crew to an existing part is an answer too);
