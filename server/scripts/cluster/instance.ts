@@ -41,9 +41,13 @@ export class AppInstance {
   /** Starts the instance and resolves once it serves (or rejects with the last lines it printed). */
   async start(extra: Record<string, string> = {}, timeoutMs = 240_000): Promise<void> {
     this.exit = null;
+    // a new name for every process: a restarted instance must not take its dead predecessor's job
+    // claims for its own (they would be resumed without counting the lease that ran out, and a photo
+    // whose try died with the process would look as if it had failed once already)
+    const instanceId = `${this.env.INSTANCE_ID ?? this.name}-${Date.now().toString(36)}`;
     const child = spawn(process.execPath, ['--import', 'tsx', 'server/index.ts'], {
       cwd: this.root,
-      env: { PATH: process.env.PATH, HOME: process.env.HOME, ...this.env, ...extra },
+      env: { PATH: process.env.PATH, HOME: process.env.HOME, ...this.env, INSTANCE_ID: instanceId, ...extra },
       stdio: ['ignore', 'pipe', 'pipe'],
     });
     this.child = child;
