@@ -40,6 +40,8 @@ export interface ClusterRunOptions {
   /** Load that goes on after both are back, for the "after" figures. */
   afterMs: number;
   storage: 's3' | 'local';
+  /** The instances run the compiled server (default) or the sources through tsx. */
+  server?: 'compiled' | 'tsx';
   portBase?: string;
   log?: (line: string) => void;
 }
@@ -206,6 +208,7 @@ export async function runClusterFaults(options: ClusterRunOptions): Promise<Clus
     storage: options.storage,
     sst: 'mariabackup',
     demo: false,
+    server: options.server,
     // pictures cost seconds of CPU each; sign-in cost is not what this run measures
     instanceEnv: { MODEL_PICTURES: '0', PASSWORD_SCRYPT_LOG_N: '12', LOGIN_LIMIT_PER_IP: '1000000', LOGIN_LIMIT_PER_ACCOUNT: '1000000' },
     log: (line) => {
