@@ -97,10 +97,12 @@ export interface ClusterSummary {
   objects: { listed: number; missing: string[]; orphans: string[]; leftForSweep: number; source: string };
   /**
    * `ranTwice`: more tries than one plus the holders that died holding the photo (a try cut off by
-   * its instance's death is counted in both processing_attempts and lease_expiries); `takenOver`:
-   * photos another instance took over once a dead holder's lease ran out.
+   * its instance's death is counted in both processing_attempts and lease_expiries) with no failed
+   * try in the instances' logs; `retriedAfterError`: the same, where an instance logged that a try of
+   * that photo failed (the database refused its outcome, say) and the photo was cleaned again;
+   * `takenOver`: photos another instance took over once a dead holder's lease ran out.
    */
-  photos: { total: number; notReady: number; ranTwice: number; takenOver: number; failed: number };
+  photos: { total: number; notReady: number; ranTwice: number; retriedAfterError: number; takenOver: number; failed: number };
   search: { instance: string; ms: number | null }[];
   sessions: { members: number; survived: number };
   unclean: string[];
@@ -212,7 +214,8 @@ export async function runClusterFaults(options: ClusterRunOptions): Promise<Clus
     // pictures cost seconds of CPU each; sign-in cost is not what this run measures
     instanceEnv: { MODEL_PICTURES: '0', PASSWORD_SCRYPT_LOG_N: '12', LOGIN_LIMIT_PER_IP: '1000000', LOGIN_LIMIT_PER_ACCOUNT: '1000000' },
     log: (line) => {
-      if (line.startsWith('haproxy: ')) balancerLines.push({ at: Date.now(), text: line.slice(9) });
+      // haproxy prints a state change twice: as a [WARNING] on stderr and in its log
+      if (line.startsWith('haproxy: ') && !/^haproxy: \[(WARNING|ALERT|NOTICE)\]/.test(line)) balancerLines.push({ at: Date.now(), text: line.slice(9) });
       log(line);
     },
   });
@@ -394,7 +397,9 @@ export async function runClusterFaults(options: ClusterRunOptions): Promise<Clus
     const photoRows = await sql('SELECT stored_name, processing, processing_attempts, lease_expiries FROM rigshelf.report_photos');
     const expected = new Set<string>();
     const pendingNames = new Set<string>();
-    const photos = { total: 0, notReady: 0, ranTwice: 0, takenOver: 0, failed: 0 };
+    const photos = { total: 0, notReady: 0, ranTwice: 0, retriedAfterError: 0, takenOver: 0, failed: 0 };
+    // "photo <name> could not be cleaned: …" or "photo <name>: <error>" (server/modules/files/photo-jobs.ts)
+    const failedTry = new Set(cluster.instances.flatMap((inst) => inst.lines.map((l) => /^photo (\S+?)(?::| could not be cleaned)/.exec(l.text)?.[1] ?? '')));
     const expectPhoto = (name: string, processing: string, attempts: string, expiries: string) => {
       photos.total += 1;
       if (processing === 'ready') {
@@ -405,7 +410,10 @@ export async function runClusterFaults(options: ClusterRunOptions): Promise<Clus
         if (processing === 'failed') photos.failed += 1;
         else photos.notReady += 1;
       }
-      if (Number(attempts) > 1 + Number(expiries)) photos.ranTwice += 1;
+      if (Number(attempts) > 1 + Number(expiries)) {
+        if (failedTry.has(name)) photos.retriedAfterError += 1;
+        else photos.ranTwice += 1;
+      }
       if (Number(expiries) > 0) photos.takenOver += 1;
     };
     for (const [kind, name, processing, attempts, expiries] of files) {
@@ -584,7 +592,7 @@ export function formatSummary(s: ClusterSummary): string {
     `  submissions acknowledged ${s.submissions.acknowledged} (missing ${s.submissions.missing.length}, twice ${s.submissions.duplicated.length}); set reports ${s.reports.acknowledged} (missing ${s.reports.missing.length}, twice ${s.reports.duplicated.length}); kit items ${s.kitItems.acknowledged} (problems ${s.kitItems.problems.length}); ratings ${s.ratings.acknowledged} (problems ${s.ratings.problems.length})`,
     `  half records: ${fmt(s.dbOrphans)}`,
     `  object store (${s.objects.source}): ${s.objects.listed} objects; rows without object ${s.objects.missing.length}; objects without row ${s.objects.orphans.length} (${s.objects.leftForSweep} before the start-up sweep)`,
-    `  photo jobs: ${s.photos.total} photos, ${s.photos.notReady} waiting, ${s.photos.failed} failed, ${s.photos.takenOver} taken over from a dead instance, ${s.photos.ranTwice} cleaned more than once`,
+    `  photo jobs: ${s.photos.total} photos, ${s.photos.notReady} waiting, ${s.photos.failed} failed, ${s.photos.takenOver} taken over from a dead instance, ${s.photos.retriedAfterError} cleaned again after a logged failed try, ${s.photos.ranTwice} cleaned more than once otherwise`,
     `  search (approve → found on each instance): ${s.search.map((f) => `${f.instance} ${f.ms === null ? 'never' : `${f.ms} ms`}`).join(', ') || 'no probe'}`,
     `  sessions: ${s.sessions.survived} of ${s.sessions.members} still signed in`,
     `  answers slower than ${SLOW_MS / 1000} s: ${s.slow}`,
