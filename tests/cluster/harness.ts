@@ -169,13 +169,24 @@ async function listObjects(cluster: Cluster): Promise<{ keys: string[]; source: 
     forcePathStyle: true,
     credentials: { accessKeyId: env.S3_ACCESS_KEY_ID, secretAccessKey: env.S3_SECRET_ACCESS_KEY },
   });
-  const keys: string[] = [];
-  let token: string | undefined;
-  do {
-    const page = await client.send(new sdk.ListObjectsV2Command({ Bucket: env.S3_BUCKET, ContinuationToken: token }));
-    for (const o of page.Contents ?? []) if (o.Key) keys.push(o.Key);
-    token = page.IsTruncated ? page.NextContinuationToken : undefined;
-  } while (token);
+  // the S3 fake answers a listing with a 500 now and then while objects are being deleted beside it
+  // (the instances still remove raw uploads); the whole listing is tried again a few times
+  let keys: string[] = [];
+  for (let attempt = 1; ; attempt++) {
+    try {
+      keys = [];
+      let token: string | undefined;
+      do {
+        const page = await client.send(new sdk.ListObjectsV2Command({ Bucket: env.S3_BUCKET, ContinuationToken: token }));
+        for (const o of page.Contents ?? []) if (o.Key) keys.push(o.Key);
+        token = page.IsTruncated ? page.NextContinuationToken : undefined;
+      } while (token);
+      break;
+    } catch (err) {
+      if (attempt >= 5) throw err;
+      await sleep(1000 * attempt);
+    }
+  }
   client.destroy();
   return { keys, source: `${env.S3_ENDPOINT}/${env.S3_BUCKET}` };
 }
