@@ -169,9 +169,11 @@ async function listObjects(cluster: Cluster): Promise<{ keys: string[]; source: 
     forcePathStyle: true,
     credentials: { accessKeyId: env.S3_ACCESS_KEY_ID, secretAccessKey: env.S3_SECRET_ACCESS_KEY },
   });
-  // the S3 fake answers a listing with a 500 now and then while objects are being deleted beside it
-  // (the instances still remove raw uploads); the whole listing is tried again a few times
+  // the S3 fake answered a listing with a 500 again and again after an instance died mid-upload (an
+  // object file without its metadata file, it seems); then its folder is read instead, which is how
+  // the fake keeps the bucket (<key>._S3rver_object beside <key>._S3rver_metadata.json)
   let keys: string[] = [];
+  let source = `${env.S3_ENDPOINT}/${env.S3_BUCKET}`;
   for (let attempt = 1; ; attempt++) {
     try {
       keys = [];
@@ -183,12 +185,30 @@ async function listObjects(cluster: Cluster): Promise<{ keys: string[]; source: 
       } while (token);
       break;
     } catch (err) {
-      if (attempt >= 5) throw err;
-      await sleep(1000 * attempt);
+      if (attempt < 3) {
+        await sleep(1000 * attempt);
+        continue;
+      }
+      const root = join(cluster.objectDir, env.S3_BUCKET);
+      const files: string[] = [];
+      const walk = (dir: string, prefix: string) => {
+        if (!existsSync(dir)) return;
+        for (const name of readdirSync(dir)) {
+          const full = join(dir, name);
+          if (statSync(full).isDirectory()) walk(full, `${prefix}${name}/`);
+          else files.push(`${prefix}${name}`);
+        }
+      };
+      walk(root, '');
+      const all = new Set(files);
+      keys = files.filter((f) => f.endsWith('._S3rver_object')).map((f) => f.slice(0, -'._S3rver_object'.length));
+      const bare = keys.filter((k) => !all.has(`${k}._S3rver_metadata.json`));
+      source = `${root} (the listing answered ${(err as Error).name}: ${(err as Error).message}; ${bare.length} object file(s) without metadata${bare.length ? `, e.g. ${bare[0]}` : ''})`;
+      break;
     }
   }
   client.destroy();
-  return { keys, source: `${env.S3_ENDPOINT}/${env.S3_BUCKET}` };
+  return { keys, source };
 }
 
 /** A 5xx answer is clean when it is a 503 whose JSON says what happened, with no stack trace in it. */
