@@ -40,6 +40,8 @@ export interface ClusterRunOptions {
   /** Load that goes on after both are back, for the "after" figures. */
   afterMs: number;
   storage: 's3' | 'local';
+  /** The instances run the compiled server (default) or the sources through tsx. */
+  server?: 'compiled' | 'tsx';
   portBase?: string;
   log?: (line: string) => void;
 }
@@ -93,7 +95,14 @@ export interface ClusterSummary {
   ratings: { acknowledged: number; problems: string[] };
   dbOrphans: Record<string, number>;
   objects: { listed: number; missing: string[]; orphans: string[]; leftForSweep: number; source: string };
-  photos: { total: number; notReady: number; ranTwice: number; failed: number };
+  /**
+   * `ranTwice`: more tries than one plus the holders that died holding the photo (a try cut off by
+   * its instance's death is counted in both processing_attempts and lease_expiries) with no failed
+   * try in the instances' logs; `retriedAfterError`: the same, where an instance logged that a try of
+   * that photo failed (the database refused its outcome, say) and the photo was cleaned again;
+   * `takenOver`: photos another instance took over once a dead holder's lease ran out.
+   */
+  photos: { total: number; notReady: number; ranTwice: number; retriedAfterError: number; takenOver: number; failed: number };
   search: { instance: string; ms: number | null }[];
   sessions: { members: number; survived: number };
   unclean: string[];
@@ -101,6 +110,8 @@ export interface ClusterSummary {
   slow: number;
   /** The instances' log lines about failures (500 refs, uncaught errors), for reading the 5xx. */
   instanceErrors: string[];
+  /** haproxy's log of the sessions that did not end normally (termination state, status, timings). */
+  balancerLog: string[];
   galera: { node: string; size: number; state: string }[];
   durationMs: number;
 }
@@ -158,15 +169,46 @@ async function listObjects(cluster: Cluster): Promise<{ keys: string[]; source: 
     forcePathStyle: true,
     credentials: { accessKeyId: env.S3_ACCESS_KEY_ID, secretAccessKey: env.S3_SECRET_ACCESS_KEY },
   });
-  const keys: string[] = [];
-  let token: string | undefined;
-  do {
-    const page = await client.send(new sdk.ListObjectsV2Command({ Bucket: env.S3_BUCKET, ContinuationToken: token }));
-    for (const o of page.Contents ?? []) if (o.Key) keys.push(o.Key);
-    token = page.IsTruncated ? page.NextContinuationToken : undefined;
-  } while (token);
+  // the S3 fake answered a listing with a 500 again and again after an instance died mid-upload (an
+  // object file without its metadata file, it seems); then its folder is read instead, which is how
+  // the fake keeps the bucket (<key>._S3rver_object beside <key>._S3rver_metadata.json)
+  let keys: string[] = [];
+  let source = `${env.S3_ENDPOINT}/${env.S3_BUCKET}`;
+  for (let attempt = 1; ; attempt++) {
+    try {
+      keys = [];
+      let token: string | undefined;
+      do {
+        const page = await client.send(new sdk.ListObjectsV2Command({ Bucket: env.S3_BUCKET, ContinuationToken: token }));
+        for (const o of page.Contents ?? []) if (o.Key) keys.push(o.Key);
+        token = page.IsTruncated ? page.NextContinuationToken : undefined;
+      } while (token);
+      break;
+    } catch (err) {
+      if (attempt < 3) {
+        await sleep(1000 * attempt);
+        continue;
+      }
+      const root = join(cluster.objectDir, env.S3_BUCKET);
+      const files: string[] = [];
+      const walk = (dir: string, prefix: string) => {
+        if (!existsSync(dir)) return;
+        for (const name of readdirSync(dir)) {
+          const full = join(dir, name);
+          if (statSync(full).isDirectory()) walk(full, `${prefix}${name}/`);
+          else files.push(`${prefix}${name}`);
+        }
+      };
+      walk(root, '');
+      const all = new Set(files);
+      keys = files.filter((f) => f.endsWith('._S3rver_object')).map((f) => f.slice(0, -'._S3rver_object'.length));
+      const bare = keys.filter((k) => !all.has(`${k}._S3rver_metadata.json`));
+      source = `${root} (the listing answered ${(err as Error).name}: ${(err as Error).message}; ${bare.length} object file(s) without metadata${bare.length ? `, e.g. ${bare[0]}` : ''})`;
+      break;
+    }
+  }
   client.destroy();
-  return { keys, source: `${env.S3_ENDPOINT}/${env.S3_BUCKET}` };
+  return { keys, source };
 }
 
 /** A 5xx answer is clean when it is a 503 whose JSON says what happened, with no stack trace in it. */
@@ -192,15 +234,21 @@ export async function runClusterFaults(options: ClusterRunOptions): Promise<Clus
     if (await portOpen(p)) throw new Error(`port ${p} is in use: stop \`npm run cluster\` (or whatever listens there) before the fault run`);
   }
   const dir = mkdtempSync(join(tmpdir(), 'rigshelf-cluster-run-'));
+  const balancerLines: { at: number; text: string }[] = [];
   const cluster = new Cluster({
     dir,
     ports,
     storage: options.storage,
     sst: 'mariabackup',
     demo: false,
+    server: options.server,
     // pictures cost seconds of CPU each; sign-in cost is not what this run measures
     instanceEnv: { MODEL_PICTURES: '0', PASSWORD_SCRYPT_LOG_N: '12', LOGIN_LIMIT_PER_IP: '1000000', LOGIN_LIMIT_PER_ACCOUNT: '1000000' },
-    log: (line) => log(line),
+    log: (line) => {
+      // haproxy prints a state change twice: as a [WARNING] on stderr and in its log
+      if (line.startsWith('haproxy: ') && !/^haproxy: \[(WARNING|ALERT|NOTICE)\]/.test(line)) balancerLines.push({ at: Date.now(), text: line.slice(9) });
+      log(line);
+    },
   });
   const run = runId();
   const recorder = new Recorder();
@@ -376,12 +424,14 @@ export async function runClusterFaults(options: ClusterRunOptions): Promise<Clus
       if (Number(rows) > a.acked + a.unclear) kitProblems.push(`kit ${kitId}: ${rows} item(s) stored, at most ${a.acked + a.unclear} sent`);
     }
 
-    const files = await sql('SELECT kind, stored_name, processing, processing_attempts FROM rigshelf.part_files');
-    const photoRows = await sql('SELECT stored_name, processing, processing_attempts FROM rigshelf.report_photos');
+    const files = await sql('SELECT kind, stored_name, processing, processing_attempts, lease_expiries FROM rigshelf.part_files');
+    const photoRows = await sql('SELECT stored_name, processing, processing_attempts, lease_expiries FROM rigshelf.report_photos');
     const expected = new Set<string>();
     const pendingNames = new Set<string>();
-    const photos = { total: 0, notReady: 0, ranTwice: 0, failed: 0 };
-    const expectPhoto = (name: string, processing: string, attempts: string) => {
+    const photos = { total: 0, notReady: 0, ranTwice: 0, retriedAfterError: 0, takenOver: 0, failed: 0 };
+    // "photo <name> could not be cleaned: …" or "photo <name>: <error>" (server/modules/files/photo-jobs.ts)
+    const failedTry = new Set(cluster.instances.flatMap((inst) => inst.lines.map((l) => /^photo (\S+?)(?::| could not be cleaned)/.exec(l.text)?.[1] ?? '')));
+    const expectPhoto = (name: string, processing: string, attempts: string, expiries: string) => {
       photos.total += 1;
       if (processing === 'ready') {
         expected.add(`${name}-display.jpg`);
@@ -391,13 +441,17 @@ export async function runClusterFaults(options: ClusterRunOptions): Promise<Clus
         if (processing === 'failed') photos.failed += 1;
         else photos.notReady += 1;
       }
-      if (Number(attempts) > 1) photos.ranTwice += 1;
+      if (Number(attempts) > 1 + Number(expiries)) {
+        if (failedTry.has(name)) photos.retriedAfterError += 1;
+        else photos.ranTwice += 1;
+      }
+      if (Number(expiries) > 0) photos.takenOver += 1;
     };
-    for (const [kind, name, processing, attempts] of files) {
-      if (kind === 'photo') expectPhoto(name, processing, attempts);
+    for (const [kind, name, processing, attempts, expiries] of files) {
+      if (kind === 'photo') expectPhoto(name, processing, attempts, expiries);
       else expected.add(name);
     }
-    for (const [name, processing, attempts] of photoRows) expectPhoto(name, processing, attempts);
+    for (const [name, processing, attempts, expiries] of photoRows) expectPhoto(name, processing, attempts, expiries);
     const unclaimed = (keys: string[]) =>
       keys.filter((k) => {
         const n = basename(k);
@@ -408,13 +462,16 @@ export async function runClusterFaults(options: ClusterRunOptions): Promise<Clus
     const names = new Set(listed.keys.map((k) => basename(k)));
     const missing = [...expected].filter((n) => !names.has(n));
     // An object whose commit went unanswered (its instance died) is left on purpose: the row may have
-    // landed. The start-up sweep settles such objects once they are old enough; restart one instance
-    // with no minimum age, as an operator would after the faults, and look again.
+    // landed. The start-up sweep settles such objects once they are old enough; with other instances
+    // up it leaves everything from the last hour alone (server/index.ts), so stop them all and start
+    // app1 alone with no minimum age, as an operator would after the faults, and look again. app1
+    // alone then answers the session check below through haproxy.
     const leftForSweep = unclaimed(listed.keys).length;
     if (leftForSweep) {
-      log(`${leftForSweep} object(s) without rows; restarting app1 so its start-up sweep settles them`);
-      await cluster.instances[0].stop();
+      log(`${leftForSweep} object(s) without rows; restarting app1 alone so its start-up sweep settles them`);
+      await Promise.all(cluster.instances.map((i) => i.stop()));
       await cluster.instances[0].start({ STORAGE_SWEEP_MIN_AGE_S: '0' });
+      await waitFor(async () => (await haproxyState(ports.stats, cluster.instances[0].name)) === 'UP', 30_000, 200);
       listed = await listObjects(cluster);
     }
     const orphans = unclaimed(listed.keys);
@@ -501,6 +558,7 @@ export async function runClusterFaults(options: ClusterRunOptions): Promise<Clus
           .filter((l) => l.stream === 'err' && /\bref [0-9a-f]{6,}|Error\b/.test(l.text))
           .map((l) => `${inst.name} ${((l.at - t0) / 1000).toFixed(1)} s: ${l.text.slice(0, 300)}`),
       ),
+      balancerLog: balancerLines.map((l) => `${((l.at - t0) / 1000).toFixed(1)} s: ${l.text.slice(0, 300)}`),
       galera,
       durationMs: Date.now() - started,
     };
@@ -565,7 +623,7 @@ export function formatSummary(s: ClusterSummary): string {
     `  submissions acknowledged ${s.submissions.acknowledged} (missing ${s.submissions.missing.length}, twice ${s.submissions.duplicated.length}); set reports ${s.reports.acknowledged} (missing ${s.reports.missing.length}, twice ${s.reports.duplicated.length}); kit items ${s.kitItems.acknowledged} (problems ${s.kitItems.problems.length}); ratings ${s.ratings.acknowledged} (problems ${s.ratings.problems.length})`,
     `  half records: ${fmt(s.dbOrphans)}`,
     `  object store (${s.objects.source}): ${s.objects.listed} objects; rows without object ${s.objects.missing.length}; objects without row ${s.objects.orphans.length} (${s.objects.leftForSweep} before the start-up sweep)`,
-    `  photo jobs: ${s.photos.total} photos, ${s.photos.notReady} waiting, ${s.photos.failed} failed, ${s.photos.ranTwice} cleaned more than once`,
+    `  photo jobs: ${s.photos.total} photos, ${s.photos.notReady} waiting, ${s.photos.failed} failed, ${s.photos.takenOver} taken over from a dead instance, ${s.photos.retriedAfterError} cleaned again after a logged failed try, ${s.photos.ranTwice} cleaned more than once otherwise`,
     `  search (approve → found on each instance): ${s.search.map((f) => `${f.instance} ${f.ms === null ? 'never' : `${f.ms} ms`}`).join(', ') || 'no probe'}`,
     `  sessions: ${s.sessions.survived} of ${s.sessions.members} still signed in`,
     `  answers slower than ${SLOW_MS / 1000} s: ${s.slow}`,
@@ -573,6 +631,8 @@ export function formatSummary(s: ClusterSummary): string {
     ...s.unclean.slice(0, 10).map((u) => `    ${u}`),
     `  Galera: ${s.galera.map((g) => `${g.node} ${g.state} (size ${g.size})`).join(', ')}`,
   );
+  if (s.balancerLog.length)
+    lines.push(`  haproxy log (abnormal sessions, state changes): ${s.balancerLog.length}`, ...s.balancerLog.slice(0, 20).map((l) => `    ${l}`));
   if (s.instanceErrors.length) lines.push(`  instance error log lines: ${s.instanceErrors.length}`, ...s.instanceErrors.slice(0, 8).map((l) => `    ${l}`));
   return lines.join('\n');
 }

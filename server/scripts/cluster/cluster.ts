@@ -32,6 +32,11 @@ export interface ClusterOptions {
   log?: (line: string) => void;
   /** Each instance's output, line by line (npm run cluster prints it with the instance's name). */
   onInstanceLine?: (instance: string, line: string) => void;
+  /**
+   * `compiled` (default): the instances run dist-server/, compiled first when stale, so a restart
+   * does not compile the server again on a busy CPU; `tsx`: the sources, as `npm run dev` does.
+   */
+  server?: 'compiled' | 'tsx';
 }
 
 interface Secrets {
@@ -179,9 +184,14 @@ export class Cluster {
       this.log(`S3 fake on ${this.s3Endpoint}, bucket ${S3_BUCKET}`);
     }
 
+    const compiled = (this.options.server ?? 'compiled') === 'compiled';
+    if (compiled) {
+      const { stdout } = await run(process.execPath, [resolve(ROOT, 'server/scripts/build-server.mjs')], { cwd: ROOT });
+      if (stdout.trim()) this.log(stdout.trim().replace(/^rigshelf: /, ''));
+    }
     for (let i = 0; i < ports.apps.length; i++) {
       const name = `app${i + 1}`;
-      this.instances.push(new AppInstance(name, ports.apps[i], ROOT, this.instanceEnv(i), (line) => this.options.onInstanceLine?.(name, line)));
+      this.instances.push(new AppInstance(name, ports.apps[i], ROOT, this.instanceEnv(i), (line) => this.options.onInstanceLine?.(name, line), compiled));
     }
     // instance 1 alone first: it applies the migrations and seeds the demo, so nothing races for them
     const [first, ...rest] = this.instances;

@@ -1,7 +1,8 @@
 // haproxy in front of the app instances: round robin, a health check on /api/health every second
 // (two failures take an instance out, two successes bring it back), a refused connection retried on
 // another instance, and the balancer's own failures (an instance that died mid-request, no instance
-// up) answered as a 503 with the app's error shape instead of haproxy's HTML page.
+// up) answered as a 503 with the app's error shape instead of haproxy's HTML page. Sessions that did
+// not end normally (haproxy's termination state, status, timings) are logged to its output.
 import { spawn, type ChildProcess } from 'node:child_process';
 import { mkdirSync, writeFileSync } from 'node:fs';
 import { resolve } from 'node:path';
@@ -17,10 +18,21 @@ export function haproxyConfig(dir: string, ports: ClusterPorts): string {
   return `# written by npm run cluster; changes are overwritten
 global
   maxconn 4096
+  log stdout format raw local0 info
 
 defaults
   mode http
+  log global
+  option httplog
+  # only the sessions that did not end normally (an error status, an abort, a retry)
+  option dontlog-normal
   option forwardfor
+  # one connection to an instance per request. A kept-alive connection to an instance is reused by
+  # other requests; when the instance closes an idle one (Node's 5 s keep-alive timeout) or dies, a
+  # request sent on it gets nothing back, and for a reused connection haproxy closes the member's
+  # connection without an answer so the client may retry (undici reports UND_ERR_SOCKET and does
+  # not). A fresh connection per request fails as a refused connection (retried elsewhere) or a 503.
+  option http-server-close
   # the request (up to a buffer, which holds the small uploads) is read before an instance is chosen:
   # an answer given early, such as the balancer's own 503, then reaches a client that is done
   # sending instead of cutting its upload off mid-body
@@ -32,10 +44,11 @@ defaults
   timeout queue 10s
   # a health check on a busy 2-core machine can take longer than the 1 s between checks
   timeout check 3s
-  # only a connection that never reached an instance is tried again (elsewhere): a request an
-  # instance may have started is never sent twice
+  # a connection that never reached an instance is tried again elsewhere; a GET or HEAD also when
+  # the instance closed the connection without a byte of answer (it died). Any other method is never
+  # sent twice: the instance may have started it
   retries 2
-  retry-on conn-failure
+  retry-on conn-failure empty-response
   option redispatch 1
   errorfile 502 ${errorFile}
   errorfile 503 ${errorFile}
@@ -43,12 +56,15 @@ defaults
 
 frontend rigshelf
   bind 127.0.0.1:${ports.balancer}
+  http-request disable-l7-retry if !METH_GET
   default_backend apps
 
 backend apps
   balance roundrobin
   option httpchk GET /api/health
   http-check expect status 200
+  # no on-marked-down shutdown-sessions: an instance taken out because its database node went away
+  # may still finish the requests it holds, and cutting them would turn answers into closed connections
   default-server inter 1s fastinter 500ms downinter 1s fall 2 rise 2
 ${servers}
 

@@ -1,6 +1,7 @@
-// One app instance of the cluster: `node --import tsx server/index.ts` with its own port, uploads
-// scratch folder and search index file, and the shared database, object store and session secret.
-// Its environment goes through the app's own config module before it is started.
+// One app instance of the cluster: the compiled server (`node dist-server/server/index.js`, as
+// `npm start` runs it; `node --import tsx server/index.ts` with CLUSTER_SERVER=tsx) with its own
+// port, uploads scratch folder and search index file, and the shared database, object store and
+// session secret. Its environment goes through the app's own config module before it is started.
 import { spawn, type ChildProcess } from 'node:child_process';
 import { resolve } from 'node:path';
 import { loadConfig } from '../../config';
@@ -25,6 +26,8 @@ export class AppInstance {
     readonly root: string,
     readonly env: Record<string, string>,
     private readonly onLine: (line: string) => void = () => undefined,
+    /** The compiled server (dist-server/, built by the caller); false: the sources through tsx. */
+    private readonly compiled = true,
   ) {
     // a bad value stops `npm run cluster` here, with the config module's own message
     loadConfig(env);
@@ -41,9 +44,14 @@ export class AppInstance {
   /** Starts the instance and resolves once it serves (or rejects with the last lines it printed). */
   async start(extra: Record<string, string> = {}, timeoutMs = 240_000): Promise<void> {
     this.exit = null;
-    const child = spawn(process.execPath, ['--import', 'tsx', 'server/index.ts'], {
+    // a new name for every process: a restarted instance must not take its dead predecessor's job
+    // claims for its own (they would be resumed without counting the lease that ran out, and a photo
+    // whose try died with the process would look as if it had failed once already)
+    const instanceId = `${this.env.INSTANCE_ID ?? this.name}-${Date.now().toString(36)}`;
+    const args = this.compiled ? ['--enable-source-maps', 'dist-server/server/index.js'] : ['--import', 'tsx', 'server/index.ts'];
+    const child = spawn(process.execPath, args, {
       cwd: this.root,
-      env: { PATH: process.env.PATH, HOME: process.env.HOME, ...this.env, ...extra },
+      env: { PATH: process.env.PATH, HOME: process.env.HOME, ...this.env, INSTANCE_ID: instanceId, ...extra },
       stdio: ['ignore', 'pipe', 'pipe'],
     });
     this.child = child;

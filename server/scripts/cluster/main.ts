@@ -14,6 +14,7 @@ const settings = z
     CLUSTER_STORAGE: z.enum(['s3', 'local'], { error: 'CLUSTER_STORAGE is s3 (the S3 fake) or local (one shared folder)' }).default('s3'),
     CLUSTER_SST: z.enum(['mariabackup', 'rsync'], { error: 'CLUSTER_SST is mariabackup or rsync' }).default('mariabackup'),
     CLUSTER_LOG: z.enum(['0', '1']).default('1'),
+    CLUSTER_SERVER: z.enum(['compiled', 'tsx'], { error: 'CLUSTER_SERVER is compiled (dist-server/) or tsx (the sources)' }).default('compiled'),
   })
   .safeParse(process.env);
 if (!settings.success) {
@@ -30,6 +31,7 @@ try {
     storage: s.CLUSTER_STORAGE,
     sst: s.CLUSTER_SST,
     demo: true,
+    server: s.CLUSTER_SERVER,
     onInstanceLine: s.CLUSTER_LOG === '1' ? (name, line) => console.log(`[${name}] ${line}`) : undefined,
   });
 } catch (err) {
