@@ -56,7 +56,14 @@ export async function startBrowserRig(): Promise<BrowserRig> {
 }
 
 export async function signInThroughForm(page: Page, email: string, password: string) {
-  await page.goto('/sign-in');
+  for (let attempt = 1; ; attempt++) {
+    await page.goto('/sign-in');
+    // the sign-in page sends a signed-in visitor home: a late answer set the old session's cookie again
+    const field = page.getByLabel('E-mail');
+    await Promise.race([field.waitFor(), page.waitForURL((u) => u.pathname !== '/sign-in')]).catch(() => undefined);
+    if (new URL(page.url()).pathname === '/sign-in' || attempt === 3) break;
+    await forgetSession(page);
+  }
   try {
     await page.getByLabel('E-mail').fill(email);
   } catch (err) {
@@ -68,10 +75,17 @@ export async function signInThroughForm(page: Page, email: string, password: str
 }
 
 /**
- * Starts a fresh session. The page is left first: sessions roll, so a response still in flight
- * would otherwise set the cookie again right after it was cleared.
+ * Starts a fresh session. The page is left first, and the session is ended on the server before its
+ * cookie is cleared: sessions roll, and an answer still in flight (the service worker keeps fetching
+ * pictures for a page that is gone) would otherwise set the old session's cookie again.
  */
 export async function forgetSession(page: Page) {
   await page.goto('about:blank');
+  const api = page.context().request;
+  const csrf = await api.get('/api/auth/csrf').catch(() => null);
+  if (csrf?.ok()) {
+    const { csrfToken } = (await csrf.json()) as { csrfToken: string };
+    await api.post('/api/auth/logout', { headers: { 'X-CSRF-Token': csrfToken } }).catch(() => undefined);
+  }
   await page.context().clearCookies();
 }
