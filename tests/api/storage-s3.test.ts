@@ -231,6 +231,19 @@ describe('s3 storage · start-up sweep', { timeout: 180_000 }, () => {
   });
 });
 
+describe('s3 storage · long listings', { timeout: 180_000 }, () => {
+  it('s3 storage · listing more than one page (S3 answers at most 1000 keys a page) · every key comes back through the continuation token', async () => {
+    const keys = Array.from({ length: 1001 }, (_, i) => `incoming/page-test-${String(i).padStart(4, '0')}`);
+    for (let i = 0; i < keys.length; i += 50) await Promise.all(keys.slice(i, i + 50).map((k) => storage().put(k, 'x')));
+    try {
+      const listed = (await storage().list('incoming/page-test-')).map((o) => o.key).sort();
+      expect(listed).toEqual(keys);
+    } finally {
+      await storage().remove(keys);
+    }
+  });
+});
+
 describe('s3 storage · set report and wanted photos', { timeout: 180_000 }, () => {
   it('s3 storage · a set report photo · is cleaned into the bucket and served to members', async () => {
     const id = (await submit(author, 'Reported bracket').expect(201)).body.id;

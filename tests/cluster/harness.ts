@@ -169,46 +169,18 @@ async function listObjects(cluster: Cluster): Promise<{ keys: string[]; source: 
     forcePathStyle: true,
     credentials: { accessKeyId: env.S3_ACCESS_KEY_ID, secretAccessKey: env.S3_SECRET_ACCESS_KEY },
   });
-  // the S3 fake answered a listing with a 500 again and again after an instance died mid-upload (an
-  // object file without its metadata file, it seems); then its folder is read instead, which is how
-  // the fake keeps the bucket (<key>._S3rver_object beside <key>._S3rver_metadata.json)
-  let keys: string[] = [];
-  let source = `${env.S3_ENDPOINT}/${env.S3_BUCKET}`;
-  for (let attempt = 1; ; attempt++) {
-    try {
-      keys = [];
-      let token: string | undefined;
-      do {
-        const page = await client.send(new sdk.ListObjectsV2Command({ Bucket: env.S3_BUCKET, ContinuationToken: token }));
-        for (const o of page.Contents ?? []) if (o.Key) keys.push(o.Key);
-        token = page.IsTruncated ? page.NextContinuationToken : undefined;
-      } while (token);
-      break;
-    } catch (err) {
-      if (attempt < 3) {
-        await sleep(1000 * attempt);
-        continue;
-      }
-      const root = join(cluster.objectDir, env.S3_BUCKET);
-      const files: string[] = [];
-      const walk = (dir: string, prefix: string) => {
-        if (!existsSync(dir)) return;
-        for (const name of readdirSync(dir)) {
-          const full = join(dir, name);
-          if (statSync(full).isDirectory()) walk(full, `${prefix}${name}/`);
-          else files.push(`${prefix}${name}`);
-        }
-      };
-      walk(root, '');
-      const all = new Set(files);
-      keys = files.filter((f) => f.endsWith('._S3rver_object')).map((f) => f.slice(0, -'._S3rver_object'.length));
-      const bare = keys.filter((k) => !all.has(`${k}._S3rver_metadata.json`));
-      source = `${root} (the listing answered ${(err as Error).name}: ${(err as Error).message}; ${bare.length} object file(s) without metadata${bare.length ? `, e.g. ${bare[0]}` : ''})`;
-      break;
-    }
+  const keys: string[] = [];
+  let token: string | undefined;
+  try {
+    do {
+      const page = await client.send(new sdk.ListObjectsV2Command({ Bucket: env.S3_BUCKET, ContinuationToken: token }));
+      for (const o of page.Contents ?? []) if (o.Key) keys.push(o.Key);
+      token = page.IsTruncated ? page.NextContinuationToken : undefined;
+    } while (token);
+  } finally {
+    client.destroy();
   }
-  client.destroy();
-  return { keys, source };
+  return { keys, source: `${env.S3_ENDPOINT}/${env.S3_BUCKET}` };
 }
 
 /** A 5xx answer is clean when it is a 503 whose JSON says what happened, with no stack trace in it. */
