@@ -4,7 +4,7 @@ import { readdirSync } from 'node:fs';
 import request from 'supertest';
 import { afterAll, beforeAll, beforeEach, describe, expect, it, vi } from 'vitest';
 import { Jimp } from 'jimp';
-import { Part, PartFile, RevisionFile } from '../../server/db/models';
+import { Part, PartFile, PartRevision, RevisionFile } from '../../server/db/models';
 import { sweepUploads } from '../../server/modules/parts/part-files';
 import type { S3Fake } from '../../server/scripts/s3-fake';
 import { agentFor, createTestApp, makeUser, type TestApp } from '../helpers/app';
@@ -228,6 +228,29 @@ describe('s3 storage · start-up sweep', { timeout: 180_000 }, () => {
     expect(keys).not.toContain('store/deadbeefdeadbeefdeadbeefdeadbeef.stl');
     expect(keys).not.toContain('incoming/nobody-waits-for-me');
     expect(keys).toContain(`store/${kept.storedName}`);
+  });
+});
+
+describe('s3 storage · a submission sent again', { timeout: 180_000 }, () => {
+  it('s3 storage · the same submission twice with one Idempotency-Key (its answer was lost) · one part with its objects once; the repeat leaves no object or temp file', async () => {
+    await settled();
+    const before = await objects();
+    const key = 'submission-retry-0001';
+    const title = 'Bracket sent twice';
+    const first = await submit(author, title, { photo: await plainPng() })
+      .set('Idempotency-Key', key)
+      .expect(201);
+    await settled();
+    const afterFirst = await objects();
+    const again = await submit(author, title, { photo: await plainPng() })
+      .set('Idempotency-Key', key)
+      .expect(201);
+    await settled();
+    expect(again.body).toEqual(first.body);
+    expect(await PartRevision.count({ where: { title } })).toBe(1);
+    expect(afterFirst.length).toBeGreaterThan(before.length);
+    expect(await objects()).toEqual(afterFirst);
+    expect(tmpFiles()).toEqual([]);
   });
 });
 
