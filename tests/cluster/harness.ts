@@ -3,6 +3,7 @@
 // ratings, set reports, kit items, small STL uploads with photos), kills one app instance, then one
 // Galera node, brings both back during the load, and then checks the shelf, the object store, the
 // photo jobs, every instance's search, the sessions, the error answers and the cluster's state.
+import { randomUUID } from 'node:crypto';
 import { existsSync, mkdtempSync, readdirSync, rmSync, statSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { basename, join } from 'node:path';
@@ -258,6 +259,9 @@ export async function runClusterFaults(options: ClusterRunOptions): Promise<Clus
     log(`${members.length} members signed in through haproxy; ${partIds.length} published parts; load for ${options.durationMs / 1000} s`);
 
     let counter = 0;
+    // every write of the load carries an Idempotency-Key: haproxy may then send it again on another
+    // instance when its instance died before answering, and the app files it once
+    const onceKey = () => ({ 'Idempotency-Key': randomUUID() });
     const upload = (form: FormData, name: string) => form.append('photo', new Blob([new Uint8Array(png)], { type: 'image/png' }), name);
     async function submit(c: Member) {
       counter += 1;
@@ -267,7 +271,7 @@ export async function runClusterFaults(options: ClusterRunOptions): Promise<Clus
       form.append('data', JSON.stringify(loadSubmission(title)));
       form.append('model', new Blob([new Uint8Array(stl)]), 'plate.stl');
       if (counter % 2 === 0) upload(form, 'plate.png');
-      const s = await recorder.timed('submit', () => c.request('POST', '/api/parts', form, WAIT_MS));
+      const s = await recorder.timed('submit', () => c.request('POST', '/api/parts', form, WAIT_MS, onceKey()));
       submissions.push({ title, status: s.status, word });
     }
     async function report(c: Member) {
@@ -276,11 +280,13 @@ export async function runClusterFaults(options: ClusterRunOptions): Promise<Clus
       const form = new FormData();
       form.append('data', JSON.stringify({ production, daysInUse: 3, material: 'PETG', outcome: 'held-up', conditions: [] }));
       if (counter % 2 === 0) upload(form, 'on-set.png');
-      const s = await recorder.timed('report', () => c.request('POST', `/api/parts/${pick(partIds)}/reports`, form, WAIT_MS));
+      const s = await recorder.timed('report', () => c.request('POST', `/api/parts/${pick(partIds)}/reports`, form, WAIT_MS, onceKey()));
       reports.push({ title: production, status: s.status });
     }
     async function kitItem(m: (typeof members)[number]) {
-      const s = await recorder.timed('kit-item', () => m.client.request('POST', `/api/kits/${m.kitId}/items`, { partId: pick(partIds), quantity: 2 }, WAIT_MS));
+      const s = await recorder.timed('kit-item', () =>
+        m.client.request('POST', `/api/kits/${m.kitId}/items`, { partId: pick(partIds), quantity: 2 }, WAIT_MS, onceKey()),
+      );
       const entry = kitAttempts.get(m.kitId)!;
       if (s.status === 201 || s.status === 200) entry.acked += 1;
       else if (s.status <= 0 || s.status >= 500) entry.unclear += 1;
@@ -294,7 +300,7 @@ export async function runClusterFaults(options: ClusterRunOptions): Promise<Clus
         else if (roll < 0.65) {
           const partId = pick(partIds);
           const stars = 1 + Math.floor(Math.random() * 5);
-          const s = await recorder.timed('rate', () => c.request('POST', `/api/parts/${partId}/ratings`, { stars }, WAIT_MS));
+          const s = await recorder.timed('rate', () => c.request('POST', `/api/parts/${partId}/ratings`, { stars }, WAIT_MS, onceKey()));
           ratings.push({ member: m.email, partId, stars, status: s.status, at: s.at });
         } else if (roll < 0.75) await report(c);
         else if (roll < 0.87) await kitItem(m);
