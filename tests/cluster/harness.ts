@@ -68,6 +68,15 @@ export const SHORT_FORM: ClusterRunOptions = {
   afterMs: 15_000,
 };
 
+/** CI's form: the same faults in the same order and every check, with less load and a shorter window. */
+export const CI_FORM: ClusterRunOptions = {
+  ...LONG_FORM,
+  members: 4,
+  durationMs: 40_000,
+  searchProbes: 1,
+  afterMs: 8_000,
+};
+
 interface Event {
   name: string;
   at: number;
@@ -232,6 +241,21 @@ export async function runClusterFaults(options: ClusterRunOptions): Promise<Clus
   const ratings: RatingAttempt[] = [];
   const kitAttempts = new Map<number, { acked: number; unclear: number }>();
   let stopLoad = false;
+  // Ctrl-C or a CI job's SIGTERM still stops everything this run started (nodes, haproxy, instances)
+  let stopping: Promise<void> | null = null;
+  const onSignal = (signal: NodeJS.Signals) => {
+    stopLoad = true;
+    log(`${signal} received; stopping the cluster`);
+    stopping ??= cluster
+      .stop()
+      .catch((err) => log(`stopping the cluster: ${String(err)}`))
+      .finally(() => {
+        if (!process.env.CLUSTER_KEEP) rmSync(dir, { recursive: true, force: true });
+        process.exit(130);
+      });
+  };
+  process.on('SIGINT', onSignal);
+  process.on('SIGTERM', onSignal);
 
   try {
     await cluster.start();
@@ -542,8 +566,12 @@ export async function runClusterFaults(options: ClusterRunOptions): Promise<Clus
     };
   } finally {
     stopLoad = true;
-    await cluster.stop().catch((err) => log(`stopping the cluster: ${String(err)}`));
-    if (!process.env.CLUSTER_KEEP) rmSync(dir, { recursive: true, force: true });
+    if (!stopping) {
+      await cluster.stop().catch((err) => log(`stopping the cluster: ${String(err)}`));
+      if (!process.env.CLUSTER_KEEP) rmSync(dir, { recursive: true, force: true });
+    }
+    process.off('SIGINT', onSignal);
+    process.off('SIGTERM', onSignal);
   }
 }
 
@@ -569,6 +597,7 @@ export function verdict(s: ClusterSummary): string[] {
   if (s.objects.orphans.length) p.push(`object store: ${s.objects.orphans.length} object(s) without a row, e.g. ${s.objects.orphans.slice(0, 3).join(', ')}`);
   if (s.photos.notReady || s.photos.failed) p.push(`photos: ${s.photos.notReady} still waiting, ${s.photos.failed} failed`);
   if (s.photos.ranTwice) p.push(`photos: ${s.photos.ranTwice} cleaned more than once`);
+  if (s.photos.retriedAfterError) p.push(`photos: ${s.photos.retriedAfterError} cleaned again after a failed try`);
   for (const f of s.search)
     if (f.ms === null || f.ms > s.options.searchBoundMs)
       p.push(`search on ${f.instance}: ${f.ms === null ? 'never found' : `found after ${f.ms} ms`} (bound ${s.options.searchBoundMs} ms)`);
