@@ -232,6 +232,24 @@ describe('instances · background jobs', { timeout: 180_000 }, () => {
     await a.sequelize.query("UPDATE part_files SET processing = 'ready', claimed_by = NULL, lease_until = NULL WHERE id = :id", { replacements: { id } });
   });
 
+  it('job claims · a try that ended while its release could not be written · its lease is not kept alive, and another instance takes the photo over', async () => {
+    const [, , , id] = photoIds;
+    await orphan([id], null);
+    expect((await a.services.claims.claim('photo', 'part_files', id)).claimed).toBe(true);
+    const query = vi.spyOn(a.sequelize, 'query').mockRejectedValueOnce(socketTimeout());
+    try {
+      await expect(a.services.claims.release('part_files', id)).rejects.toThrow(/socket timeout/);
+    } finally {
+      query.mockRestore();
+    }
+    // the heartbeat moves on only the leases of jobs under way here
+    await a.services.claims.heartbeat();
+    await sleep(2200);
+    await a.services.claims.heartbeat();
+    expect(await b.services.claims.claimDue('photo', 'part_files', 4)).toContain(id);
+    await a.sequelize.query("UPDATE part_files SET processing = 'ready', claimed_by = NULL, lease_until = NULL WHERE id = :id", { replacements: { id } });
+  });
+
   it('start-up sweep · files another instance may be writing · left alone during the grace period', async () => {
     const fresh = join(uploadsDir, 'tmp', 'upload-in-progress');
     writeFileSync(fresh, 'half an upload');

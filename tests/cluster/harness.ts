@@ -120,6 +120,8 @@ export interface ClusterSummary {
   slow: number;
   /** The instances' log lines about failures (500 refs, uncaught errors), for reading the 5xx. */
   instanceErrors: string[];
+  /** Photos still waiting after the wait: their rows and the instances' lines about them and their job loops. */
+  stuckPhotos: string[];
   /** haproxy's log of the sessions that did not end normally (termination state, status, timings). */
   balancerLog: string[];
   galera: { node: string; size: number; state: string }[];
@@ -409,6 +411,22 @@ export async function runClusterFaults(options: ClusterRunOptions): Promise<Clus
         )[0][0],
       );
     await waitFor(async () => (await pendingPhotos()) === 0, 90_000, 500);
+    // a photo still waiting: its row and what the instances said about it and their job loops
+    const stuckPhotos: string[] = [];
+    for (const table of ['part_files', 'report_photos']) {
+      for (const [name, attempts, expiries, holder, lease, created, now] of await sql(
+        `SELECT stored_name, processing_attempts, lease_expiries, IFNULL(claimed_by, '-'), IFNULL(lease_until, '-'), created_at, NOW(3) FROM rigshelf.${table} WHERE processing = 'pending'`,
+      )) {
+        stuckPhotos.push(
+          `${table} ${name}: attempts ${attempts}, lease expiries ${expiries}, held by ${holder} until ${lease}, created ${created}, now ${now}`,
+        );
+        for (const inst of cluster.instances) {
+          for (const l of inst.lines.filter((x) => x.text.includes(name) || /background job loop|startup-sweep/.test(x.text))) {
+            stuckPhotos.push(`  ${inst.name} ${((l.at - t0) / 1000).toFixed(1)} s: ${l.text.slice(0, 200)}`);
+          }
+        }
+      }
+    }
 
     // ---- checks
     const submitted = await submissionProblems(sql, 'rigshelf', `Cluster plate ${run} %`, submissions);
@@ -555,6 +573,7 @@ export async function runClusterFaults(options: ClusterRunOptions): Promise<Clus
       sessions,
       unclean,
       slow: samples.filter((x) => x.ms > SLOW_MS).length,
+      stuckPhotos,
       instanceErrors: cluster.instances.flatMap((inst) =>
         inst.lines
           .filter((l) => l.stream === 'err' && /\bref [0-9a-f]{6,}|Error\b/.test(l.text))
@@ -640,6 +659,7 @@ export function formatSummary(s: ClusterSummary): string {
   );
   if (s.balancerLog.length)
     lines.push(`  haproxy log (abnormal sessions, state changes): ${s.balancerLog.length}`, ...s.balancerLog.slice(0, 20).map((l) => `    ${l}`));
+  if (s.stuckPhotos.length) lines.push('  photos still waiting:', ...s.stuckPhotos.slice(0, 30).map((l) => `    ${l}`));
   if (s.instanceErrors.length) lines.push(`  instance error log lines: ${s.instanceErrors.length}`, ...s.instanceErrors.slice(0, 8).map((l) => `    ${l}`));
   return lines.join('\n');
 }

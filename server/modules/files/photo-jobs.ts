@@ -57,9 +57,10 @@ export class PhotoJobs {
     const id = (row as { id?: number }).id;
     const job: Promise<void> = this.cleanPhoto(row, reload, table && id ? { table, id } : null)
       .catch((err) => console.error(`photo ${row.storedName} could not be cleaned:`, err))
-      .finally(() => {
+      // released before the job counts as done, so settled() means the row is free for others too
+      .finally(async () => {
+        if (table && id) await this.claims!.release(table, id).catch(() => undefined);
         this.inFlight.delete(job);
-        if (table && id) void this.claims!.release(table, id).catch(() => undefined);
       });
     this.inFlight.add(job);
   }
@@ -92,7 +93,7 @@ export class PhotoJobs {
       }
       if (current.processing !== 'pending') return;
       if (job) {
-        const claim = await this.claims!.claim('photo', job.table, job.id);
+        const claim = await this.retryWhileAway(() => this.claims!.claim('photo', job.table, job.id));
         // another instance holds it; it is taken over here only once that instance's lease runs out
         if (!claim.claimed) return;
         leaseExpiries = claim.leaseExpiries;
@@ -107,7 +108,9 @@ export class PhotoJobs {
         );
         return;
       }
-      await current.update({ processingAttempts: current.processingAttempts + 1 });
+      // an absolute count: sending it again after an answer that was lost counts the try once
+      const attempts = current.processingAttempts + 1;
+      await this.retryWhileAway(() => current.update({ processingAttempts: attempts }));
       const result = await this.process(keys);
       // shutting down: the try does not count, and the start-up sweep resumes the photo
       if (!result.ok && result.interrupted) {
