@@ -585,7 +585,9 @@ export async function runClusterFaults(options: ClusterRunOptions): Promise<Clus
     };
   } finally {
     stopLoad = true;
-    if (!stopping) {
+    // a signal's stop exits the process once the cluster is down; what failed meanwhile is its doing
+    if (stopping) await stopping;
+    else {
       await cluster.stop().catch((err) => log(`stopping the cluster: ${String(err)}`));
       if (!process.env.CLUSTER_KEEP) rmSync(dir, { recursive: true, force: true });
     }
