@@ -258,6 +258,12 @@ export async function runClusterFaults(options: ClusterRunOptions): Promise<Clus
   };
   process.on('SIGINT', onSignal);
   process.on('SIGTERM', onSignal);
+  // the S3 fake runs in this process: an error it throws outside a request still stops the cluster
+  const onCrash = (err: unknown) => {
+    log(`uncaught error: ${err instanceof Error ? (err.stack ?? err.message) : String(err)}`);
+    onSignal('SIGTERM');
+  };
+  process.on('uncaughtException', onCrash);
 
   try {
     await cluster.start();
@@ -593,6 +599,7 @@ export async function runClusterFaults(options: ClusterRunOptions): Promise<Clus
     }
     process.off('SIGINT', onSignal);
     process.off('SIGTERM', onSignal);
+    process.off('uncaughtException', onCrash);
   }
 }
 
