@@ -108,6 +108,15 @@ export function createApp({ config, sequelize, mailer }: AppContext) {
       userId: data.passport?.user ?? null,
     }),
   });
+  // rolling sessions are touched after the answer's headers and first bytes went out: a touch that
+  // fails (its database node went away that moment) would cut the answer off, though it only moves
+  // the expiry on, which the member's next request does again
+  const touch = store.touch.bind(store);
+  store.touch = (sid, data, callback) =>
+    touch(sid, data, (err?: unknown) => {
+      if (err) console.error(`rigshelf: a session's expiry could not be moved on (${err instanceof Error ? err.message : String(err)})`);
+      callback?.(undefined);
+    });
   app.use(
     '/api',
     session({

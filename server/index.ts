@@ -50,14 +50,23 @@ export async function startServer(config: Config): Promise<RunningServer> {
   // Files another instance is writing right now are newer than this process; with other instances
   // up, the sweep leaves anything from the last hour alone (an upload and its commit take seconds).
   await built.services.jobs.announce();
-  const others = await built.services.claims.othersAlive();
-  const minAgeMs = others ? SWEEP_GRACE_WITH_OTHERS_MS : Math.max(0, Date.now() - performance.timeOrigin);
-  if (!others) await built.services.claims.expireOthers();
-  const recovered = await built.services.parts.recover({ minAgeMs });
-  if (recovered.removed || recovered.resumed) {
-    console.log(`rigshelf: upload sweep removed ${recovered.removed} orphaned file(s), resumed ${recovered.resumed} photo(s)`);
+  const sweep = async () => {
+    const others = await built.services.claims.othersAlive();
+    const minAgeMs = others ? SWEEP_GRACE_WITH_OTHERS_MS : Math.max(0, Date.now() - performance.timeOrigin);
+    if (!others) await built.services.claims.expireOthers();
+    const recovered = await built.services.parts.recover({ minAgeMs });
+    if (recovered.removed || recovered.resumed) {
+      console.log(`rigshelf: upload sweep removed ${recovered.removed} orphaned file(s), resumed ${recovered.resumed} photo(s)`);
+    }
+    if (recovered.pictures) console.log(`rigshelf: drawing the picture of ${recovered.pictures} model(s) in the background`);
+  };
+  try {
+    await sweep();
+  } catch (err) {
+    // a store that is away (or a listing it refuses) must not keep the shelf from starting
+    console.error(`rigshelf: start-up sweep could not finish (${err instanceof Error ? err.message : String(err)}); the job loop tries it again`);
+    built.services.jobs.later('startup-sweep', sweep);
   }
-  if (recovered.pictures) console.log(`rigshelf: drawing the picture of ${recovered.pictures} model(s) in the background`);
   if (config.seedDemo) {
     const started = performance.now();
     const seeds = await seedDemo(sequelize, built.services);

@@ -5,7 +5,7 @@ import { join, resolve } from 'node:path';
 import { setTimeout as sleep } from 'node:timers/promises';
 import { QueryTypes } from 'sequelize';
 import request from 'supertest';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { afterAll, beforeAll, describe, expect, it, vi } from 'vitest';
 import { PartFile } from '../../server/db/models';
 import { loadConfig } from '../../server/config';
 import { migrate, withSchemaLock } from '../../server/db/migrator';
@@ -174,6 +174,80 @@ describe('instances · background jobs', { timeout: 180_000 }, () => {
     await a.services.parts.photosSettled();
     await row.reload();
     expect(row.processing).toBe('ready');
+  });
+
+  /** What the mariadb connector reports when a query's socket times out (errno 45026), wrapped as Sequelize wraps it. */
+  const socketTimeout = () =>
+    Object.assign(new Error('(conn:7, no: 45026, SQLState: 08S01) socket timeout'), { original: { errno: 45026, code: 'ER_SOCKET_TIMEOUT' } });
+
+  it('job claims · the outcome write times out once (a node being evicted) · written again by the holder, the photo cleaned once', async () => {
+    const [, , , id] = photoIds;
+    const row = (await PartFile.findByPk(id))!;
+    const raw = join(uploadsDir, 'incoming', row.storedName);
+    writeFileSync(raw, await jpegWithGps(40, 30));
+    const update = vi.spyOn(PartFile, 'update').mockRejectedValueOnce(socketTimeout());
+    await orphan([id], null);
+    await a.sequelize.query('UPDATE part_files SET processing_attempts = 0 WHERE id = :id', { replacements: { id } });
+    let writes = 0;
+    try {
+      await a.services.jobs.tick();
+      await Promise.all([a.services.parts.photosSettled(), b.services.parts.photosSettled()]);
+      writes = update.mock.calls.length;
+    } finally {
+      update.mockRestore();
+    }
+    const [after] = await query<{ processing: string; attempts: number }>('SELECT processing, processing_attempts AS attempts FROM part_files WHERE id = :id', {
+      id,
+    });
+    expect(writes).toBe(2);
+    expect(after).toEqual({ processing: 'ready', attempts: 1 });
+    expect(existsSync(raw)).toBe(false);
+  });
+
+  it('job claims · the lease lost while the outcome write was refused · the new holder is not overwritten and keeps the raw upload', async () => {
+    const [, , , id] = photoIds;
+    const row = (await PartFile.findByPk(id))!;
+    const raw = join(uploadsDir, 'incoming', row.storedName);
+    writeFileSync(raw, await jpegWithGps(40, 30));
+    // while instance a cannot write its result, its lease runs out and another instance takes the photo
+    const update = vi.spyOn(PartFile, 'update').mockImplementationOnce(async () => {
+      await a.sequelize.query("UPDATE part_files SET claimed_by = 'instance-c', lease_until = NOW(3) + INTERVAL 30 SECOND WHERE id = :id", {
+        replacements: { id },
+      });
+      throw socketTimeout();
+    });
+    await orphan([id], null);
+    await a.sequelize.query('UPDATE part_files SET processing_attempts = 0 WHERE id = :id', { replacements: { id } });
+    try {
+      await a.services.jobs.tick();
+      await Promise.all([a.services.parts.photosSettled(), b.services.parts.photosSettled()]);
+    } finally {
+      update.mockRestore();
+    }
+    const [after] = await query<{ processing: string; claimedBy: string | null }>('SELECT processing, claimed_by AS claimedBy FROM part_files WHERE id = :id', {
+      id,
+    });
+    expect(after).toEqual({ processing: 'pending', claimedBy: 'instance-c' });
+    expect(existsSync(raw)).toBe(true);
+    await a.sequelize.query("UPDATE part_files SET processing = 'ready', claimed_by = NULL, lease_until = NULL WHERE id = :id", { replacements: { id } });
+  });
+
+  it('job claims · a try that ended while its release could not be written · its lease is not kept alive, and another instance takes the photo over', async () => {
+    const [, , , id] = photoIds;
+    await orphan([id], null);
+    expect((await a.services.claims.claim('photo', 'part_files', id)).claimed).toBe(true);
+    const query = vi.spyOn(a.sequelize, 'query').mockRejectedValueOnce(socketTimeout());
+    try {
+      await expect(a.services.claims.release('part_files', id)).rejects.toThrow(/socket timeout/);
+    } finally {
+      query.mockRestore();
+    }
+    // the heartbeat moves on only the leases of jobs under way here
+    await a.services.claims.heartbeat();
+    await sleep(2200);
+    await a.services.claims.heartbeat();
+    expect(await b.services.claims.claimDue('photo', 'part_files', 4)).toContain(id);
+    await a.sequelize.query("UPDATE part_files SET processing = 'ready', claimed_by = NULL, lease_until = NULL WHERE id = :id", { replacements: { id } });
   });
 
   it('start-up sweep · files another instance may be writing · left alone during the grace period', async () => {

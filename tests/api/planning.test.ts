@@ -477,6 +477,19 @@ describe('planning · kit items', () => {
     expect((await owner.patch(`/api/kits/${kitId}/items/${theirs}`).send({ quantity: 2 })).status).toBe(404);
   });
 
+  it('items · the same Idempotency-Key sent twice (the first answer was lost) · one item added, both answers name it; a malformed key 422', async () => {
+    const count = async () => ((await owner.get(`/api/kits/${kitId}`)).body as KitDetail).items.length;
+    const before = await count();
+    const key = 'kit-item-retry-0001';
+    const first = await owner.post(`/api/kits/${kitId}/items`).set('Idempotency-Key', key).send({ partId: cubePart, quantity: 3 }).expect(201);
+    const again = await owner.post(`/api/kits/${kitId}/items`).set('Idempotency-Key', key).send({ partId: cubePart, quantity: 3 }).expect(201);
+    expect(again.body.id).toBe(first.body.id);
+    expect(await count()).toBe(before + 1);
+    const bad = await owner.post(`/api/kits/${kitId}/items`).set('Idempotency-Key', 'no').send({ partId: cubePart });
+    expect(bad.status).toBe(422);
+    expect(bad.body.error.fields.idempotencyKey).toMatch(/8 to 64/);
+  });
+
   it('items · a deleted printer · leaves its items with no printer', async () => {
     const spare = (
       await owner

@@ -4,7 +4,7 @@ import { readdirSync } from 'node:fs';
 import request from 'supertest';
 import { afterAll, beforeAll, beforeEach, describe, expect, it, vi } from 'vitest';
 import { Jimp } from 'jimp';
-import { Part, PartFile, RevisionFile } from '../../server/db/models';
+import { Part, PartFile, PartRevision, RevisionFile } from '../../server/db/models';
 import { sweepUploads } from '../../server/modules/parts/part-files';
 import type { S3Fake } from '../../server/scripts/s3-fake';
 import { agentFor, createTestApp, makeUser, type TestApp } from '../helpers/app';
@@ -228,6 +228,42 @@ describe('s3 storage · start-up sweep', { timeout: 180_000 }, () => {
     expect(keys).not.toContain('store/deadbeefdeadbeefdeadbeefdeadbeef.stl');
     expect(keys).not.toContain('incoming/nobody-waits-for-me');
     expect(keys).toContain(`store/${kept.storedName}`);
+  });
+});
+
+describe('s3 storage · a submission sent again', { timeout: 180_000 }, () => {
+  it('s3 storage · the same submission twice with one Idempotency-Key (its answer was lost) · one part with its objects once; the repeat leaves no object or temp file', async () => {
+    await settled();
+    const before = await objects();
+    const key = 'submission-retry-0001';
+    const title = 'Bracket sent twice';
+    const first = await submit(author, title, { photo: await plainPng() })
+      .set('Idempotency-Key', key)
+      .expect(201);
+    await settled();
+    const afterFirst = await objects();
+    const again = await submit(author, title, { photo: await plainPng() })
+      .set('Idempotency-Key', key)
+      .expect(201);
+    await settled();
+    expect(again.body).toEqual(first.body);
+    expect(await PartRevision.count({ where: { title } })).toBe(1);
+    expect(afterFirst.length).toBeGreaterThan(before.length);
+    expect(await objects()).toEqual(afterFirst);
+    expect(tmpFiles()).toEqual([]);
+  });
+});
+
+describe('s3 storage · long listings', { timeout: 180_000 }, () => {
+  it('s3 storage · listing more than one page (S3 answers at most 1000 keys a page) · every key comes back through the continuation token', async () => {
+    const keys = Array.from({ length: 1001 }, (_, i) => `incoming/page-test-${String(i).padStart(4, '0')}`);
+    for (let i = 0; i < keys.length; i += 50) await Promise.all(keys.slice(i, i + 50).map((k) => storage().put(k, 'x')));
+    try {
+      const listed = (await storage().list('incoming/page-test-')).map((o) => o.key).sort();
+      expect(listed).toEqual(keys);
+    } finally {
+      await storage().remove(keys);
+    }
   });
 });
 

@@ -3,6 +3,7 @@
 // ratings, set reports, kit items, small STL uploads with photos), kills one app instance, then one
 // Galera node, brings both back during the load, and then checks the shelf, the object store, the
 // photo jobs, every instance's search, the sessions, the error answers and the cluster's state.
+import { randomUUID } from 'node:crypto';
 import { existsSync, mkdtempSync, readdirSync, rmSync, statSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { basename, join } from 'node:path';
@@ -67,6 +68,15 @@ export const SHORT_FORM: ClusterRunOptions = {
   afterMs: 15_000,
 };
 
+/** CI's form: the same faults in the same order and every check, with less load and a shorter window. */
+export const CI_FORM: ClusterRunOptions = {
+  ...LONG_FORM,
+  members: 4,
+  durationMs: 40_000,
+  searchProbes: 1,
+  afterMs: 8_000,
+};
+
 interface Event {
   name: string;
   at: number;
@@ -110,6 +120,8 @@ export interface ClusterSummary {
   slow: number;
   /** The instances' log lines about failures (500 refs, uncaught errors), for reading the 5xx. */
   instanceErrors: string[];
+  /** Photos still waiting after the wait: their rows and the instances' lines about them and their job loops. */
+  stuckPhotos: string[];
   /** haproxy's log of the sessions that did not end normally (termination state, status, timings). */
   balancerLog: string[];
   galera: { node: string; size: number; state: string }[];
@@ -169,46 +181,18 @@ async function listObjects(cluster: Cluster): Promise<{ keys: string[]; source: 
     forcePathStyle: true,
     credentials: { accessKeyId: env.S3_ACCESS_KEY_ID, secretAccessKey: env.S3_SECRET_ACCESS_KEY },
   });
-  // the S3 fake answered a listing with a 500 again and again after an instance died mid-upload (an
-  // object file without its metadata file, it seems); then its folder is read instead, which is how
-  // the fake keeps the bucket (<key>._S3rver_object beside <key>._S3rver_metadata.json)
-  let keys: string[] = [];
-  let source = `${env.S3_ENDPOINT}/${env.S3_BUCKET}`;
-  for (let attempt = 1; ; attempt++) {
-    try {
-      keys = [];
-      let token: string | undefined;
-      do {
-        const page = await client.send(new sdk.ListObjectsV2Command({ Bucket: env.S3_BUCKET, ContinuationToken: token }));
-        for (const o of page.Contents ?? []) if (o.Key) keys.push(o.Key);
-        token = page.IsTruncated ? page.NextContinuationToken : undefined;
-      } while (token);
-      break;
-    } catch (err) {
-      if (attempt < 3) {
-        await sleep(1000 * attempt);
-        continue;
-      }
-      const root = join(cluster.objectDir, env.S3_BUCKET);
-      const files: string[] = [];
-      const walk = (dir: string, prefix: string) => {
-        if (!existsSync(dir)) return;
-        for (const name of readdirSync(dir)) {
-          const full = join(dir, name);
-          if (statSync(full).isDirectory()) walk(full, `${prefix}${name}/`);
-          else files.push(`${prefix}${name}`);
-        }
-      };
-      walk(root, '');
-      const all = new Set(files);
-      keys = files.filter((f) => f.endsWith('._S3rver_object')).map((f) => f.slice(0, -'._S3rver_object'.length));
-      const bare = keys.filter((k) => !all.has(`${k}._S3rver_metadata.json`));
-      source = `${root} (the listing answered ${(err as Error).name}: ${(err as Error).message}; ${bare.length} object file(s) without metadata${bare.length ? `, e.g. ${bare[0]}` : ''})`;
-      break;
-    }
+  const keys: string[] = [];
+  let token: string | undefined;
+  try {
+    do {
+      const page = await client.send(new sdk.ListObjectsV2Command({ Bucket: env.S3_BUCKET, ContinuationToken: token }));
+      for (const o of page.Contents ?? []) if (o.Key) keys.push(o.Key);
+      token = page.IsTruncated ? page.NextContinuationToken : undefined;
+    } while (token);
+  } finally {
+    client.destroy();
   }
-  client.destroy();
-  return { keys, source };
+  return { keys, source: `${env.S3_ENDPOINT}/${env.S3_BUCKET}` };
 }
 
 /** A 5xx answer is clean when it is a 503 whose JSON says what happened, with no stack trace in it. */
@@ -259,6 +243,27 @@ export async function runClusterFaults(options: ClusterRunOptions): Promise<Clus
   const ratings: RatingAttempt[] = [];
   const kitAttempts = new Map<number, { acked: number; unclear: number }>();
   let stopLoad = false;
+  // Ctrl-C or a CI job's SIGTERM still stops everything this run started (nodes, haproxy, instances)
+  let stopping: Promise<void> | null = null;
+  const onSignal = (signal: NodeJS.Signals) => {
+    stopLoad = true;
+    log(`${signal} received; stopping the cluster`);
+    stopping ??= cluster
+      .stop()
+      .catch((err) => log(`stopping the cluster: ${String(err)}`))
+      .finally(() => {
+        if (!process.env.CLUSTER_KEEP) rmSync(dir, { recursive: true, force: true });
+        process.exit(130);
+      });
+  };
+  process.on('SIGINT', onSignal);
+  process.on('SIGTERM', onSignal);
+  // the S3 fake runs in this process: an error it throws outside a request still stops the cluster
+  const onCrash = (err: unknown) => {
+    log(`uncaught error: ${err instanceof Error ? (err.stack ?? err.message) : String(err)}`);
+    onSignal('SIGTERM');
+  };
+  process.on('uncaughtException', onCrash);
 
   try {
     await cluster.start();
@@ -286,6 +291,9 @@ export async function runClusterFaults(options: ClusterRunOptions): Promise<Clus
     log(`${members.length} members signed in through haproxy; ${partIds.length} published parts; load for ${options.durationMs / 1000} s`);
 
     let counter = 0;
+    // every write of the load carries an Idempotency-Key: haproxy may then send it again on another
+    // instance when its instance died before answering, and the app files it once
+    const onceKey = () => ({ 'Idempotency-Key': randomUUID() });
     const upload = (form: FormData, name: string) => form.append('photo', new Blob([new Uint8Array(png)], { type: 'image/png' }), name);
     async function submit(c: Member) {
       counter += 1;
@@ -295,7 +303,7 @@ export async function runClusterFaults(options: ClusterRunOptions): Promise<Clus
       form.append('data', JSON.stringify(loadSubmission(title)));
       form.append('model', new Blob([new Uint8Array(stl)]), 'plate.stl');
       if (counter % 2 === 0) upload(form, 'plate.png');
-      const s = await recorder.timed('submit', () => c.request('POST', '/api/parts', form, WAIT_MS));
+      const s = await recorder.timed('submit', () => c.request('POST', '/api/parts', form, WAIT_MS, onceKey()));
       submissions.push({ title, status: s.status, word });
     }
     async function report(c: Member) {
@@ -304,11 +312,13 @@ export async function runClusterFaults(options: ClusterRunOptions): Promise<Clus
       const form = new FormData();
       form.append('data', JSON.stringify({ production, daysInUse: 3, material: 'PETG', outcome: 'held-up', conditions: [] }));
       if (counter % 2 === 0) upload(form, 'on-set.png');
-      const s = await recorder.timed('report', () => c.request('POST', `/api/parts/${pick(partIds)}/reports`, form, WAIT_MS));
+      const s = await recorder.timed('report', () => c.request('POST', `/api/parts/${pick(partIds)}/reports`, form, WAIT_MS, onceKey()));
       reports.push({ title: production, status: s.status });
     }
     async function kitItem(m: (typeof members)[number]) {
-      const s = await recorder.timed('kit-item', () => m.client.request('POST', `/api/kits/${m.kitId}/items`, { partId: pick(partIds), quantity: 2 }, WAIT_MS));
+      const s = await recorder.timed('kit-item', () =>
+        m.client.request('POST', `/api/kits/${m.kitId}/items`, { partId: pick(partIds), quantity: 2 }, WAIT_MS, onceKey()),
+      );
       const entry = kitAttempts.get(m.kitId)!;
       if (s.status === 201 || s.status === 200) entry.acked += 1;
       else if (s.status <= 0 || s.status >= 500) entry.unclear += 1;
@@ -322,7 +332,7 @@ export async function runClusterFaults(options: ClusterRunOptions): Promise<Clus
         else if (roll < 0.65) {
           const partId = pick(partIds);
           const stars = 1 + Math.floor(Math.random() * 5);
-          const s = await recorder.timed('rate', () => c.request('POST', `/api/parts/${partId}/ratings`, { stars }, WAIT_MS));
+          const s = await recorder.timed('rate', () => c.request('POST', `/api/parts/${partId}/ratings`, { stars }, WAIT_MS, onceKey()));
           ratings.push({ member: m.email, partId, stars, status: s.status, at: s.at });
         } else if (roll < 0.75) await report(c);
         else if (roll < 0.87) await kitItem(m);
@@ -407,6 +417,22 @@ export async function runClusterFaults(options: ClusterRunOptions): Promise<Clus
         )[0][0],
       );
     await waitFor(async () => (await pendingPhotos()) === 0, 90_000, 500);
+    // a photo still waiting: its row and what the instances said about it and their job loops
+    const stuckPhotos: string[] = [];
+    for (const table of ['part_files', 'report_photos']) {
+      for (const [name, attempts, expiries, holder, lease, created, now] of await sql(
+        `SELECT stored_name, processing_attempts, lease_expiries, IFNULL(claimed_by, '-'), IFNULL(lease_until, '-'), created_at, NOW(3) FROM rigshelf.${table} WHERE processing = 'pending'`,
+      )) {
+        stuckPhotos.push(
+          `${table} ${name}: attempts ${attempts}, lease expiries ${expiries}, held by ${holder} until ${lease}, created ${created}, now ${now}`,
+        );
+        for (const inst of cluster.instances) {
+          for (const l of inst.lines.filter((x) => x.text.includes(name) || /background job loop|startup-sweep/.test(x.text))) {
+            stuckPhotos.push(`  ${inst.name} ${((l.at - t0) / 1000).toFixed(1)} s: ${l.text.slice(0, 200)}`);
+          }
+        }
+      }
+    }
 
     // ---- checks
     const submitted = await submissionProblems(sql, 'rigshelf', `Cluster plate ${run} %`, submissions);
@@ -553,6 +579,7 @@ export async function runClusterFaults(options: ClusterRunOptions): Promise<Clus
       sessions,
       unclean,
       slow: samples.filter((x) => x.ms > SLOW_MS).length,
+      stuckPhotos,
       instanceErrors: cluster.instances.flatMap((inst) =>
         inst.lines
           .filter((l) => l.stream === 'err' && /\bref [0-9a-f]{6,}|Error\b/.test(l.text))
@@ -564,8 +591,15 @@ export async function runClusterFaults(options: ClusterRunOptions): Promise<Clus
     };
   } finally {
     stopLoad = true;
-    await cluster.stop().catch((err) => log(`stopping the cluster: ${String(err)}`));
-    if (!process.env.CLUSTER_KEEP) rmSync(dir, { recursive: true, force: true });
+    // a signal's stop exits the process once the cluster is down; what failed meanwhile is its doing
+    if (stopping) await stopping;
+    else {
+      await cluster.stop().catch((err) => log(`stopping the cluster: ${String(err)}`));
+      if (!process.env.CLUSTER_KEEP) rmSync(dir, { recursive: true, force: true });
+    }
+    process.off('SIGINT', onSignal);
+    process.off('SIGTERM', onSignal);
+    process.off('uncaughtException', onCrash);
   }
 }
 
@@ -591,6 +625,7 @@ export function verdict(s: ClusterSummary): string[] {
   if (s.objects.orphans.length) p.push(`object store: ${s.objects.orphans.length} object(s) without a row, e.g. ${s.objects.orphans.slice(0, 3).join(', ')}`);
   if (s.photos.notReady || s.photos.failed) p.push(`photos: ${s.photos.notReady} still waiting, ${s.photos.failed} failed`);
   if (s.photos.ranTwice) p.push(`photos: ${s.photos.ranTwice} cleaned more than once`);
+  if (s.photos.retriedAfterError) p.push(`photos: ${s.photos.retriedAfterError} cleaned again after a failed try`);
   for (const f of s.search)
     if (f.ms === null || f.ms > s.options.searchBoundMs)
       p.push(`search on ${f.instance}: ${f.ms === null ? 'never found' : `found after ${f.ms} ms`} (bound ${s.options.searchBoundMs} ms)`);
@@ -633,6 +668,7 @@ export function formatSummary(s: ClusterSummary): string {
   );
   if (s.balancerLog.length)
     lines.push(`  haproxy log (abnormal sessions, state changes): ${s.balancerLog.length}`, ...s.balancerLog.slice(0, 20).map((l) => `    ${l}`));
+  if (s.stuckPhotos.length) lines.push('  photos still waiting:', ...s.stuckPhotos.slice(0, 30).map((l) => `    ${l}`));
   if (s.instanceErrors.length) lines.push(`  instance error log lines: ${s.instanceErrors.length}`, ...s.instanceErrors.slice(0, 8).map((l) => `    ${l}`));
   return lines.join('\n');
 }

@@ -211,8 +211,8 @@ export class Member {
     }
   }
 
-  async request(method: string, path: string, body?: unknown, timeoutMs = 30_000): Promise<Response> {
-    const headers: Record<string, string> = {};
+  async request(method: string, path: string, body?: unknown, timeoutMs = 30_000, extraHeaders: Record<string, string> = {}): Promise<Response> {
+    const headers: Record<string, string> = { ...extraHeaders };
     if (this.cookie) headers.cookie = this.cookie;
     if (method !== 'GET') headers['x-csrf-token'] = this.token;
     let payload: RequestInit['body'];

@@ -1,8 +1,8 @@
 import { existsSync, mkdtempSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import { afterAll, describe, expect, it } from 'vitest';
-import { MAX_PHOTO_ATTEMPTS, PhotoJobs } from '../../server/modules/files/photo-jobs';
+import { afterAll, describe, expect, it, vi } from 'vitest';
+import { isPassingDatabaseFailure, MAX_PHOTO_ATTEMPTS, PhotoJobs } from '../../server/modules/files/photo-jobs';
 import type { PhotoQueue } from '../../server/modules/files/photo-queue';
 import type { PhotoResult } from '../../server/modules/files/photo-worker';
 import { uploadDirs } from '../../server/modules/files/storage';
@@ -96,5 +96,59 @@ describe('photo jobs · attempts', () => {
     await run(queue, row, 'interrupted');
     expect(row).toMatchObject({ processing: 'pending', processingAttempts: 1 });
     expect(existsSync(raw)).toBe(true);
+  });
+});
+
+/** What the mariadb connector reports when a query's socket times out (errno 45026, ER_SOCKET_TIMEOUT), wrapped as Sequelize wraps it. */
+function socketTimeout() {
+  return Object.assign(new Error('(conn:7, no: 45026, SQLState: 08S01) socket timeout'), {
+    original: { errno: 45026, code: 'ER_SOCKET_TIMEOUT', sqlState: '08S01' },
+  });
+}
+
+describe('photo jobs · the outcome write', () => {
+  it('photo jobs · the database times out twice writing the outcome · written on a later try, the photo cleaned once', async () => {
+    const queue = scriptedQueue([{ ok: true, width: 64, height: 48 }]);
+    const row = fakeRow();
+    const update = row.update;
+    let refused = 0;
+    row.update = async (values) => {
+      if (values.processing === 'ready' && refused < 2) {
+        refused += 1;
+        throw socketTimeout();
+      }
+      return update(values);
+    };
+    const raw = rawPhoto('outcome-after-timeouts');
+    await run(queue, row, 'outcome-after-timeouts');
+    expect(refused).toBe(2);
+    expect(queue.jobs).toBe(1);
+    expect(row).toMatchObject({ processing: 'ready', processingAttempts: 1 });
+    expect(existsSync(raw)).toBe(false);
+  });
+
+  it('photo jobs · the database stays away past the bound · the photo stays waiting with its raw upload for a later try', async () => {
+    const queue = scriptedQueue([{ ok: true, width: 64, height: 48 }]);
+    const row = fakeRow();
+    const update = row.update;
+    row.update = async (values) => {
+      if (values.processing === 'ready') throw socketTimeout();
+      return update(values);
+    };
+    const raw = rawPhoto('outcome-never-written');
+    const jobs = new PhotoJobs(storage, queue as unknown as PhotoQueue, undefined, 300);
+    const errors = vi.spyOn(console, 'error').mockImplementation(() => undefined);
+    jobs.clean({ storedName: 'outcome-never-written' }, async () => row);
+    await jobs.settled();
+    errors.mockRestore();
+    expect(queue.jobs).toBe(1);
+    expect(row).toMatchObject({ processing: 'pending', processingAttempts: 1 });
+    expect(existsSync(raw)).toBe(true);
+  });
+
+  it('photo jobs · a plain error writing the outcome · not sent again (only passing database failures are)', () => {
+    expect(isPassingDatabaseFailure(socketTimeout())).toBe(true);
+    expect(isPassingDatabaseFailure({ original: { errno: 1213, message: 'Deadlock found when trying to get lock' } })).toBe(true);
+    expect(isPassingDatabaseFailure(new Error('Data too long for column'))).toBe(false);
   });
 });

@@ -1,9 +1,24 @@
 // Writes a client may send more than once (a set report or rating queued offline and sent when the
-// signal returns, perhaps twice over a flaky link) carry an Idempotency-Key. The first request stores
+// signal returns, perhaps twice over a flaky link; a kit item whose connection closed unanswered)
+// carry an Idempotency-Key. The first request stores
 // its answer under the key, inside its own transaction; a repeat gets that answer back and files nothing.
+import type { Request } from 'express';
 import type { Transaction } from 'sequelize';
+import { clientKeySchema } from '@shared/schemas/notices';
 import { ClientKey } from '../../db/models';
 import { AppError } from '../../errors';
+
+/** The Idempotency-Key a write carries, if any; a malformed one is a 422. */
+export function clientKeyOf(req: Request): string | undefined {
+  const raw = req.get('idempotency-key');
+  if (raw === undefined) return undefined;
+  const parsed = clientKeySchema.safeParse(raw);
+  if (!parsed.success) {
+    const message = parsed.error.issues[0]?.message ?? 'The Idempotency-Key header is malformed.';
+    throw AppError.field('idempotencyKey', message);
+  }
+  return parsed.data;
+}
 
 export async function replayOf<T>(userId: number, clientKey: string, scope: string, transaction?: Transaction): Promise<T | undefined> {
   const row = await ClientKey.findOne({ where: { userId, clientKey }, transaction });

@@ -1,15 +1,14 @@
-import { Router, type Request } from 'express';
+import { Router } from 'express';
 import { z } from 'zod';
 import { flagSchema, ratingSchema, reportFilterSchema, setReportSchema } from '@shared/schemas/evidence';
 import { idParamSchema } from '@shared/schemas/auth';
 import { noteRequiredSchema } from '@shared/schemas/review';
-import { clientKeySchema } from '@shared/schemas/notices';
-import { AppError } from '../../errors';
 import { currentUser, requireAuth, requireRole } from '../../middleware/auth';
 import { handler } from '../../middleware/validate';
 import { inspectUploads } from '../files/inspect';
 import type { FileStorage } from '../files/storage';
 import { multipartFields, uploadedFiles, uploadMiddleware, withUploads } from '../files/upload';
+import { clientKeyOf } from './client-keys';
 import type { EvidenceService } from './service';
 
 const partParam = z.object({ id: z.string().min(1).max(100) });
@@ -19,18 +18,6 @@ const photoParams = z.object({
   photoId: z.coerce.number().int().positive(),
   size: z.enum(['thumb', 'display']),
 });
-
-/** The Idempotency-Key a queued (offline) write carries, if any; a malformed one is a 422. */
-function clientKeyOf(req: Request): string | undefined {
-  const raw = req.get('idempotency-key');
-  if (raw === undefined) return undefined;
-  const parsed = clientKeySchema.safeParse(raw);
-  if (!parsed.success) {
-    const message = parsed.error.issues[0]?.message ?? 'The Idempotency-Key header is malformed.';
-    throw AppError.field('idempotencyKey', message);
-  }
-  return parsed.data;
-}
 
 /** /api/parts/:id/ratings, /reports, /proven */
 export function partEvidenceRoutes(evidence: EvidenceService, storage: FileStorage) {

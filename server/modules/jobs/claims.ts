@@ -69,6 +69,10 @@ const leaseExpr = 'NOW(3) + INTERVAL :lease SECOND';
 export function createJobClaims(sequelize: Sequelize, options: { instanceId: string; leaseS: number }): JobClaims {
   const { instanceId: me, leaseS } = options;
   const held = new Set<string>();
+  // the jobs this process is working on now: only their leases are moved on. A job whose try ended
+  // while its release could not be written (the database away for a moment) is not among them, so
+  // its lease runs out and it is taken over, instead of being held here for ever by the heartbeat
+  const jobs = new Map<JobTable, Set<number>>(JOB_TABLES.map((t) => [t, new Set<number>()]));
 
   async function claimIds(kind: JobKind, table: JobTable, ids: number[], transaction?: import('sequelize').Transaction): Promise<number> {
     if (!ids.length) return 0;
@@ -97,10 +101,13 @@ export function createJobClaims(sequelize: Sequelize, options: { instanceId: str
       );
       // on a Galera cluster a conflicting claim from another node fails at commit, so a row that
       // reads as ours after an acknowledged update is ours
-      return { claimed: row?.claimedBy === me, leaseExpiries: Number(row?.leaseExpiries ?? 0) };
+      const claimed = row?.claimedBy === me;
+      if (claimed) jobs.get(table)!.add(id);
+      return { claimed, leaseExpiries: Number(row?.leaseExpiries ?? 0) };
     },
 
     async release(table, id) {
+      jobs.get(table)!.delete(id);
       await sequelize.query(`UPDATE ${table} SET claimed_by = NULL, lease_until = NULL WHERE id = :id AND claimed_by = :me`, {
         replacements: { id, me },
         type: QueryTypes.UPDATE,
@@ -133,8 +140,10 @@ export function createJobClaims(sequelize: Sequelize, options: { instanceId: str
 
     async heartbeat() {
       for (const table of JOB_TABLES) {
-        await sequelize.query(`UPDATE ${table} SET lease_until = ${leaseExpr} WHERE claimed_by = :me AND lease_until IS NOT NULL`, {
-          replacements: { me, lease: leaseS },
+        const ids = [...jobs.get(table)!];
+        if (!ids.length) continue;
+        await sequelize.query(`UPDATE ${table} SET lease_until = ${leaseExpr} WHERE claimed_by = :me AND lease_until IS NOT NULL AND id IN (:ids)`, {
+          replacements: { me, lease: leaseS, ids },
           type: QueryTypes.UPDATE,
         });
       }

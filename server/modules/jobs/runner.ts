@@ -28,6 +28,27 @@ export function createJobRunner({ sequelize, claims, takePhotos, takeRenders, bu
   let running: Promise<void> | null = null;
   let lastChores = 0;
   let failing = false;
+  /** Work that could not be done at start (the store was away, say), tried again each round under its named lease. */
+  const deferred = new Map<string, { task: () => Promise<void>; failures: number }>();
+
+  async function runDeferred() {
+    for (const [name, entry] of deferred) {
+      // one instance at a time; the lease outlasts a slow run, as no heartbeat beats during it
+      if (!(await claims.tryLease(name, Math.max(claims.leaseS, 120)))) continue;
+      try {
+        await entry.task();
+        deferred.delete(name);
+        console.log(`rigshelf: ${name} done on try ${entry.failures + 2}`);
+      } catch (err) {
+        entry.failures += 1;
+        // the first failure was reported by whoever deferred the work; then about once a minute
+        if (entry.failures % 12 === 0)
+          console.error(`rigshelf: ${name} still failing (${err instanceof Error ? err.message : String(err)}); tried again later`);
+      } finally {
+        await claims.releaseLease(name).catch(() => undefined);
+      }
+    }
+  }
 
   async function chores() {
     if (Date.now() - lastChores < CHORES_EVERY_MS) return;
@@ -58,6 +79,7 @@ export function createJobRunner({ sequelize, claims, takePhotos, takeRenders, bu
       const ids = await claims.claimDue('render', 'part_files', 1);
       if (ids.length) await takeRenders(ids);
     }
+    await runDeferred();
     await chores();
   }
 
@@ -83,6 +105,10 @@ export function createJobRunner({ sequelize, claims, takePhotos, takeRenders, bu
     /** Announces this instance (so start-up sweeps know others are up) before the first round. */
     async announce(): Promise<void> {
       await claims.tryLease(presence);
+    },
+    /** Runs `task` in a later round, under the named lease `name`, until it succeeds. */
+    later(name: string, task: () => Promise<void>): void {
+      deferred.set(name, { task, failures: 0 });
     },
     start() {
       if (timer) return;

@@ -5,6 +5,7 @@ import { boolish } from '@shared/validation';
 import { AppError } from '../../errors';
 import { currentUser, requireAuth } from '../../middleware/auth';
 import { handler } from '../../middleware/validate';
+import { clientKeyOf } from '../evidence/client-keys';
 import { inspectUploads } from '../files/inspect';
 import { EXTENSION, modelFileName } from '../files/sniff';
 import { multipartFields, uploadedFiles, uploadMiddleware, withUploads } from '../files/upload';
@@ -36,7 +37,7 @@ export function partsRoutes(parts: PartsService, storage: FileStorage) {
     withUploads(
       handler({ body: partSubmissionSchema, fields: (req) => multipartFields(req, STRUCTURED) }, async ({ body: input }, req, res) => {
         const files = await inspectUploads(uploadedFiles(req), { drawnInInches: input.drawnInInches });
-        const created = await parts.create(currentUser(req)!, input, files);
+        const created = await parts.create(currentUser(req)!, input, files, clientKeyOf(req));
         res.status(201).location(`/api/parts/${created.id}`).json(created);
       }),
     ),

@@ -10,6 +10,7 @@ import type { PartSubmission, PartUpdate } from '@shared/schemas/part';
 import { CrewMember, Part, PartFile, PartRevision, ReportPhoto, RevisionFile, type User, type WantedPhoto } from '../../db/models';
 import { transact, type Attempt } from '../../db/transaction';
 import { AppError } from '../../errors';
+import { rememberKey, replayOf } from '../evidence/client-keys';
 import type { InspectedFile } from '../files/inspect';
 import type { PhotoJobs } from '../files/photo-jobs';
 import type { RenderJobs } from '../files/render-jobs';
@@ -192,14 +193,20 @@ export function createPartsService({ sequelize, storage, sweepMinAgeMs, photos, 
       return photos.settled();
     },
 
-    async create(actor: User, input: PartSubmission, files: InspectedFile[]) {
+    /** With an Idempotency-Key, the same submission sent again (its answer was lost) files nothing and answers the first. */
+    async create(actor: User, input: PartSubmission, files: InspectedFile[], clientKey?: string) {
       requireModel(files);
       const made = madeWithColumns(input);
       const bodyIds = await bodyIdsFor(input.bodies);
       await checkParentLicence(input.parentId, input.licence, actor);
       const crewId = await crewIdFor(actor, input.visibility);
+      type Created = { id: number; slug: string; status: string };
 
       return writeWithFiles(async (t, attempt) => {
+        if (clientKey) {
+          const seen = await replayOf<Created>(actor.id, clientKey, 'part', t);
+          if (seen) return { result: seen };
+        }
         const part = await createPart(
           input.title,
           {
@@ -244,7 +251,14 @@ export function createPartsService({ sequelize, storage, sweepMinAgeMs, photos, 
         const attached = await attachFiles({ storage, partId: part.id, revisionId: revision.id, createdBy: actor.id, files }, t);
         attempt.onRollback(attached.undo);
         await onSubmitted?.(actor, part, revision, 'submit', t);
-        return { result: { id: part.id, slug: part.slug, status: part.status }, photos: attached.rows };
+        const result: Created = { id: part.id, slug: part.slug, status: part.status };
+        if (clientKey) await rememberKey(actor.id, clientKey, 'part', result, t);
+        return { result, photos: attached.rows };
+      }).catch(async (err: unknown) => {
+        // the same key sent twice at once: the first to commit filed it, this one answers with its part
+        const seen = clientKey && err instanceof UniqueConstraintError ? await replayOf<Created>(actor.id, clientKey, 'part') : undefined;
+        if (!seen) throw err;
+        return seen;
       });
     },
 

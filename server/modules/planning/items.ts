@@ -1,10 +1,11 @@
 // A kit's items: parts from the shelf with a published recipe, on one of the kit owner's printers.
-import type { Transaction } from 'sequelize';
+import { UniqueConstraintError, type Transaction } from 'sequelize';
 import type { KitItemInfo } from '@shared/api/planning';
 import { MAX_KIT_ITEMS, type KitItemInput, type KitItemPatch } from '@shared/schemas/planning';
 import { Kit, KitItem, Part, Printer, Recipe, type User } from '../../db/models';
 import { transact } from '../../db/transaction';
 import { AppError } from '../../errors';
+import { rememberKey, replayOf } from '../evidence/client-keys';
 import { audienceOf, crewAllows } from '../parts/access';
 import { findKit } from './access';
 import { touchKit } from './kits';
@@ -60,8 +61,14 @@ async function presentedItem(kitId: number, id: number): Promise<KitItemInfo> {
 
 export function itemService({ sequelize }: Pick<PlanningDeps, 'sequelize'>) {
   return {
-    async addItem(viewer: User, kitId: number, input: KitItemInput): Promise<KitItemInfo> {
+    /** With an Idempotency-Key, sending the same item again (its answer was lost) adds nothing and answers the first one. */
+    async addItem(viewer: User, kitId: number, input: KitItemInput, clientKey?: string): Promise<KitItemInfo> {
+      const scope = `kit-item:${kitId}`;
       const id = await transact(sequelize, async (t) => {
+        if (clientKey) {
+          const seen = await replayOf<{ id: number }>(viewer.id, clientKey, scope, t);
+          if (seen) return seen.id;
+        }
         const { kit } = await findKit(viewer, kitId, 'edit', undefined, t);
         if ((await KitItem.count({ where: { kitId: kit.id }, transaction: t })) >= MAX_KIT_ITEMS) {
           throw AppError.conflict(`A kit holds at most ${MAX_KIT_ITEMS} items; split it into two kits.`);
@@ -86,7 +93,13 @@ export function itemService({ sequelize }: Pick<PlanningDeps, 'sequelize'>) {
           { transaction: t },
         );
         await touchKit(kit, t);
+        if (clientKey) await rememberKey(viewer.id, clientKey, scope, { id: item.id }, t);
         return item.id;
+      }).catch(async (err: unknown) => {
+        // the same key sent twice at once: the first to commit added it, this one answers with its id
+        const seen = clientKey && err instanceof UniqueConstraintError ? await replayOf<{ id: number }>(viewer.id, clientKey, scope) : undefined;
+        if (!seen) throw err;
+        return seen.id;
       });
       return presentedItem(kitId, id);
     },

@@ -16,6 +16,7 @@ import {
 } from '@shared/schemas/planning';
 import { currentUser, requireAuth } from '../../middleware/auth';
 import { handler } from '../../middleware/validate';
+import { clientKeyOf } from '../evidence/client-keys';
 import type { PlanningService } from './service';
 
 /** /api/estimate: open to visitors too; a signed-in member's price sheet fills in missing prices. */
@@ -123,7 +124,7 @@ export function kitRoutes(planning: PlanningService) {
   router.post(
     '/:id/items',
     handler({ params, body: kitItemSchema }, async ({ params, body }, req, res) => {
-      const item = await planning.addItem(currentUser(req)!, params.id, body);
+      const item = await planning.addItem(currentUser(req)!, params.id, body, clientKeyOf(req));
       res.status(201).json(item);
     }),
   );

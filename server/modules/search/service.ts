@@ -158,6 +158,15 @@ export function createSearchService({
     return worker;
   }
 
+  // A worker booted ahead for the next rebuild: starting a thread and loading its modules takes
+  // seconds on a busy CPU, which a change would otherwise wait for before its build even begins.
+  let spare: SearchWorker | null = null;
+  function takeSpare(): SearchWorker {
+    const worker = spare ?? spawn();
+    spare = null;
+    return worker;
+  }
+
   /** Puts a ready worker in place of the current one; the old one finishes what it was asked. */
   function swapIn(worker: SearchWorker, ready: Ready) {
     starting.delete(worker);
@@ -170,6 +179,7 @@ export function createSearchService({
     if (ready.writeError) console.error(`rigshelf: search index could not be saved to ${indexFile}: ${ready.writeError}`);
     old?.retire();
     void refreshRanks();
+    if (!spare && !closed) spare = spawn();
   }
 
   /** A search ran past its time: that worker is stopped and a fresh one loads the saved index. */
@@ -205,7 +215,7 @@ export function createSearchService({
         seenVersion += 1;
       }
     }
-    const worker = spawn();
+    const worker = takeSpare();
     try {
       const reply = await worker.run({ type: 'build', unless: current?.ready?.fingerprint ?? null });
       if (reply.type === 'failed') throw new Error(reply.error);

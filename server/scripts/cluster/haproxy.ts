@@ -45,8 +45,12 @@ defaults
   # a health check on a busy 2-core machine can take longer than the 1 s between checks
   timeout check 3s
   # a connection that never reached an instance is tried again elsewhere; a GET or HEAD also when
-  # the instance closed the connection without a byte of answer (it died). Any other method is never
-  # sent twice: the instance may have started it
+  # the instance closed the connection without a byte of answer (it died), and so is a write that
+  # carries an Idempotency-Key (the app answers a repeat with the first answer and adds nothing).
+  # Any other write is never sent twice: the instance may have done it. Such a write, when it was
+  # not the first request on the member's kept-alive connection, is answered by closing that
+  # connection without a response (haproxy leaves the retry to the client, as HTTP allows for a
+  # reused connection); the first request on a connection gets the 503 below
   retries 2
   retry-on conn-failure empty-response
   option redispatch 1
@@ -56,7 +60,7 @@ defaults
 
 frontend rigshelf
   bind 127.0.0.1:${ports.balancer}
-  http-request disable-l7-retry if !METH_GET
+  http-request disable-l7-retry if !METH_GET !{ req.hdr(idempotency-key) -m found }
   default_backend apps
 
 backend apps
