@@ -64,6 +64,11 @@ describe('client imports', () => {
     if (chain) expect(chain, `zod is imported through ${chain.join(' → ')}`).toContain('src/stores/partDraft.ts');
   });
 
+  it('client import graph · the theme preset · build time only (src/theme/static-css.ts)', () => {
+    const preset = [...reached].filter(([spec]) => spec.startsWith('@primeuix/themes'));
+    expect(preset.map(([spec, chain]) => `${spec} through ${chain.join(' → ')}`)).toEqual([]);
+  });
+
   it('client import graph · three.js and chart.js · only behind import()', () => {
     for (const lazy of ['three', 'chart.js']) {
       expect(reached.get(lazy), `${lazy} is imported through ${reached.get(lazy)?.join(' → ')}`).toBeUndefined();
