@@ -1,4 +1,6 @@
 /// <reference types="vitest/config" />
+import { readdirSync, readFileSync } from 'node:fs';
+import { join } from 'node:path';
 import { fileURLToPath, URL } from 'node:url';
 import vue from '@vitejs/plugin-vue';
 import { defineConfig, type Plugin } from 'vite';
@@ -49,6 +51,14 @@ function primevueStaticTheme(): Plugin {
   const THEME_ID = '/__primevue-theme/common.css';
   const RULES = '\0primevue-rules:';
   const CSS = /^\/__primevue-theme\/([a-z]+)\.css$/;
+  // the app's own styles may read the theme's variables (var(--p-form-field-…)): they are kept
+  const src = fileURLToPath(new URL('./src', import.meta.url));
+  let styles: string | undefined;
+  const appStyles = () =>
+    (styles ??= readdirSync(src, { recursive: true, encoding: 'utf8' })
+      .filter((f) => /\.(vue|css)$/.test(f))
+      .map((f) => readFileSync(join(src, f), 'utf8'))
+      .join('\n'));
   return {
     name: 'rigshelf:primevue-static-theme',
     enforce: 'pre',
@@ -63,9 +73,9 @@ function primevueStaticTheme(): Plugin {
       return dir ? `${RULES}${dir}` : null;
     },
     async load(id) {
-      if (id === THEME_ID) return commonCss();
+      if (id === THEME_ID) return commonCss(appStyles());
       const css = CSS.exec(id);
-      if (css) return componentCss(css[1]);
+      if (css) return componentCss(css[1], appStyles());
       if (!id.startsWith(RULES)) return null;
       const dir = id.slice(RULES.length);
       return dir === 'base' ? `export const style = '';` : `import '/__primevue-theme/${dir}.css';\nexport const style = '';`;

@@ -58,13 +58,14 @@ const REFERENCE = /var\((--p-[\w-]+)/g;
 
 let kept: Promise<Set<string>> | null = null;
 /**
- * Every variable a rule of the common sheet or of a component with a token set in the preset reads,
- * and every variable those read in turn. The rest (most of Aura's palette) is never used.
+ * Every variable a rule of the common sheet, of a component with a token set in the preset or of the
+ * app's own styles (`appStyles`: the text of src/) reads, and every variable those read in turn. The
+ * rest (most of Aura's palette) is never used.
  */
-function keptVariables(): Promise<Set<string>> {
+function keptVariables(appStyles: string): Promise<Set<string>> {
   kept ??= (async () => {
     const components = Object.keys((RigshelfPreset as { components?: object }).components ?? {});
-    const text = [...commonSheets(), ...(await Promise.all(components.map(componentSheets))).flat()].join('\n');
+    const text = [...commonSheets(), ...(await Promise.all(components.map(componentSheets))).flat(), appStyles].join('\n');
     const values = new Map<string, string>();
     for (const [, name, value] of text.matchAll(DECLARATION)) values.set(name, `${values.get(name) ?? ''} ${value}`);
     const rules = text.replace(DECLARATION, '');
@@ -82,8 +83,8 @@ function keptVariables(): Promise<Set<string>> {
   return kept;
 }
 
-async function prune(sheets: string[]): Promise<string> {
-  const keep = await keptVariables();
+async function prune(sheets: string[], appStyles: string): Promise<string> {
+  const keep = await keptVariables(appStyles);
   return sheets
     .map((sheet) => sheet.replace(DECLARATION, (whole, name: string) => (keep.has(name) ? whole : '')).replace(/[^{}]+\{\}/g, ''))
     .filter(Boolean)
@@ -91,14 +92,14 @@ async function prune(sheets: string[]): Promise<string> {
 }
 
 /** The palette, semantic tokens and Aura's global rules: what the first component mounted loads. */
-export function commonCss(): Promise<string> {
-  return prune(commonSheets());
+export function commonCss(appStyles = ''): Promise<string> {
+  return prune(commonSheets(), appStyles);
 }
 
 /**
  * One component's token variables and rules, from its `primevue/<dir>/style` module (which knows
  * its theme name and imports its rules from `@primeuix/styles`). Empty for a component without either.
  */
-export async function componentCss(dir: string): Promise<string> {
-  return prune(await componentSheets(dir));
+export async function componentCss(dir: string, appStyles = ''): Promise<string> {
+  return prune(await componentSheets(dir), appStyles);
 }
