@@ -1,8 +1,11 @@
 /// <reference types="vitest/config" />
+import { readdirSync, readFileSync } from 'node:fs';
+import { join } from 'node:path';
 import { fileURLToPath, URL } from 'node:url';
 import vue from '@vitejs/plugin-vue';
 import { defineConfig, type Plugin } from 'vite';
 import { VitePWA } from 'vite-plugin-pwa';
+import { commonCss, componentCss } from './src/theme/static-css.ts';
 
 const alias = [
   { find: '@', replacement: fileURLToPath(new URL('./src', import.meta.url)) },
@@ -37,8 +40,52 @@ function stylesheetAfterBootBar(): Plugin {
   };
 }
 
+/**
+ * PrimeVue's styled mode as plain CSS (src/theme/static-css.ts): `virtual:primevue-theme.css` is the
+ * palette and global rules, and each `primevue/<x>/style` module's import of its rules from
+ * `@primeuix/styles/<x>` becomes an empty string plus an import of that component's CSS, so the rules
+ * travel with the chunk that uses the component and no stylesheet text or tokens are JavaScript.
+ */
+function primevueStaticTheme(): Plugin {
+  const THEME = 'virtual:primevue-theme.css';
+  const THEME_ID = '/__primevue-theme/common.css';
+  const RULES = '\0primevue-rules:';
+  const CSS = /^\/__primevue-theme\/([a-z]+)\.css$/;
+  // the app's own styles may read the theme's variables (var(--p-form-field-…)): they are kept
+  const src = fileURLToPath(new URL('./src', import.meta.url));
+  let styles: string | undefined;
+  const appStyles = () =>
+    (styles ??= readdirSync(src, { recursive: true, encoding: 'utf8' })
+      .filter((f) => /\.(vue|css)$/.test(f))
+      .map((f) => readFileSync(join(src, f), 'utf8'))
+      .join('\n'));
+  return {
+    name: 'rigshelf:primevue-static-theme',
+    enforce: 'pre',
+    resolveId(id, importer) {
+      if (id === THEME) return THEME_ID;
+      if (CSS.test(id)) return id;
+      const rules = /^@primeuix\/styles\/([a-z]+)$/.exec(id);
+      if (!rules || !importer) return null;
+      // @primevue/core's BaseStyle imports the global rules (`base`), which are in the common sheet
+      if (rules[1] === 'base') return `${RULES}base`;
+      const dir = /[\\/]primevue[\\/](?:dist[\\/])?([a-z]+)[\\/]style[\\/]/.exec(importer)?.[1];
+      return dir ? `${RULES}${dir}` : null;
+    },
+    async load(id) {
+      if (id === THEME_ID) return commonCss(appStyles());
+      const css = CSS.exec(id);
+      if (css) return componentCss(css[1], appStyles());
+      if (!id.startsWith(RULES)) return null;
+      const dir = id.slice(RULES.length);
+      return dir === 'base' ? `export const style = '';` : `import '/__primevue-theme/${dir}.css';\nexport const style = '';`;
+    },
+  };
+}
+
 export default defineConfig({
   plugins: [
+    primevueStaticTheme(),
     vue(),
     stylesheetAfterBootBar(),
     // installable app and the service worker for no signal on set (src/sw.ts, src/offline/)
@@ -73,6 +120,8 @@ export default defineConfig({
     }),
   ],
   resolve: { alias },
+  // served module by module in development, so primevueStaticTheme sees each component's style import
+  optimizeDeps: { exclude: ['primevue'] },
   server: {
     host: '127.0.0.1',
     port: 5173,

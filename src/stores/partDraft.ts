@@ -8,13 +8,13 @@ import { computed, reactive, ref, toRaw } from 'vue';
 import type { PartDetail } from '@shared/api/parts';
 import type { CategorySlug, MountSlug, SafetyFlags } from '@shared/catalogue';
 import { isLicenceId, type LicenceId } from '@shared/licences';
-import { partSubmissionSchema, partUpdateSchema, type PartSubmission, type PartUpdate } from '@shared/schemas/part';
+import type { PartSubmission, PartUpdate } from '@shared/schemas/part';
 import type { FileKind } from '@shared/types';
 import { usePartDraftFiles } from '@/composables/usePartDraftFiles';
 import { blankRecipe, blankSafety, lengthOf, recipeFormOf, recipeInput, uid, type KeyDimensionRow, type RecipeForm } from './partDraftFields';
-import { issuesOf, STEPS, stepOfField, type StepKey } from './partDraftSteps';
+import { issuesOf, partSchemas, partSchemasLoaded, STEPS, stepOfField, type StepKey } from './partDraftSteps';
 
-export { STEPS, stepOfField, type StepKey } from './partDraftSteps';
+export { loadPartSchemas, STEPS, stepOfField, type StepKey } from './partDraftSteps';
 export { blankRecipe, type KeyDimensionRow, type RecipeForm } from './partDraftFields';
 export type { DraftFile, ExistingFile } from '@/composables/usePartDraftFiles';
 // The server's upload limits (server/modules/files/upload.ts), checked here first.
@@ -244,6 +244,8 @@ export const usePartDraftStore = defineStore('partDraft', () => {
 
   /** Re-checks the steps already tried, so a message goes away as soon as it is fixed. */
   function recheck() {
+    // nothing was checked before the schemas came
+    if (!partSchemasLoaded()) return;
     for (const step of checked.value) if (step !== 'review') checkStep(step);
   }
 
@@ -262,7 +264,7 @@ export const usePartDraftStore = defineStore('partDraft', () => {
   /** Validated payloads, or null if a check failed (messages are then in `errors`). */
   function validSubmission(): PartSubmission | null {
     if (!checkStep('review')) return null;
-    return partSubmissionSchema.parse(submission());
+    return partSchemas().partSubmissionSchema.parse(submission());
   }
 
   function snapshot(): PartDraftSnapshot {
@@ -344,7 +346,7 @@ export const usePartDraftStore = defineStore('partDraft', () => {
 
   function validUpdate(): PartUpdate | null {
     if (!checkStep('review')) return null;
-    return partUpdateSchema.parse(fields());
+    return partSchemas().partUpdateSchema.parse(fields());
   }
 
   return {

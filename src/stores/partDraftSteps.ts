@@ -1,12 +1,32 @@
 // The submit flow's steps and what each one checks before the contributor moves on: the shared zod
 // schemas per step, the files, the adaptation's licence, the adaptation's own safety statement and
 // the typed lengths. Pure functions of the draft's values; the store keeps the messages.
+// The schemas (and zod, 26 kB gzip) are fetched at the contributor's first edit or first step left,
+// not with the page: loadPartSchemas() before a check, which then runs synchronously.
 import type { z } from 'zod';
 import { checkAdaptationLicence, isLicenceId, type LicenceId } from '@shared/licences';
-import { partSubmissionSchema, partUpdateSchema } from '@shared/schemas/part';
 import { parseLength } from '@shared/units';
-import { fieldErrors } from '@shared/validation';
+import { fieldErrors } from '@shared/field-errors';
 import type { KeyDimensionRow } from './partDraftFields';
+
+type PartSchemas = typeof import('@shared/schemas/part');
+let schemas: PartSchemas | null = null;
+let loading: Promise<PartSchemas> | null = null;
+
+/** Fetches the part schemas once; every check waits for this first. */
+export function loadPartSchemas(): Promise<PartSchemas> {
+  loading ??= import('@shared/schemas/part').then((m) => (schemas = m));
+  loading.catch(() => (loading = null));
+  return loading;
+}
+
+export const partSchemasLoaded = () => schemas !== null;
+
+/** The part schemas, once loadPartSchemas() has resolved. */
+export function partSchemas(): PartSchemas {
+  if (!schemas) throw new Error('The part schemas are not loaded yet: await loadPartSchemas() before checking.');
+  return schemas;
+}
 
 export const STEPS = [
   { key: 'details', label: 'What it is', short: 'About' },
@@ -87,17 +107,17 @@ function dimensionIssues(d: StepInputs): Record<string, string> {
 export function issuesOf(step: StepKey, d: StepInputs): Record<string, string> {
   switch (step) {
     case 'details':
-      return schemaIssues(partSubmissionSchema.pick(PICKS.details), d.fields);
+      return schemaIssues(partSchemas().partSubmissionSchema.pick(PICKS.details), d.fields);
     case 'files':
       return d.fileIssues();
     case 'fit':
-      return { ...schemaIssues(partSubmissionSchema.pick(PICKS.fit), d.fields), ...dimensionIssues(d) };
+      return { ...schemaIssues(partSchemas().partSubmissionSchema.pick(PICKS.fit), d.fields), ...dimensionIssues(d) };
     case 'recipes':
-      return schemaIssues(partSubmissionSchema.pick(PICKS.recipes), d.fields);
+      return schemaIssues(partSchemas().partSubmissionSchema.pick(PICKS.recipes), d.fields);
     case 'licence':
-      return { ...schemaIssues(partSubmissionSchema.pick(PICKS.licence), d.fields), ...licenceIssues(d), ...safetyIssues(d) };
+      return { ...schemaIssues(partSchemas().partSubmissionSchema.pick(PICKS.licence), d.fields), ...licenceIssues(d), ...safetyIssues(d) };
     case 'review': {
-      const whole = d.mode === 'edit' ? schemaIssues(partUpdateSchema, d.fields) : schemaIssues(partSubmissionSchema, d.submission);
+      const whole = d.mode === 'edit' ? schemaIssues(partSchemas().partUpdateSchema, d.fields) : schemaIssues(partSchemas().partSubmissionSchema, d.submission);
       const all: Record<string, string> = { ...whole };
       for (const s of STEPS) if (s.key !== 'review') Object.assign(all, issuesOf(s.key, d));
       return all;

@@ -99,6 +99,9 @@ const Aura = {
   css,
 } as unknown as Parameters<typeof definePreset>[0]; // aura/css is typed as a named export but ships as the default
 
+/** PrimeVue's theme options for the preset: `p-` names, no CSS layer. */
+export const THEME_OPTIONS = { prefix: 'p', darkModeSelector: '.rs-dark', cssLayer: false } as const;
+
 export const RigshelfPreset = definePreset(Aura, {
   primitive: {
     borderRadius: { none: '0', xs: '2px', sm: '3px', md: '5px', lg: '7px', xl: '10px' },

@@ -14,8 +14,13 @@
  * browser context, so nothing is cached), and when the route's own heading (main h1) appeared: the
  * first paint may be the header bar index.html draws before the app's script runs, the heading is the
  * app itself. A bare page fulfilled by the browser itself is the floor.
- * Targets: compressed responses, hashed assets immutable for a year, ≤ 120 kB gzip of JavaScript on
- * every route's first load, median FCP ≤ 600 ms for home, search and a part page.
+ * What a visitor waits for: a page with a heavy part it does not need to work (the 3D view, the make
+ * page's part generator) marks the moment it works (performance mark `rigshelf:usable`, set by
+ * src/lib/usable.ts once its content and form are on screen) and starts that part afterwards. Scripts
+ * requested after the mark are printed apart ("after it works"); the mark counts only when the route's
+ * heading was already in the page, and a page without it has every script counted as before.
+ * Targets: compressed responses, hashed assets immutable for a year, ≤ 120 kB gzip of JavaScript before
+ * each route works on its first load, median FCP ≤ 600 ms for home, search and a part page.
  * The machine is shared: the load average is printed beside the figures.
  *
  *   --loads N        cold loads per route with an FCP target (home, search, a part page); default 7
@@ -55,7 +60,10 @@ interface LoadFigures {
   fcpMs: number | null;
   /** When the route's own heading (main h1) was first in the page: the app, not the boot shell. */
   headingMs: number | null;
-  scripts: { url: string; raw: number; gzip: number; wire: number; encoding: string }[];
+  /** When the page said it works (its `rigshelf:usable` mark), if after the heading appeared. */
+  usableMs: number | null;
+  /** later: requested after the page said it works. */
+  scripts: { url: string; raw: number; gzip: number; wire: number; encoding: string; startedAt: number; later: boolean }[];
   documentCacheControl: string;
   assetCacheControl: string;
 }
@@ -194,6 +202,8 @@ try {
             .then((z) => z.responseBodySize)
             .catch(() => Number(response.headers()['content-length'] ?? NaN));
           return {
+            startedAt: request.timing().startTime,
+            later: false,
             url: url.pathname,
             raw: body.length,
             gzip: gzipSync(body, { level: 9 }).length,
@@ -209,10 +219,16 @@ try {
       return entry ? entry.startTime : null;
     });
     const headingMs = await page.evaluate(() => (window as unknown as { __headingAt?: number }).__headingAt ?? null);
+    const mark = await page.evaluate(() => {
+      const entry = performance.getEntriesByName('rigshelf:usable', 'mark')[0];
+      return entry ? { at: entry.startTime, epoch: performance.timeOrigin + entry.startTime } : null;
+    });
+    const usable = mark && headingMs !== null && mark.at >= headingMs ? mark : null;
     const scripts = (await Promise.all(pending)).filter((s) => s !== null);
+    for (const s of scripts) s.later = !!usable && s.startedAt > usable.epoch;
     await context.close();
     const unique = new Map(scripts.map((s) => [s.url, s]));
-    return { fcpMs, headingMs, scripts: [...unique.values()], documentCacheControl, assetCacheControl };
+    return { fcpMs, headingMs, usableMs: usable?.at ?? null, scripts: [...unique.values()], documentCacheControl, assetCacheControl };
   }
 
   // the floor: a page with one heading and nothing to fetch
@@ -233,7 +249,21 @@ try {
   );
   console.log(`bare page (no script, no request): median FCP ${median(bare).toFixed(0)} ms\n`);
   const rows: string[][] = [
-    ['route', 'path', 'as', 'scripts', 'JS raw kB', 'JS gzip kB', 'on the wire kB', 'encoding', 'FCP median ms', 'FCP min–max', 'heading median ms'],
+    [
+      'route',
+      'path',
+      'as',
+      'scripts',
+      'JS raw kB',
+      'JS gzip kB',
+      'on the wire kB',
+      'encoding',
+      'after it works gzip kB',
+      'FCP median ms',
+      'FCP min–max',
+      'heading median ms',
+      'works median ms',
+    ],
   ];
   const notes: string[] = [];
   for (const route of routes) {
@@ -244,29 +274,34 @@ try {
     // the figures come from the load that fetched the most, which is the route's whole first load
     const first = loads.reduce((a, b) => (b.scripts.reduce((t, x) => t + x.gzip, 0) > a.scripts.reduce((t, x) => t + x.gzip, 0) ? b : a));
     const unfinished = loads.filter((l) => l.headingMs === null).length;
-    const raw = first.scripts.reduce((a, s) => a + s.raw, 0);
-    const gzip = first.scripts.reduce((a, s) => a + s.gzip, 0);
-    const wire = first.scripts.reduce((a, s) => a + s.wire, 0);
+    const before = first.scripts.filter((s) => !s.later);
+    const raw = before.reduce((a, s) => a + s.raw, 0);
+    const gzip = before.reduce((a, s) => a + s.gzip, 0);
+    const wire = before.reduce((a, s) => a + s.wire, 0);
+    const later = first.scripts.filter((s) => s.later).reduce((a, s) => a + s.gzip, 0);
     const encodings = [...new Set(first.scripts.map((s) => s.encoding))].join(',');
+    const usables = loads.map((l) => l.usableMs).filter((x): x is number => x !== null);
     const fcps = loads.map((l) => l.fcpMs).filter((x): x is number => x !== null);
     const fcp = median(fcps);
     rows.push([
       route.name,
       route.path,
       route.as,
-      String(first.scripts.length),
+      String(before.length),
       kB(raw),
       kB(gzip) + (gzip > 120_000 ? ' (over 120)' : ''),
       kB(wire),
       encodings,
+      later ? kB(later) : '–',
       fcp.toFixed(0) + (route.fcpTarget && fcp > 600 ? ' (over 600)' : ''),
       `${Math.min(...fcps).toFixed(0)}–${Math.max(...fcps).toFixed(0)}`,
       median(loads.map((l) => l.headingMs).filter((x): x is number => x !== null)).toFixed(0) + (unfinished ? ` (${unfinished} without)` : ''),
+      usables.length ? median(usables).toFixed(0) : '–',
     ]);
     notes.push(`${route.name}: page Cache-Control "${first.documentCacheControl}", hashed asset Cache-Control "${first.assetCacheControl}"`);
     if (process.argv.includes('--files')) {
       for (const s of [...first.scripts].sort((a, b) => b.gzip - a.gzip))
-        notes.push(`    ${kB(s.gzip).padStart(7)} kB gzip  ${kB(s.raw).padStart(7)} kB raw  ${s.url}`);
+        notes.push(`    ${kB(s.gzip).padStart(7)} kB gzip  ${kB(s.raw).padStart(7)} kB raw  ${s.url}${s.later ? '  (after it works)' : ''}`);
     }
   }
   const widths = rows[0].map((_, c) => Math.max(...rows.map((r) => r[c].length)));

@@ -26,8 +26,7 @@ describe('browser · admin accounts', () => {
     await row.waitFor();
 
     // picking a role asks first; "leave it" changes nothing
-    await row.getByRole('combobox', { name: `Role of ${member.displayName}` }).click();
-    await page.getByRole('option', { name: 'moderator' }).click();
+    await row.getByRole('combobox', { name: `Role of ${member.displayName}` }).selectOption({ label: 'moderator' });
     const dialog = page.getByRole('alertdialog');
     await dialog.waitFor();
     expect(await dialog.textContent()).toContain(`Make ${member.displayName} a moderator?`);
@@ -35,8 +34,7 @@ describe('browser · admin accounts', () => {
     expect(await roleOf()).toBe('member');
 
     // yes applies it, and undo takes it back
-    await row.getByRole('combobox', { name: `Role of ${member.displayName}` }).click();
-    await page.getByRole('option', { name: 'moderator' }).click();
+    await row.getByRole('combobox', { name: `Role of ${member.displayName}` }).selectOption({ label: 'moderator' });
     await dialog.getByRole('button', { name: 'Change it' }).click();
     const undo = page.locator('[data-test="admin-undo"]');
     await undo.waitFor();

@@ -42,8 +42,7 @@ describe('browser · camera builds and wanted parts', () => {
     await page.locator('[data-test="new-build"]').click();
     await page.waitForURL((url) => url.searchParams.get('new') === '1');
     await page.locator('[data-test="build-name"]').fill('C-camera, rain day');
-    await page.locator('[data-test="build-body"]').click();
-    await page.getByRole('option', { name: 'Korvel KX-8' }).click();
+    await page.locator('[data-test="build-body"]').selectOption({ label: 'Korvel KX-8' });
     await page.locator('[data-test="build-mount-battery-v-style"]').check();
     await page.locator('[data-test="build-mount-screw-1-4-20"]').check();
     await rig.screenshot('builds-2-new-build-desk');

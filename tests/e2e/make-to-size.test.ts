@@ -34,8 +34,7 @@ describe('browser · make to size', () => {
     expect(await page.locator('[data-test="make-sound"]').textContent()).toContain('closed');
 
     // the server's estimate and bed fit for one of the member's printers
-    await page.locator('#make-printer').click();
-    await page.getByRole('option', { name: 'Cart printer' }).click();
+    await page.locator('#make-printer').selectOption({ label: 'Cart printer' });
     await page.locator('[data-test="make-bed-fit"]', { hasText: 'Cart printer' }).waitFor();
     const estimate = (await page.locator('[data-test="make-estimate"]').textContent()) ?? '';
     expect(estimate).toMatch(/\d+(\.\d)? g\s*filament/);
@@ -51,8 +50,7 @@ describe('browser · make to size', () => {
     expect(analysis.sizeMm[0]).toBeCloseTo(88.8, 0);
 
     // into the demo kit
-    await page.locator('[data-test="make-kit"]').click();
-    await page.getByRole('option', { name: 'The Salt Road — car unit' }).click();
+    await page.locator('[data-test="make-kit"]').selectOption({ label: 'The Salt Road — car unit' });
     await page.locator('[data-test="make-add-to-kit"]').click();
     await page.locator('.p-toast-message', { hasText: 'Added to The Salt Road — car unit' }).waitFor();
 

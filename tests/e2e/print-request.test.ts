@@ -40,11 +40,12 @@ describe('browser · print request', () => {
     const dialog = page.locator('[data-test="ask-print-dialog"]');
     await dialog.locator('[data-test="ask-printer"]').waitFor();
     // other crew members have printers too: choose one of the 1st AC's
-    await dialog.locator('[data-test="ask-printer"]').click();
-    await page
-      .getByRole('option', { name: new RegExp(`· ${owner.displayName} ·`) })
+    const printer = dialog.locator('[data-test="ask-printer"]');
+    const theirs = await printer
+      .locator('option', { hasText: new RegExp(`· ${owner.displayName} ·`) })
       .first()
-      .click();
+      .textContent();
+    await printer.selectOption({ label: theirs!.trim() });
     await dialog.locator('#ask-note').fill('For the A camera’s follow focus.');
     await dialog.locator('[data-test="ask-print-send"]').click();
     await page.waitForURL((url) => /^\/print-requests\/\d+$/.test(url.pathname));

@@ -65,14 +65,14 @@ describe('browser · shoot kit', () => {
     // the cradle in PLA instead of its recipe's PETG
     const cradle = item(page, 'receiver-cradle-for-15-mm-rods');
     await cradle.locator('[data-test^="item-more-"]').click();
-    await cradle.locator('[id^="material-"]').click();
-    await page.getByRole('option', { name: /^PLA · / }).click();
+    const material = cradle.locator('select[id^="material-"]');
+    await material.selectOption({ label: (await material.locator('option', { hasText: /^PLA · / }).textContent())!.trim() });
     await cradle.locator('[data-test^="item-save-"]').click();
     await cradle.locator('[data-test="item-material"]', { hasText: 'PLA' }).waitFor();
 
     // two yokes: the quantity stepper saves by itself
     const yoke = item(page, 'dashboard-monitor-yoke');
-    await yoke.locator('.p-inputnumber-increment-button').click();
+    await yoke.getByRole('button', { name: 'One piece more' }).click();
     await page.locator('[data-test="total-pieces"]', { hasText: /^4$/ }).waitFor();
 
     // the heat warning names safer materials, and the kit says so at the top

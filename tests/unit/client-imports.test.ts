@@ -58,10 +58,16 @@ describe('client imports', () => {
     }
   });
 
-  it('client import graph · zod · only with the submit flow, whose store checks each step as it is left', () => {
-    // forms import their schema in the submit handler (await import('@shared/schemas/…'))
+  it('client import graph · zod · only behind import(), the submit flow’s checks included', () => {
+    // forms import their schema in the submit handler (await import('@shared/schemas/…')); the submit
+    // flow fetches its schemas at the first touch of the form (loadPartSchemas in partDraftSteps.ts)
     const chain = reached.get('zod');
-    if (chain) expect(chain, `zod is imported through ${chain.join(' → ')}`).toContain('src/stores/partDraft.ts');
+    expect(chain, `zod is imported through ${chain?.join(' → ')}`).toBeUndefined();
+  });
+
+  it('client import graph · the theme preset · build time only (src/theme/static-css.ts)', () => {
+    const preset = [...reached].filter(([spec]) => spec.startsWith('@primeuix/themes'));
+    expect(preset.map(([spec, chain]) => `${spec} through ${chain.join(' → ')}`)).toEqual([]);
   });
 
   it('client import graph · three.js and chart.js · only behind import()', () => {

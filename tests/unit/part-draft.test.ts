@@ -1,8 +1,9 @@
 import { createPinia, setActivePinia } from 'pinia';
-import { beforeEach, describe, expect, it } from 'vitest';
-import { stepOfField, usePartDraftStore } from '@/stores/partDraft';
+import { beforeAll, beforeEach, describe, expect, it } from 'vitest';
+import { loadPartSchemas, stepOfField, usePartDraftStore } from '@/stores/partDraft';
 import { formatSizeIn, formatSizeMm } from '@/lib/format';
 
+beforeAll(() => loadPartSchemas());
 beforeEach(() => setActivePinia(createPinia()));
 
 describe('part draft · server field keys', () => {
