@@ -108,15 +108,18 @@ export function createApp({ config, sequelize, mailer }: AppContext) {
       userId: data.passport?.user ?? null,
     }),
   });
-  // rolling sessions are touched after the answer's headers and first bytes went out: a touch that
-  // fails (its database node went away that moment) would cut the answer off, though it only moves
-  // the expiry on, which the member's next request does again
+  // A rolling session is touched after its answer's headers and first bytes went out, and the rest
+  // of the answer waited for it: a touch the database refused (its node going away) cut the answer
+  // off, and an instance killed meanwhile left it half sent. The touch only moves the expiry on, so
+  // the answer finishes at once and the touch is written beside it (a failed one is logged; the
+  // member's next request moves the expiry on again).
   const touch = store.touch.bind(store);
-  store.touch = (sid, data, callback) =>
+  store.touch = (sid, data, callback) => {
     touch(sid, data, (err?: unknown) => {
       if (err) console.error(`rigshelf: a session's expiry could not be moved on (${err instanceof Error ? err.message : String(err)})`);
-      callback?.(undefined);
     });
+    callback?.(undefined);
+  };
   app.use(
     '/api',
     session({

@@ -68,7 +68,7 @@ export const SHORT_FORM: ClusterRunOptions = {
   afterMs: 15_000,
 };
 
-/** CI's form: the same faults in the same order and every check, with less load and a shorter window. */
+/** A form sized for CI: the same faults in the same order and every check, with less load and a shorter window. */
 export const CI_FORM: ClusterRunOptions = {
   ...LONG_FORM,
   members: 4,

@@ -1,6 +1,6 @@
 // `npm run test:cluster`: the cluster fault run (tests/cluster/harness.ts); prints the figures and
 // exits 1 if anything did not hold. `-- --short` runs the shorter form (6 members, 60 s), `-- --ci`
-// CI's form (4 members, 40 s: the same faults and checks in about two and a half minutes);
+// a form sized for CI (4 members, 40 s: the same faults and checks in about two minutes);
 // `-- --set name=value` changes one figure; CLUSTER_STORAGE=local uses a shared folder instead of
 // the S3 fake; CLUSTER_SERVER=tsx runs the instances from the sources instead of dist-server/;
 // CLUSTER_PORT_BASE moves every port.
