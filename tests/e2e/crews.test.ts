@@ -42,10 +42,19 @@ describe('browser · crews', () => {
     await page.setViewportSize(PHONE);
     await signInThroughForm(page, admin.email, DEMO_PASSWORD);
     await page.waitForURL((url) => url.pathname === '/');
-    const mailbox = await page.request.get('/api/dev/mailbox');
-    const messages = (await mailbox.json()).items as { to: string[]; text: string }[];
-    const invitation = messages.find((m) => m.to.join(' ').includes(admin.email) && m.text.includes('/invitations/'))!;
-    const link = new URL(/https?:\/\/\S+\/invitations\/[A-Za-z0-9_-]+/.exec(invitation.text)![0]);
+    // the outbox delivers on its own loop: look until the invitation is in the local mailbox
+    let invitation: { to: string[]; text: string } | undefined;
+    await expect
+      .poll(
+        async () => {
+          const messages = (await (await page.request.get('/api/dev/mailbox')).json()).items as { to: string[]; text: string }[];
+          invitation = messages.find((m) => m.to.join(' ').includes(admin.email) && m.text.includes('/invitations/'));
+          return !!invitation;
+        },
+        { timeout: 30_000 },
+      )
+      .toBe(true);
+    const link = new URL(/https?:\/\/\S+\/invitations\/[A-Za-z0-9_-]+/.exec(invitation!.text)![0]);
     await page.goto(link.pathname);
     expect(await page.locator('[data-test="invitation-crew"]').textContent()).toBe(DEMO_CREW_NAME);
     await rig.screenshot('crews-2-invitation-phone');
