@@ -42,14 +42,14 @@ describe('browser · crews', () => {
     await page.setViewportSize(PHONE);
     await signInThroughForm(page, admin.email, DEMO_PASSWORD);
     await page.waitForURL((url) => url.pathname === '/');
-    // the outbox sends in the background: the mail arrives a moment after the invitation is saved
+    // the outbox delivers on its own loop: look until the invitation is in the local mailbox
     let invitation: { to: string[]; text: string } | undefined;
     await expect
       .poll(
         async () => {
-          const messages = ((await (await page.request.get('/api/dev/mailbox')).json()).items ?? []) as { to: string[]; text: string }[];
+          const messages = (await (await page.request.get('/api/dev/mailbox')).json()).items as { to: string[]; text: string }[];
           invitation = messages.find((m) => m.to.join(' ').includes(admin.email) && m.text.includes('/invitations/'));
-          return Boolean(invitation);
+          return !!invitation;
         },
         { timeout: 30_000 },
       )
