@@ -129,6 +129,6 @@ export const http = {
   patch: <T>(path: string, body: unknown) => send<T>('PATCH', path, body),
   put: <T>(path: string, body: unknown) => send<T>('PUT', path, body),
   delete: <T>(path: string) => send<T>('DELETE', path),
-  /** A POST that may be sent again (queued offline): the server files it once per key. */
+  /** A POST that may be sent again (queued offline, resent after a lost answer): the server files it once per key. */
   postOnce: <T>(path: string, body: unknown, idempotencyKey: string) => send<T>('POST', path, body, false, { 'Idempotency-Key': idempotencyKey }),
 };

@@ -20,6 +20,7 @@ import type { PartSubmission, PartUpdate } from '@shared/schemas/part';
 import type { HealthStatus, PartSummary, PublicUser } from '@shared/types';
 import type { NoticeList, ReviewDecisionResult, ReviewDetail, ReviewQueueItem } from '@shared/api/review';
 import type { ReviewAction } from '@shared/review';
+import { newWriteKey } from '@/lib/write-key';
 import type { CameraBodyInfo, MailboxMessage, OutboxItem } from '@shared/types';
 import type { CameraBodyInput } from '@shared/schemas/vocab';
 import type {
@@ -126,11 +127,12 @@ export const partsApi = {
   published: async (): Promise<PartSummary[]> => (await http.get<PartList>('/api/parts')).items,
   /** By numeric id or slug. */
   get: (idOrSlug: number | string) => http.get<PartDetail>(partPath(idOrSlug)),
-  submit(input: PartSubmission, files: PartUploadFiles): Promise<PartCreated> {
+  /** `key` stays the same while one draft is sent again, so a submission whose answer was lost is filed once. */
+  submit(input: PartSubmission, files: PartUploadFiles, key: string): Promise<PartCreated> {
     const form = new FormData();
     form.append('data', JSON.stringify(input));
     appendFiles(form, files);
-    return http.post<PartCreated>('/api/parts', form);
+    return http.postOnce<PartCreated>('/api/parts', form, key);
   },
   update: (id: number, patch: PartUpdate) => http.patch<PartDetail>(partPath(id), patch),
   addFiles(id: number, files: PartUploadFiles, options: { drawnInInches: boolean }): Promise<PartDetail> {
@@ -196,7 +198,7 @@ export const planningApi = {
   deleteKit: (id: number) => http.delete<void>(kitPath(id)),
   /** Takes the signed-in member off a kit someone shared with them. */
   leaveKit: (id: number) => http.delete<void>(`${kitPath(id)}/shares/me`),
-  addItem: (kitId: number, input: KitItemInput) => http.post<KitItemInfo>(`${kitPath(kitId)}/items`, input),
+  addItem: (kitId: number, input: KitItemInput, key: string = newWriteKey()) => http.postOnce<KitItemInfo>(`${kitPath(kitId)}/items`, input, key),
   updateItem: (kitId: number, itemId: number, patch: KitItemPatch) => http.patch<KitItemInfo>(`${kitPath(kitId)}/items/${itemId}`, patch),
   removeItem: (kitId: number, itemId: number) => http.delete<void>(`${kitPath(kitId)}/items/${itemId}`),
   /** Replaces who the kit is shared with (owner only). */
