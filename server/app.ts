@@ -194,6 +194,12 @@ export function createApp({ config, sequelize, mailer }: AppContext) {
       else for (const row of await ReportPhoto.findAll({ where: { id: ids } })) photos.clean(row, () => ReportPhoto.findByPk(row.id));
     },
     takeRenders: renders ? async (ids) => parts.takeOver(await PartFile.findAll({ where: { id: ids } })) : undefined,
+    sharedChores: [
+      async () => {
+        const due = await printRequests.resumeRefunds();
+        if (due) console.log(`rigshelf: ${due} due refund(s) tried again`);
+      },
+    ],
   });
 
   const tokens = createTokenService({ config, mailer });

@@ -87,9 +87,8 @@ export async function startServer(config: Config): Promise<RunningServer> {
     throw err;
   }
   mailer.start();
+  // after listen: the job loop's first round tries due refunds, and the payments fake's webhook needs us up
   built.services.jobs.start();
-  // refunds that were due when the server last stopped (after listen: the fake's webhook needs us up)
-  void built.services.printRequests.resumeRefunds().then((n) => n && console.log(`rigshelf: ${n} due refund(s) retried`));
   const lag = config.LOOP_LAG_LOG_S ? logLoopLag(config.LOOP_LAG_LOG_S) : null;
   const address = server.address();
   const port = typeof address === 'object' && address ? address.port : config.PORT;

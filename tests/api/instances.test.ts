@@ -10,6 +10,7 @@ import { PartFile } from '../../server/db/models';
 import { loadConfig } from '../../server/config';
 import { migrate, withSchemaLock } from '../../server/db/migrator';
 import { createSequelize } from '../../server/db/sequelize';
+import { createJobRunner } from '../../server/modules/jobs/runner';
 import { agentFor, createTestApp, makeUser, testConfig, uploadsDir, type TestApp } from '../helpers/app';
 import { boxStl } from '../helpers/meshes';
 import { jpegWithGps } from '../helpers/photos';
@@ -265,6 +266,27 @@ describe('instances · background jobs', { timeout: 180_000 }, () => {
     await sleep(1100);
     expect(await b.services.claims.tryLease('test-chore', 1)).toBe(true);
     expect(await b.services.claims.othersAlive()).toBeGreaterThanOrEqual(0);
+  });
+});
+
+describe('instances · shared chores', { timeout: 120_000 }, () => {
+  it('shared chores · two job loops running a round at once · a chore such as the due refunds runs on one instance only', async () => {
+    await a.sequelize.query("DELETE FROM job_leases WHERE name = 'chores'");
+    let runs = 0;
+    const loopOf = (app: TestApp) =>
+      createJobRunner({
+        sequelize: app.sequelize,
+        claims: app.services.claims,
+        busy: () => 0,
+        takePhotos: async () => undefined,
+        sharedChores: [
+          async () => {
+            runs += 1;
+          },
+        ],
+      });
+    await Promise.all([loopOf(a).tick(), loopOf(b).tick()]);
+    expect(runs).toBe(1);
   });
 });
 

@@ -13,15 +13,17 @@ export interface JobRunnerDeps {
   takeRenders?: (ids: number[]) => Promise<void>;
   /** Photos and pictures in hand here: new ones are only taken while this is small. */
   busy(): number;
+  /** Further shared chores (refunds that are due, say): run with the clean-ups, by one instance at a time. */
+  sharedChores?: (() => Promise<void>)[];
 }
 
-/** Shared clean-ups (expired rate-limit counters, old change-log rows) run at most this often. */
+/** Shared clean-ups (expired rate-limit counters, old change-log rows, due refunds) run at most this often. */
 const CHORES_EVERY_MS = 60_000;
 /** Change-log rows older than this are dropped (the newest row always stays). */
 const CHANGE_LOG_KEEP_S = 3600;
 const TAKE_AT_ONCE = 2;
 
-export function createJobRunner({ sequelize, claims, takePhotos, takeRenders, busy }: JobRunnerDeps) {
+export function createJobRunner({ sequelize, claims, takePhotos, takeRenders, busy, sharedChores = [] }: JobRunnerDeps) {
   const intervalMs = Math.min(5000, (claims.leaseS * 1000) / 3);
   const presence = `instance:${claims.instanceId}`.slice(0, 128);
   let timer: NodeJS.Timeout | null = null;
@@ -64,6 +66,7 @@ export function createJobRunner({ sequelize, claims, takePhotos, takeRenders, bu
     }
     // instances that stopped long ago leave their presence rows behind
     await sequelize.query("DELETE FROM job_leases WHERE name LIKE 'instance:%' AND lease_until < NOW(3) - INTERVAL 1 DAY", { type: QueryTypes.DELETE });
+    for (const chore of sharedChores) await chore();
   }
 
   /** One round: leases, take-overs, chores. */

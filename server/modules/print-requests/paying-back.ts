@@ -35,7 +35,7 @@ export function payingBack({ sequelize, payments, record, visible, link, publicU
     try {
       refund = await payments.refund(r.paymentRef, `rigshelf-refund-${r.id}-${r.paymentRef}`);
     } catch (err) {
-      console.error(`rigshelf: refund of print request ${r.id} failed, will retry at start-up: ${(err as Error).message}`);
+      console.error(`rigshelf: refund of print request ${r.id} failed, tried again with the next shared chores (about a minute): ${(err as Error).message}`);
       return;
     }
     await transact(sequelize, async (t) => {
@@ -157,7 +157,7 @@ export function payingBack({ sequelize, payments, record, visible, link, publicU
       return { received: true };
     },
 
-    /** At start-up: refunds that were due when the service last stopped. */
+    /** Refunds still due (the payments service was away, or the server stopped before it answered). */
     async resumeRefunds(): Promise<number> {
       const due = await PrintRequest.findAll({ where: { paymentStatus: 'refund_due' }, attributes: ['id'] });
       for (const r of due) await settleRefund(r.id);
