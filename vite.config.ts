@@ -1,5 +1,6 @@
 /// <reference types="vitest/config" />
 import { readdirSync, readFileSync } from 'node:fs';
+import { availableParallelism } from 'node:os';
 import { join } from 'node:path';
 import { fileURLToPath, URL } from 'node:url';
 import vue from '@vitejs/plugin-vue';
@@ -134,6 +135,9 @@ export default defineConfig({
     modulePreload: { polyfill: false },
   },
   test: {
+    // Most test files wait on MariaDB or chromium; on a 2-core machine a second worker keeps the CPU busy
+    // (vitest's own default there is one). The process files run alone after the rest (below).
+    maxWorkers: Math.max(2, availableParallelism() - 1),
     projects: [
       {
         extends: true,
@@ -158,6 +162,8 @@ export default defineConfig({
           name: 'process',
           include: ['tests/process/**/*.test.ts', 'tests/chaos/**/*.test.ts'],
           environment: 'node',
+          // they time shutdowns and restarts of real processes: alone, after the other files
+          maxWorkers: 1,
           testTimeout: 180_000,
           hookTimeout: 60_000,
         },

@@ -14,6 +14,7 @@ import { initModels, User } from '../../server/db/models';
 import { createMailer, type Mailer } from '../../server/modules/mail/outbox';
 import { hashPassword } from '../../server/security/password';
 import type { Role } from '@shared/types';
+import { copyDemo } from './demo-template';
 
 export interface TestApp {
   app: ReturnType<typeof createApp>['app'];
@@ -52,6 +53,9 @@ export function testConfig(overrides: Record<string, string> = {}): Config {
 // Sequelize models are classes bound to one instance; when a second app (a "restart") closes,
 // the models go back to the app that is still open.
 const open: Sequelize[] = [];
+export function rebindModels() {
+  if (open.length) initModels(open[open.length - 1]);
+}
 
 /**
  * `demo: true` seeds the demo scenario the demo tests were written against (seeders up to 0011);
@@ -59,11 +63,13 @@ const open: Sequelize[] = [];
  */
 export async function createTestApp(overrides: Record<string, string> = {}, options: { demo?: boolean | 'full' } = {}): Promise<TestApp> {
   const config = testConfig(overrides);
+  // a copy of the run's seeded demo, when there is one, stands in for the seed
+  const copied = options.demo ? await copyDemo(options.demo === 'full' ? 'full' : 'scenario', config) : false;
   const sequelize = createSequelize(config);
   await migrate(sequelize);
   const mailer = await createMailer({ config, sequelize });
   const built = createApp({ config, sequelize, mailer });
-  if (options.demo) await seedDemo(sequelize, built.services, options.demo === 'full' ? {} : { to: '0011-demo-builds-and-wanted' });
+  if (options.demo && !copied) await seedDemo(sequelize, built.services, options.demo === 'full' ? {} : { to: '0011-demo-builds-and-wanted' });
   await built.services.search.start();
   open.push(sequelize);
   return {
@@ -77,7 +83,7 @@ export async function createTestApp(overrides: Record<string, string> = {}, opti
       await mailer.close();
       await sequelize.close();
       open.splice(open.indexOf(sequelize), 1);
-      if (open.length) initModels(open[open.length - 1]);
+      rebindModels();
     },
   };
 }

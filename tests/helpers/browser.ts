@@ -4,6 +4,7 @@ import { join, resolve } from 'node:path';
 import { chromium, type Browser, type BrowserContext, type Page } from 'playwright-core';
 import { startServer, type RunningServer } from '../../server/index';
 import { testConfig } from './app';
+import { copyDemo } from './demo-template';
 
 export const ARTIFACTS = resolve(import.meta.dirname, '../../test-results');
 
@@ -17,7 +18,10 @@ export interface BrowserRig {
 }
 
 export async function startBrowserRig(): Promise<BrowserRig> {
-  const server = await startServer(testConfig({ PORT: '0', RIGSHELF_DEMO: '1' }));
+  const config = testConfig({ PORT: '0', RIGSHELF_DEMO: '1' });
+  // a copy of the run's seeded demo shelf; the server's own seed then has nothing left to do
+  await copyDemo('full', config);
+  const server = await startServer(config);
   const browser = await chromium.launch({
     executablePath: process.env.CHROMIUM_PATH ?? '/usr/bin/chromium',
     headless: true,
