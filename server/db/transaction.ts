@@ -26,6 +26,13 @@ export interface Attempt {
   onRollback(undo: () => Promise<void> | void): void;
 }
 
+const unanswered = new WeakSet<object>();
+
+/** True for an error transact() threw because a commit went unanswered: its rows may have landed. */
+export function commitOutcomeUnknown(err: unknown): boolean {
+  return err instanceof Object && unanswered.has(err);
+}
+
 /**
  * The pause before attempt `attempt + 1` (attempt counts from 1): "equal jitter", a random time
  * between half and all of the capped exponential step, so retries spread out but never vanish.
@@ -63,6 +70,7 @@ export async function transact<T>(
       // work, files without rows are removed by the start-up sweep, so the files stay where they are.
       if (committing && !isRetriableTransactionError(err)) {
         console.error('rigshelf: a commit ended without an answer; its files stay in place for the start-up sweep to settle');
+        if (err instanceof Object) unanswered.add(err);
         throw err;
       }
       for (const undo of undos.reverse()) {

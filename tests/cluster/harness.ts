@@ -34,6 +34,9 @@ export interface ClusterRunOptions {
   killNodeAt: number;
   restartInstanceAt: number;
   restartNodeAt: number;
+  /** With STORAGE=s3: when the S3 fake is stopped (a fraction of the load's duration) and for how long; 0 ms skips it. */
+  storeAwayAt: number;
+  storeAwayMs: number;
   /** Parts approved after the load, to time every instance's search. */
   searchProbes: number;
   /** The stated bound for every instance's search to find a newly published part. */
@@ -54,6 +57,8 @@ export const LONG_FORM: ClusterRunOptions = {
   killNodeAt: 0.35,
   restartInstanceAt: 0.5,
   restartNodeAt: 0.6,
+  storeAwayAt: 0.7,
+  storeAwayMs: 15_000,
   searchProbes: 3,
   searchBoundMs: 5_000,
   afterMs: 30_000,
@@ -73,6 +78,7 @@ export const CI_FORM: ClusterRunOptions = {
   ...LONG_FORM,
   members: 4,
   durationMs: 40_000,
+  storeAwayMs: 5_000,
   searchProbes: 1,
   afterMs: 8_000,
 };
@@ -125,8 +131,17 @@ export interface ClusterSummary {
   /** haproxy's log of the sessions that did not end normally (termination state, status, timings). */
   balancerLog: string[];
   galera: { node: string; size: number; state: string }[];
+  /** While the S3 fake was stopped: the requests that need no file (search, part pages, ratings, kit items) and the rest. */
+  storeAway: {
+    ms: number;
+    fileFree: { requests: number; failed: number };
+    uploads: { requests: number; statuses: Record<string, { count: number; statuses: Record<string, number> }> };
+  } | null;
   durationMs: number;
 }
+
+/** Routes of the load that touch no stored file: they should not notice the object store going away. */
+const FILE_FREE_ROUTES = new Set(['search', 'part', 'rate', 'kit-item']);
 
 const runId = () => Date.now().toString(36);
 
@@ -373,6 +388,13 @@ export async function runClusterFaults(options: ClusterRunOptions): Promise<Clus
       await node.start(false);
       recovery[`${node.name}: restart to Synced`] = Date.now() - nodeAt;
       mark(`Galera ${node.name} Synced`);
+      if (options.storage !== 's3' || options.storeAwayMs <= 0) return;
+      await at(options.storeAwayAt);
+      mark('S3 fake stopped');
+      await cluster.stopObjectStore();
+      await sleep(options.storeAwayMs);
+      mark('S3 fake restarted');
+      await cluster.startObjectStore();
     })();
     await Promise.all([faults, at(1)]);
     await sleep(options.afterMs);
@@ -554,6 +576,21 @@ export async function runClusterFaults(options: ClusterRunOptions): Promise<Clus
       recovery['last 5xx after the first fault'] = lastBad - sessionsRecovered.at;
     }
 
+    const storeStopped = events.find((e) => e.name === 'S3 fake stopped');
+    const storeBack = events.find((e) => e.name === 'S3 fake restarted');
+    let storeAway: ClusterSummary['storeAway'] = null;
+    if (storeStopped && storeBack) {
+      const during = samples.filter((x) => x.at >= storeStopped.at && x.at < storeBack.at);
+      const fileFree = during.filter((x) => FILE_FREE_ROUTES.has(x.route));
+      const firstUpload = samples.filter((x) => x.route === 'submit' && x.status === 201 && x.at >= storeBack.at).sort((a, b) => a.at - b.at)[0];
+      if (firstUpload) recovery['S3 fake restart to the first stored upload'] = firstUpload.at + firstUpload.ms - storeBack.at;
+      storeAway = {
+        ms: storeBack.at - storeStopped.at,
+        fileFree: { requests: fileFree.length, failed: fileFree.filter((x) => x.status <= 0 || x.status >= 500).length },
+        uploads: { requests: during.length - fileFree.length, statuses: countByRoute(during.filter((x) => !FILE_FREE_ROUTES.has(x.route))) },
+      };
+    }
+
     return {
       options,
       requests: samples.length,
@@ -587,6 +624,7 @@ export async function runClusterFaults(options: ClusterRunOptions): Promise<Clus
       ),
       balancerLog: balancerLines.map((l) => `${((l.at - t0) / 1000).toFixed(1)} s: ${l.text.slice(0, 300)}`),
       galera,
+      storeAway,
       durationMs: Date.now() - started,
     };
   } finally {
@@ -632,6 +670,7 @@ export function verdict(s: ClusterSummary): string[] {
   if (s.sessions.survived !== s.sessions.members) p.push(`sessions: ${s.sessions.members - s.sessions.survived} of ${s.sessions.members} lost`);
   if (s.unclean.length) p.push(`${s.unclean.length} unclean error answer(s), e.g. ${s.unclean.slice(0, 3).join(' | ')}`);
   for (const g of s.galera) if (g.size !== 3 || g.state !== 'Synced') p.push(`Galera ${g.node}: size ${g.size}, ${g.state}`);
+  if (s.storeAway?.fileFree.failed) p.push(`S3 fake away: ${s.storeAway.fileFree.failed} request(s) that need no file failed`);
   return p;
 }
 
@@ -666,6 +705,14 @@ export function formatSummary(s: ClusterSummary): string {
     ...s.unclean.slice(0, 10).map((u) => `    ${u}`),
     `  Galera: ${s.galera.map((g) => `${g.node} ${g.state} (size ${g.size})`).join(', ')}`,
   );
+  if (s.storeAway) {
+    const uploads = Object.entries(s.storeAway.uploads.statuses)
+      .map(([route, r]) => `${route} ${fmt(r.statuses)}`)
+      .join('; ');
+    lines.push(
+      `  S3 fake away ${(s.storeAway.ms / 1000).toFixed(1)} s: ${s.storeAway.fileFree.requests} requests needing no file, ${s.storeAway.fileFree.failed} of them 5xx or unanswered; with files: ${uploads || 'none'}`,
+    );
+  }
   if (s.balancerLog.length)
     lines.push(`  haproxy log (abnormal sessions, state changes): ${s.balancerLog.length}`, ...s.balancerLog.slice(0, 20).map((l) => `    ${l}`));
   if (s.stuckPhotos.length) lines.push('  photos still waiting:', ...s.stuckPhotos.slice(0, 30).map((l) => `    ${l}`));

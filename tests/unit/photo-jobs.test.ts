@@ -5,7 +5,7 @@ import { afterAll, describe, expect, it, vi } from 'vitest';
 import { isPassingDatabaseFailure, MAX_PHOTO_ATTEMPTS, PhotoJobs } from '../../server/modules/files/photo-jobs';
 import type { PhotoQueue } from '../../server/modules/files/photo-queue';
 import type { PhotoResult } from '../../server/modules/files/photo-worker';
-import { uploadDirs } from '../../server/modules/files/storage';
+import { StorageUnavailableError, uploadDirs, type FileStorage } from '../../server/modules/files/storage';
 import { createLocalStorage } from '../../server/modules/files/storage-local';
 
 const root = mkdtempSync(join(tmpdir(), 'rigshelf-photo-jobs-'));
@@ -150,5 +150,53 @@ describe('photo jobs · the outcome write', () => {
     expect(isPassingDatabaseFailure(socketTimeout())).toBe(true);
     expect(isPassingDatabaseFailure({ original: { errno: 1213, message: 'Deadlock found when trying to get lock' } })).toBe(true);
     expect(isPassingDatabaseFailure(new Error('Data too long for column'))).toBe(false);
+  });
+});
+
+/** The local store whose reads fail as an object store that does not answer would (the S3 driver's StorageUnavailableError) `away` times. */
+function storeAwayFor(away: number) {
+  let refused = 0;
+  const flaky: FileStorage = Object.create(storage);
+  flaky.localCopy = async (key: string) => {
+    if (refused < away) {
+      refused += 1;
+      throw new StorageUnavailableError(`get ${key}: TimeoutError connect ETIMEDOUT`);
+    }
+    return storage.localCopy(key);
+  };
+  return { flaky, refused: () => refused };
+}
+
+describe('photo jobs · the object store away', () => {
+  it('photo jobs · the store does not answer three times, then does · cleaned once; the tries it missed do not count', async () => {
+    const queue = scriptedQueue([{ ok: true, width: 64, height: 48 }]);
+    const row = fakeRow();
+    const { flaky, refused } = storeAwayFor(3);
+    const raw = rawPhoto('store-away-then-back');
+    const errors = vi.spyOn(console, 'error').mockImplementation(() => undefined);
+    const jobs = new PhotoJobs(flaky, queue as unknown as PhotoQueue, undefined, 30_000);
+    jobs.clean({ storedName: 'store-away-then-back' }, async () => row);
+    await jobs.settled();
+    errors.mockRestore();
+    expect(refused()).toBe(3);
+    expect(queue.jobs).toBe(1);
+    expect(row).toMatchObject({ processing: 'ready', processingAttempts: 1 });
+    expect(existsSync(raw)).toBe(false);
+  }, 30_000);
+
+  it('photo jobs · the store stays away past the bound · left waiting with no try counted, never marked failed', async () => {
+    const queue = scriptedQueue([{ ok: true, width: 64, height: 48 }]);
+    const row = fakeRow();
+    const { flaky } = storeAwayFor(Infinity);
+    const raw = rawPhoto('store-away-for-long');
+    const errors = vi.spyOn(console, 'error').mockImplementation(() => undefined);
+    const jobs = new PhotoJobs(flaky, queue as unknown as PhotoQueue, undefined, 1_000);
+    jobs.clean({ storedName: 'store-away-for-long' }, async () => row);
+    await jobs.settled();
+    expect(errors.mock.calls.some(([line]) => String(line).includes('left waiting, the object store is away'))).toBe(true);
+    errors.mockRestore();
+    expect(queue.jobs).toBe(0);
+    expect(row).toMatchObject({ processing: 'pending', processingAttempts: 0 });
+    expect(existsSync(raw)).toBe(true);
   });
 });

@@ -10,8 +10,8 @@ import { transact } from '../../db/transaction';
 import { AppError } from '../../errors';
 import type { InspectedFile } from '../files/inspect';
 import type { PhotoJobs } from '../files/photo-jobs';
-import { randomStoredName, type FileStorage } from '../files/storage';
-import { keysOf, placeFiles } from '../files/stored-files';
+import type { FileStorage } from '../files/storage';
+import { keysOf, stageUploads } from '../files/stored-files';
 import { audienceOf, crewWhere, findVisiblePart, isModerator } from '../parts/access';
 import type { Alerts } from '../notices/alerts';
 import { reportWarningTexts, type RecallService } from '../recalls/service';
@@ -169,80 +169,81 @@ export function createEvidenceService({ sequelize, storage, photos, onChanged, a
       }
       const scope = `report:${part.id}`;
       let filed: { id: number; rows: ReportPhoto[]; replayed: boolean };
+      const staged = await stageUploads(
+        storage,
+        files.map((f) => ({ path: f.path, kind: 'photo' as const, extension: '' })),
+      );
       try {
-        filed = await transact(sequelize, async (t, attempt) => {
-          if (clientKey) {
-            const seen = await replayOf<{ id: number }>(actor.id, clientKey, scope, t);
-            if (seen) return { id: seen.id, rows: [] as ReportPhoto[], replayed: true };
-          }
-          const warningsBefore = recalls ? await reportWarningTexts(part.id, t) : [];
-          const report = await SetReport.create(
-            {
-              partId: part.id,
-              userId: actor.id,
-              production: input.production,
-              daysInUse: input.daysInUse,
-              conditions: input.conditions as SetCondition[],
-              recipeId: input.recipeId ?? null,
-              material: material!,
-              infillPct: input.infillPct ?? null,
-              walls: input.walls ?? null,
-              outcome: input.outcome,
-              notes: input.notes ?? null,
-              hiddenAt: null,
-              hiddenBy: null,
-              hiddenReason: null,
-            },
-            { transaction: t },
-          );
-          const rows: ReportPhoto[] = [];
-          for (const f of files) {
-            rows.push(
-              await ReportPhoto.create(
-                {
-                  reportId: report.id,
-                  storedName: randomStoredName(''),
-                  originalName: f.originalName,
-                  sizeBytes: f.size,
-                  sha256: f.sha256,
-                  width: null,
-                  height: null,
-                },
-                { transaction: t },
-              ),
-            );
-          }
-          if (clientKey) await rememberKey(actor.id, clientKey, scope, { id: report.id }, t);
-          if (recalls) await recalls.reportsChanged(part, warningsBefore, await reportWarningTexts(part.id, t), t);
-          if (alerts && TROUBLE[input.outcome] && part.authorId !== actor.id) {
-            const title = (await PartRevision.findByPk(part.publishedRevisionId!, { attributes: ['title'], transaction: t }))?.title ?? part.slug;
-            const where = input.production ? ` on ${input.production}` : '';
-            await alerts.send(
-              [part.authorId],
-              'report_trouble',
+        filed = await staged.settle(
+          transact(sequelize, async (t) => {
+            if (clientKey) {
+              const seen = await replayOf<{ id: number }>(actor.id, clientKey, scope, t);
+              if (seen) return { id: seen.id, rows: [] as ReportPhoto[], replayed: true };
+            }
+            const warningsBefore = recalls ? await reportWarningTexts(part.id, t) : [];
+            const report = await SetReport.create(
               {
-                title: `Set report: “${title}” ${TROUBLE[input.outcome]}`,
-                body: `${actor.displayName} reports that “${title}” ${TROUBLE[input.outcome]}${where} after ${input.daysInUse} ${input.daysInUse === 1 ? 'day' : 'days'} in use (${material}).`,
-                link: `/parts/${part.slug}#reports`,
-                mail: {
-                  subject: `A set report on your part: ${title} ${TROUBLE[input.outcome]}`,
-                  heading: 'A set report needs your attention',
-                  actionLabel: 'Read the report',
-                  note: input.notes ? { label: `Notes from ${actor.displayName}`, text: input.notes } : null,
-                },
+                partId: part.id,
+                userId: actor.id,
+                production: input.production,
+                daysInUse: input.daysInUse,
+                conditions: input.conditions as SetCondition[],
+                recipeId: input.recipeId ?? null,
+                material: material!,
+                infillPct: input.infillPct ?? null,
+                walls: input.walls ?? null,
+                outcome: input.outcome,
+                notes: input.notes ?? null,
+                hiddenAt: null,
+                hiddenBy: null,
+                hiddenReason: null,
               },
-              t,
-              actor.id,
+              { transaction: t },
             );
-          }
-          const undo = await placeFiles(
-            storage,
-            rows.map((row, i) => ({ from: files[i].path, key: keysOf({ kind: 'photo', storedName: row.storedName }).original })),
-            t,
-          );
-          attempt.onRollback(undo);
-          return { id: report.id, rows, replayed: false };
-        });
+            const rows: ReportPhoto[] = [];
+            for (const [i, f] of files.entries()) {
+              rows.push(
+                await ReportPhoto.create(
+                  {
+                    reportId: report.id,
+                    storedName: staged.names[i],
+                    originalName: f.originalName,
+                    sizeBytes: f.size,
+                    sha256: f.sha256,
+                    width: null,
+                    height: null,
+                  },
+                  { transaction: t },
+                ),
+              );
+            }
+            if (clientKey) await rememberKey(actor.id, clientKey, scope, { id: report.id }, t);
+            if (recalls) await recalls.reportsChanged(part, warningsBefore, await reportWarningTexts(part.id, t), t);
+            if (alerts && TROUBLE[input.outcome] && part.authorId !== actor.id) {
+              const title = (await PartRevision.findByPk(part.publishedRevisionId!, { attributes: ['title'], transaction: t }))?.title ?? part.slug;
+              const where = input.production ? ` on ${input.production}` : '';
+              await alerts.send(
+                [part.authorId],
+                'report_trouble',
+                {
+                  title: `Set report: “${title}” ${TROUBLE[input.outcome]}`,
+                  body: `${actor.displayName} reports that “${title}” ${TROUBLE[input.outcome]}${where} after ${input.daysInUse} ${input.daysInUse === 1 ? 'day' : 'days'} in use (${material}).`,
+                  link: `/parts/${part.slug}#reports`,
+                  mail: {
+                    subject: `A set report on your part: ${title} ${TROUBLE[input.outcome]}`,
+                    heading: 'A set report needs your attention',
+                    actionLabel: 'Read the report',
+                    note: input.notes ? { label: `Notes from ${actor.displayName}`, text: input.notes } : null,
+                  },
+                },
+                t,
+                actor.id,
+              );
+            }
+            return { id: report.id, rows, replayed: false };
+          }),
+          (f) => f.replayed,
+        );
       } catch (err) {
         // the same key sent twice at once: the first to commit filed it, this one answers with its id
         const seen = clientKey && err instanceof UniqueConstraintError ? await replayOf<{ id: number }>(actor.id, clientKey, scope) : undefined;

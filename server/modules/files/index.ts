@@ -1,3 +1,3 @@
 export { displayName, EXTENSION, MIME, sniffBytes, sniffFile, type SniffedType } from './sniff';
 export { filesOlderThan, randomStoredName, removeLocal, removeQuietly, uploadDirs, type FileStorage, type UploadDirs } from './storage';
-export { keysOf, placeFiles, type StoredKeys } from './stored-files';
+export { keysOf, stageUploads, type StoredKeys } from './stored-files';

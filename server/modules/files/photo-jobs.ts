@@ -3,7 +3,8 @@
 // starts, so a photo that fails twice (or took the process down twice) is marked failed for good.
 // A try's outcome is written again while the database is briefly away (a Galera node being evicted,
 // a lost connection), for up to a lease: a try that ran is not run again just because its result
-// could not be written at the first go.
+// could not be written at the first go. A try the object store did not answer does not count: it
+// is tried again after a pause for up to a lease, then left waiting for the job loop to take up.
 import { setTimeout as sleep } from 'node:timers/promises';
 import { col, ConnectionError, Model, Op, where, type ModelStatic } from 'sequelize';
 import { isDatabaseUnavailable, isRetriableTransactionError } from '../../db/errors';
@@ -11,7 +12,7 @@ import { retryDelayMs, type RetryPolicy } from '../../db/transaction';
 import { jobTableOf, MAX_LEASE_EXPIRIES, type JobClaims, type JobTable } from '../jobs/claims';
 import type { PhotoQueue } from './photo-queue';
 import type { PhotoResult } from './photo-worker';
-import { removeQuietly, type FileStorage, type LocalCopy } from './storage';
+import { removeQuietly, StorageUnavailableError, type FileStorage, type LocalCopy } from './storage';
 import { keysOf, type StoredKeys } from './stored-files';
 
 export const MAX_PHOTO_ATTEMPTS = 2;
@@ -19,11 +20,15 @@ export const MAX_PHOTO_ATTEMPTS = 2;
 /** Without job claims (one process, tests) an outcome is written again for this long at most. */
 const OUTCOME_RETRY_MS = 30_000;
 const OUTCOME_BACKOFF: RetryPolicy = { attempts: Infinity, baseDelayMs: 100, maxDelayMs: 2000 };
+const STORE_BACKOFF: RetryPolicy = { attempts: Infinity, baseDelayMs: 500, maxDelayMs: 5000 };
 
 /** The database did not answer or refused for a moment; the same write may simply be sent again. */
 export function isPassingDatabaseFailure(err: unknown): boolean {
   return err instanceof ConnectionError || isDatabaseUnavailable(err) || isRetriableTransactionError(err);
 }
+
+/** A try's result, or word that the object store did not answer (the photo was not looked at). */
+type TryResult = PhotoResult | { ok: false; storeAway: true; error: string };
 
 type Outcome = { processing: 'ready'; width: number; height: number } | { processing: 'failed' };
 /** What writing an outcome came to: written here, already settled (by an earlier write that landed, or another instance), taken by another instance, or the row is gone. */
@@ -85,7 +90,8 @@ export class PhotoJobs {
     const outputs = [keys.display, keys.thumbnail];
     const remove = (...k: (string | undefined)[]) => removeQuietly(this.storage, ...k);
     let leaseExpiries = 0;
-    for (;;) {
+    let storeAwaySince: number | null = null;
+    for (let storeTries = 1; ;) {
       const current = await this.retryWhileAway(reload);
       if (!current) {
         await remove(keys.original, ...outputs);
@@ -113,9 +119,21 @@ export class PhotoJobs {
       await this.retryWhileAway(() => current.update({ processingAttempts: attempts }));
       const result = await this.process(keys);
       // shutting down: the try does not count, and the start-up sweep resumes the photo
-      if (!result.ok && result.interrupted) {
+      if (!result.ok && 'interrupted' in result && result.interrupted) {
         await current.update({ processingAttempts: current.processingAttempts - 1 });
         return;
+      }
+      if (!result.ok && 'storeAway' in result) {
+        await this.retryWhileAway(() => current.update({ processingAttempts: attempts - 1 }));
+        storeAwaySince ??= Date.now();
+        const pause = retryDelayMs(storeTries++, STORE_BACKOFF);
+        if (Date.now() + pause - storeAwaySince > this.outcomeRetryMs) {
+          // released in clean(); the job loop takes a waiting photo nobody holds up again
+          console.error(`photo ${row.storedName}: left waiting, the object store is away (${result.error})`);
+          return;
+        }
+        await sleep(pause);
+        continue;
       }
       if (result.ok) {
         // the row first: if the database fails here the raw upload is still there for the next start
@@ -181,11 +199,12 @@ export class PhotoJobs {
    * The worker reads and writes local files: the raw upload is fetched to a local copy (the local
    * driver hands out the file itself) and the sizes are stored once both are written.
    */
-  private async process(keys: StoredKeys): Promise<PhotoResult> {
+  private async process(keys: StoredKeys): Promise<TryResult> {
     let source: LocalCopy;
     try {
       source = await this.storage.localCopy(keys.original);
     } catch (err) {
+      if (err instanceof StorageUnavailableError) return { ok: false, storeAway: true, error: String(err.cause ?? err.message) };
       return { ok: false, error: `the raw upload could not be read (${(err as Error).message})`, permanent: false };
     }
     const display = this.storage.localOutput(keys.display!);
@@ -198,6 +217,7 @@ export class PhotoJobs {
       }
       return result;
     } catch (err) {
+      if (err instanceof StorageUnavailableError) return { ok: false, storeAway: true, error: String(err.cause ?? err.message) };
       return { ok: false, error: `the cleaned sizes could not be stored (${(err as Error).message})`, permanent: false };
     } finally {
       await source.release();

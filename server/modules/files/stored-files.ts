@@ -1,7 +1,7 @@
 // Where each kind of stored file lives (its storage keys), shared by parts, set reports and wanted
-// requests, and how accepted uploads are placed inside a transaction.
-import type { Transaction } from 'sequelize';
-import { removeLocal, type FileStorage } from './storage';
+// requests, and how accepted uploads are placed before the write that files their rows.
+import { commitOutcomeUnknown } from '../../db/transaction';
+import { randomStoredName, type FileStorage } from './storage';
 
 export interface StoredKeys {
   /** Models and sources: the file itself. Photos: the raw upload until it is cleaned. */
@@ -29,12 +29,38 @@ export function storedNameOf(key: string): string {
   return key.replace(/^(incoming|store)\//, '').replace(/-(display|thumb)\.jpg$/, '');
 }
 
+export interface StagedUploads {
+  /** The stored name of each upload, in the order given; the rows take these. */
+  names: string[];
+  /**
+   * Awaits the write that files the rows. When it fails, the placed files are removed, unless its
+   * commit went unanswered (the rows may have landed; the start-up sweep settles such files). When
+   * `filedNothing` says the write filed no rows (a replayed Idempotency-Key), they are removed too.
+   */
+  settle<T>(write: Promise<T>, filedNothing?: (result: T) => boolean): Promise<T>;
+}
+
 /**
- * Places accepted uploads under their keys inside `t`. Returns the undo for the caller's rollback;
- * once `t` commits, the temp files are removed (with the local driver they were moved already).
+ * Places accepted uploads under new stored names before the write's transaction, so a slow object
+ * store never holds a transaction, and the rows it locks, open while bytes travel. The temp copies
+ * are removed with the request (withUploads).
  */
-export async function placeFiles(storage: FileStorage, moves: { from: string; key: string }[], t: Transaction): Promise<() => Promise<void>> {
-  const placed = await storage.placeUploads(moves);
-  t.afterCommit(() => void removeLocal(...moves.map((m) => m.from)));
-  return () => placed.undo();
+export async function stageUploads(storage: FileStorage, uploads: { path: string; kind: StoredFileRow['kind']; extension: string }[]): Promise<StagedUploads> {
+  const names = uploads.map((u) => (u.kind === 'photo' ? randomStoredName('') : randomStoredName(u.extension)));
+  const placed = await storage.placeUploads(uploads.map((u, i) => ({ from: u.path, key: keysOf({ kind: u.kind, storedName: names[i] }).original })));
+  const discard = () => placed.undo().catch((err: unknown) => console.error('rigshelf: removing the files of a write that filed nothing:', err));
+  return {
+    names,
+    async settle(write, filedNothing) {
+      let result;
+      try {
+        result = await write;
+      } catch (err) {
+        if (!commitOutcomeUnknown(err)) await discard();
+        throw err;
+      }
+      if (filedNothing?.(result)) await discard();
+      return result;
+    },
+  };
 }

@@ -1,34 +1,37 @@
-// Turning inspected uploads into file rows and files in place, inside the caller's transaction.
+// Turning inspected uploads, already placed, into file rows inside the caller's transaction; the sweep of files without rows.
 import { join } from 'node:path';
 import { imageSize } from 'image-size';
 import { Op, type Transaction } from 'sequelize';
 import { PartFile, ReportPhoto, RevisionFile, WantedPhoto } from '../../db/models';
 import type { InspectedFile } from '../files/inspect';
-import { filesOlderThan, randomStoredName, removeLocal, removeQuietly, type FileStorage } from '../files/storage';
-import { keysOf, placeFiles, storedNameOf } from '../files/stored-files';
+import { filesOlderThan, removeLocal, removeQuietly, type FileStorage } from '../files/storage';
+import { keysOf, storedNameOf } from '../files/stored-files';
 
 const KIND = { model: 'model', photo: 'photo', source: 'source' } as const;
 
+/** What a part's upload is stored as, from the form field it came in. */
+export function fileKind(file: InspectedFile): PartFile['kind'] {
+  return KIND[file.field];
+}
+
 /**
- * Creates the rows, links them to the revision after its existing files, and moves the files into
- * place. Returns an undo for the moves (call it if the transaction fails) and the new photo rows.
+ * Creates the rows of uploads already placed under `names` (stageUploads) and links them to the
+ * revision after its existing files. Returns the new rows (photos among them wait to be cleaned).
  */
 export async function attachFiles(
-  options: { storage: FileStorage; partId: number; revisionId: number; createdBy: number; files: InspectedFile[] },
+  options: { partId: number; revisionId: number; createdBy: number; files: InspectedFile[]; names: string[] },
   transaction: Transaction,
-) {
-  const { storage, partId, revisionId, createdBy, files } = options;
+): Promise<PartFile[]> {
+  const { partId, revisionId, createdBy, files, names } = options;
   const start = ((await RevisionFile.max<number, RevisionFile>('position', { where: { revisionId }, transaction })) ?? -1) + 1;
   const rows: PartFile[] = [];
-  const moves: { from: string; key: string }[] = [];
   for (const [i, file] of files.entries()) {
-    const kind = KIND[file.field];
-    const storedName = kind === 'photo' ? randomStoredName('') : randomStoredName(file.extension);
+    const kind = fileKind(file);
     const row = await PartFile.create(
       {
         partId,
         kind,
-        storedName,
+        storedName: names[i],
         originalName: file.originalName,
         mime: kind === 'photo' ? 'image/jpeg' : file.mime,
         sizeBytes: file.size,
@@ -45,10 +48,8 @@ export async function attachFiles(
     );
     await RevisionFile.create({ revisionId, fileId: row.id, position: start + i }, { transaction });
     rows.push(row);
-    moves.push({ from: file.path, key: keysOf(row).original });
   }
-  const undo = await placeFiles(storage, moves, transaction);
-  return { rows, undo };
+  return rows;
 }
 
 export async function removeStoredFiles(storage: FileStorage, row: Pick<PartFile, 'kind' | 'storedName'>) {

@@ -8,17 +8,17 @@ import { checkAdaptationLicence, isLicenceId } from '@shared/licences';
 import type { PartVisibility } from '@shared/schemas/crews';
 import type { PartSubmission, PartUpdate } from '@shared/schemas/part';
 import { CrewMember, Part, PartFile, PartRevision, ReportPhoto, RevisionFile, type User, type WantedPhoto } from '../../db/models';
-import { transact, type Attempt } from '../../db/transaction';
+import { transact } from '../../db/transaction';
 import { AppError } from '../../errors';
 import { rememberKey, replayOf } from '../evidence/client-keys';
 import type { InspectedFile } from '../files/inspect';
 import type { PhotoJobs } from '../files/photo-jobs';
 import type { RenderJobs } from '../files/render-jobs';
 import type { FileStorage } from '../files/storage';
-import { keysOf } from '../files/stored-files';
+import { keysOf, stageUploads } from '../files/stored-files';
 import { parseParams } from '../make/made';
 import { assertCanEdit, audienceOf, crewAllows, crewWhere, findVisiblePart, seesUnpublished } from './access';
-import { attachFiles, removeStoredFiles, sweepUploads } from './part-files';
+import { attachFiles, fileKind, removeStoredFiles, sweepUploads } from './part-files';
 import { presentPart, presentSummaries } from './presenter';
 import {
   bodyIdsFor,
@@ -135,11 +135,22 @@ export function createPartsService({ sequelize, storage, sweepMinAgeMs, photos, 
   }
 
   /**
-   * Runs a write in one transaction (retried on deadlock); files moved into place go back to where
-   * they were if an attempt fails, and photos are queued once the write has committed.
+   * Places the uploads first (stageUploads), then runs the write in one transaction (retried on
+   * deadlock) with their stored names; the files are removed again if it files nothing, and photos
+   * are queued once it has committed.
    */
-  async function writeWithFiles<T>(work: (t: Transaction, attempt: Attempt) => Promise<{ result: T; photos?: PartFile[] }>) {
-    const out = await transact(sequelize, work);
+  async function writeWithFiles<T>(
+    files: InspectedFile[],
+    work: (t: Transaction, names: string[]) => Promise<{ result: T; photos?: PartFile[]; filedNothing?: boolean }>,
+  ) {
+    const staged = await stageUploads(
+      storage,
+      files.map((f) => ({ path: f.path, kind: fileKind(f), extension: f.extension })),
+    );
+    const out = await staged.settle(
+      transact(sequelize, (t) => work(t, staged.names)),
+      (o) => o.filedNothing === true,
+    );
     queuePhotos(out.photos ?? []);
     return out.result;
   }
@@ -202,10 +213,10 @@ export function createPartsService({ sequelize, storage, sweepMinAgeMs, photos, 
       const crewId = await crewIdFor(actor, input.visibility);
       type Created = { id: number; slug: string; status: string };
 
-      return writeWithFiles(async (t, attempt) => {
+      return writeWithFiles(files, async (t, names) => {
         if (clientKey) {
           const seen = await replayOf<Created>(actor.id, clientKey, 'part', t);
-          if (seen) return { result: seen };
+          if (seen) return { result: seen, filedNothing: true };
         }
         const part = await createPart(
           input.title,
@@ -248,12 +259,11 @@ export function createPartsService({ sequelize, storage, sweepMinAgeMs, photos, 
         await insertBodies(revision.id, bodyIds, t);
         await insertRecipes(revision.id, input.recipes, t);
         await part.update({ latestRevisionId: revision.id }, { transaction: t });
-        const attached = await attachFiles({ storage, partId: part.id, revisionId: revision.id, createdBy: actor.id, files }, t);
-        attempt.onRollback(attached.undo);
+        const rows = await attachFiles({ partId: part.id, revisionId: revision.id, createdBy: actor.id, files, names }, t);
         await onSubmitted?.(actor, part, revision, 'submit', t);
         const result: Created = { id: part.id, slug: part.slug, status: part.status };
         if (clientKey) await rememberKey(actor.id, clientKey, 'part', result, t);
-        return { result, photos: attached.rows };
+        return { result, photos: rows };
       }).catch(async (err: unknown) => {
         // the same key sent twice at once: the first to commit filed it, this one answers with its part
         const seen = clientKey && err instanceof UniqueConstraintError ? await replayOf<Created>(actor.id, clientKey, 'part') : undefined;
@@ -312,14 +322,13 @@ export function createPartsService({ sequelize, storage, sweepMinAgeMs, photos, 
 
     async addFiles(actor: User, id: string, files: InspectedFile[]) {
       if (!files.length) throw AppError.field('model', 'Choose at least one file to add.');
-      await writeWithFiles(async (t, attempt) => {
+      await writeWithFiles(files, async (t, names) => {
         const part = await findVisiblePart(actor, id, t);
         assertCanEdit(actor, part);
         const edit = await editableRevision(part, actor, t);
-        const attached = await attachFiles({ storage, partId: part.id, revisionId: edit.revision.id, createdBy: actor.id, files }, t);
-        attempt.onRollback(attached.undo);
+        const rows = await attachFiles({ partId: part.id, revisionId: edit.revision.id, createdBy: actor.id, files, names }, t);
         await afterEdit(actor, part, edit, t, { changes: [], filesAdded: files.map((f) => f.originalName) });
-        return { result: undefined, photos: attached.rows };
+        return { result: undefined, photos: rows };
       });
       return this.get(actor, id);
     },

@@ -15,11 +15,12 @@ import { mountStandard } from '@shared/catalogue';
 import { MAX_WANTED_PHOTOS, type WantedData, type WantedListQuery } from '@shared/schemas/wanted';
 import { CameraBody, Part, PartRevision, User, WantedAnswer, WantedPhoto, WantedRequest } from '../../db/models';
 import { AppError } from '../../errors';
+import { transact } from '../../db/transaction';
 import { bodyInfo, resolveBody } from '../builds/bodies';
 import type { InspectedFile } from '../files/inspect';
 import type { PhotoJobs } from '../files/photo-jobs';
-import { randomStoredName, type FileStorage } from '../files/storage';
-import { keysOf, placeFiles } from '../files/stored-files';
+import type { FileStorage } from '../files/storage';
+import { keysOf, stageUploads } from '../files/stored-files';
 import { mailTemplates } from '../mail/templates';
 import { notices } from '../notices/service';
 import { audienceOf, crewAllows, isModerator } from '../parts/access';
@@ -128,56 +129,51 @@ export function createWantedService({ sequelize, storage, photos, mail, publicUr
         throw AppError.field('photo', `Attach at most ${MAX_WANTED_PHOTOS} photos or sketches.`, 'Some fields need another look.');
       }
       const body = await resolveBody(input.body);
-      const t = await sequelize.transaction();
-      let undo: (() => Promise<void>) | undefined;
-      try {
-        const request = await WantedRequest.create(
-          {
-            authorId: actor.id,
-            title: input.title,
-            details: input.details,
-            bodyId: body?.id ?? null,
-            mounts: input.mounts,
-            keySizes: input.keySizes,
-            neededBy: input.neededBy,
-            searchedFor: input.searchedFor,
-            closeReason: null,
-            closeNote: null,
-            closedAt: null,
-            closedBy: null,
-          },
-          { transaction: t },
-        );
-        const rows: WantedPhoto[] = [];
-        for (const f of files) {
-          rows.push(
-            await WantedPhoto.create(
-              {
-                requestId: request.id,
-                storedName: randomStoredName(''),
-                originalName: f.originalName,
-                sizeBytes: f.size,
-                sha256: f.sha256,
-                width: null,
-                height: null,
-              },
-              { transaction: t },
-            ),
+      const staged = await stageUploads(
+        storage,
+        files.map((f) => ({ path: f.path, kind: 'photo' as const, extension: '' })),
+      );
+      const filed = await staged.settle(
+        transact(sequelize, async (t) => {
+          const request = await WantedRequest.create(
+            {
+              authorId: actor.id,
+              title: input.title,
+              details: input.details,
+              bodyId: body?.id ?? null,
+              mounts: input.mounts,
+              keySizes: input.keySizes,
+              neededBy: input.neededBy,
+              searchedFor: input.searchedFor,
+              closeReason: null,
+              closeNote: null,
+              closedAt: null,
+              closedBy: null,
+            },
+            { transaction: t },
           );
-        }
-        undo = await placeFiles(
-          storage,
-          rows.map((row, i) => ({ from: files[i].path, key: keysOf({ kind: 'photo', storedName: row.storedName }).original })),
-          t,
-        );
-        await t.commit();
-        for (const row of rows) photos.clean(row, () => WantedPhoto.findByPk(row.id));
-        return { id: request.id };
-      } catch (err) {
-        await t.rollback().catch(() => undefined);
-        await undo?.();
-        throw err;
-      }
+          const rows: WantedPhoto[] = [];
+          for (const [i, f] of files.entries()) {
+            rows.push(
+              await WantedPhoto.create(
+                {
+                  requestId: request.id,
+                  storedName: staged.names[i],
+                  originalName: f.originalName,
+                  sizeBytes: f.size,
+                  sha256: f.sha256,
+                  width: null,
+                  height: null,
+                },
+                { transaction: t },
+              ),
+            );
+          }
+          return { id: request.id, rows };
+        }),
+      );
+      for (const row of filed.rows) photos.clean(row, () => WantedPhoto.findByPk(row.id));
+      return { id: filed.id };
     },
 
     async list(viewer: User, query: WantedListQuery): Promise<WantedListItem[]> {

@@ -213,6 +213,16 @@ export class Cluster {
     throw new Error(`haproxy on ${this.url} did not answer /api/health`);
   }
 
+  /** Stops the S3 fake (a fault of the fault run); its objects stay on disk for the restart. */
+  async stopObjectStore(): Promise<void> {
+    await (this.s3?.close ?? this.s3?.stop)?.call(this.s3);
+  }
+
+  /** Starts the S3 fake again on its port, over the same objects. */
+  async startObjectStore(): Promise<void> {
+    this.s3 = await startObjectStore(this.objectDir, this.options.ports.s3);
+  }
+
   /** Instances first (they drain), then haproxy, the S3 fake, the Galera nodes last to first. */
   async stop(): Promise<void> {
     this.log('stopping the app instances');
