@@ -322,6 +322,8 @@ export function createPartsService({ sequelize, storage, sweepMinAgeMs, photos, 
 
     async addFiles(actor: User, id: string, files: InspectedFile[]) {
       if (!files.length) throw AppError.field('model', 'Choose at least one file to add.');
+      // before the files travel to storage; checked again inside the write
+      assertCanEdit(actor, await findVisiblePart(actor, id));
       await writeWithFiles(files, async (t, names) => {
         const part = await findVisiblePart(actor, id, t);
         assertCanEdit(actor, part);
