@@ -3,6 +3,7 @@
 //   node --import tsx server/scripts/s3-fake.ts --port 3425 --dir var/s3 --bucket rigshelf
 // prints the STORAGE/S3_* settings that point the app at it, and stops on Ctrl-C.
 import { mkdirSync } from 'node:fs';
+import type { Server } from 'node:http';
 import { resolve } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { parseArgs } from 'node:util';
@@ -53,7 +54,10 @@ export async function startS3Fake(options: { port: number; dir: string; bucket?:
     async close() {
       if (closed) return;
       closed = true;
-      await server.close();
+      const closing = server.close();
+      // the clients' kept-alive sockets would go on being served, and close() would wait for them
+      (server as unknown as { httpServer?: Server }).httpServer?.closeAllConnections();
+      await closing;
     },
   };
 }

@@ -670,6 +670,9 @@ export function verdict(s: ClusterSummary): string[] {
   if (s.sessions.survived !== s.sessions.members) p.push(`sessions: ${s.sessions.members - s.sessions.survived} of ${s.sessions.members} lost`);
   if (s.unclean.length) p.push(`${s.unclean.length} unclean error answer(s), e.g. ${s.unclean.slice(0, 3).join(' | ')}`);
   for (const g of s.galera) if (g.size !== 3 || g.state !== 'Synced') p.push(`Galera ${g.node}: size ${g.size}, ${g.state}`);
+  // a stop that waits on the clients' open connections is not an outage: the store went on serving
+  if (s.storeAway && s.storeAway.ms > s.options.storeAwayMs + 10_000)
+    p.push(`S3 fake away ${(s.storeAway.ms / 1000).toFixed(0)} s instead of ${s.options.storeAwayMs / 1000} s: stopping it took too long`);
   if (s.storeAway?.fileFree.failed) p.push(`S3 fake away: ${s.storeAway.fileFree.failed} request(s) that need no file failed`);
   return p;
 }

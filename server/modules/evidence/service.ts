@@ -11,7 +11,7 @@ import { AppError } from '../../errors';
 import type { InspectedFile } from '../files/inspect';
 import type { PhotoJobs } from '../files/photo-jobs';
 import type { FileStorage } from '../files/storage';
-import { keysOf, stageUploads } from '../files/stored-files';
+import { keysOf, photoColumns, stageUploads } from '../files/stored-files';
 import { audienceOf, crewWhere, findVisiblePart, isModerator } from '../parts/access';
 import type { Alerts } from '../notices/alerts';
 import { reportWarningTexts, type RecallService } from '../recalls/service';
@@ -201,22 +201,8 @@ export function createEvidenceService({ sequelize, storage, photos, onChanged, a
               { transaction: t },
             );
             const rows: ReportPhoto[] = [];
-            for (const [i, f] of files.entries()) {
-              rows.push(
-                await ReportPhoto.create(
-                  {
-                    reportId: report.id,
-                    storedName: staged.names[i],
-                    originalName: f.originalName,
-                    sizeBytes: f.size,
-                    sha256: f.sha256,
-                    width: null,
-                    height: null,
-                  },
-                  { transaction: t },
-                ),
-              );
-            }
+            for (const columns of photoColumns(files, staged.names))
+              rows.push(await ReportPhoto.create({ reportId: report.id, ...columns }, { transaction: t }));
             if (clientKey) await rememberKey(actor.id, clientKey, scope, { id: report.id }, t);
             if (recalls) await recalls.reportsChanged(part, warningsBefore, await reportWarningTexts(part.id, t), t);
             if (alerts && TROUBLE[input.outcome] && part.authorId !== actor.id) {

@@ -1,6 +1,7 @@
 // Where each kind of stored file lives (its storage keys), shared by parts, set reports and wanted
 // requests, and how accepted uploads are placed before the write that files their rows.
 import { commitOutcomeUnknown } from '../../db/transaction';
+import type { InspectedFile } from './inspect';
 import { randomStoredName, type FileStorage } from './storage';
 
 export interface StoredKeys {
@@ -63,4 +64,9 @@ export async function stageUploads(storage: FileStorage, uploads: { path: string
       return result;
     },
   };
+}
+
+/** The columns a set report's or wanted request's photo row takes from its staged upload (names from stageUploads, in order). */
+export function photoColumns(files: InspectedFile[], names: string[]) {
+  return files.map((f, i) => ({ storedName: names[i], originalName: f.originalName, sizeBytes: f.size, sha256: f.sha256, width: null, height: null }));
 }

@@ -20,7 +20,7 @@ import { bodyInfo, resolveBody } from '../builds/bodies';
 import type { InspectedFile } from '../files/inspect';
 import type { PhotoJobs } from '../files/photo-jobs';
 import type { FileStorage } from '../files/storage';
-import { keysOf, stageUploads } from '../files/stored-files';
+import { keysOf, photoColumns, stageUploads } from '../files/stored-files';
 import { mailTemplates } from '../mail/templates';
 import { notices } from '../notices/service';
 import { audienceOf, crewAllows, isModerator } from '../parts/access';
@@ -153,22 +153,8 @@ export function createWantedService({ sequelize, storage, photos, mail, publicUr
             { transaction: t },
           );
           const rows: WantedPhoto[] = [];
-          for (const [i, f] of files.entries()) {
-            rows.push(
-              await WantedPhoto.create(
-                {
-                  requestId: request.id,
-                  storedName: staged.names[i],
-                  originalName: f.originalName,
-                  sizeBytes: f.size,
-                  sha256: f.sha256,
-                  width: null,
-                  height: null,
-                },
-                { transaction: t },
-              ),
-            );
-          }
+          for (const columns of photoColumns(files, staged.names))
+            rows.push(await WantedPhoto.create({ requestId: request.id, ...columns }, { transaction: t }));
           return { id: request.id, rows };
         }),
       );
