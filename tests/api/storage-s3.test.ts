@@ -180,7 +180,7 @@ describe('s3 storage · nothing left behind', { timeout: 180_000 }, () => {
     expect(tmpFiles()).toEqual([]);
   });
 
-  it('s3 storage · retry · a deadlock on the first attempt (MariaDB 1213) places the files again; each row has exactly its objects', async () => {
+  it('s3 storage · a deadlock on the first attempt (MariaDB 1213) · the objects placed before the write serve the retry; each row has exactly its objects', async () => {
     const deadlock = Object.assign(new Error('Deadlock found when trying to get lock; try restarting transaction'), { errno: 1213, sqlState: '40001' });
     const spy = vi.spyOn(RevisionFile, 'create').mockRejectedValueOnce(deadlock);
     let id: number;
@@ -255,6 +255,8 @@ describe('s3 storage · a submission sent again', { timeout: 180_000 }, () => {
 });
 
 describe('s3 storage · long listings', { timeout: 180_000 }, () => {
+  // Amazon S3 API Reference, ListObjectsV2: "returns some or all (up to 1,000) of the objects in a bucket";
+  // the rest come back through NextContinuationToken
   it('s3 storage · listing more than one page (S3 answers at most 1000 keys a page) · every key comes back through the continuation token', async () => {
     const keys = Array.from({ length: 1001 }, (_, i) => `incoming/page-test-${String(i).padStart(4, '0')}`);
     for (let i = 0; i < keys.length; i += 50) await Promise.all(keys.slice(i, i + 50).map((k) => storage().put(k, 'x')));
