@@ -32,10 +32,20 @@ describe('browser · shoot kit', () => {
     await signInThroughForm(page, member.email, DEMO_PASSWORD);
     await page.waitForURL((url) => url.pathname === '/');
 
-    // an invented production; the member already has the demo kit, so the form opens on request
+    // an invented production; the member already has the demo kit, so the form opens on request,
+    // and stays open when it was asked for before the list of kits arrived (held back here)
+    let releaseList!: () => void;
+    const listHeld = new Promise<void>((resolve) => (releaseList = resolve));
+    await page.route('**/api/kits', async (route) => {
+      if (route.request().method() === 'GET') await listHeld;
+      await route.fallback();
+    });
     await page.locator('[data-test="nav-kits"]').click();
     await page.waitForURL((url) => url.pathname === '/kits');
     await page.locator('[data-test="new-kit"]').click();
+    releaseList();
+    await page.locator('.rs-kits-group').first().waitFor();
+    await page.unroute('**/api/kits');
     await page.locator('[data-test="create-kit"]').click();
     await page.locator('.rs-error', { hasText: 'Name the kit' }).waitFor();
     await page.locator('#kit-name').fill('Lantern Quay — picture car');
