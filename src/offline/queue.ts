@@ -47,10 +47,6 @@ function open() {
   return db;
 }
 
-export function newKey(): string {
-  return crypto.randomUUID();
-}
-
 export async function put(entry: QueuedEntry): Promise<void> {
   await (await open()).put('entries', entry);
 }

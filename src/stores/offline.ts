@@ -6,6 +6,7 @@ import { isApiError, queuedApi } from '@/api';
 import { onStoredCopy } from '@/api/http';
 import type * as Queue from '@/offline/queue';
 import { OFFLINE_CACHE, OFFLINE_IMAGE_CACHE } from '@/offline/routes';
+import { newWriteKey } from '@/lib/write-key';
 import { useAuthStore } from '@/stores/auth';
 
 const RETRY_MS = 30_000;
@@ -103,7 +104,7 @@ export const useOfflineStore = defineStore('offline', () => {
   async function queueReport(part: { id: number; slug: string; title: string }, input: SetReportInput, photos: File[]) {
     const queue = await openQueue();
     await queue.put({
-      key: queue.newKey(),
+      key: newWriteKey(),
       userId: me(),
       kind: 'report',
       partId: part.id,
@@ -121,7 +122,7 @@ export const useOfflineStore = defineStore('offline', () => {
   async function queueRating(part: { id: number; slug: string; title: string }, input: RatingInput) {
     const queue = await openQueue();
     await queue.put({
-      key: queue.newKey(),
+      key: newWriteKey(),
       userId: me(),
       kind: 'rating',
       partId: part.id,

@@ -14,7 +14,7 @@ import { initModels, User } from '../../server/db/models';
 import { createMailer, type Mailer } from '../../server/modules/mail/outbox';
 import { hashPassword } from '../../server/security/password';
 import type { Role } from '@shared/types';
-import { copyDemo } from './demo-template';
+import { copyDemo, seedOptions } from './demo-template';
 
 export interface TestApp {
   app: ReturnType<typeof createApp>['app'];
@@ -63,13 +63,14 @@ export function rebindModels() {
  */
 export async function createTestApp(overrides: Record<string, string> = {}, options: { demo?: boolean | 'full' } = {}): Promise<TestApp> {
   const config = testConfig(overrides);
+  const kind = options.demo === 'full' ? 'full' : 'scenario';
   // a copy of the run's seeded demo, when there is one, stands in for the seed
-  const copied = options.demo ? await copyDemo(options.demo === 'full' ? 'full' : 'scenario', config) : false;
+  const copied = options.demo ? await copyDemo(kind, config) : false;
   const sequelize = createSequelize(config);
   await migrate(sequelize);
   const mailer = await createMailer({ config, sequelize });
   const built = createApp({ config, sequelize, mailer });
-  if (options.demo && !copied) await seedDemo(sequelize, built.services, options.demo === 'full' ? {} : { to: '0011-demo-builds-and-wanted' });
+  if (options.demo && !copied) await seedDemo(sequelize, built.services, seedOptions(kind));
   await built.services.search.start();
   open.push(sequelize);
   return {

@@ -4,7 +4,6 @@
 // and files in about a second. The copy is the same data the seed would have written: the seeders'
 // own table comes with it, so seedDemo afterwards finds nothing left to run.
 import { cpSync, mkdirSync, rmSync } from 'node:fs';
-import { join } from 'node:path';
 import { createConnection, type Connection } from 'mariadb';
 import type { Sequelize } from 'sequelize';
 import { createApp } from '../../server/app';
@@ -16,24 +15,21 @@ import { createMailer } from '../../server/modules/mail/outbox';
 import { rebindModels, testConfig } from './app';
 import { templateDatabase, templateFolder, type DemoKind } from '../../server/scripts/test-templates';
 
-export type { DemoKind };
-export const SCENARIO_LAST_SEEDER = '0011-demo-builds-and-wanted';
 const READY_TABLE = 'template_ready';
 
-function connect(database?: string): Promise<Connection> {
-  return createConnection({
-    host: process.env.DB_HOST,
-    port: Number(process.env.DB_PORT),
-    user: process.env.DB_USER,
-    password: process.env.DB_PASSWORD,
-    database,
-  });
+/** How far seedDemo goes for a kind: the scenario ends with the builds and wanted seeder. */
+export function seedOptions(kind: DemoKind): { to?: string } {
+  return kind === 'full' ? {} : { to: '0011-demo-builds-and-wanted' };
+}
+
+function connect(): Promise<Connection> {
+  return createConnection({ host: process.env.DB_HOST, port: Number(process.env.DB_PORT), user: process.env.DB_USER, password: process.env.DB_PASSWORD });
 }
 
 async function seedTemplate(kind: DemoKind, database: string, folder: string) {
   rmSync(folder, { recursive: true, force: true });
   mkdirSync(folder, { recursive: true });
-  const config = testConfig({ DB_NAME: database, UPLOADS_DIR: folder, SEARCH_INDEX_FILE: join(folder, 'unused-index.json') });
+  const config = testConfig({ DB_NAME: database, UPLOADS_DIR: folder });
   let sequelize: Sequelize | null = null;
   try {
     sequelize = createSequelize(config);
@@ -41,7 +37,7 @@ async function seedTemplate(kind: DemoKind, database: string, folder: string) {
     const mailer = await createMailer({ config, sequelize });
     const built = createApp({ config, sequelize, mailer });
     try {
-      await seedDemo(sequelize, built.services, kind === 'full' ? {} : { to: SCENARIO_LAST_SEEDER });
+      await seedDemo(sequelize, built.services, seedOptions(kind));
     } finally {
       await built.close();
       await mailer.close();
@@ -51,7 +47,6 @@ async function seedTemplate(kind: DemoKind, database: string, folder: string) {
     // the models were bound to the template's connection; give them back to the file's own app
     rebindModels();
   }
-  rmSync(join(folder, 'unused-index.json'), { force: true });
 }
 
 /**

@@ -15,7 +15,7 @@ import { keysOf, photoColumns, stageUploads } from '../files/stored-files';
 import { audienceOf, crewWhere, findVisiblePart, isModerator } from '../parts/access';
 import type { Alerts } from '../notices/alerts';
 import { reportWarningTexts, type RecallService } from '../recalls/service';
-import { rememberKey, replayOf } from './client-keys';
+import { answerOfFirst, rememberKey, replayOf } from './client-keys';
 
 export interface EvidenceDeps {
   sequelize: Sequelize;
@@ -231,9 +231,7 @@ export function createEvidenceService({ sequelize, storage, photos, onChanged, a
           (f) => f.replayed,
         );
       } catch (err) {
-        // the same key sent twice at once: the first to commit filed it, this one answers with its id
-        const seen = clientKey && err instanceof UniqueConstraintError ? await replayOf<{ id: number }>(actor.id, clientKey, scope) : undefined;
-        if (!seen) throw err;
+        const seen = await answerOfFirst<{ id: number }>(err, actor.id, clientKey, scope);
         filed = { id: seen.id, rows: [], replayed: true };
       }
       for (const row of filed.rows) photos.clean(row, () => ReportPhoto.findByPk(row.id));

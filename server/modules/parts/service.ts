@@ -10,7 +10,7 @@ import type { PartSubmission, PartUpdate } from '@shared/schemas/part';
 import { CrewMember, Part, PartFile, PartRevision, ReportPhoto, RevisionFile, type User, type WantedPhoto } from '../../db/models';
 import { transact } from '../../db/transaction';
 import { AppError } from '../../errors';
-import { rememberKey, replayOf } from '../evidence/client-keys';
+import { answerOfFirst, rememberKey, replayOf } from '../evidence/client-keys';
 import type { InspectedFile } from '../files/inspect';
 import type { PhotoJobs } from '../files/photo-jobs';
 import type { RenderJobs } from '../files/render-jobs';
@@ -264,12 +264,7 @@ export function createPartsService({ sequelize, storage, sweepMinAgeMs, photos, 
         const result: Created = { id: part.id, slug: part.slug, status: part.status };
         if (clientKey) await rememberKey(actor.id, clientKey, 'part', result, t);
         return { result, photos: rows };
-      }).catch(async (err: unknown) => {
-        // the same key sent twice at once: the first to commit filed it, this one answers with its part
-        const seen = clientKey && err instanceof UniqueConstraintError ? await replayOf<Created>(actor.id, clientKey, 'part') : undefined;
-        if (!seen) throw err;
-        return seen;
-      });
+      }).catch((err: unknown) => answerOfFirst<Created>(err, actor.id, clientKey, 'part'));
     },
 
     async get(viewer: User | undefined, idOrSlug: string) {

@@ -1,11 +1,11 @@
 // A kit's items: parts from the shelf with a published recipe, on one of the kit owner's printers.
-import { UniqueConstraintError, type Transaction } from 'sequelize';
+import type { Transaction } from 'sequelize';
 import type { KitItemInfo } from '@shared/api/planning';
 import { MAX_KIT_ITEMS, type KitItemInput, type KitItemPatch } from '@shared/schemas/planning';
 import { Kit, KitItem, Part, Printer, Recipe, type User } from '../../db/models';
 import { transact } from '../../db/transaction';
 import { AppError } from '../../errors';
-import { rememberKey, replayOf } from '../evidence/client-keys';
+import { answerOfFirst, rememberKey, replayOf } from '../evidence/client-keys';
 import { audienceOf, crewAllows } from '../parts/access';
 import { findKit } from './access';
 import { touchKit } from './kits';
@@ -95,12 +95,7 @@ export function itemService({ sequelize }: Pick<PlanningDeps, 'sequelize'>) {
         await touchKit(kit, t);
         if (clientKey) await rememberKey(viewer.id, clientKey, scope, { id: item.id }, t);
         return item.id;
-      }).catch(async (err: unknown) => {
-        // the same key sent twice at once: the first to commit added it, this one answers with its id
-        const seen = clientKey && err instanceof UniqueConstraintError ? await replayOf<{ id: number }>(viewer.id, clientKey, scope) : undefined;
-        if (!seen) throw err;
-        return seen.id;
-      });
+      }).catch(async (err: unknown) => (await answerOfFirst<{ id: number }>(err, viewer.id, clientKey, scope)).id);
       return presentedItem(kitId, id);
     },
 
